@@ -1,0 +1,52 @@
+// The prognostic fields on the C grid (see model/grid.ts for the layout) and the model clock.
+
+import type { Grid } from './grid.ts';
+
+export class State {
+  /** Layer-mean zonal velocity on u faces, m s-1. */
+  u: Float64Array;
+  /** Layer-mean meridional velocity on v faces, m s-1. */
+  v: Float64Array;
+  /** Thickness anomaly h' = h - H at cell centres, m; positive = deeper thermocline. */
+  h: Float64Array;
+  /** Model time, s since the run's start, and the number of steps taken. */
+  time = 0;
+  steps = 0;
+  /**
+   * Multistep history of the nonlinear scheme: the tendencies of the two previous steps
+   * (index 0 = one step back). historyCount says how many are valid. Part of the state so that
+   * a restart continues bit for bit.
+   */
+  readonly history: { du: Float64Array[]; dv: Float64Array[]; dh: Float64Array[] };
+  historyCount = 0;
+
+  constructor(readonly grid: Grid) {
+    this.u = grid.field();
+    this.v = grid.field();
+    this.h = grid.field();
+    this.history = {
+      du: [grid.field(), grid.field()],
+      dv: [grid.field(), grid.field()],
+      dh: [grid.field(), grid.field()],
+    };
+  }
+
+  /** A deep copy, for snapshots and tests. */
+  clone(): State {
+    const s = new State(this.grid);
+    s.copyFrom(this);
+    return s;
+  }
+
+  copyFrom(o: State): void {
+    this.u.set(o.u);
+    this.v.set(o.v);
+    this.h.set(o.h);
+    this.time = o.time;
+    this.steps = o.steps;
+    this.historyCount = o.historyCount;
+    for (const key of ['du', 'dv', 'dh'] as const) {
+      for (let n = 0; n < 2; n++) this.history[key][n].set(o.history[key][n]);
+    }
+  }
+}
