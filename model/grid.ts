@@ -8,12 +8,13 @@
 // Distances are R times radians, without cos(lat): the beta-plane approximation.
 
 import type { BasinConfig } from './config.ts';
+import { InputError } from './errors.ts';
 
 export type LandShape =
   | { kind: 'rectangle'; lonWest: number; lonEast: number; latSouth: number; latNorth: number }
   | { kind: 'polygon'; points: Array<[number, number]> };
 
-export class GridError extends Error {
+export class GridError extends InputError {
   override name = 'GridError';
 }
 

@@ -9,6 +9,12 @@ export interface WindStress {
   fill(timeSeconds: number, taux: Float64Array, tauy: Float64Array): void;
   /** True when the field is the same at every time: the solver fills it once and keeps it. */
   readonly steady: boolean;
+  /**
+   * If set, the field is piecewise constant in time over intervals of this many seconds
+   * ([n u, (n+1) u)), and the solver refills only when the step's start time enters a new interval.
+   * Unset: the solver refills at every step.
+   */
+  readonly updateSeconds?: number;
 }
 
 /** No wind at all. */

@@ -1,0 +1,117 @@
+// Initial states: rest, a Gaussian thickness bump, and the analytical shapes of a free equatorial
+// Kelvin wave and a long first-meridional-mode Rossby wave (Matsuno 1966; Gill 1982, ch. 11).
+
+import type { PhysicsConfig } from './config.ts';
+import { InputError } from './errors.ts';
+import type { Grid } from './grid.ts';
+import { State } from './state.ts';
+
+export type InitialSpec =
+  | { kind: 'rest' }
+  /** h' = amplitude exp(-r^2 / radius^2), r the distance in degrees from (lon, lat). */
+  | { kind: 'bump'; lon: number; lat: number; radiusDeg: number; amplitude: number }
+  /** Kelvin wave: h' = a exp(-y^2/(2L^2)) exp(-((lon-lon0)/w)^2), u = (g'/c) h', v = 0. */
+  | { kind: 'kelvin'; lon: number; amplitude: number; zonalWidthDeg: number }
+  /** Long n = 1 Rossby wave centred at lon, with a Gaussian zonal envelope of e-folding width w. */
+  | { kind: 'rossby'; lon: number; amplitude: number; zonalWidthDeg: number };
+
+/** Equatorial scales: c = sqrt(g' H), L = sqrt(c / beta). */
+export function equatorialScales(physics: PhysicsConfig): { c: number; L: number } {
+  const c = Math.sqrt(physics.reducedGravity * physics.layerThickness);
+  return { c, L: Math.sqrt(c / physics.beta) };
+}
+
+export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSpec): State {
+  const s = new State(grid);
+  const { c, L } = equatorialScales(physics);
+  const H = physics.layerThickness;
+  const mPerDeg = grid.dx / grid.dLon;
+  switch (spec.kind) {
+    case 'rest':
+      break;
+    case 'bump': {
+      if (!(spec.radiusDeg > 0)) throw new InputError(`bump radius must be > 0 degrees (got ${spec.radiusDeg})`, 'initial.radiusDeg');
+      fillCentres(grid, s.h, (lon, lat) => {
+        const r2 = (lon - spec.lon) ** 2 + (lat - spec.lat) ** 2;
+        return spec.amplitude * Math.exp(-r2 / spec.radiusDeg ** 2);
+      });
+      break;
+    }
+    case 'kelvin': {
+      if (!(spec.zonalWidthDeg > 0)) throw new InputError(`zonal width must be > 0 degrees (got ${spec.zonalWidthDeg})`, 'initial.zonalWidthDeg');
+      const shape = (lon: number, y: number) =>
+        spec.amplitude * Math.exp(-(y * y) / (2 * L * L)) * Math.exp(-(((lon - spec.lon) / spec.zonalWidthDeg) ** 2));
+      fillCentres(grid, s.h, (lon, _lat, y) => shape(lon, y));
+      // Kelvin wave: u = (g'/c) h' = (c/H) h', in geostrophic balance with dh'/dy.
+      fillU(grid, s.u, (lon, y) => (c / H) * shape(lon, y));
+      break;
+    }
+    case 'rossby': {
+      if (!(spec.zonalWidthDeg > 0)) throw new InputError(`zonal width must be > 0 degrees (got ${spec.zonalWidthDeg})`, 'initial.zonalWidthDeg');
+      // Long-wave limit (v_t neglected) of the n = 1 mode, in units of L and c:
+      //   h'/H = F (2 y^2 + 1) e^{-y^2/2},  u/c = F (2 y^2 - 3) e^{-y^2/2},
+      //   v/c = (4/3) dF/dx 2 y e^{-y^2/2};  F moves west at c/3.
+      // (Derived from the equations in Gill 1982, §11.6, with Hermite functions.)
+      const a = spec.amplitude;
+      const w = spec.zonalWidthDeg * mPerDeg;
+      const x0 = spec.lon * mPerDeg;
+      const F = (lon: number) => Math.exp(-(((lon * mPerDeg - x0) / w) ** 2));
+      const dFdx = (lon: number) => (-2 * (lon * mPerDeg - x0)) / (w * w) * F(lon);
+      fillCentres(grid, s.h, (lon, _lat, y) => {
+        const Y = y / L;
+        return a * F(lon) * (2 * Y * Y + 1) * Math.exp(-0.5 * Y * Y);
+      });
+      fillU(grid, s.u, (lon, y) => {
+        const Y = y / L;
+        return (c / H) * a * F(lon) * (2 * Y * Y - 3) * Math.exp(-0.5 * Y * Y);
+      });
+      fillV(grid, s.v, (lon, y) => {
+        const Y = y / L;
+        return (c / H) * a * (4 / 3) * L * dFdx(lon) * 2 * Y * Math.exp(-0.5 * Y * Y);
+      });
+      break;
+    }
+  }
+  checkFinite(grid, s);
+  return s;
+}
+
+/** A state with a NaN or infinity in it is refused before the first step. */
+export function checkFinite(grid: Grid, s: State): void {
+  for (const [name, a] of [['h', s.h], ['u', s.u], ['v', s.v]] as const) {
+    for (let k = 0; k < a.length; k++) {
+      if (!Number.isFinite(a[k])) {
+        const j = Math.floor(k / grid.W) - 1;
+        const i = (k % grid.W) - 1;
+        throw new InputError(`the initial state has a non-finite ${name} (${a[k]}) at grid point i=${i}, j=${j}`, 'initial');
+      }
+    }
+  }
+}
+
+function fillCentres(grid: Grid, a: Float64Array, fn: (lon: number, lat: number, y: number) => number): void {
+  for (let j = 0; j < grid.ny; j++) {
+    for (let i = 0; i < grid.nx; i++) {
+      const k = grid.idx(i, j);
+      a[k] = grid.ocean[k] ? fn(grid.lonCentre[i], grid.latCentre[j], grid.yCentre[j]) : 0;
+    }
+  }
+}
+
+function fillU(grid: Grid, a: Float64Array, fn: (lon: number, y: number) => number): void {
+  for (let j = 0; j < grid.ny; j++) {
+    for (let i = 0; i <= grid.nx; i++) {
+      const k = grid.idx(i, j);
+      a[k] = grid.maskU[k] * fn(grid.lonFace[i], grid.yCentre[j]);
+    }
+  }
+}
+
+function fillV(grid: Grid, a: Float64Array, fn: (lon: number, y: number) => number): void {
+  for (let j = 0; j <= grid.ny; j++) {
+    for (let i = 0; i < grid.nx; i++) {
+      const k = grid.idx(i, j);
+      a[k] = grid.maskV[k] * fn(grid.lonCentre[i], grid.yFace[j]);
+    }
+  }
+}

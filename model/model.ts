@@ -1,0 +1,236 @@
+// A model run: grid, coefficients, state, wind and the time loop with blow-up checks. Hosts (the
+// engine in a worker, the command line, tests) drive it with advance() and read diagnostics.
+
+import type { ModelConfig, PhysicsConfig } from './config.ts';
+import { DAY } from './config.ts';
+import { buildCoefficients, coriolisAt, ghostFactor, largestCoriolis, type StepCoefficients } from './dynamics/coefficients.ts';
+import { linearStep, linearWork, type LinearWork } from './dynamics/linear.ts';
+import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
+import { chooseTimeStep, nonlinearWaveSpeed, stabilityLimit, type StabilityLimit } from './dynamics/stability.ts';
+import { centredField, type FieldContext, type FieldName } from './diagnostics/fields.ts';
+import { integrals, type Integrals } from './diagnostics/integrals.ts';
+import { BlowUpError, InputError } from './errors.ts';
+import { calm, type WindStress } from './forcing/stress.ts';
+import { Grid } from './grid.ts';
+import { checkFinite, initialState, type InitialSpec } from './initial.ts';
+import { State } from './state.ts';
+
+/** Flow faster than this is not an ocean any more (a blow-up), m s-1. */
+export const RUNAWAY_SPEED = 20;
+/** Steps between health scans; a blow-up grows exponentially, so it is caught within a few. */
+const HEALTH_EVERY = 10;
+
+export interface ModelOptions {
+  wind?: WindStress;
+  /** An initial-state description, or a ready state on the same grid (a restart). */
+  initial?: InitialSpec | State;
+  /** Laplacian ghost factor override (0 = zero halo); only for reproducing reference kernels. */
+  ghostOverride?: number;
+}
+
+export class Model {
+  readonly config: ModelConfig;
+  readonly physics: PhysicsConfig;
+  readonly grid: Grid;
+  readonly dt: number;
+  readonly limit: StabilityLimit;
+  readonly coefficients: StepCoefficients;
+  readonly state: State;
+  /** Current wind stress on u and v faces, N m-2. */
+  readonly taux: Float64Array;
+  readonly tauy: Float64Array;
+  /** f at cell-centre rows, s-1. */
+  readonly fCentre: Float64Array;
+  private readonly wind: WindStress;
+  private readonly accelX: Float64Array;
+  private readonly accelY: Float64Array;
+  private readonly linear: LinearWork | null;
+  private readonly nonlinear: NonlinearWork | null;
+  private windFilledFor = NaN;
+
+  constructor(config: ModelConfig, options: ModelOptions = {}) {
+    checkPhysics(config.physics);
+    this.config = config;
+    this.physics = config.physics;
+    this.grid = new Grid(config.basin, config.physics.earthRadius);
+    checkSponge(this.grid, config.physics);
+
+    const p = config.physics;
+    const c = p.mode === 'linear' ? Math.sqrt(p.reducedGravity * p.layerThickness) : nonlinearWaveSpeed(p.reducedGravity, p.layerThickness);
+    this.limit = stabilityLimit({
+      c,
+      dx: this.grid.dx,
+      dy: this.grid.dy,
+      fMax: largestCoriolis(this.grid, p),
+      viscosity: p.viscosity,
+      friction: p.friction,
+      mode: p.mode,
+    });
+    this.dt = chooseTimeStep(this.limit, config.time.dt, config.time.safety);
+    this.coefficients = buildCoefficients(this.grid, p, this.dt, options.ghostOverride ?? ghostFactor(p.slip));
+    this.fCentre = this.coefficients.fU;
+
+    const init = options.initial ?? { kind: 'rest' };
+    if (init instanceof State) {
+      if (init.grid.nx !== this.grid.nx || init.grid.ny !== this.grid.ny) {
+        throw new InputError(`the restart state is on a ${init.grid.nx} x ${init.grid.ny} grid, the scenario on ${this.grid.nx} x ${this.grid.ny}`, 'initial');
+      }
+      checkFinite(this.grid, init);
+      this.state = new State(this.grid);
+      this.state.copyFrom(init);
+    } else {
+      this.state = initialState(this.grid, p, init);
+    }
+
+    this.wind = options.wind ?? calm;
+    this.taux = this.grid.field();
+    this.tauy = this.grid.field();
+    this.accelX = this.grid.field();
+    this.accelY = this.grid.field();
+    this.linear = p.mode === 'linear' ? linearWork(this.grid) : null;
+    this.nonlinear = p.mode === 'nonlinear' ? nonlinearWork(this.grid) : null;
+    this.updateWind();
+  }
+
+  get day(): number {
+    return this.state.time / DAY;
+  }
+
+  /** Take n steps; throws BlowUpError (with day, place and hint) if the solution goes bad. */
+  advance(n: number): void {
+    for (let s = 0; s < n; s++) {
+      this.updateWind();
+      if (this.linear) {
+        linearStep(this.grid, this.coefficients, this.physics.friction, this.physics.viscosity, this.accelX, this.accelY, this.state, this.linear);
+      } else {
+        nonlinearStep(this.grid, this.coefficients, this.physics, this.taux, this.tauy, this.state, this.nonlinear!);
+      }
+      if (this.state.steps % HEALTH_EVERY === 0) this.checkHealth();
+    }
+  }
+
+  /** Steps needed to reach a model time (s) from the current one. */
+  stepsUntil(timeSeconds: number): number {
+    return Math.max(0, Math.round((timeSeconds - this.state.time) / this.dt));
+  }
+
+  integrals(): Integrals {
+    return integrals(this.grid, this.physics, this.state, this.dt);
+  }
+
+  fieldContext(): FieldContext {
+    return { grid: this.grid, physics: this.physics, state: this.state, taux: this.taux, tauy: this.tauy, fCentre: this.fCentre };
+  }
+
+  /** One output field at cell centres (nx * ny, south-west first); land is NaN. */
+  field(name: FieldName, out: Float32Array | Float64Array = new Float64Array(this.grid.nx * this.grid.ny)): Float32Array | Float64Array {
+    centredField(name, this.fieldContext(), out);
+    return out;
+  }
+
+  /** Fill the stress for the current time when the wind asks for it. */
+  private updateWind(): void {
+    const t = this.state.time;
+    const w = this.wind;
+    if (w.steady) {
+      if (!Number.isNaN(this.windFilledFor)) return;
+    } else if (w.updateSeconds && w.updateSeconds > 0) {
+      const slot = Math.floor(t / w.updateSeconds);
+      if (slot === this.windFilledFor) return;
+      this.windFilledFor = slot;
+    }
+    w.fill(t, this.taux, this.tauy);
+    if (w.steady) this.windFilledFor = 0;
+    if (this.linear) {
+      // The linear mode applies the stress over the resting depth H.
+      const rhoH = this.physics.density * this.physics.layerThickness;
+      const { maskU, maskV } = this.grid;
+      for (let k = 0; k < this.taux.length; k++) {
+        this.accelX[k] = maskU[k] * (this.taux[k] / rhoH);
+        this.accelY[k] = maskV[k] * (this.tauy[k] / rhoH);
+      }
+    }
+  }
+
+  /** Scan for NaN, a vanished layer and runaway speed; report the first bad point. */
+  checkHealth(): void {
+    const { nx, ny, W, ocean } = this.grid;
+    const { u, v, h } = this.state;
+    const H = this.physics.layerThickness;
+    for (let j = 0; j < ny; j++) {
+      for (let i = 0; i < nx; i++) {
+        const k = (j + 1) * W + i + 1;
+        if (!ocean[k]) continue;
+        const uc = 0.5 * (u[k] + u[k + 1]);
+        const vc = 0.5 * (v[k] + v[k + W]);
+        const speed = Math.sqrt(uc * uc + vc * vc);
+        const thick = H + h[k];
+        if (Number.isNaN(thick) || Number.isNaN(speed)) {
+          this.blowUp('not-a-number', i, j, 'the solution became NaN', this.stabilityHint());
+        }
+        if (thick <= 0) {
+          this.blowUp(
+            'layer-vanished',
+            i,
+            j,
+            `the upper layer vanished (thickness ${thick.toFixed(1)} m, the thermocline reached the surface)`,
+            this.physics.mode === 'linear'
+              ? 'The linear model cannot outcrop: weaken the wind, thicken the layer, or use the nonlinear mode with entrainment.'
+              : 'Raise the entrainment minimum thickness or shorten its time, or weaken the wind.',
+          );
+        }
+        if (speed > RUNAWAY_SPEED) {
+          this.blowUp('runaway-speed', i, j, `the current reached ${speed.toFixed(1)} m/s (limit ${RUNAWAY_SPEED} m/s)`, this.stabilityHint());
+        }
+      }
+    }
+  }
+
+  private stabilityHint(): string {
+    const ratio = this.dt / this.limit.dtMax;
+    return `The time step is ${this.dt.toFixed(0)} s, ${(100 * ratio).toFixed(0)}% of the ${this.limit.limitingTerm} limit ${this.limit.dtMax.toFixed(0)} s: try a shorter time step, more viscosity or friction, or a weaker wind.`;
+  }
+
+  private blowUp(cause: BlowUpError['reason'], i: number, j: number, detail: string, hint: string): never {
+    throw new BlowUpError(cause, this.day, this.grid.lonCentre[i], this.grid.latCentre[j], detail, hint);
+  }
+
+  /** f at a latitude with this run's Coriolis choice. */
+  coriolisAt(latDeg: number): number {
+    return coriolisAt(this.physics, latDeg, (latDeg * Math.PI * this.physics.earthRadius) / 180);
+  }
+}
+
+function checkPhysics(p: PhysicsConfig): void {
+  const positive: Array<[keyof PhysicsConfig, string]> = [
+    ['reducedGravity', "reduced gravity g' must be > 0 m s-2"],
+    ['layerThickness', 'layer thickness H must be > 0 m'],
+    ['density', 'density rho0 must be > 0 kg m-3'],
+    ['earthRadius', 'Earth radius must be > 0 m'],
+    ['gravity', 'gravity must be > 0 m s-2'],
+  ];
+  for (const [key, msg] of positive) {
+    const v = p[key] as number;
+    if (!(v > 0) || !Number.isFinite(v)) throw new InputError(`${msg} (got ${v})`, `physics.${key}`);
+  }
+  for (const key of ['friction', 'viscosity', 'beta'] as const) {
+    if (!(p[key] >= 0) || !Number.isFinite(p[key])) throw new InputError(`must be >= 0 (got ${p[key]})`, `physics.${key}`);
+  }
+  const sl = p.surfaceLayer;
+  if (!(sl.depth > 0 && sl.depth < p.layerThickness)) {
+    throw new InputError(`surface layer depth must lie between 0 and the layer thickness ${p.layerThickness} m (got ${sl.depth})`, 'physics.surfaceLayer.depth');
+  }
+  if (!(sl.damping > 0)) throw new InputError(`surface layer damping must be > 0 (got ${sl.damping})`, 'physics.surfaceLayer.damping');
+}
+
+function checkSponge(grid: Grid, p: PhysicsConfig): void {
+  const w = p.sponge.widthDeg;
+  if (!(w >= 0)) throw new InputError(`sponge width must be >= 0 degrees (got ${w})`, 'basin.sponge.widthDeg');
+  const height = grid.basin.latNorth - grid.basin.latSouth;
+  if (2 * w >= height) {
+    throw new InputError(
+      `the two sponge bands (${w}° each) leave no interior in a basin ${height}° tall; make the bands narrower than ${height / 2}° or the basin taller`,
+      'basin.sponge.widthDeg',
+    );
+  }
+}
