@@ -1,0 +1,67 @@
+// How problems with a scenario are reported: one issue per mistake, each with the JSON path of the
+// value at fault and a message that says what was wrong and what is allowed.
+
+import { InputError } from '../errors.ts';
+
+export interface ScenarioIssue {
+  /** JSON path of the value at fault, e.g. "physics.reducedGravity" or "wind.parts[2].envelope.ramp"; "" for the whole file. */
+  path: string;
+  /** One line: what is wrong and what is allowed. */
+  message: string;
+  /** File the issue is in, when known. */
+  file?: string;
+  /** 1-based position in the file text, when known. */
+  line?: number;
+  column?: number;
+}
+
+export type PathSegment = string | number;
+
+/** ["wind", "parts", 2, "envelope"] -> "wind.parts[2].envelope". */
+export function pathToString(segments: readonly PathSegment[]): string {
+  let out = '';
+  for (const s of segments) {
+    if (typeof s === 'number') out += `[${s}]`;
+    else out += out === '' ? s : `.${s}`;
+  }
+  return out;
+}
+
+/** "file.json: line 3, column 7: physics.reducedGravity: must be > 0 ..." (parts that are unknown are left out). */
+export function formatIssue(issue: ScenarioIssue): string {
+  const parts: string[] = [];
+  if (issue.file) parts.push(issue.file);
+  if (issue.line !== undefined) parts.push(issue.column !== undefined ? `line ${issue.line}, column ${issue.column}` : `line ${issue.line}`);
+  if (issue.path) parts.push(issue.path);
+  parts.push(issue.message);
+  return parts.join(': ');
+}
+
+/** Thrown by the loaders that cannot return a result object; carries every issue. */
+export class ScenarioError extends InputError {
+  override name = 'ScenarioError';
+  readonly issues: ScenarioIssue[];
+  constructor(issues: ScenarioIssue[]) {
+    const lines = issues.map(formatIssue);
+    super(lines.length === 1 ? lines[0] : `${lines.length} problems in the scenario:\n  ${lines.join('\n  ')}`);
+    this.issues = issues;
+  }
+}
+
+/** Show a value in a message: strings quoted, long values shortened. */
+export function show(value: unknown): string {
+  if (value === undefined) return 'nothing';
+  let s: string;
+  if (typeof value === 'string') s = JSON.stringify(value);
+  else if (typeof value === 'number') s = String(value);
+  else s = JSON.stringify(value) ?? String(value);
+  return s.length > 60 ? `${s.slice(0, 57)}...` : s;
+}
+
+/** The JSON type of a value as a user would name it. */
+export function jsonType(value: unknown): string {
+  if (value === null) return 'null';
+  if (Array.isArray(value)) return 'array';
+  if (typeof value === 'number') return Number.isInteger(value) ? 'integer' : 'number';
+  return typeof value;
+}
