@@ -72,19 +72,31 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
       break;
     }
   }
-  checkFinite(grid, s);
+  checkInitial(grid, physics, s);
   return s;
 }
 
-/** A state with a NaN or infinity in it is refused before the first step. */
-export function checkFinite(grid: Grid, s: State): void {
+/** A state with a NaN or infinity in it, or with no layer left somewhere, is refused before the first step. */
+export function checkInitial(grid: Grid, physics: PhysicsConfig, s: State): void {
+  const at = (k: number) => {
+    const j = Math.floor(k / grid.W) - 1;
+    const i = (k % grid.W) - 1;
+    return `grid point i=${i}, j=${j}`;
+  };
   for (const [name, a] of [['h', s.h], ['u', s.u], ['v', s.v]] as const) {
     for (let k = 0; k < a.length; k++) {
-      if (!Number.isFinite(a[k])) {
-        const j = Math.floor(k / grid.W) - 1;
-        const i = (k % grid.W) - 1;
-        throw new InputError(`the initial state has a non-finite ${name} (${a[k]}) at grid point i=${i}, j=${j}`, 'initial');
-      }
+      if (!Number.isFinite(a[k])) throw new InputError(`the initial state has a non-finite ${name} (${a[k]}) at ${at(k)}`, 'initial');
+    }
+  }
+  for (let k = 0; k < s.h.length; k++) {
+    const thick = physics.layerThickness + s.h[k];
+    if (grid.ocean[k] && thick <= 0) {
+      const j = Math.floor(k / grid.W) - 1;
+      const i = (k % grid.W) - 1;
+      throw new InputError(
+        `the initial state leaves no upper layer (thickness ${thick.toFixed(1)} m) at ${grid.lonCentre[i]}°E, ${grid.latCentre[j]}°N; h' must stay above -H = -${physics.layerThickness} m`,
+        'initial',
+      );
     }
   }
 }

@@ -3,7 +3,7 @@
 
 import type { ModelConfig, PhysicsConfig } from './config.ts';
 import { DAY } from './config.ts';
-import { buildCoefficients, coriolisAt, ghostFactor, largestCoriolis, type StepCoefficients } from './dynamics/coefficients.ts';
+import { buildCoefficients, coriolisAt, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
 import { linearStep, linearWork, type LinearWork } from './dynamics/linear.ts';
 import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
 import { chooseTimeStep, nonlinearWaveSpeed, stabilityLimit, type StabilityLimit } from './dynamics/stability.ts';
@@ -12,7 +12,7 @@ import { integrals, type Integrals } from './diagnostics/integrals.ts';
 import { BlowUpError, InputError } from './errors.ts';
 import { calm, type WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
-import { checkFinite, initialState, type InitialSpec } from './initial.ts';
+import { checkInitial, initialState, type InitialSpec } from './initial.ts';
 import { State } from './state.ts';
 
 /** Flow faster than this is not an ocean any more (a blow-up), m s-1. */
@@ -24,8 +24,8 @@ export interface ModelOptions {
   wind?: WindStress;
   /** An initial-state description, or a ready state on the same grid (a restart). */
   initial?: InitialSpec | State;
-  /** Laplacian ghost factor override (0 = zero halo); only for reproducing reference kernels. */
-  ghostOverride?: number;
+  /** Discretisation variant; only for reproducing the reference kernel (npm run bench). */
+  variant?: KernelVariant;
 }
 
 export class Model {
@@ -67,7 +67,7 @@ export class Model {
       mode: p.mode,
     });
     this.dt = chooseTimeStep(this.limit, config.time.dt, config.time.safety);
-    this.coefficients = buildCoefficients(this.grid, p, this.dt, options.ghostOverride ?? ghostFactor(p.slip));
+    this.coefficients = buildCoefficients(this.grid, p, this.dt, options.variant);
     this.fCentre = this.coefficients.fU;
 
     const init = options.initial ?? { kind: 'rest' };
@@ -75,7 +75,7 @@ export class Model {
       if (init.grid.nx !== this.grid.nx || init.grid.ny !== this.grid.ny) {
         throw new InputError(`the restart state is on a ${init.grid.nx} x ${init.grid.ny} grid, the scenario on ${this.grid.nx} x ${this.grid.ny}`, 'initial');
       }
-      checkFinite(this.grid, init);
+      checkInitial(this.grid, p, init);
       this.state = new State(this.grid);
       this.state.copyFrom(init);
     } else {

@@ -74,7 +74,7 @@ export function referenceStress(grid: Grid): WindStress {
 export function referenceModel(nx: number, ny: number): Model {
   const config = referenceConfig(nx, ny);
   const grid = new Grid(config.basin, config.physics.earthRadius);
-  return new Model(config, { ghostOverride: 0, wind: referenceStress(grid) });
+  return new Model(config, { variant: { ghost: 0, coriolis: 'collocated' }, wind: referenceStress(grid) });
 }
 
 /** The reference checksums: sum of h' over cells and 0.5 rho0 dx dy (H sum(u^2 + v^2) + g' sum(h'^2)). */

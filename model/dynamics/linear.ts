@@ -3,7 +3,9 @@
 //   dv/dt + f u = -g' dh'/dy + tauy/(rho0 H) - r v + A lap(v)
 //   dh'/dt + H div(u) = 0
 // Momentum uses the old h'; continuity uses the new velocities. Coriolis goes u first (with the
-// old v), then v with the new u, which keeps the scheme neutral for f dt < 2.
+// old v), then v with the new u, which keeps the scheme neutral for f dt < 2. f lives on v rows
+// and the u equation averages f v (not f times the average of v), so the Coriolis operator is
+// exactly antisymmetric and exchanges no energy (see coefficients.ts).
 
 import type { Grid } from '../grid.ts';
 import type { State } from '../state.ts';
@@ -35,7 +37,7 @@ export function linearStep(
   work: LinearWork,
 ): void {
   const { nx, ny, W, maskU, maskV } = grid;
-  const { dt, gpdx, gpdy, idx2, idy2, dtHdx, dtHdy, fU, fV, coastU, coastV, spongeH, spongeV } = c;
+  const { dt, gpdx, gpdy, idx2, idy2, dtHdx, dtHdy, fV, coriolisSouth, coriolisNorth, coastU, coastV, spongeH, spongeV } = c;
   const r = friction;
   const A = viscosity;
   const u = state.u;
@@ -46,13 +48,14 @@ export function linearStep(
 
   // 1. u on west faces, with the old v.
   for (let j = 0; j < ny; j++) {
-    const f = fU[j];
+    const fS = coriolisSouth[j];
+    const fN = coriolisNorth[j];
     const row = (j + 1) * W + 1;
     for (let k = row; k <= row + nx; k++) {
-      const vbar = 0.25 * (v[k - 1] + v[k] + v[k - 1 + W] + v[k + W]);
+      const fvbar = fS * (v[k - 1] + v[k]) + fN * (v[k - 1 + W] + v[k + W]);
       const uc = u[k];
       const lap = (u[k + 1] + u[k - 1] - 2 * uc) * idx2 + (u[k + W] + u[k - W] - 2 * uc) * idy2 + coastU[k] * uc;
-      const tend = f * vbar - gpdx * (h[k] - h[k - 1]) + accelX[k] - r * uc + A * lap;
+      const tend = fvbar - gpdx * (h[k] - h[k - 1]) + accelX[k] - r * uc + A * lap;
       un[k] = maskU[k] * (uc + dt * tend);
     }
   }

@@ -340,6 +340,8 @@ export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptio
   const size = grid.size;
   const stress: WindStress = {
     steady,
+    // Tell the solver the field is held over each interval, so it refills (and rescales) once per interval.
+    ...(interval > 0 ? { updateSeconds: interval } : {}),
     fill(timeSeconds, taux, tauy) {
       if (taux.length !== size || tauy.length !== size) {
         throw new ForcingError(`fill(): the arrays must have the grid's padded size ${size} (got ${taux.length}, ${tauy.length})`);
