@@ -6,7 +6,7 @@ import { DAY } from './config.ts';
 import { buildCoefficients, coriolisAt, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
 import { linearStep, linearWork, type LinearWork } from './dynamics/linear.ts';
 import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
-import { chooseTimeStep, nonlinearWaveSpeed, stabilityLimit, type StabilityLimit } from './dynamics/stability.ts';
+import { chooseTimeStep, stabilityLimit, type StabilityLimit } from './dynamics/stability.ts';
 import { centredField, type FieldContext, type FieldName } from './diagnostics/fields.ts';
 import { integrals, type Integrals } from './diagnostics/integrals.ts';
 import { BlowUpError, InputError } from './errors.ts';
@@ -56,9 +56,8 @@ export class Model {
     checkSponge(this.grid, config.physics);
 
     const p = config.physics;
-    const c = p.mode === 'linear' ? Math.sqrt(p.reducedGravity * p.layerThickness) : nonlinearWaveSpeed(p.reducedGravity, p.layerThickness);
     this.limit = stabilityLimit({
-      c,
+      c: Math.sqrt(p.reducedGravity * p.layerThickness),
       dx: this.grid.dx,
       dy: this.grid.dy,
       fMax: largestCoriolis(this.grid, p),

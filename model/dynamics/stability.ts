@@ -1,74 +1,108 @@
-// The time-step limit of each scheme, and the refusal of a user dt beyond it.
+// The time-step limit of each scheme, and the refusal of a user dt beyond it. One function serves
+// the solver, `pycno check` and the page (through model/scenario/derived.ts).
 
 import type { DynamicsMode } from '../config.ts';
 import { InputError } from '../errors.ts';
 
-export interface StabilityInput {
-  /** Gravity-wave speed sqrt(g' H), m s-1. */
-  c: number;
-  dx: number;
-  dy: number;
-  /** Largest |f| on the grid, s-1. */
-  fMax: number;
-  viscosity: number;
-  friction: number;
-  mode: DynamicsMode;
-}
-
 export type LimitingTerm = 'gravity-wave' | 'coriolis' | 'viscosity' | 'friction';
 
+export interface StabilityInput {
+  /** Linear gravity-wave speed sqrt(g' H), m s-1. */
+  c: number;
+  /** Cell sizes, m. */
+  dx: number;
+  dy: number;
+  /** Largest |f| in the basin, s-1. */
+  fMax: number;
+  /** Laplacian viscosity A, m2 s-1. */
+  viscosity: number;
+  /** Rayleigh friction rate r, s-1 (default 0). */
+  friction?: number;
+  mode: DynamicsMode;
+  /** Nonlinear mode: allowance for advection added to the wave speed, m s-1 (default 2). */
+  advection?: number;
+  /** Nonlinear mode: the layer may thicken to this multiple of H (default 1.5). */
+  thicknessFactor?: number;
+}
+
 export interface StabilityLimit {
+  /** Largest stable time step, s. */
   dtMax: number;
   limitingTerm: LimitingTerm;
-  /** One sentence naming the criterion and the numbers, for messages. */
+  /** One line: which term limits dt, by which criterion, with the numbers. */
   explanation: string;
+  /** The limit of each term alone, s (Infinity when the term is absent). */
+  terms: Record<LimitingTerm, number>;
 }
 
+/** Third-order Adams-Bashforth: stability interval on the imaginary axis, |omega dt| <= 0.72 (Durran 2010, from memory: 0.724). */
+export const AB3_IMAGINARY_LIMIT = 0.72;
+/** Third-order Adams-Bashforth on the negative real axis: |lambda dt| <= 6/11 (Durran 2010, from memory). */
+export const AB3_REAL_LIMIT = 6 / 11;
 /**
- * Imaginary-axis reach of third-order Adams-Bashforth (about 0.72) and its real-axis reach (6/11):
- * standard values for AB3's stability region (common practice, no source; from memory).
+ * Linear mode, Coriolis: u first with the old v, then v with the new u, is neutral for f dt < 2
+ * (reference kernel notes; the trapezoid-like ordering, common practice). 1.5 keeps a margin.
  */
-const AB3_IMAG = 0.72;
-const AB3_REAL = 6 / 11;
+export const FB_CORIOLIS_LIMIT = 1.5;
 
 /**
- * Nonlinear runs see faster waves where the layer thickens and flow carried by the current:
- * the limit uses c at 1.5 H plus 2 m s-1 of advection (a margin of our choosing).
+ * Time-step limit of the solver's schemes, as a pure function of the numbers.
+ *
+ * Linear (forward-backward on the C grid):
+ *   gravity waves  c dt sqrt(1/dx^2 + 1/dy^2) <= 1   (Mesinger & Arakawa 1976)
+ *   Coriolis       f_max dt <= 1.5                    (neutral below 2; a margin)
+ *   viscosity      A dt (4/dx^2 + 4/dy^2) <= 1        (forward Euler allows 2: a factor 2 of margin)
+ *   friction       r dt <= 1
+ * Nonlinear (third-order Adams-Bashforth):
+ *   gravity waves, advection and rotation  omega_max dt <= 0.72,
+ *       omega_max = sqrt((2 c' sqrt(1/dx^2 + 1/dy^2))^2 + f_max^2), c' = c sqrt(1.5) + 2 m/s
+ *   viscosity      A dt (4/dx^2 + 4/dy^2) <= 6/11     (real-axis interval)
+ *   friction       r dt <= 6/11
  */
-export function nonlinearWaveSpeed(reducedGravity: number, layerThickness: number): number {
-  return Math.sqrt(reducedGravity * 1.5 * layerThickness) + 2;
-}
-
 export function stabilityLimit(p: StabilityInput): StabilityLimit {
   const k = Math.sqrt(1 / (p.dx * p.dx) + 1 / (p.dy * p.dy));
   const lap = 4 / (p.dx * p.dx) + 4 / (p.dy * p.dy);
-  const km = (x: number) => (x / 1000).toFixed(1);
-  const candidates: Array<{ dt: number; term: LimitingTerm; why: string }> = [];
+  const r = p.friction ?? 0;
+  const km = (m: number) => `${(m / 1000).toPrecision(3)} km`;
+  const grid = `dx = ${km(p.dx)}, dy = ${km(p.dy)}`;
+  const orInf = (x: number) => (Number.isFinite(x) && x > 0 ? x : Infinity);
+  let terms: Record<LimitingTerm, number>;
+  let why: Record<LimitingTerm, string>;
   if (p.mode === 'linear') {
-    // Forward-backward on the C grid: c dt sqrt(1/dx^2 + 1/dy^2) <= 1 (Mesinger & Arakawa 1976).
-    candidates.push({
-      dt: 1 / (p.c * k),
-      term: 'gravity-wave',
-      why: `gravity-wave CFL for forward-backward stepping, c·dt·sqrt(1/dx²+1/dy²) ≤ 1, with c = ${p.c.toFixed(3)} m/s, dx = ${km(p.dx)} km, dy = ${km(p.dy)} km`,
-    });
-    // Neutral for f dt < 2 (u first with old v, then v with new u); 1.5 keeps a margin.
-    if (p.fMax > 0) candidates.push({ dt: 1.5 / p.fMax, term: 'coriolis', why: `inertial limit f·dt ≤ 1.5 with |f| up to ${p.fMax.toExponential(3)} s⁻¹` });
-    // Forward Euler diffusion: A dt (4/dx^2 + 4/dy^2) <= 1, half the strict bound.
-    if (p.viscosity > 0) candidates.push({ dt: 1 / (p.viscosity * lap), term: 'viscosity', why: `viscous limit A·dt·(4/dx²+4/dy²) ≤ 1 with A = ${p.viscosity} m²/s` });
-    if (p.friction > 0) candidates.push({ dt: 1 / p.friction, term: 'friction', why: `friction limit r·dt ≤ 1` });
+    terms = {
+      'gravity-wave': orInf(1 / (p.c * k)),
+      coriolis: orInf(FB_CORIOLIS_LIMIT / p.fMax),
+      viscosity: orInf(1 / (p.viscosity * lap)),
+      friction: orInf(1 / r),
+    };
+    why = {
+      'gravity-wave': `gravity waves: c dt sqrt(1/dx^2 + 1/dy^2) <= 1 (forward-backward, C grid) with c = ${p.c.toPrecision(3)} m/s, ${grid}`,
+      coriolis: `Coriolis: f_max dt <= ${FB_CORIOLIS_LIMIT} with f_max = ${p.fMax.toPrecision(3)} s-1`,
+      viscosity: `viscosity: A dt (4/dx^2 + 4/dy^2) <= 1 with A = ${p.viscosity} m2/s, ${grid}`,
+      friction: `friction: r dt <= 1 with r = ${r.toPrecision(3)} s-1`,
+    };
   } else {
-    const omega = 2 * p.c * k + p.fMax;
-    candidates.push({
-      dt: AB3_IMAG / omega,
-      term: 'gravity-wave',
-      why: `third-order Adams-Bashforth limit ω·dt ≤ ${AB3_IMAG} on the fastest frequency ω = 2c·sqrt(1/dx²+1/dy²) + |f|, with c = ${p.c.toFixed(3)} m/s (1.5 H plus 2 m/s of flow), dx = ${km(p.dx)} km, dy = ${km(p.dy)} km`,
-    });
-    if (p.viscosity > 0) candidates.push({ dt: AB3_REAL / (p.viscosity * lap), term: 'viscosity', why: `viscous limit A·dt·(4/dx²+4/dy²) ≤ 6/11 for third-order Adams-Bashforth, A = ${p.viscosity} m²/s` });
-    if (p.friction > 0) candidates.push({ dt: AB3_REAL / p.friction, term: 'friction', why: `friction limit r·dt ≤ 6/11` });
+    const advection = p.advection ?? 2;
+    const factor = p.thicknessFactor ?? 1.5;
+    const cEff = p.c * Math.sqrt(factor) + advection;
+    const omega = Math.hypot(2 * cEff * k, p.fMax);
+    terms = {
+      'gravity-wave': orInf(AB3_IMAGINARY_LIMIT / omega),
+      coriolis: Infinity, // inside omega_max
+      viscosity: orInf(AB3_REAL_LIMIT / (p.viscosity * lap)),
+      friction: orInf(AB3_REAL_LIMIT / r),
+    };
+    why = {
+      'gravity-wave': `gravity waves, advection and rotation: omega_max dt <= 0.72 (Adams-Bashforth 3), omega_max = sqrt((2 c' sqrt(1/dx^2 + 1/dy^2))^2 + f_max^2) with c' = c sqrt(${factor}) + ${advection} m/s = ${cEff.toPrecision(3)} m/s, ${grid}`,
+      coriolis: '',
+      viscosity: `viscosity: A dt (4/dx^2 + 4/dy^2) <= 6/11 (Adams-Bashforth 3) with A = ${p.viscosity} m2/s, ${grid}`,
+      friction: `friction: r dt <= 6/11 (Adams-Bashforth 3) with r = ${r.toPrecision(3)} s-1`,
+    };
   }
-  let best = candidates[0];
-  for (const c of candidates) if (c.dt < best.dt) best = c;
-  return { dtMax: best.dt, limitingTerm: best.term, explanation: best.why };
+  let limitingTerm: LimitingTerm = 'gravity-wave';
+  for (const t of ['coriolis', 'viscosity', 'friction'] as const) if (terms[t] < terms[limitingTerm]) limitingTerm = t;
+  const dtMax = terms[limitingTerm];
+  return { dtMax, limitingTerm, explanation: `dt <= ${Math.floor(dtMax)} s, set by ${why[limitingTerm]}`, terms };
 }
 
 export class StabilityError extends InputError {
@@ -79,17 +113,18 @@ export class StabilityError extends InputError {
 export function chooseTimeStep(limit: StabilityLimit, requested: number | null, safety: number): number {
   if (requested === null) return safety * limit.dtMax;
   if (!(requested > 0) || !Number.isFinite(requested)) {
-    throw new StabilityError(`time step must be a positive number of seconds (got ${requested})`);
+    throw new StabilityError(`time step must be a positive number of seconds (got ${requested})`, 'time.dtSeconds');
   }
   // A relative margin of 1e-12 lets a dt computed as exactly the limit through.
   if (requested > limit.dtMax * (1 + 1e-12)) {
     throw new StabilityError(
       `time step ${fmt(requested)} s exceeds the stability limit ${fmt(limit.dtMax)} s (${limit.explanation}); use at most ${fmt(limit.dtMax)} s or "auto"`,
+      'time.dtSeconds',
     );
   }
   return requested;
 }
 
 function fmt(x: number): string {
-  return x >= 100 ? x.toFixed(0) : x.toPrecision(4);
+  return x >= 100 ? String(Math.floor(x)) : x.toPrecision(4);
 }

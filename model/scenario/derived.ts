@@ -3,93 +3,10 @@
 
 import { DAY, type DynamicsMode } from '../config.ts';
 import type { Grid } from '../grid.ts';
+import { stabilityLimit, type StabilityLimit } from '../dynamics/stability.ts';
 import type { ResolvedScenario } from './resolve.ts';
 
-export type LimitingTerm = 'gravity-wave' | 'coriolis' | 'viscosity';
-
-export interface StabilityInput {
-  /** Linear gravity-wave speed sqrt(g' H), m s-1. */
-  c: number;
-  /** Cell sizes, m. */
-  dx: number;
-  dy: number;
-  /** Largest |f| in the basin, s-1. */
-  fMax: number;
-  /** Laplacian viscosity A, m2 s-1. */
-  viscosity: number;
-  mode: DynamicsMode;
-  /** Nonlinear mode: allowance for advection added to the wave speed, m s-1 (default 2). */
-  advection?: number;
-  /** Nonlinear mode: the layer may thicken to this multiple of H (default 1.5). */
-  thicknessFactor?: number;
-}
-
-export interface StabilityLimit {
-  /** Largest stable time step, s. */
-  dtMax: number;
-  limitingTerm: LimitingTerm;
-  /** One line: which term limits dt, by which criterion, with the numbers. */
-  explanation: string;
-  /** The limit of each term alone, s (Infinity when the term is absent). */
-  terms: Record<LimitingTerm, number>;
-}
-
-/** Third-order Adams-Bashforth: stability interval on the imaginary axis, |omega dt| <= 0.72 (Durran 2010, from memory: 0.724). */
-export const AB3_IMAGINARY_LIMIT = 0.72;
-/** Third-order Adams-Bashforth on the negative real axis: |lambda dt| <= 6/11 (Durran 2010, from memory). */
-export const AB3_REAL_LIMIT = 6 / 11;
-
-/**
- * Time-step limit of the solver's schemes, as a pure function of the numbers.
- *
- * Linear (forward-backward on the C grid):
- *   gravity waves  c dt sqrt(1/dx^2 + 1/dy^2) <= 1   (Mesinger & Arakawa 1976)
- *   Coriolis       f_max dt <= 1                      (conservative; the neutral ordering allows more)
- *   viscosity      A dt (4/dx^2 + 4/dy^2) <= 1        (forward Euler allows 2: a factor 2 of margin)
- * Nonlinear (third-order Adams-Bashforth):
- *   gravity waves and advection  omega_max dt <= 0.72, omega_max = 2 c' sqrt(1/dx^2 + 1/dy^2),
- *                                c' = sqrt(g' 1.5 H) + 2 m/s = c sqrt(1.5) + 2 m/s
- *   Coriolis       f_max dt <= 0.72                   (same imaginary-axis interval)
- *   viscosity      A dt (4/dx^2 + 4/dy^2) <= 6/11     (real-axis interval)
- */
-export function stabilityLimit(p: StabilityInput): StabilityLimit {
-  const k = Math.sqrt(1 / (p.dx * p.dx) + 1 / (p.dy * p.dy));
-  const lap = 4 / (p.dx * p.dx) + 4 / (p.dy * p.dy);
-  const km = (m: number) => `${(m / 1000).toPrecision(3)} km`;
-  const grid = `dx = ${km(p.dx)}, dy = ${km(p.dy)}`;
-  let terms: Record<LimitingTerm, number>;
-  let why: Record<LimitingTerm, string>;
-  if (p.mode === 'linear') {
-    terms = {
-      'gravity-wave': p.c > 0 ? 1 / (p.c * k) : Infinity,
-      coriolis: p.fMax > 0 ? 1 / p.fMax : Infinity,
-      viscosity: p.viscosity > 0 ? 1 / (p.viscosity * lap) : Infinity,
-    };
-    why = {
-      'gravity-wave': `gravity waves: c dt sqrt(1/dx^2 + 1/dy^2) <= 1 (forward-backward, C grid) with c = ${p.c.toPrecision(3)} m/s, ${grid}`,
-      coriolis: `Coriolis: f_max dt <= 1 with f_max = ${p.fMax.toPrecision(3)} s-1`,
-      viscosity: `viscosity: A dt (4/dx^2 + 4/dy^2) <= 1 with A = ${p.viscosity} m2/s, ${grid}`,
-    };
-  } else {
-    const advection = p.advection ?? 2;
-    const factor = p.thicknessFactor ?? 1.5;
-    const cEff = p.c * Math.sqrt(factor) + advection;
-    terms = {
-      'gravity-wave': cEff > 0 ? AB3_IMAGINARY_LIMIT / (2 * cEff * k) : Infinity,
-      coriolis: p.fMax > 0 ? AB3_IMAGINARY_LIMIT / p.fMax : Infinity,
-      viscosity: p.viscosity > 0 ? AB3_REAL_LIMIT / (p.viscosity * lap) : Infinity,
-    };
-    why = {
-      'gravity-wave': `gravity waves and advection: 2 c' sqrt(1/dx^2 + 1/dy^2) dt <= 0.72 (Adams-Bashforth 3) with c' = c sqrt(${factor}) + ${advection} m/s = ${cEff.toPrecision(3)} m/s, ${grid}`,
-      coriolis: `Coriolis: f_max dt <= 0.72 (Adams-Bashforth 3) with f_max = ${p.fMax.toPrecision(3)} s-1`,
-      viscosity: `viscosity: A dt (4/dx^2 + 4/dy^2) <= 6/11 (Adams-Bashforth 3) with A = ${p.viscosity} m2/s, ${grid}`,
-    };
-  }
-  let limitingTerm: LimitingTerm = 'gravity-wave';
-  for (const t of ['coriolis', 'viscosity'] as const) if (terms[t] < terms[limitingTerm]) limitingTerm = t;
-  const dtMax = terms[limitingTerm];
-  return { dtMax, limitingTerm, explanation: `dt <= ${dtMax.toFixed(0)} s, set by ${why[limitingTerm]}`, terms };
-}
+export { stabilityLimit, type LimitingTerm, type StabilityInput, type StabilityLimit } from '../dynamics/stability.ts';
 
 /** Largest |f| over the basin, s-1: beta |y| at the farthest wall, or 2 Omega sin|lat|. */
 export function maxCoriolis(r: ResolvedScenario): number {
@@ -109,6 +26,7 @@ export function scenarioStability(r: ResolvedScenario): StabilityLimit {
     dy: basin.dLat * mPerDeg,
     fMax: maxCoriolis(r),
     viscosity: physics.viscosity,
+    friction: physics.friction,
     mode: physics.mode,
   });
 }

@@ -172,7 +172,7 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
       lim = null; // a section of the wrong type, already reported by the schema
     }
     if (lim && Number.isFinite(lim.dtMax) && t.dtSeconds > lim.dtMax) {
-      add(['time', 'dtSeconds'], `${t.dtSeconds} s is above the stability limit: ${lim.explanation}; use at most ${Math.floor(lim.dtMax)} or "auto"`);
+      add(['time', 'dtSeconds'], `${t.dtSeconds} s is above the stability limit: ${lim.explanation}; use at most ${Math.floor(lim.dtMax)} s or "auto"`);
     }
   }
   return out;

@@ -274,10 +274,11 @@ describe('mistakes in scenario files', () => {
 
   test('time step above the stability limit gives the limit', () => {
     const j = example();
-    j.time.dtSeconds = 30000;
+    j.time.dtSeconds = 40000;
     const m = issueAt(issuesOf(j), 'time.dtSeconds').message;
-    expect(m).toMatch(/^30000 s is above the stability limit: dt <= 19643 s, set by Coriolis/);
-    expect(m).toContain('use at most 19643 or "auto"');
+    // 1 degree cells to 20 degrees: f_max = beta y = 2.289e-11 x 2.224e6 m, and 1.5 / f_max = 29464.9 s.
+    expect(m).toMatch(/^40000 s is above the stability limit: dt <= 29464 s, set by Coriolis/);
+    expect(m).toContain('use at most 29464 s or "auto"');
   });
 
   test('zero time step', () => {
