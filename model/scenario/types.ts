@@ -2,13 +2,15 @@
 // configs/scenario.schema.json describes ScenarioFile; Scenario is the same with every default in.
 // Units are those a user writes: degrees, days, metres, m s-2, N m-2 or m s-1.
 
+import { FIELD_NAMES } from '../diagnostics/fields.ts';
 import type { LandShape } from '../grid.ts';
 import type { BulkSpec, WindPart, WindSpec } from '../forcing/spec.ts';
 import type { DynamicsMode, SlipKind } from '../config.ts';
 
 export const SCENARIO_FORMAT = 'pycno-scenario/1';
 
-export const OUTPUT_FIELDS = ['h_anom', 'ssh', 'u', 'v', 'u_surf', 'v_surf', 'taux', 'tauy'] as const;
+/** The fields a run can write: the model's centred output fields (model/diagnostics/fields.ts). */
+export const OUTPUT_FIELDS = FIELD_NAMES;
 export type OutputField = (typeof OUTPUT_FIELDS)[number];
 
 export type Resolution = number | { lon: number; lat: number };

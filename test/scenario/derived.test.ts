@@ -65,7 +65,7 @@ describe('derived numbers against check-values.md section 0 (D: derived from c =
     expect([d.nx, d.ny, d.cells]).toEqual([120, 40, 4800]);
     expect(d.dxKm).toBeCloseTo(111.195, 3); // 1 degree of R1 = 111.195 km
     expect(d.outputs).toBe(31); // days 0, 2, ..., 60
-    expect(d.outputBytes).toBe(120 * 40 * 4 * 8 * 31 + (120 + 40) * 8 + 31 * 8);
+    expect(d.outputBytes).toBe(120 * 40 * 4 * 10 * 31 + (120 + 40) * 8 + 31 * 8);
     expect(d.memoryBytes).toBeGreaterThan(123 * 43 * 8 * 12);
     expect(d.dtIsAuto).toBe(true);
     expect(d.dt).toBeCloseTo(0.8 * d.stability.dtMax, 9);

@@ -66,7 +66,7 @@ describe('resolveScenario gives SI units', () => {
     expect(r.hovmollerLats).toEqual([0, 5]);
     expect(r.seed).toBe(7);
     expect(r.wind.parts).toHaveLength(1);
-    expect(r.outputFields).toEqual(['h_anom', 'ssh', 'u', 'v', 'u_surf', 'v_surf', 'taux', 'tauy']);
+    expect(r.outputFields).toEqual(['h_anom', 'ssh', 'u', 'v', 'u_surf', 'v_surf', 'u_below', 'v_below', 'taux', 'tauy']);
     expect(r.model.physics.earthRadius).toBe(6371008.7714);
     expect(DAY).toBe(86400);
   });

@@ -14,7 +14,7 @@ describe('the example scenario', () => {
     expect(r.scenario.wind.bulk).toEqual({ airDensity: 1.2, drag: 'large-pond', dragCoefficient: 0.0012 });
     expect(r.scenario.wind.updateHours).toBe(3);
     expect(r.scenario.wind.parts[0].enabled).toBe(true);
-    expect(r.scenario.output.fields).toHaveLength(8);
+    expect(r.scenario.output.fields).toHaveLength(10);
   });
 
   test('validation does not change its input', () => {

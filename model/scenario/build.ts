@@ -1,0 +1,37 @@
+// From a resolved scenario to a ready model: grid, wind, initial state. Restart and spin-up
+// states come from files or other runs, which the host reads and hands in as a State.
+
+import { buildWindStress } from '../forcing/wind.ts';
+import type { DrawnBurst } from '../forcing/bursts.ts';
+import { InputError } from '../errors.ts';
+import { Grid } from '../grid.ts';
+import { Model } from '../model.ts';
+import type { State } from '../state.ts';
+import type { ResolvedScenario } from './resolve.ts';
+
+export interface BuildOptions {
+  /** File contents by the path written in the scenario (gridded winds). */
+  files?: Map<string, string | Uint8Array>;
+  /** The starting state for initial kinds 'restart' and 'spinup' (read by the host). */
+  startState?: State;
+}
+
+export interface BuiltRun {
+  model: Model;
+  /** Random bursts drawn for this run (empty without a bursts part). */
+  bursts: DrawnBurst[];
+}
+
+export function buildModel(r: ResolvedScenario, options: BuildOptions = {}): BuiltRun {
+  const grid = new Grid(r.model.basin, r.model.physics.earthRadius);
+  const { stress, bursts } = buildWindStress(grid, r.wind, { seed: String(r.seed), files: options.files });
+  const init = r.initial;
+  if (init.kind === 'restart' || init.kind === 'spinup') {
+    if (!options.startState) {
+      const what = init.kind === 'restart' ? `the restart file ${init.path}` : `the spin-up scenario ${init.scenario}`;
+      throw new InputError(`${what} must be read first: no starting state was given`, 'initial');
+    }
+    return { model: new Model(r.model, { wind: stress, initial: options.startState }), bursts };
+  }
+  return { model: new Model(r.model, { wind: stress, initial: init }), bursts };
+}

@@ -1,0 +1,75 @@
+// What the engine sends to whoever listens (the page, the command line, the run store), and the
+// controls it takes. Frames carry typed arrays whose buffers are transferred, not copied.
+
+import type { FieldName } from '../model/diagnostics/fields.ts';
+import type { Integrals } from '../model/diagnostics/integrals.ts';
+import type { DrawnBurst } from '../model/forcing/bursts.ts';
+import type { DerivedNumbers } from '../model/scenario/derived.ts';
+
+/** Grid geometry a listener needs to draw and label fields (sent once per loaded scenario). */
+export interface GridInfo {
+  nx: number;
+  ny: number;
+  lonWest: number;
+  lonEast: number;
+  latSouth: number;
+  latNorth: number;
+  dLon: number;
+  dLat: number;
+  /** Cell-centre coordinates, degrees. */
+  lon: Float64Array;
+  lat: Float64Array;
+  /** 1 ocean, 0 land, nx * ny from the south-west corner. */
+  ocean: Uint8Array;
+}
+
+export interface LoadedScenario {
+  name: string;
+  description: string;
+  /** The scenario JSON exactly as run (defaults filled in), for saving and reproducing. */
+  scenarioJson: string;
+  grid: GridInfo;
+  derived: DerivedNumbers;
+  dt: number;
+  days: number;
+  outputEveryDays: number;
+  fields: FieldName[];
+  hovmollerLats: number[];
+  probes: Array<{ name: string; lon: number; lat: number }>;
+  bursts: DrawnBurst[];
+}
+
+/** One output interval's samples: the time series parts of a frame, never dropped. */
+export interface OutputSample {
+  day: number;
+  integrals: Integrals;
+  /** h' along each Hovmoller latitude (nx values each, NaN on land), in hovmollerLats order. */
+  hovmoller: Float32Array[];
+  /** Every field at every probe: probeValues[p][field index in LoadedScenario.fields]. */
+  probeValues: Float32Array[];
+}
+
+/**
+ * A frame: the latest full fields plus every output sample since the previous frame. The
+ * engine publishes at most about 30 per second; when the model outruns that, full fields are
+ * dropped in between but no sample is.
+ */
+export interface Frame {
+  /** Model day and step of the fields. */
+  day: number;
+  step: number;
+  /** Centred fields, nx * ny Float32 from the south-west corner, NaN on land; only the run's fields. */
+  fields: Partial<Record<FieldName, Float32Array>>;
+  integrals: Integrals;
+  samples: OutputSample[];
+  /** True on the frame that ends the run (length reached). */
+  finished: boolean;
+}
+
+export type EngineStatus = 'empty' | 'ready' | 'running' | 'paused' | 'finished' | 'failed';
+
+/** A failure as the page and the command line show it: the same text for both. */
+export interface EngineError {
+  kind: 'input' | 'blow-up' | 'internal';
+  message: string;
+}
