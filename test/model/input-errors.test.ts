@@ -92,7 +92,7 @@ describe('blow-up detection', () => {
 
   it('a vanished layer stops the run with the day, the place and a hint', () => {
     // A gale of easterlies piles the layer up in the west and lifts the thermocline to the surface in the east.
-    const m = new Model(config(b), { wind: uniformStress(-2) });
+    const m = new Model(config(b), { wind: uniformStress(config(b), -2) });
     const e = errorOf(() => m.advance(m.stepsUntil(60 * 86400)));
     expect(e).toBeInstanceOf(BlowUpError);
     const bu = e as BlowUpError;

@@ -1,8 +1,10 @@
 // Small builders shared by the physics-verification tests.
 
 import { defaultPhysics, type BasinConfig, type ModelConfig, type PhysicsConfig } from '../../model/config.ts';
+import type { WindPart } from '../../model/forcing/spec.ts';
 import type { WindStress } from '../../model/forcing/stress.ts';
-import type { Grid } from '../../model/grid.ts';
+import { buildWindStress } from '../../model/forcing/wind.ts';
+import { Grid } from '../../model/grid.ts';
 
 export function basin(lonWest: number, lonEast: number, latSouth: number, latNorth: number, res: number, land: BasinConfig['land'] = []): BasinConfig {
   return { lonWest, lonEast, latSouth, latNorth, dLon: res, dLat: res, land };
@@ -12,15 +14,18 @@ export function config(b: BasinConfig, physics: Partial<PhysicsConfig> = {}, dt:
   return { basin: b, physics: { ...defaultPhysics(), ...physics }, time: { dt, safety: 0.9 } };
 }
 
-/** A spatially uniform stress switched on at t = 0. */
-export function uniformStress(taux: number, tauy = 0): WindStress {
-  return {
-    steady: true,
-    fill(_t, tx, ty) {
-      tx.fill(taux);
-      ty.fill(tauy);
-    },
-  };
+/** A wind design's stress on a configuration's grid, through the forcing library the scenarios use. */
+export function windOn(cfg: ModelConfig, parts: WindPart[]): WindStress {
+  const grid = new Grid(cfg.basin, cfg.physics.earthRadius);
+  const spec = { parts, bulk: { airDensity: 1.2, drag: 'large-pond' as const, dragCoefficient: 1.2e-3 }, updateHours: 3 };
+  return buildWindStress(grid, spec, { seed: 'tests' }).stress;
+}
+
+/** A spatially uniform stress (N m-2) switched on at t = 0. */
+export function uniformStress(cfg: ModelConfig, taux: number, tauy = 0): WindStress {
+  return windOn(cfg, [
+    { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'uniform' }, x: taux, y: tauy }, envelope: { kind: 'constant' } },
+  ]);
 }
 
 /** Values of a centred field along row j. */

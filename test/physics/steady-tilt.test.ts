@@ -24,7 +24,7 @@ function spinUp(width: number, res: number, gp: number, H: number, years: number
       friction: 1 / (365 * DAY),
       sponge: { widthDeg: 5, rateAtWall: 1 / (5 * DAY) },
     }),
-    { wind: uniformStress(TAU) },
+    { wind: uniformStress(config(b), TAU) },
   );
   m.advance(m.stepsUntil(years * 365 * DAY));
   const j0 = m.grid.nearestRow(0);

@@ -15,7 +15,8 @@ const b = basin(0, 200, -20.25, 20.25, 0.5);
 
 describe('Yoshida jet under a uniform westerly stress', () => {
   it('equatorial u grows as tau t / (rho0 H) within 3 % over the first days', () => {
-    const m = new Model(config(b, { reducedGravity: 0.03, layerThickness: 150 }), { wind: uniformStress(TAU) });
+    const cfg = config(b, { reducedGravity: 0.03, layerThickness: 150 });
+    const m = new Model(cfg, { wind: uniformStress(cfg, TAU) });
     const j0 = m.grid.nearestRow(0);
     expect(m.grid.latCentre[j0]).toBe(0);
     const iMid = Math.round(m.grid.nx / 2);
@@ -29,7 +30,8 @@ describe('Yoshida jet under a uniform westerly stress', () => {
   });
 
   it('off the equator (12 N) the mean meridional flow is the Ekman drift -tau/(rho0 H f) within 5 %', () => {
-    const m = new Model(config(b, { reducedGravity: 0.03, layerThickness: 150 }), { wind: uniformStress(TAU) });
+    const cfg = config(b, { reducedGravity: 0.03, layerThickness: 150 });
+    const m = new Model(cfg, { wind: uniformStress(cfg, TAU) });
     const j = m.grid.nearestRow(12);
     const lat = m.grid.latCentre[j];
     const f = m.coriolisAt(lat);
