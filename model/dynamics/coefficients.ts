@@ -27,13 +27,16 @@ export interface StepCoefficients {
   spongeRowsH: Int32Array;
   spongeRowsV: Int32Array;
   /**
-   * Coast term of the Laplacian per face: lap(u) = standard 5-point stencil (missing neighbours
-   * count as 0) + coastU * u. A tangential neighbour beyond a coast is a ghost value s * u with
-   * s = +1 (free slip: no shear at the coast) or -1 (no slip: u = 0 at the coast); the zero the
-   * stencil already holds there is corrected by s / d^2 per such neighbour.
+   * Coast term of the Laplacian: lap(u) = standard 5-point stencil (missing neighbours count as
+   * 0) + coast * u. A tangential neighbour beyond a coast is a ghost value s * u with s = +1
+   * (free slip: no shear at the coast) or -1 (no slip: u = 0 at the coast); the zero the stencil
+   * already holds there is corrected by s / d^2 per such neighbour. Dense per face (for the
+   * nonlinear step) and sparse by row (for the linear step, which adds them after each row).
    */
-  coastU: Float64Array;
-  coastV: Float64Array;
+  coastFieldU: Float64Array;
+  coastFieldV: Float64Array;
+  coastU: CoastTerms;
+  coastV: CoastTerms;
   gpdx: number;
   gpdy: number;
   idx2: number;
@@ -43,6 +46,30 @@ export interface StepCoefficients {
   dtHdy: number;
   /** 1 / (rho0 H): stress to acceleration in the linear mode. */
   stressToAccel: number;
+}
+
+/** Nonzero coast coefficients by row: entries rowStart[j] .. rowStart[j+1]-1 belong to row j. */
+export interface CoastTerms {
+  rowStart: Int32Array;
+  index: Int32Array;
+  coef: Float64Array;
+}
+
+function sparseByRow(dense: Float64Array, rows: number, W: number): CoastTerms {
+  const rowStart = new Int32Array(rows + 1);
+  const index: number[] = [];
+  const coef: number[] = [];
+  for (let j = 0; j < rows; j++) {
+    rowStart[j] = index.length;
+    for (let k = (j + 1) * W; k < (j + 2) * W; k++) {
+      if (dense[k] !== 0) {
+        index.push(k);
+        coef.push(dense[k]);
+      }
+    }
+  }
+  rowStart[rows] = index.length;
+  return { rowStart, index: Int32Array.from(index), coef: Float64Array.from(coef) };
 }
 
 /** Ghost-value factor beyond a coast; 0 reproduces a plain zero-halo stencil. */
@@ -122,8 +149,10 @@ export function buildCoefficients(grid: Grid, physics: PhysicsConfig, dt: number
     spongeV,
     spongeRowsH: rowsWhere(spongeH),
     spongeRowsV: rowsWhere(spongeV),
-    coastU,
-    coastV,
+    coastFieldU: coastU,
+    coastFieldV: coastV,
+    coastU: sparseByRow(coastU, ny, W),
+    coastV: sparseByRow(coastV, ny + 1, W),
     gpdx: physics.reducedGravity / dx,
     gpdy: physics.reducedGravity / dy,
     idx2,

@@ -9,8 +9,7 @@
 
 import type { Grid } from '../grid.ts';
 import type { State } from '../state.ts';
-import type { StepCoefficients } from './coefficients.ts';
-import { relaxRows } from './sponge.ts';
+import type { CoastTerms, StepCoefficients } from './coefficients.ts';
 
 export interface LinearWork {
   /** New-velocity buffers, swapped with the state's after each step. */
@@ -25,6 +24,11 @@ export function linearWork(grid: Grid): LinearWork {
 /**
  * Advance the state one step in place. accelX / accelY are taux/(rho0 H) on u faces and
  * tauy/(rho0 H) on v faces. friction = r (s-1), viscosity = A (m2 s-1).
+ *
+ * One fused pass over the rows, so that each row of every array is read while it is still in
+ * cache: at row j it updates u row j, then v row j (its Coriolis term needs new u rows j-1 and j;
+ * its pressure term needs old h rows j-1 and j), then h row j-1 (new u row j-1, new v rows j-1
+ * and j), then relaxes v row j-1 in the sponge (both h rows that use it are done).
  */
 export function linearStep(
   grid: Grid,
@@ -36,57 +40,113 @@ export function linearStep(
   state: State,
   work: LinearWork,
 ): void {
-  const { nx, ny, W, maskU, maskV } = grid;
-  const { dt, gpdx, gpdy, idx2, idy2, dtHdx, dtHdy, fV, coriolisSouth, coriolisNorth, coastU, coastV, spongeH, spongeV } = c;
-  const r = friction;
-  const A = viscosity;
+  const { ny } = grid;
   const u = state.u;
   const v = state.v;
   const h = state.h;
   const un = work.uNew;
   const vn = work.vNew;
-
-  // 1. u on west faces, with the old v.
-  for (let j = 0; j < ny; j++) {
-    const fS = coriolisSouth[j];
-    const fN = coriolisNorth[j];
-    const row = (j + 1) * W + 1;
-    for (let k = row; k <= row + nx; k++) {
-      const fvbar = fS * (v[k - 1] + v[k]) + fN * (v[k - 1 + W] + v[k + W]);
-      const uc = u[k];
-      const lap = (u[k + 1] + u[k - 1] - 2 * uc) * idx2 + (u[k + W] + u[k - W] - 2 * uc) * idy2 + coastU[k] * uc;
-      const tend = fvbar - gpdx * (h[k] - h[k - 1]) + accelX[k] - r * uc + A * lap;
-      un[k] = maskU[k] * (uc + dt * tend);
-    }
-  }
-  // 2. v on south faces, with the new u.
   for (let j = 0; j <= ny; j++) {
-    const f = fV[j];
-    const row = (j + 1) * W + 1;
-    for (let k = row; k < row + nx; k++) {
-      const ubar = 0.25 * (un[k - W] + un[k + 1 - W] + un[k] + un[k + 1]);
-      const vc = v[k];
-      const lap = (v[k + 1] + v[k - 1] - 2 * vc) * idx2 + (v[k + W] + v[k - W] - 2 * vc) * idy2 + coastV[k] * vc;
-      const tend = -f * ubar - gpdy * (h[k] - h[k - W]) + accelY[k] - r * vc + A * lap;
-      vn[k] = maskV[k] * (vc + dt * tend);
+    if (j < ny) uRow(grid, c, friction, viscosity, accelX, u, v, h, un, j);
+    vRow(grid, c, friction, viscosity, accelY, v, h, un, vn, j);
+    if (j > 0) {
+      hRow(grid, c, h, un, vn, j - 1);
+      spongeRow(grid, c, vn, j - 1);
     }
   }
-  // 3. h' from the new velocities, times the sponge factor of the row (1 outside the bands).
-  for (let j = 0; j < ny; j++) {
-    const s = spongeH[j];
-    const row = (j + 1) * W + 1;
-    for (let k = row; k < row + nx; k++) {
-      const div = dtHdx * (un[k + 1] - un[k]) + dtHdy * (vn[k + W] - vn[k]);
-      h[k] = (h[k] - div) * s; // land cells have no open face, so they stay at 0
-    }
-  }
-  // 4. v sponge, after continuity so that continuity saw the unrelaxed flux.
-  relaxRows(c.spongeRowsV, spongeV, vn, nx, W);
+  spongeRow(grid, c, vn, ny);
 
   state.u = un;
   state.v = vn;
   work.uNew = u;
   work.vNew = v;
   state.steps++;
-  state.time += dt;
+  state.time += c.dt;
+}
+
+/** u on the west faces of row j, with the old v. */
+function uRow(
+  grid: Grid,
+  c: StepCoefficients,
+  r: number,
+  A: number,
+  accelX: Float64Array,
+  u: Float64Array,
+  v: Float64Array,
+  h: Float64Array,
+  un: Float64Array,
+  j: number,
+): void {
+  const { nx, W, maskU } = grid;
+  const { dt, gpdx, idx2, idy2 } = c;
+  const fS = c.coriolisSouth[j];
+  const fN = c.coriolisNorth[j];
+  const row = (j + 1) * W + 1;
+  const end = row + nx;
+  for (let k = row; k <= end; k++) {
+    const fvbar = fS * (v[k - 1] + v[k]) + fN * (v[k - 1 + W] + v[k + W]);
+    const uc = u[k];
+    const lap = (u[k + 1] + u[k - 1] - 2 * uc) * idx2 + (u[k + W] + u[k - W] - 2 * uc) * idy2;
+    const tend = fvbar - gpdx * (h[k] - h[k - 1]) + accelX[k] - r * uc + A * lap;
+    un[k] = maskU[k] * (uc + dt * tend);
+  }
+  coastTerms(c.coastU, j, A * dt, u, un);
+}
+
+/** v on the south faces of row j, with the new u. */
+function vRow(
+  grid: Grid,
+  c: StepCoefficients,
+  r: number,
+  A: number,
+  accelY: Float64Array,
+  v: Float64Array,
+  h: Float64Array,
+  un: Float64Array,
+  vn: Float64Array,
+  j: number,
+): void {
+  const { nx, W, maskV } = grid;
+  const { dt, gpdy, idx2, idy2 } = c;
+  const f = c.fV[j];
+  const row = (j + 1) * W + 1;
+  const end = row + nx;
+  for (let k = row; k < end; k++) {
+    const ubar = 0.25 * (un[k - W] + un[k + 1 - W] + un[k] + un[k + 1]);
+    const vc = v[k];
+    const lap = (v[k + 1] + v[k - 1] - 2 * vc) * idx2 + (v[k + W] + v[k - W] - 2 * vc) * idy2;
+    const tend = -f * ubar - gpdy * (h[k] - h[k - W]) + accelY[k] - r * vc + A * lap;
+    vn[k] = maskV[k] * (vc + dt * tend);
+  }
+  coastTerms(c.coastV, j, A * dt, v, vn);
+}
+
+/** h' of row j from the new velocities, times the row's sponge factor (1 outside the bands). */
+function hRow(grid: Grid, c: StepCoefficients, h: Float64Array, un: Float64Array, vn: Float64Array, j: number): void {
+  const { nx, W } = grid;
+  const { dtHdx, dtHdy } = c;
+  const s = c.spongeH[j];
+  const row = (j + 1) * W + 1;
+  const end = row + nx;
+  for (let k = row; k < end; k++) {
+    const div = dtHdx * (un[k + 1] - un[k]) + dtHdy * (vn[k + W] - vn[k]);
+    h[k] = (h[k] - div) * s; // land cells have no open face, so they stay at 0
+  }
+}
+
+/** v sponge of row j, after continuity so that continuity saw the unrelaxed flux. */
+function spongeRow(grid: Grid, c: StepCoefficients, vn: Float64Array, j: number): void {
+  const s = c.spongeV[j];
+  if (s === 1) return;
+  const row = (j + 1) * grid.W + 1;
+  const end = row + grid.nx;
+  for (let k = row; k < end; k++) vn[k] *= s;
+}
+
+/** The Laplacian's coast corrections of one row (sparse: only faces next to a coast). */
+function coastTerms(t: CoastTerms, j: number, Adt: number, x: Float64Array, xn: Float64Array): void {
+  for (let n = t.rowStart[j]; n < t.rowStart[j + 1]; n++) {
+    const k = t.index[n];
+    xn[k] += Adt * t.coef[n] * x[k];
+  }
 }

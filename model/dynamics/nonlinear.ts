@@ -56,7 +56,7 @@ export function nonlinearTendencies(
   w: NonlinearWork,
 ): void {
   const { nx, ny, W, maskU, maskV, ocean, dx, dy } = grid;
-  const { fCorner, coastU, coastV, idx2, idy2 } = c;
+  const { fCorner, coastFieldU: coastU, coastFieldV: coastV, idx2, idy2 } = c;
   const H = physics.layerThickness;
   const gp = physics.reducedGravity;
   const r = physics.friction;

@@ -1,0 +1,20 @@
+// Pycno's linear kernel on the shared reference configuration, printing the reference
+// benchmark's one-line format:  node --import tsx test/bench/reference-line.ts NX NY STEPS [LABEL]
+// Only the step loop is timed; the checksum is the reference's (see model/reference-kernel.ts).
+
+import { referenceChecksum, referenceModel } from '../../model/reference-kernel.ts';
+
+const [nx, ny, steps] = process.argv.slice(2, 5).map(Number);
+const label = process.argv[5] ?? 'ts-double';
+if (!(nx >= 8 && ny >= 24 && steps >= 0)) {
+  console.error('usage: reference-line NX NY STEPS [LABEL]');
+  process.exit(2);
+}
+const model = referenceModel(nx, ny);
+const t0 = process.hrtime.bigint();
+model.advance(steps);
+const seconds = Number(process.hrtime.bigint() - t0) / 1e9;
+const { sumEta, energy } = referenceChecksum(model);
+console.log(
+  `impl=${label} nx=${nx} ny=${ny} steps=${steps} seconds=${seconds.toFixed(4)} cups=${((nx * ny * steps) / seconds).toExponential(4)} sum_eta=${sumEta.toExponential(15)} energy=${energy.toExponential(15)}`,
+);
