@@ -12,7 +12,10 @@ import type { ResolvedScenario } from './resolve.ts';
 export interface BuildOptions {
   /** File contents by the path written in the scenario (gridded winds). */
   files?: Map<string, string | Uint8Array>;
-  /** The starting state for initial kinds 'restart' and 'spinup' (read by the host). */
+  /**
+   * The starting state for initial kinds 'restart' (continues its clock: the same run goes on) and
+   * 'spinup' (a new run from that state, starting at day 0). Read by the host.
+   */
   startState?: State;
 }
 
@@ -31,7 +34,15 @@ export function buildModel(r: ResolvedScenario, options: BuildOptions = {}): Bui
       const what = init.kind === 'restart' ? `the restart file ${init.path}` : `the spin-up scenario ${init.scenario}`;
       throw new InputError(`${what} must be read first: no starting state was given`, 'initial');
     }
-    return { model: new Model(r.model, { wind: stress, initial: options.startState }), bursts };
+    const model = new Model(r.model, { wind: stress, initial: options.startState });
+    if (init.kind === 'spinup') {
+      // A spin-up hands over its end state, not its clock: the new run's day 0 (and its wind's)
+      // starts here. Its multistep history belongs to the other run's forcing, so it starts anew.
+      model.state.time = 0;
+      model.state.steps = 0;
+      model.state.historyCount = 0;
+    }
+    return { model, bursts };
   }
   return { model: new Model(r.model, { wind: stress, initial: init }), bursts };
 }
