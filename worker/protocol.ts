@@ -37,6 +37,12 @@ export interface LoadedScenario {
   hovmollerLats: number[];
   probes: Array<{ name: string; lon: number; lat: number }>;
   bursts: DrawnBurst[];
+  /** Centre latitudes of the model rows the Hovmoller sections use, in hovmollerLats order. */
+  hovmollerRowLats?: number[];
+  /** Model day the run starts at (0, or the clock of a restart file). */
+  startDay?: number;
+  /** What was read or run to prepare the start (restart file, spin-up, wind files), for the user. */
+  notes?: string[];
 }
 
 /** One output interval's samples: the time series parts of a frame, never dropped. */
@@ -72,4 +78,23 @@ export type EngineStatus = 'empty' | 'ready' | 'running' | 'paused' | 'finished'
 export interface EngineError {
   kind: 'input' | 'blow-up' | 'internal';
   message: string;
+}
+
+/** Result of Engine.load: a plain object, so it crosses comlink with its kind intact. */
+export type LoadResult = { ok: true; scenario: LoadedScenario } | { ok: false; error: EngineError };
+
+/** Where the engine is: sent to status listeners on every change and on request. */
+export interface EngineReport {
+  status: EngineStatus;
+  /** Model day and steps taken by the loaded run (0 when empty). */
+  day: number;
+  step: number;
+  /** Day the run ends. */
+  endDay: number;
+  /** Speed cap, model days per wall-clock second, or 'max'. */
+  speed: number | 'max';
+  /** The failure that stopped the run or the last load, else null. */
+  error: EngineError | null;
+  /** Output samples taken since the run started (the initial one included). */
+  samples: number;
 }

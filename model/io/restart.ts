@@ -1,0 +1,244 @@
+// Restart files: the exact prognostic state on the padded C grid (u, v, h and the multistep
+// tendencies, all double), the clock, the grid it belongs to and the scenario that made it. A run
+// started from one continues bit for bit. A run's output file can also serve as a start, less
+// exactly: its last record, single precision, face velocities averaged from the cell centres.
+
+import { InputError } from '../errors.ts';
+import type { Grid } from '../grid.ts';
+import type { Model } from '../model.ts';
+import { State } from '../state.ts';
+import { NC_BYTE, NC_DOUBLE, type NcFileInput } from './netcdf-format.ts';
+import { readNetcdf, NetcdfReadError, type NcFile } from './netcdf-read.ts';
+import { writeNetcdfToMemory } from './netcdf-writer.ts';
+import { OUTPUT_FILL, PYCNO_VERSION } from './run-output.ts';
+
+export const RESTART_FORMAT = 'pycno-restart/1';
+
+/** Grid numbers stored in a restart and compared when one is read. */
+const GRID_KEYS = ['lonWest', 'lonEast', 'latSouth', 'latNorth', 'dLon', 'dLat'] as const;
+
+export interface RestartInfo {
+  scenarioJson?: string;
+  dt?: number;
+  command?: string;
+  createdAt?: Date;
+}
+
+function restartLayout(grid: Grid, info: RestartInfo, dt: number): NcFileInput {
+  const atts: Record<string, string | number> = {
+    title: 'Pycno restart',
+    comment: 'the complete model state on the padded C grid; see docs/output.md',
+    pycno_file: 'restart',
+    pycno_restart_format: RESTART_FORMAT,
+    pycno_version: PYCNO_VERSION,
+    pycno_nx: grid.nx,
+    pycno_ny: grid.ny,
+    pycno_time_step_seconds: dt,
+    pycno_scenario: info.scenarioJson ?? '',
+    history: `${(info.createdAt ?? new Date()).toISOString()}: ${info.command ?? 'restart written'} (Pycno ${PYCNO_VERSION})`,
+  };
+  for (const k of GRID_KEYS) atts[`pycno_${k}`] = grid.basin[k];
+  const padded = ['y_padded', 'x_padded'];
+  const field = (name: string, longName: string, units: string) => ({ name, type: NC_DOUBLE as typeof NC_DOUBLE, dimensions: padded, attributes: { long_name: longName, units } });
+  const tendency = (name: string, longName: string, units: string) => ({
+    name,
+    type: NC_DOUBLE as typeof NC_DOUBLE,
+    dimensions: ['history', ...padded],
+    attributes: { long_name: longName, units, comment: 'index 0 = one step back; only the first history_count entries are valid' },
+  });
+  return {
+    version: 'auto',
+    dimensions: [
+      { name: 'y_padded', length: grid.ny + 3 },
+      { name: 'x_padded', length: grid.nx + 3 },
+      { name: 'history', length: 2 },
+    ],
+    attributes: atts,
+    variables: [
+      { name: 'time', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'model time since the start of the experiment', units: 's' } },
+      { name: 'steps', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'time steps taken', units: '1' } },
+      { name: 'history_count', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'valid multistep tendencies', units: '1' } },
+      { name: 'ocean', type: NC_BYTE, dimensions: padded, attributes: { long_name: 'ocean (1) or land (0), padded layout' } },
+      field('u', 'layer-mean eastward velocity on west faces (padded C grid)', 'm s-1'),
+      field('v', 'layer-mean northward velocity on south faces (padded C grid)', 'm s-1'),
+      field('h', 'thickness anomaly at cell centres (padded C grid), positive down', 'm'),
+      tendency('du', 'tendency of u', 'm s-2'),
+      tendency('dv', 'tendency of v', 'm s-2'),
+      tendency('dh', 'tendency of h', 'm s-1'),
+    ],
+  };
+}
+
+/** The bytes of a restart file of the model's current state. */
+export async function writeRestart(model: Model, info: RestartInfo = {}): Promise<Uint8Array> {
+  return writeRestartState(model.state, { ...info, dt: model.dt });
+}
+
+export async function writeRestartState(state: State, info: RestartInfo = {}): Promise<Uint8Array> {
+  const grid = state.grid;
+  const both = (a: Float64Array, b: Float64Array) => {
+    const out = new Float64Array(a.length * 2);
+    out.set(a);
+    out.set(b, a.length);
+    return out;
+  };
+  const h = state.history;
+  return writeNetcdfToMemory(restartLayout(grid, info, info.dt ?? NaN), {
+    time: state.time,
+    steps: state.steps,
+    history_count: state.historyCount,
+    ocean: grid.ocean,
+    u: state.u,
+    v: state.v,
+    h: state.h,
+    du: both(h.du[0], h.du[1]),
+    dv: both(h.dv[0], h.dv[1]),
+    dh: both(h.dh[0], h.dh[1]),
+  });
+}
+
+export interface StartFile {
+  state: State;
+  /** True for a restart file (bit-for-bit continuation), false for a run output's last record. */
+  exact: boolean;
+  /** Time step of the run that wrote it, s (NaN if unknown). */
+  dt: number;
+  /** A line for the user about what was read. */
+  note: string;
+}
+
+function fail(source: string, message: string): never {
+  throw new InputError(`${source}: ${message}`);
+}
+
+function numberAttribute(f: NcFile, name: string): number {
+  const a = f.attributes[name];
+  return a && typeof a.value !== 'string' && a.value.length > 0 ? a.value[0] : NaN;
+}
+
+function textAttribute(f: NcFile, name: string): string | undefined {
+  const a = f.attributes[name];
+  return a && typeof a.value === 'string' ? a.value : undefined;
+}
+
+function open(bytes: Uint8Array, source: string): NcFile {
+  try {
+    return readNetcdf(bytes);
+  } catch (e) {
+    if (e instanceof NetcdfReadError) fail(source, `cannot be read as NetCDF: ${e.message}`);
+    throw e;
+  }
+}
+
+/** Read a restart file; refuses other files and other grids with a message that says why. */
+export function readRestart(bytes: Uint8Array, grid: Grid, source = 'the restart file'): State {
+  const f = open(bytes, source);
+  const kind = textAttribute(f, 'pycno_file');
+  if (kind !== 'restart') {
+    fail(source, kind === 'run-output' ? 'is a Pycno run output, not a restart file (read it with readStartFile for an approximate start)' : 'is not a Pycno restart file (no pycno_file = "restart" attribute)');
+  }
+  const format = textAttribute(f, 'pycno_restart_format');
+  if (format !== RESTART_FORMAT) fail(source, `has restart format ${JSON.stringify(format)}; this program reads "${RESTART_FORMAT}"`);
+  checkGrid(f, grid, source);
+  const state = new State(grid);
+  const scalar = (name: string) => (f.variable(name).values as Float64Array)[0];
+  state.time = scalar('time');
+  state.steps = scalar('steps');
+  state.historyCount = scalar('history_count');
+  const ocean = f.variable('ocean').values as Float64Array;
+  let differ = 0;
+  for (let k = 0; k < grid.size; k++) if ((ocean[k] > 0 ? 1 : 0) !== grid.ocean[k]) differ++;
+  if (differ > 0) fail(source, `was written with different land: ${differ} cells are land in one and ocean in the other`);
+  state.u.set(f.variable('u').values as Float64Array);
+  state.v.set(f.variable('v').values as Float64Array);
+  state.h.set(f.variable('h').values as Float64Array);
+  for (const key of ['du', 'dv', 'dh'] as const) {
+    const both = f.variable(key).values as Float64Array;
+    state.history[key][0].set(both.subarray(0, grid.size));
+    state.history[key][1].set(both.subarray(grid.size));
+  }
+  if (!(Number.isFinite(state.time) && state.historyCount >= 0 && state.historyCount <= 2)) fail(source, 'has a corrupt clock or history count');
+  return state;
+}
+
+function checkGrid(f: NcFile, grid: Grid, source: string): void {
+  const nx = numberAttribute(f, 'pycno_nx');
+  const ny = numberAttribute(f, 'pycno_ny');
+  if (nx !== grid.nx || ny !== grid.ny) {
+    fail(source, `is on a ${nx} x ${ny} grid, the scenario on ${grid.nx} x ${grid.ny} (lon x lat cells); a restart must come from the same basin and resolution`);
+  }
+  for (const k of GRID_KEYS) {
+    const there = numberAttribute(f, `pycno_${k}`);
+    if (Math.abs(there - grid.basin[k]) > 1e-9 * Math.max(1, Math.abs(grid.basin[k]))) {
+      fail(source, `has basin.${k} = ${there}, the scenario ${grid.basin[k]}; a restart must come from the same basin`);
+    }
+  }
+}
+
+/**
+ * A starting state from a restart file (exact) or from the last record of a Pycno run output
+ * (h_anom, u and v must be among its fields; velocities averaged to the faces, no multistep
+ * history). Both must be on the scenario's grid.
+ */
+export function readStartFile(bytes: Uint8Array, grid: Grid, source = 'the restart file'): StartFile {
+  const f = open(bytes, source);
+  const kind = textAttribute(f, 'pycno_file');
+  if (kind === 'restart') {
+    const state = readRestart(bytes, grid, source);
+    return { state, exact: true, dt: numberAttribute(f, 'pycno_time_step_seconds'), note: `restart from ${source} at day ${(state.time / 86400).toFixed(2)}` };
+  }
+  if (kind !== 'run-output') fail(source, 'is neither a Pycno restart file nor a Pycno run output (no pycno_file attribute)');
+  const lat = f.variable('lat').values as Float64Array;
+  const lon = f.variable('lon').values as Float64Array;
+  if (lon.length !== grid.nx || lat.length !== grid.ny) {
+    fail(source, `is on a ${lon.length} x ${lat.length} grid, the scenario on ${grid.nx} x ${grid.ny} (lon x lat cells)`);
+  }
+  const tol = 1e-6 * Math.max(grid.dLon, grid.dLat);
+  for (let i = 0; i < grid.nx; i++) if (Math.abs(lon[i] - grid.lonCentre[i]) > tol) fail(source, `has longitude ${lon[i]} where the scenario's grid has ${grid.lonCentre[i]}`);
+  for (let j = 0; j < grid.ny; j++) if (Math.abs(lat[j] - grid.latCentre[j]) > tol) fail(source, `has latitude ${lat[j]} where the scenario's grid has ${grid.latCentre[j]}`);
+  const n = f.numRecords;
+  if (n === 0) fail(source, 'holds no output record yet');
+  const names = f.variables.map((v) => v.name);
+  for (const need of ['h_anom', 'u', 'v']) {
+    if (!names.includes(need)) fail(source, `has no ${need} field; a run output used as a start must hold h_anom, u and v`);
+  }
+  const cells = grid.nx * grid.ny;
+  const last = (name: string) => (f.variable(name).values as Float64Array).subarray((n - 1) * cells, n * cells);
+  const hC = last('h_anom');
+  const uC = last('u');
+  const vC = last('v');
+  const wet = (x: number) => Number.isFinite(x) && x !== OUTPUT_FILL && Math.abs(x) < 1e30;
+  const state = new State(grid);
+  const { nx, ny } = grid;
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0; i < nx; i++) {
+      const k = grid.idx(i, j);
+      const c = j * nx + i;
+      if (!grid.ocean[k]) continue;
+      if (!wet(hC[c])) fail(source, `has land at ${lon[i]}°E, ${lat[j]}°N where the scenario has ocean`);
+      state.h[k] = hC[c];
+    }
+  }
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0; i <= nx; i++) {
+      const k = grid.idx(i, j);
+      if (grid.maskU[k]) state.u[k] = 0.5 * (uC[j * nx + i - 1] + uC[j * nx + i]);
+    }
+  }
+  for (let j = 0; j <= ny; j++) {
+    for (let i = 0; i < nx; i++) {
+      const k = grid.idx(i, j);
+      if (grid.maskV[k]) state.v[k] = 0.5 * (vC[(j - 1) * nx + i] + vC[j * nx + i]);
+    }
+  }
+  const day = (f.variable('time').values as Float64Array)[n - 1];
+  state.time = day * 86400;
+  const step = names.includes('step') ? (f.variable('step').values as Float64Array)[n - 1] : 0;
+  state.steps = Number.isFinite(step) ? step : 0;
+  return {
+    state,
+    exact: false,
+    dt: numberAttribute(f, 'pycno_time_step_seconds'),
+    note: `start from the last record (day ${day.toFixed(2)}) of the run output ${source}: single precision, face velocities averaged from the centres`,
+  };
+}

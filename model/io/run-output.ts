@@ -1,0 +1,260 @@
+// The NetCDF file of a run (CF-1.10 metadata, classic or 64-bit-offset format): one record per
+// output interval with the centred fields, the basin integrals, the Hovmoller rows and the probe
+// series, plus everything needed to repeat the run (scenario JSON, its hash, the drawn bursts,
+// the program version). Records are appended as the run goes; the writer updates the record count
+// after each one, so a run that is killed leaves a valid file of the records done.
+// docs/output.md shows the layout as ncdump prints it.
+
+import type { FieldName } from '../diagnostics/fields.ts';
+import { FIELD_INFO } from '../diagnostics/fields.ts';
+import type { Integrals } from '../diagnostics/integrals.ts';
+import type { DrawnBurst } from '../forcing/bursts.ts';
+import { NC_BYTE, NC_CHAR, NC_DOUBLE, NC_FILL_FLOAT, NC_FLOAT, utf8Bytes, type NcFileInput, type NcVariableInput } from './netcdf-format.ts';
+import { NetcdfWriter, type ByteSink, type NcRecordInput } from './netcdf-writer.ts';
+import { sha256Hex } from './sha256.ts';
+
+/** The program version written into files; test/engine checks it against package.json. */
+export const PYCNO_VERSION = '0.1.0';
+
+/**
+ * Model day 0 is labelled with this date. The experiments are idealised (no real year), but a
+ * real calendar lets xarray, CDO and Panoply decode the axis without warnings, which calendar
+ * "none" does not; see docs/output.md.
+ */
+export const TIME_UNITS = 'days since 2000-01-01 00:00:00';
+export const TIME_CALENDAR = 'proleptic_gregorian';
+
+/** Land cells in float variables. */
+export const OUTPUT_FILL = NC_FILL_FLOAT;
+
+export const IDEALISED_NOTE =
+  'Idealised experiment of a reduced-gravity (1.5-layer) model of the upper tropical ocean on an equatorial beta plane; not a forecast or a reanalysis.';
+
+/** The integrals written per record, with their units and descriptions. */
+export const INTEGRAL_VARIABLES: ReadonlyArray<{ name: string; key: keyof Integrals; units: string; longName: string }> = [
+  { name: 'volume', key: 'volume', units: 'm3', longName: 'upper-layer volume' },
+  { name: 'volume_anomaly', key: 'volumeAnomaly', units: 'm3', longName: 'volume of the thickness anomaly' },
+  { name: 'kinetic_energy', key: 'kinetic', units: 'J', longName: 'kinetic energy of the layer' },
+  { name: 'potential_energy', key: 'potential', units: 'J', longName: 'available potential energy' },
+  { name: 'energy', key: 'energy', units: 'J', longName: 'total energy (kinetic + available potential)' },
+  { name: 'min_thickness', key: 'minThickness', units: 'm', longName: 'thinnest upper layer' },
+  { name: 'max_speed', key: 'maxSpeed', units: 'm s-1', longName: 'largest layer-mean speed at cell centres' },
+  { name: 'courant', key: 'courant', units: '1', longName: 'Courant number of gravity waves plus flow' },
+];
+
+/** What the file describes; a subset of what the engine knows after loading a scenario. */
+export interface RunDescription {
+  name: string;
+  description: string;
+  /** The scenario JSON as run (defaults filled in). */
+  scenarioJson: string;
+  /** Scenario file name as given, for the history line. */
+  scenarioFile?: string;
+  grid: { nx: number; ny: number; lon: ArrayLike<number>; lat: ArrayLike<number>; ocean: ArrayLike<number> };
+  fields: readonly FieldName[];
+  /** Requested Hovmoller latitudes and the centre latitudes of the rows used. */
+  hovmollerLats: readonly number[];
+  hovmollerRowLats: readonly number[];
+  probes: ReadonlyArray<{ name: string; lon: number; lat: number }>;
+  bursts: readonly DrawnBurst[];
+  dt: number;
+  dynamics: string;
+  reducedGravity: number;
+  layerThickness: number;
+  /** The command or action that made the file (history attribute), and when. */
+  command?: string;
+  createdAt?: Date;
+}
+
+/** One output interval. Field arrays are nx * ny from the south-west corner, NaN on land. */
+export interface OutputRecord {
+  day: number;
+  step: number;
+  fields: Partial<Record<FieldName, ArrayLike<number>>>;
+  integrals: Integrals;
+  /** h' along each Hovmoller row (nx values each). */
+  hovmoller: ArrayLike<number>[];
+  /** probeValues[p][k] = field k (in RunDescription.fields order) at probe p. */
+  probeValues: ArrayLike<number>[];
+}
+
+export function probeVariableName(field: FieldName): string {
+  return `probe_${field}`;
+}
+
+/** The NetCDF layout (dimensions, variables, attributes) of a run's file. */
+export function runOutputFile(d: RunDescription): NcFileInput {
+  const created = d.createdAt ?? new Date();
+  const floatAtts = (units: string, longName: string, standardName?: string) => {
+    const a: Record<string, string | { type: typeof NC_FLOAT; values: number }> = { long_name: longName, units };
+    if (standardName) a.standard_name = standardName;
+    a._FillValue = { type: NC_FLOAT, values: OUTPUT_FILL };
+    return a;
+  };
+  const dimensions: NcFileInput['dimensions'][number][] = [
+    { name: 'time', length: 'unlimited' },
+    { name: 'lat', length: d.grid.ny },
+    { name: 'lon', length: d.grid.nx },
+  ];
+  const variables: NcVariableInput[] = [
+    {
+      name: 'time',
+      type: NC_DOUBLE,
+      dimensions: ['time'],
+      attributes: {
+        standard_name: 'time',
+        long_name: 'model time',
+        units: TIME_UNITS,
+        calendar: TIME_CALENDAR,
+        axis: 'T',
+        comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date',
+      },
+    },
+    { name: 'lat', type: NC_DOUBLE, dimensions: ['lat'], attributes: { standard_name: 'latitude', long_name: 'latitude of cell centres', units: 'degrees_north', axis: 'Y' } },
+    { name: 'lon', type: NC_DOUBLE, dimensions: ['lon'], attributes: { standard_name: 'longitude', long_name: 'longitude of cell centres', units: 'degrees_east', axis: 'X' } },
+    {
+      name: 'ocean',
+      type: NC_BYTE,
+      dimensions: ['lat', 'lon'],
+      attributes: { long_name: 'ocean (1) or land (0)', flag_values: { type: NC_BYTE, values: [0, 1] }, flag_meanings: 'land ocean' },
+    },
+    { name: 'step', type: NC_DOUBLE, dimensions: ['time'], attributes: { long_name: 'model time steps taken', units: '1' } },
+  ];
+  for (const f of d.fields) {
+    const info = FIELD_INFO[f];
+    variables.push({ name: f, type: NC_FLOAT, dimensions: ['time', 'lat', 'lon'], attributes: floatAtts(info.units, info.longName, info.standardName) });
+  }
+  for (const iv of INTEGRAL_VARIABLES) {
+    variables.push({ name: iv.name, type: NC_DOUBLE, dimensions: ['time'], attributes: { long_name: iv.longName, units: iv.units } });
+  }
+  if (d.hovmollerLats.length > 0) {
+    dimensions.push({ name: 'hovmoller', length: d.hovmollerLats.length });
+    variables.push({
+      name: 'hovmoller_lat',
+      type: NC_DOUBLE,
+      dimensions: ['hovmoller'],
+      attributes: { standard_name: 'latitude', long_name: 'centre latitude of the model row of each Hovmoller section', units: 'degrees_north' },
+    });
+    variables.push({
+      name: 'hovmoller_h_anom',
+      type: NC_FLOAT,
+      dimensions: ['time', 'hovmoller', 'lon'],
+      attributes: { ...floatAtts('m', `${FIELD_INFO.h_anom.longName} along the Hovmoller rows`), coordinates: 'hovmoller_lat' },
+    });
+  }
+  if (d.probes.length > 0) {
+    const strlen = Math.max(1, ...d.probes.map((p) => utf8Bytes(p.name).length));
+    dimensions.push({ name: 'probe', length: d.probes.length }, { name: 'probe_name_length', length: strlen });
+    variables.push(
+      { name: 'probe_name', type: NC_CHAR, dimensions: ['probe', 'probe_name_length'], attributes: { long_name: 'probe name', cf_role: 'timeseries_id' } },
+      { name: 'probe_lon', type: NC_DOUBLE, dimensions: ['probe'], attributes: { standard_name: 'longitude', long_name: 'probe longitude as given', units: 'degrees_east' } },
+      { name: 'probe_lat', type: NC_DOUBLE, dimensions: ['probe'], attributes: { standard_name: 'latitude', long_name: 'probe latitude as given', units: 'degrees_north' } },
+    );
+    for (const f of d.fields) {
+      const info = FIELD_INFO[f];
+      variables.push({
+        name: probeVariableName(f),
+        type: NC_FLOAT,
+        dimensions: ['time', 'probe'],
+        attributes: { ...floatAtts(info.units, `${info.longName} in the model cell holding the probe`, info.standardName), coordinates: 'probe_lat probe_lon' },
+      });
+    }
+  }
+  const command = d.command ?? `run of ${d.scenarioFile ?? d.name}`;
+  return {
+    version: 'auto',
+    dimensions,
+    variables,
+    attributes: {
+      Conventions: 'CF-1.10',
+      title: d.name,
+      summary: d.description || d.name,
+      source: `Pycno ${PYCNO_VERSION}, reduced-gravity equatorial ocean model`,
+      history: `${created.toISOString()}: ${command} (Pycno ${PYCNO_VERSION})`,
+      comment: IDEALISED_NOTE,
+      pycno_file: 'run-output',
+      pycno_version: PYCNO_VERSION,
+      pycno_scenario: d.scenarioJson,
+      pycno_scenario_sha256: sha256Hex(d.scenarioJson),
+      pycno_bursts: JSON.stringify(d.bursts),
+      pycno_time_step_seconds: d.dt,
+      pycno_dynamics: d.dynamics,
+      pycno_reduced_gravity: d.reducedGravity,
+      pycno_layer_thickness: d.layerThickness,
+      pycno_hovmoller_requested_lat: d.hovmollerLats.length ? [...d.hovmollerLats] : 'none',
+    },
+  };
+}
+
+/** NaN (land, missing) becomes the fill value; a copy, the input is not changed. */
+function filled(values: ArrayLike<number>): Float32Array {
+  const out = Float32Array.from(values as ArrayLike<number>);
+  for (let k = 0; k < out.length; k++) if (Number.isNaN(out[k])) out[k] = OUTPUT_FILL;
+  return out;
+}
+
+function concat(rows: ArrayLike<number>[], width: number): Float32Array {
+  const out = new Float32Array(rows.length * width);
+  rows.forEach((r, k) => out.set(filled(r), k * width));
+  return out;
+}
+
+/** Streams a run into a ByteSink: begin(), then append() per output interval, then close(). */
+export class RunOutputWriter {
+  private readonly writer: NetcdfWriter;
+  private readonly d: RunDescription;
+
+  constructor(d: RunDescription, sink: ByteSink) {
+    this.d = d;
+    this.writer = new NetcdfWriter(runOutputFile(d), sink);
+  }
+
+  get records(): number {
+    return this.writer.numRecords;
+  }
+
+  /** Bytes of the file once the records so far are in. */
+  get byteLength(): number {
+    return this.writer.byteLength;
+  }
+
+  /** Header and the fixed variables (coordinates, mask, probe table). */
+  async begin(): Promise<void> {
+    const { d, writer } = this;
+    await writer.writeHeader();
+    await writer.writeFixed('lat', d.grid.lat);
+    await writer.writeFixed('lon', d.grid.lon);
+    await writer.writeFixed('ocean', d.grid.ocean);
+    if (d.hovmollerLats.length > 0) await writer.writeFixed('hovmoller_lat', d.hovmollerRowLats);
+    if (d.probes.length > 0) {
+      const strlen = Math.max(1, ...d.probes.map((p) => utf8Bytes(p.name).length));
+      const names = new Uint8Array(d.probes.length * strlen);
+      d.probes.forEach((p, k) => names.set(utf8Bytes(p.name), k * strlen));
+      await writer.writeFixed('probe_name', names);
+      await writer.writeFixed('probe_lon', d.probes.map((p) => p.lon));
+      await writer.writeFixed('probe_lat', d.probes.map((p) => p.lat));
+    }
+  }
+
+  async append(r: OutputRecord): Promise<void> {
+    const { d } = this;
+    const values: Record<string, ArrayLike<number> | number> = { time: r.day, step: r.step };
+    for (const f of d.fields) {
+      const v = r.fields[f];
+      if (!v) throw new Error(`output record for day ${r.day}: field ${f} is missing`);
+      values[f] = filled(v);
+    }
+    for (const iv of INTEGRAL_VARIABLES) values[iv.name] = r.integrals[iv.key];
+    if (d.hovmollerLats.length > 0) values.hovmoller_h_anom = concat(r.hovmoller, d.grid.nx);
+    if (d.probes.length > 0) {
+      d.fields.forEach((f, k) => {
+        values[probeVariableName(f)] = filled(r.probeValues.map((p) => p[k]));
+      });
+    }
+    await this.writer.appendRecord(values as NcRecordInput);
+  }
+
+  async close(): Promise<void> {
+    await this.writer.close();
+  }
+}
