@@ -1,0 +1,62 @@
+// What `pycno check` prints (the derived numbers of a scenario) and the summary after a run.
+
+import type { Integrals } from '../../model/diagnostics/integrals.ts';
+import type { DerivedNumbers } from '../../model/scenario/derived.ts';
+import { formatBytes, formatDuration, formatRate } from './progress.ts';
+
+const p3 = (x: number) => (Number.isFinite(x) ? x.toPrecision(3) : String(x));
+
+function rows(list: Array<[string, string]>): string {
+  const w = Math.max(...list.map(([k]) => k.length));
+  return list.map(([k, v]) => `${k.padEnd(w)}  ${v}`).join('\n') + '\n';
+}
+
+export function checkReport(name: string, file: string, d: DerivedNumbers, fields: readonly string[], days: number, everyDays: number, notes: readonly string[]): string {
+  const s = d.stability;
+  const cfl = d.c * d.dt * Math.sqrt(1 / (d.dxKm * 1000) ** 2 + 1 / (d.dyKm * 1000) ** 2);
+  const list: Array<[string, string]> = [
+    ['scenario', `${name} (${file})`],
+    ['grid', `${d.nx} x ${d.ny} cells${d.oceanCells !== null ? `, ${d.oceanCells} ocean` : ''}; dx = ${d.dxKm.toFixed(1)} km, dy = ${d.dyKm.toFixed(1)} km`],
+    ['Kelvin speed', `c = sqrt(g' H) = ${d.c.toFixed(3)} m/s`],
+    ['equatorial radius', `L = sqrt(c / beta) = ${d.equatorialRadiusKm.toFixed(0)} km (beta = ${p3(d.beta)} m-1 s-1)`],
+    ['Kelvin crossing', `${d.kelvinCrossingDays.toFixed(1)} days over ${d.crossingWidthKm.toFixed(0)} km of ocean along the equator`],
+    ['long Rossby', `c/3 = ${d.rossbySpeed.toFixed(3)} m/s westward, crossing in ${d.rossbyCrossingDays.toFixed(1)} days`],
+    ['time step', `dt = ${d.dt.toFixed(1)} s (${d.dtIsAuto ? 'auto' : 'given'}); limit ${s.dtMax.toFixed(1)} s, set by ${s.limitingTerm}`],
+    ['limit', s.explanation],
+    ['CFL', `gravity-wave Courant number c dt sqrt(1/dx^2 + 1/dy^2) = ${cfl.toFixed(3)}; dt / limit = ${(d.dt / s.dtMax).toFixed(3)}`],
+    ['steps', `${d.steps} for ${days} days`],
+    ['output', `${d.outputs} records every ${everyDays} days of ${fields.join(', ')}: about ${formatBytes(d.outputBytes)}`],
+    ['memory', `about ${formatBytes(d.memoryBytes)}`],
+  ];
+  for (const n of notes) list.push(['input', n]);
+  return rows(list);
+}
+
+export interface RunSummary {
+  wallSeconds: number;
+  steps: number;
+  cells: number;
+  first: Integrals | null;
+  last: Integrals;
+  records: number;
+  outFile: string;
+  restartFile?: string;
+}
+
+export function runSummary(s: RunSummary): string {
+  const rate = s.wallSeconds > 0 ? (s.steps * s.cells) / s.wallSeconds : Infinity;
+  const drift = s.first ? (s.last.volume - s.first.volume) / s.first.volume : NaN;
+  const list: Array<[string, string]> = [
+    ['run time', `${formatDuration(s.wallSeconds)} for ${s.steps} steps on ${s.cells} cells`],
+    ['speed', `${formatRate(rate)} cell updates/s`],
+    ['final day', s.last.day.toFixed(2)],
+    ['volume change', `${Number.isFinite(drift) ? drift.toExponential(2) : '-'} (relative, since the start)`],
+    ['energy', `${p3(s.last.energy)} J (kinetic ${p3(s.last.kinetic)}, potential ${p3(s.last.potential)})`],
+    ['thinnest layer', `${s.last.minThickness.toFixed(2)} m`],
+    ['fastest flow', `${s.last.maxSpeed.toFixed(3)} m/s`],
+    ['Courant number', s.last.courant.toFixed(3)],
+    ['output', `${s.outFile} (${s.records} records)`],
+  ];
+  if (s.restartFile) list.push(['restart', s.restartFile]);
+  return rows(list);
+}
