@@ -1,0 +1,239 @@
+// The scenario panel: pick a shipped scenario or open a file, edit the physics and time values,
+// see each value checked by the scenario validator (its message at the field) and the derived
+// numbers follow as you type. The page only calls the validator and the derived-number functions.
+
+import { derivedNumbers, formatIssue, resolveScenario, validateScenario, validateScenarioText, type DerivedNumbers, type ScenarioIssue } from '../../model/scenario/index.ts';
+import { scenarioSchema, type SchemaNode } from '../../model/scenario/schema.ts';
+import { formatValue } from './colour-bar.ts';
+
+export interface ParamSpec {
+  path: string;
+  label: string;
+  units: string;
+  /** What an empty box means, if anything. */
+  empty?: null | 'auto';
+  emptyText?: string;
+}
+
+export const PARAMS: ParamSpec[] = [
+  { path: 'physics.reducedGravity', label: "Reduced gravity g\u2032", units: 'm s-2' },
+  { path: 'physics.layerThickness', label: 'Layer thickness H', units: 'm' },
+  { path: 'physics.frictionDays', label: 'Friction time', units: 'days', empty: null, emptyText: 'empty: no friction' },
+  { path: 'physics.viscosity', label: 'Viscosity A', units: 'm2 s-1' },
+  { path: 'time.days', label: 'Run length', units: 'days' },
+  { path: 'time.outputEveryDays', label: 'Output interval', units: 'days' },
+  { path: 'time.dtSeconds', label: 'Time step dt', units: 's', empty: 'auto', emptyText: 'empty or "auto": from the stability limit' },
+];
+
+type Json = Record<string, unknown>;
+
+function schemaAt(path: string): SchemaNode | undefined {
+  let node: SchemaNode | undefined = scenarioSchema;
+  for (const key of path.split('.')) node = node?.properties?.[key];
+  return node;
+}
+
+/** "> 0, <= 1" from the schema's bounds at a path (the number branch of a oneOf). */
+export function rangeText(path: string): string {
+  let n = schemaAt(path);
+  if (n?.oneOf) n = (n.oneOf as SchemaNode[]).find((b) => b.type === 'number') ?? n;
+  if (!n) return '';
+  const parts: string[] = [];
+  if (n.exclusiveMinimum !== undefined) parts.push(`> ${n.exclusiveMinimum}`);
+  if (n.minimum !== undefined) parts.push(`>= ${n.minimum}`);
+  if (n.maximum !== undefined) parts.push(`<= ${n.maximum}`);
+  if (n.exclusiveMaximum !== undefined) parts.push(`< ${n.exclusiveMaximum}`);
+  return parts.join(', ');
+}
+
+export function getPath(obj: Json, path: string): unknown {
+  let o: unknown = obj;
+  for (const k of path.split('.')) o = o && typeof o === 'object' ? (o as Json)[k] : undefined;
+  return o;
+}
+
+export function setPath(obj: Json, path: string, value: unknown): void {
+  const keys = path.split('.');
+  let o = obj;
+  for (const k of keys.slice(0, -1)) {
+    if (!o[k] || typeof o[k] !== 'object') o[k] = {};
+    o = o[k] as Json;
+  }
+  const last = keys[keys.length - 1];
+  if (value === undefined) delete o[last];
+  else o[last] = value;
+}
+
+/** What a text box means: a number when it reads as one, else the text (the validator says why). */
+export function readBox(text: string, spec: ParamSpec): unknown {
+  const t = text.trim();
+  if (t === '' || (spec.empty === 'auto' && t === 'auto')) return spec.empty === undefined ? '' : spec.empty;
+  const n = Number(t);
+  return Number.isFinite(n) && /^[-+0-9.eE]+$/.test(t) ? n : t;
+}
+
+export interface PanelResult {
+  valid: boolean;
+  issues: ScenarioIssue[];
+  derived: DerivedNumbers | null;
+}
+
+/** Validate an edited scenario and derive its numbers: pure, shared by the panel and the tests. */
+export function checkEdited(json: Json): PanelResult {
+  const r = validateScenario(json);
+  if (!r.ok) return { valid: false, issues: r.errors, derived: null };
+  return { valid: true, issues: [], derived: derivedNumbers(resolveScenario(r.scenario)) };
+}
+
+export class ScenarioPanel {
+  /** The file as loaded (what the run on screen uses) and the edited copy. */
+  private base: Json = {};
+  edited: Json = {};
+  fileName = 'scenario.json';
+  private boxes = new Map<string, HTMLInputElement>();
+  private msgs = new Map<string, HTMLElement>();
+  lastCheck: PanelResult = { valid: false, issues: [], derived: null };
+
+  constructor(
+    private readonly form: HTMLFormElement,
+    private readonly derivedList: HTMLElement,
+    private readonly otherIssues: HTMLUListElement,
+    private readonly restartNote: HTMLElement,
+    private readonly applyButton: HTMLButtonElement,
+  ) {
+    for (const spec of PARAMS) {
+      const wrap = document.createElement('div');
+      wrap.className = 'param';
+      wrap.dataset.path = spec.path;
+      const label = document.createElement('label');
+      const name = document.createElement('span');
+      name.textContent = spec.label;
+      const box = document.createElement('input');
+      box.type = 'text';
+      box.inputMode = 'decimal';
+      box.name = spec.path;
+      box.autocomplete = 'off';
+      const unit = document.createElement('span');
+      unit.className = 'unit';
+      unit.textContent = spec.units;
+      label.append(name, box, unit);
+      const hint = document.createElement('div');
+      hint.className = 'range-hint';
+      hint.textContent = [rangeText(spec.path), spec.emptyText].filter(Boolean).join('; ');
+      const msg = document.createElement('div');
+      msg.className = 'field-msg';
+      msg.id = `msg-${spec.path.replace('.', '-')}`;
+      box.setAttribute('aria-describedby', msg.id);
+      wrap.append(label, hint, msg);
+      this.form.append(wrap);
+      this.boxes.set(spec.path, box);
+      this.msgs.set(spec.path, msg);
+      box.addEventListener('input', () => this.onEdit());
+    }
+    this.form.addEventListener('submit', (e) => e.preventDefault());
+  }
+
+  /** Show a scenario file's values (it becomes the run's scenario). */
+  setScenario(json: Json, fileName: string): void {
+    this.base = structuredClone(json);
+    this.edited = structuredClone(json);
+    this.fileName = fileName;
+    for (const spec of PARAMS) {
+      const v = getPath(json, spec.path);
+      const box = this.boxes.get(spec.path)!;
+      box.value = v === undefined || v === null ? (spec.empty === 'auto' ? 'auto' : '') : String(v);
+      if (v === undefined && spec.empty === undefined) box.placeholder = 'default';
+    }
+    this.onEdit();
+  }
+
+  /** Check a file's text before it goes to the engine: the same messages the command line prints. */
+  static checkText(text: string, fileName: string): { ok: true; json: Json } | { ok: false; lines: string[] } {
+    const r = validateScenarioText(text, fileName);
+    if (!r.ok) return { ok: false, lines: r.errors.map(formatIssue) };
+    return { ok: true, json: JSON.parse(text) as Json };
+  }
+
+  /** The edited scenario as text, for the engine. */
+  text(): string {
+    return JSON.stringify(this.edited, null, 2);
+  }
+
+  changed(): boolean {
+    // A value absent from the file reads as what its empty box means ("auto", no friction).
+    const norm = (v: unknown, s: ParamSpec) => JSON.stringify(v === undefined ? (s.empty === undefined ? null : s.empty) : v);
+    return PARAMS.some((s) => norm(getPath(this.base, s.path), s) !== norm(getPath(this.edited, s.path), s));
+  }
+
+  private onEdit(): void {
+    for (const spec of PARAMS) {
+      const raw = this.boxes.get(spec.path)!.value;
+      const v = readBox(raw, spec);
+      // Leaving an optional box empty falls back to the file's own value or the default.
+      if (v === '' && getPath(this.base, spec.path) === undefined) setPath(this.edited, spec.path, undefined);
+      else setPath(this.edited, spec.path, v);
+    }
+    const check = checkEdited(this.edited);
+    this.lastCheck = check;
+    const shown = new Set<ScenarioIssue>();
+    for (const spec of PARAMS) {
+      const mine = check.issues.filter((i) => i.path === spec.path || i.path.startsWith(`${spec.path}.`));
+      mine.forEach((i) => shown.add(i));
+      const msg = this.msgs.get(spec.path)!;
+      msg.textContent = mine.map((i) => i.message).join('; ');
+      const wrap = msg.parentElement!;
+      wrap.classList.toggle('invalid', mine.length > 0);
+      this.boxes.get(spec.path)!.setAttribute('aria-invalid', String(mine.length > 0));
+    }
+    this.otherIssues.replaceChildren(
+      ...check.issues
+        .filter((i) => !shown.has(i))
+        .map((i) => {
+          const li = document.createElement('li');
+          li.textContent = formatIssue(i);
+          return li;
+        }),
+    );
+    this.restartNote.hidden = !this.changed();
+    this.applyButton.disabled = !check.valid;
+    this.showDerived(check.derived);
+  }
+
+  revert(): void {
+    this.setScenario(this.base, this.fileName);
+  }
+
+  /** After the engine accepted the edited scenario, it is the base. */
+  commit(): void {
+    this.base = structuredClone(this.edited);
+    this.onEdit();
+  }
+
+  private showDerived(d: DerivedNumbers | null): void {
+    if (!d) {
+      this.derivedList.replaceChildren(Object.assign(document.createElement('dd'), { textContent: 'fix the marked values to see them' }));
+      return;
+    }
+    const rows: Array<[string, string, boolean?]> = [
+      ['Kelvin speed c = \u221a(g\u2032H)', `${formatValue(d.c)} m/s`],
+      ['Equatorial radius L = \u221a(c/\u03b2)', `${formatValue(d.equatorialRadiusKm)} km`],
+      ['Kelvin crossing time', `${formatValue(d.kelvinCrossingDays)} days`],
+      ['Long Rossby speed c/3', `${formatValue(d.rossbySpeed)} m/s, crossing ${formatValue(d.rossbyCrossingDays)} days`],
+      ['Grid', `${d.nx} \u00d7 ${d.ny} cells, ${formatValue(d.dxKm)} \u00d7 ${formatValue(d.dyKm)} km`],
+      ['Time step dt', `${formatValue(d.dt)} s${d.dtIsAuto ? ' (auto)' : ''}`, d.dt > d.stability.dtMax],
+      ['dt limit', `${formatValue(d.stability.dtMax)} s (${d.stability.limitingTerm})`],
+      ['Steps, saved frames', `${d.steps.toLocaleString('en')}, ${d.outputs}`],
+      ['Solver memory', `${(d.memoryBytes / 1e6).toFixed(1)} MB`],
+    ];
+    this.derivedList.replaceChildren(
+      ...rows.flatMap(([k, v, bad]) => {
+        const dt = document.createElement('dt');
+        dt.textContent = k;
+        const dd = document.createElement('dd');
+        dd.textContent = v;
+        if (bad) dd.classList.add('bad');
+        return [dt, dd];
+      }),
+    );
+  }
+}

@@ -1,0 +1,254 @@
+// The map panel: the WebGL canvas with an overlay canvas on top for the graticule, labels, probe
+// marks, the cursor and the reference arrows. Both canvases have the same size, so the PNG
+// export is the two stacked.
+
+import { MapRenderer, type ArrowSet, type Viewport } from './map-gl.ts';
+import { arrowCells, cellAt, graticuleLines, graticuleStep, latLabel, lonLabel, type Extent } from './geo.ts';
+import { niceCeil } from '../state/colour-range.ts';
+import type { GridInfo } from '../../worker/protocol.ts';
+
+const MARGIN = { left: 46, right: 10, top: 10, bottom: 24 };
+/** CSS pixels between arrows. */
+const ARROW_SPACING = 22;
+
+export interface VectorLayer {
+  name: string;
+  u: Float32Array;
+  v: Float32Array;
+  units: string;
+  colour: [number, number, number];
+}
+
+export interface Mark {
+  name: string;
+  lon: number;
+  lat: number;
+}
+
+export class MapView {
+  readonly gl: MapRenderer;
+  private grid: GridInfo | null = null;
+  private cssW = 0;
+  private cssH = 0;
+  private dpr = 1;
+  /** Steady reference magnitudes per layer name (widen at once, shrink slowly). */
+  private refs = new Map<string, number>();
+  private lastArrows: Array<{ layer: VectorLayer; ref: number; pxPerRef: number }> = [];
+
+  constructor(
+    readonly glCanvas: HTMLCanvasElement,
+    readonly overlay: HTMLCanvasElement,
+    options: { forceBytes?: boolean } = {},
+  ) {
+    this.gl = new MapRenderer(glCanvas, options);
+  }
+
+  setGrid(grid: GridInfo): void {
+    this.grid = grid;
+    this.refs.clear();
+    this.gl.setGrid(grid.nx, grid.ny, grid.ocean);
+  }
+
+  get extent(): Extent | null {
+    return this.grid;
+  }
+
+  /** Size the canvases to a width in CSS pixels; the height follows the basin's shape. */
+  layout(cssWidth: number, maxHeight: number): void {
+    if (!this.grid) return;
+    const g = this.grid;
+    const plotW = Math.max(100, cssWidth - MARGIN.left - MARGIN.right);
+    const aspect = (g.latNorth - g.latSouth) / (g.lonEast - g.lonWest);
+    const plotH = Math.max(60, Math.min(maxHeight - MARGIN.top - MARGIN.bottom, plotW * aspect));
+    this.cssW = Math.round(plotW + MARGIN.left + MARGIN.right);
+    this.cssH = Math.round(plotH + MARGIN.top + MARGIN.bottom);
+    this.dpr = Math.min(2, window.devicePixelRatio || 1);
+    for (const c of [this.glCanvas, this.overlay]) {
+      c.style.width = `${this.cssW}px`;
+      c.style.height = `${this.cssH}px`;
+      c.width = Math.round(this.cssW * this.dpr);
+      c.height = Math.round(this.cssH * this.dpr);
+    }
+  }
+
+  /** Plot area in CSS pixels from the top-left. */
+  plotRect(): { left: number; top: number; width: number; height: number } {
+    return { left: MARGIN.left, top: MARGIN.top, width: this.cssW - MARGIN.left - MARGIN.right, height: this.cssH - MARGIN.top - MARGIN.bottom };
+  }
+
+  private viewport(): Viewport {
+    const r = this.plotRect();
+    const d = this.dpr;
+    return { x: Math.round(r.left * d), y: Math.round(MARGIN.bottom * d), width: Math.round(r.width * d), height: Math.round(r.height * d) };
+  }
+
+  /** Cell under a point in CSS pixels relative to the canvas. */
+  cellAtPixel(x: number, y: number): { i: number; j: number } | null {
+    if (!this.grid) return null;
+    const r = this.plotRect();
+    return cellAt((x - r.left) / r.width, (y - r.top) / r.height, this.grid.nx, this.grid.ny);
+  }
+
+  /** Pixel (CSS, canvas-relative) of a lon/lat. */
+  pixelOf(lon: number, lat: number): [number, number] {
+    const g = this.grid!;
+    const r = this.plotRect();
+    return [r.left + ((lon - g.lonWest) / (g.lonEast - g.lonWest)) * r.width, r.top + ((g.latNorth - lat) / (g.latNorth - g.latSouth)) * r.height];
+  }
+
+  draw(values: Float32Array, range: { min: number; max: number }, layers: VectorLayer[], marks: Mark[], cursor: { i: number; j: number } | null): void {
+    if (!this.grid) return;
+    const shaderRange = this.gl.setField(values, range);
+    const arrows = layers.map((l) => this.arrowSet(l));
+    this.gl.draw(this.viewport(), shaderRange, arrows);
+    this.drawOverlay(marks, cursor);
+  }
+
+  private arrowSet(layer: VectorLayer): ArrowSet {
+    const g = this.grid!;
+    const r = this.plotRect();
+    const stride = Math.max(1, Math.round((ARROW_SPACING / r.width) * g.nx));
+    const cells = arrowCells(g.nx, g.ny, stride);
+    const at = new Float32Array(cells.length * 2);
+    const vec = new Float32Array(cells.length * 2);
+    let n = 0;
+    let biggest = 0;
+    for (const k of cells) {
+      const u = layer.u[k];
+      const v = layer.v[k];
+      if (!(u === u && v === v) || !g.ocean[k]) continue;
+      const i = k % g.nx;
+      const j = (k - i) / g.nx;
+      at[2 * n] = ((i + 0.5) / g.nx) * 2 - 1;
+      at[2 * n + 1] = ((j + 0.5) / g.ny) * 2 - 1;
+      vec[2 * n] = u;
+      vec[2 * n + 1] = v;
+      biggest = Math.max(biggest, Math.hypot(u, v));
+      n++;
+    }
+    const prev = this.refs.get(layer.name) ?? 0;
+    let ref = prev;
+    if (biggest > prev || biggest < prev / 4) ref = niceCeil(biggest);
+    this.refs.set(layer.name, ref);
+    // The reference magnitude gets 1.4 arrow spacings, so the longest arrow overlaps little.
+    const pxPerRef = ARROW_SPACING * 1.4;
+    const pxPerUnit = ref > 0 ? (pxPerRef * this.dpr) / ref : 0;
+    const entry = { layer, ref, pxPerRef };
+    this.lastArrows = [...this.lastArrows.filter((a) => a.layer.name !== layer.name), entry];
+    return { at, vec, count: ref > 0 ? n : 0, pxPerUnit, colour: layer.colour };
+  }
+
+  /** Layers that were drawn last time, with their reference arrows. */
+  referenceArrows(): Array<{ name: string; ref: number; units: string }> {
+    return this.lastArrows.map((a) => ({ name: a.layer.name, ref: a.ref, units: a.layer.units }));
+  }
+
+  forgetArrows(): void {
+    this.lastArrows = [];
+  }
+
+  private drawOverlay(marks: Mark[], cursor: { i: number; j: number } | null): void {
+    const g = this.grid!;
+    const ctx = this.overlay.getContext('2d');
+    if (!ctx) return;
+    const d = this.dpr;
+    ctx.setTransform(d, 0, 0, d, 0, 0);
+    ctx.clearRect(0, 0, this.cssW, this.cssH);
+    const r = this.plotRect();
+    ctx.font = '11px system-ui, sans-serif';
+    ctx.lineWidth = 1;
+
+    // Graticule: thin dark lines over the field, labels in the margins.
+    const lonStep = graticuleStep(g.lonEast - g.lonWest, Math.max(3, Math.floor(r.width / 70)));
+    const latStep = graticuleStep(g.latNorth - g.latSouth, Math.max(2, Math.floor(r.height / 35)));
+    ctx.strokeStyle = 'rgba(0,0,0,0.28)';
+    ctx.fillStyle = '#222';
+    ctx.textAlign = 'center';
+    ctx.textBaseline = 'top';
+    for (const lon of graticuleLines(g.lonWest, g.lonEast, lonStep)) {
+      const [x] = this.pixelOf(lon, 0);
+      ctx.beginPath();
+      ctx.moveTo(x + 0.5, r.top);
+      ctx.lineTo(x + 0.5, r.top + r.height);
+      ctx.stroke();
+      ctx.fillText(lonLabel(lon), x, r.top + r.height + 4);
+    }
+    ctx.textAlign = 'right';
+    ctx.textBaseline = 'middle';
+    for (const lat of graticuleLines(g.latSouth, g.latNorth, latStep)) {
+      const [, y] = this.pixelOf(g.lonWest, lat);
+      ctx.strokeStyle = lat === 0 ? 'rgba(0,0,0,0.5)' : 'rgba(0,0,0,0.28)';
+      ctx.beginPath();
+      ctx.moveTo(r.left, y + 0.5);
+      ctx.lineTo(r.left + r.width, y + 0.5);
+      ctx.stroke();
+      ctx.fillText(latLabel(lat), r.left - 4, y);
+    }
+    ctx.strokeStyle = '#333';
+    ctx.strokeRect(r.left + 0.5, r.top + 0.5, r.width - 1, r.height - 1);
+
+    // Probes: a ring and the name.
+    ctx.textAlign = 'left';
+    for (const m of marks) {
+      const [x, y] = this.pixelOf(m.lon, m.lat);
+      ctx.strokeStyle = '#000';
+      ctx.fillStyle = '#fff';
+      ctx.beginPath();
+      ctx.arc(x, y, 4, 0, 2 * Math.PI);
+      ctx.fill();
+      ctx.stroke();
+      ctx.fillStyle = '#000';
+      ctx.fillText(m.name, x + 6, y - 7);
+    }
+
+    if (cursor) {
+      const w = r.width / g.nx;
+      const h = r.height / g.ny;
+      const x = r.left + cursor.i * w;
+      const y = r.top + (g.ny - 1 - cursor.j) * h;
+      ctx.strokeStyle = '#000';
+      ctx.lineWidth = 2;
+      ctx.strokeRect(x - 1, y - 1, w + 2, h + 2);
+      ctx.lineWidth = 1;
+    }
+
+    // Reference arrows in a white box in the top-right corner.
+    const refs = this.lastArrows.filter((a) => a.ref > 0);
+    if (refs.length) {
+      const boxW = 150;
+      const boxH = 8 + 16 * refs.length;
+      const bx = r.left + r.width - boxW - 4;
+      const by = r.top + 4;
+      ctx.fillStyle = 'rgba(255,255,255,0.85)';
+      ctx.fillRect(bx, by, boxW, boxH);
+      refs.forEach((a, n) => {
+        const y = by + 12 + 16 * n;
+        const [cr, cg, cb] = a.layer.colour;
+        ctx.strokeStyle = `rgb(${cr},${cg},${cb})`;
+        const x0 = bx + 6;
+        const x1 = x0 + a.pxPerRef;
+        ctx.beginPath();
+        ctx.moveTo(x0, y);
+        ctx.lineTo(x1, y);
+        ctx.lineTo(x1 - 0.28 * a.pxPerRef, y - 0.22 * a.pxPerRef);
+        ctx.moveTo(x1, y);
+        ctx.lineTo(x1 - 0.28 * a.pxPerRef, y + 0.22 * a.pxPerRef);
+        ctx.stroke();
+        ctx.fillStyle = '#000';
+        ctx.textBaseline = 'middle';
+        ctx.fillText(`${a.ref} ${a.layer.units}`, x1 + 6, y);
+      });
+    }
+  }
+
+  /** The map as one picture: field, arrows and overlay. */
+  compose(): HTMLCanvasElement {
+    const out = document.createElement('canvas');
+    out.width = this.glCanvas.width;
+    out.height = this.glCanvas.height;
+    const ctx = out.getContext('2d')!;
+    ctx.drawImage(this.glCanvas, 0, 0);
+    ctx.drawImage(this.overlay, 0, 0);
+    return out;
+  }
+}
