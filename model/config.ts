@@ -63,6 +63,11 @@ export interface TimeConfig {
   dt: number | null;
   /** Safety factor applied to the stability limit when dt is automatic. */
   safety: number;
+  /**
+   * Automatic dt only: shorten it so that this interval (s; the output interval) is a whole
+   * number of steps, so output times fall exactly on the days asked for.
+   */
+  alignTo?: number;
 }
 
 export interface ModelConfig {

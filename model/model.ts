@@ -65,7 +65,7 @@ export class Model {
       friction: p.friction,
       mode: p.mode,
     });
-    this.dt = chooseTimeStep(this.limit, config.time.dt, config.time.safety);
+    this.dt = chooseTimeStep(this.limit, config.time.dt, config.time.safety, config.time.alignTo);
     this.coefficients = buildCoefficients(this.grid, p, this.dt, options.variant);
     this.fCentre = this.coefficients.fU;
 

@@ -109,9 +109,16 @@ export class StabilityError extends InputError {
   override name = 'StabilityError';
 }
 
-/** The dt a run uses: automatic (safety x limit) or the user's, refused above the limit. */
-export function chooseTimeStep(limit: StabilityLimit, requested: number | null, safety: number): number {
-  if (requested === null) return safety * limit.dtMax;
+/**
+ * The dt a run uses: automatic (safety x limit, shortened so that alignTo is a whole number of
+ * steps when given) or the user's, refused above the limit.
+ */
+export function chooseTimeStep(limit: StabilityLimit, requested: number | null, safety: number, alignTo?: number): number {
+  if (requested === null) {
+    const dt = safety * limit.dtMax;
+    if (alignTo && alignTo > 0 && Number.isFinite(alignTo)) return alignTo / Math.ceil(alignTo / dt - 1e-9);
+    return dt;
+  }
   if (!(requested > 0) || !Number.isFinite(requested)) {
     throw new StabilityError(`time step must be a positive number of seconds (got ${requested})`, 'time.dtSeconds');
   }

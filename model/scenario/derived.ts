@@ -3,7 +3,7 @@
 
 import { DAY, type DynamicsMode } from '../config.ts';
 import type { Grid } from '../grid.ts';
-import { stabilityLimit, type StabilityLimit } from '../dynamics/stability.ts';
+import { chooseTimeStep, stabilityLimit, type StabilityLimit } from '../dynamics/stability.ts';
 import type { ResolvedScenario } from './resolve.ts';
 
 export { stabilityLimit, type LimitingTerm, type StabilityInput, type StabilityLimit } from '../dynamics/stability.ts';
@@ -87,7 +87,7 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
   }
   const stability = scenarioStability(r);
   const dtIsAuto = time.dt === null;
-  const dt = time.dt ?? time.safety * stability.dtMax;
+  const dt = time.dt ?? chooseTimeStep(stability, null, time.safety, time.alignTo);
   const outputs = Math.floor(r.days / r.outputEveryDays + 1e-9) + 1;
   const fields = r.outputFields.length;
   const outputBytes = nx * ny * 4 * fields * outputs + (nx + ny) * 8 + outputs * 8;

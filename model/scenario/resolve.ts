@@ -68,7 +68,7 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
       entrainment: { minThickness: physics.entrainment.minThickness, time: physics.entrainment.timeDays * DAY },
       sponge: { widthDeg: basin.sponge.widthDeg, rateAtWall: rate(basin.sponge.dampingDays) },
     },
-    time: { dt: time.dtSeconds === 'auto' ? null : time.dtSeconds, safety: time.safety },
+    time: { dt: time.dtSeconds === 'auto' ? null : time.dtSeconds, safety: time.safety, alignTo: time.outputEveryDays * DAY },
   };
   return {
     name: scenario.name,

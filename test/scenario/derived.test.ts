@@ -68,7 +68,11 @@ describe('derived numbers against check-values.md section 0 (D: derived from c =
     expect(d.outputBytes).toBe(120 * 40 * 4 * 10 * 31 + (120 + 40) * 8 + 31 * 8);
     expect(d.memoryBytes).toBeGreaterThan(123 * 43 * 8 * 12);
     expect(d.dtIsAuto).toBe(true);
-    expect(d.dt).toBeCloseTo(0.8 * d.stability.dtMax, 9);
+    // 0.8 of the limit, shortened to the next whole number of steps per output interval.
+    const perOutput = (r.outputEveryDays * 86400) / d.dt;
+    expect(perOutput).toBeCloseTo(Math.round(perOutput), 9);
+    expect(d.dt).toBeLessThanOrEqual(0.8 * d.stability.dtMax);
+    expect(d.dt).toBeGreaterThan(((perOutput - 1) / perOutput) * 0.8 * d.stability.dtMax);
     expect(d.steps).toBe(Math.ceil((60 * 86400) / d.dt));
   });
 });

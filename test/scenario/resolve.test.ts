@@ -23,7 +23,7 @@ describe('resolveScenario gives SI units', () => {
     expect(r.model.physics.surfaceLayer).toEqual({ depth: 40, damping: 1 / (3 * 86400) });
     expect(r.model.physics.entrainment).toEqual({ minThickness: 30, time: 2 * 86400 });
     expect(r.model.physics.sponge).toEqual({ widthDeg: 4, rateAtWall: 1 / (5 * 86400) });
-    expect(r.model.time).toEqual({ dt: 1800, safety: 0.8 });
+    expect(r.model.time).toEqual({ dt: 1800, safety: 0.8, alignTo: r.outputEverySeconds });
     expect(r.runSeconds).toBe(60 * 86400);
     expect(r.outputEverySeconds).toBe(2 * 86400);
     expect(r.days).toBe(60);
