@@ -101,6 +101,7 @@ let hover: { i: number; j: number } | null = null;
 let display = new Float32Array(0);
 let drawQueued = false;
 let lastProbeDraw = 0;
+let probeTimer: ReturnType<typeof setTimeout> | null = null;
 let loading = false;
 const early: Frame[] = [];
 
@@ -153,7 +154,8 @@ function onStatus(s: EngineStatus): void {
 }
 
 function onEngineError(e: EngineError): void {
-  message(e.kind === 'blow-up' ? `The run stopped: ${e.message}` : e.message);
+  // The engine's own text, word for word as the command line prints it.
+  message(e.message);
 }
 
 // ---- loading ----
@@ -245,7 +247,18 @@ async function openText(text: string, fileName: string): Promise<void> {
     message(check.lines.join('\n'));
     return;
   }
-  if (await loadIntoEngine(text, fileName)) panel.setScenario(check.json, fileName);
+  if (await loadIntoEngine(text, fileName)) {
+    panel.setScenario(check.json, fileName);
+    // Show an opened file in the picker too, so the panel never names the wrong scenario.
+    const pick = $<HTMLSelectElement>('scenario-pick');
+    if (!shipped.some((s) => s.file === fileName)) {
+      pick.querySelector('option[data-opened]')?.remove();
+      const o = new Option(`${String(check.json.name ?? fileName)} (opened ${fileName})`, `opened:${fileName}`);
+      o.dataset.opened = '1';
+      pick.append(o);
+      pick.value = o.value;
+    } else pick.value = fileName;
+  }
 }
 
 // ---- drawing ----
@@ -295,6 +308,13 @@ function draw(): void {
   if (now - lastProbeDraw > 250) {
     lastProbeDraw = now;
     probePanel.draw();
+  } else if (!probeTimer) {
+    // Catch up once the pause is over, so the chart also shows the last frame of a burst.
+    probeTimer = setTimeout(() => {
+      probeTimer = null;
+      lastProbeDraw = performance.now();
+      probePanel.draw();
+    }, 260 - (now - lastProbeDraw));
   }
   $('budget-note').textContent = history.describe();
 }

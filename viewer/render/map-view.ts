@@ -69,6 +69,9 @@ export class MapView {
       c.width = Math.round(this.cssW * this.dpr);
       c.height = Math.round(this.cssH * this.dpr);
     }
+    // Where the plot sits, for anyone reading the picture back (the browser tests).
+    const r = this.plotRect();
+    this.glCanvas.dataset.plot = [r.left, r.top, r.width, r.height].join(',');
   }
 
   /** Plot area in CSS pixels from the top-left. */
