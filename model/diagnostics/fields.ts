@@ -4,7 +4,6 @@
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
 import type { State } from '../state.ts';
-import { surfaceShear } from '../surface-layer.ts';
 
 export const FIELD_NAMES = [
   'h_anom',
@@ -101,15 +100,18 @@ export function centredField(
           value = 0.5 * (tauy[k] + tauy[k + W]);
           break;
         default: {
-          const tx = 0.5 * (taux[k] + taux[k + 1]);
-          const ty = 0.5 * (tauy[k] + tauy[k + W]);
-          const s = surfaceShear(tx, ty, f, rho0, H1, rs);
+          // The surface-layer balance of model/surface-layer.ts, inline: this runs per cell.
+          const X = (0.5 * (taux[k] + taux[k + 1])) / (rho0 * H1);
+          const Y = (0.5 * (tauy[k] + tauy[k + W])) / (rho0 * H1);
+          const det = rs * rs + f * f;
+          const us = (rs * X + f * Y) / det;
+          const vs = (rs * Y - f * X) / det;
           const um = 0.5 * (u[k] + u[k + 1]);
           const vm = 0.5 * (v[k] + v[k + W]);
-          if (name === 'u_surf') value = um + ((H - H1) / H) * s.us;
-          else if (name === 'v_surf') value = vm + ((H - H1) / H) * s.vs;
-          else if (name === 'u_below') value = um - (H1 / H) * s.us;
-          else value = vm - (H1 / H) * s.vs;
+          if (name === 'u_surf') value = um + ((H - H1) / H) * us;
+          else if (name === 'v_surf') value = vm + ((H - H1) / H) * vs;
+          else if (name === 'u_below') value = um - (H1 / H) * us;
+          else value = vm - (H1 / H) * vs;
         }
       }
       out[o] = value;
