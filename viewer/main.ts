@@ -164,6 +164,9 @@ async function loadIntoEngine(text: string, fileName: string): Promise<boolean> 
   early.length = 0;
   try {
     const r = await engine.load(text, fileName);
+    // The speed picker's choice holds for every run, the first included.
+    const speed = $<HTMLSelectElement>('speed').value;
+    await engine.setSpeed(speed === 'max' ? 'max' : Number(speed));
     loading = false;
     startRun(r);
     for (const f of early.splice(0)) onFrame(f);

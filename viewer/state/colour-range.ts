@@ -36,8 +36,9 @@ export function autoRange(values: ArrayLike<number>, kind: ColourKind): Range {
   if (!e) return kind === 'diverging' ? { min: -1, max: 1 } : { min: 0, max: 1 };
   if (kind === 'diverging') {
     const a = niceCeil(Math.max(Math.abs(e.min), Math.abs(e.max)));
-    // A field at rest is all zeros: keep a small non-zero span so the map stays white, not undefined.
-    const s = a > 0 ? a : 1e-6;
+    // A field at rest is all zeros: show a span of one unit, so the map stays white and the
+    // colour bar reads in plain numbers until something moves.
+    const s = a > 0 ? a : 1;
     return { min: -s, max: s };
   }
   if (e.max - e.min <= 0) return { min: e.min, max: e.min + Math.max(1e-6, Math.abs(e.min) * 1e-3) };
