@@ -1,0 +1,93 @@
+// Reading a Pycno run file back into a RunData, and writing it again: every value kept, and
+// files that are not Pycno run files, or are damaged, refused with a message that says why.
+
+import { describe, expect, it } from 'vitest';
+import { FIELD_NAMES } from '../../model/diagnostics/fields.ts';
+import { writeNetcdfToMemory } from '../../model/io/netcdf-writer.ts';
+import { NC_FLOAT } from '../../model/io/netcdf-format.ts';
+import { readRun, RunCollector, toNetcdf, thinSnapshots, RunFileError, type RunData } from '../../model/io/run-read.ts';
+import { sha256Hex } from '../../model/io/sha256.ts';
+import { expectSameRun, tinyRun } from './run-fixture.ts';
+
+describe('RunData <-> NetCDF', () => {
+  it('collects a run with every series at full resolution and the snapshots asked for', async () => {
+    const run = await tinyRun([], 3);
+    expect(Array.from(run.days)).toEqual([0, 1, 2, 3, 4, 5, 6]);
+    expect(run.snapshots.map((s) => s.index)).toEqual([0, 3, 6]);
+    expect(run.fields).toEqual([...FIELD_NAMES]);
+    expect(run.hovmoller.map((h) => h.values.length)).toEqual([7 * 40, 7 * 40]);
+    expect(run.probes.map((p) => p.series.h_anom!.length)).toEqual([7, 7]);
+    expect(run.scenarioSha256).toBe(sha256Hex(run.scenarioJson));
+    expect(run.seed).toBe(11);
+    // The run moved: the westerly patch raised the thermocline somewhere.
+    expect(Math.max(...run.snapshots[1].fields.h_anom!.filter(Number.isFinite))).toBeGreaterThan(0.1);
+  });
+
+  it('export -> import keeps every value bit for bit, snapshots thinned or not', async () => {
+    for (const every of [1, 2]) {
+      const run = await tinyRun([], every);
+      const bytes = await toNetcdf(run);
+      const back = readRun(bytes, 'tiny.nc');
+      expectSameRun(run, back);
+      // And a second export is the same file, byte for byte.
+      expect(Buffer.from(await toNetcdf(back)).equals(Buffer.from(bytes))).toBe(true);
+    }
+  });
+
+  it('keeps NaN on land and the land mask', async () => {
+    const run = await tinyRun();
+    const back = readRun(await toNetcdf(run));
+    const land = Array.from(back.grid.ocean).findIndex((o) => o === 0);
+    expect(land).toBeGreaterThanOrEqual(0);
+    expect(back.snapshots[2].fields.u![land]).toBeNaN();
+    expect(Number.isFinite(back.snapshots[2].fields.u![back.grid.ocean.indexOf(1)])).toBe(true);
+  });
+
+  it('thinSnapshots keeps every k-th record and refuses a bad k', async () => {
+    const run = await tinyRun();
+    expect(thinSnapshots(run, 4).map((s) => s.index)).toEqual([0, 4]);
+    expect(() => thinSnapshots(run, 0)).toThrow(/whole number >= 1/);
+  });
+
+  it('the collector refuses records out of order', async () => {
+    const run = await tinyRun();
+    const c = new RunCollector({ ...run, hovmollerLats: [], probes: [], grid: run.grid, bursts: [] });
+    const rec = { day: 1, step: 1, fields: {}, integrals: { day: 1 } as never, hovmoller: [], probeValues: [] };
+    c.add(rec);
+    expect(() => c.add(rec)).toThrow(/day 1 does not follow day 1/);
+  });
+});
+
+describe('refusals', () => {
+  it('a NetCDF file written by someone else', async () => {
+    const other = await writeNetcdfToMemory(
+      { dimensions: [{ name: 'x', length: 3 }], variables: [{ name: 'sst', type: NC_FLOAT, dimensions: ['x'] }], attributes: { title: 'not ours' } },
+      { sst: [1, 2, 3] },
+      [],
+    );
+    expect(() => readRun(other, 'other.nc')).toThrow(/^other\.nc: not a Pycno run file: it has no pycno_scenario attribute/);
+  });
+
+  it('bytes that are not NetCDF at all', () => {
+    expect(() => readRun(new TextEncoder().encode('{"format": "pycno-scenario/1"}'), 'scenario.json')).toThrow(/^scenario\.json: not a NetCDF file/);
+  });
+
+  it('a truncated run file', async () => {
+    const bytes = await toNetcdf(await tinyRun());
+    const cut = bytes.slice(0, bytes.length - 5000);
+    expect(() => readRun(cut, 'cut.nc')).toThrow(RunFileError);
+    expect(() => readRun(cut, 'cut.nc')).toThrow(/^cut\.nc: truncated file/);
+    expect(() => readRun(bytes.slice(0, 100), 'head.nc')).toThrow(/^head\.nc: truncated/);
+  });
+
+  it('a run file whose scenario text was changed', async () => {
+    const bytes = await toNetcdf(await tinyRun());
+    // Change one character of the scenario attribute in place ("0.03" -> "0.04"), same length.
+    const text = Buffer.from(bytes).toString('latin1');
+    const at = text.indexOf('"reducedGravity": 0.03');
+    expect(at).toBeGreaterThan(0);
+    const changed = bytes.slice();
+    changed[at + '"reducedGravity": 0.0'.length] = '4'.charCodeAt(0);
+    expect(() => readRun(changed, 'edited.nc')).toThrow(/^edited\.nc: damaged Pycno run file: the scenario's SHA-256/);
+  });
+});
