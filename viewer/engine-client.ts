@@ -24,6 +24,8 @@ export interface EngineClient {
   setSpeed(daysPerSecond: number | 'max'): Promise<void>;
   /** End the run and go back to its start; the day-0 frame follows. */
   stop(): Promise<void>;
+  /** Sample one more Hovmoller latitude from the next output on. */
+  addSection(lat: number): Promise<{ ok: true; index: number; rowLat: number } | { ok: false; message: string }>;
   terminate(): void;
 }
 
@@ -75,6 +77,7 @@ export function connectEngine(handlers: EngineHandlers): EngineClient {
       await api.stop();
       await sendCurrent();
     },
+    addSection: (lat) => api.addSection(lat),
     terminate: () => worker.terminate(),
   };
 }

@@ -18,6 +18,8 @@ export interface EngineApi {
   subscribe(onFrame: (frame: Frame) => void, onStatus?: (report: EngineReport) => void): void;
   /** Resolves when the run is not running (after pause, end, stop or failure). */
   idle(): Promise<EngineReport>;
+  /** Sample one more Hovmoller latitude from the next output on. */
+  addSection(lat: number): ReturnType<Engine['addSection']>;
 }
 
 /** Wrap an engine; `send` marks a value's buffers for transfer (Comlink.transfer). */
@@ -41,5 +43,6 @@ export function engineApi(engine: Engine, send: <T>(value: T, transfer: ArrayBuf
       if (onStatus) unsubscribe.push(engine.onStatus((r) => void onStatus(r)));
     },
     idle: () => engine.idle(),
+    addSection: (lat) => engine.addSection(lat),
   };
 }

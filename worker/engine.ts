@@ -82,6 +82,8 @@ export class Engine {
   private readonly statusListeners = new Set<StatusListener>();
   private recorder: OutputRecorder | null = null;
   private run: Loaded | null = null;
+  /** Hovmoller latitudes added while a scenario is loaded; kept across stop-and-reset, cleared by load. */
+  private extraLats: number[] = [];
   private state: EngineStatus = 'empty';
   private error: EngineError | null = null;
   private speed: number | 'max' = 'max';
@@ -125,6 +127,7 @@ export class Engine {
   async load(text: string, fileName: string, options: LoadOptions = {}): Promise<LoadResult> {
     await this.halt();
     this.run = null;
+    this.extraLats = [];
     this.samplesTaken = 0;
     this.pending = [];
     this.error = null;
@@ -169,7 +172,8 @@ export class Engine {
     const firstStep = model.state.steps;
     const endStep = firstStep + Math.ceil(r.runSeconds / model.dt - 1e-9);
     const outputs = Math.floor(r.days / r.outputEveryDays + 1e-9) + 1;
-    const hovRows = r.hovmollerLats.map((lat) => grid.nearestRow(lat));
+    const lats = [...r.hovmollerLats, ...this.extraLats];
+    const hovRows = lats.map((lat) => grid.nearestRow(lat));
     const probeCells = r.probes.map((p) => {
       const c = grid.cellAt(p.lon, p.lat);
       if (!c) throw new InputError(`probe '${p.name}' at ${p.lon}, ${p.lat} lies outside the basin`, `${parsed.fileName}: probes`);
@@ -200,7 +204,7 @@ export class Engine {
       days: r.days,
       outputEveryDays: r.outputEveryDays,
       fields,
-      hovmollerLats: [...r.hovmollerLats],
+      hovmollerLats: lats,
       probes: r.probes.map((p) => ({ name: p.name, lon: p.lon, lat: p.lat })),
       bursts: built.bursts,
       hovmollerRowLats: hovRows.map((j) => grid.latCentre[j]),
@@ -247,6 +251,28 @@ export class Engine {
     this.speed = daysPerSecond;
     this.anchor();
     this.report();
+  }
+
+  /**
+   * Sample one more Hovmoller latitude from the next output on (the page fills the earlier days
+   * from the frames it kept). Returns its index in the samples' hovmoller rows, and the latitude
+   * of the grid row actually sampled; a latitude already sampled returns its existing index.
+   */
+  addSection(lat: number): { ok: true; index: number; rowLat: number } | { ok: false; message: string } {
+    const run = this.run;
+    if (!run) return { ok: false, message: 'no scenario is loaded' };
+    const g = run.model.grid;
+    if (!Number.isFinite(lat) || lat < g.basin.latSouth || lat > g.basin.latNorth) {
+      return { ok: false, message: `latitude ${lat} lies outside the basin (${g.basin.latSouth} to ${g.basin.latNorth})` };
+    }
+    const j = g.nearestRow(lat);
+    const existing = run.hovRows.indexOf(j);
+    if (existing >= 0) return { ok: true, index: existing, rowLat: g.latCentre[j] };
+    this.extraLats.push(lat);
+    run.hovRows.push(j);
+    run.info.hovmollerLats.push(lat);
+    run.info.hovmollerRowLats?.push(g.latCentre[j]);
+    return { ok: true, index: run.hovRows.length - 1, rowLat: g.latCentre[j] };
   }
 
   /** End the run and go back to the loaded scenario's starting state (status 'ready'). */

@@ -178,6 +178,22 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     await page.waitForFunction((n) => Number(document.getElementById('hovmoller')!.dataset.rows) >= n + 2, before, { timeout: 20_000 });
   });
 
+  it('any latitude can get its own Hovmoller diagram: earlier days from the kept frames, later ones as the run goes', async () => {
+    await page.fill('#hov-lat-other', '4');
+    await page.click('#btn-hov-lat');
+    await expect.poll(async () => page.$eval('#hov-lat', (s) => (s as HTMLSelectElement).selectedOptions[0]?.textContent ?? '')).toMatch(/^4(\.\d+)?°N$/);
+    const rows = Number(await page.getAttribute('#hovmoller', 'data-rows'));
+    expect(rows).toBeGreaterThan(10);
+    await page.click('#btn-step');
+    await page.waitForFunction((n) => Number(document.getElementById('hovmoller')!.dataset.rows) >= n + 1, rows, { timeout: 20_000 });
+    // A latitude outside the basin is refused with a message, and the page goes on.
+    await page.fill('#hov-lat-other', '80');
+    await page.click('#btn-hov-lat');
+    await expect.poll(async () => (await info(page)).errors.join('\n')).toMatch(/latitude 80 lies outside the basin/);
+    await page.selectOption('#hov-lat', '0');
+    await shot(page, '04a-hovmoller-4N.png');
+  });
+
   it('a click on the map adds a probe whose series plots', async () => {
     const series = Number(await page.getAttribute('#probe-chart', 'data-series'));
     const p = await mapPoint(page, 100, 0.2, basin);

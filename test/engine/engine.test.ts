@@ -212,3 +212,33 @@ describe('engine controls', () => {
     expect(fastHost.t - t1).toBeLessThan(1000);
   });
 });
+
+describe('Hovmoller latitudes added during a run', () => {
+  it('are sampled from the next output on, along the nearest row, and kept across stop-and-reset', async () => {
+    const engine = new Engine({ host: fakeHost(2) });
+    const info = await loaded(engine);
+    const before = info.hovmollerLats.length;
+    const frames = collect(engine);
+    const added = engine.addSection(2.2);
+    expect(added.ok).toBe(true);
+    if (!added.ok) return;
+    expect(added.index).toBe(before);
+    await engine.stepOutput();
+    const sample = frames.flatMap((f) => f.frame.samples).at(-1)!;
+    expect(sample.hovmoller).toHaveLength(before + 1);
+    // The row is h' along the grid row nearest 2.2 N, as in the full field.
+    const model = engine.model!;
+    const j = model.grid.nearestRow(2.2);
+    expect(added.rowLat).toBe(model.grid.latCentre[j]);
+    const h = model.field('h_anom', new Float32Array(model.grid.nx * model.grid.ny));
+    expect(Array.from(sample.hovmoller[before])).toEqual(Array.from(h.subarray(j * model.grid.nx, (j + 1) * model.grid.nx)));
+    // The same latitude again answers with the same index; outside the basin is refused.
+    expect(engine.addSection(model.grid.latCentre[j])).toEqual({ ok: true, index: before, rowLat: added.rowLat });
+    const outside = engine.addSection(95);
+    expect(outside.ok).toBe(false);
+    await engine.stop();
+    expect(engine.loaded!.hovmollerLats).toHaveLength(before + 1);
+    // A new load forgets it.
+    expect((await loaded(engine)).hovmollerLats).toHaveLength(before);
+  });
+});

@@ -15,9 +15,20 @@ export class HovmollerStore {
     this.rows = lats.map(() => []);
   }
 
+  /**
+   * A latitude added during a run: earlier days come from `backfill` (rows cut from the frames the
+   * page kept), later ones from the samples, which carry it at `index` from now on.
+   */
+  addLatitude(index: number, lat: number, backfill: HovRow[]): void {
+    this.lats[index] = lat;
+    this.rows[index] = [...backfill].sort((a, b) => a.day - b.day);
+  }
+
   add(day: number, rows: Float32Array[]): void {
     rows.forEach((values, n) => {
-      if (this.rows[n]) this.rows[n].push({ day, values });
+      const list = this.rows[n];
+      // A backfilled latitude may already hold this day from a kept frame.
+      if (list && !(list.length && list[list.length - 1].day >= day)) list.push({ day, values });
     });
   }
 
