@@ -141,7 +141,12 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     await shot(page, '02-running.png');
     await page.click('#btn-pause');
     await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'paused', null, { timeout: 10_000 });
-    await page.waitForTimeout(300);
+    // Let the last frame reach the canvas before reading it: on a loaded machine the draw can lag.
+    await page.waitForFunction(() => {
+      const p = (window as unknown as { __pycno: Info }).__pycno;
+      return p.shownDay === p.lastDay;
+    }, null, { timeout: 10_000 });
+    await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
     const i = await info(page);
     expect(i.framesReceived).toBeGreaterThan(5);
     expect(i.framesDrawn).toBeGreaterThan(2);
