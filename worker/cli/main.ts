@@ -15,6 +15,7 @@ import { FileSink, nodeReader } from '../files-node.ts';
 import type { EngineError, LoadedScenario } from '../protocol.ts';
 import { Progress, type ProgressStream } from './progress.ts';
 import { checkReport, runSummary } from './report.ts';
+import { rerun, RERUN_HELP, RERUN_USAGE } from './rerun.ts';
 
 export interface CliIO {
   stdout: { write(s: string): unknown };
@@ -27,14 +28,14 @@ export interface CliIO {
 export const USAGE = `usage:
   pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--quiet]
   pycno check SCENARIO.json [--set path=value ...]
-  pycno --version | --help
+${RERUN_USAGE}  pycno --version | --help
 
   --out FILE.nc          output file (default: the scenario's name with .nc, in the current folder)
   --days N               run length in days (the same as --set time.days=N)
   --set path=value       change one scenario value, e.g. --set physics.reducedGravity=0.05
   --restart-out FILE.nc  also write a restart file of the end state (exact continuation)
   --quiet                no progress on stderr
-`;
+${RERUN_HELP}`;
 
 class UsageError extends Error {}
 
@@ -52,7 +53,7 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
   const [command, ...rest] = argv;
   if (command === '--help' || command === '-h' || command === 'help') return 'help';
   if (command === '--version' || command === '-V') return 'version';
-  if (command !== 'run' && command !== 'check') throw new UsageError(`unknown command '${command}'; the commands are run and check`);
+  if (command !== 'run' && command !== 'check') throw new UsageError(`unknown command '${command}'; the commands are run, check and rerun`);
   const args: Args = { command, scenario: '', sets: [], quiet: false };
   const positional: string[] = [];
   for (let k = 0; k < rest.length; k++) {
@@ -117,6 +118,7 @@ function exitCodeFor(e: EngineError): number {
 
 /** Run the command line; resolves to the exit code. */
 export async function main(argv: readonly string[], io: CliIO): Promise<number> {
+  if (argv[0] === 'rerun') return rerun(argv.slice(1), io);
   let args: ReturnType<typeof parseArgs>;
   try {
     args = parseArgs(argv);
