@@ -105,6 +105,8 @@ export interface StartFile {
   dt: number;
   /** A line for the user about what was read. */
   note: string;
+  /** The scenario JSON of the run that wrote the file, when it recorded one. */
+  scenarioJson?: string;
 }
 
 function fail(source: string, message: string): never {
@@ -185,7 +187,8 @@ export function readStartFile(bytes: Uint8Array, grid: Grid, source = 'the resta
   const kind = textAttribute(f, 'pycno_file');
   if (kind === 'restart') {
     const state = readRestart(bytes, grid, source);
-    return { state, exact: true, dt: numberAttribute(f, 'pycno_time_step_seconds'), note: `restart from ${source} at day ${(state.time / 86400).toFixed(2)}` };
+    const scenarioJson = textAttribute(f, 'pycno_scenario') || undefined;
+    return { state, exact: true, dt: numberAttribute(f, 'pycno_time_step_seconds'), note: `restart from ${source} at day ${(state.time / 86400).toFixed(2)}`, scenarioJson };
   }
   if (kind !== 'run-output') fail(source, 'is neither a Pycno restart file nor a Pycno run output (no pycno_file attribute)');
   const lat = f.variable('lat').values as Float64Array;

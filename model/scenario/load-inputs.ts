@@ -163,6 +163,8 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
       throw e;
     }
     notes.push(start.note);
+    const differs = start.exact ? forcingDifference(start.scenarioJson, p.scenario) : null;
+    if (differs) notes.push(`${path} was written by a run with other wind or seed (${differs}): the random bursts and the forcing are this scenario's, so the continuation is not the same run`);
     return { files, startState: start.state, startDt: start.dt, notes };
   }
   if (init.kind === 'spinup') {
@@ -196,6 +198,26 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
     return { files, startState: state, startDt: model.dt, notes };
   }
   return { files, notes };
+}
+
+/**
+ * How the forcing of the run that wrote a restart differs from this scenario's, or null when it
+ * does not (or the restart recorded no readable scenario). The bursts are drawn up front from the
+ * seed and the wind parts, so the same seed and wind rebuild exactly the same forcing.
+ */
+function forcingDifference(restartJson: string | undefined, now: Scenario): string | null {
+  if (!restartJson) return null;
+  let then: { seed?: unknown; wind?: unknown };
+  try {
+    then = JSON.parse(restartJson);
+  } catch {
+    return null;
+  }
+  if (then === null || typeof then !== 'object') return null;
+  const out: string[] = [];
+  if (String(then.seed) !== String(now.seed)) out.push(`seed ${String(then.seed)}, now ${String(now.seed)}`);
+  if (JSON.stringify(then.wind) !== JSON.stringify(now.wind)) out.push('wind parts differ');
+  return out.length ? out.join('; ') : null;
 }
 
 function sameBasin(p: ParsedScenario, spin: ParsedScenario): void {
