@@ -138,8 +138,10 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     await page.selectOption('#speed', '20');
     await page.click('#btn-run');
     await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 42, null, { timeout: 60_000 });
-    await shot(page, '02-running.png');
+    // Pause first: a full-page screenshot is slow on a loaded machine, and the wave must not have
+    // reached the coast (about day 68) by the time the map is read.
     await page.click('#btn-pause');
+    await shot(page, '02-running.png');
     await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'paused', null, { timeout: 10_000 });
     // Let the last frame reach the canvas before reading it: on a loaded machine the draw can lag.
     await page.waitForFunction(() => {
