@@ -41,3 +41,21 @@ export function expectSameRun(a: RunData, b: RunData): void {
   expect(plain(b)).toEqual(plain(a));
 }
 
+
+/** The shipped westerly burst, made smaller and shorter: 1° cells, 0-100°E, 15°S-15°N, 60 days. */
+export const SHORT_BURST_SETS = [
+  'basin.resolution=1',
+  'basin.lonEast=100',
+  'basin.latSouth=-15',
+  'basin.latNorth=15',
+  'time.days=60',
+  'probes=[{"name":"patch","lon":30,"lat":0},{"name":"mid","lon":65,"lat":0},{"name":"east","lon":99.5,"lat":0}]',
+  'hovmoller.lat=[0,4]',
+];
+
+let cached: RunData | null = null;
+export async function shortBurst(): Promise<RunData> {
+  cached ??= await collectRun(WESTERLY_BURST_TEXT, WESTERLY_BURST, SHORT_BURST_SETS, 5);
+  return cached;
+}
+
