@@ -46,6 +46,47 @@ export function linearStep(
   const h = state.h;
   const un = work.uNew;
   const vn = work.vNew;
+  // Rows 0 and ny are the edges (no h row below, no u row); the interior rows take the fused loop.
+  uRow(grid, c, friction, viscosity, accelX, u, v, h, un, 0);
+  vRow(grid, c, friction, viscosity, accelY, v, h, un, vn, 0);
+  for (let j = 1; j < ny; j++) {
+    fusedRow(grid, c, friction, viscosity, accelX, accelY, u, v, h, un, vn, j);
+    spongeRow(grid, c, vn, j - 1);
+  }
+  vRow(grid, c, friction, viscosity, accelY, v, h, un, vn, ny);
+  hRow(grid, c, h, un, vn, ny - 1);
+  spongeRow(grid, c, vn, ny - 1);
+  spongeRow(grid, c, vn, ny);
+
+  state.u = un;
+  state.v = vn;
+  work.uNew = u;
+  work.vNew = v;
+  state.steps++;
+  state.time += c.dt;
+}
+
+/**
+ * The same step as three plain row loops per row (u row j, v row j, h row j-1, sponge), without
+ * the fused sweep: the readable statement of the arithmetic that every faster path (fusedRow,
+ * the WebAssembly kernel, the strip decomposition) must reproduce bit for bit.
+ */
+export function linearStepPlain(
+  grid: Grid,
+  c: StepCoefficients,
+  friction: number,
+  viscosity: number,
+  accelX: Float64Array,
+  accelY: Float64Array,
+  state: State,
+  work: LinearWork,
+): void {
+  const { ny } = grid;
+  const u = state.u;
+  const v = state.v;
+  const h = state.h;
+  const un = work.uNew;
+  const vn = work.vNew;
   for (let j = 0; j <= ny; j++) {
     if (j < ny) uRow(grid, c, friction, viscosity, accelX, u, v, h, un, j);
     vRow(grid, c, friction, viscosity, accelY, v, h, un, vn, j);
@@ -55,13 +96,126 @@ export function linearStep(
     }
   }
   spongeRow(grid, c, vn, ny);
-
   state.u = un;
   state.v = vn;
   work.uNew = u;
   work.vNew = v;
   state.steps++;
   state.time += c.dt;
+}
+
+/**
+ * u row j, v row j and h row j-1 in one sweep along the row, skewed by one face: at column i it
+ * updates u(i+1, j), then v(i, j) (which needs new u at i and i+1 of rows j-1 and j), then
+ * h(i, j-1) (new u at i and i+1 of row j-1, new v of rows j-1 and j at i). Neighbours are carried
+ * in locals from one column to the next, so each array element is loaded once per sweep. Every
+ * value is computed with exactly the operations, in the order, of uRow / vRow / hRow, so the
+ * result is bit-identical to the three separate row loops. Coast terms are applied as soon as
+ * their face is computed (before the face is used), walking the sparse lists alongside.
+ */
+function fusedRow(
+  grid: Grid,
+  c: StepCoefficients,
+  r: number,
+  A: number,
+  accelX: Float64Array,
+  accelY: Float64Array,
+  u: Float64Array,
+  v: Float64Array,
+  h: Float64Array,
+  un: Float64Array,
+  vn: Float64Array,
+  j: number,
+): void {
+  const { nx, W, maskU, maskV } = grid;
+  const { dt, gpdx, gpdy, idx2, idy2, dtHdx, dtHdy } = c;
+  const fS = c.coriolisSouth[j];
+  const fN = c.coriolisNorth[j];
+  const nf = -c.fV[j];
+  const s = c.spongeH[j - 1];
+  const Adt = A * dt;
+  const cu = c.coastU;
+  const cv = c.coastV;
+  let nu = cu.rowStart[j];
+  const nuEnd = cu.rowStart[j + 1];
+  let ku = nu < nuEnd ? cu.index[nu] : -1;
+  let nv = cv.rowStart[j];
+  const nvEnd = cv.rowStart[j + 1];
+  let kv = nv < nvEnd ? cv.index[nv] : -1;
+
+  const row = (j + 1) * W + 1;
+  const end = row + nx;
+  let k = row;
+  // u at the row's first face (the western wall, or open water).
+  let uW = u[k - 1];
+  let uC = u[k];
+  let vW = v[k - 1];
+  let vC = v[k];
+  let vNW = v[k - 1 + W];
+  let vN = v[k + W];
+  let hW = h[k - 1];
+  let hC = h[k];
+  {
+    const fvbar = fS * (vW + vC) + fN * (vNW + vN);
+    const lap = (u[k + 1] + uW - 2 * uC) * idx2 + (u[k + W] + u[k - W] - 2 * uC) * idy2;
+    const tend = fvbar - gpdx * (hC - hW) + accelX[k] - r * uC + A * lap;
+    let x = maskU[k] * (uC + dt * tend);
+    if (k === ku) {
+      x += Adt * cu.coef[nu] * uC;
+      nu++;
+      ku = nu < nuEnd ? cu.index[nu] : -1;
+    }
+    un[k] = x;
+  }
+  // Carried: new u at k (this row) and k - W (row below), old u at k and k + 1, old v at k - 1
+  // and k (this row and the one above), old h at k.
+  let unC = un[k];
+  let unS = un[k - W];
+  uW = uC;
+  uC = u[k + 1];
+  for (; k < end; k++) {
+    const k1 = k + 1;
+    // u(i + 1, j)
+    const vE = v[k1];
+    const vNE = v[k1 + W];
+    const hE = h[k1];
+    const uE = u[k1 + 1];
+    const fvbar = fS * (vC + vE) + fN * (vN + vNE);
+    const lapU = (uE + uW - 2 * uC) * idx2 + (u[k1 + W] + u[k1 - W] - 2 * uC) * idy2;
+    const tendU = fvbar - gpdx * (hE - hC) + accelX[k1] - r * uC + A * lapU;
+    let unE = maskU[k1] * (uC + dt * tendU);
+    if (k1 === ku) {
+      unE += Adt * cu.coef[nu] * uC;
+      nu++;
+      ku = nu < nuEnd ? cu.index[nu] : -1;
+    }
+    un[k1] = unE;
+    // v(i, j)
+    const unSE = un[k1 - W];
+    const hS = h[k - W];
+    const ubar = 0.25 * (unS + unSE + unC + unE);
+    const lapV = (vE + vW - 2 * vC) * idx2 + (vN + v[k - W] - 2 * vC) * idy2;
+    const tendV = nf * ubar - gpdy * (hC - hS) + accelY[k] - r * vC + A * lapV;
+    let vnC = maskV[k] * (vC + dt * tendV);
+    if (k === kv) {
+      vnC += Adt * cv.coef[nv] * vC;
+      nv++;
+      kv = nv < nvEnd ? cv.index[nv] : -1;
+    }
+    vn[k] = vnC;
+    // h(i, j - 1)
+    const div = dtHdx * (unSE - unS) + dtHdy * (vnC - vn[k - W]);
+    h[k - W] = (hS - div) * s;
+    // shift one column east
+    unS = unSE;
+    unC = unE;
+    uW = uC;
+    uC = uE;
+    vW = vC;
+    vC = vE;
+    vN = vNE;
+    hC = hE;
+  }
 }
 
 /** u on the west faces of row j, with the old v. */
