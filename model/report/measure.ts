@@ -128,7 +128,7 @@ export function measureWaves(run: RunData): WaveMeasures {
     const tries = off.flatMap((s) => [measure(run, s.k, 'west', rossbyTheory, from, 1), measure(run, s.k, 'west', rossbyTheory, from, -1)]);
     const good = tries.filter(isMeasured).filter((m) => m.speed > 0);
     good.sort((p, q) => q.points.length - p.points.length || p.standardError / p.speed - q.standardError / q.speed);
-    rossby = good[0] ?? tries[0];
+    rossby = good[0] ?? { reason: `no westward front on the section${off.length > 1 ? 's' : ''} at ${off.map((s) => `${run.hovmoller[s.k].rowLat}°`).join(', ')} after day ${Number(from.toPrecision(3))}` };
   }
 
   const arrivals = run.probes.map((p) => {

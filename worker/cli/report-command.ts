@@ -1,0 +1,38 @@
+// `pycno report RUN.nc [--out REPORT.html]`: the run report (model/report/report.ts) as one HTML
+// page, written under a temporary name and renamed when complete.
+
+import { basename, resolve as resolvePath } from 'node:path';
+import { measureWaves } from '../../model/report/measure.ts';
+import { runReport } from '../../model/report/report.ts';
+import { CommandInputError, parseFilesAndOut, printError, readRunFile, speedLine, writeComplete, type CommandIO } from './compare.ts';
+
+export const REPORT_USAGE = 'pycno report RUN.nc [--out REPORT.html]';
+
+export async function reportCommand(args: readonly string[], io: CommandIO): Promise<number> {
+  try {
+    const parsed = parseFilesAndOut(args, 'report', 1, REPORT_USAGE);
+    if (parsed === 'help') {
+      io.stdout.write(`usage: ${REPORT_USAGE}\n`);
+      return 0;
+    }
+    const [file] = parsed.files;
+    const run = readRunFile(io, file);
+    const out = parsed.out ?? `${basename(file).replace(/\.nc$/i, '')}.html`;
+    const html = new TextEncoder().encode(runReport(run, { source: basename(file) }));
+    try {
+      await writeComplete(resolvePath(io.cwd, out), async (sink) => sink.write(0, html));
+    } catch (e) {
+      printError(io, `--out ${out}: cannot write the report: ${(e as Error).message}`);
+      return 2;
+    }
+    const w = measureWaves(run);
+    io.stdout.write(`Kelvin speed    ${speedLine(w.kelvin, 'c', w.c)}\nlong Rossby     ${speedLine(w.rossby, 'c/3', w.rossbyTheory)}\nreport          ${out} (${Math.round(html.length / 1000)} kB)\n`);
+    return 0;
+  } catch (e) {
+    if (e instanceof CommandInputError) {
+      printError(io, e.message);
+      return 2;
+    }
+    throw e;
+  }
+}
