@@ -10,6 +10,8 @@ import { drawColourBar, formatValue } from './panels/colour-bar.ts';
 import { HovmollerPanel } from './panels/hovmoller.ts';
 import { ProbePanel } from './panels/probes.ts';
 import { ScenarioPanel } from './panels/scenario-panel.ts';
+import { WindPanel } from './wind/wind-panel.ts';
+import { fieldChecksum } from './wind/checksum.ts';
 import { lookupTable, mapFor } from './render/colour-maps.ts';
 import { lonLabel, latLabel } from './render/geo.ts';
 import { NoWebGLError } from './render/map-gl.ts';
@@ -109,6 +111,27 @@ const panel = new ScenarioPanel($<HTMLFormElement>('params'), $('derived'), $<HT
 const hovPanel = new HovmollerPanel($<HTMLCanvasElement>('hovmoller'), hov, (s) => {
   $('hov-start').textContent = `from ${lonLabel(s.lon)}, day ${s.day.toFixed(1)}`;
 });
+// The wind designer: edits the wind of the scenario panel's copy; runs only through its Apply.
+const windPanel = new WindPanel($('wind-panel'), {
+  map,
+  stack: $('map-stack'),
+  colourBar: $<HTMLCanvasElement>('colour-bar'),
+  baseScenario: () => panel.edited,
+  fileName: () => panel.fileName,
+  apply: async (text, fileName) => {
+    clearMessages();
+    if (!(await loadIntoEngine(text, fileName))) return false;
+    panel.setScenario(JSON.parse(text), fileName);
+    return true;
+  },
+  redraw: () => queueDraw(false),
+  message: (text, kind) => message(text, kind),
+});
+// Debug hook for the tests: the checksum of the latest h_anom frame, to compare with a Node run.
+(info as unknown as { hAnomChecksum: () => unknown }).hAnomChecksum = () => {
+  const f = history.latest();
+  return f?.fields.h_anom ? { day: f.day, step: f.step, checksum: fieldChecksum(f.fields.h_anom) } : null;
+};
 const probePanel = new ProbePanel($('probe-chart'), $<HTMLUListElement>('probe-list'), probes, (id) => {
   probes.remove(id);
   probePanel.renderList();
@@ -252,6 +275,7 @@ async function openText(text: string, fileName: string): Promise<void> {
   }
   if (await loadIntoEngine(text, fileName)) {
     panel.setScenario(check.json, fileName);
+    windPanel.setScenario(check.json);
     // Show an opened file in the picker too, so the panel never names the wrong scenario.
     const pick = $<HTMLSelectElement>('scenario-pick');
     if (!shipped.some((s) => s.file === fileName)) {
@@ -297,8 +321,12 @@ function draw(): void {
   }
   map.forgetArrows();
   map.gl.setColourMap(mapFor(fieldKey), lookupTable(mapFor(fieldKey)));
-  map.draw(display, range, layers, probes.probes, cursor);
-  drawColourBar($<HTMLCanvasElement>('colour-bar'), lookupTable(mapFor(fieldKey)), range, df.label, df.units);
+  // While the wind preview is on, the map shows the designed forcing instead of the run's field.
+  if (!windPanel.drawOnMap()) {
+    map.draw(display, range, layers, probes.probes, cursor);
+    drawColourBar($<HTMLCanvasElement>('colour-bar'), lookupTable(mapFor(fieldKey)), range, df.label, df.units);
+  }
+  windPanel.setModelDay(f.day);
   info.framesDrawn++;
   info.shownDay = f.day;
   $('map-day').textContent = `day ${f.day.toFixed(1)}${viewIndex !== null ? ' (looking back)' : ''}`;
@@ -380,6 +408,7 @@ function showReadout(cell: { i: number; j: number } | null): void {
 function layoutMap(): void {
   const host = $('map-stack');
   map.layout(host.clientWidth || 600, Math.max(220, window.innerHeight * 0.55));
+  windPanel.layout();
 }
 
 // ---- map interaction: pointer, click, keyboard ----
