@@ -354,15 +354,19 @@ function numberAttribute(f: NcFile, name: string, where: string): number {
  * RunFileError with "<label>: ..." for files that are not NetCDF, not Pycno's, or damaged.
  */
 export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
-  let f: NcFile;
-  try {
-    f = readNetcdf(bytes);
-  } catch (e) {
-    if (e instanceof NetcdfReadError) throw new RunFileError(`${label}: ${e.message}`);
-    throw e;
-  }
-  const kind = textAttribute(f, 'pycno_file');
-  const scenarioJson = textAttribute(f, 'pycno_scenario');
+  // The header first (no data), so a file that is not a run is refused before any big read;
+  // then the small variables; the fields one at a time, so only one is ever held as doubles.
+  const read = (only: readonly string[]): NcFile => {
+    try {
+      return readNetcdf(bytes, { only });
+    } catch (e) {
+      if (e instanceof NetcdfReadError) throw new RunFileError(`${label}: ${e.message}`);
+      throw e;
+    }
+  };
+  const header = read([]);
+  const kind = textAttribute(header, 'pycno_file');
+  const scenarioJson = textAttribute(header, 'pycno_scenario');
   if (kind === undefined && scenarioJson === undefined) {
     throw new RunFileError(`${label}: not a Pycno run file: it has no pycno_scenario attribute (a NetCDF file written by another program?)`);
   }
@@ -371,6 +375,8 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     throw new RunFileError(`${label}: this is ${what}, not a run file`);
   }
   if (scenarioJson === undefined) throw new RunFileError(`${label}: damaged Pycno run file: the pycno_scenario attribute is missing`);
+  const isField = (n: string): n is FieldName => (FIELD_NAMES as readonly string[]).includes(n);
+  const f = read(header.variables.map((v) => v.name).filter((n) => !isField(n)));
   const where = `${label}`;
   const hash = textAttribute(f, 'pycno_scenario_sha256') ?? '';
   const actual = sha256Hex(scenarioJson);
@@ -413,31 +419,30 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
   for (let n = 1; n < nt; n++) if (!(days[n] > days[n - 1])) throw new RunFileError(`${where}: damaged Pycno run file: time ${n} (${days[n]}) does not follow time ${n - 1} (${days[n - 1]})`);
   const steps = numbers(need('step'), where).slice();
 
-  const fields = f.variables.map((v) => v.name).filter((n): n is FieldName => (FIELD_NAMES as readonly string[]).includes(n));
+  const fields = f.variables.map((v) => v.name).filter(isField);
   if (fields.length === 0) throw new RunFileError(`${where}: damaged Pycno run file: no field variables (${FIELD_NAMES.join(', ')})`);
+  if (!ocean.includes(1)) throw new RunFileError(`${where}: damaged Pycno run file: the ocean mask has no ocean cell`);
   const cells = nx * ny;
   const fieldValues = fields.map((name) => {
-    const v = need(name);
+    const v = read([name]).variable(name);
     const vals = numbers(v, where);
     if (v.dimensions.join(',') !== 'time,lat,lon' || vals.length !== nt * cells) {
       throw new RunFileError(`${where}: damaged Pycno run file: '${name}' has shape (${v.dimensions.join(', ')}) = ${v.shape.join(' x ')}, expected (time, lat, lon)`);
     }
-    return vals;
+    return floats(vals);
   });
-  const firstOcean = ocean.indexOf(1);
-  if (firstOcean < 0) throw new RunFileError(`${where}: damaged Pycno run file: the ocean mask has no ocean cell`);
   const snapshots: RunSnapshot[] = [];
   for (let n = 0; n < nt; n++) {
     // A record without a snapshot has every field missing (see the note at the top).
     const present = fieldValues.map((vals) => {
-      for (let k = 0; k < cells; k++) if (ocean[k] && vals[n * cells + k] !== OUTPUT_FILL) return true;
+      for (let k = 0; k < cells; k++) if (ocean[k] && !Number.isNaN(vals[n * cells + k])) return true;
       return false;
     });
     if (present.every((p) => !p)) continue;
     const fl: Partial<Record<FieldName, Float32Array>> = {};
     fields.forEach((name, q) => {
       if (!present[q]) throw new RunFileError(`${where}: damaged Pycno run file: record ${n} (day ${days[n]}) has some fields but not '${name}'`);
-      fl[name] = floats(fieldValues[q], n * cells, (n + 1) * cells);
+      fl[name] = fieldValues[q].slice(n * cells, (n + 1) * cells);
     });
     snapshots.push({ index: n, day: days[n], fields: fl });
   }

@@ -111,7 +111,7 @@ export function compareSummary(c: RunComparison, fileA: string, fileB: string, e
   ];
   if (c.scenario.length === 0) list.push(['scenario', 'the same scenario values']);
   else {
-    list.push(['scenario', `${c.scenario.length} value${c.scenario.length > 1 ? 's' : ''} differ (A -> B):`]);
+    list.push(['scenario', `${c.scenario.length} value${c.scenario.length > 1 ? 's differ' : ' differs'} (A -> B):`]);
     const w = Math.max(...c.scenario.map((d) => d.path.length));
     for (const d of c.scenario) list.push(['', `${d.path.padEnd(w)}  ${showValue(d.a)} -> ${showValue(d.b)}`]);
   }
