@@ -5,6 +5,7 @@ import type { ModelConfig, PhysicsConfig } from './config.ts';
 import { DAY } from './config.ts';
 import { buildCoefficients, coriolisAt, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
 import { linearStep, linearWork, type LinearWork } from './dynamics/linear.ts';
+import { WasmLinear } from './dynamics/linear-wasm.ts';
 import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
 import { chooseTimeStep, stabilityLimit, type StabilityLimit } from './dynamics/stability.ts';
 import { centredField, type FieldContext, type FieldName } from './diagnostics/fields.ts';
@@ -26,7 +27,14 @@ export interface ModelOptions {
   initial?: InitialSpec | State;
   /** Discretisation variant; only for reproducing the reference kernel (npm run bench). */
   variant?: KernelVariant;
+  /**
+   * Which implementation of the linear step runs (same results bit for bit): 'ts' (plain
+   * TypeScript, the default) or 'wasm' (WebAssembly SIMD). Ignored in the nonlinear mode.
+   */
+  kernel?: LinearKernelName;
 }
+
+export type LinearKernelName = 'ts' | 'wasm';
 
 export class Model {
   readonly config: ModelConfig;
@@ -46,6 +54,7 @@ export class Model {
   private readonly accelY: Float64Array;
   private readonly linear: LinearWork | null;
   private readonly nonlinear: NonlinearWork | null;
+  private readonly wasm: WasmLinear | null = null;
   private windFilledFor = NaN;
 
   constructor(config: ModelConfig, options: ModelOptions = {}) {
@@ -84,8 +93,15 @@ export class Model {
     this.wind = options.wind ?? calm;
     this.taux = this.grid.field();
     this.tauy = this.grid.field();
-    this.accelX = this.grid.field();
-    this.accelY = this.grid.field();
+    if (p.mode === 'linear' && options.kernel === 'wasm') {
+      this.wasm = new WasmLinear(this.grid, this.coefficients, p.friction, p.viscosity);
+      this.wasm.adopt(this.state);
+      this.accelX = this.wasm.accelX;
+      this.accelY = this.wasm.accelY;
+    } else {
+      this.accelX = this.grid.field();
+      this.accelY = this.grid.field();
+    }
     this.linear = p.mode === 'linear' ? linearWork(this.grid) : null;
     this.nonlinear = p.mode === 'nonlinear' ? nonlinearWork(this.grid) : null;
     this.updateWind();
@@ -99,7 +115,9 @@ export class Model {
   advance(n: number): void {
     for (let s = 0; s < n; s++) {
       this.updateWind();
-      if (this.linear) {
+      if (this.wasm) {
+        this.wasm.step(this.state, this.dt);
+      } else if (this.linear) {
         linearStep(this.grid, this.coefficients, this.physics.friction, this.physics.viscosity, this.accelX, this.accelY, this.state, this.linear);
       } else {
         nonlinearStep(this.grid, this.coefficients, this.physics, this.taux, this.tauy, this.state, this.nonlinear!);

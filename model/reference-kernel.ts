@@ -6,7 +6,7 @@
 import { defaultPhysics, type ModelConfig } from './config.ts';
 import type { WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
-import { Model } from './model.ts';
+import { Model, type LinearKernelName } from './model.ts';
 
 const M_PER_DEG = 111.2e3;
 const DAY = 86400;
@@ -71,10 +71,10 @@ export function referenceStress(grid: Grid): WindStress {
   };
 }
 
-export function referenceModel(nx: number, ny: number): Model {
+export function referenceModel(nx: number, ny: number, kernel: LinearKernelName = 'ts'): Model {
   const config = referenceConfig(nx, ny);
   const grid = new Grid(config.basin, config.physics.earthRadius);
-  return new Model(config, { variant: { ghost: 0, coriolis: 'collocated' }, wind: referenceStress(grid) });
+  return new Model(config, { variant: { ghost: 0, coriolis: 'collocated' }, wind: referenceStress(grid), kernel });
 }
 
 /** The reference checksums: sum of h' over cells and 0.5 rho0 dx dy (H sum(u^2 + v^2) + g' sum(h'^2)). */

@@ -12,6 +12,13 @@ describe('linear step against the reference kernel', () => {
     expect(Math.abs(sumEta / -3.501896485640523e3 - 1)).toBeLessThan(1e-10);
     expect(Math.abs(energy / 2.255786051698253e17 - 1)).toBeLessThan(1e-10);
   });
+  it('320 x 120, 200 steps, WebAssembly SIMD', () => {
+    const m = referenceModel(320, 120, 'wasm');
+    m.advance(200);
+    const { sumEta, energy } = referenceChecksum(m);
+    expect(Math.abs(sumEta / -3.501896485640523e3 - 1)).toBeLessThan(1e-10);
+    expect(Math.abs(energy / 2.255786051698253e17 - 1)).toBeLessThan(1e-10);
+  });
   it('320 x 120, 2000 steps', () => {
     const m = referenceModel(320, 120);
     m.advance(2000);
