@@ -5,8 +5,12 @@ import { describe, expect, it } from 'vitest';
 import { FIELD_NAMES } from '../../model/diagnostics/fields.ts';
 import { writeNetcdfToMemory } from '../../model/io/netcdf-writer.ts';
 import { NC_FLOAT } from '../../model/io/netcdf-format.ts';
-import { readRun, RunCollector, toNetcdf, thinSnapshots, RunFileError, type RunData } from '../../model/io/run-read.ts';
+import { readRun, RunCollector, toNetcdf, thinSnapshots, RunFileError } from '../../model/io/run-read.ts';
+import { MemorySink } from '../../model/io/netcdf-writer.ts';
+import { RunOutputWriter } from '../../model/io/run-output.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
+import { Engine } from '../../worker/engine.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
 import { expectSameRun, tinyRun } from './run-fixture.ts';
 
 describe('RunData <-> NetCDF', () => {
@@ -55,6 +59,34 @@ describe('RunData <-> NetCDF', () => {
     const rec = { day: 1, step: 1, fields: {}, integrals: { day: 1 } as never, hovmoller: [], probeValues: [] };
     c.add(rec);
     expect(() => c.add(rec)).toThrow(/day 1 does not follow day 1/);
+  });
+});
+
+describe('files written while running', () => {
+  it('a file streamed by RunOutputWriter (as pycno run does) reads into the collected run', async () => {
+    const engine = new Engine({ host: fakeHost(2) });
+    const r = await engine.load(FIXTURE_TEXT, FIXTURE);
+    if (!r.ok) throw new Error(r.error.message);
+    const info = r.scenario;
+    const createdAt = new Date('2032-02-03T04:05:06.000Z');
+    const sink = new MemorySink();
+    const writer = new RunOutputWriter(
+      { ...info, hovmollerRowLats: info.hovmollerRowLats!, dynamics: 'linear', reducedGravity: 0.03, layerThickness: 150, command: 'pycno run tiny.json', createdAt },
+      sink,
+    );
+    await writer.begin();
+    const c = new RunCollector(info, { createdAt, command: 'pycno run tiny.json' });
+    engine.setRecorder(async (rec) => {
+      c.add(rec);
+      await writer.append(rec);
+    });
+    engine.start();
+    await engine.idle();
+    await writer.close();
+    const bytes = sink.bytes().slice();
+    const collected = c.finish();
+    expectSameRun(collected, readRun(bytes));
+    expect(Buffer.from(await toNetcdf(collected)).equals(Buffer.from(bytes))).toBe(true);
   });
 });
 
