@@ -25,6 +25,8 @@ export interface PartEditor {
   el: HTMLElement;
   showIssues(issues: Array<ScenarioIssue & { rel: string }>): void;
   redrawPlot(): void;
+  /** Only the model-day marker moved: redraw the kept series. */
+  redrawMarker(): void;
 }
 
 let serial = 0;
@@ -207,13 +209,18 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
   const plotMsg = document.createElement('div');
   plotMsg.className = 'field-msg';
   el.append(canvas, plotMsg);
+  let series: { days: number[]; values: number[]; units: string } | null = null;
+  const marker = () => {
+    if (series) drawTimePlot(canvas, series.days, [{ values: series.values, colour: '#0b5cad', label: 'envelope' }], series.units, ctx.markDay());
+  };
   const plot = () => {
     try {
       const days = dayAxis(ctx.runDays);
-      const s = partSeries(part, days, ctx.seed, ctx.index);
-      drawTimePlot(canvas, days, [{ values: s.values, colour: '#0b5cad', label: 'envelope' }], s.units, ctx.markDay());
+      series = { days, ...partSeries(part, days, ctx.seed, ctx.index) };
       plotMsg.textContent = '';
+      marker();
     } catch (e) {
+      series = null;
       plotMsg.textContent = (e as Error).message;
     }
   };
@@ -244,6 +251,7 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
       general.replaceChildren(...rest.map((t) => Object.assign(document.createElement('li'), { textContent: t })));
     },
     redrawPlot: plot,
+    redrawMarker: marker,
   };
 }
 

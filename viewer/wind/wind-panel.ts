@@ -69,6 +69,7 @@ export class WindPanel {
   private modelDay: number | null = null;
   private point: { lon: number; lat: number } | null = null;
   private refreshQueued = false;
+  private pointSeries: { days: number[]; taux: Float64Array; tauy: Float64Array } | null = null;
   /** The user typed a preview day: a re-applied scenario keeps it. */
   private dayTyped = false;
   private readonly tools: MapTools;
@@ -483,8 +484,8 @@ export class WindPanel {
   setModelDay(day: number): void {
     if (day === this.modelDay) return;
     this.modelDay = day;
-    this.editor?.redrawPlot();
-    this.drawPointPlot();
+    this.editor?.redrawMarker();
+    this.drawPointMarker();
   }
 
   /** Map layout changed: keep the tool canvas over the map. */
@@ -492,9 +493,10 @@ export class WindPanel {
     this.tools.draw();
   }
 
+  /** Recompute the stress series at the point (after a change of design or point), then draw it. */
   private drawPointPlot(valid = this.issues.length === 0): void {
-    const canvas = this.el.pointPlot as HTMLCanvasElement;
     const msg = this.el.pointMsg;
+    this.pointSeries = null;
     if (!this.point || !valid) {
       msg.textContent = this.point ? 'fix the marked values to see the series' : 'type a longitude and latitude, or pick the point on the map';
       return;
@@ -507,11 +509,19 @@ export class WindPanel {
         msg.textContent = `${this.point.lon}°E, ${this.point.lat}°N is land`;
         return;
       }
-      drawTimePlot(canvas, days, [{ values: s.taux, colour: '#0b5cad', label: 'taux' }, { values: s.tauy, colour: '#e67e22', label: 'tauy' }], 'N m-2', this.modelDay);
+      this.pointSeries = { days, taux: s.taux, tauy: s.tauy };
       msg.textContent = `cell centre ${formatValue(s.lon)}°E, ${formatValue(s.lat)}°N`;
+      this.drawPointMarker();
     } catch (e) {
       msg.textContent = (e as Error).message;
     }
+  }
+
+  /** Redraw the kept series with the marker at the model day (cheap: called for every frame). */
+  private drawPointMarker(): void {
+    const s = this.pointSeries;
+    if (!s) return;
+    drawTimePlot(this.el.pointPlot as HTMLCanvasElement, s.days, [{ values: s.taux, colour: '#0b5cad', label: 'taux' }, { values: s.tauy, colour: '#e67e22', label: 'tauy' }], 'N m-2', this.modelDay);
   }
 
   // ---- the list ----
