@@ -26,6 +26,8 @@ export interface EngineClient {
   stop(): Promise<void>;
   /** Sample one more Hovmoller latitude from the next output on. */
   addSection(lat: number): Promise<{ ok: true; index: number; rowLat: number } | { ok: false; message: string }>;
+  /** Full fields in every `every`-th output sample from now on (0: none), for recording the run. */
+  setSampleFields(every: number): Promise<void>;
   terminate(): void;
 }
 
@@ -78,6 +80,7 @@ export function connectEngine(handlers: EngineHandlers): EngineClient {
       await sendCurrent();
     },
     addSection: (lat) => api.addSection(lat),
+    setSampleFields: (every) => api.setSampleFields(every),
     terminate: () => worker.terminate(),
   };
 }

@@ -20,6 +20,8 @@ export interface EngineApi {
   idle(): Promise<EngineReport>;
   /** Sample one more Hovmoller latitude from the next output on. */
   addSection(lat: number): ReturnType<Engine['addSection']>;
+  /** Full fields in every `every`-th output sample (0: none); see Engine.setSampleFields. */
+  setSampleFields(every: number): void;
 }
 
 /** Wrap an engine; `send` marks a value's buffers for transfer (Comlink.transfer). */
@@ -44,5 +46,6 @@ export function engineApi(engine: Engine, send: <T>(value: T, transfer: ArrayBuf
     },
     idle: () => engine.idle(),
     addSection: (lat) => engine.addSection(lat),
+    setSampleFields: (every) => engine.setSampleFields(every),
   };
 }

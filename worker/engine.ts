@@ -81,6 +81,8 @@ export class Engine {
   private readonly frameListeners = new Set<FrameListener>();
   private readonly statusListeners = new Set<StatusListener>();
   private recorder: OutputRecorder | null = null;
+  /** Samples number k with k % sampleFieldsEvery === 0 carry the full fields; 0: none. */
+  private sampleFieldsEvery = 0;
   private run: Loaded | null = null;
   /** Hovmoller latitudes added while a scenario is loaded; kept across stop-and-reset, cleared by load. */
   private extraLats: number[] = [];
@@ -119,6 +121,16 @@ export class Engine {
 
   setRecorder(recorder: OutputRecorder | null): void {
     this.recorder = recorder;
+  }
+
+  /**
+   * Put the full fields into every `every`-th output sample (counted from the run's first sample,
+   * which is included); 0 stops it. A listener that keeps the run (the page's run library) needs
+   * fields at exact output records, which frames do not promise. Kept across loads and resets.
+   */
+  setSampleFields(every: number): void {
+    if (!Number.isInteger(every) || every < 0) throw new InputError(`'every' must be a whole number >= 0 (got ${every})`, 'setSampleFields');
+    this.sampleFieldsEvery = every;
   }
 
   // --- loading --------------------------------------------------------------------------------
@@ -455,13 +467,17 @@ export class Engine {
     const hovmoller = run.hovRows.map((j) => Float32Array.from(row('h_anom', j)));
     const probeValues = run.probeCells.map(({ i, j }) => Float32Array.from(fields, (f) => row(f, j)[i]));
     const integrals = model.integrals();
-    const sample: OutputSample = { day: model.day, integrals, hovmoller, probeValues };
+    const sample: OutputSample = { day: model.day, step: model.state.steps, integrals, hovmoller, probeValues };
+    const withFields = this.sampleFieldsEvery > 0 && this.samplesTaken % this.sampleFieldsEvery === 0 && this.frameListeners.size > 0;
     this.samplesTaken++;
-    if (this.recorder) {
-      const full: Partial<Record<FieldName, Float32Array>> = {};
-      for (const f of fields) full[f] = model.field(f, new Float32Array(nx * model.grid.ny)) as Float32Array;
-      await this.recorder({ day: model.day, step: model.state.steps, fields: full, integrals, hovmoller, probeValues });
-    }
+    const full = (): Partial<Record<FieldName, Float32Array>> => {
+      const out: Partial<Record<FieldName, Float32Array>> = {};
+      for (const f of fields) out[f] = model.field(f, new Float32Array(nx * model.grid.ny)) as Float32Array;
+      return out;
+    };
+    if (this.recorder) await this.recorder({ day: model.day, step: model.state.steps, fields: full(), integrals, hovmoller, probeValues });
+    // Own arrays for the sample: the recorder may keep its record's.
+    if (withFields) sample.fields = full();
     // Samples wait for the next frame only when someone listens.
     if (this.frameListeners.size > 0) this.pending.push(sample);
   }
@@ -503,6 +519,7 @@ export function transferList(frame: Frame): ArrayBuffer[] {
   for (const s of frame.samples) {
     for (const a of s.hovmoller) out.push(a.buffer as ArrayBuffer);
     for (const a of s.probeValues) out.push(a.buffer as ArrayBuffer);
+    if (s.fields) for (const a of Object.values(s.fields)) if (a) out.push(a.buffer as ArrayBuffer);
   }
   return out;
 }
@@ -514,6 +531,12 @@ function cloneFrame(f: Frame): Frame {
     ...f,
     fields,
     integrals: { ...f.integrals },
-    samples: f.samples.map((s) => ({ ...s, integrals: { ...s.integrals }, hovmoller: s.hovmoller.map((a) => a.slice()), probeValues: s.probeValues.map((a) => a.slice()) })),
+    samples: f.samples.map((s) => ({
+      ...s,
+      integrals: { ...s.integrals },
+      hovmoller: s.hovmoller.map((a) => a.slice()),
+      probeValues: s.probeValues.map((a) => a.slice()),
+      ...(s.fields ? { fields: Object.fromEntries(Object.entries(s.fields).map(([k, a]) => [k, a!.slice()])) as Frame['fields'] } : {}),
+    })),
   };
 }

@@ -53,6 +53,10 @@ export interface OutputSample {
   hovmoller: Float32Array[];
   /** Every field at every probe: probeValues[p][field index in LoadedScenario.fields]. */
   probeValues: Float32Array[];
+  /** Steps taken when the sample was taken (the model's step counter). */
+  step?: number;
+  /** Every output field in full (nx * ny, NaN on land); only on the samples asked for with setSampleFields. */
+  fields?: Partial<Record<FieldName, Float32Array>>;
 }
 
 /**
