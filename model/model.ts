@@ -5,7 +5,7 @@ import type { ModelConfig, PhysicsConfig } from './config.ts';
 import { DAY } from './config.ts';
 import { buildCoefficients, coriolisAt, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
 import { linearStep, linearWork, type LinearWork } from './dynamics/linear.ts';
-import { WasmLinear } from './dynamics/linear-wasm.ts';
+import { WasmLinear, wasmAvailable } from './dynamics/linear-wasm.ts';
 import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
 import { chooseTimeStep, stabilityLimit, type StabilityLimit } from './dynamics/stability.ts';
 import { centredField, type FieldContext, type FieldName } from './diagnostics/fields.ts';
@@ -29,9 +29,10 @@ export interface ModelOptions {
   variant?: KernelVariant;
   /**
    * Which implementation of the linear step runs (same results bit for bit): 'ts' (plain
-   * TypeScript, the default) or 'wasm' (WebAssembly SIMD). Ignored in the nonlinear mode.
+   * TypeScript), 'wasm' (WebAssembly SIMD), or 'auto' (the default: wasm where it compiles,
+   * else ts). Ignored in the nonlinear mode.
    */
-  kernel?: LinearKernelName;
+  kernel?: LinearKernelName | 'auto';
 }
 
 export type LinearKernelName = 'ts' | 'wasm';
@@ -93,7 +94,8 @@ export class Model {
     this.wind = options.wind ?? calm;
     this.taux = this.grid.field();
     this.tauy = this.grid.field();
-    if (p.mode === 'linear' && options.kernel === 'wasm') {
+    const kernel = options.kernel ?? 'auto';
+    if (p.mode === 'linear' && (kernel === 'wasm' || (kernel === 'auto' && wasmAvailable()))) {
       this.wasm = new WasmLinear(this.grid, this.coefficients, p.friction, p.viscosity);
       this.wasm.adopt(this.state);
       this.accelX = this.wasm.accelX;
@@ -116,7 +118,7 @@ export class Model {
     for (let s = 0; s < n; s++) {
       this.updateWind();
       if (this.wasm) {
-        this.wasm.step(this.state, this.dt);
+        this.wasm.step(this.state, this.physics.friction, this.physics.viscosity);
       } else if (this.linear) {
         linearStep(this.grid, this.coefficients, this.physics.friction, this.physics.viscosity, this.accelX, this.accelY, this.state, this.linear);
       } else {
@@ -143,6 +145,11 @@ export class Model {
   field(name: FieldName, out: Float32Array | Float64Array = new Float64Array(this.grid.nx * this.grid.ny)): Float32Array | Float64Array {
     centredField(name, this.fieldContext(), out);
     return out;
+  }
+
+  /** The implementation of the step in use. */
+  get kernel(): LinearKernelName | 'nonlinear' {
+    return this.wasm ? 'wasm' : this.linear ? 'ts' : 'nonlinear';
   }
 
   /** Fill the stress for the current time when the wind asks for it. */

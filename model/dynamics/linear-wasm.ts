@@ -58,7 +58,7 @@ export class WasmLinear {
 
   constructor(
     private readonly grid: Grid,
-    c: StepCoefficients,
+    private readonly c: StepCoefficients,
     friction: number,
     viscosity: number,
   ) {
@@ -129,8 +129,13 @@ export class WasmLinear {
     state.h = this.view(this.ph);
   }
 
-  /** One step of the state adopted before (the same arithmetic as linearStep). */
-  step(state: State, dt: number): void {
+  /**
+   * One step of the state adopted before (the same arithmetic as linearStep). Friction and
+   * viscosity are passed each step, as linearStep takes them, so a change between steps counts.
+   */
+  step(state: State, friction: number, viscosity: number): void {
+    const c = this.c;
+    this.k.setScalars(c.dt, c.gpdx, c.gpdy, c.idx2, c.idy2, c.dtHdx, c.dtHdy, friction, viscosity);
     this.k.step(this.pu, this.pv, this.ph, this.pun, this.pvn);
     let t = this.pu;
     this.pu = this.pun;
@@ -140,7 +145,7 @@ export class WasmLinear {
     this.pvn = t;
     this.bind(state);
     state.steps++;
-    state.time += dt;
+    state.time += c.dt;
   }
 }
 

@@ -5,6 +5,7 @@
 //
 //   npm run bench                 all sizes, 5 repetitions of about 1 s each
 //   BENCH_REPEATS=3 BENCH_SECONDS=0.5 npm run bench      quicker
+//   BENCH_PIN=1 npm run bench     every run under taskset -c 1 (one core, less migration noise)
 
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
@@ -45,7 +46,7 @@ function parse(out: string): Line {
 }
 
 function run(impl: Impl, nx: number, ny: number, steps: number): Line {
-  const [exe, ...args] = impl.cmd;
+  const [exe, ...args] = process.env.BENCH_PIN ? ['taskset', '-c', '1', ...impl.cmd] : impl.cmd;
   const r = spawnSync(exe, [...args, String(nx), String(ny), String(steps), impl.label], { encoding: 'utf8', cwd: root });
   if (r.status !== 0) throw new Error(`${impl.label} failed: ${r.stderr}`);
   return parse(r.stdout);
@@ -61,7 +62,10 @@ function has(cmd: string, args: string[]): boolean {
   return spawnSync(cmd, args, { encoding: 'utf8' }).status === 0;
 }
 
-const impls: Impl[] = [{ label: 'ts-double', cmd: [process.execPath, '--import', 'tsx', join(here, 'reference-line.ts')] }];
+// Pycno's paths: plain TypeScript and WebAssembly SIMD (both bit-identical to each other).
+const line = [process.execPath, '--import', 'tsx', join(here, 'reference-line.ts')];
+const ours = ['ts-double', 'wasm-simd'];
+const impls: Impl[] = ours.map((label) => ({ label, cmd: line }));
 let bandwidth: number | null = null;
 let build: string | null = null;
 if (existsSync(join(refDir, 'kernel.c')) && has('gcc', ['--version'])) {
@@ -119,11 +123,19 @@ for (const [nx, ny] of sizes) {
   }
 }
 
+console.log('\nNonlinear step against the linear one, 640 x 240 (CPU time per cell update, medians):');
+const cost = spawnSync(process.execPath, ['--import', 'tsx', join(here, 'nonlinear-cost.ts'), '640', '240', String(repeats)], { encoding: 'utf8', cwd: root });
+process.stdout.write(cost.stdout);
+
 const at = (label: string) => results.get(`${label}@640x240`);
 const ts = at('ts-double')!;
-const best = Math.max(...impls.filter((i) => i.label.startsWith('ts-')).map((i) => at(i.label)!));
+const best = Math.max(...impls.filter((i) => ours.includes(i.label)).map((i) => at(i.label)!));
 console.log('');
+for (const label of ours) {
+  if (at('c-double-O2')) console.log(`ratio ${label}/c-O2 ${(at(label)! / at('c-double-O2')!).toFixed(3)}`);
+  if (at('c-double-O3-native')) console.log(`ratio ${label}/c-O3 ${(at(label)! / at('c-double-O3-native')!).toFixed(3)}`);
+}
 if (at('numpy-double')) console.log(`ratio ts/numpy ${(ts / at('numpy-double')!).toFixed(3)}`);
+if (build) rmSync(build, { recursive: true, force: true });
 if (at('c-double-O2')) console.log(`ratio ts/c-O2 ${(ts / at('c-double-O2')!).toFixed(3)}`);
 if (at('c-double-O3-native')) console.log(`ratio best/c-O3 ${(best / at('c-double-O3-native')!).toFixed(3)}`);
-if (build) rmSync(build, { recursive: true, force: true });
