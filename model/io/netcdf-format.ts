@@ -590,6 +590,10 @@ export function encodeNumbers(
   view: DataView,
   at: number,
 ): void {
+  if ((type === NC_FLOAT || type === NC_DOUBLE) && to - from > 16 && isNumericArray(values)) {
+    encodeFloatBlock(type, values, from, to, view, at);
+    return;
+  }
   switch (type) {
     case NC_BYTE:
     case NC_CHAR:
@@ -607,6 +611,50 @@ export function encodeNumbers(
     case NC_DOUBLE:
       for (let k = from; k < to; k++, at += 8) view.setFloat64(at, values[k]);
       return;
+  }
+}
+
+const LITTLE_ENDIAN_HOST = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+const BLOCK = 4096;
+const scratch32 = new Float32Array(BLOCK);
+const scratch64 = new Float64Array(BLOCK);
+const words32 = new Uint32Array(scratch32.buffer);
+const words64 = new Uint32Array(scratch64.buffer);
+const swapped = new Uint32Array(2 * BLOCK);
+const swappedBytes = new Uint8Array(swapped.buffer);
+
+function isNumericArray(values: ArrayLike<number>): values is Float32Array | Float64Array | Int32Array | Int16Array | Uint8Array | Int8Array | Uint16Array | Uint32Array {
+  return ArrayBuffer.isView(values) && !(values instanceof DataView) && !(values instanceof BigInt64Array) && !(values instanceof BigUint64Array);
+}
+
+const swap32 = (x: number) => ((x >>> 24) | ((x >>> 8) & 0xff00) | ((x << 8) & 0xff0000) | (x << 24)) >>> 0;
+
+/**
+ * Big-endian floats from a typed array in blocks: the conversion to float32 / float64 is done by
+ * the typed-array copy, then whole 32-bit words are byte-swapped and copied into the output.
+ * Much faster than a DataView call per value, with the same bytes.
+ */
+function encodeFloatBlock(type: NcType, values: ArrayLike<number> & { subarray(a: number, b: number): ArrayLike<number> }, from: number, to: number, view: DataView, at: number): void {
+  const out = new Uint8Array(view.buffer, view.byteOffset, view.byteLength);
+  const size = type === NC_FLOAT ? 4 : 8;
+  for (let k = from; k < to; k += BLOCK) {
+    const n = Math.min(BLOCK, to - k);
+    const part = values.subarray(k, k + n) as unknown as ArrayLike<number>;
+    if (type === NC_FLOAT) {
+      scratch32.set(part);
+      if (LITTLE_ENDIAN_HOST) for (let i = 0; i < n; i++) swapped[i] = swap32(words32[i]);
+      else swapped.set(words32.subarray(0, n));
+    } else {
+      scratch64.set(part);
+      if (LITTLE_ENDIAN_HOST) {
+        for (let i = 0; i < n; i++) {
+          swapped[2 * i] = swap32(words64[2 * i + 1]);
+          swapped[2 * i + 1] = swap32(words64[2 * i]);
+        }
+      } else swapped.set(words64.subarray(0, 2 * n));
+    }
+    out.set(swappedBytes.subarray(0, n * size), at);
+    at += n * size;
   }
 }
 
@@ -660,6 +708,7 @@ export function prepareValues(v: NcVariableLayout, input: NcValuesInput, where: 
     );
   }
   if (v.type === NC_FLOAT || v.type === NC_DOUBLE) {
+    if (isNumericArray(values)) return values; // every element is a number
     for (let k = 0; k < values.length; k++) {
       if (typeof values[k] !== 'number') throw new NetcdfFormatError(`${where}: '${v.name}'[${k}] is not a number`);
     }
