@@ -18,6 +18,7 @@ import { Progress, type ProgressStream } from './progress.ts';
 import { reportCommand, REPORT_USAGE } from './report-command.ts';
 import { checkReport, runSummary } from './report.ts';
 import { rerun, RERUN_HELP, RERUN_USAGE } from './rerun.ts';
+import { sweep, SWEEP_HELP, SWEEP_USAGE } from './sweep.ts';
 
 export interface CliIO {
   stdout: { write(s: string): unknown };
@@ -30,7 +31,7 @@ export interface CliIO {
 export const USAGE = `usage:
   pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--quiet]
   pycno check SCENARIO.json [--set path=value ...]
-${RERUN_USAGE}  ${COMPARE_USAGE}
+${RERUN_USAGE}  ${SWEEP_USAGE}  ${COMPARE_USAGE}
   ${REPORT_USAGE}
   pycno --version | --help
 
@@ -39,7 +40,7 @@ ${RERUN_USAGE}  ${COMPARE_USAGE}
   --set path=value       change one scenario value, e.g. --set physics.reducedGravity=0.05
   --restart-out FILE.nc  also write a restart file of the end state (exact continuation)
   --quiet                no progress on stderr
-${RERUN_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
+${RERUN_HELP}${SWEEP_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
                          difference per field, measured wave speeds beside theory (exit 2: no overlap)
   --out DIFF.nc          (compare) write B minus A as a NetCDF file in the layout of a run
   report RUN.nc          a one-page printable HTML report of a run
@@ -62,7 +63,7 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
   const [command, ...rest] = argv;
   if (command === '--help' || command === '-h' || command === 'help') return 'help';
   if (command === '--version' || command === '-V') return 'version';
-  if (command !== 'run' && command !== 'check') throw new UsageError(`unknown command '${command}'; the commands are run, check, rerun, compare and report`);
+  if (command !== 'run' && command !== 'check') throw new UsageError(`unknown command '${command}'; the commands are run, check, rerun, sweep, compare and report`);
   const args: Args = { command, scenario: '', sets: [], quiet: false };
   const positional: string[] = [];
   for (let k = 0; k < rest.length; k++) {
@@ -128,6 +129,7 @@ function exitCodeFor(e: EngineError): number {
 /** Run the command line; resolves to the exit code. */
 export async function main(argv: readonly string[], io: CliIO): Promise<number> {
   if (argv[0] === 'rerun') return rerun(argv.slice(1), io);
+  if (argv[0] === 'sweep') return sweep(argv.slice(1), io);
   if (argv[0] === 'compare') return compareCommand(argv.slice(1), io);
   if (argv[0] === 'report') return reportCommand(argv.slice(1), io);
   let args: ReturnType<typeof parseArgs>;
