@@ -11,6 +11,7 @@ import { HovmollerPanel } from './panels/hovmoller.ts';
 import { ProbePanel } from './panels/probes.ts';
 import { ScenarioPanel } from './panels/scenario-panel.ts';
 import { WindPanel } from './wind/wind-panel.ts';
+import { LibraryPage } from './library-panel/library-page.ts';
 import { fieldChecksum } from './wind/checksum.ts';
 import { lookupTable, mapFor } from './render/colour-maps.ts';
 import { lonLabel, latLabel } from './render/geo.ts';
@@ -145,6 +146,15 @@ try {
   throw e;
 }
 
+// The run library and the comparison (viewer/library-panel/, viewer/compare/): it keeps the run on
+// screen from the engine's samples, so it sees every sample before anything else here.
+const library = new LibraryPage($('library-panel'), $('compare-panel'), {
+  setSampleFields: (every) => engine.setSampleFields(every),
+  openScenario: (text, fileName) => openText(text, fileName),
+  message: (text, kind) => message(text, kind),
+  outputEveryDays: () => run?.outputEveryDays ?? 1,
+});
+
 // ---- engine events ----
 function onFrame(f: Frame): void {
   // The first frame of a scenario may come before load() answers: hold it until the run is set up.
@@ -155,6 +165,7 @@ function onFrame(f: Frame): void {
   info.framesReceived++;
   info.lastDay = f.day;
   for (const s of f.samples) {
+    library.sample(s);
     hov.add(s.day, s.hovmoller);
     probes.addSample(s.day, s.probeValues);
   }
@@ -208,6 +219,7 @@ async function loadIntoEngine(text: string, fileName: string): Promise<boolean> 
 
 function startRun(r: LoadedScenario): void {
   run = r;
+  library.runStarted(r);
   const sc = JSON.parse(r.scenarioJson) as { physics?: { layerThickness?: number }; wind?: { parts?: unknown[] } };
   layerThickness = sc.physics?.layerThickness ?? 150;
   probePanel.layerThickness = layerThickness;
