@@ -6,5 +6,23 @@ import * as Comlink from 'comlink';
 import { engineApi } from './api.ts';
 import { Engine } from './engine.ts';
 
-const api = engineApi(new Engine(), (value, transfer) => Comlink.transfer(value, transfer));
+// A page cannot open paths, but the shipped scenarios travel with it: a scenario that starts
+// from another one's spin-up (trade relaxation from trade spin-up) finds it here by file name.
+const shipped = new Map(
+  Object.entries(import.meta.glob('../configs/*.json', { eager: true, query: '?raw', import: 'default' }) as Record<string, string>).map(
+    ([path, text]) => [path.split('/').pop()!, text],
+  ),
+);
+
+async function readShipped(path: string): Promise<Uint8Array> {
+  const text = shipped.get(path.split('/').pop() ?? path);
+  if (text === undefined) {
+    throw new Error(
+      `the page can read only the shipped scenario files (${[...shipped.keys()].join(', ')}); run this scenario from the command line, or replace the file reference by a shipped one`,
+    );
+  }
+  return new TextEncoder().encode(text);
+}
+
+const api = engineApi(new Engine(), (value, transfer) => Comlink.transfer(value, transfer), readShipped);
 Comlink.expose(api);

@@ -274,6 +274,29 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     expect(consoleErrors).toEqual([]);
   });
 
+  it('a shipped scenario that starts from another one\'s spin-up loads: the worker runs the spin-up first', async () => {
+    const errorsBefore = (await info(page)).errors.length;
+    await page.selectOption('#scenario-pick', 'trade-relaxation.json');
+    // Loaded (its name shows) or refused (a message): whichever comes first.
+    await page.waitForFunction(
+      (n) => /relax/i.test(document.getElementById('run-name')!.textContent ?? '') || (window as unknown as { __pycno: Info }).__pycno.errors.length > n,
+      errorsBefore,
+      { timeout: 120_000 },
+    );
+    expect((await info(page)).errors.slice(errorsBefore)).toEqual([]);
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, { timeout: 30_000 });
+    // The spun-up trades tilt the thermocline: deep (red) in the west, shallow (blue) in the east.
+    const tradeBasin = { lonWest: 0, lonEast: 140, latSouth: -25, latNorth: 25 };
+    await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
+    const west = await pixelsIn(page, { lonW: 8, lonE: 20, latS: -1, latN: 1 }, tradeBasin);
+    const east = await pixelsIn(page, { lonW: 120, lonE: 132, latS: -1, latN: 1 }, tradeBasin);
+    expect(west.filter(([r, , b]) => r > b + 30).length / west.length).toBeGreaterThan(0.6);
+    expect(east.filter(([r, , b]) => b > r + 30).length / east.length).toBeGreaterThan(0.6);
+    await shot(page, '06a-spun-up.png');
+    await page.selectOption('#scenario-pick', 'westerly-burst.json');
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, { timeout: 30_000 });
+  });
+
   it('a file that fails validation is refused with the validator lines; the run on screen stays', async () => {
     const file = join(ARTIFACTS, 'bad-gravity.json');
     const bad = structuredClone(burst);
