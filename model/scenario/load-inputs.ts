@@ -62,11 +62,16 @@ export function parseScenario(text: string, fileName: string, sets: readonly str
   return { fileName, scenario, resolved, scenarioJson: JSON.stringify(scenario, null, 2) };
 }
 
+/** Lines shown for one scenario; a file with hundreds of mistakes gets the first ones and a count. */
+export const MAX_ISSUE_LINES = 20;
+
 class ScenarioLinesError extends ScenarioError {
   constructor(issues: ScenarioIssue[]) {
     super(issues);
     // One line per issue, no summary line in front: the first line alone says what is wrong.
-    this.message = issueLines(issues).join('\n');
+    const lines = issueLines(issues.slice(0, MAX_ISSUE_LINES));
+    if (issues.length > MAX_ISSUE_LINES) lines.push(`... and ${issues.length - MAX_ISSUE_LINES} more problems (${issues.length} in all); fix the first ones and check again`);
+    this.message = lines.join('\n');
   }
 }
 

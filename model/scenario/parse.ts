@@ -22,8 +22,31 @@ class JsonSyntaxError extends Error {
   }
 }
 
+/**
+ * Largest scenario text, characters. A scenario with a large painted grid is a few MB; the bound
+ * keeps a hostile file from tying up the page or the command line for minutes.
+ */
+export const MAX_SCENARIO_CHARS = 16 * 1024 * 1024;
+/** Deepest nesting of { and [. A scenario needs about 8; the bound keeps every recursive walk safe. */
+export const MAX_NESTING = 64;
+/**
+ * Array items after this many, and any value after this many positions in all, get no text
+ * position of their own (messages then name the line of the nearest ancestor that has one). A
+ * scenario has a few hundred values worth pointing at; a Map of millions of paths costs seconds.
+ */
+const LOCATED_ITEMS = 1000;
+const MAX_LOCATIONS = 20_000;
+
 /** Read a scenario file's text; syntax errors come back as "file.json: line 3, column 7: ..." issues. */
 export function parseScenarioText(text: string, fileName?: string): ParseResult {
+  if (text.length > MAX_SCENARIO_CHARS) {
+    const issue: ScenarioIssue = {
+      path: '',
+      message: `the file is ${(text.length / 1048576).toFixed(1)} M characters long; a scenario file is at most ${MAX_SCENARIO_CHARS / 1048576} M (put large wind data in a CSV or NetCDF wind file)`,
+    };
+    if (fileName) issue.file = fileName;
+    return { ok: false, errors: [issue] };
+  }
   const src = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   const reader = new Reader(src);
   try {
@@ -37,6 +60,9 @@ export function parseScenarioText(text: string, fileName?: string): ParseResult 
     return { ok: false, errors: [issue] };
   }
 }
+
+/** A JSON number, matched in place (sticky) so no substring is made per number. */
+const NUMBER = /-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?/y;
 
 class Reader {
   private i = 0;
@@ -61,7 +87,7 @@ class Reader {
   document(): unknown {
     this.space();
     if (this.i >= this.s.length) throw new JsonSyntaxError('the file is empty; a scenario is a JSON object { ... }', this.i);
-    const v = this.value([]);
+    const v = this.value([], 0);
     this.space();
     if (this.i < this.s.length) throw new JsonSyntaxError(`unexpected ${this.describe()} after the end of the JSON value`, this.i);
     return v;
@@ -83,14 +109,23 @@ class Reader {
     }
   }
 
-  private value(path: PathSegment[]): unknown {
+  /**
+   * One value. `path` is null for values that get no text position (past the location limits):
+   * their whole subtree is then read without building paths, which keeps huge arrays cheap.
+   */
+  private value(path: PathSegment[] | null, depth: number): unknown {
     this.space();
     const start = this.i;
-    const key = pathToString(path);
-    if (!this.locations.has(key)) this.locations.set(key, this.position(start));
+    if (path && this.locations.size < MAX_LOCATIONS) {
+      const key = pathToString(path);
+      if (!this.locations.has(key)) this.locations.set(key, this.position(start));
+    }
     const ch = this.s[this.i];
-    if (ch === '{') return this.object(path);
-    if (ch === '[') return this.array(path);
+    if ((ch === '{' || ch === '[') && depth >= MAX_NESTING) {
+      throw new JsonSyntaxError(`nesting deeper than ${MAX_NESTING} levels of { and [; a scenario needs only a few`, this.i);
+    }
+    if (ch === '{') return this.object(path, depth + 1);
+    if (ch === '[') return this.array(path, depth + 1);
     if (ch === '"') return this.string();
     if (ch === '-' || (ch >= '0' && ch <= '9')) return this.number();
     for (const [word, v] of [['true', true], ['false', false], ['null', null]] as const) {
@@ -106,16 +141,16 @@ class Reader {
     throw new JsonSyntaxError(`unexpected ${this.describe()}: expected a value`, this.i);
   }
 
-  private object(path: PathSegment[]): Record<string, unknown> {
+  private object(path: PathSegment[] | null, depth: number): Record<string, unknown> {
     const open = this.i;
     this.i++;
     const out: Record<string, unknown> = {};
-    const seen = new Map<string, number>();
     this.space();
     if (this.s[this.i] === '}') {
       this.i++;
       return out;
     }
+    const located = path !== null && this.locations.size < MAX_LOCATIONS;
     for (;;) {
       this.space();
       if (this.s[this.i] !== '"') {
@@ -125,16 +160,17 @@ class Reader {
       }
       const keyAt = this.i;
       const key = this.string();
-      if (seen.has(key)) {
-        throw new JsonSyntaxError(`duplicate key "${key}" (first at line ${this.position(seen.get(key)!).line})`, keyAt);
+      if (Object.prototype.hasOwnProperty.call(out, key)) {
+        const first = located ? this.locations.get(pathToString([...path!, key])) : undefined;
+        throw new JsonSyntaxError(`duplicate key "${key}"${first ? ` (first at line ${first.line})` : ''}`, keyAt);
       }
-      seen.set(key, keyAt);
-      this.locations.set(pathToString([...path, key]), this.position(keyAt));
+      const child = located ? [...path!, key] : null;
+      if (child && this.locations.size < MAX_LOCATIONS) this.locations.set(pathToString(child), this.position(keyAt));
       this.space();
       if (this.s[this.i] !== ':') throw new JsonSyntaxError(`unexpected ${this.describe()}: expected : after the key "${key}"`, this.i);
       this.i++;
       // Keys such as "__proto__" must become plain properties, not change the prototype.
-      Object.defineProperty(out, key, { value: this.value([...path, key]), enumerable: true, writable: true, configurable: true });
+      Object.defineProperty(out, key, { value: this.value(child, depth), enumerable: true, writable: true, configurable: true });
       this.space();
       const ch = this.s[this.i];
       if (ch === ',') {
@@ -150,7 +186,7 @@ class Reader {
     }
   }
 
-  private array(path: PathSegment[]): unknown[] {
+  private array(path: PathSegment[] | null, depth: number): unknown[] {
     const open = this.i;
     this.i++;
     const out: unknown[] = [];
@@ -162,7 +198,8 @@ class Reader {
     for (;;) {
       this.space();
       if (this.s[this.i] === ']') throw new JsonSyntaxError('trailing comma before ]: remove the last comma', this.i);
-      out.push(this.value([...path, out.length]));
+      const located = path !== null && out.length < LOCATED_ITEMS && this.locations.size < MAX_LOCATIONS;
+      out.push(this.value(located ? [...path!, out.length] : null, depth));
       this.space();
       const ch = this.s[this.i];
       if (ch === ',') {
@@ -183,6 +220,14 @@ class Reader {
     this.i++;
     let out = '';
     for (;;) {
+      // Copy a run of plain characters at once: long strings cost one slice, not one concatenation per character.
+      const run = this.i;
+      while (this.i < this.s.length) {
+        const c = this.s.charCodeAt(this.i);
+        if (c === 0x22 || c === 0x5c || c < 0x20) break;
+        this.i++;
+      }
+      if (this.i > run) out += this.s.slice(run, this.i);
       const ch = this.s[this.i];
       if (ch === undefined || ch === '\n') throw new JsonSyntaxError('unterminated string: a closing " is missing', open);
       if (ch === '"') {
@@ -210,7 +255,8 @@ class Reader {
   }
 
   private number(): number {
-    const m = /^-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?/.exec(this.s.slice(this.i, this.i + 400));
+    NUMBER.lastIndex = this.i;
+    const m = NUMBER.exec(this.s);
     if (!m) throw new JsonSyntaxError(`bad number: ${this.describe()} cannot start a number here`, this.i);
     const after = this.s[this.i + m[0].length];
     if (after !== undefined && /[0-9.eE+\-A-Za-z]/.test(after)) {

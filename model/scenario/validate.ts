@@ -4,7 +4,8 @@ import { Validator } from '@cfworker/json-schema';
 import { formatIssue, jsonType, show, ScenarioError, type ScenarioIssue } from './errors.ts';
 import { withDefaults } from './defaults.ts';
 import { issuesFromValidator } from './messages.ts';
-import { parseScenarioText, type TextPosition } from './parse.ts';
+import { MAX_NESTING, parseScenarioText, type TextPosition } from './parse.ts';
+import { pathToString, type PathSegment } from './errors.ts';
 import { isPlainObject, scenarioSchema } from './schema.ts';
 import { semanticIssues } from './semantic.ts';
 import { SCENARIO_FORMAT, type Scenario, type ScenarioFile } from './types.ts';
@@ -55,6 +56,10 @@ export function collectIssues(json: unknown): ScenarioIssue[] {
     const hint = typeof json.format === 'string' && json.format.startsWith('pycno-scenario/') ? 'written for another version of the program' : 'not a scenario format';
     return [{ path: 'format', message: `unknown format ${show(json.format)} (${hint}); this program reads "${SCENARIO_FORMAT}"` }];
   }
+  // The schema validator and the walks after it recurse and collect one error per bad item: sizes
+  // they cannot take (deep nesting, a hundred thousand wrong items) are refused first.
+  const shape = shapeIssues(json);
+  if (shape.length) return shape;
   validator ??= new Validator(scenarioSchema as never, '2020-12', false);
   const result = validator.validate(json);
   if (!result.valid) {
@@ -67,6 +72,36 @@ export function collectIssues(json: unknown): ScenarioIssue[] {
   const covered = (path: string) => issues.some((i) => i.path !== '' && (path === i.path || path.startsWith(`${i.path}.`) || path.startsWith(`${i.path}[`) || i.path.startsWith(`${path}.`) || i.path.startsWith(`${path}[`)));
   for (const s of semanticIssues(sc)) if (!covered(s.path)) issues.push(s);
   return issues;
+}
+
+/** Longest list anywhere but in the data of a painted grid (x and y), which may be long. */
+export const MAX_LIST_ITEMS = 10_000;
+
+/** Nesting and list lengths, checked without recursion, so any value at all can be checked. */
+function shapeIssues(json: unknown): ScenarioIssue[] {
+  const stack: Array<{ v: unknown; path: PathSegment[] }> = [{ v: json, path: [] }];
+  while (stack.length) {
+    const { v, path } = stack.pop()!;
+    if (v === null || typeof v !== 'object') continue;
+    if (path.length >= MAX_NESTING) {
+      return [{ path: pathToString(path), message: `nested deeper than ${MAX_NESTING} levels; a scenario needs only a few` }];
+    }
+    if (Array.isArray(v)) {
+      const gridData = path.length >= 2 && path[path.length - 2] === 'grid' && (path[path.length - 1] === 'x' || path[path.length - 1] === 'y');
+      if (gridData) {
+        const bad = v.findIndex((x) => typeof x !== 'number');
+        if (bad >= 0) return [{ path: pathToString([...path, bad]), message: `must be a number (got ${jsonType(v[bad])} ${show(v[bad])}); a painted grid holds numbers only` }];
+        continue;
+      }
+      if (v.length > MAX_LIST_ITEMS) {
+        return [{ path: pathToString(path), message: `holds ${v.length} items; at most ${MAX_LIST_ITEMS} (only a painted grid's x and y may be longer)` }];
+      }
+      for (let k = 0; k < v.length; k++) stack.push({ v: v[k], path: [...path, k] });
+    } else {
+      for (const key of Object.keys(v)) stack.push({ v: (v as Record<string, unknown>)[key], path: [...path, key] });
+    }
+  }
+  return [];
 }
 
 function decorate(issues: ScenarioIssue[], options: ValidateOptions): ScenarioIssue[] {
