@@ -59,7 +59,8 @@ export class ProbePanel {
       return { days: p.days, values: vals };
     });
     const { x, ys } = alignSeries(series);
-    const sig = `${this.key}|${probes.map((p) => p.id).join(',')}`;
+    // Names too: a new scenario reuses probe ids, and its legend must not keep the old names.
+    const sig = `${this.key}|${probes.map((p) => `${p.id}:${p.name}`).join(',')}`;
     const width = Math.max(280, this.host.clientWidth || 400);
     if (!this.plot || sig !== this.signature) {
       this.plot?.destroy();
