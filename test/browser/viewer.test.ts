@@ -294,7 +294,11 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     expect(east.filter(([r, , b]) => b > r + 30).length / east.length).toBeGreaterThan(0.6);
     await shot(page, '06a-spun-up.png');
     await page.selectOption('#scenario-pick', 'westerly-burst.json');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, { timeout: 30_000 });
+    await page.waitForFunction(
+      (name) => document.getElementById('run-name')!.textContent === name && (window as unknown as { __pycno: Info }).__pycno.status === 'ready',
+      burst.name,
+      { timeout: 30_000 },
+    );
   });
 
   it('a file that fails validation is refused with the validator lines; the run on screen stays', async () => {
