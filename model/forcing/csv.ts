@@ -12,6 +12,11 @@ import { ForcingError } from './errors.ts';
 import type { GriddedSeries } from './gridded.ts';
 
 const REQUIRED = ['lon', 'lat', 'x', 'y'] as const;
+
+/** A field as quoted in a message: long ones are cut, so a hostile file cannot fill the screen. */
+function quote(field: string): string {
+  return field.length > 40 ? `${field.slice(0, 40)}... (${field.length} characters)` : field;
+}
 const COLUMNS = new Set(['lon', 'lat', 'day', 'x', 'y']);
 
 /** Distinct values, sorted, with the first line where each appears. */
@@ -55,9 +60,9 @@ export function parseWindCsv(content: string | Uint8Array): GriddedSeries {
       headerLine = lineNo;
       header.forEach((name, k) => {
         if (!COLUMNS.has(name)) {
-          throw new ForcingError(`CSV line ${lineNo}: unknown column '${fields[k]}' in the header; expected lon, lat, x, y and optionally day`);
+          throw new ForcingError(`CSV line ${lineNo}: unknown column '${quote(fields[k])}' in the header; expected lon, lat, x, y and optionally day`);
         }
-        if (name in col) throw new ForcingError(`CSV line ${lineNo}: column '${name}' appears twice in the header`);
+        if (name in col) throw new ForcingError(`CSV line ${lineNo}: column '${quote(name)}' appears twice in the header`);
         col[name] = k;
       });
       for (const r of REQUIRED) if (!(r in col)) throw new ForcingError(`CSV line ${lineNo}: the header has no '${r}' column (expected lon, lat, x, y and optionally day)`);
@@ -68,7 +73,7 @@ export function parseWindCsv(content: string | Uint8Array): GriddedSeries {
     }
     const row = fields.map((f, k) => {
       const v = f === '' ? NaN : Number(f);
-      if (!Number.isFinite(v)) throw new ForcingError(`CSV line ${lineNo}, column '${header![k]}': '${f}' is not a number`);
+      if (!Number.isFinite(v)) throw new ForcingError(`CSV line ${lineNo}, column '${header![k]}': '${quote(f)}' is not a number`);
       return v;
     });
     rows.push(row);

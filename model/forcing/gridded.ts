@@ -6,6 +6,7 @@
 // spurious stress jump (and so a spurious curl) along the coast.
 
 import { NetCDFReader } from 'netcdfjs';
+import { NetcdfReadError, readNetcdf } from '../io/netcdf-read.ts';
 import type { GriddedVectors } from './spec.ts';
 import { ForcingError } from './errors.ts';
 
@@ -26,19 +27,28 @@ export interface GriddedSeries {
   missing: number;
 }
 
+/** A value as shown in a message, whatever its type. */
+function shown(v: unknown): string {
+  if (typeof v === 'number') return String(v);
+  const s = JSON.stringify(v) ?? String(v);
+  return s.length > 40 ? `${s.slice(0, 40)}...` : s;
+}
+
 function checkAxis(what: string, start: number, step: number, n: number): void {
-  if (!Number.isInteger(n) || n < 1) throw new ForcingError(`${what}: the number of points must be a positive whole number (got ${n})`);
-  if (!Number.isFinite(start)) throw new ForcingError(`${what}: the first coordinate must be a finite number (got ${start})`);
-  if (n > 1 && !(step > 0 && Number.isFinite(step))) throw new ForcingError(`${what}: the spacing must be positive (got ${step})`);
+  if (!Number.isInteger(n) || n < 1) throw new ForcingError(`${what}: the number of points must be a positive whole number (got ${shown(n)})`);
+  if (typeof start !== 'number' || !Number.isFinite(start)) throw new ForcingError(`${what}: the first coordinate must be a finite number (got ${shown(start)})`);
+  if (n > 1 && !(typeof step === 'number' && step > 0 && Number.isFinite(step))) throw new ForcingError(`${what}: the spacing must be positive (got ${shown(step)})`);
 }
 
 /** Check a painted grid and turn it into a one-slice series. */
 export function seriesFromGrid(g: GriddedVectors, what = 'painted grid'): GriddedSeries {
+  if (g === null || typeof g !== 'object' || Array.isArray(g)) throw new ForcingError(`${what}: expected an object { lon0, lat0, dLon, dLat, nLon, nLat, x, y } (got ${shown(g)})`);
   checkAxis(`${what} longitude`, g.lon0, g.dLon, g.nLon);
   checkAxis(`${what} latitude`, g.lat0, g.dLat, g.nLat);
   const n = g.nLon * g.nLat;
   if (!Array.isArray(g.x) || !Array.isArray(g.y) || g.x.length !== n || g.y.length !== n) {
-    throw new ForcingError(`${what}: x and y must hold nLat * nLon = ${n} values each (got ${g.x?.length} and ${g.y?.length})`);
+    const len = (a: unknown) => (Array.isArray(a) ? String(a.length) : `no list but ${shown(a)}`);
+    throw new ForcingError(`${what}: x and y must hold nLat * nLon = ${n} values each (got ${len(g.x)} and ${len(g.y)})`);
   }
   const x = Float64Array.from(g.x);
   const y = Float64Array.from(g.y);
@@ -156,6 +166,14 @@ const DAY_FACTORS: Array<[RegExp, number]> = [
  * have dimensions (lat, lon) or (time, lat, lon).
  */
 export function readNetcdfVectors(bytes: Uint8Array, opts: NetcdfVectorOptions = {}): GriddedSeries {
+  // The bounds-checked header walk first: netcdfjs alone throws bare RangeErrors and TypeErrors on
+  // damaged headers, and sizes arrays from whatever lengths the header claims.
+  try {
+    readNetcdf(bytes, { only: [] });
+  } catch (err) {
+    if (err instanceof NetcdfReadError) throw new ForcingError(`not a readable NetCDF classic file: ${err.message}`);
+    throw err;
+  }
   let reader: NetCDFReader;
   try {
     reader = new NetCDFReader(bytes);
@@ -184,7 +202,12 @@ export function readNetcdfVectors(bytes: Uint8Array, opts: NetcdfVectorOptions =
   const yVar = pick(opts.yVariable, DEFAULT_Y_NAMES, 'northward');
 
   const numbers = (v: NcVariable): number[] => {
-    const raw = reader.getDataVariable(v as never) as unknown[];
+    let raw: unknown[];
+    try {
+      raw = reader.getDataVariable(v as never) as unknown[];
+    } catch (err) {
+      throw new ForcingError(`NetCDF file: variable '${v.name}' cannot be read: ${(err as Error).message}`);
+    }
     const out: number[] = [];
     for (const r of raw) {
       if (Array.isArray(r)) for (const q of r) out.push(Number(q));

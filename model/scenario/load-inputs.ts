@@ -5,6 +5,7 @@
 
 import { DAY } from '../config.ts';
 import { InputError } from '../errors.ts';
+import { ForcingError } from '../forcing/errors.ts';
 import { Grid } from '../grid.ts';
 import { readStartFile } from '../io/restart.ts';
 import type { State } from '../state.ts';
@@ -248,7 +249,8 @@ export function buildPrepared(p: ParsedScenario, inputs: PreparedInputs): BuiltR
     built = buildModel(resolved, { files: inputs.files, startState: inputs.startState });
   } catch (e) {
     if (e instanceof InputError && !e.message.startsWith(p.fileName)) throw new InputError(`${p.fileName}: ${e.message}`);
-    if (e instanceof Error && e.name === 'ForcingError') throw new InputError(`${p.fileName}: ${e.message}`);
+    // ForcingError and its kin (FormulaError): all bad input, not a failure of the program.
+    if (e instanceof ForcingError) throw new InputError(`${p.fileName}: ${e.message}`);
     throw e;
   }
   if (inputs.startState && inputs.startDt !== built.model.dt) built.model.state.historyCount = 0;

@@ -9,6 +9,7 @@
 
 import { mkdirSync, writeFileSync } from 'node:fs';
 import fc from 'fast-check';
+import { ForcingError } from '../../model/forcing/errors.ts';
 import { toEngineError } from '../../worker/engine.ts';
 
 /** Per-case time bound, ms: a hang guard (the slowest legitimate case takes a few ms). */
@@ -41,6 +42,8 @@ export function judge(error: unknown): string | null {
   if (error === undefined) return null;
   const e = toEngineError(error);
   const name = error instanceof Error ? error.name : typeof error;
+  // The run library's reader has its own class, shown by the page as it is.
+  if (name === 'RunFileError' || error instanceof ForcingError) e.kind = 'input';
   if (e.kind !== 'input') return `${name} (not a clear input error): ${e.message.slice(0, 300)}`;
   if (e.message.trim() === '') return `${name} with an empty message`;
   if (e.message.length > MAX_MESSAGE) return `${name} with a ${e.message.length}-character message: ${e.message.slice(0, 200)}...`;

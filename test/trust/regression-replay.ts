@@ -21,9 +21,10 @@ export function replayRegression(name: string, bytes: Uint8Array): unknown {
       compileFormula(text().replace(/\n$/, '')).evaluate(160, 0, 1);
     } else if (name.startsWith('csv-')) {
       parseWindCsv(text());
+    } else if (name.startsWith('netcdf-wind-')) {
+      readNetcdfVectors(bytes);
     } else if (name.startsWith('netcdf-')) {
       readNetcdf(bytes);
-      readNetcdfVectors(bytes);
       readStartFile(bytes, new Grid({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 1, dLat: 1, land: [] }, 6.371e6));
       readRun(bytes);
     } else throw new Error(`unknown regression kind: ${name}`);

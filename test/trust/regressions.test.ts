@@ -21,6 +21,13 @@ export const EXPECTED: Record<string, RegExp> = {
   'scenario-many-wrong-items.json': /^scenario-many-wrong-items\.json: line 1: probes: holds 120000 items; at most 10000/,
   // A 94,000-character message of 500 lines.
   'scenario-500-problems.json': /^scenario-500-problems\.json: line 1: basin\.land\[0\]: must be an object/,
+  // "internal error" and exit 1: a FormulaError was not recognised as bad input by the builder.
+  'scenario-formula-too-deep.json': /^scenario-formula-too-deep\.json: wind part 0 \('westerly patch'\): formula nested too deeply: more than 50 brackets at character 50/,
+  // Wind data read by netcdfjs without the bounds-checked header walk: RangeError, TypeError, RangeError.
+  'netcdf-wind-dataview-range.nc': /^not a readable NetCDF classic file: (truncated|corrupt|unsupported)/,
+  'netcdf-wind-bad-dimension-id.nc': /^not a readable NetCDF classic file: (truncated|corrupt|unsupported)/,
+  'netcdf-wind-absurd-length.nc': /^not a readable NetCDF classic file: (truncated|corrupt|unsupported)/,
+  'netcdf-wind-cut-464.nc': /^not a readable NetCDF classic file: (truncated|corrupt|unsupported)/,
 };
 
 describe('regressions found by the fuzzers', () => {
@@ -36,6 +43,18 @@ describe('regressions found by the fuzzers', () => {
       expect((error as Error).message.split('\n')[0]).toMatch(EXPECTED[f]);
     });
   }
+
+  it('a CSV value of a million digits is quoted cut short (the message was 1,000,044 characters)', () => {
+    const e = replayRegression('csv-long-value.csv', new TextEncoder().encode(`lon,lat,x,y\n${'9'.repeat(1_000_000)},0,0,0`)) as Error;
+    expect(e.message).toBe(`CSV line 2, column 'lon': '${'9'.repeat(40)}... (1000000 characters)' is not a number`);
+  });
+
+  it('a painted grid with an object for a coordinate says what it got (the message said [object Object]); null is refused', async () => {
+    const { seriesFromGrid } = await import('../../model/forcing/gridded.ts');
+    const g = { lon0: { a: 1 }, lat0: 0, dLon: 1, dLat: 1, nLon: 1, nLat: 1, x: [0], y: [0] };
+    expect(() => seriesFromGrid(g as never)).toThrow('painted grid longitude: the first coordinate must be a finite number (got {"a":1})');
+    expect(() => seriesFromGrid(null as never)).toThrow(/^painted grid: expected an object/);
+  });
 
   it('500 problems: the first 20 lines and a count', () => {
     const e = replayRegression('scenario-500-problems.json', new Uint8Array(readFileSync(DIR + 'scenario-500-problems.json'))) as Error;
