@@ -34,6 +34,12 @@ export function scenarioStability(r: ResolvedScenario): StabilityLimit {
 /** Solver arrays of the padded grid size, 8 bytes each (a rough count of state, forcing, masks and work). */
 const SOLVER_ARRAYS: Record<DynamicsMode, number> = { linear: 12, nonlinear: 25 };
 
+/** Bytes a run of nx x ny cells holds while it runs: the solver's arrays and one output frame. */
+export function memoryEstimate(nx: number, ny: number, mode: DynamicsMode, fields: number): number {
+  const padded = (nx + 3) * (ny + 3);
+  return padded * 8 * SOLVER_ARRAYS[mode] + padded + nx * ny * 4 * fields;
+}
+
 export interface DerivedNumbers {
   /** Kelvin (gravity-wave) speed c = sqrt(g' H), m s-1. */
   c: number;
@@ -91,8 +97,7 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
   const outputs = Math.floor(r.days / r.outputEveryDays + 1e-9) + 1;
   const fields = r.outputFields.length;
   const outputBytes = nx * ny * 4 * fields * outputs + (nx + ny) * 8 + outputs * 8;
-  const padded = (nx + 3) * (ny + 3);
-  const memoryBytes = padded * 8 * SOLVER_ARRAYS[physics.mode] + padded + nx * ny * 4 * fields;
+  const memoryBytes = memoryEstimate(nx, ny, physics.mode, fields);
   return {
     c,
     beta,

@@ -7,11 +7,13 @@ import { EARTH } from '../config.ts';
 import { Grid, insideShape, type LandShape } from '../grid.ts';
 import { pathToString, type PathSegment, type ScenarioIssue } from './errors.ts';
 import { resolveScenario } from './resolve.ts';
-import { scenarioStability } from './derived.ts';
+import { memoryEstimate, scenarioStability } from './derived.ts';
 import type { Scenario } from './types.ts';
 
 /** Grids above this many cells are refused: the page would run out of memory and patience. */
 export const MAX_CELLS = 4_000_000;
+/** The memory budget that cap stands for: the largest grid's arrays in the nonlinear mode with every field, bytes. */
+export const MEMORY_BUDGET = memoryEstimate(2000, 2000, 'nonlinear', 10);
 
 const num = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v);
 const EPS = 1e-9;
@@ -52,7 +54,15 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
     if (okX && okY) {
       const cells = Math.round((box.e - box.w) / dLon) * Math.round((box.n - box.s) / dLat);
       if (cells > MAX_CELLS) {
-        add(['basin', 'resolution'], `gives ${cells.toLocaleString('en-US')} cells; at most ${MAX_CELLS.toLocaleString('en-US')}: choose coarser cells`);
+        const nx = Math.round((box.e - box.w) / dLon);
+        const ny = Math.round((box.n - box.s) / dLat);
+        const mode = p.dynamics === 'nonlinear' ? 'nonlinear' : 'linear';
+        const fields = Array.isArray(sc.output?.fields) ? sc.output.fields.length : 10;
+        const mb = (x: number) => `${Math.round(x / 1048576).toLocaleString('en-US')} MB`;
+        add(
+          ['basin', 'resolution'],
+          `gives ${cells.toLocaleString('en-US')} cells; at most ${MAX_CELLS.toLocaleString('en-US')}, the memory budget of ${mb(MEMORY_BUDGET)} (this ${nx} x ${ny} grid would need about ${mb(memoryEstimate(nx, ny, mode, fields))} while running): choose coarser cells`,
+        );
       } else cellsOk = true;
     }
   }
