@@ -88,16 +88,24 @@ export class Grid {
     this.yFace = this.latFace.map((lat) => lat * mPerDeg);
 
     this.ocean = new Uint8Array(this.size);
-    let count = 0;
-    for (let j = 0; j < ny; j++) {
-      for (let i = 0; i < nx; i++) {
-        const wet = !basin.land.some((s) => insideShape(s, this.lonCentre[i], this.latCentre[j]));
-        if (wet) {
-          this.ocean[this.idx(i, j)] = 1;
-          count++;
+    for (let j = 0; j < ny; j++) this.ocean.fill(1, this.idx(0, j), this.idx(nx, j));
+    // Each shape is tested only on the cells inside its bounding box, so a fine grid with a long
+    // coast polygon costs cells-in-box x corners, not cells x corners x shapes.
+    for (const shape of basin.land) {
+      const b = shapeBounds(shape);
+      const i0 = Math.max(0, Math.floor((b.lonWest - lonWest) / dLon - 0.5));
+      const i1 = Math.min(nx - 1, Math.ceil((b.lonEast - lonWest) / dLon - 0.5));
+      const j0 = Math.max(0, Math.floor((b.latSouth - latSouth) / dLat - 0.5));
+      const j1 = Math.min(ny - 1, Math.ceil((b.latNorth - latSouth) / dLat - 0.5));
+      for (let j = j0; j <= j1; j++) {
+        for (let i = i0; i <= i1; i++) {
+          const k = this.idx(i, j);
+          if (this.ocean[k] && insideShape(shape, this.lonCentre[i], this.latCentre[j])) this.ocean[k] = 0;
         }
       }
     }
+    let count = 0;
+    for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) count += this.ocean[this.idx(i, j)];
     this.oceanCells = count;
     this.maskU = new Float64Array(this.size);
     this.maskV = new Float64Array(this.size);
@@ -138,6 +146,22 @@ export class Grid {
     const j = Math.round((lat - this.basin.latSouth) / this.dLat - 0.5);
     return Math.min(this.ny - 1, Math.max(0, j));
   }
+}
+
+/** The lon/lat box a shape lies in. */
+export function shapeBounds(s: LandShape): { lonWest: number; lonEast: number; latSouth: number; latNorth: number } {
+  if (s.kind === 'rectangle') return s;
+  let lonWest = Infinity;
+  let lonEast = -Infinity;
+  let latSouth = Infinity;
+  let latNorth = -Infinity;
+  for (const [lon, lat] of s.points) {
+    lonWest = Math.min(lonWest, lon);
+    lonEast = Math.max(lonEast, lon);
+    latSouth = Math.min(latSouth, lat);
+    latNorth = Math.max(latNorth, lat);
+  }
+  return { lonWest, lonEast, latSouth, latNorth };
 }
 
 export function insideShape(s: LandShape, lon: number, lat: number): boolean {

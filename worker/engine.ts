@@ -54,7 +54,6 @@ export interface LoadOptions {
 export function toEngineError(e: unknown): EngineError {
   if (e instanceof BlowUpError) return { kind: 'blow-up', message: e.message };
   if (e instanceof InputError || e instanceof NetcdfReadError) return { kind: 'input', message: e.message };
-  if (e instanceof Error && e.name === 'ForcingError') return { kind: 'input', message: e.message };
   const msg = e instanceof Error ? e.message : String(e);
   return { kind: 'internal', message: `internal error: ${msg}` };
 }

@@ -242,3 +242,11 @@ describe('Hovmoller latitudes added during a run', () => {
     expect((await loaded(engine)).hovmollerLats).toHaveLength(before);
   });
 });
+
+describe('errors as the user sees them', () => {
+  it('a wind-design mistake (a formula error) is bad input, not an internal error', async () => {
+    const { FormulaError } = await import('../../model/forcing/formula.ts');
+    const { toEngineError } = await import('../../worker/engine.ts');
+    expect(toEngineError(new FormulaError("unknown name 'lonn' at character 1", 0))).toEqual({ kind: 'input', message: "unknown name 'lonn' at character 1" });
+  });
+});
