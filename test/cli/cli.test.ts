@@ -92,6 +92,14 @@ describe('pycno run', () => {
     expect(String(f.attributes.history.value)).toContain('pycno run tiny.json --set basin.resolution=0.5');
   });
 
+  it('refuses an --out that would overwrite the scenario itself, and leaves it as it was', () => {
+    writeFileSync(join(dir, 'same.json'), FIXTURE_TEXT);
+    const r = pycno(['run', 'same.json', '--out', 'same.json', '--quiet']);
+    expect(r.code).toBe(2);
+    expect(r.stderr.trimEnd()).toBe('pycno: --out same.json: that is a file this run reads (the scenario or one of its inputs); write the output under another name');
+    expect(readFileSync(join(dir, 'same.json'), 'utf8')).toBe(FIXTURE_TEXT);
+  });
+
   it('a blow-up exits 1 with its message; the file holds the records before it', () => {
     const r = pycno(['run', 'tiny.json', '--out', 'blow.nc', '--quiet', ...sets(BLOW_UP_SETS)]);
     expect(r.code).toBe(1);

@@ -219,9 +219,14 @@ function describe(info: LoadedScenario, shown: string, argv: Args, engine: Engin
 async function run(args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
   const engine = new Engine({ maxFramesPerSecond: 10 });
   const quiet = args.quiet;
+  // Every file the run reads, so that --out can never overwrite one of them.
+  const inputs = new Set([resolvePath(io.cwd, shown)]);
   const loaded = await engine.load(text, shown, {
     sets: args.sets,
-    reader,
+    reader: (p) => {
+      inputs.add(p.startsWith('/') ? p : resolvePath(io.cwd, p));
+      return reader(p);
+    },
     onSpinup: quiet ? undefined : spinupReporter(io),
   });
   if (!loaded.ok) {
@@ -231,6 +236,10 @@ async function run(args: Args, text: string, shown: string, reader: (p: string) 
   const info = loaded.scenario;
   const outFile = args.out ?? `${basename(shown).replace(/\.json$/i, '')}.nc`;
   const outPath = resolvePath(io.cwd, outFile);
+  if (inputs.has(outPath)) {
+    printError(io, `--out ${outFile}: that is a file this run reads (the scenario or one of its inputs); write the output under another name`);
+    return 2;
+  }
   let sink: FileSink;
   try {
     sink = new FileSink(outPath);
