@@ -10,6 +10,7 @@ import { RunOutputWriter, PYCNO_VERSION, type RunDescription } from '../../model
 import { writeRestart } from '../../model/io/restart.ts';
 import { derivedNumbers } from '../../model/scenario/derived.ts';
 import { buildPrepared, loadInputs, parseScenario, resolveRelative } from '../../model/scenario/load-inputs.ts';
+import { describeLoadedRun } from '../run-description.ts';
 import { Engine, toEngineError } from '../engine.ts';
 import { FileSink, nodeReader } from '../files-node.ts';
 import type { EngineError, LoadedScenario } from '../protocol.ts';
@@ -196,24 +197,7 @@ async function check(args: Args, text: string, shown: string, reader: (p: string
 }
 
 function describe(info: LoadedScenario, shown: string, argv: Args, engine: Engine): RunDescription {
-  const m = engine.model!;
-  return {
-    name: info.name,
-    description: info.description,
-    scenarioJson: info.scenarioJson,
-    scenarioFile: shown,
-    grid: info.grid,
-    fields: info.fields,
-    hovmollerLats: info.hovmollerLats,
-    hovmollerRowLats: info.hovmollerRowLats ?? [],
-    probes: info.probes,
-    bursts: info.bursts,
-    dt: info.dt,
-    dynamics: m.physics.mode,
-    reducedGravity: m.physics.reducedGravity,
-    layerThickness: m.physics.layerThickness,
-    command: ['pycno', argv.command, shown, ...argv.sets.flatMap((s) => ['--set', s])].join(' '),
-  };
+  return describeLoadedRun(info, engine.model!, shown, ['pycno', argv.command, shown, ...argv.sets.flatMap((s) => ['--set', s])].join(' '));
 }
 
 async function run(args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {

@@ -10,9 +10,10 @@
 import { dirname, join, resolve as resolvePath } from 'node:path';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from '../../model/io/netcdf-read.ts';
 import { MemorySink, type ByteSink } from '../../model/io/netcdf-writer.ts';
-import { PYCNO_VERSION, RunOutputWriter, type RunDescription } from '../../model/io/run-output.ts';
+import { PYCNO_VERSION, RunOutputWriter } from '../../model/io/run-output.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../engine.ts';
+import { describeLoadedRun } from '../run-description.ts';
 import { FileSink, nodeReader } from '../files-node.ts';
 
 export interface RerunIO {
@@ -177,24 +178,7 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
     say(`${shown}: the scenario reads back differently from the text embedded in the file; it cannot be repeated exactly`);
     return 1;
   }
-  const m = engine.model!;
-  const d: RunDescription = {
-    name: info.name,
-    description: info.description,
-    scenarioJson: info.scenarioJson,
-    scenarioFile: args.file,
-    grid: info.grid,
-    fields: info.fields,
-    hovmollerLats: info.hovmollerLats,
-    hovmollerRowLats: info.hovmollerRowLats ?? [],
-    probes: info.probes,
-    bursts: info.bursts,
-    dt: info.dt,
-    dynamics: m.physics.mode,
-    reducedGravity: m.physics.reducedGravity,
-    layerThickness: m.physics.layerThickness,
-    command: `pycno rerun ${args.file}`,
-  };
+  const d = describeLoadedRun(info, engine.model!, args.file, `pycno rerun ${args.file}`);
   let sink: ByteSink & { close?(): void };
   const memory = args.out ? null : new MemorySink();
   try {
