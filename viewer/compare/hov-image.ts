@@ -2,6 +2,7 @@
 // upward, a symmetric colour range given by the caller so A and B can share one.
 
 import { colourAt, lookupTable } from '../render/colour-maps.ts';
+import { drawAxes } from '../render/axes.ts';
 import { graticuleLines, graticuleStep, lonLabel } from '../render/geo.ts';
 import { formatValue } from '../panels/colour-bar.ts';
 
@@ -51,26 +52,11 @@ export function drawHovmoller(canvas: HTMLCanvasElement, lon: Float64Array, days
   const half = nt > 1 ? (days[nt - 1] - days[0]) / (nt - 1) / 2 : 0.5;
   const d0 = days[0] - half;
   const d1 = days[nt - 1] + half;
-  ctx.strokeStyle = 'rgba(0,0,0,0.25)';
-  ctx.textAlign = 'center';
-  for (const l of graticuleLines(west, east, graticuleStep(east - west, Math.floor(p.w / 60)))) {
-    const x = p.x + ((l - west) / (east - west)) * p.w;
-    ctx.beginPath();
-    ctx.moveTo(x + 0.5, p.y);
-    ctx.lineTo(x + 0.5, p.y + p.h);
-    ctx.stroke();
-    ctx.fillText(lonLabel(l), x, p.y + p.h + 4);
-  }
-  ctx.textAlign = 'right';
-  ctx.textBaseline = 'middle';
-  for (const d of graticuleLines(d0, d1, graticuleStep(d1 - d0, Math.floor(p.h / 30)))) {
-    const y = p.y + p.h - ((d - d0) / (d1 - d0)) * p.h;
-    ctx.beginPath();
-    ctx.moveTo(p.x, y + 0.5);
-    ctx.lineTo(p.x + p.w, y + 0.5);
-    ctx.stroke();
-    ctx.fillText(`${d}`, p.x - 4, y);
-  }
-  ctx.strokeStyle = '#333';
-  ctx.strokeRect(p.x + 0.5, p.y + 0.5, p.w - 1, p.h - 1);
+  drawAxes(
+    ctx,
+    p,
+    { values: graticuleLines(west, east, graticuleStep(east - west, Math.floor(p.w / 60))), at: (l) => p.x + ((l - west) / (east - west)) * p.w, label: lonLabel },
+    { values: graticuleLines(d0, d1, graticuleStep(d1 - d0, Math.floor(p.h / 30))), at: (d) => p.y + p.h - ((d - d0) / (d1 - d0)) * p.h, label: (d) => `${d}` },
+    'rgba(0,0,0,0.25)',
+  );
 }

@@ -3,6 +3,7 @@
 // characteristic lines, so the user sees whether the signal keeps pace with c and c/3.
 
 import { colourAt, lookupTable } from '../render/colour-maps.ts';
+import { drawAxes } from '../render/axes.ts';
 import { graticuleLines, graticuleStep, lonLabel } from '../render/geo.ts';
 import { characteristics } from '../state/characteristics.ts';
 import { niceCeil } from '../state/colour-range.ts';
@@ -136,34 +137,23 @@ export class HovmollerPanel {
     ctx.strokeStyle = 'rgba(0,0,0,0.25)';
     ctx.fillStyle = '#222';
     ctx.font = '11px system-ui, sans-serif';
-    ctx.textAlign = 'center';
-    ctx.textBaseline = 'top';
-    for (const lon of graticuleLines(e.lonWest, e.lonEast, graticuleStep(e.lonEast - e.lonWest, Math.floor(p.w / 60)))) {
-      const [x] = this.toPixel(lon, 0);
-      ctx.beginPath();
-      ctx.moveTo(x + 0.5, p.y);
-      ctx.lineTo(x + 0.5, p.y + p.h);
-      ctx.stroke();
-      ctx.fillText(lonLabel(lon), x, p.y + p.h + 4);
-    }
-    ctx.textAlign = 'right';
-    ctx.textBaseline = 'middle';
-    for (const d of graticuleLines(0, e.days, graticuleStep(e.days, Math.floor(p.h / 30)))) {
-      const [, y] = this.toPixel(e.lonWest, d);
-      ctx.beginPath();
-      ctx.moveTo(p.x, y + 0.5);
-      ctx.lineTo(p.x + p.w, y + 0.5);
-      ctx.stroke();
-      ctx.fillText(`${d}`, p.x - 4, y);
-    }
+    drawAxes(
+      ctx,
+      p,
+      {
+        values: graticuleLines(e.lonWest, e.lonEast, graticuleStep(e.lonEast - e.lonWest, Math.floor(p.w / 60))),
+        at: (lon) => this.toPixel(lon, 0)[0],
+        label: lonLabel,
+      },
+      { values: graticuleLines(0, e.days, graticuleStep(e.days, Math.floor(p.h / 30))), at: (d) => this.toPixel(e.lonWest, d)[1], label: (d) => `${d}` },
+      'rgba(0,0,0,0.25)',
+    );
     ctx.save();
     ctx.translate(10, p.y + p.h / 2);
     ctx.rotate(-Math.PI / 2);
     ctx.textAlign = 'center';
     ctx.fillText('day', 0, 0);
     ctx.restore();
-    ctx.strokeStyle = '#333';
-    ctx.strokeRect(p.x + 0.5, p.y + 0.5, p.w - 1, p.h - 1);
     ctx.textAlign = 'left';
     ctx.textBaseline = 'top';
     const lat = this.store.lats[this.latIndex];

@@ -2,6 +2,7 @@
 // marks, the cursor and the reference arrows. Both canvases have the same size, so the PNG
 // export is the two stacked.
 
+import { drawAxes } from './axes.ts';
 import { MapRenderer, type ArrowSet, type Viewport } from './map-gl.ts';
 import { arrowCells, cellAt, graticuleLines, graticuleStep, latLabel, lonLabel, type Extent } from './geo.ts';
 import { niceCeil } from '../state/colour-range.ts';
@@ -164,31 +165,19 @@ export class MapView {
     // Graticule: thin dark lines over the field, labels in the margins.
     const lonStep = graticuleStep(g.lonEast - g.lonWest, Math.max(3, Math.floor(r.width / 70)));
     const latStep = graticuleStep(g.latNorth - g.latSouth, Math.max(2, Math.floor(r.height / 35)));
-    ctx.strokeStyle = 'rgba(0,0,0,0.28)';
     ctx.fillStyle = '#222';
-    ctx.textAlign = 'center';
-    ctx.textBaseline = 'top';
-    for (const lon of graticuleLines(g.lonWest, g.lonEast, lonStep)) {
-      const [x] = this.pixelOf(lon, 0);
-      ctx.beginPath();
-      ctx.moveTo(x + 0.5, r.top);
-      ctx.lineTo(x + 0.5, r.top + r.height);
-      ctx.stroke();
-      ctx.fillText(lonLabel(lon), x, r.top + r.height + 4);
-    }
-    ctx.textAlign = 'right';
-    ctx.textBaseline = 'middle';
-    for (const lat of graticuleLines(g.latSouth, g.latNorth, latStep)) {
-      const [, y] = this.pixelOf(g.lonWest, lat);
-      ctx.strokeStyle = lat === 0 ? 'rgba(0,0,0,0.5)' : 'rgba(0,0,0,0.28)';
-      ctx.beginPath();
-      ctx.moveTo(r.left, y + 0.5);
-      ctx.lineTo(r.left + r.width, y + 0.5);
-      ctx.stroke();
-      ctx.fillText(latLabel(lat), r.left - 4, y);
-    }
-    ctx.strokeStyle = '#333';
-    ctx.strokeRect(r.left + 0.5, r.top + 0.5, r.width - 1, r.height - 1);
+    drawAxes(
+      ctx,
+      { x: r.left, y: r.top, w: r.width, h: r.height },
+      { values: graticuleLines(g.lonWest, g.lonEast, lonStep), at: (lon) => this.pixelOf(lon, 0)[0], label: lonLabel },
+      {
+        values: graticuleLines(g.latSouth, g.latNorth, latStep),
+        at: (lat) => this.pixelOf(g.lonWest, lat)[1],
+        label: latLabel,
+        stroke: (lat) => (lat === 0 ? 'rgba(0,0,0,0.5)' : undefined),
+      },
+      'rgba(0,0,0,0.28)',
+    );
 
     // Probes: a ring and the name.
     ctx.textAlign = 'left';
