@@ -7,17 +7,11 @@
 
 import { NetCDFReader } from 'netcdfjs';
 import { NetcdfReadError, readNetcdf } from '../io/netcdf-read.ts';
-import type { GriddedVectors } from './spec.ts';
+import type { GriddedVectors, LonLatGrid } from './spec.ts';
 import { ForcingError } from './errors.ts';
 
 /** A regular lon/lat grid of vectors, possibly with several time slices. */
-export interface GriddedSeries {
-  lon0: number;
-  lat0: number;
-  dLon: number;
-  dLat: number;
-  nLon: number;
-  nLat: number;
+export interface GriddedSeries extends LonLatGrid {
   /** Day of each slice, strictly increasing; null when the data have no time axis (one slice). */
   days: Float64Array | null;
   /** One array per slice, nLat * nLon values, row-major from south to north, west to east. */

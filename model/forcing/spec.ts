@@ -23,14 +23,18 @@ export type BandProfile =
   /** cos(pi * lat / (2 * edgeLat)) clipped at 0: broad trades falling to zero at +-edgeLat. */
   | { kind: 'trades'; edgeLat: number };
 
-/** A gridded vector field on its own regular lon/lat grid (row-major, south to north, west to east). */
-export interface GriddedVectors {
+/** A regular lon/lat grid of its own: first point, spacing and counts (degrees). */
+export interface LonLatGrid {
   lon0: number;
   lat0: number;
   dLon: number;
   dLat: number;
   nLon: number;
   nLat: number;
+}
+
+/** A gridded vector field on its own regular lon/lat grid (row-major, south to north, west to east). */
+export interface GriddedVectors extends LonLatGrid {
   /** nLat * nLon values each; x = eastward, y = northward component. */
   x: number[];
   y: number[];
