@@ -2,7 +2,8 @@
 // Debian's Chromium with playwright-core. The server is always killed, also when a test fails.
 
 import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { createServer } from 'node:net';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -29,8 +30,14 @@ async function freePort(): Promise<number> {
   });
 }
 
-export async function buildPage(): Promise<void> {
-  await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'warn' });
+/**
+ * Build the page into a folder of its own and return it, so that browser test files (and people)
+ * building at the same time cannot pull the files from under each other.
+ */
+export async function buildPage(): Promise<string> {
+  const outDir = mkdtempSync(join(tmpdir(), 'pycno-page-'));
+  await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'warn', build: { outDir, emptyOutDir: true } });
+  return outDir;
 }
 
 export interface Served {
@@ -38,10 +45,10 @@ export interface Served {
   stop(): Promise<void>;
 }
 
-export async function servePage(): Promise<Served> {
+export async function servePage(outDir: string): Promise<Served> {
   const port = await freePort();
   // vite's own binary, not npx: killing npx would leave vite holding the port.
-  const child: ChildProcess = spawn(join(ROOT, 'node_modules/.bin/vite'), ['preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], {
+  const child: ChildProcess = spawn(join(ROOT, 'node_modules/.bin/vite'), ['preview', '--outDir', outDir, '--host', '127.0.0.1', '--port', String(port), '--strictPort'], {
     cwd: ROOT,
     stdio: ['ignore', 'pipe', 'pipe'],
   });
@@ -50,9 +57,11 @@ export async function servePage(): Promise<Served> {
   child.stderr!.on('data', (d) => (log += d));
   const url = `http://127.0.0.1:${port}/`;
   const stop = async () => {
-    if (child.exitCode !== null) return;
-    child.kill('SIGTERM');
-    await new Promise((r) => child.once('exit', r));
+    if (child.exitCode === null) {
+      child.kill('SIGTERM');
+      await new Promise((r) => child.once('exit', r));
+    }
+    rmSync(outDir, { recursive: true, force: true });
   };
   try {
     const t0 = Date.now();

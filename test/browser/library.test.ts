@@ -141,8 +141,7 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
   const B = 'burst, friction 20 days';
 
   beforeAll(async () => {
-    await buildPage();
-    served = await servePage();
+    served = await servePage(await buildPage());
   });
 
   afterAll(async () => {

@@ -67,8 +67,7 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
   const basin = burst.basin;
 
   beforeAll(async () => {
-    await buildPage();
-    served = await servePage();
+    served = await servePage(await buildPage());
     browser = await launch();
     page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     page.on('pageerror', (e) => pageErrors.push(e.message));

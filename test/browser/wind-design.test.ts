@@ -9,10 +9,8 @@ import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { build } from 'vite';
-import { spawn, type ChildProcess } from 'node:child_process';
 import type { Browser, Page } from 'playwright-core';
-import { ARTIFACTS, chromiumMissing, isNoise, launch, ROOT } from './harness.ts';
+import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
 import { Engine } from '../../worker/engine.ts';
 import type { Frame } from '../../worker/protocol.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
@@ -23,36 +21,8 @@ import { fakeHost } from '../engine/helpers.ts';
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);
 
-// Our own build and server directory, so other browser tests building the page at the same time
-// cannot pull the files from under this one.
-const OUT = mkdtempSync(join(tmpdir(), 'pycno-wind-page-'));
 const BIN = join(ROOT, 'bin/pycno.js');
 const basin = { lonWest: 0, lonEast: 140, latSouth: -25, latNorth: 25 }; // configs/westerly-burst.json, the page's default
-
-async function serve(): Promise<{ url: string; stop(): Promise<void> }> {
-  await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'warn', build: { outDir: OUT, emptyOutDir: true } });
-  const port = 20000 + Math.floor(Math.random() * 20000);
-  const child: ChildProcess = spawn(join(ROOT, 'node_modules/.bin/vite'), ['preview', '--outDir', OUT, '--host', '127.0.0.1', '--port', String(port), '--strictPort'], { cwd: ROOT, stdio: 'ignore' });
-  const url = `http://127.0.0.1:${port}/`;
-  const stop = async () => {
-    if (child.exitCode !== null) return;
-    child.kill('SIGTERM');
-    await new Promise((r) => child.once('exit', r));
-  };
-  for (let n = 0; ; n++) {
-    try {
-      if ((await fetch(url)).ok) break;
-    } catch {
-      /* not up yet */
-    }
-    if (child.exitCode !== null || n > 300) {
-      await stop();
-      throw new Error(`vite preview did not start on ${url}`);
-    }
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  return { url, stop };
-}
 
 /** CSS pixel of a lon/lat on the map (the tool canvas lies exactly over it). */
 async function mapPoint(page: Page, lon: number, lat: number) {
@@ -98,7 +68,7 @@ async function drag(page: Page, from: [number, number], to: [number, number]) {
 }
 
 describe.skipIf(missing !== null)('designing the wind in the page', () => {
-  let served: { url: string; stop(): Promise<void> };
+  let served: Served;
   let browser: Browser;
   let page: Page;
   const errors: string[] = [];
@@ -107,7 +77,7 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
   let pageRun: { day: number; step: number; checksum: string } | null = null;
 
   beforeAll(async () => {
-    served = await serve();
+    served = await servePage(await buildPage());
     browser = await launch();
     page = await browser.newPage({ viewport: { width: 1280, height: 1000 }, acceptDownloads: true });
     page.on('pageerror', (e) => errors.push(e.message));
