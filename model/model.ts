@@ -15,6 +15,8 @@ import { calm, type WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
 import { checkInitial, initialState, type InitialSpec } from './initial.ts';
 import { State } from './state.ts';
+import { StripTeam, type StripHost, type TeamOptions } from './parallel/team.ts';
+import { checkThreadsOption, chooseThreads, type ThreadChoice, type ThreadsOption } from './parallel/threads.ts';
 
 /** Flow faster than this is not an ocean any more (a blow-up), m s-1. */
 export const RUNAWAY_SPEED = 20;
@@ -33,6 +35,13 @@ export interface ModelOptions {
    * else ts). Ignored in the nonlinear mode.
    */
   kernel?: LinearKernelName | 'auto';
+  /**
+   * Threads for the linear step, split into latitude strips (model/parallel/): a count, or 'auto'
+   * (one per core where each strip keeps at least 40,000 cells; see chooseThreads). Default 1.
+   * Takes effect when the host calls startThreads(); the results are the same bits either way.
+   * The nonlinear scheme always runs on one thread.
+   */
+  threads?: ThreadsOption;
 }
 
 export type LinearKernelName = 'ts' | 'wasm';
@@ -51,11 +60,14 @@ export class Model {
   /** f at cell-centre rows, s-1. */
   readonly fCentre: Float64Array;
   private readonly wind: WindStress;
-  private readonly accelX: Float64Array;
-  private readonly accelY: Float64Array;
+  private accelX: Float64Array;
+  private accelY: Float64Array;
   private readonly linear: LinearWork | null;
   private readonly nonlinear: NonlinearWork | null;
-  private readonly wasm: WasmLinear | null = null;
+  private wasm: WasmLinear | null = null;
+  /** The threads option as given; the strip team once startThreads() has started it. */
+  readonly threadsAsked: ThreadsOption;
+  private team: StripTeam | null = null;
   private windFilledFor = NaN;
 
   constructor(config: ModelConfig, options: ModelOptions = {}) {
@@ -95,6 +107,7 @@ export class Model {
     this.taux = this.grid.field();
     this.tauy = this.grid.field();
     const kernel = options.kernel ?? 'auto';
+    this.threadsAsked = checkThreadsOption(options.threads ?? 1);
     if (p.mode === 'linear' && (kernel === 'wasm' || (kernel === 'auto' && wasmAvailable()))) {
       this.wasm = new WasmLinear(this.grid, this.coefficients, p.friction, p.viscosity);
       this.wasm.adopt(this.state);
@@ -115,6 +128,10 @@ export class Model {
 
   /** Take n steps; throws BlowUpError (with day, place and hint) if the solution goes bad. */
   advance(n: number): void {
+    if (this.team) {
+      this.advanceStrips(n, this.team);
+      return;
+    }
     for (let s = 0; s < n; s++) {
       this.updateWind();
       if (this.wasm) {
@@ -126,6 +143,52 @@ export class Model {
       }
       if (this.state.steps % HEALTH_EVERY === 0) this.checkHealth();
     }
+  }
+
+  private advanceStrips(n: number, team: StripTeam): void {
+    try {
+      for (let s = 0; s < n; s++) {
+        this.updateWind();
+        team.step(this.state, this.physics.friction, this.physics.viscosity);
+        if (this.state.steps % HEALTH_EVERY === 0) {
+          team.sync();
+          this.checkHealth();
+        }
+      }
+    } finally {
+      team.sync();
+    }
+  }
+
+  /**
+   * Start the strip workers the threads option asks for (none for 1, or for the nonlinear
+   * scheme). Asynchronous: spawning must not block the thread. Until it resolves, advance() runs
+   * on this thread, with the same results. The choice says how many threads run and why.
+   */
+  async startThreads(host: StripHost, options: TeamOptions = {}): Promise<ThreadChoice> {
+    if (this.team) return { threads: this.team.size, notice: null };
+    const choice = chooseThreads(this.threadsAsked, this.grid, this.physics.mode, host.cores);
+    if (choice.threads < 2) return choice;
+    const team = await StripTeam.start(this.grid, this.coefficients, choice.threads, host.spawn, options);
+    // The strips run the TypeScript rows on the shared buffers; the WebAssembly memory is left.
+    team.adopt(this.state, this.accelX, this.accelY);
+    this.accelX = team.fields.accelX;
+    this.accelY = team.fields.accelY;
+    this.wasm = null;
+    this.team = team;
+    return choice;
+  }
+
+  /** Threads stepping this run (1 without a strip team). */
+  get threads(): number {
+    return this.team?.size ?? 1;
+  }
+
+  /** Stop the strip workers, if any; the model goes on (on one thread) with the same state. */
+  async close(): Promise<void> {
+    const team = this.team;
+    this.team = null;
+    if (team) await team.close();
   }
 
   /** Steps needed to reach a model time (s) from the current one. */
@@ -149,7 +212,7 @@ export class Model {
 
   /** The implementation of the step in use. */
   get kernel(): LinearKernelName | 'nonlinear' {
-    return this.wasm ? 'wasm' : this.linear ? 'ts' : 'nonlinear';
+    return this.wasm ? 'wasm' : this.linear ? 'ts' : 'nonlinear'; // strips run the 'ts' rows
   }
 
   /** Fill the stress for the current time when the wind asks for it. */

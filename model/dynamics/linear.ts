@@ -11,6 +11,13 @@ import type { Grid } from '../grid.ts';
 import type { State } from '../state.ts';
 import type { CoastTerms, StepCoefficients } from './coefficients.ts';
 
+/** What the row functions read of the grid and the coefficients (a strip worker holds only these). */
+export type RowGrid = Pick<Grid, 'nx' | 'ny' | 'W' | 'maskU' | 'maskV'>;
+export type RowCoefficients = Pick<
+  StepCoefficients,
+  'dt' | 'gpdx' | 'gpdy' | 'idx2' | 'idy2' | 'dtHdx' | 'dtHdy' | 'coriolisSouth' | 'coriolisNorth' | 'fV' | 'spongeH' | 'spongeV' | 'coastU' | 'coastV'
+>;
+
 export interface LinearWork {
   /** New-velocity buffers, swapped with the state's after each step. */
   uNew: Float64Array;
@@ -113,9 +120,9 @@ export function linearStepPlain(
  * result is bit-identical to the three separate row loops. Coast terms are applied as soon as
  * their face is computed (before the face is used), walking the sparse lists alongside.
  */
-function fusedRow(
-  grid: Grid,
-  c: StepCoefficients,
+export function fusedRow(
+  grid: RowGrid,
+  c: RowCoefficients,
   r: number,
   A: number,
   accelX: Float64Array,
@@ -219,9 +226,9 @@ function fusedRow(
 }
 
 /** u on the west faces of row j, with the old v. */
-function uRow(
-  grid: Grid,
-  c: StepCoefficients,
+export function uRow(
+  grid: RowGrid,
+  c: RowCoefficients,
   r: number,
   A: number,
   accelX: Float64Array,
@@ -248,9 +255,9 @@ function uRow(
 }
 
 /** v on the south faces of row j, with the new u. */
-function vRow(
-  grid: Grid,
-  c: StepCoefficients,
+export function vRow(
+  grid: RowGrid,
+  c: RowCoefficients,
   r: number,
   A: number,
   accelY: Float64Array,
@@ -276,7 +283,7 @@ function vRow(
 }
 
 /** h' of row j from the new velocities, times the row's sponge factor (1 outside the bands). */
-function hRow(grid: Grid, c: StepCoefficients, h: Float64Array, un: Float64Array, vn: Float64Array, j: number): void {
+export function hRow(grid: RowGrid, c: RowCoefficients, h: Float64Array, un: Float64Array, vn: Float64Array, j: number): void {
   const { nx, W } = grid;
   const { dtHdx, dtHdy } = c;
   const s = c.spongeH[j];
@@ -289,7 +296,7 @@ function hRow(grid: Grid, c: StepCoefficients, h: Float64Array, un: Float64Array
 }
 
 /** v sponge of row j, after continuity so that continuity saw the unrelaxed flux. */
-function spongeRow(grid: Grid, c: StepCoefficients, vn: Float64Array, j: number): void {
+export function spongeRow(grid: RowGrid, c: RowCoefficients, vn: Float64Array, j: number): void {
   const s = c.spongeV[j];
   if (s === 1) return;
   const row = (j + 1) * grid.W + 1;

@@ -1,0 +1,232 @@
+// The strip decomposition of the linear step must give the bits of the one-thread step: the same
+// arithmetic per cell, only the order of rows across threads differs. Basins with land (coasts,
+// free and no slip), sponge bands (also across strip edges), a wind that changes in time,
+// friction and viscosity. The worker threads are real (worker_threads) and terminated after.
+
+import { afterEach, describe, expect, it } from 'vitest';
+import type { ModelConfig } from '../../model/config.ts';
+import { linearStepPlain, linearWork } from '../../model/dynamics/linear.ts';
+import { InputError } from '../../model/errors.ts';
+import type { WindStress } from '../../model/forcing/stress.ts';
+import { Grid } from '../../model/grid.ts';
+import { Model } from '../../model/model.ts';
+import { linearStepStrips, stripBounds } from '../../model/parallel/strip-schedule.ts';
+import type { StripHost } from '../../model/parallel/team.ts';
+import { chooseThreads } from '../../model/parallel/threads.ts';
+import { referenceConfig } from '../../model/reference-kernel.ts';
+import { nodeStripHost } from '../../worker/strips-node.ts';
+
+function sameBits(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  const x = new BigUint64Array(a.buffer, a.byteOffset, a.length);
+  const y = new BigUint64Array(b.buffer, b.byteOffset, b.length);
+  for (let k = 0; k < x.length; k++) if (x[k] !== y[k]) return false;
+  return true;
+}
+
+/** A basin of nx x ny cells with the reference's island and block, sponge bands of spongeRows. */
+function basin(nx: number, ny: number, slip: 'free' | 'no', spongeRows: number): ModelConfig {
+  const cfg = referenceConfig(nx, ny);
+  cfg.basin.land = [...cfg.basin.land, { kind: 'rectangle', lonWest: 100, lonEast: 120, latSouth: -4, latNorth: 12 }];
+  cfg.physics = { ...cfg.physics, slip, sponge: { widthDeg: spongeRows * cfg.basin.dLat, rateAtWall: 1 / (2 * 86400) } };
+  cfg.time = { dt: null, safety: 0.9 };
+  return cfg;
+}
+
+/** A wind that changes every third step: a drifting zonal jet and a meridional wobble. */
+function changingWind(grid: Grid, dt: number): WindStress {
+  return {
+    steady: false,
+    updateSeconds: 3 * dt,
+    fill(t, taux, tauy) {
+      const phase = t / (2 * 86400);
+      taux.fill(0);
+      tauy.fill(0);
+      for (let j = 0; j < grid.ny; j++) {
+        for (let i = 0; i <= grid.nx; i++) {
+          taux[grid.idx(i, j)] = -0.06 * Math.cos((Math.PI * (j + 0.5)) / grid.ny - 0.5 * Math.PI + 0.3 * Math.sin(phase)) * (1 + 0.2 * Math.sin((6 * i) / grid.nx + phase));
+        }
+      }
+      for (let j = 0; j <= grid.ny; j++) {
+        for (let i = 0; i < grid.nx; i++) tauy[grid.idx(i, j)] = 0.02 * Math.sin((Math.PI * j) / grid.ny + phase) * Math.cos((3 * i) / grid.nx);
+      }
+    },
+  };
+}
+
+function model(cfg: ModelConfig, threads: number | 'auto' = 1): Model {
+  const grid = new Grid(cfg.basin, cfg.physics.earthRadius);
+  const probe = new Model(cfg, { kernel: 'ts' });
+  return new Model(cfg, { kernel: 'ts', wind: changingWind(grid, probe.dt), threads });
+}
+
+/** The Node host, recording every worker it starts and the exit code each one ends with. */
+function countingHost(): { host: StripHost; started: () => number; exits: Array<Promise<unknown>> } {
+  const base = nodeStripHost();
+  const exits: Array<Promise<unknown>> = [];
+  let started = 0;
+  return {
+    exits,
+    started: () => started,
+    host: {
+      cores: 2,
+      spawn() {
+        started++;
+        const port = base.spawn();
+        return {
+          ...port,
+          terminate() {
+            const p = Promise.resolve(port.terminate());
+            exits.push(p);
+            return p;
+          },
+        };
+      },
+    },
+  };
+}
+
+const open: Model[] = [];
+afterEach(async () => {
+  await Promise.all(open.splice(0).map((m) => m.close()));
+});
+
+describe('strip schedule on one thread', () => {
+  it('equals the plain row loops for every strip count of a small basin, sponges across strip edges', () => {
+    const cfg = basin(24, 9, 'no', 3);
+    const a = model(cfg);
+    a.advance(60);
+    const c = a.coefficients;
+    const p = a.physics;
+    for (let strips = 1; strips <= 9; strips++) {
+      const x = a.state.clone();
+      const y = a.state.clone();
+      const wx = linearWork(a.grid);
+      const ax = (a as unknown as { accelX: Float64Array }).accelX;
+      const ay = (a as unknown as { accelY: Float64Array }).accelY;
+      const bounds = stripBounds(a.grid.ny, strips);
+      const f = { accelX: ax, accelY: ay, u: y.u, v: y.v, h: y.h, un: a.grid.field(), vn: a.grid.field() };
+      for (let s = 0; s < 30; s++) {
+        linearStepPlain(a.grid, c, p.friction, p.viscosity, ax, ay, x, wx);
+        linearStepStrips(a.grid, c, p.friction, p.viscosity, f, bounds);
+        [f.u, f.un] = [f.un, f.u];
+        [f.v, f.vn] = [f.vn, f.v];
+      }
+      expect(sameBits(x.u, f.u), `u, ${strips} strips`).toBe(true);
+      expect(sameBits(x.v, f.v), `v, ${strips} strips`).toBe(true);
+      expect(sameBits(x.h, f.h), `h, ${strips} strips`).toBe(true);
+    }
+  });
+
+  it('cuts rows into contiguous strips covering the grid once', () => {
+    for (const [ny, n] of [[7, 7], [13, 3], [240, 2], [5, 4]]) {
+      const b = stripBounds(ny, n);
+      expect(b[0].j0).toBe(0);
+      expect(b[n - 1].j1).toBe(ny);
+      for (let s = 0; s < n; s++) {
+        expect(b[s].j1).toBeGreaterThan(b[s].j0);
+        if (s > 0) expect(b[s].j0).toBe(b[s - 1].j1);
+      }
+    }
+    expect(() => stripBounds(4, 5)).toThrow(RangeError);
+  });
+});
+
+describe('strip team on worker threads', () => {
+  const cases: Array<{ name: string; cfg: ModelConfig; threads: number; steps: number[] }> = [
+    { name: '64 x 48, 2 threads, free slip', cfg: basin(64, 48, 'free', 8), threads: 2, steps: [1, 49, 250] },
+    { name: '40 x 7, one row per strip, sponge at strip edges', cfg: basin(40, 7, 'no', 2), threads: 7, steps: [300] },
+    { name: '33 x 13 (odd rows), 3 threads, no slip', cfg: basin(33, 13, 'no', 3), threads: 3, steps: [7, 293] },
+    { name: '50 x 24, 4 threads, no slip', cfg: basin(50, 24, 'no', 4), threads: 4, steps: [120, 180] },
+  ];
+  for (const { name, cfg, threads, steps } of cases) {
+    it(`gives the one-thread bits for u, v and h (${name})`, async () => {
+      const one = model(cfg);
+      const many = model(cfg, threads);
+      open.push(many);
+      const counter = countingHost();
+      const choice = await many.startThreads(counter.host);
+      expect(choice.threads).toBe(threads);
+      expect(many.threads).toBe(threads);
+      expect(counter.started()).toBe(threads - 1);
+      for (const n of steps) {
+        one.advance(n);
+        many.advance(n);
+        expect(many.state.steps).toBe(one.state.steps);
+        expect(many.state.time).toBe(one.state.time);
+        expect(sameBits(many.state.u, one.state.u), 'u').toBe(true);
+        expect(sameBits(many.state.v, one.state.v), 'v').toBe(true);
+        expect(sameBits(many.state.h, one.state.h), 'h').toBe(true);
+      }
+      // the run did something: a flow, and thickness anomalies of both signs
+      expect(Math.max(...one.state.h)).toBeGreaterThan(0);
+      expect(Math.min(...one.state.h)).toBeLessThan(0);
+      await many.close();
+      const codes = await Promise.all(counter.exits);
+      expect(codes).toHaveLength(threads - 1);
+      for (const code of codes) expect(typeof code).toBe('number');
+      expect(many.threads).toBe(1);
+    });
+  }
+
+  it('matches the WebAssembly one-thread run as well, and steps on one thread while the workers start', async () => {
+    const cfg = basin(64, 30, 'free', 5);
+    const grid = new Grid(cfg.basin, cfg.physics.earthRadius);
+    const dt = new Model(cfg).dt;
+    const wasm = new Model(cfg, { kernel: 'wasm', wind: changingWind(grid, dt) });
+    const many = new Model(cfg, { kernel: 'wasm', wind: changingWind(grid, dt), threads: 2 });
+    open.push(many);
+    const starting = many.startThreads(countingHost().host);
+    many.advance(20); // before the team is ready: the model's own kernel
+    await starting;
+    expect(many.threads).toBe(2);
+    many.advance(180);
+    wasm.advance(200);
+    expect(sameBits(many.state.h, wasm.state.h)).toBe(true);
+    expect(sameBits(many.state.u, wasm.state.u)).toBe(true);
+    expect(sameBits(many.state.v, wasm.state.v)).toBe(true);
+  });
+
+  it('clamps more threads than rows, with a message, and still gives the same bits', async () => {
+    const cfg = basin(20, 5, 'no', 1);
+    const one = model(cfg);
+    const many = model(cfg, 9);
+    open.push(many);
+    const counter = countingHost();
+    const choice = await many.startThreads(counter.host);
+    expect(choice.threads).toBe(5);
+    expect(choice.notice).toMatch(/threads 9 clamped to 5: the grid has 5 rows/);
+    one.advance(200);
+    many.advance(200);
+    expect(sameBits(many.state.h, one.state.h)).toBe(true);
+    expect(sameBits(many.state.v, one.state.v)).toBe(true);
+  });
+
+  it('keeps the nonlinear scheme on one thread and says so, starting no worker', async () => {
+    const cfg = basin(32, 16, 'free', 2);
+    cfg.physics = { ...cfg.physics, mode: 'nonlinear' };
+    const m = new Model(cfg, { threads: 2 });
+    const counter = countingHost();
+    const choice = await m.startThreads(counter.host);
+    expect(choice.threads).toBe(1);
+    expect(choice.notice).toMatch(/nonlinear scheme runs on one thread/);
+    expect(counter.started()).toBe(0);
+    expect(m.threads).toBe(1);
+  });
+
+  it('refuses a thread count that is not a whole number from 1 to 64', () => {
+    const cfg = basin(20, 8, 'free', 1);
+    for (const bad of [0, -1, 1.5, 65, Number.NaN, 'two']) {
+      expect(() => new Model(cfg, { threads: bad as number })).toThrow(InputError);
+    }
+    expect(() => new Model(cfg, { threads: 0 })).toThrow(/threads: must be a whole number from 1 to 64/);
+  });
+
+  it("'auto' takes one thread per core while a strip keeps 40,000 cells", () => {
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2).threads).toBe(2);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 8).threads).toBe(3);
+    expect(chooseThreads('auto', { nx: 160, ny: 60 }, 'linear', 8).threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 'linear', 1).threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 'nonlinear', 8).threads).toBe(1);
+  });
+});
