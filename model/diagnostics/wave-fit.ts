@@ -3,8 +3,8 @@
 //
 // Two ways to find the signal at each time, both documented in docs/waves.md:
 //  - 'front': the leading edge, where the signal first reaches a threshold (a fraction of its
-//    largest amplitude over the diagram), searched from the side the wave travels towards and
-//    refined by linear interpolation between cells;
+//    largest amplitude, over the whole diagram or at each time), searched from the side the wave
+//    travels towards and refined by linear interpolation between cells;
 //  - 'peak': the position of the largest value (of the chosen sign), refined by a parabola.
 // The positions are then fitted with a straight line x = x0 + s t by least squares; the speed's
 // standard error comes from the scatter of the residuals (ordinary regression, common practice).
@@ -26,6 +26,16 @@ export interface FrontOptions {
   sign?: 1 | -1;
   /** Front method: fraction of the largest amplitude that defines the front (default 0.5). */
   threshold?: number;
+  /**
+   * Front method: whose largest amplitude the threshold is a fraction of. 'diagram' (default):
+   * one level for all times, right for a wave that keeps its amplitude. 'each-time': the level
+   * follows the row's own largest value, so the front of a wave that decays as it goes (friction)
+   * keeps its place on the pulse instead of falling behind it; rows whose largest value is below
+   * `floor` of the diagram's are skipped (there the level would follow noise).
+   */
+  levelFrom?: 'diagram' | 'each-time';
+  /** With levelFrom 'each-time': the smallest row amplitude used, as a fraction of the diagram's (default 0.1). */
+  floor?: number;
   /** Only these days and longitudes take part (e.g. before the wave reaches a coast). */
   dayRange?: [number, number];
   lonRange?: [number, number];
@@ -66,7 +76,8 @@ export function fitSpeed(h: HovmollerData, o: FrontOptions): SpeedFit {
     if (x > amplitude) amplitude = x;
   }
   if (!(amplitude > 0)) throw new WaveFitError(`no ${sign > 0 ? 'positive' : 'negative'} signal in the diagram`);
-  const level = (o.threshold ?? 0.5) * amplitude;
+  const fraction = o.threshold ?? 0.5;
+  const floor = (o.floor ?? 0.1) * amplitude;
 
   const points: Array<[number, number]> = [];
   for (const n of times) {
@@ -75,6 +86,13 @@ export function fitSpeed(h: HovmollerData, o: FrontOptions): SpeedFit {
       const x = sign * row[i];
       return Number.isNaN(x) ? -Infinity : x;
     };
+    let level = fraction * amplitude;
+    if (o.levelFrom === 'each-time') {
+      let rowMax = -Infinity;
+      for (const i of cols) rowMax = Math.max(rowMax, value(i));
+      if (!(rowMax >= floor)) continue;
+      level = fraction * rowMax;
+    }
     let at: number | null = null;
     if (o.method === 'front') {
       // Search from the side the wave is heading to: the first column at or above the level.

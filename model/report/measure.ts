@@ -4,7 +4,7 @@
 // Used by the run report and by `pycno compare`. docs/library.md says how the ranges are chosen.
 
 import { EARTH } from '../config.ts';
-import { fitSpeed, regress, arrivalDay, WaveFitError, type SpeedFit } from '../diagnostics/wave-fit.ts';
+import { fitSpeed, regress, arrivalDay, WaveFitError, type FrontOptions, type SpeedFit } from '../diagnostics/wave-fit.ts';
 import { hovmollerData, type RunData } from '../io/run-read.ts';
 
 export const METRES_PER_DEGREE = (EARTH.radius * Math.PI) / 180;
@@ -84,7 +84,52 @@ function robust(fit: SpeedFit, cell: number, direction: 'east' | 'west'): { spee
   return { speed: (direction === 'east' ? 1 : -1) * slope * toMs, standardError: slopeError * toMs, points };
 }
 
-function measure(run: RunData, section: number, direction: 'east' | 'west', theory: number, dayFrom: number, forceSign?: 1 | -1): SpeedMeasure | NotMeasured {
+/**
+ * The second pass for a wave that keeps its shape: over its crossing only (from when it is free of
+ * the wind that makes it, to when the first line leaves the range), the level follows each time's
+ * own amplitude. Friction shrinks the wave as
+ * it goes, and a fixed level slides back along its flank and reads the speed low; past the
+ * crossing a per-time level would follow the weaker reflected and forced signals instead.
+ */
+function refitCrossing(
+  h: ReturnType<typeof hovmollerData>,
+  base: Omit<FrontOptions, 'dayRange'>,
+  first: ReturnType<typeof robust>,
+  dayRange: [number, number],
+  cell: number,
+): ReturnType<typeof robust> | null {
+  const { slope, intercept } = regress(first.points);
+  const exit = ((base.direction === 'east' ? base.lonRange![1] : base.lonRange![0]) - intercept) / slope;
+  // The wave is free once its amplitude is near its largest (while the wind still forces it, it
+  // grows and its front is still forming): the first time the row's peak reaches 90 % of the
+  // largest peak within the crossing.
+  const end = Number.isFinite(exit) ? exit : dayRange[1];
+  const peaks: Array<[number, number]> = [];
+  for (let n = 0; n < h.days.length; n++) {
+    const d = h.days[n];
+    if (d < first.points[0][0] || d > end) continue;
+    let p = 0;
+    for (let i = 0; i < h.lon.length; i++) if (h.lon[i] >= base.lonRange![0] && h.lon[i] <= base.lonRange![1]) p = Math.max(p, (base.sign ?? 1) * h.rows[n][i] || 0);
+    peaks.push([d, p]);
+  }
+  const largest = Math.max(0, ...peaks.map((q) => q[1]));
+  const start = peaks.find((q) => q[1] >= 0.9 * largest)?.[0] ?? first.points[0][0];
+  const crossing: [number, number] = [start, Number.isFinite(exit) && exit > start ? Math.min(dayRange[1], exit) : dayRange[1]];
+  try {
+    const second = robust(fitSpeed(h, { ...base, dayRange: crossing, levelFrom: 'each-time' }), cell, base.direction);
+    return second.points.length >= 4 ? second : null;
+  } catch (e) {
+    if (e instanceof WaveFitError) return null;
+    throw e;
+  }
+}
+
+/**
+ * levelFrom 'each-time' refits the crossing with the level following each time's amplitude: right
+ * for the Kelvin wave, which keeps its shape while friction shrinks it. A Rossby packet disperses
+ * (its long waves run ahead), so there one level for the diagram is kept.
+ */
+function measure(run: RunData, section: number, direction: 'east' | 'west', theory: number, dayFrom: number, levelFrom: 'diagram' | 'each-time', forceSign?: 1 | -1): SpeedMeasure | NotMeasured {
   const h = hovmollerData(run, section);
   const span = oceanSpan(h.rows, h.lon);
   const lat = run.hovmoller[section].rowLat;
@@ -96,9 +141,11 @@ function measure(run: RunData, section: number, direction: 'east' | 'west', theo
   const dayRange: [number, number] = [dayFrom, run.days[run.days.length - 1]];
   const sign = forceSign ?? dominantSign(h.rows, h.lon, h.days, lonRange, dayRange);
   try {
-    const fit = fitSpeed(h, { direction, method: 'front', sign, lonRange, dayRange, metresPerDegree: METRES_PER_DEGREE });
-    const r = robust(fit, cell, direction);
-    if (r.points.length < 4) return { reason: `the front was found at only ${r.points.length} times at ${lat}°` };
+    // First one level for the whole diagram: it sees only the strong leading wave.
+    const base = { direction, method: 'front', sign, lonRange, metresPerDegree: METRES_PER_DEGREE } as const;
+    const first = robust(fitSpeed(h, { ...base, dayRange }), cell, direction);
+    if (first.points.length < 4) return { reason: `the front was found at only ${first.points.length} times at ${lat}°` };
+    const r = levelFrom === 'each-time' ? (refitCrossing(h, base, first, dayRange, cell) ?? first) : first;
     return { lat, direction, sign, speed: r.speed, standardError: r.standardError, theory, points: r.points, dayRange, lonRange };
   } catch (e) {
     if (e instanceof WaveFitError) return { reason: `${e.message} (section at ${lat}°)` };
@@ -111,7 +158,7 @@ export function measureWaves(run: RunData): WaveMeasures {
   const rossbyTheory = c / 3;
   const byLat = run.hovmoller.map((s, k) => ({ k, lat: Math.abs(s.rowLat) }));
   const eq = byLat.filter((s) => s.lat <= 1).sort((p, q) => p.lat - q.lat)[0];
-  const kelvin: SpeedMeasure | NotMeasured = eq ? measure(run, eq.k, 'east', c, run.days[0]) : { reason: 'the run has no Hovmoller section within 1° of the equator' };
+  const kelvin: SpeedMeasure | NotMeasured = eq ? measure(run, eq.k, 'east', c, run.days[0], 'each-time') : { reason: 'the run has no Hovmoller section within 1° of the equator' };
 
   // Long Rossby: off-equatorial sections (1° to 3 L from the equator), after the Kelvin wave has
   // crossed the measured range (before that, its own off-equatorial flank moves east there).
@@ -125,7 +172,7 @@ export function measureWaves(run: RunData): WaveMeasures {
   let rossby: SpeedMeasure | NotMeasured | null = null;
   if (off.length > 0) {
     // Both signs on every such section; the longest westward track wins (then the tighter fit).
-    const tries = off.flatMap((s) => [measure(run, s.k, 'west', rossbyTheory, from, 1), measure(run, s.k, 'west', rossbyTheory, from, -1)]);
+    const tries = off.flatMap((s) => [measure(run, s.k, 'west', rossbyTheory, from, 'diagram', 1), measure(run, s.k, 'west', rossbyTheory, from, 'diagram', -1)]);
     const good = tries.filter(isMeasured).filter((m) => m.speed > 0);
     good.sort((p, q) => q.points.length - p.points.length || p.standardError / p.speed - q.standardError / q.speed);
     rossby = good[0] ?? { reason: `no westward front on the section${off.length > 1 ? 's' : ''} at ${off.map((s) => `${run.hovmoller[s.k].rowLat}°`).join(', ')} after day ${Number(from.toPrecision(3))}` };

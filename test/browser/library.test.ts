@@ -198,9 +198,9 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     expect(await page.getAttribute('#cmp-map-a-gl', 'data-range')).toBe(await page.getAttribute('#cmp-map-b-gl', 'data-range'));
     expect(await page.getAttribute('#cmp-hov-diff', 'width')).toBe('300');
 
-    // Measured Kelvin speeds of both runs beside c = sqrt(g' H) = 2.74 m/s. The weakly damped run
-    // (A) keeps pace with c; in B (20-day friction) the front method reads the decaying wave late
-    // (about 2.5 m/s here), which the box shows as it is.
+    // Measured Kelvin speeds of both runs beside c = sqrt(g' H) = 2.74 m/s (Matsuno 1966). Both
+    // keep pace with c: friction shrinks B's wave (20-day friction) as it goes, and the front level
+    // follows each time's amplitude, so the damping does not slow the measured front.
     const c = Math.sqrt(0.05 * 150);
     for (const w of [st.waves.a[0], st.waves.b[0]]) {
       expect(w.wave).toBe('Kelvin');
@@ -209,7 +209,7 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
       expect(w.standardError).toBeGreaterThan(0);
     }
     expect(Math.abs(st.waves.a[0].speed! - c) / c).toBeLessThan(0.01);
-    expect(Math.abs(st.waves.b[0].speed! - c) / c).toBeLessThan(0.15);
+    expect(Math.abs(st.waves.b[0].speed! - c) / c).toBeLessThan(0.02);
     const waveText = await page.textContent('#cmp-waves');
     expect(waveText).toContain('c = 2.74 m/s');
     expect(waveText).toMatch(/Kelvin\s*2\.\d\d ± [\d.e-]+ m\/s east/);

@@ -49,6 +49,32 @@ describe('speed fit on synthetic fronts', () => {
     });
   }
 
+  it('front of a decaying pulse: the level taken at each time keeps the true speed', () => {
+    // A Gaussian pulse at 2.5 m/s whose amplitude halves every 7 days, as a wave under friction
+    // does. With one level for the whole diagram the front slides back along the shrinking flank
+    // and reads slow (then vanishes once the peak falls below the level); with the level taken at
+    // each time the front stays at the same place on the pulse (the shape is kept exactly here).
+    const lon = Float64Array.from({ length: 400 }, (_, i) => 100 + 0.25 * i);
+    const days = Float64Array.from({ length: 30 }, (_, n) => n);
+    const degPerDay = (2.5 * 86400) / M_PER_DEG;
+    const rows = Array.from(days, (d) => Float64Array.from(lon, (x) => 10 * 2 ** (-d / 7) * Math.exp(-(((x - 120 - degPerDay * d) / 4) ** 2))));
+    const opts = { direction: 'east', method: 'front', metresPerDegree: M_PER_DEG, dayRange: [1, 20] as [number, number] } as const;
+    const eachTime = fitSpeed({ lon, days, rows }, { ...opts, levelFrom: 'each-time' });
+    expect(eachTime.speed).toBeCloseTo(2.5, 3);
+    expect(eachTime.points.length).toBe(20);
+    const fixed = fitSpeed({ lon, days, rows }, { ...opts, levelFrom: 'diagram' });
+    expect(fixed.speed).toBeLessThan(0.9 * 2.5);
+  });
+
+  it('front with the level at each time skips rows below the floor (noise before the wave)', () => {
+    const lon = [0, 1, 2, 3, 4, 5];
+    const days = [0, 1, 2];
+    const rows = [[0.01, 0, 0.02, 0, 0, 0], [10, 8, 0, 0, 0, 0], [10, 10, 10, 8, 0, 0]];
+    const f = fitSpeed({ lon, days, rows }, { direction: 'east', method: 'front', levelFrom: 'each-time', metresPerDegree: M_PER_DEG });
+    expect(f.points.map((p) => p[0])).toEqual([1, 2]);
+    expect(f.points[0][1]).toBeCloseTo(1 + 3 / 8, 12); // level 5 between 8 at lon 1 and 0 at lon 2
+  });
+
   it('refuses a diagram without signal, and too few points', () => {
     const flat = { lon: [1, 2, 3, 4], days: [0, 1], rows: [[0, 0, 0, 0], [0, 0, 0, 0]] };
     expect(() => fitSpeed(flat, { direction: 'east', method: 'front', metresPerDegree: M_PER_DEG })).toThrow(WaveFitError);
