@@ -81,6 +81,8 @@ let map: MapView;
 try {
   map = new MapView($<HTMLCanvasElement>('map-gl'), $<HTMLCanvasElement>('map-overlay'), { forceBytes: new URLSearchParams(location.search).has('bytes') });
   info.floatTextures = map.gl.floatTextures;
+  // GPU uploads and WebGL draws, read by the page benchmark.
+  (info as unknown as { gpu: typeof map.counts }).gpu = map.counts;
 } catch (e) {
   if (e instanceof NoWebGLError) {
     showNoGo('This browser gives the page no WebGL', 'Pycno draws the ocean with WebGL. Turn on hardware acceleration (or WebGL) in the browser settings, or use another browser, then reload. Nothing was run.');
@@ -89,6 +91,8 @@ try {
 }
 
 const history = new FrameHistory(128e6);
+// What the time slider holds, read by the memory benchmark.
+(info as unknown as { kept: () => unknown }).kept = () => ({ frames: history.length, bytes: history.bytes, budget: history.budgetBytes, oldestDay: history.at(0)?.day ?? null });
 const hov = new HovmollerStore();
 const probes = new ProbeStore();
 let engine: EngineClient;
@@ -224,6 +228,7 @@ function startRun(r: LoadedScenario): void {
   layerThickness = sc.physics?.layerThickness ?? 150;
   probePanel.layerThickness = layerThickness;
   history.clear();
+  forgetDrawn();
   hov.reset(r.hovmollerLats);
   probes.reset(r.fields, r.probes);
   viewIndex = null;
@@ -316,14 +321,44 @@ function shownFrame(): KeptFrame | null {
   return history.latest();
 }
 
+// What was drawn last, so a redraw without new data repeats no work: the display field is
+// filled (and its range scanned) once per shown frame, the colour bar, read-out, Hovmoller diagram
+// and texts are touched only when what they show changed.
+let displayFrom: { frame: KeptFrame; key: DisplayKey } | null = null;
+let displayOk = false;
+let barKey = '';
+let readoutKey = '';
+let readoutFrame: KeptFrame | null = null;
+let hovShown = { rows: -1, rest: '' };
+let lastHovDraw = 0;
+let hovTimer: ReturnType<typeof setTimeout> | null = null;
+
+function setText(id: string, text: string): void {
+  const el = $(id);
+  if (el.textContent !== text) el.textContent = text;
+}
+
+function forgetDrawn(): void {
+  displayFrom = null;
+  barKey = '';
+  readoutKey = '';
+  readoutFrame = null;
+  hovShown = { rows: -1, rest: '' };
+}
+
 function draw(): void {
   const f = shownFrame();
   if (!run || !f) return;
   const g = run.grid;
-  if (display.length !== g.nx * g.ny) display = new Float32Array(g.nx * g.ny);
   const df = displayField(fieldKey);
-  if (!fillDisplay(fieldKey, f.fields, layerThickness, display)) return;
-  const range = currentRange(df.kind);
+  const fresh = displayFrom === null || displayFrom.frame !== f || displayFrom.key !== fieldKey || display.length !== g.nx * g.ny;
+  if (fresh) {
+    if (display.length !== g.nx * g.ny) display = new Float32Array(g.nx * g.ny);
+    displayOk = fillDisplay(fieldKey, f.fields, layerThickness, display);
+    displayFrom = { frame: f, key: fieldKey };
+  }
+  if (!displayOk) return;
+  const range = currentRange(df.kind, fresh);
   const layers: VectorLayer[] = [];
   if ($<HTMLInputElement>('show-currents').checked && f.fields.u_surf && f.fields.v_surf) {
     layers.push({ name: 'surface current', u: f.fields.u_surf, v: f.fields.v_surf, units: 'm/s', colour: [20, 20, 20] });
@@ -331,21 +366,30 @@ function draw(): void {
   if ($<HTMLInputElement>('show-wind').checked && f.fields.taux && f.fields.tauy) {
     layers.push({ name: 'wind stress', u: f.fields.taux, v: f.fields.tauy, units: 'N m-2', colour: [120, 30, 160] });
   }
-  map.forgetArrows();
   map.gl.setColourMap(mapFor(fieldKey), lookupTable(mapFor(fieldKey)));
   // While the wind preview is on, the map shows the designed forcing instead of the run's field.
   if (!windPanel.drawOnMap()) {
-    map.draw(display, range, layers, probes.probes, cursor);
-    drawColourBar($<HTMLCanvasElement>('colour-bar'), lookupTable(mapFor(fieldKey)), range, df.label, df.units);
-  }
+    map.draw(display, range, layers, probes.probes, cursor, { frame: f, field: fieldKey });
+    const bar = `${fieldKey}|${range.min}|${range.max}`;
+    if (bar !== barKey) {
+      drawColourBar($<HTMLCanvasElement>('colour-bar'), lookupTable(mapFor(fieldKey)), range, df.label, df.units);
+      barKey = bar;
+    }
+  } else barKey = ''; // the preview drew its own colour bar
   windPanel.setModelDay(f.day);
-  info.framesDrawn++;
+  if (fresh) info.framesDrawn++;
   info.shownDay = f.day;
-  $('map-day').textContent = `day ${f.day.toFixed(1)}${viewIndex !== null ? ' (looking back)' : ''}`;
+  setText('map-day', `day ${f.day.toFixed(1)}${viewIndex !== null ? ' (looking back)' : ''}`);
   updateSlider(f);
-  showReadout(hover ?? cursor);
+  const cell = hover ?? cursor;
+  const rk = cell ? `${cell.i},${cell.j}|${fieldKey}` : '';
+  if (f !== readoutFrame || rk !== readoutKey) {
+    readoutFrame = f;
+    readoutKey = rk;
+    showReadout(cell);
+  }
   hovPanel.setMark(viewIndex !== null ? f.day : null);
-  hovPanel.draw();
+  drawHovmollerIfChanged();
   const now = performance.now();
   // The chart is the slowest panel to redraw; a few times a second is plenty to follow a run.
   if (now - lastProbeDraw > 250) {
@@ -359,33 +403,73 @@ function draw(): void {
       probePanel.draw();
     }, 260 - (now - lastProbeDraw));
   }
-  $('budget-note').textContent = history.describe();
+  setText('budget-note', budgetNote());
 }
 
-function currentRange(kind: 'diverging' | 'sequential'): Range {
+/** What the scrubbing budget buys, and when it has made the page let the oldest frames go. */
+function budgetNote(): string {
+  const first = history.at(0);
+  const full = history.length >= history.maxFrames;
+  if (run && first && full && first.day > (run.startDay ?? 0) + 1e-9) {
+    return `${history.describe()}; frames before day ${first.day.toFixed(1)} were let go to stay within it`;
+  }
+  return history.describe();
+}
+
+/**
+ * The Hovmoller diagram again only when it changed: a new row at most five times a second (it
+ * redraws every row), a new mark, latitude, size or start of the lines at once.
+ */
+function drawHovmollerIfChanged(): void {
+  const c = $<HTMLCanvasElement>('hovmoller');
+  const mark = viewIndex !== null ? info.shownDay : null;
+  const rest = `${mark}|${$<HTMLSelectElement>('hov-lat').value}|${c.width}x${c.height}|${hovPanel.start?.lon},${hovPanel.start?.day}`;
+  if (hovPanel.rows === hovShown.rows && rest === hovShown.rest) return;
+  const drawNow = () => {
+    if (hovTimer) clearTimeout(hovTimer);
+    hovTimer = null;
+    lastHovDraw = performance.now();
+    hovShown = { rows: hovPanel.rows, rest };
+    hovPanel.draw();
+  };
+  const now = performance.now();
+  if (rest !== hovShown.rest || now - lastHovDraw >= 200) drawNow();
+  else if (!hovTimer) hovTimer = setTimeout(drawNow, 210 - (now - lastHovDraw));
+}
+
+function currentRange(kind: 'diverging' | 'sequential', fresh: boolean): Range {
   const fixed = (document.querySelector<HTMLInputElement>('input[name="range-mode"]:checked')?.value ?? 'auto') === 'fixed';
   const lo = Number($<HTMLInputElement>('range-min').value);
   const hi = Number($<HTMLInputElement>('range-max').value);
   if (fixed) {
     const problem = checkFixedRange(lo, hi);
-    $('range-msg').textContent = problem ?? '';
+    setText('range-msg', problem ?? '');
     if (!problem) return { min: lo, max: hi };
-  } else $('range-msg').textContent = '';
-  rangeState = steadyRange(rangeState, autoRange(display, kind), kind);
+  } else setText('range-msg', '');
+  // The automatic range scans the field: once per new frame or field, not per redraw.
+  if (fresh || !rangeState) rangeState = steadyRange(rangeState, autoRange(display, kind), kind);
   if (!fixed) {
-    $<HTMLInputElement>('range-min').value = formatValue(rangeState.min);
-    $<HTMLInputElement>('range-max').value = formatValue(rangeState.max);
+    setValue('range-min', formatValue(rangeState.min));
+    setValue('range-max', formatValue(rangeState.max));
   }
   return rangeState;
 }
 
+function setValue(id: string, value: string): void {
+  const el = $<HTMLInputElement>(id);
+  if (el.value !== value) el.value = value;
+}
+
 function updateSlider(f: KeptFrame): void {
   const s = $<HTMLInputElement>('time-slider');
-  s.max = String(Math.max(0, history.length - 1));
-  s.value = String(viewIndex ?? history.length - 1);
+  const max = String(Math.max(0, history.length - 1));
+  if (s.max !== max) s.max = max;
+  const value = String(viewIndex ?? history.length - 1);
+  if (s.value !== value) s.value = value;
   const first = history.at(0);
-  $('scrub-day').textContent = first ? `kept: day ${first.day.toFixed(1)} to ${history.latest()!.day.toFixed(1)}` : '';
-  s.setAttribute('aria-valuetext', `day ${f.day.toFixed(1)}`);
+  setText('scrub-day', first ? `kept: day ${first.day.toFixed(1)} to ${history.latest()!.day.toFixed(1)}` : '');
+  const vt = `day ${f.day.toFixed(1)}`;
+  if (s.getAttribute('aria-valuetext') !== vt) s.setAttribute('aria-valuetext', vt);
 }
 
 function showReadout(cell: { i: number; j: number } | null): void {

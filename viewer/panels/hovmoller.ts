@@ -2,7 +2,7 @@
 // day upward, growing as the run goes. A click places the start of the Kelvin and long Rossby
 // characteristic lines, so the user sees whether the signal keeps pace with c and c/3.
 
-import { colourAt, lookupTable } from '../render/colour-maps.ts';
+import { LAND_GREY, LUT_SIZE, lookupTable } from '../render/colour-maps.ts';
 import { drawAxes } from '../render/axes.ts';
 import { graticuleLines, graticuleStep, lonLabel } from '../render/geo.ts';
 import { characteristics } from '../state/characteristics.ts';
@@ -28,6 +28,7 @@ export class HovmollerPanel {
   private scale = 0;
   private image: ImageData | null = null;
   private markDay: number | null = null;
+  private tmp: HTMLCanvasElement | null = null;
 
   constructor(
     readonly canvas: HTMLCanvasElement,
@@ -110,18 +111,31 @@ export class HovmollerPanel {
     const nRows = Math.max(1, rows.length);
     if (!this.image || this.image.width !== e.nx || this.image.height !== nRows) this.image = new ImageData(e.nx, nRows);
     const img = this.image;
+    // The colours colourAt (render/colour-maps.ts) gives, written in place: this runs for every
+    // cell of every row on each redraw while the run goes, so it allocates nothing.
+    const data = img.data;
+    const top = LUT_SIZE - 1;
     rows.forEach((r, n) => {
-      const y = nRows - 1 - n;
-      for (let i = 0; i < e.nx; i++) {
+      let o = (nRows - 1 - n) * e.nx * 4;
+      for (let i = 0; i < e.nx; i++, o += 4) {
         const v = r.values[i];
-        const [cr, cg, cb] = colourAt(lut, v === v ? 0.5 + 0.5 * (v / s) : NaN);
-        img.data.set([cr, cg, cb, 255], (y * e.nx + i) * 4);
+        if (v === v) {
+          const l = Math.max(0, Math.min(top, Math.round((0.5 + 0.5 * (v / s)) * top))) * 4;
+          data[o] = lut[l];
+          data[o + 1] = lut[l + 1];
+          data[o + 2] = lut[l + 2];
+        } else {
+          data[o] = LAND_GREY[0];
+          data[o + 1] = LAND_GREY[1];
+          data[o + 2] = LAND_GREY[2];
+        }
+        data[o + 3] = 255;
       }
     });
     if (rows.length) {
-      const tmp = document.createElement('canvas');
-      tmp.width = img.width;
-      tmp.height = img.height;
+      const tmp = (this.tmp ??= document.createElement('canvas'));
+      if (tmp.width !== img.width) tmp.width = img.width;
+      if (tmp.height !== img.height) tmp.height = img.height;
       tmp.getContext('2d')!.putImageData(img, 0, 0);
       const firstDay = rows[0].day;
       const lastDay = rows[rows.length - 1].day;

@@ -1,6 +1,8 @@
 // The basin map in WebGL (regl): a field as a float texture read through a 256-entry colour
-// lookup texture, land in neutral grey from the ocean mask, and arrows drawn as instanced line
-// segments. Only drawing happens here; the values come from the frames as they are.
+// lookup texture, land in neutral grey (marked in the field texture from the ocean mask), and
+// arrows drawn as instanced line segments. Only drawing happens here; the values come from the
+// frames as they are. Uploads are separate from drawing, so a caller sends a field or arrows to
+// the GPU only when they changed; textures and buffers are allocated once per grid.
 
 import createREGL from 'regl';
 import type { Regl, Texture2D, Buffer } from 'regl';
@@ -33,23 +35,27 @@ const QUAD = [-1, -1, 1, -1, -1, 1, -1, 1, 1, -1, 1, 1];
 // Shaft and two barbs of a unit arrow along +x: (along, across) pairs, drawn as lines.
 const ARROW = [0, 0, 1, 0, 1, 0, 0.72, 0.22, 1, 0, 0.72, -0.22];
 
+/** Float-texture value that marks land; the fields' own values never come near it. */
+const LAND = -1e30;
+
 export class MapRenderer {
   readonly regl: Regl;
   readonly floatTextures: boolean;
   private fieldTex: Texture2D;
-  private maskTex: Texture2D;
   private lutTex: Texture2D;
-  private scratch = new Float32Array(0);
-  private bytes = new Uint8Array(0);
+  /** The texels of the field, land folded in, reused for every upload. */
+  private texels: Float32Array | Uint8Array = new Float32Array(0);
+  private ocean = new Uint8Array(0);
   private nx = 1;
   private ny = 1;
   private drawField: (props: { viewport: Viewport; range: [number, number] }) => void;
   private drawArrows: (props: { viewport: Viewport; count: number; pxToClip: [number, number]; pxPerUnit: number; colour: [number, number, number]; at: Buffer; vec: Buffer }) => void;
-  private atBuf: Buffer;
-  private vecBuf: Buffer;
-  private atBuf2: Buffer;
-  private vecBuf2: Buffer;
+  /** One pair of instance buffers per arrow layer (at most two), grown only when too small. */
+  private arrowBufs: Array<{ at: Buffer; vec: Buffer; floats: number }> = [];
   private lutName = '';
+  /** Bumped on every new colour map, so a caller knows the picture must be drawn again. */
+  lutVersion = 0;
+  private readonly instanced: boolean;
 
   constructor(readonly canvas: HTMLCanvasElement, options: { forceBytes?: boolean } = {}) {
     let regl: Regl;
@@ -65,15 +71,22 @@ export class MapRenderer {
     }
     this.regl = regl;
     this.floatTextures = !options.forceBytes && regl.hasExtension('OES_texture_float');
-    const instanced = regl.hasExtension('ANGLE_instanced_arrays');
+    this.instanced = regl.hasExtension('ANGLE_instanced_arrays');
     this.fieldTex = regl.texture({ width: 1, height: 1, format: 'luminance', type: this.floatTextures ? 'float' : 'uint8' });
-    this.maskTex = regl.texture({ width: 1, height: 1, format: 'luminance', data: new Uint8Array([255]) });
     this.lutTex = regl.texture({ width: LUT_SIZE, height: 1, data: new Uint8Array(LUT_SIZE * 4), min: 'linear', mag: 'linear' });
-    this.atBuf = regl.buffer({ usage: 'dynamic', type: 'float', length: 4 });
-    this.vecBuf = regl.buffer({ usage: 'dynamic', type: 'float', length: 4 });
-    this.atBuf2 = regl.buffer({ usage: 'dynamic', type: 'float', length: 4 });
-    this.vecBuf2 = regl.buffer({ usage: 'dynamic', type: 'float', length: 4 });
+    for (let n = 0; n < 2; n++) {
+      this.arrowBufs.push({ at: regl.buffer({ usage: 'dynamic', type: 'float', length: 4 }), vec: regl.buffer({ usage: 'dynamic', type: 'float', length: 4 }), floats: 1 });
+    }
 
+    // Land travels in the field texture itself (a sentinel), so a pixel costs two texture reads,
+    // not three: SwiftShader (no GPU) shades every pixel on the CPU.
+    const decode = this.floatTextures
+      ? `float v = texture2D(field, uv).r;
+          if (v < -0.5e30) { gl_FragColor = vec4(land, 1.0); return; }
+          float t = clamp((v - range.x) / (range.y - range.x), 0.0, 1.0);`
+      : `float b = texture2D(field, uv).r * 255.0;
+          if (b < 0.5) { gl_FragColor = vec4(land, 1.0); return; }
+          float t = (b - 1.0) / 254.0;`;
     this.drawField = regl({
       vert: `
         precision highp float;
@@ -83,21 +96,17 @@ export class MapRenderer {
       frag: `
         precision highp float;
         uniform sampler2D field;
-        uniform sampler2D mask;
         uniform sampler2D lut;
         uniform vec2 range;
         uniform vec3 land;
         varying vec2 uv;
         void main() {
-          if (texture2D(mask, uv).r < 0.5) { gl_FragColor = vec4(land, 1.0); return; }
-          float v = texture2D(field, uv).r;
-          float t = clamp((v - range.x) / (range.y - range.x), 0.0, 1.0);
+          ${decode}
           gl_FragColor = texture2D(lut, vec2((t * ${LUT_SIZE - 1}.0 + 0.5) / ${LUT_SIZE}.0, 0.5));
         }`,
       attributes: { position: QUAD },
       uniforms: {
         field: () => this.fieldTex,
-        mask: () => this.maskTex,
         lut: () => this.lutTex,
         range: regl.prop<{ range: [number, number] }, 'range'>('range'),
         land: LAND_GREY.map((c) => c / 255),
@@ -140,7 +149,7 @@ export class MapRenderer {
       viewport: regl.prop<{ viewport: Viewport }, 'viewport'>('viewport'),
       depth: { enable: false },
     }) as never;
-    if (!instanced) {
+    if (!this.instanced) {
       // Without instancing there are no arrows; the map itself still works.
       this.drawArrows = () => undefined;
     }
@@ -149,62 +158,82 @@ export class MapRenderer {
   setGrid(nx: number, ny: number, ocean: Uint8Array): void {
     this.nx = nx;
     this.ny = ny;
-    const m = new Uint8Array(nx * ny);
-    for (let k = 0; k < m.length; k++) m[k] = ocean[k] ? 255 : 0;
-    this.maskTex({ width: nx, height: ny, format: 'luminance', data: m, min: 'nearest', mag: 'nearest' });
-    this.scratch = new Float32Array(nx * ny);
-    this.bytes = new Uint8Array(nx * ny);
+    this.ocean = ocean.slice(0, nx * ny);
+    this.texels = this.floatTextures ? new Float32Array(nx * ny) : new Uint8Array(nx * ny);
+    // Storage once per grid; each new field then goes up with texSubImage2D.
+    this.fieldTex({ width: nx, height: ny, format: 'luminance', type: this.floatTextures ? 'float' : 'uint8', min: 'nearest', mag: 'nearest' });
   }
 
   setColourMap(name: string, lut: Uint8Array): void {
     if (name === this.lutName) return;
     this.lutName = name;
+    this.lutVersion++;
     this.lutTex({ width: LUT_SIZE, height: 1, data: lut, min: 'linear', mag: 'linear' });
   }
 
   /** Upload a field (NaN on land) and return the range the shader should use. */
   setField(values: Float32Array, range: { min: number; max: number }): [number, number] {
     const n = this.nx * this.ny;
+    const ocean = this.ocean;
     if (this.floatTextures) {
-      // NaN in a texture is undefined behaviour on some drivers: land is drawn from the mask anyway.
+      const t = this.texels as Float32Array;
+      // NaN in a texture is undefined behaviour on some drivers: land goes up as the sentinel.
       for (let k = 0; k < n; k++) {
         const v = values[k];
-        this.scratch[k] = v === v ? v : 0;
+        t[k] = ocean[k] ? (v === v ? v : 0) : LAND;
       }
-      this.fieldTex({ width: this.nx, height: this.ny, format: 'luminance', type: 'float', data: this.scratch, min: 'nearest', mag: 'nearest' });
+      this.fieldTex.subimage({ width: this.nx, height: this.ny, data: t });
       return [range.min, range.max];
     }
-    // Fallback for browsers without float textures: the position in the range, in 8 bits.
+    // Fallback for browsers without float textures: 0 is land, 1..255 the position in the range.
+    const t = this.texels as Uint8Array;
     const span = range.max - range.min;
     for (let k = 0; k < n; k++) {
-      const t = (values[k] - range.min) / span;
-      this.bytes[k] = t === t ? Math.round(255 * Math.min(1, Math.max(0, t))) : 0;
+      const p = (values[k] - range.min) / span;
+      t[k] = ocean[k] ? 1 + (p === p ? Math.round(254 * Math.min(1, Math.max(0, p))) : 0) : 0;
     }
-    this.fieldTex({ width: this.nx, height: this.ny, format: 'luminance', type: 'uint8', data: this.bytes, min: 'nearest', mag: 'nearest' });
+    this.fieldTex.subimage({ width: this.nx, height: this.ny, data: t });
     return [0, 1];
   }
 
+  /**
+   * Put arrow layer n (0 or 1) on the GPU. Called only when its vectors changed; the buffer is
+   * re-specified only when it has to grow.
+   */
+  setArrows(n: number, a: ArrowSet): void {
+    if (!this.instanced || n > 1) return;
+    const b = this.arrowBufs[n];
+    const floats = 2 * a.count;
+    if (floats === 0) return;
+    if (floats > b.floats) {
+      b.at({ usage: 'dynamic', type: 'float', data: a.at.subarray(0, floats) });
+      b.vec({ usage: 'dynamic', type: 'float', data: a.vec.subarray(0, floats) });
+      b.floats = floats;
+    } else {
+      b.at.subdata(a.at.subarray(0, floats));
+      b.vec.subdata(a.vec.subarray(0, floats));
+    }
+  }
+
+  /** Draw what was uploaded: the field, then the arrow layers set with setArrows. */
   draw(viewport: Viewport, range: [number, number], arrows: ArrowSet[]): void {
     const regl = this.regl;
     regl.poll();
     regl.clear({ color: [1, 1, 1, 1] });
     this.drawField({ viewport, range });
-    arrows.slice(0, 2).forEach((a, i) => {
-      if (a.count === 0) return;
-      const at = i === 0 ? this.atBuf : this.atBuf2;
-      const vec = i === 0 ? this.vecBuf : this.vecBuf2;
-      at({ usage: 'dynamic', type: 'float', data: a.at.subarray(0, 2 * a.count) });
-      vec({ usage: 'dynamic', type: 'float', data: a.vec.subarray(0, 2 * a.count) });
+    for (let i = 0; i < Math.min(2, arrows.length); i++) {
+      const a = arrows[i];
+      if (a.count === 0) continue;
       this.drawArrows({
         viewport,
         count: a.count,
         pxToClip: [2 / viewport.width, 2 / viewport.height],
         pxPerUnit: a.pxPerUnit,
-        colour: a.colour.map((c) => c / 255) as [number, number, number],
-        at,
-        vec,
+        colour: [a.colour[0] / 255, a.colour[1] / 255, a.colour[2] / 255],
+        at: this.arrowBufs[i].at,
+        vec: this.arrowBufs[i].vec,
       });
-    });
+    }
   }
 
   destroy(): void {

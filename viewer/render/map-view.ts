@@ -1,6 +1,9 @@
 // The map panel: the WebGL canvas with an overlay canvas on top for the graticule, labels, probe
 // marks, the cursor and the reference arrows. Both canvases have the same size, so the PNG
-// export is the two stacked.
+// export is the two stacked. A draw sends to the GPU only what changed since the last one (the
+// field when its source changed, each arrow layer when its vectors did), draws the WebGL canvas
+// only when something on it changed (without a GPU compositor Chromium reads every changed
+// WebGL canvas back on the main thread), and repaints the overlay only when it changed.
 
 import { drawAxes } from './axes.ts';
 import { MapRenderer, type ArrowSet, type Viewport } from './map-gl.ts';
@@ -20,6 +23,27 @@ export interface VectorLayer {
   colour: [number, number, number];
 }
 
+/**
+ * Where a field came from: a draw with the same frame object and field name as the last one has
+ * the same values, so nothing is uploaded. Without it every draw uploads.
+ */
+export interface FieldSource {
+  frame: object;
+  field: string;
+}
+
+/** What arrow slot n holds on the GPU. */
+interface ArrowSlot {
+  u: Float32Array | null;
+  v: Float32Array | null;
+  stride: number;
+  at: Float32Array;
+  vec: Float32Array;
+  set: ArrowSet | null;
+}
+
+const sameColour = (a: readonly number[], b: readonly number[]) => a[0] === b[0] && a[1] === b[1] && a[2] === b[2];
+
 export interface Mark {
   name: string;
   lon: number;
@@ -35,6 +59,17 @@ export class MapView {
   /** Steady reference magnitudes per layer name (widen at once, shrink slowly). */
   private refs = new Map<string, number>();
   private lastArrows: Array<{ layer: VectorLayer; ref: number; pxPerRef: number }> = [];
+  private lastSource: FieldSource | null = null;
+  private uploadedRange: [number, number] | null = null;
+  private shaderRange: [number, number] = [0, 1];
+  private slots: ArrowSlot[] = [0, 1].map(() => ({ u: null, v: null, stride: 0, at: new Float32Array(0), vec: new Float32Array(0), set: null }));
+  private cells: { nx: number; ny: number; stride: number; list: number[] } | null = null;
+  /** Set when the canvas, grid or GPU data changed: the WebGL canvas must be drawn again. */
+  private glDirty = true;
+  private glKey = '';
+  private overlayKey = '';
+  /** GPU uploads and WebGL draws so far, for the benchmarks and tests. */
+  readonly counts = { fieldUploads: 0, arrowUploads: 0, glDraws: 0, overlayDraws: 0 };
 
   constructor(
     readonly glCanvas: HTMLCanvasElement,
@@ -48,6 +83,19 @@ export class MapView {
     this.grid = grid;
     this.refs.clear();
     this.gl.setGrid(grid.nx, grid.ny, grid.ocean);
+    this.invalidate();
+  }
+
+  /** Forget what is on the GPU and on screen: the next draw uploads and draws everything. */
+  invalidate(): void {
+    this.lastSource = null;
+    this.uploadedRange = null;
+    for (const s of this.slots) {
+      s.u = null;
+      s.v = null;
+    }
+    this.glDirty = true;
+    this.overlayKey = '';
   }
 
   get extent(): Extent | null {
@@ -73,6 +121,8 @@ export class MapView {
     // Where the plot sits, for anyone reading the picture back (the browser tests).
     const r = this.plotRect();
     this.glCanvas.dataset.plot = [r.left, r.top, r.width, r.height].join(',');
+    // Resizing a canvas clears it; arrow spacing follows the plot width.
+    this.invalidate();
   }
 
   /** Plot area in CSS pixels from the top-left. */
@@ -100,22 +150,60 @@ export class MapView {
     return [r.left + ((lon - g.lonWest) / (g.lonEast - g.lonWest)) * r.width, r.top + ((g.latNorth - lat) / (g.latNorth - g.latSouth)) * r.height];
   }
 
-  draw(values: Float32Array, range: { min: number; max: number }, layers: VectorLayer[], marks: Mark[], cursor: { i: number; j: number } | null): void {
+  draw(values: Float32Array, range: { min: number; max: number }, layers: VectorLayer[], marks: Mark[], cursor: { i: number; j: number } | null, source?: FieldSource): void {
     if (!this.grid) return;
-    const shaderRange = this.gl.setField(values, range);
-    const arrows = layers.map((l) => this.arrowSet(l));
-    this.gl.draw(this.viewport(), shaderRange, arrows);
+    const last = this.lastSource;
+    const sameField = source !== undefined && last !== null && source.frame === last.frame && source.field === last.field;
+    // The byte fallback bakes the range into the texels; float textures take it as a uniform.
+    const sameTexels = sameField && (this.gl.floatTextures || (this.uploadedRange !== null && this.uploadedRange[0] === range.min && this.uploadedRange[1] === range.max));
+    if (!sameTexels) {
+      this.shaderRange = this.gl.setField(values, range);
+      this.uploadedRange = [range.min, range.max];
+      this.counts.fieldUploads++;
+      this.glDirty = true;
+    } else if (this.gl.floatTextures) this.shaderRange = [range.min, range.max];
+    this.lastSource = source ?? null;
+
+    const arrows: ArrowSet[] = [];
+    const drawn: Array<{ layer: VectorLayer; ref: number; pxPerRef: number }> = [];
+    for (let n = 0; n < Math.min(2, layers.length); n++) {
+      const a = this.arrowLayer(n, layers[n]);
+      arrows.push(a);
+      drawn.push({ layer: layers[n], ref: this.refs.get(layers[n].name) ?? 0, pxPerRef: ARROW_SPACING * 1.4 });
+    }
+    // A slot no longer drawn must be uploaded again when a layer comes back to it.
+    for (let n = layers.length; n < 2; n++) this.slots[n].u = null;
+    this.lastArrows = drawn;
+
+    const vp = this.viewport();
+    const key = `${vp.x},${vp.y},${vp.width},${vp.height}|${this.shaderRange[0]},${this.shaderRange[1]}|${this.gl.lutVersion}|${arrows.map((a) => `${a.count},${a.pxPerUnit},${a.colour.join(',')}`).join(';')}`;
+    if (this.glDirty || key !== this.glKey) {
+      this.gl.draw(vp, this.shaderRange, arrows);
+      this.counts.glDraws++;
+      this.glDirty = false;
+      this.glKey = key;
+    }
     this.drawOverlay(marks, cursor);
   }
 
-  private arrowSet(layer: VectorLayer): ArrowSet {
+  /** The arrows of one layer in GPU slot n, rebuilt and uploaded only when its vectors changed. */
+  private arrowLayer(n: number, layer: VectorLayer): ArrowSet {
+    const slot = this.slots[n];
     const g = this.grid!;
     const r = this.plotRect();
     const stride = Math.max(1, Math.round((ARROW_SPACING / r.width) * g.nx));
-    const cells = arrowCells(g.nx, g.ny, stride);
-    const at = new Float32Array(cells.length * 2);
-    const vec = new Float32Array(cells.length * 2);
-    let n = 0;
+    if (slot.set && slot.u === layer.u && slot.v === layer.v && slot.stride === stride && sameColour(slot.set.colour, layer.colour)) return slot.set;
+    if (!this.cells || this.cells.nx !== g.nx || this.cells.ny !== g.ny || this.cells.stride !== stride) {
+      this.cells = { nx: g.nx, ny: g.ny, stride, list: arrowCells(g.nx, g.ny, stride) };
+    }
+    const cells = this.cells.list;
+    if (slot.at.length < 2 * cells.length) {
+      slot.at = new Float32Array(2 * cells.length);
+      slot.vec = new Float32Array(2 * cells.length);
+    }
+    const at = slot.at;
+    const vec = slot.vec;
+    let count = 0;
     let biggest = 0;
     for (const k of cells) {
       const u = layer.u[k];
@@ -123,23 +211,29 @@ export class MapView {
       if (!(u === u && v === v) || !g.ocean[k]) continue;
       const i = k % g.nx;
       const j = (k - i) / g.nx;
-      at[2 * n] = ((i + 0.5) / g.nx) * 2 - 1;
-      at[2 * n + 1] = ((j + 0.5) / g.ny) * 2 - 1;
-      vec[2 * n] = u;
-      vec[2 * n + 1] = v;
-      biggest = Math.max(biggest, Math.hypot(u, v));
-      n++;
+      at[2 * count] = ((i + 0.5) / g.nx) * 2 - 1;
+      at[2 * count + 1] = ((j + 0.5) / g.ny) * 2 - 1;
+      vec[2 * count] = u;
+      vec[2 * count + 1] = v;
+      const m = Math.sqrt(u * u + v * v);
+      if (m > biggest) biggest = m;
+      count++;
     }
     const prev = this.refs.get(layer.name) ?? 0;
     let ref = prev;
     if (biggest > prev || biggest < prev / 4) ref = niceCeil(biggest);
     this.refs.set(layer.name, ref);
     // The reference magnitude gets 1.4 arrow spacings, so the longest arrow overlaps little.
-    const pxPerRef = ARROW_SPACING * 1.4;
-    const pxPerUnit = ref > 0 ? (pxPerRef * this.dpr) / ref : 0;
-    const entry = { layer, ref, pxPerRef };
-    this.lastArrows = [...this.lastArrows.filter((a) => a.layer.name !== layer.name), entry];
-    return { at, vec, count: ref > 0 ? n : 0, pxPerUnit, colour: layer.colour };
+    const pxPerUnit = ref > 0 ? (ARROW_SPACING * 1.4 * this.dpr) / ref : 0;
+    const set: ArrowSet = { at, vec, count: ref > 0 ? count : 0, pxPerUnit, colour: layer.colour };
+    this.gl.setArrows(n, set);
+    this.counts.arrowUploads++;
+    slot.u = layer.u;
+    slot.v = layer.v;
+    slot.stride = stride;
+    slot.set = set;
+    this.glDirty = true;
+    return set;
   }
 
   /** Layers that were drawn last time, with their reference arrows. */
@@ -149,12 +243,18 @@ export class MapView {
 
   forgetArrows(): void {
     this.lastArrows = [];
+    this.overlayKey = '';
   }
 
   private drawOverlay(marks: Mark[], cursor: { i: number; j: number } | null): void {
     const g = this.grid!;
+    const refsKey = this.lastArrows.map((a) => `${a.layer.name}:${a.ref}:${a.layer.units}:${a.layer.colour.join(',')}`).join(';');
+    const key = `${this.cssW}x${this.cssH}@${this.dpr}|${marks.map((m) => `${m.name}:${m.lon}:${m.lat}`).join(';')}|${cursor ? `${cursor.i},${cursor.j}` : ''}|${refsKey}`;
+    if (key === this.overlayKey) return;
     const ctx = this.overlay.getContext('2d');
     if (!ctx) return;
+    this.overlayKey = key;
+    this.counts.overlayDraws++;
     const d = this.dpr;
     ctx.setTransform(d, 0, 0, d, 0, 0);
     ctx.clearRect(0, 0, this.cssW, this.cssH);
