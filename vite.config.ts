@@ -6,12 +6,35 @@ const isolation = {
   'Cross-Origin-Embedder-Policy': 'require-corp',
 };
 
+/**
+ * The Content-Security-Policy the page is served with (docs/reliability.md). Nothing inline, every
+ * script and worker from the page's own origin, WebAssembly compiled from our embedded kernel.
+ * 'unsafe-eval' is there for one reason only: regl builds its draw commands with Function at run
+ * time (node_modules/regl/dist/regl.js, the Function.apply in its code generator); the browser
+ * test test/browser/csp.test.ts proves that nothing else in the page or the engine needs it.
+ */
+export const pagePolicy = [
+  "default-src 'self'",
+  "script-src 'self' 'wasm-unsafe-eval' 'unsafe-eval'",
+  "worker-src 'self'",
+  "style-src 'self'",
+  "img-src 'self' blob:",
+  "object-src 'none'",
+  "base-uri 'none'",
+  "form-action 'none'",
+  "frame-ancestors 'none'",
+].join('; ');
+
+// The dev server injects its CSS as <style> elements and talks to the page over a WebSocket
+// ('self' covers ws: on the same host), so it needs inline styles; nothing else changes.
+const devPolicy = pagePolicy.replace("style-src 'self'", "style-src 'self' 'unsafe-inline'");
+
 export default defineConfig({
   root: 'viewer',
   publicDir: false,
   build: { outDir: '../dist/viewer', emptyOutDir: true },
   worker: { format: 'es' },
   optimizeDeps: { include: ['comlink', 'seedrandom', 'regl'] },
-  server: { headers: isolation },
-  preview: { headers: isolation },
+  server: { headers: { ...isolation, 'Content-Security-Policy': devPolicy } },
+  preview: { headers: { ...isolation, 'Content-Security-Policy': pagePolicy } },
 });

@@ -5,7 +5,8 @@
 import { EARTH } from '../model/config.ts';
 import type { FieldName } from '../model/diagnostics/fields.ts';
 import type { EngineError, EngineStatus, Frame, LoadedScenario } from '../worker/protocol.ts';
-import { connectEngine, NoWorkerError, type EngineClient } from './engine-client.ts';
+import { connectEngine, EngineLostError, NoWorkerError, type EngineClient } from './engine-client.ts';
+import { showEngineLost } from './panels/engine-lost.ts';
 import { drawColourBar, formatValue } from './panels/colour-bar.ts';
 import { HovmollerPanel } from './panels/hovmoller.ts';
 import { ProbePanel } from './panels/probes.ts';
@@ -137,6 +138,8 @@ const windPanel = new WindPanel($('wind-panel'), {
   const f = history.latest();
   return f?.fields.h_anom ? { day: f.day, step: f.step, checksum: fieldChecksum(f.fields.h_anom) } : null;
 };
+// Debug hook: the engine's own SHA-256 of its u, v, h bits, to compare with the command line.
+(info as unknown as { stateChecksum: () => unknown }).stateChecksum = () => engine.stateChecksum();
 const probePanel = new ProbePanel($('probe-chart'), $<HTMLUListElement>('probe-list'), probes, (id) => {
   probes.remove(id);
   probePanel.renderList();
@@ -144,7 +147,7 @@ const probePanel = new ProbePanel($('probe-chart'), $<HTMLUListElement>('probe-l
 });
 
 try {
-  engine = connectEngine({ frame: onFrame, status: onStatus, error: onEngineError });
+  engine = connectEngine({ frame: onFrame, status: onStatus, error: onEngineError, lost: onEngineLost });
 } catch (e) {
   if (e instanceof NoWorkerError) showNoGo('This browser cannot run the model', `Pycno runs the model in a Web Worker (a module worker), which this browser did not start: ${e.message}. Use a current Chromium, Firefox or Safari.`);
   throw e;
@@ -196,6 +199,23 @@ function onEngineError(e: EngineError): void {
   message(e.message);
 }
 
+// The worker is gone: say so, keep everything on screen (it can still be saved), offer a new engine.
+function onEngineLost(): void {
+  const day = run ? info.lastDay : null;
+  onStatus('failed');
+  $('status').textContent = 'engine stopped';
+  $<HTMLButtonElement>('btn-reset').disabled = true;
+  showEngineLost($('messages'), {
+    day,
+    restart: async () => {
+      engine.restart();
+      const again = run;
+      const ok = again ? await loadIntoEngine(again.scenarioJson, panel.fileName) : await loadIntoEngine(panel.text(), panel.fileName);
+      if (!ok) throw new Error('the scenario did not load in the new engine (see the message above)');
+    },
+  });
+}
+
 // ---- loading ----
 async function loadIntoEngine(text: string, fileName: string): Promise<boolean> {
   loading = true;
@@ -213,7 +233,8 @@ async function loadIntoEngine(text: string, fileName: string): Promise<boolean> 
     loading = false;
     early.length = 0;
     const err = e as EngineError;
-    message(err.message ?? String(e));
+    // A lost worker has its own notice, with the restart button.
+    if (!(e instanceof EngineLostError)) message(err.message ?? String(e));
     // The engine holds no run now; the map keeps the last picture but the controls wait for a scenario.
     run = null;
     onStatus('failed');

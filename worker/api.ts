@@ -3,6 +3,7 @@
 
 import type { Engine, LoadOptions } from './engine.ts';
 import type { EngineReport, Frame, LoadResult } from './protocol.ts';
+import { stateChecksum, type StateChecksum } from './state-checksum.ts';
 
 export interface EngineApi {
   load(text: string, fileName: string, options?: Omit<LoadOptions, 'reader' | 'onSpinup'>): Promise<LoadResult>;
@@ -22,6 +23,8 @@ export interface EngineApi {
   addSection(lat: number): ReturnType<Engine['addSection']>;
   /** Full fields in every `every`-th output sample (0: none); see Engine.setSampleFields. */
   setSampleFields(every: number): void;
+  /** SHA-256 of the loaded run's u, v and h bits now (worker/state-checksum.ts), or null before a load. */
+  stateChecksum(): StateChecksum | null;
 }
 
 /** Wrap an engine; `send` marks a value's buffers for transfer (Comlink.transfer). */
@@ -47,5 +50,6 @@ export function engineApi(engine: Engine, send: <T>(value: T, transfer: ArrayBuf
     idle: () => engine.idle(),
     addSection: (lat) => engine.addSection(lat),
     setSampleFields: (every) => engine.setSampleFields(every),
+    stateChecksum: () => (engine.model ? stateChecksum(engine.model.state) : null),
   };
 }

@@ -1,10 +1,11 @@
 // The dedicated Web Worker: the engine exposed with comlink. The page creates it with
 //   new Worker(new URL('../worker/browser-entry.ts', import.meta.url), { type: 'module' })
-// and wraps it with Comlink.wrap<EngineApi>(worker).
+// and wraps it with Comlink.wrap<PageEngineApi>(worker).
 
 import * as Comlink from 'comlink';
 import { engineApi } from './api.ts';
 import { Engine } from './engine.ts';
+import { holdLifeLock, type PageEngineApi } from './life-lock.ts';
 
 // A page cannot open paths, but the shipped scenarios travel with it: a scenario that starts
 // from another one's spin-up (trade relaxation from trade spin-up) finds it here by file name.
@@ -24,5 +25,7 @@ async function readShipped(path: string): Promise<Uint8Array> {
   return new TextEncoder().encode(text);
 }
 
-const api = engineApi(new Engine(), (value, transfer) => Comlink.transfer(value, transfer), readShipped);
+// Held from the first moment, so the page can tell when this worker is gone (worker/life-lock.ts).
+const alive = holdLifeLock();
+const api: PageEngineApi = { ...engineApi(new Engine(), (value, transfer) => Comlink.transfer(value, transfer), readShipped), lifeLock: () => alive };
 Comlink.expose(api);

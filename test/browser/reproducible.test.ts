@@ -1,0 +1,160 @@
+// Reproducible across hosts: the same scenario run in Chromium's engine worker (the page), in the
+// engine in Node and through the command line ends in the same model state, bit for bit. The
+// state is compared by SHA-256 over the Float64 bytes of u, v and h (worker/state-checksum.ts);
+// the command line's state is read back from its restart file. Linear (the WebAssembly kernel on
+// both hosts) and nonlinear.
+//
+// Known defect, measured here: Chromium's Math.log, exp, sin, cos, tanh, pow... differ from
+// Node 20's in the last bit for a few percent of arguments (sqrt and + - * / agree, being exact
+// IEEE operations). A wind built only from arithmetic gives the same bits on both hosts; the
+// seeded random bursts (Math.log for the waiting times, Math.exp for the patches) do not, so that
+// comparison is marked as failing until the model computes those functions itself.
+
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import { buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
+import { Engine } from '../../worker/engine.ts';
+import { stateChecksum, type StateChecksum } from '../../worker/state-checksum.ts';
+import { readRestart } from '../../model/io/restart.ts';
+import { fakeHost } from '../engine/helpers.ts';
+
+const missing = chromiumMissing();
+if (missing) console.warn(`browser tests skipped: ${missing}`);
+
+const BIN = join(ROOT, 'bin/pycno.js');
+
+/** A steady uniform westerly: its stress takes no Math function at all. */
+const ARITHMETIC_WIND = {
+  kind: 'fixed',
+  name: 'steady westerly',
+  quantity: 'stress',
+  source: { kind: 'shaped', shape: { kind: 'uniform' }, x: 0.02, y: 0 },
+  envelope: { kind: 'constant' },
+};
+
+/** configs/random-bursts.json made small and short, with bursts falling inside the run. */
+function scenario(dynamics: 'linear' | 'nonlinear', wind: 'bursts' | 'arithmetic'): string {
+  const sc = JSON.parse(readFileSync(join(ROOT, 'configs/random-bursts.json'), 'utf8'));
+  delete sc.$schema;
+  sc.name = `${wind}, ${dynamics}, for the checksum`;
+  sc.basin.resolution = 1;
+  sc.physics.dynamics = dynamics;
+  sc.time = { days: 30, outputEveryDays: 2 };
+  Object.assign(sc.wind.parts[0], { ratePerYear: 150, window: [0, 20], duration: [3, 8] });
+  sc.seed = 20261201;
+  if (wind === 'arithmetic') sc.wind.parts = [ARITHMETIC_WIND];
+  return JSON.stringify(sc, null, 2);
+}
+
+type Pycno = { framesDrawn: number; status: string; stateChecksum(): Promise<StateChecksum | null> };
+
+async function runInPage(page: Page, path: string, name: string): Promise<StateChecksum> {
+  await page.setInputFiles('#scenario-file', path);
+  await page.waitForFunction((n) => document.getElementById('run-name')!.textContent === n && (window as unknown as { __pycno: Pycno }).__pycno.status === 'ready', name);
+  await page.selectOption('#speed', 'max');
+  await page.click('#btn-run');
+  await page.waitForFunction(() => (window as unknown as { __pycno: Pycno }).__pycno.status === 'finished', null, { timeout: 120_000 });
+  return (await page.evaluate(() => (window as unknown as { __pycno: Pycno }).__pycno.stateChecksum()))!;
+}
+
+describe.skipIf(missing !== null)('the same state bits in the page worker, the Node engine and the command line', () => {
+  let served: Served;
+  let browser: Browser;
+  let page: Page;
+  const errors: string[] = [];
+  const dir = mkdtempSync(join(tmpdir(), 'pycno-repro-'));
+
+  beforeAll(async () => {
+    served = await servePage(await buildPage());
+    browser = await launch();
+    page = await browser.newPage();
+    page.on('pageerror', (e) => errors.push(e.message));
+    page.on('console', (m) => {
+      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
+    });
+    await page.goto(served.url);
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: Pycno }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 60_000 });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await served?.stop();
+    rmSync(dir, { recursive: true, force: true });
+  });
+
+  interface Three {
+    page: StateChecksum;
+    node: StateChecksum;
+    cli: StateChecksum;
+    atRest: string;
+    bursts: number;
+  }
+  const results = new Map<string, Three>();
+
+  /** The scenario through all three hosts (each once per test file). */
+  async function three(dynamics: 'linear' | 'nonlinear', wind: 'bursts' | 'arithmetic'): Promise<Three> {
+    const key = `${wind}-${dynamics}`;
+    const known = results.get(key);
+    if (known) return known;
+    const text = scenario(dynamics, wind);
+    const file = `${key}.json`;
+    const path = join(dir, file);
+    writeFileSync(path, text);
+    const page = await runInPage(pageOf(), path, JSON.parse(text).name);
+
+    const engine = new Engine({ host: fakeHost(3) });
+    const loaded = await engine.load(text, path);
+    expect(loaded.ok).toBe(true);
+    engine.start();
+    expect((await engine.idle()).status).toBe('finished');
+    const node = stateChecksum(engine.model!.state);
+
+    const out = spawnSync(process.execPath, [BIN, 'run', file, '--out', `${key}.nc`, '--restart-out', `${key}-end.nc`, '--quiet'], { cwd: dir, encoding: 'utf8', timeout: 120_000 });
+    expect(out.stderr).toBe('');
+    expect(out.status).toBe(0);
+    const cli = stateChecksum(readRestart(new Uint8Array(readFileSync(join(dir, `${key}-end.nc`))), engine.model!.grid));
+
+    const rest = new Engine({ host: fakeHost(3) });
+    await rest.load(text, path);
+    const r: Three = { page, node, cli, atRest: stateChecksum(rest.model!.state).sha256, bursts: loaded.ok ? loaded.scenario.bursts.length : 0 };
+    expect(page.values).toBe(3 * engine.model!.grid.size);
+    expect(page.step).toBeGreaterThan(100);
+    // The run moved: its state is not the state at rest.
+    expect(page.sha256).not.toBe(r.atRest);
+    expect(errors).toEqual([]);
+    results.set(key, r);
+    return r;
+  }
+  const pageOf = () => page;
+
+  for (const dynamics of ['linear', 'nonlinear'] as const) {
+    it(`${dynamics}, a wind of arithmetic only: the page's checksum equals the Node engine's and the command line's`, async () => {
+      const r = await three(dynamics, 'arithmetic');
+      expect(r.node).toEqual(r.page);
+      expect(r.cli).toEqual(r.page);
+    });
+
+    it(`${dynamics}, seeded random bursts: the Node engine and the command line agree bit for bit`, async () => {
+      const r = await three(dynamics, 'bursts');
+      // The bursts really fall inside the run, so the checksum covers the random forcing.
+      expect(r.bursts).toBeGreaterThan(2);
+      expect(r.cli).toEqual(r.node);
+      expect(r.page.step).toBe(r.node.step);
+    });
+
+    // Fails today (see the top of the file): Chromium's Math.log / Math.exp are not Node's.
+    it.fails(`${dynamics}, seeded random bursts: the page's checksum equals the Node engine's (KNOWN DEFECT: host Math functions differ)`, async () => {
+      const r = await three(dynamics, 'bursts');
+      expect(r.page).toEqual(r.node);
+    });
+  }
+
+  it('the checksum tells runs apart: the two schemes and the two winds end in four different states', async () => {
+    const all = await Promise.all([three('linear', 'arithmetic'), three('nonlinear', 'arithmetic'), three('linear', 'bursts'), three('nonlinear', 'bursts')]);
+    expect(new Set(all.map((r) => r.node.sha256)).size).toBe(4);
+  });
+});
