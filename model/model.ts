@@ -37,7 +37,8 @@ export interface ModelOptions {
   kernel?: LinearKernelName | 'auto';
   /**
    * Threads for the linear step, split into latitude strips (model/parallel/): a count, or 'auto'
-   * (one per core where each strip keeps at least 40,000 cells; see chooseThreads). Default 1.
+   * (one per core where each strip keeps at least 40,000 cells, and with the WebAssembly kernel
+   * at hand only from 4 cores; see chooseThreads). Default 1.
    * Takes effect when the host calls startThreads(); the results are the same bits either way.
    * The nonlinear scheme always runs on one thread.
    */
@@ -164,10 +165,12 @@ export class Model {
    * Start the strip workers the threads option asks for (none for 1, or for the nonlinear
    * scheme). Asynchronous: spawning must not block the thread. Until it resolves, advance() runs
    * on this thread, with the same results. The choice says how many threads run and why.
+   * options.threads, when given, replaces the threads option of the constructor.
    */
-  async startThreads(host: StripHost, options: TeamOptions = {}): Promise<ThreadChoice> {
+  async startThreads(host: StripHost, options: TeamOptions & { threads?: ThreadsOption } = {}): Promise<ThreadChoice> {
     if (this.team) return { threads: this.team.size, notice: null };
-    const choice = chooseThreads(this.threadsAsked, this.grid, this.physics.mode, host.cores);
+    const asked = options.threads === undefined ? this.threadsAsked : checkThreadsOption(options.threads);
+    const choice = chooseThreads(asked, this.grid, this.physics.mode, host.cores, this.wasm ? 'wasm' : 'ts');
     if (choice.threads < 2) return choice;
     const team = await StripTeam.start(this.grid, this.coefficients, choice.threads, host.spawn, options);
     // The strips run the TypeScript rows on the shared buffers; the WebAssembly memory is left.

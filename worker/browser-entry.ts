@@ -5,6 +5,7 @@
 import * as Comlink from 'comlink';
 import { engineApi } from './api.ts';
 import { Engine } from './engine.ts';
+import { browserStripHost } from './strips-browser.ts';
 import { holdLifeLock, type PageEngineApi } from './life-lock.ts';
 
 // A page cannot open paths, but the shipped scenarios travel with it: a scenario that starts
@@ -14,6 +15,16 @@ const shipped = new Map(
     ([path, text]) => [path.split('/').pop()!, text],
   ),
 );
+
+// The linear step in latitude strips on nested workers where the page is cross-origin isolated
+// ('auto': one per core on grids large enough to gain), else on this worker alone (said in the
+// run's notes).
+function pageEngine(): Engine {
+  const host = browserStripHost();
+  return new Engine({
+    strips: { host, threads: 'auto', hostMissing: 'the page is not cross-origin isolated (no COOP/COEP headers), so it has no shared memory for strip workers' },
+  });
+}
 
 async function readShipped(path: string): Promise<Uint8Array> {
   const text = shipped.get(path.split('/').pop() ?? path);
@@ -27,5 +38,5 @@ async function readShipped(path: string): Promise<Uint8Array> {
 
 // Held from the first moment, so the page can tell when this worker is gone (worker/life-lock.ts).
 const alive = holdLifeLock();
-const api: PageEngineApi = { ...engineApi(new Engine(), (value, transfer) => Comlink.transfer(value, transfer), readShipped), lifeLock: () => alive };
+const api: PageEngineApi = { ...engineApi(pageEngine(), (value, transfer) => Comlink.transfer(value, transfer), readShipped), lifeLock: () => alive };
 Comlink.expose(api);

@@ -7,6 +7,8 @@ import { DAY } from '../model/config.ts';
 import { centredField, type FieldName } from '../model/diagnostics/fields.ts';
 import { BlowUpError, InputError } from '../model/errors.ts';
 import type { Model } from '../model/model.ts';
+import type { StripHost } from '../model/parallel/team.ts';
+import type { ThreadsOption } from '../model/parallel/threads.ts';
 import type { OutputRecord } from '../model/io/run-output.ts';
 import { NetcdfReadError } from '../model/io/netcdf-read.ts';
 import type { State } from '../model/state.ts';
@@ -36,6 +38,11 @@ export interface EngineOptions {
   maxFramesPerSecond?: number;
   /** Target duration of one slice of steps, ms (default 15). */
   sliceMs?: number;
+  /**
+   * Strip workers for the linear step (model/parallel/): the host that starts them, or null where
+   * there is none (a page that is not cross-origin isolated), and the default thread count.
+   */
+  strips?: { host: StripHost | null; threads: ThreadsOption; hostMissing?: string };
 }
 
 export interface LoadOptions {
@@ -48,6 +55,8 @@ export interface LoadOptions {
   /** Reads files by resolved path (Node: the file system); used when `files` lacks one. */
   reader?: InputReader;
   onSpinup?: (file: string, day: number, endDay: number) => void;
+  /** Threads for the linear step of this run (overrides the engine's default). */
+  threads?: ThreadsOption;
 }
 
 /** The text a user sees for any failure, the same in the page and the command line. */
@@ -98,8 +107,12 @@ export class Engine {
   private loopDone: Promise<void> = Promise.resolve();
   private anchorWall = 0;
   private anchorDay = 0;
+  private readonly strips: NonNullable<EngineOptions['strips']> | null;
+  /** The thread count asked for the loaded run (kept for stop-and-reset). */
+  private threadsAsked: ThreadsOption = 1;
 
   constructor(options: EngineOptions = {}) {
+    this.strips = options.strips ?? null;
     this.host = options.host ?? realHost();
     this.frameIntervalMs = 1000 / (options.maxFramesPerSecond ?? 30);
     this.planner = new SlicePlanner(options.sliceMs ?? 15);
@@ -137,6 +150,7 @@ export class Engine {
   /** Validate and build a scenario. A running loop is stopped first. Never throws. */
   async load(text: string, fileName: string, options: LoadOptions = {}): Promise<LoadResult> {
     await this.halt();
+    await this.run?.model.close();
     this.run = null;
     this.extraLats = [];
     this.samplesTaken = 0;
@@ -153,6 +167,8 @@ export class Engine {
         inputs = await loadInputs(parsed, this.readerFor(options), { onSpinup: options.onSpinup });
       }
       this.run = this.prepare(parsed, inputs);
+      this.threadsAsked = options.threads ?? this.strips?.threads ?? 1;
+      await this.startThreads(this.run);
       this.state = 'ready';
       this.report();
       return { ok: true, scenario: this.run.info };
@@ -162,6 +178,29 @@ export class Engine {
       this.report();
       return { ok: false, error: this.error };
     }
+  }
+
+  /**
+   * Start the run's strip workers as asked, and say in the run's notes how the step runs. A host
+   * without strips, or workers that fail to start, leave the run on this one thread.
+   */
+  private async startThreads(run: Loaded): Promise<void> {
+    const asked = this.threadsAsked;
+    const model = run.model;
+    let note: string;
+    if (asked === 1) return;
+    if (!this.strips?.host) {
+      note = `threads ${asked}: ${this.strips?.hostMissing ?? 'this host cannot start strip workers'}; the step runs on one thread`;
+    } else {
+      try {
+        const choice = await model.startThreads(this.strips.host, { threads: asked });
+        note = choice.notice ?? `linear step on ${model.threads} threads (latitude strips)`;
+        if (choice.notice && model.threads > 1) note += `; linear step on ${model.threads} threads (latitude strips)`;
+      } catch (e) {
+        note = `threads ${asked}: the strip workers did not start (${e instanceof Error ? e.message : String(e)}); the step runs on one thread`;
+      }
+    }
+    run.info.notes = [...(run.info.notes ?? []), note];
   }
 
   private readerFor(options: LoadOptions): InputReader {
@@ -292,7 +331,9 @@ export class Engine {
     const run = this.run;
     if (run) {
       try {
+        await run.model.close();
         this.run = this.prepare(run.parsed, run.inputs);
+        await this.startThreads(this.run);
         this.samplesTaken = 0;
         this.pending = [];
         this.error = null;

@@ -1,6 +1,8 @@
 // How many strip threads a run gets. 'auto' is one thread per available core, but only where a
-// strip keeps enough work to hide the barriers (AUTO_MIN_CELLS_PER_STRIP cells, measured in
-// docs/performance.md "Multi-core"), and never more than MAX_THREADS.
+// strip keeps enough work to hide the barriers (AUTO_MIN_CELLS_PER_STRIP cells), and only where
+// the strips can beat the one-thread step: the strips run the TypeScript rows, and the one-thread
+// WebAssembly step is about twice as fast as one TypeScript thread (docs/performance.md,
+// "Multi-core"), so with WebAssembly at hand 'auto' wants at least AUTO_MIN_CORES_OVER_WASM cores.
 
 import { InputError } from '../errors.ts';
 
@@ -10,6 +12,8 @@ export type ThreadsOption = number | 'auto';
 export const MAX_THREADS = 64;
 /** Below this many cells per strip the barriers cost more than the strip's work saves. */
 export const AUTO_MIN_CELLS_PER_STRIP = 40_000;
+/** Cores 'auto' needs before TypeScript strips replace the one-thread WebAssembly step. */
+export const AUTO_MIN_CORES_OVER_WASM = 4;
 
 export interface ThreadChoice {
   threads: number;
@@ -26,7 +30,14 @@ export function checkThreadsOption(t: unknown, where = 'threads'): ThreadsOption
   return t;
 }
 
-export function chooseThreads(requested: ThreadsOption, grid: { nx: number; ny: number }, mode: 'linear' | 'nonlinear', cores: number): ThreadChoice {
+/** singleKernel: what runs the step on one thread ('wasm' makes 'auto' want more cores). */
+export function chooseThreads(
+  requested: ThreadsOption,
+  grid: { nx: number; ny: number },
+  mode: 'linear' | 'nonlinear',
+  cores: number,
+  singleKernel: 'ts' | 'wasm' = 'ts',
+): ThreadChoice {
   checkThreadsOption(requested);
   const asked = requested === 'auto' ? 'auto' : String(requested);
   if (requested === 1) return { threads: 1, notice: null };
@@ -34,12 +45,13 @@ export function chooseThreads(requested: ThreadsOption, grid: { nx: number; ny: 
     return { threads: 1, notice: `threads ${asked}: the nonlinear scheme runs on one thread (only the linear step is split into strips)` };
   }
   if (requested === 'auto') {
+    const coreWord = `${cores} core${cores === 1 ? '' : 's'}`;
+    if (singleKernel === 'wasm' && cores < AUTO_MIN_CORES_OVER_WASM) {
+      return { threads: 1, notice: `threads auto: 1 (${coreWord}: the one-thread WebAssembly step is faster than ${cores} TypeScript strips)` };
+    }
     const byWork = Math.floor((grid.nx * grid.ny) / AUTO_MIN_CELLS_PER_STRIP);
     const threads = Math.max(1, Math.min(cores, grid.ny, byWork, MAX_THREADS));
-    return {
-      threads,
-      notice: `threads auto: ${threads} (${cores} core${cores === 1 ? '' : 's'}, ${grid.nx} x ${grid.ny} cells, at least ${AUTO_MIN_CELLS_PER_STRIP} cells a strip)`,
-    };
+    return { threads, notice: `threads auto: ${threads} (${coreWord}, ${grid.nx} x ${grid.ny} cells, at least ${AUTO_MIN_CELLS_PER_STRIP} cells a strip)` };
   }
   if (requested > grid.ny) {
     return { threads: grid.ny, notice: `threads ${requested} clamped to ${grid.ny}: the grid has ${grid.ny} rows and a strip needs at least one` };

@@ -222,7 +222,10 @@ describe('strip team on worker threads', () => {
     expect(() => new Model(cfg, { threads: 0 })).toThrow(/threads: must be a whole number from 1 to 64/);
   });
 
-  it("'auto' takes one thread per core while a strip keeps 40,000 cells", () => {
+  it("'auto' takes one thread per core while a strip keeps 40,000 cells, and over WebAssembly only from 4 cores", () => {
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm').threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm').notice).toMatch(/WebAssembly step is faster/);
+    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 'linear', 4, 'wasm').threads).toBe(4);
     expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2).threads).toBe(2);
     expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 8).threads).toBe(3);
     expect(chooseThreads('auto', { nx: 160, ny: 60 }, 'linear', 8).threads).toBe(1);

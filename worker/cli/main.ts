@@ -20,6 +20,8 @@ import { reportCommand, REPORT_USAGE } from './report-command.ts';
 import { checkReport, runSummary } from './report.ts';
 import { rerun, RERUN_HELP, RERUN_USAGE } from './rerun.ts';
 import { sweep, SWEEP_HELP, SWEEP_USAGE } from './sweep.ts';
+import { checkThreadsOption, type ThreadsOption } from '../../model/parallel/threads.ts';
+import { nodeStripHost } from '../strips-node.ts';
 
 export interface CliIO {
   stdout: { write(s: string): unknown };
@@ -30,7 +32,7 @@ export interface CliIO {
 }
 
 export const USAGE = `usage:
-  pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--quiet]
+  pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--threads N|auto] [--quiet]
   pycno check SCENARIO.json [--set path=value ...]
 ${RERUN_USAGE}  ${SWEEP_USAGE}  ${COMPARE_USAGE}
   ${REPORT_USAGE}
@@ -40,6 +42,8 @@ ${RERUN_USAGE}  ${SWEEP_USAGE}  ${COMPARE_USAGE}
   --days N               run length in days (the same as --set time.days=N)
   --set path=value       change one scenario value, e.g. --set physics.reducedGravity=0.05
   --restart-out FILE.nc  also write a restart file of the end state (exact continuation)
+  --threads N|auto       split the linear step into N latitude strips on N threads (same results bit
+                         for bit; auto: one per core on grids large enough to gain); default 1
   --quiet                no progress on stderr
 ${RERUN_HELP}${SWEEP_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
                          difference per field, measured wave speeds beside theory (exit 2: no overlap)
@@ -57,6 +61,7 @@ interface Args {
   restartOut?: string;
   sets: string[];
   quiet: boolean;
+  threads?: ThreadsOption;
 }
 
 function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
@@ -100,6 +105,16 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
         const days = Number(v);
         if (v.trim() === '' || !(days > 0) || !Number.isFinite(days)) throw new UsageError(`--days: expected a number of days > 0 (got '${v}')`);
         args.sets.push(`time.days=${days}`);
+        break;
+      }
+      case '--threads': {
+        runOnly();
+        const v = value("a number of threads or 'auto'");
+        try {
+          args.threads = checkThreadsOption(v === 'auto' ? v : v.trim() === '' ? NaN : Number(v), '--threads');
+        } catch (e) {
+          throw new UsageError((e as Error).message.replace(/\(got .*\)$/, `(got '${v}')`));
+        }
         break;
       }
       case '--quiet':
@@ -201,7 +216,15 @@ function describe(info: LoadedScenario, shown: string, argv: Args, engine: Engin
 }
 
 async function run(args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
-  const engine = new Engine({ maxFramesPerSecond: 10 });
+  const engine = new Engine({ maxFramesPerSecond: 10, strips: { host: nodeStripHost(), threads: 1 } });
+  try {
+    return await runOn(engine, args, text, shown, reader, io);
+  } finally {
+    await engine.model?.close(); // the strip workers, if any
+  }
+}
+
+async function runOn(engine: Engine, args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
   const quiet = args.quiet;
   // Every file the run reads, so that --out can never overwrite one of them.
   const inputs = new Set([resolvePath(io.cwd, shown)]);
@@ -212,6 +235,7 @@ async function run(args: Args, text: string, shown: string, reader: (p: string) 
       return reader(p);
     },
     onSpinup: quiet ? undefined : spinupReporter(io),
+    threads: args.threads,
   });
   if (!loaded.ok) {
     printError(io, loaded.error.message);
