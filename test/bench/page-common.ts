@@ -35,7 +35,7 @@ export interface BenchPage {
   close(): Promise<void>;
 }
 
-export async function openPage(extraArgs: string[] = [], options: { minify?: boolean } = {}): Promise<BenchPage> {
+export async function openPage(extraArgs: string[] = [], options: { minify?: boolean; width?: number } = {}): Promise<BenchPage> {
   const missing = chromiumMissing();
   if (missing) throw new Error(`cannot run the page benchmark: ${missing}`);
   const served = await servePage(await buildFor(options.minify ?? true));
@@ -46,7 +46,7 @@ export async function openPage(extraArgs: string[] = [], options: { minify?: boo
     await served.stop();
     throw e;
   }
-  const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+  const page = await browser.newPage({ viewport: { width: options.width ?? 1280, height: 900 } });
   page.on('pageerror', (e) => console.error(`page error: ${e.message}`));
   // tsx keeps function names with a helper that the page does not have; functions passed to
   // page.evaluate from these scripts call it.

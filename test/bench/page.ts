@@ -10,7 +10,11 @@
 // `page fps X` (the median).
 //
 //   npm run bench:page
-//   BENCH_PAGE_SECONDS=20 BENCH_PAGE_PROFILE=1 npm run bench:page
+//   BENCH_PAGE_SECONDS=20 BENCH_PAGE_PROFILE=1 npm run bench:page   longer, with a JS profile
+//   BENCH_PAGE_TRACE=1 npm run bench:page      renderer main-thread trace events (Chromium tracing)
+//   BENCH_PAGE_SPEED=20 npm run bench:page     a speed cap (model days/s) instead of full speed
+//   BENCH_PAGE_ARGS="--flag" npm run bench:page  extra Chromium flags
+//   BENCH_PAGE_WIDTH=800 npm run bench:page    a narrower window (a smaller map canvas)
 
 import { loadavg } from 'node:os';
 import type { CDPSession } from 'playwright-core';
@@ -22,6 +26,7 @@ const warmup = Number(process.env.BENCH_PAGE_WARMUP ?? 2);
 const profile = process.env.BENCH_PAGE_PROFILE === '1';
 const trace = process.env.BENCH_PAGE_TRACE === '1';
 const outputEveryDays = Number(process.env.BENCH_PAGE_OUTPUT_DAYS ?? 1);
+const speed = (process.env.BENCH_PAGE_SPEED ?? 'max') as '5' | '20' | '60' | 'max';
 
 interface Probe {
   raf: number[];
@@ -89,11 +94,12 @@ function traceSummary(t: { traceEvents: TraceEvent[] }): Array<{ name: string; m
 // Extra Chromium flags, space-separated (e.g. to try GPU compositing over SwiftShader).
 const extraArgs = (process.env.BENCH_PAGE_ARGS ?? '').split(/\s+/).filter(Boolean);
 // A profile reads better with our function names, so it gets an unminified build.
-const bench = await openPage(extraArgs, { minify: !profile });
+const width = Number(process.env.BENCH_PAGE_WIDTH ?? 1280);
+const bench = await openPage(extraArgs, { minify: !profile, width });
 try {
   const { page } = bench;
   const scenario = benchScenario({ days: 730, outputEveryDays });
-  await loadScenario(page, scenario, 'max');
+  await loadScenario(page, scenario, speed);
   const arrowsOn = await page.isChecked('#show-currents');
   if (!arrowsOn) await page.check('#show-currents');
 
@@ -158,7 +164,8 @@ try {
   const perDrawn = (ms: number) => (drawn > 0 ? ms / drawn : NaN);
 
   const rows: Array<[string, string]> = [
-    ['grid', `${BENCH_NX} x ${BENCH_NY}, output every ${outputEveryDays} day(s), speed max, surface-current arrows on`],
+    ['grid', `${BENCH_NX} x ${BENCH_NY}, output every ${outputEveryDays} day(s), speed ${speed}, surface-current arrows on`],
+    ['window width', `${width} CSS px, map canvas ${await page.evaluate(() => { const c = document.getElementById('map-gl') as HTMLCanvasElement; return `${c.width} x ${c.height}`; })} px`],
     ['chromium flags added', extraArgs.join(' ') || 'none'],
     ['measured', `${wall.toFixed(1)} s after ${warmup} s of warm-up; load average ${load.map((x) => x.toFixed(2)).join(' ')}`],
     ['fps mean', meanFps.toFixed(1)],
