@@ -2,21 +2,41 @@
 // benchmark's one-line format:  node --import tsx test/bench/reference-line.ts NX NY STEPS [LABEL]
 // Only the step loop is timed; the checksum is the reference's (see model/reference-kernel.ts).
 
-import type { LinearKernelName } from '../../model/model.ts';
-import { referenceChecksum, referenceModel } from '../../model/reference-kernel.ts';
+import { Grid } from '../../model/grid.ts';
+import { Model, type LinearKernelName } from '../../model/model.ts';
+import { referenceChecksum, referenceConfig, referenceModel, referenceStress } from '../../model/reference-kernel.ts';
+import { nodeStripHost } from '../../worker/strips-node.ts';
 
 const [nx, ny, steps] = process.argv.slice(2, 5).map(Number);
 const label = process.argv[5] ?? 'ts-double';
-// The label names the path: ts-double (plain TypeScript), wasm-simd (WebAssembly SIMD).
+// The label names the path: ts-double (plain TypeScript), wasm-simd (WebAssembly SIMD),
+// ts-strips-N (the TypeScript rows in N latitude strips on N threads, model/parallel/).
 const kernel: LinearKernelName = label.startsWith('wasm') ? 'wasm' : 'ts';
+const strips = /^ts-strips-(\d+)$/.exec(label);
 if (!(nx >= 8 && ny >= 24 && steps >= 0)) {
   console.error('usage: reference-line NX NY STEPS [LABEL]');
   process.exit(2);
 }
-// Warm the JIT on a separate model, so the timed loop measures compiled code, as the C
-// reference's does; the timed model starts from rest like the reference.
-referenceModel(nx, ny, kernel).advance(Math.min(50, Math.max(5, Math.round(2e6 / (nx * ny)))));
-const model = referenceModel(nx, ny, kernel);
+const warmSteps = Math.min(50, Math.max(5, Math.round(2e6 / (nx * ny))));
+let model: Model;
+if (strips) {
+  // Each worker is a fresh JIT: warm the team itself, then put its state back to rest (the
+  // steady wind stays filled; the new-velocity buffers are overwritten before they are read).
+  const config = referenceConfig(nx, ny);
+  const wind = referenceStress(new Grid(config.basin, config.physics.earthRadius));
+  model = new Model(config, { variant: { ghost: 0, coriolis: 'collocated' }, wind, kernel: 'ts', threads: Number(strips[1]) });
+  const choice = await model.startThreads(nodeStripHost());
+  if (choice.threads !== Number(strips[1])) console.error(`(${label}: ${choice.notice})`);
+  model.advance(warmSteps);
+  for (const f of [model.state.u, model.state.v, model.state.h]) f.fill(0);
+  model.state.steps = 0;
+  model.state.time = 0;
+} else {
+  // Warm the JIT on a separate model, so the timed loop measures compiled code, as the C
+  // reference's does; the timed model starts from rest like the reference.
+  referenceModel(nx, ny, kernel).advance(warmSteps);
+  model = referenceModel(nx, ny, kernel);
+}
 const t0 = process.hrtime.bigint();
 model.advance(steps);
 const seconds = Number(process.hrtime.bigint() - t0) / 1e9;
@@ -24,3 +44,4 @@ const { sumEta, energy } = referenceChecksum(model);
 console.log(
   `impl=${label} nx=${nx} ny=${ny} steps=${steps} seconds=${seconds.toFixed(4)} cups=${((nx * ny * steps) / seconds).toExponential(4)} sum_eta=${sumEta.toExponential(15)} energy=${energy.toExponential(15)}`,
 );
+await model.close();
