@@ -149,4 +149,25 @@ describe.skipIf(missing !== null)('map uploads in Chromium', () => {
     expect(Math.min(...f.rgb)).toBeGreaterThan(200);
     for (let c = 0; c < 3; c++) expect(Math.abs(b.rgb[c] - f.rgb[c])).toBeLessThan(2);
   });
+
+  it('once the time slider\'s budget is full, the note says from which day frames were let go', async () => {
+    await page.selectOption('#budget', '32');
+    expect(await page.textContent('#budget-note')).not.toMatch(/let go/);
+    await page.selectOption('#speed', 'max');
+    await page.click('#btn-run');
+    // A frame of the default basin is 10 fields of 280 x 100 Float32 cells: 1.12 MB, so 32 MB
+    // holds 28 of them, 31.36 MB.
+    await page.waitForFunction(() => /were let go/.test(document.getElementById('budget-note')?.textContent ?? ''), null, { timeout: 120_000 });
+    await page.click('#btn-pause');
+    await page.waitForFunction(() => {
+      const p = (window as unknown as { __pycno: Info }).__pycno;
+      return p.status === 'paused' && p.shownDay === p.lastDay;
+    }, null, { timeout: 30_000 });
+    await settle(page);
+    const note = (await page.textContent('#budget-note'))!;
+    const kept = /kept: day ([\d.]+) to/.exec((await page.textContent('#scrub-day'))!);
+    expect(note).toMatch(/^keeping 28 frames = 31 MB; frames before day [\d.]+ were let go to stay within it$/);
+    // The day named is the oldest frame the slider still has.
+    expect(note).toContain(`before day ${kept![1]} `);
+  });
 });
