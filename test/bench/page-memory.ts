@@ -78,7 +78,7 @@ try {
   // Eager measurement: measureUserAgentSpecificMemory otherwise waits for the next natural GC.
   const bench = await openPage(['--enable-blink-features=ForceEagerMeasureMemory']);
   try {
-    const { page, browser } = bench;
+    const { page } = bench;
     await loadScenario(page, scenario, 'max');
     const t0 = Date.now();
     await page.click('#btn-run');
@@ -115,7 +115,6 @@ try {
     row('time slider keeps', `${kept.frames} frames, ${mb(kept.bytes)} of a ${mb(kept.budget)} budget, oldest day ${kept.oldestDay?.toFixed(1) ?? '-'}`);
     row('time slider note', notes.budget);
     row('run record note', notes.live || '(none: every snapshot fits its limit)');
-    void browser;
   } finally {
     await bench.close();
   }
