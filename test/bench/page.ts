@@ -11,11 +11,13 @@
 //
 //   npm run bench:page
 //   BENCH_PAGE_SECONDS=20 BENCH_PAGE_PROFILE=1 npm run bench:page   longer, with a JS profile
-//   BENCH_PAGE_TRACE=1 npm run bench:page      renderer main-thread trace events (Chromium tracing)
+//   BENCH_PAGE_TRACE=1 npm run bench:page      renderer main-thread trace events (Chromium tracing);
+//                                              BENCH_PAGE_TRACE_FILE=t.json also keeps the trace
 //   BENCH_PAGE_SPEED=20 npm run bench:page     a speed cap (model days/s) instead of full speed
 //   BENCH_PAGE_ARGS="--flag" npm run bench:page  extra Chromium flags
 //   BENCH_PAGE_WIDTH=800 npm run bench:page    a narrower window (a smaller map canvas)
 
+import { writeFileSync } from 'node:fs';
 import { loadavg } from 'node:os';
 import type { CDPSession } from 'playwright-core';
 import { benchScenario, BENCH_NX, BENCH_NY } from './page-scenario.ts';
@@ -140,7 +142,10 @@ try {
     return { raf: w.__bench.raf, longTasks: w.__bench.longTasks };
   });
   const wall = (Date.now() - t0) / 1000;
-  const traced = trace ? traceSummary(JSON.parse((await bench.browser.stopTracing()).toString('utf8'))) : [];
+  const traceText = trace ? (await bench.browser.stopTracing()).toString('utf8') : '';
+  // BENCH_PAGE_TRACE_FILE keeps the whole trace, for chrome://tracing or a closer look.
+  if (trace && process.env.BENCH_PAGE_TRACE_FILE) writeFileSync(process.env.BENCH_PAGE_TRACE_FILE, traceText);
+  const traced = trace ? traceSummary(JSON.parse(traceText)) : [];
   const m1 = await metrics(cdp);
   const after = await pageInfo(page);
   const g1 = await gpu();
