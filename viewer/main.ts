@@ -427,11 +427,13 @@ function draw(): void {
   setText('budget-note', budgetNote());
 }
 
-/** What the scrubbing budget buys, and when it has made the page let the oldest frames go. */
+/**
+ * What the scrubbing budget buys; once full, the history says it has thinned the older frames
+ * (the time slider still reaches back to the start). A budget under 3 frames keeps the newest.
+ */
 function budgetNote(): string {
   const first = history.at(0);
-  const full = history.length >= history.maxFrames;
-  if (run && first && full && first.day > (run.startDay ?? 0) + 1e-9) {
+  if (run && first && history.length >= history.maxFrames && history.spacing === 0 && first.day > (run.startDay ?? 0) + 1e-9) {
     return `${history.describe()}; frames before day ${first.day.toFixed(1)} were let go to stay within it`;
   }
   return history.describe();

@@ -9,24 +9,47 @@ import { cellAt, cellOf, graticuleLines, latLabel, lonLabel } from '../../viewer
 const frame = (day: number, n = 10) => ({ day, step: day, fields: { h_anom: new Float32Array(n), u: new Float32Array(n) } });
 
 describe('frame history', () => {
-  it('keeps as many frames as the budget buys and drops the oldest first', () => {
+  it('keeps every frame while the budget lasts', () => {
     const h = new FrameHistory(400); // each frame 2 x 10 x 4 = 80 bytes -> 5 frames
-    for (let d = 0; d < 8; d++) h.push(frame(d));
+    for (let d = 0; d < 5; d++) h.push(frame(d));
     expect(h.maxFrames).toBe(5);
-    expect(h.length).toBe(5);
-    expect(h.at(0)!.day).toBe(3);
-    expect(h.latest()!.day).toBe(7);
+    expect(Array.from({ length: h.length }, (_, i) => h.at(i)!.day)).toEqual([0, 1, 2, 3, 4]);
+    expect(h.spacing).toBe(0);
     expect(h.describe()).toBe('keeping 5 frames = 400 B');
-    expect(h.nearest(4.4)).toBe(1);
+    expect(h.nearest(2.6)).toBe(3);
   });
-  it('shrinking the budget keeps the newest frames; a new frame size starts over', () => {
+  it('when full, thins the older frames so the slider still reaches the start, and always holds the newest', () => {
+    const h = new FrameHistory(800); // 10 frames
+    const days: number[][] = [];
+    for (let d = 0; d <= 365; d++) {
+      h.push(frame(d));
+      expect(h.length).toBeLessThanOrEqual(10);
+      expect(h.latest()!.day).toBe(d);
+      days.push(Array.from({ length: h.length }, (_, i) => h.at(i)!.day));
+    }
+    const kept = days[days.length - 1];
+    expect(kept[0]).toBe(0);
+    // Evenly thinned: the gaps between kept frames (all but the newest) are at least the spacing.
+    const gaps = kept.slice(1, -1).map((d, i) => d - kept[i]);
+    for (const g of gaps) expect(g).toBeGreaterThanOrEqual(h.spacing - 1e-9);
+    expect(h.spacing).toBeGreaterThan(20);
+    expect(h.spacing).toBeLessThan(80);
+    expect(h.describe()).toMatch(/^keeping 10 frames = 800 B, thinned to one every \d+ days to reach back to the start$/);
+  });
+  it('shrinking the budget thins the frames; a new frame size starts over', () => {
     const h = new FrameHistory(800);
     for (let d = 0; d < 10; d++) h.push(frame(d));
     h.setBudget(240);
     expect(h.length).toBe(3);
-    expect([h.at(0)!.day, h.at(2)!.day]).toEqual([7, 9]);
+    expect([h.at(0)!.day, h.at(2)!.day]).toEqual([0, 9]);
     h.push(frame(0, 20));
     expect(h.length).toBe(1);
+    expect(h.spacing).toBe(0);
+  });
+  it('a budget for fewer than 3 frames keeps the newest', () => {
+    const h = new FrameHistory(160);
+    for (let d = 0; d < 6; d++) h.push(frame(d));
+    expect([h.at(0)!.day, h.at(1)!.day]).toEqual([4, 5]);
   });
   it('states sizes the way a user reads them', () => {
     expect(framesInBudget(41e6, 227_000)).toBe(180);

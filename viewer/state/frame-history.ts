@@ -1,5 +1,5 @@
-// The last frames of a run, kept for scrubbing back while the run goes on. The number kept
-// follows from a memory budget the user chooses; the oldest frame goes first.
+// Frames of a run, kept for scrubbing back while the run goes on. The number kept follows from a
+// memory budget the user chooses; when it is full the older frames are thinned, not dropped.
 
 import type { Frame } from '../../worker/protocol.ts';
 
@@ -30,20 +30,27 @@ export function formatBytes(bytes: number): string {
   return `${bytes} B`;
 }
 
+/**
+ * Frames kept for the time slider. While the budget lasts every frame is kept. When it is full
+ * the older frames are thinned (every other one goes, oldest first kept) and from then on a frame
+ * is kept only when it is at least `spacing` days after the one before, so the slider always
+ * reaches back to the start of the run at an even, coarser spacing; the newest frame is always
+ * there (it is the one on screen while the run goes).
+ */
 export class FrameHistory {
-  private items: (KeptFrame | null)[] = [];
-  private head = 0; // index of the oldest frame
-  private count = 0;
+  private items: KeptFrame[] = [];
   private capacity = 1;
   private bytesEach = 0;
   private budget: number;
+  /** Days between kept frames once thinned; 0 while every frame is kept. */
+  private gap = 0;
 
   constructor(budgetBytes: number) {
     this.budget = budgetBytes;
   }
 
   get length(): number {
-    return this.count;
+    return this.items.length;
   }
 
   get maxFrames(): number {
@@ -54,28 +61,36 @@ export class FrameHistory {
     return this.budget;
   }
 
+  /** Days between kept frames since the history was thinned; 0 if it never was. */
+  get spacing(): number {
+    return this.gap;
+  }
+
   /** Bytes held now. */
   get bytes(): number {
-    return this.count * this.bytesEach;
+    return this.items.length * this.bytesEach;
   }
 
   /** What the budget buys at the current frame size, for the page to show. */
   describe(): string {
     if (this.bytesEach === 0) return `budget ${formatBytes(this.budget)}`;
-    return `keeping ${this.capacity} frames = ${formatBytes(this.capacity * this.bytesEach)}`;
+    const kept = `keeping ${this.capacity} frames = ${formatBytes(this.capacity * this.bytesEach)}`;
+    return this.gap > 0 ? `${kept}, thinned to one every ${formatDays(this.gap)} to reach back to the start` : kept;
   }
 
   clear(): void {
     this.items = [];
-    this.head = 0;
-    this.count = 0;
     this.bytesEach = 0;
     this.capacity = 1;
+    this.gap = 0;
   }
 
   setBudget(budgetBytes: number): void {
     this.budget = budgetBytes;
-    if (this.bytesEach > 0) this.resize(framesInBudget(budgetBytes, this.bytesEach));
+    if (this.bytesEach > 0) {
+      this.capacity = framesInBudget(budgetBytes, this.bytesEach);
+      this.fit();
+    }
   }
 
   push(frame: { day: number; step: number; fields: Frame['fields'] }): void {
@@ -84,34 +99,32 @@ export class FrameHistory {
       // Every frame of a run has the same fields; a new size means a new run.
       this.clear();
       this.bytesEach = bytes;
-      this.resize(framesInBudget(this.budget, bytes));
+      this.capacity = framesInBudget(this.budget, bytes);
     }
     const kept: KeptFrame = { day: frame.day, step: frame.step, fields: frame.fields, bytes };
-    if (this.count < this.capacity) {
-      this.items[(this.head + this.count) % this.capacity] = kept;
-      this.count++;
-    } else {
-      this.items[this.head] = kept;
-      this.head = (this.head + 1) % this.capacity;
-    }
+    const n = this.items.length;
+    // Once thinned, the newest frame takes the place of the previous newest, unless that one is a
+    // spacing past the frame before it: then it stays, as the next kept frame.
+    if (this.gap > 0 && n >= 2 && this.items[n - 1].day - this.items[n - 2].day < this.gap - 1e-9) this.items[n - 1] = kept;
+    else this.items.push(kept);
+    this.fit();
   }
 
   /** Frame i, 0 the oldest kept, length - 1 the latest. */
   at(i: number): KeptFrame | null {
-    if (i < 0 || i >= this.count) return null;
-    return this.items[(this.head + i) % this.capacity];
+    return i >= 0 && i < this.items.length ? this.items[i] : null;
   }
 
   latest(): KeptFrame | null {
-    return this.at(this.count - 1);
+    return this.at(this.items.length - 1);
   }
 
   /** Index of the kept frame nearest to a day. */
   nearest(day: number): number {
     let best = -1;
     let dist = Infinity;
-    for (let i = 0; i < this.count; i++) {
-      const d = Math.abs(this.at(i)!.day - day);
+    for (let i = 0; i < this.items.length; i++) {
+      const d = Math.abs(this.items[i].day - day);
       if (d < dist) {
         dist = d;
         best = i;
@@ -120,14 +133,25 @@ export class FrameHistory {
     return best;
   }
 
-  private resize(capacity: number): void {
-    const kept: KeptFrame[] = [];
-    for (let i = 0; i < this.count; i++) kept.push(this.at(i)!);
-    const keep = kept.slice(Math.max(0, kept.length - capacity));
-    this.capacity = capacity;
-    this.items = new Array<KeptFrame | null>(capacity).fill(null);
-    keep.forEach((f, i) => (this.items[i] = f));
-    this.head = 0;
-    this.count = keep.length;
+  /** Thin until the frames fit: keep the oldest and every other one after it, and the newest. */
+  private fit(): void {
+    while (this.items.length > this.capacity) {
+      if (this.capacity < 3) {
+        // Too small to thin: the newest frames only.
+        this.items = this.items.slice(this.items.length - this.capacity);
+        continue;
+      }
+      const n = this.items.length;
+      const span = this.items[n - 1].day - this.items[0].day;
+      const thinned = this.items.filter((_, i) => i % 2 === 0 || i === n - 1);
+      this.items = thinned;
+      this.gap = Math.max(2 * this.gap, span / Math.max(1, thinned.length - 1));
+    }
   }
+}
+
+/** "16 days", "0.5 day": a spacing the way the page states days. */
+function formatDays(d: number): string {
+  const r = d >= 10 ? Math.round(d) : Math.round(d * 10) / 10;
+  return `${r} ${r === 1 ? 'day' : 'days'}`;
 }
