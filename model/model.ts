@@ -69,6 +69,8 @@ export class Model {
   /** The threads option as given; the strip team once startThreads() has started it. */
   readonly threadsAsked: ThreadsOption;
   private team: StripTeam | null = null;
+  /** A startThreads() under way, so that a second call or close() waits for it. */
+  private starting: Promise<ThreadChoice> | null = null;
   private windFilledFor = NaN;
 
   constructor(config: ModelConfig, options: ModelOptions = {}) {
@@ -167,7 +169,12 @@ export class Model {
    * on this thread, with the same results. The choice says how many threads run and why.
    * options.threads, when given, replaces the threads option of the constructor.
    */
-  async startThreads(host: StripHost, options: TeamOptions & { threads?: ThreadsOption } = {}): Promise<ThreadChoice> {
+  startThreads(host: StripHost, options: TeamOptions & { threads?: ThreadsOption } = {}): Promise<ThreadChoice> {
+    this.starting ??= this.startTeam(host, options).finally(() => (this.starting = null));
+    return this.starting;
+  }
+
+  private async startTeam(host: StripHost, options: TeamOptions & { threads?: ThreadsOption }): Promise<ThreadChoice> {
     if (this.team) return { threads: this.team.size, notice: null };
     const asked = options.threads === undefined ? this.threadsAsked : checkThreadsOption(options.threads);
     const choice = chooseThreads(asked, this.grid, this.physics.mode, host.cores, this.wasm ? 'wasm' : 'ts');
@@ -189,6 +196,7 @@ export class Model {
 
   /** Stop the strip workers, if any; the model goes on (on one thread) with the same state. */
   async close(): Promise<void> {
+    await this.starting?.catch(() => undefined);
     const team = this.team;
     this.team = null;
     if (team) await team.close();

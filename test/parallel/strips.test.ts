@@ -187,6 +187,23 @@ describe('strip team on worker threads', () => {
     expect(sameBits(many.state.v, wasm.state.v)).toBe(true);
   });
 
+  it('starts one team for two overlapping startThreads calls, and a close during the start stops it', async () => {
+    const cfg = basin(40, 12, 'free', 2);
+    const m = model(cfg, 2);
+    const counter = countingHost();
+    const [a, b] = await Promise.all([m.startThreads(counter.host), m.startThreads(counter.host)]);
+    expect(a.threads).toBe(2);
+    expect(b.threads).toBe(2);
+    expect(counter.started()).toBe(1);
+    await m.close();
+    const early = model(cfg, 3);
+    const c2 = countingHost();
+    void early.startThreads(c2.host);
+    await early.close(); // waits for the start, then stops the two workers
+    expect(early.threads).toBe(1);
+    expect(await Promise.all(c2.exits)).toHaveLength(2);
+  });
+
   it('clamps more threads than rows, with a message, and still gives the same bits', async () => {
     const cfg = basin(20, 5, 'no', 1);
     const one = model(cfg);
