@@ -82,6 +82,9 @@ interface Loaded {
   probeCells: Array<{ i: number; j: number }>;
 }
 
+/** Frames are spaced at least this many times their own cost apart (at most a fifth of the time). */
+const FRAME_SHARE = 5;
+
 export class Engine {
   private readonly host: EngineHost;
   private readonly frameIntervalMs: number;
@@ -101,6 +104,8 @@ export class Engine {
   private samplesTaken = 0;
   private pending: OutputSample[] = [];
   private lastFrameAt = -Infinity;
+  /** Wall-clock cost of building and posting a frame, smoothed (ms). */
+  private frameCostMs = 0;
   private pauseAtSample = false;
   /** Each run of the loop has a token; a newer start or a load retires the old loop. */
   private loopToken = 0;
@@ -484,7 +489,10 @@ export class Engine {
   }
 
   private maybePublish(): void {
-    if (this.host.now() - this.lastFrameAt >= this.frameIntervalMs) this.publish(false);
+    // Frames may take at most 1/FRAME_SHARE of the time: on a big grid building the fields for the
+    // page costs as much as stepping, and the run must not slow down to feed the display.
+    const interval = Math.max(this.frameIntervalMs, FRAME_SHARE * this.frameCostMs);
+    if (this.host.now() - this.lastFrameAt >= interval) this.publish(false);
   }
 
   /** Take output sample number samplesTaken: integrals, Hovmoller rows, probes; and the full record. */
@@ -531,7 +539,8 @@ export class Engine {
   }
 
   private publish(finished: boolean): void {
-    this.lastFrameAt = this.host.now();
+    const start = this.host.now();
+    this.lastFrameAt = start;
     if (this.frameListeners.size === 0) {
       this.pending = [];
       return;
@@ -544,6 +553,8 @@ export class Engine {
       const f = k === 0 ? frame : cloneFrame(frame);
       l(f, transferList(f));
     });
+    const cost = this.host.now() - start;
+    this.frameCostMs = this.frameCostMs === 0 ? cost : 0.8 * this.frameCostMs + 0.2 * cost;
   }
 
   private report(): void {
