@@ -87,6 +87,11 @@ try {
 } catch (e) {
   if (e instanceof NoWebGLError) {
     showNoGo('This browser gives the page no WebGL', 'Pycno draws the ocean with WebGL. Turn on hardware acceleration (or WebGL) in the browser settings, or use another browser, then reload. Nothing was run.');
+  } else if (e instanceof EvalError) {
+    showNoGo(
+      "The page's security policy stops its drawing library",
+      "The map is drawn with regl, which builds its WebGL programs at run time and so needs the Content-Security-Policy to allow 'unsafe-eval' for scripts (see docs/reliability.md). Serve the page with the policy of vite.config.ts, then reload. Nothing was run.",
+    );
   } else showNoGo('The map could not start', String(e));
   throw e;
 }

@@ -218,12 +218,11 @@ describe.skipIf(missing !== null)('Content-Security-Policy in Chromium', () => {
         await listen(page);
         await page.goto(s.url);
         await page.waitForFunction(() => (window as unknown as { __violations: unknown[] }).__violations.length > 0, null, { timeout: 30_000 });
-        // The page does not go blank: it says it cannot draw. (Its words today are the no-WebGL
-        // message, because viewer/render/map-gl.ts takes any failure of createREGL, regl's refused
-        // Function included, for a missing WebGL: misleading under such a policy; see
-        // docs/reliability.md.)
+        // The page does not go blank: it says that the policy stops its drawing library (the
+        // refused Function surfaces as an EvalError), not that WebGL is missing.
         await page.waitForFunction(() => !document.getElementById('no-go')!.hidden);
-        expect(await page.textContent('#no-go h2')).toBe('This browser gives the page no WebGL');
+        expect(await page.textContent('#no-go h2')).toBe("The page's security policy stops its drawing library");
+        expect(await page.textContent('#no-go')).toContain("'unsafe-eval'");
         const seen = await pageViolations(page);
         for (const v of seen) {
           expect(v).toMatchObject({ directive: 'script-src', blocked: 'eval', disposition: 'enforce' });

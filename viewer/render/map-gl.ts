@@ -67,6 +67,9 @@ export class MapRenderer {
         attributes: { preserveDrawingBuffer: true, antialias: false },
       });
     } catch (e) {
+      // A Content-Security-Policy without 'unsafe-eval' stops regl's code generation: not a
+      // missing WebGL, and the page says which (viewer/main.ts).
+      if (e instanceof EvalError) throw e;
       throw new NoWebGLError(e instanceof Error ? e.message : String(e));
     }
     this.regl = regl;
