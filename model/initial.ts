@@ -5,6 +5,7 @@ import type { PhysicsConfig } from './config.ts';
 import { InputError } from './errors.ts';
 import type { Grid } from './grid.ts';
 import { State } from './state.ts';
+import * as pm from './portable-math.ts';
 
 export type InitialSpec =
   | { kind: 'rest' }
@@ -14,6 +15,9 @@ export type InitialSpec =
   | { kind: 'kelvin'; lon: number; amplitude: number; zonalWidthDeg: number }
   /** Long n = 1 Rossby wave centred at lon, with a Gaussian zonal envelope of e-folding width w. */
   | { kind: 'rossby'; lon: number; amplitude: number; zonalWidthDeg: number };
+
+/** x * x: the ** operator would call the host's pow. */
+const square = (x: number) => x * x;
 
 /** Equatorial scales: c = sqrt(g' H), L = sqrt(c / beta). */
 export function equatorialScales(physics: PhysicsConfig): { c: number; L: number } {
@@ -32,15 +36,16 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
     case 'bump': {
       if (!(spec.radiusDeg > 0)) throw new InputError(`bump radius must be > 0 degrees (got ${spec.radiusDeg})`, 'initial.radiusDeg');
       fillCentres(grid, s.h, (lon, lat) => {
-        const r2 = (lon - spec.lon) ** 2 + (lat - spec.lat) ** 2;
-        return spec.amplitude * Math.exp(-r2 / spec.radiusDeg ** 2);
+        const dLon = lon - spec.lon;
+        const dLat = lat - spec.lat;
+        return spec.amplitude * pm.exp(-(dLon * dLon + dLat * dLat) / (spec.radiusDeg * spec.radiusDeg));
       });
       break;
     }
     case 'kelvin': {
       if (!(spec.zonalWidthDeg > 0)) throw new InputError(`zonal width must be > 0 degrees (got ${spec.zonalWidthDeg})`, 'initial.zonalWidthDeg');
       const shape = (lon: number, y: number) =>
-        spec.amplitude * Math.exp(-(y * y) / (2 * L * L)) * Math.exp(-(((lon - spec.lon) / spec.zonalWidthDeg) ** 2));
+        spec.amplitude * pm.exp(-(y * y) / (2 * L * L)) * pm.exp(-square((lon - spec.lon) / spec.zonalWidthDeg));
       fillCentres(grid, s.h, (lon, _lat, y) => shape(lon, y));
       // Kelvin wave: u = (g'/c) h' = (c/H) h', in geostrophic balance with dh'/dy.
       fillU(grid, s.u, (lon, y) => (c / H) * shape(lon, y));
@@ -55,19 +60,19 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
       const a = spec.amplitude;
       const w = spec.zonalWidthDeg * mPerDeg;
       const x0 = spec.lon * mPerDeg;
-      const F = (lon: number) => Math.exp(-(((lon * mPerDeg - x0) / w) ** 2));
+      const F = (lon: number) => pm.exp(-square((lon * mPerDeg - x0) / w));
       const dFdx = (lon: number) => (-2 * (lon * mPerDeg - x0)) / (w * w) * F(lon);
       fillCentres(grid, s.h, (lon, _lat, y) => {
         const Y = y / L;
-        return a * F(lon) * (2 * Y * Y + 1) * Math.exp(-0.5 * Y * Y);
+        return a * F(lon) * (2 * Y * Y + 1) * pm.exp(-0.5 * Y * Y);
       });
       fillU(grid, s.u, (lon, y) => {
         const Y = y / L;
-        return (c / H) * a * F(lon) * (2 * Y * Y - 3) * Math.exp(-0.5 * Y * Y);
+        return (c / H) * a * F(lon) * (2 * Y * Y - 3) * pm.exp(-0.5 * Y * Y);
       });
       fillV(grid, s.v, (lon, y) => {
         const Y = y / L;
-        return (c / H) * a * (4 / 3) * L * dFdx(lon) * 2 * Y * Math.exp(-0.5 * Y * Y);
+        return (c / H) * a * (4 / 3) * L * dFdx(lon) * 2 * Y * pm.exp(-0.5 * Y * Y);
       });
       break;
     }

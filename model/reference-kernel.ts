@@ -7,6 +7,7 @@ import { defaultPhysics, type ModelConfig } from './config.ts';
 import type { WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
 import { Model, type LinearKernelName } from './model.ts';
+import * as pm from './portable-math.ts';
 
 const M_PER_DEG = 111.2e3;
 const DAY = 86400;
@@ -58,13 +59,13 @@ export function referenceStress(grid: Grid): WindStress {
       for (let j = 0; j < ny; j++) {
         const phic = (j + 0.5 - 0.5 * ny) / (0.5 * ny);
         for (let i = 0; i <= nx; i++) {
-          taux[grid.idx(i, j)] = -0.05 * Math.cos(0.5 * Math.PI * phic) * (0.9 + 0.1 * Math.cos((Math.PI * i) / nx));
+          taux[grid.idx(i, j)] = -0.05 * pm.cos(0.5 * Math.PI * phic) * (0.9 + 0.1 * pm.cos((Math.PI * i) / nx));
         }
       }
       for (let j = 0; j <= ny; j++) {
         const phiv = (j - 0.5 * ny) / (0.5 * ny);
         for (let i = 0; i < nx; i++) {
-          tauy[grid.idx(i, j)] = 0.01 * Math.sin(Math.PI * phiv) * Math.sin((Math.PI * (i + 0.5)) / nx);
+          tauy[grid.idx(i, j)] = 0.01 * pm.sin(Math.PI * phiv) * pm.sin((Math.PI * (i + 0.5)) / nx);
         }
       }
     },

@@ -141,14 +141,17 @@ export function regress(points: Array<[number, number]>): { slope: number; inter
   let stt = 0;
   let stx = 0;
   for (const [t, x] of points) {
-    stt += (t - mt) ** 2;
+    stt += (t - mt) * (t - mt);
     stx += (t - mt) * (x - mx);
   }
   if (stt === 0) throw new WaveFitError('all positions are at one time: no speed can be fitted');
   const slope = stx / stt;
   const intercept = mx - slope * mt;
   let rss = 0;
-  for (const [t, x] of points) rss += (x - intercept - slope * t) ** 2;
+  for (const [t, x] of points) {
+    const r = x - intercept - slope * t;
+    rss += r * r;
+  }
   const slopeError = n > 2 ? Math.sqrt(rss / (n - 2) / stt) : NaN;
   return { slope, intercept, slopeError };
 }

@@ -3,6 +3,7 @@
 
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
+import * as pm from '../portable-math.ts';
 
 export interface StepCoefficients {
   dt: number;
@@ -79,7 +80,7 @@ export function ghostFactor(slip: PhysicsConfig['slip']): number {
 
 export function coriolisAt(physics: PhysicsConfig, latDeg: number, yMetres: number): number {
   return physics.coriolis === 'spherical'
-    ? 2 * physics.earthRotation * Math.sin((latDeg * Math.PI) / 180)
+    ? 2 * physics.earthRotation * pm.sin((latDeg * Math.PI) / 180)
     : physics.beta * yMetres;
 }
 

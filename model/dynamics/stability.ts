@@ -3,6 +3,7 @@
 
 import type { DynamicsMode } from '../config.ts';
 import { InputError } from '../errors.ts';
+import * as pm from '../portable-math.ts';
 
 export type LimitingTerm = 'gravity-wave' | 'coriolis' | 'viscosity' | 'friction';
 
@@ -85,7 +86,7 @@ export function stabilityLimit(p: StabilityInput): StabilityLimit {
     const advection = p.advection ?? 2;
     const factor = p.thicknessFactor ?? 1.5;
     const cEff = p.c * Math.sqrt(factor) + advection;
-    const omega = Math.hypot(2 * cEff * k, p.fMax);
+    const omega = pm.hypot(2 * cEff * k, p.fMax);
     terms = {
       'gravity-wave': orInf(AB3_IMAGINARY_LIMIT / omega),
       coriolis: Infinity, // inside omega_max

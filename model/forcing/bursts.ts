@@ -1,10 +1,12 @@
 // Seeded random westerly bursts. A burst is an eastward Gaussian patch switched on by a pulse.
 // The same seed gives bit-identical draws: seedrandom's ARC4 generator works in integer arithmetic,
-// and besides it we use only + - * / and Math.log (the same routine in Node and Chromium, both V8).
+// and besides it we use only + - * / and the portable log (model/portable-math.ts): Math.log itself
+// differs between Node and Chromium in the last bit for some arguments (test/browser/reproducible.test.ts).
 
 import seedrandom from 'seedrandom';
 import type { BurstsPart } from './spec.ts';
 import { ForcingError } from './errors.ts';
+import * as pm from '../portable-math.ts';
 
 /** One drawn burst; recorded in output files so a run can be checked and repeated. */
 export interface DrawnBurst {
@@ -74,7 +76,7 @@ export function drawBursts(part: BurstsPart, seed: string, index = 0): DrawnBurs
   let t = w0;
   for (;;) {
     // 1 - u lies in (0, 1], so the log is finite.
-    t += -meanGap * Math.log(1 - rng());
+    t += -meanGap * pm.log(1 - rng());
     if (t > w1 || out.length >= MAX_BURSTS) break;
     const b: DrawnBurst = {
       part: index,

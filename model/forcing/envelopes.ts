@@ -2,6 +2,7 @@
 
 import type { EnvelopeSpec } from './spec.ts';
 import { ForcingError } from './errors.ts';
+import * as pm from '../portable-math.ts';
 
 export interface Envelope {
   /** The factor at time `days`. */
@@ -61,7 +62,7 @@ export function compileEnvelope(spec: EnvelopeSpec): Envelope {
         constant: false,
         at(t) {
           let s = mean;
-          for (const term of terms) s += term.amplitude * Math.cos(term.omega * (t - term.peak));
+          for (const term of terms) s += term.amplitude * pm.cos(term.omega * (t - term.peak));
           return s;
         },
       };

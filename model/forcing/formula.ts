@@ -8,6 +8,7 @@
 
 import jsep from 'jsep';
 import { ForcingError } from './errors.ts';
+import * as pm from '../portable-math.ts';
 
 /** Longest accepted formula, characters. Plenty for a pattern; bounds parse time and recursion. */
 export const MAX_FORMULA_LENGTH = 2000;
@@ -101,18 +102,18 @@ function fixed2(f: (a: number, b: number) => number): FunctionEntry {
 }
 
 const FUNCTIONS = new Map<string, FunctionEntry>([
-  ['sin', fixed1(Math.sin)],
-  ['cos', fixed1(Math.cos)],
-  ['tan', fixed1(Math.tan)],
-  ['asin', fixed1(Math.asin)],
-  ['acos', fixed1(Math.acos)],
-  ['atan', fixed1(Math.atan)],
-  ['sinh', fixed1(Math.sinh)],
-  ['cosh', fixed1(Math.cosh)],
-  ['tanh', fixed1(Math.tanh)],
-  ['exp', fixed1(Math.exp)],
-  ['log', fixed1(Math.log)],
-  ['log10', fixed1(Math.log10)],
+  ['sin', fixed1(pm.sin)],
+  ['cos', fixed1(pm.cos)],
+  ['tan', fixed1(pm.tan)],
+  ['asin', fixed1(pm.asin)],
+  ['acos', fixed1(pm.acos)],
+  ['atan', fixed1(pm.atan)],
+  ['sinh', fixed1(pm.sinh)],
+  ['cosh', fixed1(pm.cosh)],
+  ['tanh', fixed1(pm.tanh)],
+  ['exp', fixed1(pm.exp)],
+  ['log', fixed1(pm.log)],
+  ['log10', fixed1(pm.log10)],
   ['sqrt', fixed1(Math.sqrt)],
   ['abs', fixed1(Math.abs)],
   ['floor', fixed1(Math.floor)],
@@ -123,11 +124,11 @@ const FUNCTIONS = new Map<string, FunctionEntry>([
   ['deg', fixed1((r) => (r * 180) / Math.PI)],
   /** 1 where x >= 0, else 0. */
   ['step', fixed1((a) => (a >= 0 ? 1 : 0))],
-  ['atan2', fixed2(Math.atan2)],
-  ['pow', fixed2(Math.pow)],
-  ['hypot', fixed2(Math.hypot)],
+  ['atan2', fixed2(pm.atan2)],
+  ['pow', fixed2(pm.pow)],
+  ['hypot', fixed2(pm.hypot)],
   /** exp(-x^2 / (2 sigma^2)): a Gaussian of standard deviation sigma, 1 at x = 0. */
-  ['gauss', fixed2((a, s) => Math.exp(-(a * a) / (2 * s * s)))],
+  ['gauss', fixed2((a, s) => pm.exp(-(a * a) / (2 * s * s)))],
   [
     'min',
     {
@@ -189,7 +190,7 @@ const BINARY = new Map<string, (a: Closure, b: Closure) => Closure>([
   ['-', (a, b) => (x, y, t) => a(x, y, t) - b(x, y, t)],
   ['*', (a, b) => (x, y, t) => a(x, y, t) * b(x, y, t)],
   ['/', (a, b) => (x, y, t) => a(x, y, t) / b(x, y, t)],
-  ['**', (a, b) => (x, y, t) => Math.pow(a(x, y, t), b(x, y, t))],
+  ['**', (a, b) => (x, y, t) => pm.pow(a(x, y, t), b(x, y, t))],
   ['<', (a, b) => (x, y, t) => (a(x, y, t) < b(x, y, t) ? 1 : 0)],
   ['<=', (a, b) => (x, y, t) => (a(x, y, t) <= b(x, y, t) ? 1 : 0)],
   ['>', (a, b) => (x, y, t) => (a(x, y, t) > b(x, y, t) ? 1 : 0)],
@@ -233,7 +234,7 @@ function arithmetic(op: string, a: Closure, b: Closure): Closure | null {
       const v = a(x, y, t);
       return v * v;
     };
-    if (op === '**') return (x, y, t) => Math.pow(a(x, y, t), cb);
+    if (op === '**') return (x, y, t) => pm.pow(a(x, y, t), cb);
   } else if (ca !== undefined) {
     if (op === '+') return (x, y, t) => ca + b(x, y, t);
     if (op === '-') return (x, y, t) => ca - b(x, y, t);

@@ -3,6 +3,7 @@
 import type { BandProfile, ShapeSpec } from './spec.ts';
 import { ForcingError } from './errors.ts';
 import { compileFormula } from './formula.ts';
+import * as pm from '../portable-math.ts';
 
 export interface Shape {
   /** The shape at lon (degrees east), lat (degrees north), t (days). */
@@ -28,7 +29,7 @@ export function compileBand(p: BandProfile): (lat: number) => number {
     case 'cosine': {
       const c = num('band centre', p.centre);
       const hw = positive('band halfWidth', p.halfWidth);
-      return (lat) => (Math.abs(lat - c) < hw ? Math.cos(((Math.PI / 2) * (lat - c)) / hw) : 0);
+      return (lat) => (Math.abs(lat - c) < hw ? pm.cos(((Math.PI / 2) * (lat - c)) / hw) : 0);
     }
     case 'tanh': {
       const s = num('band south', p.south);
@@ -38,18 +39,18 @@ export function compileBand(p: BandProfile): (lat: number) => number {
       if (w < 0) throw new ForcingError(`band edge must not be negative (got ${w})`);
       // Half the difference of two tanh steps: 1 well inside, 1/2 on each edge latitude, 0 far out.
       if (w === 0) return (lat) => (lat > s && lat < n ? 1 : lat === s || lat === n ? 0.5 : 0);
-      return (lat) => 0.5 * (Math.tanh((lat - s) / w) - Math.tanh((lat - n) / w));
+      return (lat) => 0.5 * (pm.tanh((lat - s) / w) - pm.tanh((lat - n) / w));
     }
     case 'gap': {
       const c = num('gap centre', p.centre);
       const w = positive('gap width', p.width);
       const d = num('gap depth', p.depth);
-      return (lat) => 1 - d * Math.exp(-((lat - c) * (lat - c)) / (2 * w * w));
+      return (lat) => 1 - d * pm.exp(-((lat - c) * (lat - c)) / (2 * w * w));
     }
     case 'trades': {
       const e = positive('trades edgeLat', p.edgeLat);
       // Zero beyond +-edgeLat, where the cosine would turn negative (and positive again further out).
-      return (lat) => (Math.abs(lat) < e ? Math.cos((Math.PI * lat) / (2 * e)) : 0);
+      return (lat) => (Math.abs(lat) < e ? pm.cos((Math.PI * lat) / (2 * e)) : 0);
     }
     default:
       throw new ForcingError(`unknown band profile '${String((p as { kind: unknown }).kind)}'`);
@@ -66,8 +67,8 @@ export function compileShape(spec: ShapeSpec): Shape {
       const sx = positive('patch lonWidth', spec.lonWidth);
       const sy = positive('patch latWidth', spec.latWidth);
       const tilt = ((spec.tiltDeg === undefined ? 0 : num('patch tiltDeg', spec.tiltDeg)) * Math.PI) / 180;
-      const c = Math.cos(tilt);
-      const s = Math.sin(tilt);
+      const c = pm.cos(tilt);
+      const s = pm.sin(tilt);
       const ax = 1 / (2 * sx * sx);
       const ay = 1 / (2 * sy * sy);
       return {
@@ -79,7 +80,7 @@ export function compileShape(spec: ShapeSpec): Shape {
           // Coordinates along the patch's own axes, which are turned anticlockwise by tilt.
           const xr = dx * c + dy * s;
           const yr = -dx * s + dy * c;
-          return Math.exp(-(xr * xr * ax + yr * yr * ay));
+          return pm.exp(-(xr * xr * ax + yr * yr * ay));
         },
       };
     }

@@ -19,6 +19,7 @@ import { makeBulkFormula } from './bulk.ts';
 import { applyWeights, bilinearWeights, readNetcdfVectors, seriesFromGrid, timeBracket, type GriddedSeries, type Weights } from './gridded.ts';
 import { parseWindCsv } from './csv.ts';
 import { drawBursts, type DrawnBurst } from './bursts.ts';
+import * as pm from '../portable-math.ts';
 
 export interface WindBuildOptions {
   /** The run's seed for random bursts. */
@@ -206,7 +207,7 @@ function burstsTerm(bursts: DrawnBurst[], grid: Grid, u: Faces, v: Faces): Term 
   const gauss = (out: Float64Array, at: Float64Array, c: number, s: number) => {
     for (let k = 0; k < out.length; k++) {
       const d = (at[k] - c) / s;
-      out[k] = Math.exp(-0.5 * d * d);
+      out[k] = pm.exp(-0.5 * d * d);
     }
   };
   const addPatch = (faces: Faces, gx: Float64Array, gy: Float64Array, out: Float64Array, a: number) => {

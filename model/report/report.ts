@@ -9,6 +9,7 @@ import { hovmollerData, type RunData } from '../io/run-read.ts';
 import { derivedNumbers, resolveScenario, validateScenario, type DerivedNumbers } from '../scenario/index.ts';
 import { isMeasured, measureWaves, METRES_PER_DEGREE, type SpeedMeasure, type WaveMeasures } from './measure.ts';
 import { pngDataUrl } from './png.ts';
+import * as pm from '../portable-math.ts';
 
 export const CAUTION =
   'Idealised experiment of a reduced-gravity model: not a forecast, and not for navigation or safety decisions.';
@@ -149,7 +150,7 @@ function niceTicks(a: number, b: number, n: number): number[] {
   const span = b - a;
   if (!(span > 0)) return [a];
   const raw = span / n;
-  const p = 10 ** Math.floor(Math.log10(raw));
+  const p = pm.pow(10, Math.floor(pm.log10(raw)));
   const step = [1, 2, 5, 10].map((k) => k * p).find((s) => s >= raw) ?? 10 * p;
   const out: number[] = [];
   for (let v = Math.ceil(a / step) * step; v <= b + 1e-9 * span; v += step) out.push(Number(v.toPrecision(12)));

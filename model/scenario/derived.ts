@@ -5,6 +5,7 @@ import { DAY, type DynamicsMode } from '../config.ts';
 import type { Grid } from '../grid.ts';
 import { chooseTimeStep, stabilityLimit, type StabilityLimit } from '../dynamics/stability.ts';
 import type { ResolvedScenario } from './resolve.ts';
+import * as pm from '../portable-math.ts';
 
 export { stabilityLimit, type LimitingTerm, type StabilityInput, type StabilityLimit } from '../dynamics/stability.ts';
 
@@ -12,7 +13,7 @@ export { stabilityLimit, type LimitingTerm, type StabilityInput, type StabilityL
 export function maxCoriolis(r: ResolvedScenario): number {
   const { basin, physics } = r.model;
   const maxLat = Math.max(Math.abs(basin.latSouth), Math.abs(basin.latNorth));
-  if (physics.coriolis === 'spherical') return 2 * physics.earthRotation * Math.sin((maxLat * Math.PI) / 180);
+  if (physics.coriolis === 'spherical') return 2 * physics.earthRotation * pm.sin((maxLat * Math.PI) / 180);
   return physics.beta * ((maxLat * Math.PI) / 180) * physics.earthRadius;
 }
 

@@ -13,7 +13,9 @@ function rows(list: Array<[string, string]>): string {
 
 export function checkReport(name: string, file: string, d: DerivedNumbers, fields: readonly string[], days: number, everyDays: number, notes: readonly string[]): string {
   const s = d.stability;
-  const cfl = d.c * d.dt * Math.sqrt(1 / (d.dxKm * 1000) ** 2 + 1 / (d.dyKm * 1000) ** 2);
+  const dx = d.dxKm * 1000;
+  const dy = d.dyKm * 1000;
+  const cfl = d.c * d.dt * Math.sqrt(1 / (dx * dx) + 1 / (dy * dy));
   const list: Array<[string, string]> = [
     ['scenario', `${name} (${file})`],
     ['grid', `${d.nx} x ${d.ny} cells${d.oceanCells !== null ? `, ${d.oceanCells} ocean` : ''}; dx = ${d.dxKm.toFixed(1)} km, dy = ${d.dyKm.toFixed(1)} km`],
