@@ -27,12 +27,6 @@ export function lowWord(x: number): number {
   return u32[LO];
 }
 
-export function fromWords(hi: number, lo: number): number {
-  u32[HI] = hi >>> 0;
-  u32[LO] = lo >>> 0;
-  return f64[0];
-}
-
 /** x with its low 32 mantissa bits cleared: a short head whose products stay exact. */
 export function clearLowWord(x: number): number {
   f64[0] = x;
@@ -44,6 +38,11 @@ export function clearLowWord(x: number): number {
 const POW2 = new Float64Array(1074 + 1024);
 POW2[0] = Number.MIN_VALUE;
 for (let i = 1; i < POW2.length; i++) POW2[i] = POW2[i - 1] * 2;
+
+/** 2^k for k in [-1074, 1023]. */
+export function pow2(k: number): number {
+  return POW2[k + 1074];
+}
 
 /** y * 2^k with one rounding (the multiplication by the power of two) wherever that is possible. */
 export function scalePow2(y: number, k: number): number {

@@ -4,7 +4,7 @@
 // minimax polynomial (the published coefficients below) on the reduced interval. Written anew here.
 // Errors measured against Node's Math in test/model/portable-math.test.ts: under 1 ulp.
 
-import { clearLowWord, fromWords, highWord, lowWord, scalePow2 } from './bits.ts';
+import { clearLowWord, highWord, pow2, scalePow2 } from './bits.ts';
 
 export const LN2_HI = 6.93147180369123816490e-1; // 32 significant bits: k * LN2_HI is exact
 export const LN2_LO = 1.90821492927058770002e-10;
@@ -115,11 +115,13 @@ function splitLog(x: number): void {
     k = -54;
   }
   let hx = highWord(x);
-  k += (hx >> 20) - 1023;
+  const e = (hx >> 20) - 1023;
   hx &= 0x000fffff;
   const i = (hx + 0x95f64) & 0x100000; // is the mantissa above sqrt(2)? then halve it
-  const m = fromWords(hx | (i ^ 0x3ff00000), lowWord(x));
-  splitK = k + (i >> 20);
+  const shift = e + (i >> 20);
+  // the mantissa by an exact multiplication (writing the exponent bits into the double would stall the CPU's store forwarding)
+  const m = x * pow2(-shift);
+  splitK = k + shift;
   splitF = m - 1; // exact
   splitHighMantissa = hx;
 }

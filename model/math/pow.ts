@@ -7,7 +7,7 @@
 // ulp) plus at most ~0.01 ulp, for every result size up to overflow. Special cases: ECMAScript's
 // Number::exponentiate (which differs from IEEE 754 pow for (+-1)^(+-Infinity) and 1^NaN: NaN).
 
-import { errLow, fromWords, highWord, lowWord, twoProd, twoSum } from './bits.ts';
+import { errLow, highWord, pow2, twoProd, twoSum } from './bits.ts';
 import { expWithTail } from './exp-log.ts';
 
 const LN2_HI = 6.93147180559945286227e-1; // ln 2 = LN2_HI + LN2_LO to ~107 bits
@@ -29,11 +29,12 @@ function lnDoubleDouble(x: number): void {
     k = -54;
   }
   let hx = highWord(x);
-  k += (hx >> 20) - 1023;
+  const e = (hx >> 20) - 1023;
   hx &= 0x000fffff;
   const i = (hx + 0x95f64) & 0x100000;
-  const m = fromWords(hx | (i ^ 0x3ff00000), lowWord(x));
-  k += i >> 20;
+  const shift = e + (i >> 20);
+  const m = x * pow2(-shift); // exact: a power of two, result normal
+  k += shift;
   const f = m - 1; // exact
   // s = f / (2 + f) = sh + sl
   const den = 2 + f;

@@ -55,7 +55,7 @@ function codyWaite(ax: number): number {
   }
   reducedHi = y0;
   reducedLo = (r - y0) - w;
-  return fn % 4;
+  return fn & 3; // fn < 2^20: an exact int32
 }
 
 /** floor(2/pi * 2^TWO_OVER_PI_BITS), computed on first need. */

@@ -116,6 +116,6 @@ export function tan(x: number): number {
   if (ax <= PIO4_BOUND) return ax < 7.450580596923828e-9 ? x : tanKernel(x, 0, 1);
   if (ax === Infinity || x !== x) return NaN;
   const n = reduceHalfPi(ax);
-  const t = tanKernel(reducedHi, reducedLo, n % 2 === 0 ? 1 : -1);
+  const t = tanKernel(reducedHi, reducedLo, (n & 1) === 0 ? 1 : -1);
   return x < 0 ? -t : t;
 }
