@@ -17,6 +17,7 @@ import { checkInitial, initialState, type InitialSpec } from './initial.ts';
 import { State } from './state.ts';
 import { StripTeam, type StripHost, type TeamOptions } from './parallel/team.ts';
 import { checkThreadsOption, chooseThreads, type ThreadChoice, type ThreadsOption } from './parallel/threads.ts';
+import { wasmStripsAvailable } from './parallel/wasm-strips.ts';
 
 /** Flow faster than this is not an ocean any more (a blow-up), m s-1. */
 export const RUNAWAY_SPEED = 20;
@@ -177,16 +178,24 @@ export class Model {
   private async startTeam(host: StripHost, options: TeamOptions & { threads?: ThreadsOption }): Promise<ThreadChoice> {
     if (this.team) return { threads: this.team.size, notice: null };
     const asked = options.threads === undefined ? this.threadsAsked : checkThreadsOption(options.threads);
-    const choice = chooseThreads(asked, this.grid, this.physics.mode, host.cores, this.wasm ? 'wasm' : 'ts');
+    // The strips run the kernel the model runs: WebAssembly strips where the model steps on
+    // WebAssembly and the shared-memory module works here, else the TypeScript rows.
+    const stripKernel = options.kernel ?? (this.wasm && wasmStripsAvailable() ? 'wasm' : 'ts');
+    const choice = chooseThreads(asked, this.grid, this.physics.mode, host.cores, this.wasm ? 'wasm' : 'ts', stripKernel);
     if (choice.threads < 2) return choice;
-    const team = await StripTeam.start(this.grid, this.coefficients, choice.threads, host.spawn, options);
-    // The strips run the TypeScript rows on the shared buffers; the WebAssembly memory is left.
+    const team = await StripTeam.start(this.grid, this.coefficients, choice.threads, host.spawn, { ...options, kernel: stripKernel });
+    // The state moves into the team's shared buffers; the one-thread WebAssembly memory is left.
     team.adopt(this.state, this.accelX, this.accelY);
     this.accelX = team.fields.accelX;
     this.accelY = team.fields.accelY;
     this.wasm = null;
     this.team = team;
     return choice;
+  }
+
+  /** What computes the strips' rows ('ts' or 'wasm'); null without a strip team. */
+  get stripKernel(): 'ts' | 'wasm' | null {
+    return this.team?.kernelName ?? null;
   }
 
   /** Threads stepping this run (1 without a strip team). */

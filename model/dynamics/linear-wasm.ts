@@ -20,7 +20,8 @@ interface KernelExports {
 
 let compiled: WebAssembly.Module | null = null;
 
-function decode(b64: string): Uint8Array {
+/** The bytes of a base64 module text (atob exists in Node and in every worker). */
+export function decodeBase64(b64: string): Uint8Array {
   const bin = atob(b64);
   const out = new Uint8Array(bin.length);
   for (let i = 0; i < bin.length; i++) out[i] = bin.charCodeAt(i);
@@ -29,7 +30,7 @@ function decode(b64: string): Uint8Array {
 
 /** The compiled kernel module (compiled once per thread). */
 export function linearWasmModule(): WebAssembly.Module {
-  compiled ??= new WebAssembly.Module(decode(LINEAR_WASM_BASE64) as BufferSource);
+  compiled ??= new WebAssembly.Module(decodeBase64(LINEAR_WASM_BASE64) as BufferSource);
   return compiled;
 }
 

@@ -8,6 +8,7 @@
 import type { RowCoefficients } from '../dynamics/linear.ts';
 import { BARRIER_WORDS } from './barrier.ts';
 import type { StripRows } from './strip-schedule.ts';
+import type { WasmStripMemory } from './wasm-strips.ts';
 
 /** The command of round n is in word CMD + (n % 2); rounds are counted by each thread from 0. */
 export const CMD = BARRIER_WORDS;
@@ -43,6 +44,8 @@ export interface StripInit {
   control: Int32Array;
   /** Float64Array [friction, viscosity] over a SharedArrayBuffer, written before each "go". */
   params: Float64Array;
+  /** Present when the strips run the WebAssembly kernel: the shared memory the fields live in. */
+  wasm?: WasmStripMemory;
 }
 
 export type StripReply = { kind: 'strip-ready' } | { kind: 'strip-failed'; message: string };

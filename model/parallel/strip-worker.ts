@@ -4,7 +4,8 @@
 
 import { Barrier } from './barrier.ts';
 import { CMD, CURRENT, STEP, STOP, type StripInit, type StripReply } from './strip-protocol.ts';
-import { stripBack, stripBulk, stripEdge, stripFront, type StripFields } from './strip-schedule.ts';
+import { tsStripKernel } from './strip-kernel.ts';
+import { wasmStripKernel } from './wasm-strips.ts';
 
 export function isStripInit(m: unknown): m is StripInit {
   return typeof m === 'object' && m !== null && (m as { kind?: unknown }).kind === 'strip-init';
@@ -14,32 +15,24 @@ export function isStripInit(m: unknown): m is StripInit {
 export function runStrip(init: StripInit, reply: (r: StripReply) => void): void {
   const { grid: g, coefficients: c, fields, control, params, rows, edgePhase } = init;
   const barrier = new Barrier(control, 0, init.parties, init.spins);
-  const sets: StripFields[] = [0, 1].map((cur) => ({
-    accelX: fields.accelX,
-    accelY: fields.accelY,
-    u: fields.u[cur],
-    v: fields.v[cur],
-    h: fields.h,
-    un: fields.u[1 - cur],
-    vn: fields.v[1 - cur],
-  }));
+  const kernel = init.wasm ? wasmStripKernel(init.wasm, g, c, rows) : tsStripKernel(g, c, fields, rows);
   reply({ kind: 'strip-ready' });
   for (let round = 0; ; round++) {
     barrier.arrive();
     const cmd = Atomics.load(control, CMD + (round % 2));
     if (cmd === STOP) return;
     if (cmd !== STEP) continue;
-    const f = sets[Atomics.load(control, CURRENT)];
+    const cur = Atomics.load(control, CURRENT);
     const r = params[0];
     const A = params[1];
-    stripFront(g, c, r, A, f, rows);
+    kernel.front(cur, r, A);
     barrier.arrive();
-    stripBulk(g, c, r, A, f, rows);
+    kernel.bulk(cur, r, A);
     barrier.arrive();
-    stripBack(g, c, f, rows);
+    kernel.back(cur);
     if (edgePhase) {
       barrier.arrive();
-      stripEdge(g, c, f, rows);
+      kernel.edge(cur);
     }
   }
 }

@@ -10,7 +10,9 @@ import type { RowCoefficients } from '../dynamics/linear.ts';
 import type { State } from '../state.ts';
 import { Barrier } from './barrier.ts';
 import { CMD, CONTROL_WORDS, CURRENT, STEP, STOP, SYNC, type SharedFields, type StripInit, type StripReply } from './strip-protocol.ts';
-import { needsEdgeSponge, stripBack, stripBulk, stripBounds, stripEdge, stripFront, type StripFields, type StripRows } from './strip-schedule.ts';
+import { fieldSets, tsStripKernel, type StripKernel, type StripKernelName } from './strip-kernel.ts';
+import { needsEdgeSponge, stripBounds, type StripRows } from './strip-schedule.ts';
+import { createWasmStripMemory, wasmStripKernel, type WasmStripMemory } from './wasm-strips.ts';
 
 /** One worker as the team sees it; hosts wrap worker_threads or Web Workers in this. */
 export interface StripWorkerPort {
@@ -37,6 +39,8 @@ export interface TeamOptions {
   timeoutMs?: number;
   /** How long the workers may take to start (default 30 s). */
   startMs?: number;
+  /** What computes the rows: the TypeScript row functions (default) or the WebAssembly kernel. */
+  kernel?: StripKernelName;
 }
 
 export class StripTeamError extends Error {
@@ -59,8 +63,9 @@ export class StripTeam {
   private closed = false;
 
   private constructor(
-    private readonly grid: Pick<Grid, 'nx' | 'ny' | 'W' | 'maskU' | 'maskV'>,
-    private readonly c: RowCoefficients & { dt: number },
+    readonly kernelName: StripKernelName,
+    private readonly kernel: StripKernel,
+    private readonly c: { dt: number },
     fields: SharedFields,
     strips: StripRows[],
     private readonly workers: StripWorkerPort[],
@@ -72,18 +77,10 @@ export class StripTeam {
   ) {
     this.fields = fields;
     this.strips = strips;
-    this.own = [0, 1].map((cur) => ({
-      accelX: fields.accelX,
-      accelY: fields.accelY,
-      u: fields.u[cur],
-      v: fields.v[cur],
-      h: fields.h,
-      un: fields.u[1 - cur],
-      vn: fields.v[1 - cur],
-    }));
+    this.sets = fieldSets(fields);
   }
 
-  private readonly own: StripFields[];
+  private readonly sets: ReturnType<typeof fieldSets>;
 
   get size(): number {
     return this.strips.length;
@@ -96,17 +93,7 @@ export class StripTeam {
     }
     const strips = stripBounds(grid.ny, threads);
     const { size } = grid;
-    const fields: SharedFields = {
-      u: [sharedField(size), sharedField(size)],
-      v: [sharedField(size), sharedField(size)],
-      h: sharedField(size),
-      accelX: sharedField(size),
-      accelY: sharedField(size),
-    };
-    const maskU = sharedField(size);
-    const maskV = sharedField(size);
-    maskU.set(grid.maskU);
-    maskV.set(grid.maskV);
+    const kernelName = options.kernel ?? 'ts';
     const control = new Int32Array(new SharedArrayBuffer(4 * CONTROL_WORDS));
     const params = new Float64Array(new SharedArrayBuffer(16));
     const spins = options.spins ?? 4000;
@@ -127,6 +114,27 @@ export class StripTeam {
       coastU: c.coastU,
       coastV: c.coastV,
     };
+    // The TypeScript strips keep each field in a SharedArrayBuffer of its own; the WebAssembly
+    // strips keep them all in one shared WebAssembly.Memory (with masks and tables).
+    let fields: SharedFields;
+    let wasm: WasmStripMemory | undefined;
+    const maskU = sharedField(size);
+    const maskV = sharedField(size);
+    maskU.set(grid.maskU);
+    maskV.set(grid.maskV);
+    if (kernelName === 'wasm') {
+      const made = createWasmStripMemory(grid, coefficients);
+      fields = made.fields;
+      wasm = made.shared;
+    } else {
+      fields = {
+        u: [sharedField(size), sharedField(size)],
+        v: [sharedField(size), sharedField(size)],
+        h: sharedField(size),
+        accelX: sharedField(size),
+        accelY: sharedField(size),
+      };
+    }
     const workers: StripWorkerPort[] = [];
     const terminateAll = () => {
       for (const w of workers) w.terminate();
@@ -153,6 +161,7 @@ export class StripTeam {
             fields,
             control,
             params,
+            ...(wasm ? { wasm } : {}),
           };
           w.postMessage(init);
         });
@@ -173,7 +182,8 @@ export class StripTeam {
     }
     for (const w of workers) w.unref?.();
     const leaderGrid = { nx: grid.nx, ny: grid.ny, W: grid.W, maskU, maskV };
-    return new StripTeam(leaderGrid, c, fields, strips, workers, control, params, new Barrier(control, 0, strips.length, spins), edgePhase, options.timeoutMs ?? 20_000);
+    const kernel = wasm ? wasmStripKernel(wasm, leaderGrid, coefficients, strips[0]) : tsStripKernel(leaderGrid, coefficients, fields, strips[0]);
+    return new StripTeam(kernelName, kernel, c, fields, strips, workers, control, params, new Barrier(control, 0, strips.length, spins), edgePhase, options.timeoutMs ?? 20_000);
   }
 
   /** Copy a state's fields into the shared buffers; from then on state.u/v/h are the shared views. */
@@ -221,22 +231,21 @@ export class StripTeam {
     if (state.u !== this.fields.u[cur] || state.v !== this.fields.v[cur] || state.h !== this.fields.h) {
       throw new StripTeamError('the state stepped by a strip team must be the one it adopted');
     }
-    const g = this.grid;
     const c = this.c;
-    const s = this.strips[0];
-    const f = this.own[cur];
+    const f = this.sets[cur];
+    const k = this.kernel;
     this.params[0] = friction;
     this.params[1] = viscosity;
     Atomics.store(this.control, CURRENT, cur);
     this.go(STEP);
-    stripFront(g, c, friction, viscosity, f, s);
+    k.front(cur, friction, viscosity);
     this.arrive();
-    stripBulk(g, c, friction, viscosity, f, s);
+    k.bulk(cur, friction, viscosity);
     this.arrive();
-    stripBack(g, c, f, s);
+    k.back(cur);
     if (this.edgePhase) {
       this.arrive();
-      stripEdge(g, c, f, s);
+      k.edge(cur);
     }
     this.pending = true;
     this.current = 1 - cur;

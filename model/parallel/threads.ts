@@ -37,6 +37,7 @@ export function chooseThreads(
   mode: 'linear' | 'nonlinear',
   cores: number,
   singleKernel: 'ts' | 'wasm' = 'ts',
+  stripKernel: 'ts' | 'wasm' = 'ts',
 ): ThreadChoice {
   checkThreadsOption(requested);
   const asked = requested === 'auto' ? 'auto' : String(requested);
@@ -46,7 +47,7 @@ export function chooseThreads(
   }
   if (requested === 'auto') {
     const coreWord = `${cores} core${cores === 1 ? '' : 's'}`;
-    if (singleKernel === 'wasm' && cores < AUTO_MIN_CORES_OVER_WASM) {
+    if (singleKernel === 'wasm' && stripKernel === 'ts' && cores < AUTO_MIN_CORES_OVER_WASM) {
       return { threads: 1, notice: `threads auto: 1 (${coreWord}: the one-thread WebAssembly step is faster than ${cores} TypeScript strips)` };
     }
     const byWork = Math.floor((grid.nx * grid.ny) / AUTO_MIN_CELLS_PER_STRIP);

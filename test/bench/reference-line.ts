@@ -10,9 +10,10 @@ import { nodeStripHost } from '../../worker/strips-node.ts';
 const [nx, ny, steps] = process.argv.slice(2, 5).map(Number);
 const label = process.argv[5] ?? 'ts-double';
 // The label names the path: ts-double (plain TypeScript), wasm-simd (WebAssembly SIMD),
-// ts-strips-N (the TypeScript rows in N latitude strips on N threads, model/parallel/).
+// ts-strips-N (the TypeScript rows in N latitude strips on N threads, model/parallel/),
+// wasm-strips-N (the WebAssembly kernel in N strips over one shared memory).
 const kernel: LinearKernelName = label.startsWith('wasm') ? 'wasm' : 'ts';
-const strips = /^ts-strips-(\d+)$/.exec(label);
+const strips = /^(?:ts|wasm)-strips-(\d+)$/.exec(label);
 if (!(nx >= 8 && ny >= 24 && steps >= 0)) {
   console.error('usage: reference-line NX NY STEPS [LABEL]');
   process.exit(2);
@@ -24,9 +25,11 @@ if (strips) {
   // steady wind stays filled; the new-velocity buffers are overwritten before they are read).
   const config = referenceConfig(nx, ny);
   const wind = referenceStress(new Grid(config.basin, config.physics.earthRadius));
-  model = new Model(config, { variant: { ghost: 0, coriolis: 'collocated' }, wind, kernel: 'ts', threads: Number(strips[1]) });
+  model = new Model(config, { variant: { ghost: 0, coriolis: 'collocated' }, wind, kernel, threads: Number(strips[1]) });
   const choice = await model.startThreads(nodeStripHost());
   if (choice.threads !== Number(strips[1])) console.error(`(${label}: ${choice.notice})`);
+  const ran = model.stripKernel;
+  if (ran !== kernel) throw new Error(`${label}: the strips ran the ${ran ?? 'one-thread'} kernel`);
   model.advance(warmSteps);
   for (const f of [model.state.u, model.state.v, model.state.h]) f.fill(0);
   model.state.steps = 0;

@@ -1,0 +1,130 @@
+// The WebAssembly strips (model/parallel/wasm-strips.ts, kernel wasm/strips.as.ts) must give the
+// bits of the plain TypeScript step for every value of u, v and h: the same row arithmetic, the
+// same strip schedule and barriers as the TypeScript strips, only the rows computed by the
+// WebAssembly kernel over one shared memory. The same basins as strips.test.ts (land, free and no
+// slip, sponges across strip edges, a wind that changes in time, friction, viscosity).
+
+import { readFileSync } from 'node:fs';
+import { afterEach, describe, expect, it } from 'vitest';
+import type { ModelConfig } from '../../model/config.ts';
+import { linearStepPlain, linearWork } from '../../model/dynamics/linear.ts';
+import { compileStripKernel, STRIPS_OUTPUT, stripsModuleText } from '../../model/dynamics/wasm/build.ts';
+import type { Model } from '../../model/model.ts';
+import { needsEdgeSponge, stripBounds } from '../../model/parallel/strip-schedule.ts';
+import { chooseThreads } from '../../model/parallel/threads.ts';
+import { createWasmStripMemory, wasmStripKernel, wasmStripsAvailable } from '../../model/parallel/wasm-strips.ts';
+import { basin, countingHost, model, sameBits } from './strip-helpers.ts';
+
+const open: Model[] = [];
+afterEach(async () => {
+  await Promise.all(open.splice(0).map((m) => m.close()));
+});
+
+describe('WebAssembly strip kernel on one thread', () => {
+  it('compiles with shared memory here, and the committed module is built from the current source', async () => {
+    expect(wasmStripsAvailable()).toBe(true);
+    expect(readFileSync(STRIPS_OUTPUT, 'utf8')).toBe(stripsModuleText(await compileStripKernel()));
+  });
+
+  it('equals linearStepPlain for every strip count of a small basin, phases serialised, sponges across strip edges', () => {
+    const cfg = basin(25, 9, 'no', 3);
+    const a = model(cfg);
+    a.advance(60);
+    const c = a.coefficients;
+    const p = a.physics;
+    const ax = (a as unknown as { accelX: Float64Array }).accelX;
+    const ay = (a as unknown as { accelY: Float64Array }).accelY;
+    let edgeCounts = 0;
+    for (let strips = 1; strips <= 9; strips++) {
+      const x = a.state.clone();
+      const wx = linearWork(a.grid);
+      const { shared, fields } = createWasmStripMemory(a.grid, c);
+      fields.u[0].set(x.u);
+      fields.v[0].set(x.v);
+      fields.h.set(x.h);
+      fields.accelX.set(ax);
+      fields.accelY.set(ay);
+      const bounds = stripBounds(a.grid.ny, strips);
+      // one instance per strip on the one memory, as the threads of a team have
+      const kernels = bounds.map((s) => wasmStripKernel(shared, a.grid, c, s));
+      if (bounds.some((s) => needsEdgeSponge(c, s))) edgeCounts++;
+      let cur = 0;
+      for (let s = 0; s < 30; s++) {
+        // a friction and viscosity that change between steps count as well
+        const r = p.friction * (1 + 0.1 * (s % 3));
+        const A = p.viscosity * (1 + 0.05 * (s % 2));
+        linearStepPlain(a.grid, c, r, A, ax, ay, x, wx);
+        for (const k of kernels) k.front(cur, r, A);
+        for (const k of kernels) k.bulk(cur, r, A);
+        for (const k of kernels) k.back(cur);
+        for (const k of kernels) k.edge(cur);
+        cur = 1 - cur;
+      }
+      expect(sameBits(x.u, fields.u[cur]), `u, ${strips} strips`).toBe(true);
+      expect(sameBits(x.v, fields.v[cur]), `v, ${strips} strips`).toBe(true);
+      expect(sameBits(x.h, fields.h), `h, ${strips} strips`).toBe(true);
+    }
+    // some of the strip counts put a strip's bottom v row into a sponge band (the edge phase)
+    expect(edgeCounts).toBeGreaterThan(0);
+  });
+});
+
+describe('WebAssembly strip team on worker threads', () => {
+  const cases: Array<{ name: string; cfg: ModelConfig; threads: number; steps: number[] }> = [
+    { name: '64 x 48, 2 threads, free slip', cfg: basin(64, 48, 'free', 8), threads: 2, steps: [1, 49, 250] },
+    { name: '40 x 7, one row per strip, sponge at strip edges', cfg: basin(40, 7, 'no', 2), threads: 7, steps: [300] },
+    { name: '33 x 13 (odd rows and columns), 3 threads, no slip', cfg: basin(33, 13, 'no', 3), threads: 3, steps: [7, 293] },
+    { name: '50 x 24, 4 threads, no slip', cfg: basin(50, 24, 'no', 4), threads: 4, steps: [120, 180] },
+  ];
+  for (const { name, cfg, threads, steps } of cases) {
+    it(`gives the plain TypeScript bits for u, v and h (${name})`, async () => {
+      const one = model(cfg);
+      const many = model(cfg, threads, 'wasm');
+      open.push(many);
+      const counter = countingHost();
+      const choice = await many.startThreads(counter.host);
+      expect(choice.threads).toBe(threads);
+      expect(many.threads).toBe(threads);
+      expect(many.stripKernel).toBe('wasm');
+      expect(counter.started()).toBe(threads - 1);
+      for (const n of steps) {
+        one.advance(n);
+        many.advance(n);
+        expect(many.state.steps).toBe(one.state.steps);
+        expect(many.state.time).toBe(one.state.time);
+        expect(sameBits(many.state.u, one.state.u), 'u').toBe(true);
+        expect(sameBits(many.state.v, one.state.v), 'v').toBe(true);
+        expect(sameBits(many.state.h, one.state.h), 'h').toBe(true);
+      }
+      expect(Math.max(...one.state.h)).toBeGreaterThan(0);
+      expect(Math.min(...one.state.h)).toBeLessThan(0);
+      await many.close();
+      const codes = await Promise.all(counter.exits);
+      expect(codes).toHaveLength(threads - 1);
+      expect(many.threads).toBe(1);
+    });
+  }
+
+  it('the state stays readable after close, and a TypeScript model keeps the TypeScript strips', async () => {
+    const cfg = basin(48, 20, 'free', 3);
+    const one = model(cfg);
+    const w = model(cfg, 2, 'wasm');
+    const t = model(cfg, 2, 'ts');
+    open.push(w, t);
+    await w.startThreads(countingHost().host);
+    await t.startThreads(countingHost().host);
+    expect(w.stripKernel).toBe('wasm');
+    expect(t.stripKernel).toBe('ts');
+    for (const m of [one, w, t]) m.advance(150);
+    await w.close();
+    expect(sameBits(w.state.h, one.state.h)).toBe(true);
+    expect(sameBits(t.state.h, one.state.h)).toBe(true);
+    expect(sameBits(t.state.u, w.state.u)).toBe(true);
+  });
+
+  it("'auto' over the WebAssembly strips takes one thread per core while a strip keeps enough cells", () => {
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm', 'wasm').threads).toBe(2);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm', 'ts').threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 160, ny: 60 }, 'linear', 8, 'wasm', 'wasm').threads).toBe(1);
+  });
+});
