@@ -4,7 +4,9 @@
 // minimax polynomial (the published coefficients below) on the reduced interval. Written anew here.
 // Errors measured against Node's Math in test/model/portable-math.test.ts: under 1 ulp.
 
-import { clearLowWord, highWord, pow2, scalePow2 } from './bits.ts';
+import * as bits from './bits.ts';
+// Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
+const { clearLowWord, highWord, pow2, scalePow2 } = bits;
 
 export const LN2_HI = 6.93147180369123816490e-1; // 32 significant bits: k * LN2_HI is exact
 export const LN2_LO = 1.90821492927058770002e-10;

@@ -1,7 +1,9 @@
 // sinh, cosh, tanh from exp and expm1 (expm1 near 0, where e^x - 1 cancels). Method and thresholds:
 // fdlibm's e_sinh.c, e_cosh.c, s_tanh.c. A few ulp at most (test/model/portable-math.test.ts).
 
-import { exp, expm1 } from './exp-log.ts';
+import * as expLog from './exp-log.ts';
+// Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
+const { exp, expm1 } = expLog;
 
 const LN2_HALF = 0.34657359027997264;
 const LN_MAX = 7.09782712893383973096e2; // ln of the largest double

@@ -2,7 +2,9 @@
 // power of two, take the square root, then one Newton correction with the squares computed exactly
 // (Dekker's product). Specials as ECMAScript's Math.hypot: an infinity wins over NaN.
 
-import { errLow, twoProd, twoSum } from './bits.ts';
+import * as bits from './bits.ts';
+// Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
+const { low, twoProd, twoSum } = bits;
 
 const BIG = 3.273390607896142e150; // 2^500
 const SMALL = 3.054936363499605e-151; // 2^-500
@@ -33,13 +35,13 @@ export function hypot(x: number, y: number): number {
   let h = Math.sqrt(a * a + b * b);
   // h^2 - (a^2 + b^2) from exact pieces, then h -= residual / 2h
   const aa = twoProd(a, a);
-  const aaLow = errLow;
+  const aaLow = low[0];
   const bb = twoProd(b, b);
-  const bbLow = errLow;
+  const bbLow = low[0];
   const s = twoSum(aa, bb);
-  const sLow = errLow + aaLow + bbLow;
+  const sLow = low[0] + aaLow + bbLow;
   const hh = twoProd(h, h);
-  const hhLow = errLow;
+  const hhLow = low[0];
   const residual = (hh - s) + (hhLow - sLow);
   h -= residual / (2 * h);
   return h * scale;

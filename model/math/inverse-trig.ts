@@ -3,7 +3,9 @@
 // infinity with atan of each breakpoint in two parts, then a Remez polynomial; asin and acos by a
 // Remez rational approximation on |x| < 1/2 and the half-angle identity with sqrt beyond.
 
-import { clearLowWord, highWord } from './bits.ts';
+import * as bits from './bits.ts';
+// Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
+const { clearLowWord, highWord } = bits;
 
 const ATAN_HI = [4.63647609000806093515e-1, 7.85398163397448278999e-1, 9.82793723247329054082e-1, 1.57079632679489655800e0];
 const ATAN_LO = [2.26987774529616870924e-17, 3.06161699786838301793e-17, 1.39033110312309984516e-17, 6.12323399573676603587e-17];

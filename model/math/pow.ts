@@ -7,16 +7,19 @@
 // ulp) plus at most ~0.01 ulp, for every result size up to overflow. Special cases: ECMAScript's
 // Number::exponentiate (which differs from IEEE 754 pow for (+-1)^(+-Infinity) and 1^NaN: NaN).
 
-import { errLow, highWord, pow2, twoProd, twoSum } from './bits.ts';
-import { expWithTail } from './exp-log.ts';
+import * as bits from './bits.ts';
+import * as expLog from './exp-log.ts';
+// Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
+const { low, highWord, pow2, twoProd, twoSum } = bits;
+const { expWithTail } = expLog;
 
 const LN2_HI = 6.93147180559945286227e-1; // ln 2 = LN2_HI + LN2_LO to ~107 bits
 const LN2_LO = 2.319046813846299558e-17;
 const TWO_THIRDS_HI = 2 / 3;
-const TWO_THIRDS_LO = ((2 - twoProd(3, TWO_THIRDS_HI)) - errLow) / 3; // 2/3 - TWO_THIRDS_HI
-/** 2/(2n+1) for n = 2 .. 13: the atanh series beyond its s^3 term. */
-const ATANH_TAIL: number[] = [];
-for (let n = 2; n <= 13; n++) ATANH_TAIL.push(2 / (2 * n + 1));
+const TWO_THIRDS_LO = ((2 - twoProd(3, TWO_THIRDS_HI)) - low[0]) / 3; // 2/3 - TWO_THIRDS_HI
+// 2/(2n+1) for n = 2 .. 13: the atanh series beyond its s^3 term (IEEE divisions, the same everywhere).
+const A5 = 2 / 5, A7 = 2 / 7, A9 = 2 / 9, A11 = 2 / 11, A13 = 2 / 13, A15 = 2 / 15;
+const A17 = 2 / 17, A19 = 2 / 19, A21 = 2 / 21, A23 = 2 / 23, A25 = 2 / 25, A27 = 2 / 27;
 
 let lnHi = 0;
 let lnLo = 0;
@@ -41,28 +44,27 @@ function lnDoubleDouble(x: number): void {
   const denLow = f - (den - 2); // exact rounding error of 2 + f
   const sh = f / den;
   const p = twoProd(sh, den);
-  const sl = ((f - p) - errLow - sh * denLow) / den;
+  const sl = ((f - p) - low[0] - sh * denLow) / den;
   // s^2 and s^3 in double-double
   const z = twoProd(sh, sh);
-  const zl = errLow + 2 * sh * sl;
+  const zl = low[0] + 2 * sh * sl;
   const c = twoProd(sh, z);
-  const cl = errLow + (sh * zl + sl * z);
+  const cl = low[0] + (sh * zl + sl * z);
   // (2/3) s^3
   const d = twoProd(c, TWO_THIRDS_HI);
-  const dl = errLow + (cl * TWO_THIRDS_HI + c * TWO_THIRDS_LO);
+  const dl = low[0] + (cl * TWO_THIRDS_HI + c * TWO_THIRDS_LO);
   // s^5 (2/5 + 2 s^2/7 + ...)
-  let q = ATANH_TAIL[ATANH_TAIL.length - 1];
-  for (let n = ATANH_TAIL.length - 2; n >= 0; n--) q = ATANH_TAIL[n] + z * q;
+  const q = A5 + z * (A7 + z * (A9 + z * (A11 + z * (A13 + z * (A15 + z * (A17 + z * (A19 + z * (A21 + z * (A23 + z * (A25 + z * A27))))))))));
   const tail = c * z * q;
   const a = twoSum(2 * sh, d);
-  const al = errLow + (dl + tail + 2 * sl);
+  const al = low[0] + (dl + tail + 2 * sl);
   const lh = a + al;
   const ll = al - (lh - a);
   // + k ln 2
   const kh = twoProd(k, LN2_HI);
-  const kl = errLow + k * LN2_LO;
+  const kl = low[0] + k * LN2_LO;
   const t = twoSum(kh, lh);
-  const tl = errLow + (ll + kl);
+  const tl = low[0] + (ll + kl);
   lnHi = t + tl;
   lnLo = tl - (lnHi - t);
 }
@@ -100,7 +102,7 @@ export function pow(x: number, y: number): number {
   if (y === 1) return negate ? -x : x;
   lnDoubleDouble(x);
   const ph = twoProd(y, lnHi);
-  const pl = errLow + y * lnLo;
+  const pl = low[0] + y * lnLo;
   let r: number;
   if (ph !== ph || ph > 1000) r = Infinity; // also y ln x overflowing as a product
   else if (ph < -1000) r = 0;

@@ -6,7 +6,9 @@
 // the bits of 2/pi computed once from Machin's formula for pi. So every finite x is reduced to
 // ~100 correct bits: sin(1e22) is as good as sin(1).
 
-import { highWord, scalePow2, twoProd, errLow, lowWord } from './bits.ts';
+import * as bits from './bits.ts';
+// Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
+const { highWord, scalePow2, twoProd, low, lowWord } = bits;
 
 const INV_PIO2 = 6.36619772367581382433e-1;
 const PIO2_1 = 1.57079632673412561417e0; // first 33 bits of pi/2
@@ -18,11 +20,10 @@ const PIO2_3T = 8.47842766036889956997e-32;
 export const PIO2_HI = 1.5707963267948966; // pi/2 = PIO2_HI + PIO2_LO to ~107 bits
 export const PIO2_LO = 6.123233995736766e-17;
 
-/** High and low parts of the last reduction. */
-export let reducedHi = 0;
-export let reducedLo = 0;
+/** High [0] and low [1] parts of the last reduction (a typed array: see low in bits.ts). */
+export const reduced = new Float64Array(2);
 
-/** Reduces |x| (finite, > pi/4); returns n mod 4 for |x| and leaves y in reducedHi/Lo. The caller applies x's sign. */
+/** Reduces |x| (finite, > pi/4); returns n mod 4 for |x| and leaves y in reduced. The caller applies x's sign. */
 export function reduceHalfPi(ax: number): number {
   if (ax < 1647099.3291652855) return codyWaite(ax);
   return payneHanek(ax);
@@ -53,8 +54,8 @@ function codyWaite(ax: number): number {
       y0 = r - w;
     }
   }
-  reducedHi = y0;
-  reducedLo = (r - y0) - w;
+  reduced[0] = y0;
+  reduced[1] = (r - y0) - w;
   return fn & 3; // fn < 2^20: an exact int32
 }
 
@@ -117,9 +118,9 @@ function payneHanek(ax: number): number {
   fh = s;
   // times pi/2 in double-double
   const p = twoProd(fh, PIO2_HI);
-  const pe = errLow + (fh * PIO2_LO + fl * PIO2_HI);
+  const pe = low[0] + (fh * PIO2_LO + fl * PIO2_HI);
   const y0 = p + pe;
-  reducedHi = negative ? -y0 : y0;
-  reducedLo = negative ? -(pe - (y0 - p)) : pe - (y0 - p);
+  reduced[0] = negative ? -y0 : y0;
+  reduced[1] = negative ? -(pe - (y0 - p)) : pe - (y0 - p);
   return n;
 }

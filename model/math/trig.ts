@@ -3,8 +3,11 @@
 // interval with the published coefficients, the low part of the reduced argument carried through.
 // Under 1 ulp for sin and cos, about 1 ulp for tan (test/model/portable-math.test.ts).
 
-import { clearLowWord, highWord } from './bits.ts';
-import { reduceHalfPi, reducedHi, reducedLo } from './trig-reduction.ts';
+import * as bits from './bits.ts';
+import * as reduction from './trig-reduction.ts';
+// Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
+const { clearLowWord, highWord } = bits;
+const { reduceHalfPi, reduced } = reduction;
 
 const S1 = -1.66666666666666324348e-1;
 const S2 = 8.33333333332248946124e-3;
@@ -90,8 +93,8 @@ export function sin(x: number): number {
   if (ax === Infinity || x !== x) return NaN;
   const n = reduceHalfPi(ax);
   const s = x < 0 ? -1 : 1;
-  const y0 = reducedHi;
-  const y1 = reducedLo;
+  const y0 = reduced[0];
+  const y1 = reduced[1];
   if (n === 0) return s * sinKernel(y0, y1);
   if (n === 1) return s * cosKernel(y0, y1);
   if (n === 2) return -s * sinKernel(y0, y1);
@@ -103,8 +106,8 @@ export function cos(x: number): number {
   if (ax <= PIO4_BOUND) return ax < 7.450580596923828e-9 ? 1 : cosKernel(ax, 0);
   if (ax === Infinity || x !== x) return NaN;
   const n = reduceHalfPi(ax);
-  const y0 = reducedHi;
-  const y1 = reducedLo;
+  const y0 = reduced[0];
+  const y1 = reduced[1];
   if (n === 0) return cosKernel(y0, y1);
   if (n === 1) return -sinKernel(y0, y1);
   if (n === 2) return -cosKernel(y0, y1);
@@ -116,6 +119,6 @@ export function tan(x: number): number {
   if (ax <= PIO4_BOUND) return ax < 7.450580596923828e-9 ? x : tanKernel(x, 0, 1);
   if (ax === Infinity || x !== x) return NaN;
   const n = reduceHalfPi(ax);
-  const t = tanKernel(reducedHi, reducedLo, (n & 1) === 0 ? 1 : -1);
+  const t = tanKernel(reduced[0], reduced[1], (n & 1) === 0 ? 1 : -1);
   return x < 0 ? -t : t;
 }
