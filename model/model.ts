@@ -39,7 +39,8 @@ export interface ModelOptions {
   /**
    * Threads for the linear step, split into latitude strips (model/parallel/): a count, or 'auto'
    * (one per core where each strip keeps at least 40,000 cells, and with the WebAssembly kernel
-   * at hand only from 4 cores; see chooseThreads). Default 1.
+   * at hand only from 4 cores; see chooseThreads). Default 1. The strips run the WebAssembly kernel
+   * over one shared memory when this model steps on WebAssembly, else the TypeScript rows.
    * Takes effect when the host calls startThreads(); the results are the same bits either way.
    * The nonlinear scheme always runs on one thread.
    */

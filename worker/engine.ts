@@ -199,8 +199,10 @@ export class Engine {
     } else {
       try {
         const choice = await model.startThreads(this.strips.host, { threads: asked });
-        note = choice.notice ?? `linear step on ${model.threads} threads (latitude strips)`;
-        if (choice.notice && model.threads > 1) note += `; linear step on ${model.threads} threads (latitude strips)`;
+        const rows = model.stripKernel === 'wasm' ? 'WebAssembly SIMD' : 'TypeScript';
+        const on = `linear step on ${model.threads} threads (latitude strips), ${rows}`;
+        note = choice.notice ?? on;
+        if (choice.notice && model.threads > 1) note += `; ${on}`;
       } catch (e) {
         note = `threads ${asked}: the strip workers did not start (${e instanceof Error ? e.message : String(e)}); the step runs on one thread`;
       }

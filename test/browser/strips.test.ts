@@ -1,5 +1,5 @@
 // The page's engine with the linear step in latitude strips (nested workers over shared memory,
-// the page being cross-origin isolated) ends in the same state as the same engine on one worker,
+// the page being cross-origin isolated; the WebAssembly kernel over one shared WebAssembly.Memory) ends in the same state as the same engine on one worker,
 // both in Chromium. The built engine worker is driven directly with comlink's message format (a
 // plain object per call), so the page's own engine and viewer are left alone. Without the
 // COOP/COEP headers the engine says it runs on one worker, and still runs.
@@ -111,7 +111,8 @@ describe.skipIf(missing !== null)('the page engine with strip workers', () => {
     const strips = await runEngine(page, workerPath, scenario, 2);
     const one = await runEngine(page, workerPath, scenario, 1);
     expect(strips.ok && one.ok, [...strips.notes, ...one.notes].join('; ')).toBe(true);
-    expect(strips.notes).toContain('linear step on 2 threads (latitude strips)');
+    // the page's engine steps on WebAssembly, so its strips run the WebAssembly kernel too
+    expect(strips.notes).toContain('linear step on 2 threads (latitude strips), WebAssembly SIMD');
     expect(one.notes.some((n) => /threads/.test(n))).toBe(false);
     expect(strips.status).toBe('finished');
     expect(strips.step).toBe(one.step);
