@@ -7,7 +7,9 @@ import type { StripHost } from '../model/parallel/team.ts';
 export function browserStripHost(): StripHost | null {
   if (!globalThis.crossOriginIsolated || typeof SharedArrayBuffer === 'undefined') return null;
   return {
-    cores: globalThis.navigator?.hardwareConcurrency ?? 1,
+    // One core is left to the page's own thread (drawing, input): with 'auto' the strips would
+    // otherwise take every core while the page draws.
+    cores: Math.max(1, (globalThis.navigator?.hardwareConcurrency ?? 1) - 1),
     spawn() {
       const w = new Worker(new URL('./strip-browser-entry.ts', import.meta.url), { type: 'module', name: 'pycno-strip' });
       return {

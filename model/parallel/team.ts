@@ -26,7 +26,7 @@ export interface StripWorkerPort {
 
 export type StripSpawner = () => StripWorkerPort;
 
-/** What a host offers a model for strips: a way to start a worker, and its core count. */
+/** What a host offers a model for strips: a way to start a worker, and the cores strips may take. */
 export interface StripHost {
   spawn: StripSpawner;
   cores: number;

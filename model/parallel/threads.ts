@@ -1,10 +1,10 @@
 // How many strip threads a run gets. 'auto' is one thread per available core, but only where a
 // strip keeps enough work to hide the barriers (AUTO_MIN_CELLS_PER_STRIP cells), and only where
 // the strips were measured to beat the one-thread step. Over a model on WebAssembly the strips run
-// the WebAssembly kernel too (wasm-strips.ts; the TypeScript rows where that module does not
-// work), and on this 2-core machine neither 2 TypeScript nor 2 WebAssembly strips beat the
-// one-thread WebAssembly step (docs/performance.md, "Multi-core"), so with WebAssembly at hand
-// 'auto' wants at least AUTO_MIN_CORES_OVER_WASM cores. A count asked for is always honoured.
+// the WebAssembly kernel too (wasm-strips.ts): 2 of them were 1.4 times one WebAssembly thread on
+// 2 free cores, so they follow the per-core rule. Where only the TypeScript strips can run, 2 of
+// them barely beat (free cores) or lose to (loaded cores) one WebAssembly thread, so 'auto' wants
+// at least AUTO_MIN_CORES_OVER_WASM cores (docs/performance.md, "Multi-core").
 
 import { InputError } from '../errors.ts';
 
@@ -14,7 +14,7 @@ export type ThreadsOption = number | 'auto';
 export const MAX_THREADS = 64;
 /** Below this many cells per strip the barriers cost more than the strip's work saves. */
 export const AUTO_MIN_CELLS_PER_STRIP = 40_000;
-/** Cores 'auto' needs before strips replace the one-thread WebAssembly step (not measured faster below). */
+/** Cores 'auto' needs before TypeScript strips replace the one-thread WebAssembly step. */
 export const AUTO_MIN_CORES_OVER_WASM = 4;
 
 export interface ThreadChoice {
@@ -34,7 +34,7 @@ export function checkThreadsOption(t: unknown, where = 'threads'): ThreadsOption
 
 /**
  * singleKernel: what runs the step on one thread ('wasm' makes 'auto' want more cores);
- * stripKernel: what the strips would run (only changes the wording of the notice).
+ * stripKernel: what the strips would run ('ts' under a 'wasm' single kernel wants more cores).
  */
 export function chooseThreads(
   requested: ThreadsOption,
@@ -51,10 +51,9 @@ export function chooseThreads(
     return { threads: 1, notice: `threads ${asked}: the nonlinear scheme runs on one thread (only the linear step is split into strips)` };
   }
   if (requested === 'auto') {
-    const coreWord = `${cores} core${cores === 1 ? '' : 's'}`;
-    if (singleKernel === 'wasm' && cores < AUTO_MIN_CORES_OVER_WASM) {
-      const strips = stripKernel === 'wasm' ? 'WebAssembly' : 'TypeScript';
-      return { threads: 1, notice: `threads auto: 1 (${coreWord}: the one-thread WebAssembly step is not slower than ${cores} ${strips} strips)` };
+    const coreWord = `${cores} core${cores === 1 ? '' : 's'} for strips`;
+    if (singleKernel === 'wasm' && stripKernel === 'ts' && cores < AUTO_MIN_CORES_OVER_WASM) {
+      return { threads: 1, notice: `threads auto: 1 (${coreWord}: the one-thread WebAssembly step is faster than ${cores} TypeScript strips)` };
     }
     const byWork = Math.floor((grid.nx * grid.ny) / AUTO_MIN_CELLS_PER_STRIP);
     const threads = Math.max(1, Math.min(cores, grid.ny, byWork, MAX_THREADS));

@@ -7,7 +7,7 @@
 //   BENCH_REPEATS=3 BENCH_SECONDS=0.5 npm run bench      quicker
 //   BENCH_PIN=1 npm run bench     every run under taskset -c 1 (one core, less migration noise;
 //                                 the strip rows then get cores 0-1, one per thread)
-//   BENCH_STRIPS=2,4 npm run bench  the thread counts of the strip rows (default 2)
+//   BENCH_STRIPS=2,4 npm run bench  the thread counts of the strip rows, ts and wasm (default 2)
 
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
@@ -48,7 +48,7 @@ function parse(out: string): Line {
 }
 
 function run(impl: Impl, nx: number, ny: number, steps: number): Line {
-  const strips = /^ts-strips-(\d+)$/.exec(impl.label);
+  const strips = /^(?:ts|wasm)-strips-(\d+)$/.exec(impl.label);
   const cores = strips ? `0-${Number(strips[1]) - 1}` : '1';
   const [exe, ...args] = process.env.BENCH_PIN ? ['taskset', '-c', cores, ...impl.cmd] : impl.cmd;
   const r = spawnSync(exe, [...args, String(nx), String(ny), String(steps), impl.label], { encoding: 'utf8', cwd: root });
@@ -66,11 +66,11 @@ function has(cmd: string, args: string[]): boolean {
   return spawnSync(cmd, args, { encoding: 'utf8' }).status === 0;
 }
 
-// Pycno's paths: plain TypeScript, WebAssembly SIMD, and the TypeScript rows in latitude strips
-// on worker threads (all bit-identical to each other).
+// Pycno's paths: plain TypeScript, WebAssembly SIMD, and latitude strips on worker threads running
+// the TypeScript rows or the WebAssembly kernel over shared memory (all bit-identical to each other).
 const line = [process.execPath, '--import', 'tsx', join(here, 'reference-line.ts')];
 const stripCounts = (process.env.BENCH_STRIPS ?? '2').split(',').map(Number).filter((n) => n >= 2);
-const ours = ['ts-double', 'wasm-simd', ...stripCounts.map((n) => `ts-strips-${n}`)];
+const ours = ['ts-double', 'wasm-simd', ...stripCounts.flatMap((n) => [`ts-strips-${n}`, `wasm-strips-${n}`])];
 const impls: Impl[] = ours.map((label) => ({ label, cmd: line }));
 let bandwidth: number | null = null;
 let build: string | null = null;
@@ -142,6 +142,7 @@ for (const label of ours) {
   if (at('c-double-O3-native')) console.log(`ratio ${label}/c-O3 ${(at(label)! / at('c-double-O3-native')!).toFixed(3)}`);
 }
 for (const n of stripCounts) console.log(`speed-up ts-strips-${n}/ts-double ${(at(`ts-strips-${n}`)! / ts).toFixed(3)}`);
+for (const n of stripCounts) console.log(`speed-up wasm-strips-${n}/wasm-simd ${(at(`wasm-strips-${n}`)! / at('wasm-simd')!).toFixed(3)}`);
 if (at('numpy-double')) console.log(`ratio ts/numpy ${(ts / at('numpy-double')!).toFixed(3)}`);
 if (build) rmSync(build, { recursive: true, force: true });
 if (at('c-double-O2')) console.log(`ratio ts/c-O2 ${(ts / at('c-double-O2')!).toFixed(3)}`);

@@ -122,14 +122,15 @@ describe('WebAssembly strip team on worker threads', () => {
     expect(sameBits(t.state.u, w.state.u)).toBe(true);
   });
 
-  it("'auto' over WebAssembly keeps one thread below 4 cores, and otherwise one per core while a strip keeps 40,000 cells", () => {
+  it("'auto' over the WebAssembly strips takes one thread per core while a strip keeps 40,000 cells", () => {
     const two = chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm', 'wasm');
-    expect(two.threads).toBe(1);
-    expect(two.notice).toMatch(/one-thread WebAssembly step is not slower than 2 WebAssembly strips/);
-    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 'linear', 4, 'wasm', 'wasm').threads).toBe(4);
+    expect(two.threads).toBe(2);
+    expect(two.notice).toMatch(/threads auto: 2 \(2 cores for strips, 640 x 240 cells/);
+    // only TypeScript strips at hand: the one-thread WebAssembly step is kept below 4 cores
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm', 'ts').threads).toBe(1);
     expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 8, 'wasm', 'wasm').threads).toBe(3);
     expect(chooseThreads('auto', { nx: 160, ny: 60 }, 'linear', 8, 'wasm', 'wasm').threads).toBe(1);
-    // a count asked for is honoured
-    expect(chooseThreads(2, { nx: 640, ny: 240 }, 'linear', 2, 'wasm', 'wasm').threads).toBe(2);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 1, 'wasm', 'wasm').threads).toBe(1);
   });
+
 });
