@@ -150,14 +150,14 @@ describe.skipIf(missing !== null)('map uploads in Chromium', () => {
     for (let c = 0; c < 3; c++) expect(Math.abs(b.rgb[c] - f.rgb[c])).toBeLessThan(2);
   });
 
-  it('once the time slider\'s budget is full, the note says from which day frames were let go', async () => {
+  it('once the time slider\'s budget is full, the frames are thinned back to the start and the note says so', async () => {
     await page.selectOption('#budget', '32');
-    expect(await page.textContent('#budget-note')).not.toMatch(/let go/);
+    expect(await page.textContent('#budget-note')).not.toMatch(/thinned/);
     await page.selectOption('#speed', 'max');
     await page.click('#btn-run');
     // A frame of the default basin is 10 fields of 280 x 100 Float32 cells: 1.12 MB, so 32 MB
     // holds 28 of them, 31.36 MB.
-    await page.waitForFunction(() => /were let go/.test(document.getElementById('budget-note')?.textContent ?? ''), null, { timeout: 120_000 });
+    await page.waitForFunction(() => /thinned/.test(document.getElementById('budget-note')?.textContent ?? ''), null, { timeout: 120_000 });
     await page.click('#btn-pause');
     await page.waitForFunction(() => {
       const p = (window as unknown as { __pycno: Info }).__pycno;
@@ -165,9 +165,13 @@ describe.skipIf(missing !== null)('map uploads in Chromium', () => {
     }, null, { timeout: 30_000 });
     await settle(page);
     const note = (await page.textContent('#budget-note'))!;
-    const kept = /kept: day ([\d.]+) to/.exec((await page.textContent('#scrub-day'))!);
-    expect(note).toMatch(/^keeping 28 frames = 31 MB; frames before day [\d.]+ were let go to stay within it$/);
-    // The day named is the oldest frame the slider still has.
-    expect(note).toContain(`before day ${kept![1]} `);
+    expect(note).toMatch(/^keeping 28 frames = 31 MB, thinned to one every [\d.]+ days? to reach back to the start$/);
+    // The slider still starts at the run's first day and ends at the day on screen.
+    const kept = /kept: day ([\d.]+) to ([\d.]+)/.exec((await page.textContent('#scrub-day'))!);
+    expect(Number(kept![1])).toBe(0);
+    const shown = await page.evaluate(() => (window as unknown as { __pycno: Info }).__pycno.shownDay);
+    expect(Number(kept![2])).toBeCloseTo(shown, 1);
+    const frames = await page.evaluate(() => (window as unknown as { __pycno: { kept(): { frames: number } } }).__pycno.kept().frames);
+    expect(frames).toBeLessThanOrEqual(28);
   });
 });
