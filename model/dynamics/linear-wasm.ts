@@ -44,6 +44,55 @@ export function wasmAvailable(): boolean {
   }
 }
 
+/** Where the masks, row tables and coast lists of a step sit in a kernel's memory (byte offsets). */
+export interface StepTableLayout {
+  maskU: number;
+  maskV: number;
+  /** coriolisSouth, coriolisNorth, fV, spongeH, spongeV. */
+  tables: [number, number, number, number, number];
+  /** u then v coast lists: rowStart, index, coef each. */
+  coast: [number, number, number, number, number, number];
+}
+
+/** Reserve the row tables and coast lists with `take(bytes)` (masks are fields, taken by the caller). */
+export function takeStepTables(ny: number, c: Pick<StepCoefficients, 'coastU' | 'coastV'>, take: (bytes: number) => number): Pick<StepTableLayout, 'tables' | 'coast'> {
+  const cu = c.coastU;
+  const cv = c.coastV;
+  return {
+    tables: [take(8 * ny), take(8 * ny), take(8 * (ny + 1)), take(8 * ny), take(8 * (ny + 1))],
+    coast: [take(4 * cu.rowStart.length), take(4 * cu.index.length), take(8 * cu.coef.length), take(4 * cv.rowStart.length), take(4 * cv.index.length), take(8 * cv.coef.length)],
+  };
+}
+
+/** Copy the masks, row tables and coast lists into a kernel's memory at the given layout. */
+export function copyStepTables(
+  buf: ArrayBufferLike,
+  grid: { ny: number; size: number; maskU: Float64Array; maskV: Float64Array },
+  c: Pick<StepCoefficients, 'coriolisSouth' | 'coriolisNorth' | 'fV' | 'spongeH' | 'spongeV' | 'coastU' | 'coastV'>,
+  at: StepTableLayout,
+): void {
+  const { ny, size } = grid;
+  const f64 = (p: number, n: number) => new Float64Array(buf, p, n);
+  const i32 = (p: number, n: number) => new Int32Array(buf, p, n);
+  f64(at.maskU, size).set(grid.maskU);
+  f64(at.maskV, size).set(grid.maskV);
+  const t = at.tables;
+  f64(t[0], ny).set(c.coriolisSouth);
+  f64(t[1], ny).set(c.coriolisNorth);
+  f64(t[2], ny + 1).set(c.fV);
+  f64(t[3], ny).set(c.spongeH);
+  f64(t[4], ny + 1).set(c.spongeV);
+  const k = at.coast;
+  const cu = c.coastU;
+  const cv = c.coastV;
+  i32(k[0], cu.rowStart.length).set(cu.rowStart);
+  i32(k[1], cu.index.length).set(cu.index);
+  f64(k[2], cu.coef.length).set(cu.coef);
+  i32(k[3], cv.rowStart.length).set(cv.rowStart);
+  i32(k[4], cv.index.length).set(cv.index);
+  f64(k[5], cv.coef.length).set(cv.coef);
+}
+
 export class WasmLinear {
   private readonly k: KernelExports;
   readonly memory: WebAssembly.Memory;
@@ -74,33 +123,16 @@ export class WasmLinear {
       return p;
     };
     const fields = Array.from({ length: 9 }, () => take(fieldBytes));
-    const tables = [ny, ny, ny + 1, ny, ny + 1].map((n) => take(8 * n));
-    const cu = c.coastU;
-    const cv = c.coastV;
-    const coast = [cu.rowStart.length * 4, cu.index.length * 4, cu.coef.length * 8, cv.rowStart.length * 4, cv.index.length * 4, cv.coef.length * 8].map(take);
+    const { tables, coast } = takeStepTables(ny, c, take);
     this.memory = new WebAssembly.Memory({ initial: Math.ceil(at / 65536) + 1 });
     const inst = new WebAssembly.Instance(linearWasmModule(), { env: { memory: this.memory } });
     this.k = inst.exports as unknown as KernelExports;
     const buf = this.memory.buffer;
-    const f64 = (p: number, n: number) => new Float64Array(buf, p, n);
-    const i32 = (p: number, n: number) => new Int32Array(buf, p, n);
     [this.pu, this.pv, this.ph, this.pun, this.pvn] = fields;
     const [pax, pay, pmu, pmv] = fields.slice(5);
-    f64(pmu, size).set(grid.maskU);
-    f64(pmv, size).set(grid.maskV);
-    this.accelX = f64(pax, size);
-    this.accelY = f64(pay, size);
-    f64(tables[0], ny).set(c.coriolisSouth);
-    f64(tables[1], ny).set(c.coriolisNorth);
-    f64(tables[2], ny + 1).set(c.fV);
-    f64(tables[3], ny).set(c.spongeH);
-    f64(tables[4], ny + 1).set(c.spongeV);
-    i32(coast[0], cu.rowStart.length).set(cu.rowStart);
-    i32(coast[1], cu.index.length).set(cu.index);
-    f64(coast[2], cu.coef.length).set(cu.coef);
-    i32(coast[3], cv.rowStart.length).set(cv.rowStart);
-    i32(coast[4], cv.index.length).set(cv.index);
-    f64(coast[5], cv.coef.length).set(cv.coef);
+    copyStepTables(buf, grid, c, { maskU: pmu, maskV: pmv, tables, coast });
+    this.accelX = new Float64Array(buf, pax, size);
+    this.accelY = new Float64Array(buf, pay, size);
     this.k.setGrid(nx, ny, W);
     this.k.setScalars(c.dt, c.gpdx, c.gpdy, c.idx2, c.idy2, c.dtHdx, c.dtHdy, friction, viscosity);
     this.k.setTables(tables[0], tables[1], tables[2], tables[3], tables[4], pax, pay, pmu, pmv);

@@ -4,7 +4,7 @@
 // the leader and every worker instantiate the module against that same memory and set the same
 // addresses. Needs WebAssembly SIMD and threads (shared memory): in a page, cross-origin isolation.
 
-import { decodeBase64 } from '../dynamics/linear-wasm.ts';
+import { copyStepTables, decodeBase64, takeStepTables, type StepTableLayout } from '../dynamics/linear-wasm.ts';
 import type { RowCoefficients } from '../dynamics/linear.ts';
 import { STRIPS_WASM_BASE64 } from '../dynamics/wasm/strips-wasm.ts';
 import type { StripKernel } from './strip-kernel.ts';
@@ -32,10 +32,9 @@ export interface WasmStripLayout {
   accelY: number;
   maskU: number;
   maskV: number;
-  /** fS, fN, fV, spongeH, spongeV */
-  tables: [number, number, number, number, number];
-  /** u rowStart, index, coef; v rowStart, index, coef */
-  coast: [number, number, number, number, number, number];
+  /** Row tables and coast lists, as the one-thread kernel lays them out (linear-wasm.ts). */
+  tables: StepTableLayout['tables'];
+  coast: StepTableLayout['coast'];
 }
 
 /** What a worker is sent to run the WebAssembly strips (a shared Memory posts as itself). */
@@ -82,8 +81,6 @@ export function createWasmStripMemory(
     return p;
   };
   const f = () => take(size * 8);
-  const cu = c.coastU;
-  const cv = c.coastV;
   const layout: WasmStripLayout = {
     u: [f(), f()],
     v: [f(), f()],
@@ -92,29 +89,13 @@ export function createWasmStripMemory(
     accelY: f(),
     maskU: f(),
     maskV: f(),
-    tables: [take(8 * ny), take(8 * ny), take(8 * (ny + 1)), take(8 * ny), take(8 * (ny + 1))],
-    coast: [take(4 * cu.rowStart.length), take(4 * cu.index.length), take(8 * cu.coef.length), take(4 * cv.rowStart.length), take(4 * cv.index.length), take(8 * cv.coef.length)],
+    ...takeStepTables(ny, c, take),
   };
   if (at > 65536 * 65536) throw new RangeError(`the grid needs ${at} bytes, more than a 32-bit WebAssembly memory holds`);
   const memory = sharedMemory(Math.ceil(at / 65536));
   const buf = memory.buffer;
   const f64 = (p: number, n: number) => new Float64Array(buf, p, n);
-  const i32 = (p: number, n: number) => new Int32Array(buf, p, n);
-  f64(layout.maskU, size).set(grid.maskU);
-  f64(layout.maskV, size).set(grid.maskV);
-  const t = layout.tables;
-  f64(t[0], ny).set(c.coriolisSouth);
-  f64(t[1], ny).set(c.coriolisNorth);
-  f64(t[2], ny + 1).set(c.fV);
-  f64(t[3], ny).set(c.spongeH);
-  f64(t[4], ny + 1).set(c.spongeV);
-  const k = layout.coast;
-  i32(k[0], cu.rowStart.length).set(cu.rowStart);
-  i32(k[1], cu.index.length).set(cu.index);
-  f64(k[2], cu.coef.length).set(cu.coef);
-  i32(k[3], cv.rowStart.length).set(cv.rowStart);
-  i32(k[4], cv.index.length).set(cv.index);
-  f64(k[5], cv.coef.length).set(cv.coef);
+  copyStepTables(buf, grid, c, layout);
   const fields: SharedFields = {
     u: [f64(layout.u[0], size), f64(layout.u[1], size)],
     v: [f64(layout.v[0], size), f64(layout.v[1], size)],
