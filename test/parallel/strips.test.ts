@@ -4,8 +4,7 @@
 // friction and viscosity. The worker threads are real (worker_threads) and terminated after.
 
 import { afterEach, describe, expect, it } from 'vitest';
-import type { ModelConfig } from '../../model/config.ts';
-import { basin, changingWind, countingHost, model, sameBits } from './strip-helpers.ts';
+import { basin, changingWind, countingHost, expectSameSteps, model, sameBits, STRIP_CASES } from './strip-helpers.ts';
 import { linearStepPlain, linearWork } from '../../model/dynamics/linear.ts';
 import { InputError } from '../../model/errors.ts';
 import { Grid } from '../../model/grid.ts';
@@ -60,13 +59,7 @@ describe('strip schedule on one thread', () => {
 });
 
 describe('strip team on worker threads', () => {
-  const cases: Array<{ name: string; cfg: ModelConfig; threads: number; steps: number[] }> = [
-    { name: '64 x 48, 2 threads, free slip', cfg: basin(64, 48, 'free', 8), threads: 2, steps: [1, 49, 250] },
-    { name: '40 x 7, one row per strip, sponge at strip edges', cfg: basin(40, 7, 'no', 2), threads: 7, steps: [300] },
-    { name: '33 x 13 (odd rows), 3 threads, no slip', cfg: basin(33, 13, 'no', 3), threads: 3, steps: [7, 293] },
-    { name: '50 x 24, 4 threads, no slip', cfg: basin(50, 24, 'no', 4), threads: 4, steps: [120, 180] },
-  ];
-  for (const { name, cfg, threads, steps } of cases) {
+  for (const { name, cfg, threads, steps } of STRIP_CASES) {
     it(`gives the one-thread bits for u, v and h (${name})`, async () => {
       const one = model(cfg);
       const many = model(cfg, threads);
@@ -76,15 +69,7 @@ describe('strip team on worker threads', () => {
       expect(choice.threads).toBe(threads);
       expect(many.threads).toBe(threads);
       expect(counter.started()).toBe(threads - 1);
-      for (const n of steps) {
-        one.advance(n);
-        many.advance(n);
-        expect(many.state.steps).toBe(one.state.steps);
-        expect(many.state.time).toBe(one.state.time);
-        expect(sameBits(many.state.u, one.state.u), 'u').toBe(true);
-        expect(sameBits(many.state.v, one.state.v), 'v').toBe(true);
-        expect(sameBits(many.state.h, one.state.h), 'h').toBe(true);
-      }
+      expectSameSteps(one, many, steps);
       // the run did something: a flow, and thickness anomalies of both signs
       expect(Math.max(...one.state.h)).toBeGreaterThan(0);
       expect(Math.min(...one.state.h)).toBeLessThan(0);

@@ -6,14 +6,13 @@
 
 import { readFileSync } from 'node:fs';
 import { afterEach, describe, expect, it } from 'vitest';
-import type { ModelConfig } from '../../model/config.ts';
 import { linearStepPlain, linearWork } from '../../model/dynamics/linear.ts';
 import { compileStripKernel, STRIPS_OUTPUT, stripsModuleText } from '../../model/dynamics/wasm/build.ts';
 import type { Model } from '../../model/model.ts';
 import { needsEdgeSponge, stripBounds } from '../../model/parallel/strip-schedule.ts';
 import { chooseThreads } from '../../model/parallel/threads.ts';
 import { createWasmStripMemory, wasmStripKernel, wasmStripsAvailable } from '../../model/parallel/wasm-strips.ts';
-import { basin, countingHost, model, sameBits } from './strip-helpers.ts';
+import { basin, countingHost, expectSameSteps, model, sameBits, STRIP_CASES } from './strip-helpers.ts';
 
 const open: Model[] = [];
 afterEach(async () => {
@@ -70,13 +69,7 @@ describe('WebAssembly strip kernel on one thread', () => {
 });
 
 describe('WebAssembly strip team on worker threads', () => {
-  const cases: Array<{ name: string; cfg: ModelConfig; threads: number; steps: number[] }> = [
-    { name: '64 x 48, 2 threads, free slip', cfg: basin(64, 48, 'free', 8), threads: 2, steps: [1, 49, 250] },
-    { name: '40 x 7, one row per strip, sponge at strip edges', cfg: basin(40, 7, 'no', 2), threads: 7, steps: [300] },
-    { name: '33 x 13 (odd rows and columns), 3 threads, no slip', cfg: basin(33, 13, 'no', 3), threads: 3, steps: [7, 293] },
-    { name: '50 x 24, 4 threads, no slip', cfg: basin(50, 24, 'no', 4), threads: 4, steps: [120, 180] },
-  ];
-  for (const { name, cfg, threads, steps } of cases) {
+  for (const { name, cfg, threads, steps } of STRIP_CASES) {
     it(`gives the plain TypeScript bits for u, v and h (${name})`, async () => {
       const one = model(cfg);
       const many = model(cfg, threads, 'wasm');
@@ -87,15 +80,7 @@ describe('WebAssembly strip team on worker threads', () => {
       expect(many.threads).toBe(threads);
       expect(many.stripKernel).toBe('wasm');
       expect(counter.started()).toBe(threads - 1);
-      for (const n of steps) {
-        one.advance(n);
-        many.advance(n);
-        expect(many.state.steps).toBe(one.state.steps);
-        expect(many.state.time).toBe(one.state.time);
-        expect(sameBits(many.state.u, one.state.u), 'u').toBe(true);
-        expect(sameBits(many.state.v, one.state.v), 'v').toBe(true);
-        expect(sameBits(many.state.h, one.state.h), 'h').toBe(true);
-      }
+      expectSameSteps(one, many, steps);
       expect(Math.max(...one.state.h)).toBeGreaterThan(0);
       expect(Math.min(...one.state.h)).toBeLessThan(0);
       await many.close();
