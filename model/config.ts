@@ -22,6 +22,11 @@ export interface SpongeConfig {
   widthDeg: number;
   /** Relaxation rate at the wall, s-1; it falls linearly to zero across the band. */
   rateAtWall: number;
+  /**
+   * false: h' relaxes to 0, and the bands change the layer volume. true: h' relaxes toward its
+   * rate-weighted mean over each band, which keeps the volume (model/dynamics/sponge.ts).
+   */
+  conserveVolume: boolean;
 }
 
 export type CoriolisKind = 'beta-plane' | 'spherical';
@@ -102,6 +107,6 @@ export function defaultPhysics(): PhysicsConfig {
     gravity: EARTH.gravity,
     surfaceLayer: { depth: 50, damping: 1 / (2 * DAY) },
     entrainment: { minThickness: 40, time: 1 * DAY },
-    sponge: { widthDeg: 0, rateAtWall: 1 / (2 * DAY) },
+    sponge: { widthDeg: 0, rateAtWall: 1 / (2 * DAY), conserveVolume: false },
   };
 }

@@ -7,9 +7,10 @@ import { buildCoefficients, coriolisAt, largestCoriolis, type KernelVariant, typ
 import { linearStep, linearWork, type LinearWork } from './dynamics/linear.ts';
 import { WasmLinear, wasmAvailable } from './dynamics/linear-wasm.ts';
 import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
+import { VolumeKeepingSponge } from './dynamics/sponge.ts';
 import { chooseTimeStep, stabilityLimit, type StabilityLimit } from './dynamics/stability.ts';
 import { centredField, type FieldContext, type FieldName } from './diagnostics/fields.ts';
-import { integrals, type Integrals } from './diagnostics/integrals.ts';
+import { anomalySum, integrals, type Integrals } from './diagnostics/integrals.ts';
 import { BlowUpError, InputError } from './errors.ts';
 import { calm, type WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
@@ -74,6 +75,12 @@ export class Model {
   /** A startThreads() under way, so that a second call or close() waits for it. */
   private starting: Promise<ThreadChoice> | null = null;
   private windFilledFor = NaN;
+  /** The volume-keeping sponge pass (basin.sponge.conserveVolume), or null. */
+  private readonly keeper: VolumeKeepingSponge | null;
+  /** sum(h') at the start of the run, for the volume budget. */
+  private readonly anomalyAtStart: number;
+  /** Nonlinear mode: sum of h' the sponges added (+) or took (-) since the start. */
+  private spongeMeasured = 0;
 
   constructor(config: ModelConfig, options: ModelOptions = {}) {
     checkPhysics(config.physics);
@@ -90,6 +97,7 @@ export class Model {
       fMax: largestCoriolis(this.grid, p),
       viscosity: p.viscosity,
       friction: p.friction,
+      spongeRate: p.sponge.widthDeg > 0 ? p.sponge.rateAtWall : 0,
       mode: p.mode,
     });
     this.dt = chooseTimeStep(this.limit, config.time.dt, config.time.safety, config.time.alignTo);
@@ -124,6 +132,8 @@ export class Model {
     }
     this.linear = p.mode === 'linear' ? linearWork(this.grid) : null;
     this.nonlinear = p.mode === 'nonlinear' ? nonlinearWork(this.grid) : null;
+    this.keeper = p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.grid, this.coefficients) : null;
+    this.anomalyAtStart = anomalySum(this.grid, this.state.h);
     this.updateWind();
   }
 
@@ -144,7 +154,11 @@ export class Model {
       } else if (this.linear) {
         linearStep(this.grid, this.coefficients, this.physics.friction, this.physics.viscosity, this.accelX, this.accelY, this.state, this.linear);
       } else {
-        nonlinearStep(this.grid, this.coefficients, this.physics, this.taux, this.tauy, this.state, this.nonlinear!);
+        this.spongeMeasured -= nonlinearStep(this.grid, this.coefficients, this.physics, this.taux, this.tauy, this.state, this.nonlinear!);
+      }
+      if (this.keeper) {
+        const added = this.keeper.restore(this.state.h);
+        if (this.nonlinear) this.spongeMeasured += added;
       }
       if (this.state.steps % HEALTH_EVERY === 0) this.checkHealth();
     }
@@ -155,6 +169,11 @@ export class Model {
       for (let s = 0; s < n; s++) {
         this.updateWind();
         team.step(this.state, this.physics.friction, this.physics.viscosity);
+        if (this.keeper) {
+          // The band means need every strip's h rows of this step: wait for the workers.
+          team.sync();
+          this.keeper.restore(this.state.h);
+        }
         if (this.state.steps % HEALTH_EVERY === 0) {
           team.sync();
           this.checkHealth();
@@ -218,7 +237,10 @@ export class Model {
   }
 
   integrals(): Integrals {
-    return integrals(this.grid, this.physics, this.state, this.dt);
+    return integrals(this.grid, this.physics, this.state, this.dt, {
+      anomalyAtStart: this.anomalyAtStart,
+      spongeMeasured: this.nonlinear ? this.spongeMeasured : null,
+    });
   }
 
   fieldContext(): FieldContext {

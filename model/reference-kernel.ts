@@ -24,7 +24,7 @@ export function referenceConfig(nx: number, ny: number): ModelConfig {
     earthRadius: (M_PER_DEG * 180) / Math.PI,
     friction: 1 / (30 * DAY),
     viscosity: 1e3,
-    sponge: { widthDeg: 10 * dLat, rateAtWall: 1 / (2 * DAY) },
+    sponge: { widthDeg: 10 * dLat, rateAtWall: 1 / (2 * DAY), conserveVolume: false },
   };
   const dx = dLon * M_PER_DEG;
   const dy = dLat * M_PER_DEG;

@@ -1,5 +1,5 @@
 // Basin integrals and extremes, computed at every output step: volume, energy, thinnest layer,
-// fastest flow, and the Courant number of the gravity waves.
+// fastest flow, and the Courant number of the scheme.
 
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
@@ -12,6 +12,14 @@ export interface Integrals {
   volume: number;
   /** Volume of the anomaly, sum(h' dA), m3 (exactly zero change in a closed basin). */
   volumeAnomaly: number;
+  /**
+   * Volume the sponge bands added (+) or took out (-) since the run's start, m3. Continuity in
+   * flux form changes the volume of a closed basin by nothing, so in the linear mode this is the
+   * whole change of volume; the nonlinear step measures its sponge directly.
+   */
+  spongeVolume: number;
+  /** Volume entrainment added since the run's start, m3 (the rest of the change; 0 in the linear mode). */
+  entrainedVolume: number;
   /** Kinetic energy 1/2 rho0 sum(h* |u|^2 dA), J (h* = H linear, h nonlinear). */
   kinetic: number;
   /** Available potential energy 1/2 rho0 g' sum(h'^2 dA), J. */
@@ -21,7 +29,11 @@ export interface Integrals {
   minThickness: number;
   /** Largest |u| at cell centres, m s-1. */
   maxSpeed: number;
-  /** (sqrt(g' h_max) + |u|max) dt sqrt(1/dx^2 + 1/dy^2). */
+  /**
+   * Courant number of the scheme that runs, dt sqrt(1/dx^2 + 1/dy^2) times the fastest signal:
+   * sqrt(g' H) in the linear mode (its equations carry no advection and waves see H), and
+   * sqrt(g' h_max) + |u|max in the nonlinear mode.
+   */
   courant: number;
 }
 
@@ -39,7 +51,28 @@ class Sum {
   }
 }
 
-export function integrals(grid: Grid, physics: PhysicsConfig, state: State, dt: number): Integrals {
+/** What the volume budget needs beyond the state: where the run started, and what the sponge took. */
+export interface VolumeBudget {
+  /** sum(h') over ocean cells at the run's start, m. */
+  anomalyAtStart: number;
+  /** Nonlinear mode: sum of h' the sponges added (+) or took (-) since the start, m; null in the linear mode. */
+  spongeMeasured: number | null;
+}
+
+/** sum(h') over the ocean cells, compensated. */
+export function anomalySum(grid: Grid, h: Float64Array): number {
+  const sum = new Sum();
+  const { nx, ny, W, ocean } = grid;
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0; i < nx; i++) {
+      const k = (j + 1) * W + i + 1;
+      if (ocean[k]) sum.add(h[k]);
+    }
+  }
+  return sum.value;
+}
+
+export function integrals(grid: Grid, physics: PhysicsConfig, state: State, dt: number, budget: VolumeBudget = { anomalyAtStart: 0, spongeMeasured: null }): Integrals {
   const { nx, ny, W, ocean, maskU, maskV, dx, dy } = grid;
   const { u, v, h } = state;
   const H = physics.layerThickness;
@@ -86,16 +119,20 @@ export function integrals(grid: Grid, physics: PhysicsConfig, state: State, dt: 
   const kinetic = 0.5 * rho0 * ke.value * dA;
   const potential = 0.5 * rho0 * physics.reducedGravity * pe.value * dA;
   const maxSpeed = Math.sqrt(maxSpeed2);
-  const cMax = Math.sqrt(physics.reducedGravity * Math.max(maxThick, 0));
+  const signal = nonlinear ? Math.sqrt(physics.reducedGravity * Math.max(maxThick, 0)) + maxSpeed : Math.sqrt(physics.reducedGravity * H);
+  const change = (anomaly.value - budget.anomalyAtStart) * dA;
+  const spongeVolume = budget.spongeMeasured === null ? change : budget.spongeMeasured * dA;
   return {
     day: state.time / 86400,
     volume: H * grid.oceanCells * dA + anomaly.value * dA,
     volumeAnomaly: anomaly.value * dA,
+    spongeVolume,
+    entrainedVolume: budget.spongeMeasured === null ? 0 : change - spongeVolume,
     kinetic,
     potential,
     energy: kinetic + potential,
     minThickness: minThick,
     maxSpeed,
-    courant: (cMax + maxSpeed) * dt * Math.sqrt(1 / (dx * dx) + 1 / (dy * dy)),
+    courant: signal * dt * Math.sqrt(1 / (dx * dx) + 1 / (dy * dy)),
   };
 }

@@ -143,7 +143,10 @@ export function nonlinearTendencies(
   }
 }
 
-/** Advance the state one step in place with AB3 (lower order while history builds up). */
+/**
+ * Advance the state one step in place with AB3 (lower order while history builds up). Returns
+ * the sum of h' the sponges took out in this step (m; see applySponge).
+ */
 export function nonlinearStep(
   grid: Grid,
   c: StepCoefficients,
@@ -152,7 +155,7 @@ export function nonlinearStep(
   tauy: Float64Array,
   state: State,
   w: NonlinearWork,
-): void {
+): number {
   nonlinearTendencies(grid, c, physics, taux, tauy, state, w);
   const order = Math.min(state.historyCount, 2);
   const [a0, a1, a2] = AB[order];
@@ -161,7 +164,7 @@ export function nonlinearStep(
   advance(state.u, dt, a0, a1, a2, w.du, hist.du[0], hist.du[1]);
   advance(state.v, dt, a0, a1, a2, w.dv, hist.dv[0], hist.dv[1]);
   advance(state.h, dt, a0, a1, a2, w.dh, hist.dh[0], hist.dh[1]);
-  applySponge(grid, c, state);
+  const spongeTaken = applySponge(grid, c, state);
 
   // Rotate: this step's tendency becomes history[0]; the oldest buffer becomes next step's scratch.
   let oldest = hist.du[1];
@@ -179,6 +182,7 @@ export function nonlinearStep(
   state.historyCount = Math.min(state.historyCount + 1, 2);
   state.steps++;
   state.time += dt;
+  return spongeTaken;
 }
 
 function advance(

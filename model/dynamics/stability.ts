@@ -5,7 +5,7 @@ import type { DynamicsMode } from '../config.ts';
 import { InputError } from '../errors.ts';
 import * as pm from '../portable-math.ts';
 
-export type LimitingTerm = 'gravity-wave' | 'coriolis' | 'viscosity' | 'friction';
+export type LimitingTerm = 'gravity-wave' | 'coriolis' | 'viscosity' | 'friction' | 'sponge';
 
 export interface StabilityInput {
   /** Linear gravity-wave speed sqrt(g' H), m s-1. */
@@ -19,6 +19,8 @@ export interface StabilityInput {
   viscosity: number;
   /** Rayleigh friction rate r, s-1 (default 0). */
   friction?: number;
+  /** Sponge relaxation rate at the wall, s-1 (default 0: no sponge). */
+  spongeRate?: number;
   mode: DynamicsMode;
   /** Nonlinear mode: allowance for advection added to the wave speed, m s-1 (default 2). */
   advection?: number;
@@ -54,16 +56,19 @@ export const FB_CORIOLIS_LIMIT = 1.5;
  *   Coriolis       f_max dt <= 1.5                    (neutral below 2; a margin)
  *   viscosity      A dt (4/dx^2 + 4/dy^2) <= 1        (forward Euler allows 2: a factor 2 of margin)
  *   friction       r dt <= 1
+ *   sponge         r_sponge dt <= 1                   (its factor 1 - r_sponge dt stays >= 0)
  * Nonlinear (third-order Adams-Bashforth):
  *   gravity waves, advection and rotation  omega_max dt <= 0.72,
  *       omega_max = sqrt((2 c' sqrt(1/dx^2 + 1/dy^2))^2 + f_max^2), c' = c sqrt(1.5) + 2 m/s
  *   viscosity      A dt (4/dx^2 + 4/dy^2) <= 6/11     (real-axis interval)
  *   friction       r dt <= 6/11
+ *   sponge         r_sponge dt <= 1                   (applied after the step as a factor, as above)
  */
 export function stabilityLimit(p: StabilityInput): StabilityLimit {
   const k = Math.sqrt(1 / (p.dx * p.dx) + 1 / (p.dy * p.dy));
   const lap = 4 / (p.dx * p.dx) + 4 / (p.dy * p.dy);
   const r = p.friction ?? 0;
+  const rs = p.spongeRate ?? 0;
   const km = (m: number) => `${(m / 1000).toPrecision(3)} km`;
   const grid = `dx = ${km(p.dx)}, dy = ${km(p.dy)}`;
   const orInf = (x: number) => (Number.isFinite(x) && x > 0 ? x : Infinity);
@@ -75,12 +80,14 @@ export function stabilityLimit(p: StabilityInput): StabilityLimit {
       coriolis: orInf(FB_CORIOLIS_LIMIT / p.fMax),
       viscosity: orInf(1 / (p.viscosity * lap)),
       friction: orInf(1 / r),
+      sponge: orInf(1 / rs),
     };
     why = {
       'gravity-wave': `gravity waves: c dt sqrt(1/dx^2 + 1/dy^2) <= 1 (forward-backward, C grid) with c = ${p.c.toPrecision(3)} m/s, ${grid}`,
       coriolis: `Coriolis: f_max dt <= ${FB_CORIOLIS_LIMIT} with f_max = ${p.fMax.toPrecision(3)} s-1`,
       viscosity: `viscosity: A dt (4/dx^2 + 4/dy^2) <= 1 with A = ${p.viscosity} m2/s, ${grid}`,
       friction: `friction: r dt <= 1 with r = ${r.toPrecision(3)} s-1`,
+      sponge: `sponge: r_sponge dt <= 1 with r_sponge = ${rs.toPrecision(3)} s-1 at the wall (basin.sponge.dampingDays)`,
     };
   } else {
     const advection = p.advection ?? 2;
@@ -92,16 +99,18 @@ export function stabilityLimit(p: StabilityInput): StabilityLimit {
       coriolis: Infinity, // inside omega_max
       viscosity: orInf(AB3_REAL_LIMIT / (p.viscosity * lap)),
       friction: orInf(AB3_REAL_LIMIT / r),
+      sponge: orInf(1 / rs),
     };
     why = {
       'gravity-wave': `gravity waves, advection and rotation: omega_max dt <= 0.72 (Adams-Bashforth 3), omega_max = sqrt((2 c' sqrt(1/dx^2 + 1/dy^2))^2 + f_max^2) with c' = c sqrt(${factor}) + ${advection} m/s = ${cEff.toPrecision(3)} m/s, ${grid}`,
       coriolis: '',
       viscosity: `viscosity: A dt (4/dx^2 + 4/dy^2) <= 6/11 (Adams-Bashforth 3) with A = ${p.viscosity} m2/s, ${grid}`,
       friction: `friction: r dt <= 6/11 (Adams-Bashforth 3) with r = ${r.toPrecision(3)} s-1`,
+      sponge: `sponge: r_sponge dt <= 1 with r_sponge = ${rs.toPrecision(3)} s-1 at the wall (basin.sponge.dampingDays)`,
     };
   }
   let limitingTerm: LimitingTerm = 'gravity-wave';
-  for (const t of ['coriolis', 'viscosity', 'friction'] as const) if (terms[t] < terms[limitingTerm]) limitingTerm = t;
+  for (const t of ['coriolis', 'viscosity', 'friction', 'sponge'] as const) if (terms[t] < terms[limitingTerm]) limitingTerm = t;
   const dtMax = terms[limitingTerm];
   return { dtMax, limitingTerm, explanation: `dt <= ${Math.floor(dtMax)} s, set by ${why[limitingTerm]}`, terms };
 }

@@ -30,16 +30,27 @@ export const OUTPUT_FILL = NC_FILL_FLOAT;
 export const IDEALISED_NOTE =
   'Idealised experiment of a reduced-gravity (1.5-layer) model of the upper tropical ocean on an equatorial beta plane; not a forecast or a reanalysis.';
 
-/** The integrals written per record, with their units and descriptions. */
-export const INTEGRAL_VARIABLES: ReadonlyArray<{ name: string; key: keyof Integrals; units: string; longName: string }> = [
+/**
+ * The integrals written per record, with their units and descriptions. `since` marks variables
+ * newer than the first files (optional): a reader fills NaN where an older file lacks them.
+ */
+export const INTEGRAL_VARIABLES: ReadonlyArray<{ name: string; key: keyof Integrals; units: string; longName: string; optional?: true }> = [
   { name: 'volume', key: 'volume', units: 'm3', longName: 'upper-layer volume' },
   { name: 'volume_anomaly', key: 'volumeAnomaly', units: 'm3', longName: 'volume of the thickness anomaly' },
+  {
+    name: 'sponge_volume',
+    key: 'spongeVolume',
+    units: 'm3',
+    longName: 'layer volume the sponge bands added (positive) or took out (negative) since the run started',
+    optional: true,
+  },
+  { name: 'entrained_volume', key: 'entrainedVolume', units: 'm3', longName: 'layer volume entrainment added since the run started (nonlinear mode)', optional: true },
   { name: 'kinetic_energy', key: 'kinetic', units: 'J', longName: 'kinetic energy of the layer' },
   { name: 'potential_energy', key: 'potential', units: 'J', longName: 'available potential energy' },
   { name: 'energy', key: 'energy', units: 'J', longName: 'total energy (kinetic + available potential)' },
   { name: 'min_thickness', key: 'minThickness', units: 'm', longName: 'thinnest upper layer' },
   { name: 'max_speed', key: 'maxSpeed', units: 'm s-1', longName: 'largest layer-mean speed at cell centres' },
-  { name: 'courant', key: 'courant', units: '1', longName: 'Courant number of gravity waves plus flow' },
+  { name: 'courant', key: 'courant', units: '1', longName: 'Courant number of the scheme: gravity waves at rest depth (linear mode), gravity waves plus flow (nonlinear mode)' },
 ];
 
 /** What the file describes; a subset of what the engine knows after loading a scenario. */

@@ -299,6 +299,15 @@ export async function toNetcdf(run: RunData): Promise<Uint8Array> {
   return sink.bytes().slice();
 }
 
+/** A run kept by an older Pycno lacks the newer (optional) integrals: they are NaN, as when a file is read. */
+export function withAllIntegrals(run: RunData): RunData {
+  const missing = INTEGRAL_VARIABLES.filter((iv) => iv.optional && !run.integrals[iv.key as IntegralKey]);
+  if (missing.length === 0) return run;
+  const integrals = { ...run.integrals };
+  for (const iv of missing) integrals[iv.key as IntegralKey] = new Float64Array(run.days.length).fill(NaN);
+  return { ...run, integrals };
+}
+
 /** Sizes and orders agree, so a file written from it can be read back. */
 export function checkRun(run: RunData): void {
   const { nx, ny } = run.grid;
@@ -449,6 +458,10 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
 
   const integrals = {} as Record<IntegralKey, Float64Array>;
   for (const iv of INTEGRAL_VARIABLES) {
+    if (iv.optional && !has(iv.name)) {
+      integrals[iv.key as IntegralKey] = new Float64Array(nt).fill(NaN); // written by an older Pycno
+      continue;
+    }
     const vals = numbers(need(iv.name), where);
     if (vals.length !== nt) throw new RunFileError(`${where}: damaged Pycno run file: '${iv.name}' has ${vals.length} values for ${nt} times`);
     integrals[iv.key as IntegralKey] = vals.slice();

@@ -6,6 +6,7 @@ import type { Grid } from '../grid.ts';
 import { chooseTimeStep, stabilityLimit, type StabilityLimit } from '../dynamics/stability.ts';
 import type { ResolvedScenario } from './resolve.ts';
 import * as pm from '../portable-math.ts';
+import { westernBoundaryLayer, type BoundaryLayer } from './boundary-layer.ts';
 
 export { stabilityLimit, type LimitingTerm, type StabilityInput, type StabilityLimit } from '../dynamics/stability.ts';
 
@@ -28,6 +29,7 @@ export function scenarioStability(r: ResolvedScenario): StabilityLimit {
     fMax: maxCoriolis(r),
     viscosity: physics.viscosity,
     friction: physics.friction,
+    spongeRate: physics.sponge.widthDeg > 0 ? physics.sponge.rateAtWall : 0,
     mode: physics.mode,
   });
 }
@@ -73,6 +75,8 @@ export interface DerivedNumbers {
   outputBytes: number;
   /** Memory of the solver arrays plus one output frame. */
   memoryBytes: number;
+  /** The western boundary layer's width against the zonal grid interval, with advice when unresolved. */
+  boundaryLayer: BoundaryLayer;
 }
 
 export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers {
@@ -121,5 +125,6 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
     outputs,
     outputBytes,
     memoryBytes,
+    boundaryLayer: westernBoundaryLayer(beta, physics.viscosity, physics.friction, dx),
   };
 }

@@ -66,7 +66,7 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
       gravity: EARTH.gravity,
       surfaceLayer: { depth: physics.surfaceLayer.depth, damping: rate(physics.surfaceLayer.dampingDays) },
       entrainment: { minThickness: physics.entrainment.minThickness, time: physics.entrainment.timeDays * DAY },
-      sponge: { widthDeg: basin.sponge.widthDeg, rateAtWall: rate(basin.sponge.dampingDays) },
+      sponge: { widthDeg: basin.sponge.widthDeg, rateAtWall: rate(basin.sponge.dampingDays), conserveVolume: basin.sponge.conserveVolume },
     },
     time: { dt: time.dtSeconds === 'auto' ? null : time.dtSeconds, safety: time.safety, alignTo: time.outputEveryDays * DAY },
   };

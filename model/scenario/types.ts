@@ -47,7 +47,7 @@ export interface ScenarioFile {
     latNorth: number;
     resolution: Resolution;
     land?: LandShape[];
-    sponge?: { widthDeg?: number; dampingDays?: number };
+    sponge?: { widthDeg?: number; dampingDays?: number; conserveVolume?: boolean };
   };
   physics?: {
     reducedGravity?: number;
@@ -88,7 +88,7 @@ export interface Scenario {
     latNorth: number;
     resolution: Resolution;
     land: LandShape[];
-    sponge: { widthDeg: number; dampingDays: number };
+    sponge: { widthDeg: number; dampingDays: number; conserveVolume: boolean };
   };
   physics: {
     reducedGravity: number;

@@ -52,7 +52,7 @@ describe('refused input', () => {
   });
 
   it('a basin smaller than its sponges', () => {
-    const e = errorOf(() => new Model(config(b, { sponge: { widthDeg: 10, rateAtWall: 1e-5 } })));
+    const e = errorOf(() => new Model(config(b, { sponge: { widthDeg: 10, rateAtWall: 1e-5, conserveVolume: false } })));
     expect(e.message).toBe(
       'basin.sponge.widthDeg: the two sponge bands (10° each) leave no interior in a basin 20° tall; make the bands narrower than 10° or the basin taller',
     );

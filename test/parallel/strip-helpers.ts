@@ -22,7 +22,7 @@ export function sameBits(a: Float64Array, b: Float64Array): boolean {
 export function basin(nx: number, ny: number, slip: 'free' | 'no', spongeRows: number): ModelConfig {
   const cfg = referenceConfig(nx, ny);
   cfg.basin.land = [...cfg.basin.land, { kind: 'rectangle', lonWest: 100, lonEast: 120, latSouth: -4, latNorth: 12 }];
-  cfg.physics = { ...cfg.physics, slip, sponge: { widthDeg: spongeRows * cfg.basin.dLat, rateAtWall: 1 / (2 * 86400) } };
+  cfg.physics = { ...cfg.physics, slip, sponge: { widthDeg: spongeRows * cfg.basin.dLat, rateAtWall: 1 / (2 * 86400), conserveVolume: false } };
   cfg.time = { dt: null, safety: 0.9 };
   return cfg;
 }

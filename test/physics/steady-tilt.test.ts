@@ -22,7 +22,7 @@ function spinUp(width: number, res: number, gp: number, H: number, years: number
       reducedGravity: gp,
       layerThickness: H,
       friction: 1 / (365 * DAY),
-      sponge: { widthDeg: 5, rateAtWall: 1 / (5 * DAY) },
+      sponge: { widthDeg: 5, rateAtWall: 1 / (5 * DAY), conserveVolume: false },
     }),
     { wind: uniformStress(config(b), TAU) },
   );

@@ -22,7 +22,7 @@ describe('resolveScenario gives SI units', () => {
     expect(r.model.physics.friction).toBeCloseTo(3.171e-8, 11);
     expect(r.model.physics.surfaceLayer).toEqual({ depth: 40, damping: 1 / (3 * 86400) });
     expect(r.model.physics.entrainment).toEqual({ minThickness: 30, time: 2 * 86400 });
-    expect(r.model.physics.sponge).toEqual({ widthDeg: 4, rateAtWall: 1 / (5 * 86400) });
+    expect(r.model.physics.sponge).toEqual({ widthDeg: 4, rateAtWall: 1 / (5 * 86400), conserveVolume: false });
     expect(r.model.time).toEqual({ dt: 1800, safety: 0.8, alignTo: r.outputEverySeconds });
     expect(r.runSeconds).toBe(60 * 86400);
     expect(r.outputEverySeconds).toBe(2 * 86400);

@@ -9,7 +9,7 @@
 // is reloaded. docs/library.md describes the format and how a future version migrates it.
 
 import { openDB, type DBSchema, type IDBPDatabase } from 'idb';
-import { readRun, thinSnapshots, toNetcdf, checkRun, RunFileError, type RunData } from '../../model/io/run-read.ts';
+import { readRun, thinSnapshots, toNetcdf, checkRun, withAllIntegrals, RunFileError, type RunData } from '../../model/io/run-read.ts';
 import { formatBytes } from '../state/frame-history.ts';
 
 export const LIBRARY_DB = 'pycno-library';
@@ -249,7 +249,7 @@ export class RunLibrary {
     if (!m) throw new LibraryError(`no saved run with id ${id}`);
     if (!p) throw new LibraryError(`saved run '${m.name}' (${id}) has no data record; the library is damaged`);
     if (p.format !== PAYLOAD_FORMAT) throw new LibraryError(`saved run '${m.name}' is in format ${p.format}, which this version (${PAYLOAD_FORMAT}) does not read`);
-    return p.run;
+    return withAllIntegrals(p.run);
   }
 
   /**

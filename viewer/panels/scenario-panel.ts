@@ -222,6 +222,7 @@ export class ScenarioPanel {
       ['Grid', `${d.nx} \u00d7 ${d.ny} cells, ${formatValue(d.dxKm)} \u00d7 ${formatValue(d.dyKm)} km`],
       ['Time step dt', `${formatValue(d.dt)} s${d.dtIsAuto ? ' (auto)' : ''}`, d.dt > d.stability.dtMax],
       ['dt limit', `${formatValue(d.stability.dtMax)} s (${d.stability.limitingTerm})`],
+      ['Western boundary layer', boundaryLayerText(d), !d.boundaryLayer.resolved],
       ['Steps, saved frames', `${d.steps.toLocaleString('en')}, ${d.outputs}`],
       ['Solver memory', `${(d.memoryBytes / 1e6).toFixed(1)} MB`],
     ];
@@ -235,5 +236,20 @@ export class ScenarioPanel {
         return [dt, dd];
       }),
     );
+    if (d.boundaryLayer.advice) {
+      const advice = document.createElement('dd');
+      advice.className = 'bad advice';
+      advice.textContent = `Unresolved: ${d.boundaryLayer.advice}.`;
+      this.derivedList.append(advice);
+    }
   }
+}
+
+/** Munk and Stommel widths against dx (the wider one sets the layer), as the derived list shows them. */
+function boundaryLayerText(d: DerivedNumbers): string {
+  const b = d.boundaryLayer;
+  if (!Number.isFinite(b.intervals)) return 'none (no beta effect)';
+  const width = Math.max(b.munkKm, b.stommelKm);
+  const by = b.munkKm >= b.stommelKm ? 'Munk' : 'Stommel';
+  return `${formatValue(width)} km (${by}), ${b.intervals.toFixed(2)} \u00d7 dx`;
 }

@@ -44,7 +44,7 @@ ${RERUN_USAGE}  ${SWEEP_USAGE}  ${COMPARE_USAGE}
   --restart-out FILE.nc  also write a restart file of the end state (exact continuation)
   --threads N|auto       split the linear step into N latitude strips on N threads (same results bit
                          for bit; auto: one per core on grids large enough to gain); default 1
-  --quiet                no progress on stderr
+  --quiet                no progress and no warnings on stderr (errors only)
 ${RERUN_HELP}${SWEEP_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
                          difference per field, measured wave speeds beside theory (exit 2: no overlap)
   --out DIFF.nc          (compare) write B minus A as a NetCDF file in the layout of a run
@@ -258,8 +258,12 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
   const writer = new RunOutputWriter(describe(info, shown, args, engine), sink);
   await writer.begin();
   let first: Integrals | null = null;
+  let fastest: Integrals | null = null;
+  let largestCourant = 0;
   engine.setRecorder(async (r) => {
     first ??= r.integrals;
+    if (!fastest || r.integrals.maxSpeed > fastest.maxSpeed) fastest = r.integrals;
+    largestCourant = Math.max(largestCourant, r.integrals.courant);
     await writer.append(r);
   });
   const model = engine.model!;
@@ -271,6 +275,8 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
     interrupted = true;
     engine.pause();
   });
+  // Said as the run starts, not after it: a long run on an unresolved grid is worth stopping at once.
+  if (info.derived.boundaryLayer.advice && !quiet) io.stderr.write(`pycno: warning: ${info.derived.boundaryLayer.advice}\n`);
   const stepsBefore = model.state.steps;
   const t0 = performance.now();
   engine.start();
@@ -301,7 +307,7 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
     }
   }
   for (const n of info.notes ?? []) io.stdout.write(`input           ${n}\n`);
-  io.stdout.write(runSummary({ wallSeconds: wall, steps, cells, first, last: model.integrals(), records: writer.records, outFile, restartFile }));
+  io.stdout.write(runSummary({ wallSeconds: wall, steps, cells, first, last: model.integrals(), fastest, largestCourant, records: writer.records, outFile, restartFile }));
   return 0;
 }
 

@@ -26,12 +26,22 @@ export function checkReport(name: string, file: string, d: DerivedNumbers, field
     ['time step', `dt = ${d.dt.toFixed(1)} s (${d.dtIsAuto ? 'auto' : 'given'}); limit ${s.dtMax.toFixed(1)} s, set by ${s.limitingTerm}`],
     ['limit', s.explanation],
     ['CFL', `gravity-wave Courant number c dt sqrt(1/dx^2 + 1/dy^2) = ${cfl.toFixed(3)}; dt / limit = ${(d.dt / s.dtMax).toFixed(3)}`],
+    ['boundary layer', boundaryLayerLine(d)],
     ['steps', `${d.steps} for ${days} days`],
     ['output', `${d.outputs} records every ${everyDays} days of ${fields.join(', ')}: about ${formatBytes(d.outputBytes)}`],
     ['memory', `about ${formatBytes(d.memoryBytes)}`],
   ];
   for (const n of notes) list.push(['input', n]);
+  if (d.boundaryLayer.advice) list.push(['warning', d.boundaryLayer.advice]);
   return rows(list);
+}
+
+/** The western boundary layer's widths against dx, in one line. */
+export function boundaryLayerLine(d: DerivedNumbers): string {
+  const b = d.boundaryLayer;
+  const km = (x: number) => `${x.toFixed(x < 10 ? 1 : 0)} km`;
+  const share = Number.isFinite(b.intervals) ? `${b.intervals.toFixed(2)} dx` : 'no beta effect';
+  return `western, Munk (A/beta)^(1/3) = ${km(b.munkKm)}, Stommel r/beta = ${km(b.stommelKm)}: ${share} (${b.resolved ? 'resolved' : 'UNRESOLVED'}; at least 1 dx wanted)`;
 }
 
 export interface RunSummary {
@@ -40,9 +50,28 @@ export interface RunSummary {
   cells: number;
   first: Integrals | null;
   last: Integrals;
+  /** The record with the fastest flow, and the largest Courant number, over the whole run. */
+  fastest?: Integrals | null;
+  largestCourant?: number;
   records: number;
   outFile: string;
   restartFile?: string;
+}
+
+/** What the sponge bands did to the layer volume (signed: negative = taken out), and entrainment beside it. */
+function spongeLine(s: RunSummary): string {
+  const v0 = s.first?.volume ?? NaN;
+  const share = (x: number) => (Number.isFinite(x / v0) ? `${(100 * (x / v0)).toPrecision(3)} %` : '-');
+  const sponge = s.last.spongeVolume;
+  const entrained = s.last.entrainedVolume > 0 ? `; entrainment ${p3(s.last.entrainedVolume)} m3 (${share(s.last.entrainedVolume)})` : '';
+  return `${p3(sponge)} m3 (${share(sponge)} of the starting volume; negative = taken out)${entrained}`;
+}
+
+/** The fastest flow now and, when faster, the fastest of the run with its day. */
+function fastestLine(s: RunSummary): string {
+  const now = `${s.last.maxSpeed.toFixed(3)} m/s`;
+  const f = s.fastest;
+  return f && f.maxSpeed > s.last.maxSpeed ? `${now} (fastest of the run ${f.maxSpeed.toFixed(3)} m/s on day ${f.day.toFixed(1)})` : now;
 }
 
 export function runSummary(s: RunSummary): string {
@@ -53,10 +82,11 @@ export function runSummary(s: RunSummary): string {
     ['speed', `${formatRate(rate)} cell updates/s`],
     ['final day', s.last.day.toFixed(2)],
     ['volume change', `${Number.isFinite(drift) ? drift.toExponential(2) : '-'} (relative, since the start)`],
+    ['sponge volume', spongeLine(s)],
     ['energy', `${p3(s.last.energy)} J (kinetic ${p3(s.last.kinetic)}, potential ${p3(s.last.potential)})`],
     ['thinnest layer', `${s.last.minThickness.toFixed(2)} m`],
-    ['fastest flow', `${s.last.maxSpeed.toFixed(3)} m/s`],
-    ['Courant number', s.last.courant.toFixed(3)],
+    ['fastest flow', fastestLine(s)],
+    ['Courant number', s.largestCourant !== undefined && s.largestCourant > s.last.courant ? `${s.last.courant.toFixed(3)} (largest of the run ${s.largestCourant.toFixed(3)})` : s.last.courant.toFixed(3)],
     ['output', `${s.outFile} (${s.records} records)`],
   ];
   if (s.restartFile) list.push(['restart', s.restartFile]);
