@@ -51,11 +51,7 @@ export interface RunDescription {
   scenarioJson: string;
   /** Scenario file name as given, for the history line. */
   scenarioFile?: string;
-  /**
-   * Cell centres and mask; dLon, dLat the cell size in degrees where the writer knows it (a
-   * loaded scenario does); otherwise the spacing of the centres is taken (see cellSizeDegrees).
-   */
-  grid: { nx: number; ny: number; lon: ArrayLike<number>; lat: ArrayLike<number>; ocean: ArrayLike<number>; dLon?: number; dLat?: number };
+  grid: { nx: number; ny: number; lon: ArrayLike<number>; lat: ArrayLike<number>; ocean: ArrayLike<number> };
   fields: readonly FieldName[];
   /** Requested Hovmoller latitudes and the centre latitudes of the rows used. */
   hovmollerLats: readonly number[];
@@ -88,8 +84,9 @@ export function probeVariableName(field: FieldName): string {
 }
 
 /**
- * The cell size in degrees: as given, else the spacing of the cell centres; a one-cell axis
- * without a given size takes the basin's extent from the scenario (the cell is the basin).
+ * The cell size in degrees: the spacing of the cell centres (what every writer of a run has, so
+ * the command line and the page's export give the same bits); a one-cell axis takes the basin's
+ * extent from the scenario (that one cell is the basin).
  */
 export function cellSizeDegrees(d: Pick<RunDescription, 'grid' | 'scenarioJson'>): { dLon: number; dLat: number } {
   const basin = () => {
@@ -99,17 +96,16 @@ export function cellSizeDegrees(d: Pick<RunDescription, 'grid' | 'scenarioJson'>
       return {};
     }
   };
-  const axis = (given: number | undefined, centres: ArrayLike<number>, low: string, high: string, what: string): number => {
-    if (given !== undefined) return given;
+  const axis = (centres: ArrayLike<number>, low: string, high: string, what: string): number => {
     const n = centres.length;
     if (n > 1) return (centres[n - 1] - centres[0]) / (n - 1);
     const b = basin();
     const extent = typeof b[high] === 'number' && typeof b[low] === 'number' ? (b[high] as number) - (b[low] as number) : NaN;
-    if (!(extent > 0)) throw new Error(`run file: the ${what} of a one-cell grid is unknown (no cell size given and no basin.${low}/${high} in the scenario)`);
+    if (!(extent > 0)) throw new Error(`run file: the ${what} of a one-cell grid is unknown (no basin.${low}/${high} in the scenario)`);
     return extent;
   };
   const g = d.grid;
-  return { dLon: axis(g.dLon, g.lon, 'lonWest', 'lonEast', 'cell width'), dLat: axis(g.dLat, g.lat, 'latSouth', 'latNorth', 'cell height') };
+  return { dLon: axis(g.lon, 'lonWest', 'lonEast', 'cell width'), dLat: axis(g.lat, 'latSouth', 'latNorth', 'cell height') };
 }
 
 /**

@@ -161,11 +161,11 @@ describe('run output file', () => {
     expect(f.attributes.pycno_earth_radius.value).toEqual(new Float64Array([6371008.7714]));
   });
 
-  it('cell size: as given, else the centre spacing, else (one cell) the basin from the scenario', () => {
+  it('cell size: the centre spacing, or (one cell) the basin from the scenario', () => {
     const grid = { nx: 1, ny: 3, lon: [150.25], lat: [-1, 0, 1], ocean: [1, 1, 1] };
     const basin = JSON.stringify({ basin: { lonWest: 150, lonEast: 150.5, latSouth: -1.5, latNorth: 1.5 } });
     expect(cellSizeDegrees({ grid, scenarioJson: basin })).toEqual({ dLon: 0.5, dLat: 1 });
-    expect(cellSizeDegrees({ grid: { ...grid, dLon: 0.25, dLat: 0.75 }, scenarioJson: '{}' })).toEqual({ dLon: 0.25, dLat: 0.75 });
+    expect(cellSizeDegrees({ grid: { ...grid, nx: 4, lon: [0.125, 0.375, 0.625, 0.875] }, scenarioJson: '{}' })).toEqual({ dLon: 0.25, dLat: 1 });
     expect(() => cellSizeDegrees({ grid, scenarioJson: '{}' })).toThrow(/cell width of a one-cell grid is unknown/);
   });
 
