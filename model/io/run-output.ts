@@ -9,6 +9,7 @@ import type { FieldName } from '../diagnostics/fields.ts';
 import { FIELD_INFO } from '../diagnostics/fields.ts';
 import type { Integrals } from '../diagnostics/integrals.ts';
 import type { DrawnBurst } from '../forcing/bursts.ts';
+import { EARTH } from '../config.ts';
 import { NC_BYTE, NC_CHAR, NC_DOUBLE, NC_FILL_FLOAT, NC_FLOAT, utf8Bytes, type NcFileInput, type NcVariableInput } from './netcdf-format.ts';
 import { NetcdfWriter, type ByteSink, type NcRecordInput } from './netcdf-writer.ts';
 import { sha256Hex } from './sha256.ts';
@@ -93,6 +94,44 @@ export function probeVariableName(field: FieldName): string {
   return `probe_${field}`;
 }
 
+/**
+ * The cell size in degrees: the spacing of the cell centres (what every writer of a run has, so
+ * the command line and the page's export give the same bits); a one-cell axis takes the basin's
+ * extent from the scenario (that one cell is the basin).
+ */
+export function cellSizeDegrees(d: Pick<RunDescription, 'grid' | 'scenarioJson'>): { dLon: number; dLat: number } {
+  const basin = () => {
+    try {
+      return (JSON.parse(d.scenarioJson) as { basin?: Record<string, unknown> }).basin ?? {};
+    } catch {
+      return {};
+    }
+  };
+  const axis = (centres: ArrayLike<number>, low: string, high: string, what: string): number => {
+    const n = centres.length;
+    if (n > 1) return (centres[n - 1] - centres[0]) / (n - 1);
+    const b = basin();
+    const extent = typeof b[high] === 'number' && typeof b[low] === 'number' ? (b[high] as number) - (b[low] as number) : NaN;
+    if (!(extent > 0)) throw new Error(`run file: the ${what} of a one-cell grid is unknown (no basin.${low}/${high} in the scenario)`);
+    return extent;
+  };
+  const g = d.grid;
+  return { dLon: axis(g.lon, 'lonWest', 'lonEast', 'cell width'), dLat: axis(g.lat, 'latSouth', 'latNorth', 'cell height') };
+}
+
+/**
+ * Area of every cell, m2: dx dy with dx = R dLon and dy = R dLat in radians, the distances of
+ * the equatorial beta plane (no cos(lat) factor, as in model/grid.ts), so all cells are equal.
+ */
+export function cellAreaSquareMetres(d: Pick<RunDescription, 'grid' | 'scenarioJson'>): number {
+  const { dLon, dLat } = cellSizeDegrees(d);
+  const mPerDeg = (EARTH.radius * Math.PI) / 180;
+  return dLon * mPerDeg * (dLat * mPerDeg);
+}
+
+export const CELL_AREA_COMMENT =
+  `beta-plane cell area dx dy: distances are the Earth radius times radians (dx = R dlon, dy = R dlat, no cos(lat) factor), so every cell has the same area; R = ${EARTH.radius} m (IUGG mean radius R1)`;
+
 /** The NetCDF layout (dimensions, variables, attributes) of a run's file. */
 export function runOutputFile(d: RunDescription): NcFileInput {
   const created = d.createdAt ?? new Date();
@@ -129,11 +168,22 @@ export function runOutputFile(d: RunDescription): NcFileInput {
       dimensions: ['lat', 'lon'],
       attributes: { long_name: 'ocean (1) or land (0)', flag_values: { type: NC_BYTE, values: [0, 1] }, flag_meanings: 'land ocean' },
     },
+    {
+      name: 'cell_area',
+      type: NC_DOUBLE,
+      dimensions: ['lat', 'lon'],
+      attributes: { standard_name: 'cell_area', long_name: 'area of the grid cell', units: 'm2', comment: CELL_AREA_COMMENT },
+    },
     { name: 'step', type: NC_DOUBLE, dimensions: ['time'], attributes: { long_name: 'model time steps taken', units: '1' } },
   ];
   for (const f of d.fields) {
     const info = FIELD_INFO[f];
-    variables.push({ name: f, type: NC_FLOAT, dimensions: ['time', 'lat', 'lon'], attributes: floatAtts(info.units, info.longName, info.standardName) });
+    variables.push({
+      name: f,
+      type: NC_FLOAT,
+      dimensions: ['time', 'lat', 'lon'],
+      attributes: { ...floatAtts(info.units, info.longName, info.standardName), cell_measures: 'area: cell_area' },
+    });
   }
   for (const iv of INTEGRAL_VARIABLES) {
     variables.push({ name: iv.name, type: NC_DOUBLE, dimensions: ['time'], attributes: { long_name: iv.longName, units: iv.units } });
@@ -156,8 +206,17 @@ export function runOutputFile(d: RunDescription): NcFileInput {
   if (d.probes.length > 0) {
     const strlen = Math.max(1, ...d.probes.map((p) => utf8Bytes(p.name).length));
     dimensions.push({ name: 'probe', length: d.probes.length }, { name: 'probe_name_length', length: strlen });
+    // The probes are a CF discrete-sampling-geometry collection of time series in the orthogonal
+    // multidimensional layout (probe_<field>(time, probe)); probe_name is the timeseries_id. It
+    // is listed in the series' coordinates: CDO then takes it as a label and does not warn that
+    // it skips a char variable. _Encoding lets netCDF4-python and xarray give the names as text.
     variables.push(
-      { name: 'probe_name', type: NC_CHAR, dimensions: ['probe', 'probe_name_length'], attributes: { long_name: 'probe name', cf_role: 'timeseries_id' } },
+      {
+        name: 'probe_name',
+        type: NC_CHAR,
+        dimensions: ['probe', 'probe_name_length'],
+        attributes: { long_name: 'probe name', cf_role: 'timeseries_id', _Encoding: 'utf-8' },
+      },
       { name: 'probe_lon', type: NC_DOUBLE, dimensions: ['probe'], attributes: { standard_name: 'longitude', long_name: 'probe longitude as given', units: 'degrees_east' } },
       { name: 'probe_lat', type: NC_DOUBLE, dimensions: ['probe'], attributes: { standard_name: 'latitude', long_name: 'probe latitude as given', units: 'degrees_north' } },
     );
@@ -167,7 +226,7 @@ export function runOutputFile(d: RunDescription): NcFileInput {
         name: probeVariableName(f),
         type: NC_FLOAT,
         dimensions: ['time', 'probe'],
-        attributes: { ...floatAtts(info.units, `${info.longName} in the model cell holding the probe`, info.standardName), coordinates: 'probe_lat probe_lon' },
+        attributes: { ...floatAtts(info.units, `${info.longName} in the model cell holding the probe`, info.standardName), coordinates: 'probe_lat probe_lon probe_name' },
       });
     }
   }
@@ -192,6 +251,7 @@ export function runOutputFile(d: RunDescription): NcFileInput {
       pycno_dynamics: d.dynamics,
       pycno_reduced_gravity: d.reducedGravity,
       pycno_layer_thickness: d.layerThickness,
+      pycno_earth_radius: EARTH.radius,
       pycno_hovmoller_requested_lat: d.hovmollerLats.length ? [...d.hovmollerLats] : 'none',
     },
   };
@@ -208,6 +268,26 @@ function concat(rows: ArrayLike<number>[], width: number): Float32Array {
   const out = new Float32Array(rows.length * width);
   rows.forEach((r, k) => out.set(filled(r), k * width));
   return out;
+}
+
+/**
+ * The non-record variables of a file laid out by runOutputFile(d): coordinates, mask, cell
+ * areas, Hovmoller row latitudes and the probe table. For the run writer and the difference file.
+ */
+export async function writeRunFixed(writer: NetcdfWriter, d: RunDescription): Promise<void> {
+  await writer.writeFixed('lat', d.grid.lat);
+  await writer.writeFixed('lon', d.grid.lon);
+  await writer.writeFixed('ocean', d.grid.ocean);
+  await writer.writeFixed('cell_area', new Float64Array(d.grid.nx * d.grid.ny).fill(cellAreaSquareMetres(d)));
+  if (d.hovmollerLats.length > 0) await writer.writeFixed('hovmoller_lat', d.hovmollerRowLats);
+  if (d.probes.length > 0) {
+    const strlen = Math.max(1, ...d.probes.map((p) => utf8Bytes(p.name).length));
+    const names = new Uint8Array(d.probes.length * strlen);
+    d.probes.forEach((p, k) => names.set(utf8Bytes(p.name), k * strlen));
+    await writer.writeFixed('probe_name', names);
+    await writer.writeFixed('probe_lon', d.probes.map((p) => p.lon));
+    await writer.writeFixed('probe_lat', d.probes.map((p) => p.lat));
+  }
 }
 
 /** Streams a run into a ByteSink: begin(), then append() per output interval, then close(). */
@@ -229,22 +309,10 @@ export class RunOutputWriter {
     return this.writer.byteLength;
   }
 
-  /** Header and the fixed variables (coordinates, mask, probe table). */
+  /** Header and the fixed variables (coordinates, mask, cell areas, probe table). */
   async begin(): Promise<void> {
-    const { d, writer } = this;
-    await writer.writeHeader();
-    await writer.writeFixed('lat', d.grid.lat);
-    await writer.writeFixed('lon', d.grid.lon);
-    await writer.writeFixed('ocean', d.grid.ocean);
-    if (d.hovmollerLats.length > 0) await writer.writeFixed('hovmoller_lat', d.hovmollerRowLats);
-    if (d.probes.length > 0) {
-      const strlen = Math.max(1, ...d.probes.map((p) => utf8Bytes(p.name).length));
-      const names = new Uint8Array(d.probes.length * strlen);
-      d.probes.forEach((p, k) => names.set(utf8Bytes(p.name), k * strlen));
-      await writer.writeFixed('probe_name', names);
-      await writer.writeFixed('probe_lon', d.probes.map((p) => p.lon));
-      await writer.writeFixed('probe_lat', d.probes.map((p) => p.lat));
-    }
+    await this.writer.writeHeader();
+    await writeRunFixed(this.writer, this.d);
   }
 
   async append(r: OutputRecord): Promise<void> {

@@ -6,6 +6,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
+import { EARTH } from '../../model/config.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);
@@ -166,7 +167,7 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     // The downwelling Kelvin wave from the burst (30E, peak about day 17) travels east at
     // c = sqrt(g'H); check the equatorial strip around where it should be on the shown day.
     const c = Math.sqrt(burst.physics.reducedGravity * burst.physics.layerThickness);
-    const degPerDay = (c * 86400 * 180) / (Math.PI * 6.371e6);
+    const degPerDay = (c * 86400 * 180) / (Math.PI * EARTH.radius);
     const centre = Math.min(125, 30 + degPerDay * (i.shownDay - 17));
     const px = await pixelsIn(page, { lonW: centre - 8, lonE: centre + 8, latS: -1, latN: 1 }, basin);
     const red = px.filter(([r, , b]) => r > b + 30).length;

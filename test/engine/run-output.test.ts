@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { FIELD_INFO } from '../../model/diagnostics/fields.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { MemorySink } from '../../model/io/netcdf-writer.ts';
-import { INTEGRAL_VARIABLES, OUTPUT_FILL, PYCNO_VERSION, RunOutputWriter, TIME_UNITS, type OutputRecord, type RunDescription } from '../../model/io/run-output.ts';
+import { INTEGRAL_VARIABLES, OUTPUT_FILL, PYCNO_VERSION, RunOutputWriter, TIME_UNITS, cellSizeDegrees, type OutputRecord, type RunDescription } from '../../model/io/run-output.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../../worker/engine.ts';
 import { FIXTURE, FIXTURE_TEXT, fakeHost } from './helpers.ts';
@@ -136,6 +136,48 @@ describe('run output file', () => {
     expect(h.length).toBe(records.length);
     expect(h[2]).toEqual(Array.from(records[2].fields.h_anom!, f32));
     expect(reader.getAttribute('Conventions')).toBe('CF-1.10');
+  });
+
+  it('writes beta-plane cell areas that the fields point to and that add up to the volume', async () => {
+    const { info, records, bytes } = await writeRun();
+    const f = readNetcdf(bytes);
+    const area = f.variable('cell_area');
+    expect(area.dimensions).toEqual(['lat', 'lon']);
+    // CF 1.10 section 7.2 (cell_measures, standard name cell_area, units m2), from memory.
+    expect(area.attributes.standard_name.value).toBe('cell_area');
+    expect(area.attributes.units.value).toBe('m2');
+    expect(String(area.attributes.comment.value)).toMatch(/no cos\(lat\)/);
+    for (const name of info.fields) expect(f.variable(name).attributes.cell_measures.value).toBe('area: cell_area');
+    // R = 6,371,008.7714 m, the IUGG mean radius R1 (GRS80, check-values section 6): a 1 x 1
+    // degree cell of the beta plane is (R pi / 180)^2.
+    const a = area.values as Float64Array;
+    const expected = ((6371008.7714 * Math.PI) / 180) ** 2;
+    expect(a.length).toBe(info.grid.nx * info.grid.ny);
+    for (const x of a) expect(x).toBeCloseTo(expected, 3);
+    // The model's own integral: at rest (record 0) the volume is H times the ocean area.
+    const oceanArea = a.reduce((s, x, k) => s + (info.grid.ocean[k] ? x : 0), 0);
+    expect(records[0].integrals.volumeAnomaly).toBe(0);
+    expect(records[0].integrals.volume / (150 * oceanArea)).toBeCloseTo(1, 12);
+    expect(f.attributes.pycno_earth_radius.value).toEqual(new Float64Array([6371008.7714]));
+  });
+
+  it('cell size: the centre spacing, or (one cell) the basin from the scenario', () => {
+    const grid = { nx: 1, ny: 3, lon: [150.25], lat: [-1, 0, 1], ocean: [1, 1, 1] };
+    const basin = JSON.stringify({ basin: { lonWest: 150, lonEast: 150.5, latSouth: -1.5, latNorth: 1.5 } });
+    expect(cellSizeDegrees({ grid, scenarioJson: basin })).toEqual({ dLon: 0.5, dLat: 1 });
+    expect(cellSizeDegrees({ grid: { ...grid, nx: 4, lon: [0.125, 0.375, 0.625, 0.875] }, scenarioJson: '{}' })).toEqual({ dLon: 0.25, dLat: 1 });
+    expect(() => cellSizeDegrees({ grid, scenarioJson: '{}' })).toThrow(/cell width of a one-cell grid is unknown/);
+  });
+
+  it('labels the probe series as CF time series named by probe_name', async () => {
+    const { bytes } = await writeRun();
+    const f = readNetcdf(bytes);
+    const name = f.variable('probe_name');
+    expect(name.attributes.cf_role.value).toBe('timeseries_id');
+    expect(name.attributes._Encoding.value).toBe('utf-8');
+    for (const v of f.variables.filter((x) => x.dimensions.join() === 'time,probe')) {
+      expect(v.attributes.coordinates.value).toBe('probe_lat probe_lon probe_name');
+    }
   });
 
   it('hashes like node:crypto (SHA-256 test vectors and a long text)', () => {

@@ -5,9 +5,10 @@ import { describe, expect, it } from 'vitest';
 import { FIELD_NAMES } from '../../model/diagnostics/fields.ts';
 import { writeNetcdfToMemory } from '../../model/io/netcdf-writer.ts';
 import { NC_FLOAT } from '../../model/io/netcdf-format.ts';
-import { readRun, RunCollector, toNetcdf, thinSnapshots, RunFileError } from '../../model/io/run-read.ts';
+import { readRun, RunCollector, runDescription, toNetcdf, thinSnapshots, RunFileError } from '../../model/io/run-read.ts';
 import { MemorySink } from '../../model/io/netcdf-writer.ts';
-import { RunOutputWriter } from '../../model/io/run-output.ts';
+import { RunOutputWriter, runOutputFile } from '../../model/io/run-output.ts';
+import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../../worker/engine.ts';
 import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
@@ -87,6 +88,43 @@ describe('files written while running', () => {
     const collected = c.finish();
     expectSameRun(collected, readRun(bytes));
     expect(Buffer.from(await toNetcdf(collected)).equals(Buffer.from(bytes))).toBe(true);
+  });
+});
+
+describe('older files', () => {
+  it('a run file of the layout before cell areas (no cell_area, probe names not in coordinates) reads the same', async () => {
+    const run = await tinyRun([], 2);
+    const now = await toNetcdf(run);
+    // The same file laid out as Pycno wrote it before: no cell_area, no cell_measures, probe
+    // series with coordinates "probe_lat probe_lon", probe_name without _Encoding.
+    const layout = runOutputFile(runDescription(run));
+    layout.variables = layout.variables
+      .filter((v) => v.name !== 'cell_area')
+      .map((v) => {
+        const a = { ...(v.attributes ?? {}) };
+        delete a.cell_measures;
+        delete a._Encoding;
+        if (a.coordinates === 'probe_lat probe_lon probe_name') a.coordinates = 'probe_lat probe_lon';
+        return { ...v, attributes: a };
+      });
+    delete (layout.attributes as Record<string, unknown>).pycno_earth_radius;
+    const f = readNetcdf(now);
+    const dims = new Map(f.dimensions.map((d) => [d.name, d]));
+    const fixed: Record<string, Float64Array | string> = {};
+    const records: Record<string, Float64Array>[] = Array.from({ length: f.numRecords }, () => ({}));
+    for (const v of layout.variables) {
+      const values = f.variable(v.name).values;
+      if (v.dimensions[0] !== 'time') {
+        fixed[v.name] = values;
+        continue;
+      }
+      const per = v.dimensions.slice(1).reduce((n, d) => n * dims.get(d)!.length, 1);
+      records.forEach((r, n) => (r[v.name] = (values as Float64Array).subarray(n * per, (n + 1) * per)));
+    }
+    const old = await writeNetcdfToMemory(layout, fixed, records);
+    expect(readNetcdf(old).variables.some((v) => v.name === 'cell_area')).toBe(false);
+    expectSameRun(readRun(now, 'now.nc'), readRun(old, 'old.nc'));
+    expect(readRun(old).probes.map((p) => p.name)).toEqual(['west', 'east-coast']);
   });
 });
 

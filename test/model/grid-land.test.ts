@@ -3,6 +3,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { Grid, insideShape, type LandShape } from '../../model/grid.ts';
+import { EARTH } from '../../model/config.ts';
 
 describe('land mask', () => {
   it('equals the brute-force mask for rectangles, a concave polygon and shapes over the edges', () => {
@@ -12,7 +13,7 @@ describe('land mask', () => {
       { kind: 'rectangle', lonWest: -5, lonEast: 1.3, latSouth: 7, latNorth: 30 },
       { kind: 'polygon', points: [[35, -20], [45, -20], [45, -6]] },
     ];
-    const g = new Grid({ lonWest: 0, lonEast: 40, latSouth: -10, latNorth: 10, dLon: 0.5, dLat: 0.25, land }, 6.371e6);
+    const g = new Grid({ lonWest: 0, lonEast: 40, latSouth: -10, latNorth: 10, dLon: 0.5, dLat: 0.25, land }, EARTH.radius);
     let land0 = 0;
     for (let j = 0; j < g.ny; j++) {
       for (let i = 0; i < g.nx; i++) {

@@ -6,6 +6,7 @@ import { Model } from '../../model/model.ts';
 import { State } from '../../model/state.ts';
 import { Grid } from '../../model/grid.ts';
 import { basin, config, uniformStress } from '../physics/setup.ts';
+import { EARTH } from '../../model/config.ts';
 
 const b = basin(140, 180, -10, 10, 0.5);
 
@@ -68,7 +69,7 @@ describe('refused input', () => {
   });
 
   it('a restart state on another grid', () => {
-    const other = new Grid(basin(140, 170, -10, 10, 0.5), 6.371e6);
+    const other = new Grid(basin(140, 170, -10, 10, 0.5), EARTH.radius);
     expect(errorOf(() => new Model(config(b), { initial: new State(other) })).message).toMatch(/restart state is on a 60 x 40 grid, the scenario on 80 x 40/);
   });
 

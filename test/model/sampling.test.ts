@@ -6,9 +6,10 @@ import { probeStencil, sampleAt, sectionAlong } from '../../model/diagnostics/sa
 import { Grid } from '../../model/grid.ts';
 import { Model } from '../../model/model.ts';
 import { basin, config } from '../physics/setup.ts';
+import { EARTH } from '../../model/config.ts';
 
 describe('sampling', () => {
-  const g = new Grid(basin(100, 110, -5, 5, 0.5, [{ kind: 'rectangle', lonWest: 108, lonEast: 110, latSouth: -5, latNorth: 5 }]), 6.371e6);
+  const g = new Grid(basin(100, 110, -5, 5, 0.5, [{ kind: 'rectangle', lonWest: 108, lonEast: 110, latSouth: -5, latNorth: 5 }]), EARTH.radius);
   const linear = Float64Array.from({ length: g.nx * g.ny }, (_, o) => 2 * g.lonCentre[o % g.nx] - 3 * g.latCentre[Math.floor(o / g.nx)]);
 
   it('a probe reproduces a linear field exactly away from land', () => {

@@ -24,6 +24,7 @@ import { check, fuzzSeed, hostileValue, printTally, runCase, tallies } from './f
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { EARTH } from '../../model/config.ts';
 
 const runs = (name: string, n: number) => Number(process.env[`PYCNO_FUZZ_${name.toUpperCase()}`] ?? n);
 
@@ -109,7 +110,7 @@ const e2 = (n: number) => (n % 3 === 2 ? '\r\n' : '\n');
 // --- NetCDF ------------------------------------------------------------------------------------
 
 let SAMPLES: Array<{ name: string; bytes: Uint8Array }> = [];
-const GRID = new Grid({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 2, dLat: 2, land: [] }, 6.371e6);
+const GRID = new Grid({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 2, dLat: 2, land: [] }, EARTH.radius);
 
 async function makeSamples(): Promise<void> {
   const lon = Array.from({ length: 6 }, (_, i) => 150 + 2 * i);

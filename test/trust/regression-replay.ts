@@ -10,6 +10,7 @@ import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { readStartFile } from '../../model/io/restart.ts';
 import { readRun } from '../../model/io/run-read.ts';
 import { buildPrepared, parseScenario } from '../../model/scenario/load-inputs.ts';
+import { EARTH } from '../../model/config.ts';
 
 export function replayRegression(name: string, bytes: Uint8Array): unknown {
   const text = () => new TextDecoder().decode(bytes);
@@ -25,7 +26,7 @@ export function replayRegression(name: string, bytes: Uint8Array): unknown {
       readNetcdfVectors(bytes);
     } else if (name.startsWith('netcdf-')) {
       readNetcdf(bytes);
-      readStartFile(bytes, new Grid({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 1, dLat: 1, land: [] }, 6.371e6));
+      readStartFile(bytes, new Grid({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 1, dLat: 1, land: [] }, EARTH.radius));
       readRun(bytes);
     } else throw new Error(`unknown regression kind: ${name}`);
   } catch (e) {

@@ -5,6 +5,7 @@ import { characteristics, clipLine, degreesPerDay } from '../../viewer/state/cha
 import { availableDisplays, displayAt, fillDisplay } from '../../viewer/state/display-fields.ts';
 import { alignSeries, ProbeStore } from '../../viewer/state/probe-store.ts';
 import { cellAt, cellOf, graticuleLines, latLabel, lonLabel } from '../../viewer/render/geo.ts';
+import { EARTH } from '../../model/config.ts';
 
 const frame = (day: number, n = 10) => ({ day, step: day, fields: { h_anom: new Float32Array(n), u: new Float32Array(n) } });
 
@@ -91,7 +92,7 @@ describe('colour ranges', () => {
 });
 
 describe('Hovmoller characteristic lines', () => {
-  const R = 6.371e6;
+  const R = EARTH.radius;
   it('converts a speed to degrees of longitude per day along the equator', () => {
     // 1 degree = R pi / 180 = 111.19 km; 2.74 m/s x 86400 s = 236.7 km/day = 2.129 deg/day.
     expect(degreesPerDay(2.74, R)).toBeCloseTo(2.129, 3);

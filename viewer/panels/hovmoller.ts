@@ -2,6 +2,7 @@
 // day upward, growing as the run goes. A click places the start of the Kelvin and long Rossby
 // characteristic lines, so the user sees whether the signal keeps pace with c and c/3.
 
+import { EARTH } from '../../model/config.ts';
 import { LAND_GREY, LUT_SIZE, lookupTable } from '../render/colour-maps.ts';
 import { drawAxes } from '../render/axes.ts';
 import { graticuleLines, graticuleStep, lonLabel } from '../render/geo.ts';
@@ -24,7 +25,7 @@ export class HovmollerPanel {
   private latIndex = 0;
   start: { lon: number; day: number } | null = null;
   private c = 0;
-  private earthRadius = 6.371e6;
+  private earthRadius: number = EARTH.radius;
   private scale = 0;
   private image: ImageData | null = null;
   private markDay: number | null = null;

@@ -9,10 +9,10 @@ import { basename, resolve as resolvePath } from 'node:path';
 import { compareRuns, type RunComparison } from '../../model/compare/compare.ts';
 import { showValue } from '../../model/compare/scenario-diff.ts';
 import { FIELD_INFO } from '../../model/diagnostics/fields.ts';
-import { NC_FILL_FLOAT, utf8Bytes, type NcAttributeInput } from '../../model/io/netcdf-format.ts';
+import { NC_FILL_FLOAT, type NcAttributeInput } from '../../model/io/netcdf-format.ts';
 import { NetcdfWriter } from '../../model/io/netcdf-writer.ts';
 import { readRun, RunFileError, type RunData } from '../../model/io/run-read.ts';
-import { INTEGRAL_VARIABLES, PYCNO_VERSION, probeVariableName, runOutputFile, type RunDescription } from '../../model/io/run-output.ts';
+import { INTEGRAL_VARIABLES, PYCNO_VERSION, probeVariableName, runOutputFile, writeRunFixed, type RunDescription } from '../../model/io/run-output.ts';
 import { isMeasured, measureWaves, type NotMeasured, type SpeedMeasure } from '../../model/report/measure.ts';
 import { FileSink } from '../files-node.ts';
 import type { ProgressStream } from './progress.ts';
@@ -197,18 +197,7 @@ export async function writeDifference(c: RunComparison, fileA: string, fileB: st
   file.attributes = atts;
   const w = new NetcdfWriter(file, sink);
   await w.writeHeader();
-  await w.writeFixed('lat', g.lat);
-  await w.writeFixed('lon', g.lon);
-  await w.writeFixed('ocean', g.ocean);
-  if (c.hovmoller.length) await w.writeFixed('hovmoller_lat', c.hovmoller.map((h) => h.rowLatA));
-  if (c.probes.length) {
-    const strlen = Math.max(1, ...c.probes.map((p) => utf8Bytes(p.name).length));
-    const names = new Uint8Array(c.probes.length * strlen);
-    c.probes.forEach((p, k) => names.set(utf8Bytes(p.name), k * strlen));
-    await w.writeFixed('probe_name', names);
-    await w.writeFixed('probe_lon', c.probes.map((p) => p.lonA));
-    await w.writeFixed('probe_lat', c.probes.map((p) => p.latA));
-  }
+  await writeRunFixed(w, d);
   const missing = new Float32Array(g.nx * g.ny).fill(NC_FILL_FLOAT);
   for (let n = 0; n < c.commonTimes.length; n++) {
     const t = c.commonTimes[n];
