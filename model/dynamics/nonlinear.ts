@@ -143,7 +143,7 @@ export function nonlinearTendencies(
   }
 }
 
-/** Advance the state one step in place with AB3 (lower order while history builds up). */
+/** Advance the state one step in place with AB3 (lower order while history builds up); the Model moves the clock. */
 export function nonlinearStep(
   grid: Grid,
   c: StepCoefficients,
@@ -177,8 +177,6 @@ export function nonlinearStep(
   hist.dh[0] = w.dh;
   w.dh = oldest;
   state.historyCount = Math.min(state.historyCount + 1, 2);
-  state.steps++;
-  state.time += dt;
 }
 
 function advance(
