@@ -8,7 +8,8 @@ import { linearStep, linearWork, type LinearWork } from './dynamics/linear.ts';
 import { WasmLinear, wasmAvailable } from './dynamics/linear-wasm.ts';
 import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
 import { VolumeKeepingSponge } from './dynamics/sponge.ts';
-import { chooseTimeStep, stabilityLimit, type StabilityLimit } from './dynamics/stability.ts';
+import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from './dynamics/stability.ts';
+import { Clock } from './clock.ts';
 import { centredField, type FieldContext, type FieldName } from './diagnostics/fields.ts';
 import { anomalySum, integrals, type Integrals } from './diagnostics/integrals.ts';
 import { BlowUpError, InputError } from './errors.ts';
@@ -55,6 +56,8 @@ export class Model {
   readonly physics: PhysicsConfig;
   readonly grid: Grid;
   readonly dt: number;
+  /** Reads the time of each step from the step count (model/clock.ts). */
+  readonly clock: Clock;
   readonly limit: StabilityLimit;
   readonly coefficients: StepCoefficients;
   readonly state: State;
@@ -115,6 +118,16 @@ export class Model {
     } else {
       this.state = initialState(this.grid, p, init);
     }
+    // The clock counts in whole steps of the output interval when there is one (the dt was chosen
+    // or checked to divide it); a restart's clock goes on when its step is this one's.
+    const interval = config.time.alignTo && config.time.alignTo > 0 && Number.isFinite(config.time.alignTo) ? config.time.alignTo : 0;
+    const perInterval = interval > 0 ? stepsInInterval(this.dt, interval) : 0;
+    const given = this.state.clock;
+    this.clock = Clock.continuing(this.dt, perInterval > 0 ? interval : 0, perInterval, this.state.steps, this.state.time, given);
+    // The stress a state shows is the one in force over the step that ended at it: for a state
+    // some run has stepped, read on that run's clock; for a fresh start, the first step's.
+    const previous = this.state.steps > 0 ? (given ? new Clock(given) : this.clock).timeAt(this.state.steps - 1) : this.state.time;
+    this.state.clock = { ...this.clock.spec };
 
     this.wind = options.wind ?? calm;
     this.taux = this.grid.field();
@@ -134,7 +147,7 @@ export class Model {
     this.nonlinear = p.mode === 'nonlinear' ? nonlinearWork(this.grid) : null;
     this.keeper = p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.grid, this.coefficients) : null;
     this.anomalyAtStart = anomalySum(this.grid, this.state.h);
-    this.updateWind();
+    this.updateWind(previous);
   }
 
   get day(): number {
@@ -148,7 +161,7 @@ export class Model {
       return;
     }
     for (let s = 0; s < n; s++) {
-      this.updateWind();
+      this.updateWind(this.state.time);
       if (this.wasm) {
         this.wasm.step(this.state, this.physics.friction, this.physics.viscosity);
       } else if (this.linear) {
@@ -160,6 +173,7 @@ export class Model {
         const added = this.keeper.restore(this.state.h);
         if (this.nonlinear) this.spongeMeasured += added;
       }
+      this.tick();
       if (this.state.steps % HEALTH_EVERY === 0) this.checkHealth();
     }
   }
@@ -167,13 +181,14 @@ export class Model {
   private advanceStrips(n: number, team: StripTeam): void {
     try {
       for (let s = 0; s < n; s++) {
-        this.updateWind();
+        this.updateWind(this.state.time);
         team.step(this.state, this.physics.friction, this.physics.viscosity);
         if (this.keeper) {
           // The band means need every strip's h rows of this step: wait for the workers.
           team.sync();
           this.keeper.restore(this.state.h);
         }
+        this.tick();
         if (this.state.steps % HEALTH_EVERY === 0) {
           team.sync();
           this.checkHealth();
@@ -231,6 +246,13 @@ export class Model {
     if (team) await team.close();
   }
 
+  /** One step done: the count goes up and the time is read from it, never accumulated. */
+  private tick(): void {
+    const s = this.state;
+    s.steps++;
+    s.time = this.clock.timeAt(s.steps);
+  }
+
   /** Steps needed to reach a model time (s) from the current one. */
   stepsUntil(timeSeconds: number): number {
     return Math.max(0, Math.round((timeSeconds - this.state.time) / this.dt));
@@ -258,9 +280,8 @@ export class Model {
     return this.wasm ? 'wasm' : this.linear ? 'ts' : 'nonlinear'; // strips run the 'ts' rows
   }
 
-  /** Fill the stress for the current time when the wind asks for it. */
-  private updateWind(): void {
-    const t = this.state.time;
+  /** Fill the stress for a step starting at time t (s) when the wind asks for it. */
+  private updateWind(t: number): void {
     const w = this.wind;
     if (w.steady) {
       if (!Number.isNaN(this.windFilledFor)) return;

@@ -1,5 +1,6 @@
 // The prognostic fields on the C grid (see model/grid.ts for the layout) and the model clock.
 
+import type { ClockSpec } from './clock.ts';
 import type { Grid } from './grid.ts';
 
 export class State {
@@ -9,9 +10,17 @@ export class State {
   v: Float64Array;
   /** Thickness anomaly h' = h - H at cell centres, m; positive = deeper thermocline. */
   h: Float64Array;
-  /** Model time, s since the run's start, and the number of steps taken. */
+  /**
+   * Model time, s since the start of the experiment, and the number of steps taken. The Model
+   * sets both after each step from its clock (model/clock.ts); the step kernels leave them alone.
+   */
   time = 0;
   steps = 0;
+  /**
+   * The clock that read this time, so that a restart continues it exactly; null for a state that
+   * no model has run (a fresh start, or one read without a clock).
+   */
+  clock: ClockSpec | null = null;
   /**
    * Multistep history of the nonlinear scheme: the tendencies of the two previous steps
    * (index 0 = one step back). historyCount says how many are valid. Part of the state so that
@@ -31,6 +40,14 @@ export class State {
     };
   }
 
+  /** Day 0 of a new experiment from this state (a spin-up's end): a fresh clock, no multistep history. */
+  startNewRun(): void {
+    this.time = 0;
+    this.steps = 0;
+    this.clock = null;
+    this.historyCount = 0;
+  }
+
   /** A deep copy, for snapshots and tests. */
   clone(): State {
     const s = new State(this.grid);
@@ -44,6 +61,7 @@ export class State {
     this.h.set(o.h);
     this.time = o.time;
     this.steps = o.steps;
+    this.clock = o.clock ? { ...o.clock } : null;
     this.historyCount = o.historyCount;
     for (const key of ['du', 'dv', 'dh'] as const) {
       for (let n = 0; n < 2; n++) this.history[key][n].set(o.history[key][n]);

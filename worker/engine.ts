@@ -74,10 +74,9 @@ interface Loaded {
   model: Model;
   bursts: DrawnBurst[];
   fields: FieldName[];
-  /** model.state.steps when the run started. */
+  /** model.state.steps when the run started, and when it ends. */
   firstStep: number;
   endStep: number;
-  outputs: number;
   hovRows: number[];
   probeCells: Array<{ i: number; j: number }>;
 }
@@ -227,8 +226,7 @@ export class Engine {
     const grid = model.grid;
     const fields = [...r.outputFields] as FieldName[];
     const firstStep = model.state.steps;
-    const endStep = firstStep + Math.ceil(r.runSeconds / model.dt - 1e-9);
-    const outputs = Math.floor(r.days / r.outputEveryDays + 1e-9) + 1;
+    const endStep = firstStep + model.clock.stepsFor(r.runSeconds);
     const lats = [...r.hovmollerLats, ...this.extraLats];
     const hovRows = lats.map((lat) => grid.nearestRow(lat));
     const probeCells = r.probes.map((p) => {
@@ -268,7 +266,7 @@ export class Engine {
       startDay: model.day,
       notes: [...inputs.notes],
     };
-    return { parsed, inputs, info, model, bursts: built.bursts, fields, firstStep, endStep, outputs, hovRows, probeCells };
+    return { parsed, inputs, info, model, bursts: built.bursts, fields, firstStep, endStep, hovRows, probeCells };
   }
 
   // --- controls -------------------------------------------------------------------------------
@@ -413,9 +411,14 @@ export class Engine {
     this.anchorDay = this.run ? this.run.model.day : 0;
   }
 
-  private outputStep(k: number): number {
+  /**
+   * The step of the next record after step n: the end of the next whole output interval, counted
+   * on the model's clock from day 0 (or from where a restart with another time step began), or the
+   * run's end when that comes first, so the last interval may be shorter.
+   */
+  private nextRecordStep(n: number): number {
     const run = this.run!;
-    return run.firstStep + Math.round((k * run.parsed.resolved.outputEverySeconds) / run.model.dt);
+    return Math.min(run.model.clock.nextWholeInterval(n), run.endStep);
   }
 
   private async loop(token: number): Promise<void> {
@@ -441,7 +444,7 @@ export class Engine {
         this.report();
         return;
       }
-      const nextSample = this.samplesTaken < run.outputs ? this.outputStep(this.samplesTaken) : Infinity;
+      const nextSample = this.nextRecordStep(steps);
       let n = Math.min(this.planner.next(), endStep - steps, nextSample - steps);
       if (this.speed !== 'max') {
         const allowedDay = this.anchorDay + (this.speed * (this.host.now() - this.anchorWall)) / 1000;

@@ -177,8 +177,6 @@ export class WasmLinear {
     this.pv = this.pvn;
     this.pvn = t;
     this.bind(state);
-    state.steps++;
-    state.time += c.dt;
   }
 }
 

@@ -30,7 +30,8 @@ export function linearWork(grid: Grid): LinearWork {
 
 /**
  * Advance the state one step in place. accelX / accelY are taux/(rho0 H) on u faces and
- * tauy/(rho0 H) on v faces. friction = r (s-1), viscosity = A (m2 s-1).
+ * tauy/(rho0 H) on v faces. friction = r (s-1), viscosity = A (m2 s-1). The fields only: the
+ * Model moves the clock (state.steps, state.time) after each step.
  *
  * One fused pass over the rows, so that each row of every array is read while it is still in
  * cache: at row j it updates u row j, then v row j (its Coriolis term needs new u rows j-1 and j;
@@ -69,8 +70,6 @@ export function linearStep(
   state.v = vn;
   work.uNew = u;
   work.vNew = v;
-  state.steps++;
-  state.time += c.dt;
 }
 
 /**
@@ -107,8 +106,6 @@ export function linearStepPlain(
   state.v = vn;
   work.uNew = u;
   work.vNew = v;
-  state.steps++;
-  state.time += c.dt;
 }
 
 /**

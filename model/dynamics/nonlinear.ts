@@ -144,8 +144,8 @@ export function nonlinearTendencies(
 }
 
 /**
- * Advance the state one step in place with AB3 (lower order while history builds up). Returns
- * the sum of h' the sponges took out in this step (m; see applySponge).
+ * Advance the state one step in place with AB3 (lower order while history builds up); the Model
+ * moves the clock. Returns the sum of h' the sponges took out in this step (m; see applySponge).
  */
 export function nonlinearStep(
   grid: Grid,
@@ -180,8 +180,6 @@ export function nonlinearStep(
   hist.dh[0] = w.dh;
   w.dh = oldest;
   state.historyCount = Math.min(state.historyCount + 1, 2);
-  state.steps++;
-  state.time += dt;
   return spongeTaken;
 }
 

@@ -120,13 +120,16 @@ export class StabilityError extends InputError {
 }
 
 /**
- * The dt a run uses: automatic (safety x limit, shortened so that alignTo is a whole number of
- * steps when given) or the user's, refused above the limit.
+ * The dt a run uses: automatic (safety x limit, shortened so that alignTo, the output interval,
+ * is a whole number of steps when given) or the user's, refused above the limit and, with an
+ * interval, when it does not divide the interval into whole steps (records could not fall on
+ * whole intervals; the message gives the nearest steps that do).
  */
 export function chooseTimeStep(limit: StabilityLimit, requested: number | null, safety: number, alignTo?: number): number {
+  const interval = alignTo && alignTo > 0 && Number.isFinite(alignTo) ? alignTo : 0;
   if (requested === null) {
     const dt = safety * limit.dtMax;
-    if (alignTo && alignTo > 0 && Number.isFinite(alignTo)) return alignTo / Math.ceil(alignTo / dt - 1e-9);
+    if (interval > 0) return interval / Math.ceil(interval / dt - 1e-9);
     return dt;
   }
   if (!(requested > 0) || !Number.isFinite(requested)) {
@@ -139,7 +142,58 @@ export function chooseTimeStep(limit: StabilityLimit, requested: number | null, 
       'time.dtSeconds',
     );
   }
+  if (interval > 0 && stepsInInterval(requested, interval) === 0) {
+    throw new InputError(`time step ${notDividing(requested, interval, limit.dtMax)}`, 'time.dtSeconds');
+  }
   return requested;
+}
+
+/**
+ * The whole number of steps dt makes of an interval, or 0 when it makes none. A decimal dt
+ * is taken as dividing when it does to 1e-12 of the interval (its last digit's rounding: 21600 / 7
+ * written as 3085.714285714286 divides 21600 s in 7 steps).
+ */
+export function stepsInInterval(dt: number, interval: number): number {
+  const n = Math.round(interval / dt);
+  return n >= 1 && Math.abs(n * dt - interval) <= 1e-12 * interval ? n : 0;
+}
+
+/**
+ * Why dt does not serve an output interval, with the nearest steps that do (within the stability
+ * limit), as the end of a sentence that starts with the dt's place: "1001 s does not divide ...".
+ */
+export function notDividing(dt: number, interval: number, dtMax: number): string {
+  const days = interval / 86400;
+  const lines: string[] = [];
+  const fits = (x: number) => x <= dtMax * (1 + 1e-12);
+  const below = Math.ceil(interval / dt - 1e-9);
+  const above = Math.floor(interval / dt + 1e-9);
+  const exact: string[] = [`${num(interval / below)} s (${below} steps per interval)`];
+  if (above >= 1 && above !== below && fits(interval / above)) exact.push(`${num(interval / above)} s (${above} steps)`);
+  lines.push(`the nearest steps that do are ${exact.join(' and ')}`);
+  if (Number.isInteger(interval)) {
+    // Whole seconds are easier to write down; the nearest whole divisors of the interval.
+    const whole: number[] = [];
+    for (let d = Math.min(Math.floor(dt), interval); d >= 1; d--) {
+      if (interval % d === 0) {
+        whole.push(d);
+        break;
+      }
+    }
+    for (let d = Math.ceil(dt); d <= Math.min(interval, dtMax); d++) {
+      if (interval % d === 0) {
+        whole.push(d);
+        break;
+      }
+    }
+    const ints = whole.filter((d) => d !== dt && !exact.some((e) => e.startsWith(`${d} s`)));
+    if (ints.length) lines.push(`in whole seconds ${ints.map((d) => `${d} s (${interval / d} steps)`).join(' and ')}`);
+  }
+  return `${num(dt)} s does not divide the output interval of ${num(days)} ${days === 1 ? 'day' : 'days'} (${num(interval)} s) into whole steps, so records could not fall on whole intervals; ${lines.join('; ')}; or use "auto"`;
+}
+
+function num(x: number): string {
+  return String(x);
 }
 
 function fmt(x: number): string {

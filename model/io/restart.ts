@@ -6,6 +6,7 @@
 import { InputError } from '../errors.ts';
 import type { Grid } from '../grid.ts';
 import type { Model } from '../model.ts';
+import { Clock, type ClockSpec } from '../clock.ts';
 import { State } from '../state.ts';
 import { NC_BYTE, NC_DOUBLE, type NcFileInput } from './netcdf-format.ts';
 import { readNetcdf, NetcdfReadError, type NcFile } from './netcdf-read.ts';
@@ -24,7 +25,7 @@ export interface RestartInfo {
   createdAt?: Date;
 }
 
-function restartLayout(grid: Grid, info: RestartInfo, dt: number): NcFileInput {
+function restartLayout(grid: Grid, info: RestartInfo, dt: number, clock: ClockSpec | null): NcFileInput {
   const atts: Record<string, string | number> = {
     title: 'Pycno restart',
     comment: 'the complete model state on the padded C grid; see docs/output.md',
@@ -34,6 +35,9 @@ function restartLayout(grid: Grid, info: RestartInfo, dt: number): NcFileInput {
     pycno_nx: grid.nx,
     pycno_ny: grid.ny,
     pycno_time_step_seconds: dt,
+    // The clock that read `time` (model/clock.ts): 0 for a clock without an output interval.
+    pycno_output_interval_seconds: clock?.intervalSeconds ?? 0,
+    pycno_steps_per_output_interval: clock?.stepsPerInterval ?? 0,
     pycno_scenario: info.scenarioJson ?? '',
     history: `${(info.createdAt ?? new Date()).toISOString()}: ${info.command ?? 'restart written'} (Pycno ${PYCNO_VERSION})`,
   };
@@ -57,6 +61,13 @@ function restartLayout(grid: Grid, info: RestartInfo, dt: number): NcFileInput {
     variables: [
       { name: 'time', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'model time since the start of the experiment', units: 's' } },
       { name: 'steps', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'time steps taken', units: '1' } },
+      {
+        name: 'clock_origin_time',
+        type: NC_DOUBLE,
+        dimensions: [],
+        attributes: { long_name: 'model time the clock counts from', units: 's', comment: 'time = clock_origin_time + ((steps - clock_origin_steps) * interval) / steps per interval' },
+      },
+      { name: 'clock_origin_steps', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'step count the clock counts from', units: '1' } },
       { name: 'history_count', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'valid multistep tendencies', units: '1' } },
       { name: 'ocean', type: NC_BYTE, dimensions: padded, attributes: { long_name: 'ocean (1) or land (0), padded layout' } },
       field('u', 'layer-mean eastward velocity on west faces (padded C grid)', 'm s-1'),
@@ -83,9 +94,12 @@ export async function writeRestartState(state: State, info: RestartInfo = {}): P
     return out;
   };
   const h = state.history;
-  return writeNetcdfToMemory(restartLayout(grid, info, info.dt ?? NaN), {
+  const clock = state.clock;
+  return writeNetcdfToMemory(restartLayout(grid, info, info.dt ?? clock?.dt ?? NaN, clock), {
     time: state.time,
     steps: state.steps,
+    clock_origin_time: clock ? clock.originTime : state.time,
+    clock_origin_steps: clock ? clock.originSteps : state.steps,
     history_count: state.historyCount,
     ocean: grid.ocean,
     u: state.u,
@@ -147,6 +161,7 @@ export function readRestart(bytes: Uint8Array, grid: Grid, source = 'the restart
   state.time = scalar('time');
   state.steps = scalar('steps');
   state.historyCount = scalar('history_count');
+  state.clock = clockOf(f, state, source);
   const ocean = f.variable('ocean').values as Float64Array;
   let differ = 0;
   for (let k = 0; k < grid.size; k++) if ((ocean[k] > 0 ? 1 : 0) !== grid.ocean[k]) differ++;
@@ -161,6 +176,31 @@ export function readRestart(bytes: Uint8Array, grid: Grid, source = 'the restart
   }
   if (!(Number.isFinite(state.time) && state.historyCount >= 0 && state.historyCount <= 2)) fail(source, 'has a corrupt clock or history count');
   return state;
+}
+
+/** The clock a restart was written with; null for a file from before clocks were kept (the run then counts from its time). */
+function clockOf(f: NcFile, state: State, source: string): ClockSpec | null {
+  if (!f.variables.some((v) => v.name === 'clock_origin_time')) return null;
+  const scalar = (name: string) => (f.variable(name).values as Float64Array)[0];
+  const clock: ClockSpec = {
+    dt: numberAttribute(f, 'pycno_time_step_seconds'),
+    intervalSeconds: numberAttribute(f, 'pycno_output_interval_seconds'),
+    stepsPerInterval: numberAttribute(f, 'pycno_steps_per_output_interval'),
+    originTime: scalar('clock_origin_time'),
+    originSteps: scalar('clock_origin_steps'),
+  };
+  const sound =
+    Object.values(clock).every(Number.isFinite) &&
+    clock.dt > 0 &&
+    clock.intervalSeconds >= 0 &&
+    Number.isInteger(clock.stepsPerInterval) &&
+    clock.stepsPerInterval >= 0 &&
+    (clock.stepsPerInterval > 0) === (clock.intervalSeconds > 0) &&
+    Number.isInteger(clock.originSteps) &&
+    clock.originSteps <= state.steps &&
+    Math.abs(new Clock(clock).timeAt(state.steps) - state.time) <= 1e-6 * clock.dt;
+  if (!sound) fail(source, 'has a corrupt clock (clock_origin_time, clock_origin_steps and the output interval attributes do not fit together)');
+  return clock;
 }
 
 function checkGrid(f: NcFile, grid: Grid, source: string): void {

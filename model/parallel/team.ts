@@ -251,8 +251,6 @@ export class StripTeam {
     this.current = 1 - cur;
     state.u = f.un;
     state.v = f.vn;
-    state.steps++;
-    state.time += c.dt;
   }
 
   /** Wait until every worker has finished the last step (a no-op when none is pending). */

@@ -34,14 +34,14 @@ export function buildModel(r: ResolvedScenario, options: BuildOptions = {}): Bui
       const what = init.kind === 'restart' ? `the restart file ${init.path}` : `the spin-up scenario ${init.scenario}`;
       throw new InputError(`${what} must be read first: no starting state was given`, 'initial');
     }
-    const model = new Model(r.model, { wind: stress, initial: options.startState });
+    let start = options.startState;
     if (init.kind === 'spinup') {
       // A spin-up hands over its end state, not its clock: the new run's day 0 (and its wind's)
       // starts here. Its multistep history belongs to the other run's forcing, so it starts anew.
-      model.state.time = 0;
-      model.state.steps = 0;
-      model.state.historyCount = 0;
+      start = start.clone();
+      start.startNewRun();
     }
+    const model = new Model(r.model, { wind: stress, initial: start });
     return { model, bursts };
   }
   return { model: new Model(r.model, { wind: stress, initial: init }), bursts };

@@ -3,7 +3,8 @@
 
 import { DAY, type DynamicsMode } from '../config.ts';
 import type { Grid } from '../grid.ts';
-import { chooseTimeStep, stabilityLimit, type StabilityLimit } from '../dynamics/stability.ts';
+import { Clock } from '../clock.ts';
+import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from '../dynamics/stability.ts';
 import type { ResolvedScenario } from './resolve.ts';
 import * as pm from '../portable-math.ts';
 import { westernBoundaryLayer, type BoundaryLayer } from './boundary-layer.ts';
@@ -69,7 +70,7 @@ export interface DerivedNumbers {
   dt: number;
   dtIsAuto: boolean;
   steps: number;
-  /** Saved frames, the initial one included. */
+  /** Saved frames: the initial one, one per whole output interval, and the end when it falls between. */
   outputs: number;
   /** Size of the NetCDF output: nx ny 4 bytes x fields x frames, plus coordinates. */
   outputBytes: number;
@@ -99,7 +100,14 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
   const stability = scenarioStability(r);
   const dtIsAuto = time.dt === null;
   const dt = time.dt ?? chooseTimeStep(stability, null, time.safety, time.alignTo);
-  const outputs = Math.floor(r.days / r.outputEveryDays + 1e-9) + 1;
+  const interval = r.outputEverySeconds;
+  const perInterval = stepsInInterval(dt, interval);
+  const clock = new Clock({ dt, intervalSeconds: perInterval > 0 ? interval : 0, stepsPerInterval: perInterval, originSteps: 0, originTime: 0 });
+  const steps = clock.stepsFor(r.runSeconds);
+  // One record at the start, one per whole interval, and one at the end when the run is not a
+  // whole number of intervals (the last interval is then shorter).
+  const wholeIntervals = perInterval > 0 ? Math.floor(steps / perInterval) : Math.floor(r.runSeconds / interval + 1e-9);
+  const outputs = 1 + wholeIntervals + (perInterval > 0 && steps % perInterval !== 0 ? 1 : 0);
   const fields = r.outputFields.length;
   const outputBytes = nx * ny * 4 * fields * outputs + (nx + ny) * 8 + outputs * 8;
   const memoryBytes = memoryEstimate(nx, ny, physics.mode, fields);
@@ -121,7 +129,7 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
     stability,
     dt,
     dtIsAuto,
-    steps: Math.ceil(r.runSeconds / dt - 1e-9),
+    steps,
     outputs,
     outputBytes,
     memoryBytes,

@@ -198,8 +198,7 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
     }
     const state = model.state.clone();
     // The new experiment's clock (and its wind envelopes) starts at day 0.
-    state.time = 0;
-    state.steps = 0;
+    state.startNewRun();
     notes.push(...inner.notes, `spun up with ${path} for ${days} days (${total} steps)`);
     return { files, startState: state, startDt: model.dt, notes };
   }

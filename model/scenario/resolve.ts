@@ -1,5 +1,6 @@
 // From a validated scenario (file units: degrees, days) to what the model runs with (SI units).
 
+import { secondsOfDays } from '../clock.ts';
 import { DAY, EARTH, type ModelConfig } from '../config.ts';
 import type { WindSpec } from '../forcing/spec.ts';
 import type { InitialSpec, OutputField, Probe, Scenario } from './types.ts';
@@ -16,7 +17,7 @@ export interface ResolvedScenario {
   /** Latitudes of the Hovmoller sections, degrees north. */
   hovmollerLats: number[];
   seed: string | number;
-  /** Run length in days and seconds. */
+  /** Run length and output interval in days and in seconds (whole seconds where they are within a microsecond: model/clock.ts). */
   days: number;
   runSeconds: number;
   outputEveryDays: number;
@@ -68,7 +69,7 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
       entrainment: { minThickness: physics.entrainment.minThickness, time: physics.entrainment.timeDays * DAY },
       sponge: { widthDeg: basin.sponge.widthDeg, rateAtWall: rate(basin.sponge.dampingDays), conserveVolume: basin.sponge.conserveVolume },
     },
-    time: { dt: time.dtSeconds === 'auto' ? null : time.dtSeconds, safety: time.safety, alignTo: time.outputEveryDays * DAY },
+    time: { dt: time.dtSeconds === 'auto' ? null : time.dtSeconds, safety: time.safety, alignTo: secondsOfDays(time.outputEveryDays) },
   };
   return {
     name: scenario.name,
@@ -80,9 +81,9 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
     hovmollerLats: [...scenario.hovmoller.lat],
     seed: scenario.seed,
     days: time.days,
-    runSeconds: time.days * DAY,
+    runSeconds: secondsOfDays(time.days),
     outputEveryDays: time.outputEveryDays,
-    outputEverySeconds: time.outputEveryDays * DAY,
+    outputEverySeconds: secondsOfDays(time.outputEveryDays),
     outputFields: [...scenario.output.fields],
     scenario,
   };

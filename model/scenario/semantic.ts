@@ -3,7 +3,9 @@
 // They run on a scenario with defaults filled in, which may still hold values of the wrong type
 // where the schema already complained; every check first makes sure its inputs are numbers.
 
+import { secondsOfDays } from '../clock.ts';
 import { EARTH } from '../config.ts';
+import { notDividing, stepsInInterval } from '../dynamics/stability.ts';
 import { Grid, insideShape, type LandShape } from '../grid.ts';
 import { pathToString, type PathSegment, type ScenarioIssue } from './errors.ts';
 import { resolveScenario } from './resolve.ts';
@@ -173,7 +175,8 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
   const parts: unknown[] = Array.isArray(sc.wind?.parts) ? sc.wind.parts : [];
   parts.forEach((part: any, i) => windPartIssues(part, ['wind', 'parts', i], num(t.days) && t.days > 0 ? t.days : null, add));
 
-  // A user time step above the stability limit (only when the numbers it needs are sound).
+  // A user time step above the stability limit (only when the numbers it needs are sound), or
+  // one that does not divide the output interval into whole steps (records on whole intervals).
   if (num(t.dtSeconds) && t.dtSeconds > 0 && cellsOk && num(p.reducedGravity) && num(p.layerThickness) && num(p.viscosity)) {
     let lim: ReturnType<typeof scenarioStability> | null = null;
     try {
@@ -183,6 +186,9 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
     }
     if (lim && Number.isFinite(lim.dtMax) && t.dtSeconds > lim.dtMax) {
       add(['time', 'dtSeconds'], `${t.dtSeconds} s is above the stability limit: ${lim.explanation}; use at most ${Math.floor(lim.dtMax)} s or "auto"`);
+    } else if (num(t.outputEveryDays) && t.outputEveryDays > 0) {
+      const interval = secondsOfDays(t.outputEveryDays);
+      if (stepsInInterval(t.dtSeconds, interval) === 0) add(['time', 'dtSeconds'], notDividing(t.dtSeconds, interval, lim ? lim.dtMax : Infinity));
     }
   }
   return out;

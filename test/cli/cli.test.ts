@@ -167,6 +167,38 @@ describe('pycno run', () => {
     expect(bad.stderr.split('\n')[0]).toMatch(/^pycno: cont\.json: initial\.path: .*half-restart\.nc: is on a 40 x 20 grid, the scenario on 80 x 40/);
   });
 
+  it('restart join: the continued run\'s records, its first included, are the straight run\'s, bit for bit', () => {
+    // The patch ramps up across day 10, the join; g' = 0.037 makes dt a fraction of a second.
+    const wind = ['physics.reducedGravity=0.037', 'time.outputEveryDays=2.5', 'wind.parts[0].envelope={"kind":"pulse","start":9.5,"duration":5,"ramp":1}'];
+    expect(pycno(['run', 'tiny.json', '--out', 'j-straight.nc', '--days', '20', '--quiet', ...sets(wind)]).code).toBe(0);
+    const first = pycno(['run', 'tiny.json', '--out', 'j-first.nc', '--days', '10', '--quiet', ...sets(wind), '--restart-out', 'j-end.nc']);
+    expect(first.code).toBe(0);
+    writeFileSync(join(dir, 'j-cont.json'), FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "restart", "path": "j-end.nc" }'));
+    const cont = pycno(['run', 'j-cont.json', '--out', 'j-cont.nc', '--days', '10', '--quiet', ...sets(wind)]);
+    expect(cont.stderr).toBe('');
+    expect(cont.code).toBe(0);
+    const read = (name: string) => readNetcdf(new Uint8Array(readFileSync(join(dir, name))));
+    const straight = read('j-straight.nc');
+    const second = read('j-cont.nc');
+    const days = (f: ReturnType<typeof read>) => Array.from(f.variable('time').values as Float64Array);
+    expect(days(second)).toEqual([10, 12.5, 15, 17.5, 20]);
+    expect(days(straight).slice(4)).toEqual(days(second));
+    const bad: string[] = [];
+    for (const v of straight.variables.filter((x) => x.dimensions[0] === 'time')) {
+      const size = v.shape.slice(1).reduce((p, n) => p * n, 1);
+      const a = Float64Array.from((v.values as Float64Array).subarray(4 * size));
+      const b = Float64Array.from(second.variable(v.name).values as Float64Array);
+      if (!Buffer.from(a.buffer).equals(Buffer.from(b.buffer))) bad.push(v.name);
+    }
+    expect(bad).toEqual([]);
+    // The restart file's history holds the whole command, as the run file's does.
+    const history = String(read('j-end.nc').attributes.history.value);
+    const command = `pycno run tiny.json ${['time.days=10', ...wind].map((w) => `--set ${w}`).join(' ')}`;
+    expect(history).toMatch(/^\d{4}-\d\d-\d\dT[\d:.]+Z: /);
+    expect(history).toContain(`: ${command} (Pycno `);
+    expect(String(read('j-first.nc').attributes.history.value)).toContain(`: ${command} (Pycno `);
+  });
+
   it('spin-up: runs the other scenario first, and refuses cycles', () => {
     writeFileSync(join(dir, 'after.json'), FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "spinup", "scenario": "tiny.json", "days": 3 }').replace('"x": 0.1', '"x": 0'));
     const r = pycno(['run', 'after.json', '--out', 'after.nc', '--quiet']);

@@ -281,6 +281,29 @@ describe('mistakes in scenario files', () => {
     expect(m).toContain('use at most 29464 s or "auto"');
   });
 
+  test('a time step that does not divide the output interval gives the nearest ones that do', () => {
+    const j = example();
+    j.time.outputEveryDays = 0.25; // 21600 s
+    j.time.dtSeconds = 1000;
+    const m = issueAt(issuesOf(j), 'time.dtSeconds').message;
+    // 21600 / 1000 = 21.6 steps: 22 steps of 981.8181818181819 s or 21 of 1028.5714285714287 s;
+    // 21600 = 2^5 3^3 5^2, so its whole-second divisors nearest 1000 are 900 (24 steps) and 1080 (20).
+    expect(m).toBe(
+      '1000 s does not divide the output interval of 0.25 days (21600 s) into whole steps, so records could not fall on whole intervals; ' +
+        'the nearest steps that do are 981.8181818181819 s (22 steps per interval) and 1028.5714285714287 s (21 steps); ' +
+        'in whole seconds 900 s (24 steps) and 1080 s (20 steps); or use "auto"',
+    );
+  });
+
+  test('a decimal time step that divides the interval to its last digit is accepted', () => {
+    const j = example();
+    j.time.outputEveryDays = 0.25;
+    j.time.dtSeconds = 3085.714285714286; // 21600 / 7 as JavaScript prints it
+    expect(validateScenario(j).ok).toBe(true);
+    j.time.dtSeconds = 3085.7142857; // 7 steps make 21599.9999999 s: not whole
+    expect(issueAt(issuesOf(j), 'time.dtSeconds').message).toMatch(/^3085\.7142857 s does not divide the output interval of 0\.25 days/);
+  });
+
   test('zero time step', () => {
     const j = example();
     j.time.dtSeconds = 0;

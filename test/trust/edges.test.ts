@@ -77,7 +77,8 @@ describe('numbers at the edges', () => {
   it('dt exactly at the stability limit is accepted and stays stable for a bounded run; just above it is refused, giving the limit', () => {
     const text = scenario({ lonWest: 150, lonEast: 170, latSouth: -5, latNorth: 5, resolution: 1 });
     const limit = buildPrepared(parseScenario(text, 'dt.json'), { files: new Map(), notes: [] }).model.limit.dtMax;
-    const at = parseScenario(text, 'dt.json', [`time.dtSeconds=${limit}`]);
+    // The limit itself must divide the output interval into whole steps: an interval of two steps.
+    const at = parseScenario(text, 'dt.json', [`time.dtSeconds=${limit}`, `time.outputEveryDays=${(2 * limit) / 86400}`]);
     const m = buildPrepared(at, { files: new Map(), notes: [] }).model;
     expect(m.dt).toBe(limit);
     const e0 = m.integrals().energy;

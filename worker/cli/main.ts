@@ -211,8 +211,13 @@ async function check(args: Args, text: string, shown: string, reader: (p: string
   }
 }
 
+/** The command as the files' history records it: the scenario and every --set (--days as its --set). */
+function commandLine(argv: Args, shown: string): string {
+  return ['pycno', argv.command, shown, ...argv.sets.flatMap((s) => ['--set', s])].join(' ');
+}
+
 function describe(info: LoadedScenario, shown: string, argv: Args, engine: Engine): RunDescription {
-  return describeLoadedRun(info, engine.model!, shown, ['pycno', argv.command, shown, ...argv.sets.flatMap((s) => ['--set', s])].join(' '));
+  return describeLoadedRun(info, engine.model!, shown, commandLine(argv, shown));
 }
 
 async function run(args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
@@ -299,7 +304,7 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
   let restartFile: string | undefined;
   if (args.restartOut) {
     try {
-      writeFileSync(resolvePath(io.cwd, args.restartOut), await writeRestart(model, { scenarioJson: info.scenarioJson, command: `pycno run ${shown}` }));
+      writeFileSync(resolvePath(io.cwd, args.restartOut), await writeRestart(model, { scenarioJson: info.scenarioJson, command: commandLine(args, shown) }));
       restartFile = args.restartOut;
     } catch (e) {
       printError(io, `--restart-out ${args.restartOut}: cannot write the restart file: ${(e as Error).message}`);

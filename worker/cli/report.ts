@@ -28,7 +28,7 @@ export function checkReport(name: string, file: string, d: DerivedNumbers, field
     ['CFL', `gravity-wave Courant number c dt sqrt(1/dx^2 + 1/dy^2) = ${cfl.toFixed(3)}; dt / limit = ${(d.dt / s.dtMax).toFixed(3)}`],
     ['boundary layer', boundaryLayerLine(d)],
     ['steps', `${d.steps} for ${days} days`],
-    ['output', `${d.outputs} records every ${everyDays} days of ${fields.join(', ')}: about ${formatBytes(d.outputBytes)}`],
+    ['output', `${d.outputs} records every ${everyDays} days${d.outputs > Math.floor(days / everyDays + 1e-9) + 1 ? ', the last at the end of the run (a shorter interval),' : ''} of ${fields.join(', ')}: about ${formatBytes(d.outputBytes)}`],
     ['memory', `about ${formatBytes(d.memoryBytes)}`],
   ];
   for (const n of notes) list.push(['input', n]);
