@@ -80,10 +80,6 @@ export class Model {
   private windFilledFor = NaN;
   /** The volume-keeping sponge pass (basin.sponge.conserveVolume), or null. */
   private readonly keeper: VolumeKeepingSponge | null;
-  /** sum(h') at the start of the run, for the volume budget. */
-  private readonly anomalyAtStart: number;
-  /** Nonlinear mode: sum of h' the sponges added (+) or took (-) since the start. */
-  private spongeMeasured = 0;
 
   constructor(config: ModelConfig, options: ModelOptions = {}) {
     checkPhysics(config.physics);
@@ -146,7 +142,8 @@ export class Model {
     this.linear = p.mode === 'linear' ? linearWork(this.grid) : null;
     this.nonlinear = p.mode === 'nonlinear' ? nonlinearWork(this.grid) : null;
     this.keeper = p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.grid, this.coefficients) : null;
-    this.anomalyAtStart = anomalySum(this.grid, this.state.h);
+    // A state some model has run carries its experiment's budget; a fresh one starts it here.
+    this.state.volumeBudget ??= { anomalyAtStart: anomalySum(this.grid, this.state.h), spongeMeasured: 0 };
     this.updateWind(previous);
   }
 
@@ -167,11 +164,11 @@ export class Model {
       } else if (this.linear) {
         linearStep(this.grid, this.coefficients, this.physics.friction, this.physics.viscosity, this.accelX, this.accelY, this.state, this.linear);
       } else {
-        this.spongeMeasured -= nonlinearStep(this.grid, this.coefficients, this.physics, this.taux, this.tauy, this.state, this.nonlinear!);
+        this.state.volumeBudget!.spongeMeasured -= nonlinearStep(this.grid, this.coefficients, this.physics, this.taux, this.tauy, this.state, this.nonlinear!);
       }
       if (this.keeper) {
         const added = this.keeper.restore(this.state.h);
-        if (this.nonlinear) this.spongeMeasured += added;
+        if (this.nonlinear) this.state.volumeBudget!.spongeMeasured += added;
       }
       this.tick();
       if (this.state.steps % HEALTH_EVERY === 0) this.checkHealth();
@@ -259,9 +256,10 @@ export class Model {
   }
 
   integrals(): Integrals {
+    const budget = this.state.volumeBudget!;
     return integrals(this.grid, this.physics, this.state, this.dt, {
-      anomalyAtStart: this.anomalyAtStart,
-      spongeMeasured: this.nonlinear ? this.spongeMeasured : null,
+      anomalyAtStart: budget.anomalyAtStart,
+      spongeMeasured: this.nonlinear ? budget.spongeMeasured : null,
     });
   }
 

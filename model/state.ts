@@ -22,6 +22,12 @@ export class State {
    */
   clock: ClockSpec | null = null;
   /**
+   * The volume budget since the start of the experiment (model/diagnostics/integrals.ts): sum(h')
+   * then, and in the nonlinear mode the sum of h' the sponges have added since. Carried by
+   * restarts so that a stitched series of sponge volumes is one series; null until a model runs it.
+   */
+  volumeBudget: { anomalyAtStart: number; spongeMeasured: number } | null = null;
+  /**
    * Multistep history of the nonlinear scheme: the tendencies of the two previous steps
    * (index 0 = one step back). historyCount says how many are valid. Part of the state so that
    * a restart continues bit for bit.
@@ -45,6 +51,7 @@ export class State {
     this.time = 0;
     this.steps = 0;
     this.clock = null;
+    this.volumeBudget = null;
     this.historyCount = 0;
   }
 
@@ -62,6 +69,7 @@ export class State {
     this.time = o.time;
     this.steps = o.steps;
     this.clock = o.clock ? { ...o.clock } : null;
+    this.volumeBudget = o.volumeBudget ? { ...o.volumeBudget } : null;
     this.historyCount = o.historyCount;
     for (const key of ['du', 'dv', 'dh'] as const) {
       for (let n = 0; n < 2; n++) this.history[key][n].set(o.history[key][n]);

@@ -1,6 +1,7 @@
 // What a run's output file says about the run, from the loaded scenario and its model: one place
 // for the command line's run and rerun (the page builds its files from saved runs instead).
 
+import { equatorialBeta } from '../model/dynamics/coefficients.ts';
 import type { Model } from '../model/model.ts';
 import type { RunDescription } from '../model/io/run-output.ts';
 import type { LoadedScenario } from './protocol.ts';
@@ -21,6 +22,7 @@ export function describeLoadedRun(info: LoadedScenario, model: Model, scenarioFi
     dynamics: model.physics.mode,
     reducedGravity: model.physics.reducedGravity,
     layerThickness: model.physics.layerThickness,
+    beta: equatorialBeta(model.physics),
     command,
   };
 }

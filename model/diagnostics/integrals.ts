@@ -13,12 +13,12 @@ export interface Integrals {
   /** Volume of the anomaly, sum(h' dA), m3 (exactly zero change in a closed basin). */
   volumeAnomaly: number;
   /**
-   * Volume the sponge bands added (+) or took out (-) since the run's start, m3. Continuity in
+   * Volume the sponge bands added (+) or took out (-) since the start of the experiment (restarts carry it), m3. Continuity in
    * flux form changes the volume of a closed basin by nothing, so in the linear mode this is the
    * whole change of volume; the nonlinear step measures its sponge directly.
    */
   spongeVolume: number;
-  /** Volume entrainment added since the run's start, m3 (the rest of the change; 0 in the linear mode). */
+  /** Volume entrainment added since the start of the experiment, m3 (the rest of the change; 0 in the linear mode). */
   entrainedVolume: number;
   /** Kinetic energy 1/2 rho0 sum(h* |u|^2 dA), J (h* = H linear, h nonlinear). */
   kinetic: number;

@@ -84,6 +84,11 @@ export function coriolisAt(physics: PhysicsConfig, latDeg: number, yMetres: numb
     : physics.beta * yMetres;
 }
 
+/** beta at the equator: the beta plane's own, or 2 Omega / R for f = 2 Omega sin(lat); it sets the equatorial scales. */
+export function equatorialBeta(physics: Pick<PhysicsConfig, 'coriolis' | 'beta' | 'earthRotation' | 'earthRadius'>): number {
+  return physics.coriolis === 'spherical' ? (2 * physics.earthRotation) / physics.earthRadius : physics.beta;
+}
+
 export function largestCoriolis(grid: Grid, physics: PhysicsConfig): number {
   let m = 0;
   for (let j = 0; j <= grid.ny; j++) m = Math.max(m, Math.abs(coriolisAt(physics, grid.latFace[j], grid.yFace[j])));

@@ -69,6 +69,18 @@ function restartLayout(grid: Grid, info: RestartInfo, dt: number, clock: ClockSp
       },
       { name: 'clock_origin_steps', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'step count the clock counts from', units: '1' } },
       { name: 'history_count', type: NC_DOUBLE, dimensions: [], attributes: { long_name: 'valid multistep tendencies', units: '1' } },
+      {
+        name: 'budget_anomaly_at_start',
+        type: NC_DOUBLE,
+        dimensions: [],
+        attributes: { long_name: "sum of h' over the ocean cells at the start of the experiment, for the volume budget", units: 'm' },
+      },
+      {
+        name: 'budget_sponge_measured',
+        type: NC_DOUBLE,
+        dimensions: [],
+        attributes: { long_name: "sum of h' the sponges added (negative: took out) since the start, as the nonlinear step measures it", units: 'm' },
+      },
       { name: 'ocean', type: NC_BYTE, dimensions: padded, attributes: { long_name: 'ocean (1) or land (0), padded layout' } },
       field('u', 'layer-mean eastward velocity on west faces (padded C grid)', 'm s-1'),
       field('v', 'layer-mean northward velocity on south faces (padded C grid)', 'm s-1'),
@@ -101,6 +113,8 @@ export async function writeRestartState(state: State, info: RestartInfo = {}): P
     clock_origin_time: clock ? clock.originTime : state.time,
     clock_origin_steps: clock ? clock.originSteps : state.steps,
     history_count: state.historyCount,
+    budget_anomaly_at_start: state.volumeBudget?.anomalyAtStart ?? NaN,
+    budget_sponge_measured: state.volumeBudget?.spongeMeasured ?? NaN,
     ocean: grid.ocean,
     u: state.u,
     v: state.v,
@@ -162,6 +176,7 @@ export function readRestart(bytes: Uint8Array, grid: Grid, source = 'the restart
   state.steps = scalar('steps');
   state.historyCount = scalar('history_count');
   state.clock = clockOf(f, state, source);
+  state.volumeBudget = budgetOf(f);
   const ocean = f.variable('ocean').values as Float64Array;
   let differ = 0;
   for (let k = 0; k < grid.size; k++) if ((ocean[k] > 0 ? 1 : 0) !== grid.ocean[k]) differ++;
@@ -176,6 +191,14 @@ export function readRestart(bytes: Uint8Array, grid: Grid, source = 'the restart
   }
   if (!(Number.isFinite(state.time) && state.historyCount >= 0 && state.historyCount <= 2)) fail(source, 'has a corrupt clock or history count');
   return state;
+}
+
+/** The volume budget a restart carries; null for a file from before budgets were kept, or with none (the run then starts one). */
+function budgetOf(f: NcFile): State['volumeBudget'] {
+  if (!f.variables.some((v) => v.name === 'budget_anomaly_at_start')) return null;
+  const scalar = (name: string) => (f.variable(name).values as Float64Array)[0];
+  const budget = { anomalyAtStart: scalar('budget_anomaly_at_start'), spongeMeasured: scalar('budget_sponge_measured') };
+  return Number.isFinite(budget.anomalyAtStart) && Number.isFinite(budget.spongeMeasured) ? budget : null;
 }
 
 /** The clock a restart was written with; null for a file from before clocks were kept (the run then counts from its time). */

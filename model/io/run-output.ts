@@ -42,10 +42,10 @@ export const INTEGRAL_VARIABLES: ReadonlyArray<{ name: string; key: keyof Integr
     name: 'sponge_volume',
     key: 'spongeVolume',
     units: 'm3',
-    longName: 'layer volume the sponge bands added (positive) or took out (negative) since the run started',
+    longName: 'layer volume the sponge bands added (positive) or took out (negative) since the experiment started',
     optional: true,
   },
-  { name: 'entrained_volume', key: 'entrainedVolume', units: 'm3', longName: 'layer volume entrainment added since the run started (nonlinear mode)', optional: true },
+  { name: 'entrained_volume', key: 'entrainedVolume', units: 'm3', longName: 'layer volume entrainment added since the experiment started (nonlinear mode)', optional: true },
   { name: 'kinetic_energy', key: 'kinetic', units: 'J', longName: 'kinetic energy of the layer' },
   { name: 'potential_energy', key: 'potential', units: 'J', longName: 'available potential energy' },
   { name: 'energy', key: 'energy', units: 'J', longName: 'total energy (kinetic + available potential)' },
@@ -73,6 +73,8 @@ export interface RunDescription {
   dynamics: string;
   reducedGravity: number;
   layerThickness: number;
+  /** beta of the run's Coriolis parameter (m-1 s-1; the equatorial 2 Omega / R for the spherical option). */
+  beta: number;
   /** The command or action that made the file (history attribute), and when. */
   command?: string;
   createdAt?: Date;
@@ -251,6 +253,7 @@ export function runOutputFile(d: RunDescription): NcFileInput {
       pycno_dynamics: d.dynamics,
       pycno_reduced_gravity: d.reducedGravity,
       pycno_layer_thickness: d.layerThickness,
+      pycno_beta: d.beta,
       pycno_earth_radius: EARTH.radius,
       pycno_hovmoller_requested_lat: d.hovmollerLats.length ? [...d.hovmollerLats] : 'none',
     },

@@ -11,6 +11,7 @@
 // be confused.
 
 import { FIELD_NAMES, type FieldName } from '../diagnostics/fields.ts';
+import { EARTH } from '../config.ts';
 import type { Integrals } from '../diagnostics/integrals.ts';
 import type { DrawnBurst } from '../forcing/bursts.ts';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from './netcdf-read.ts';
@@ -70,6 +71,8 @@ export interface RunData {
   dynamics: string;
   reducedGravity: number;
   layerThickness: number;
+  /** beta of the run (m-1 s-1, the equatorial value for the spherical option): it sets L and the Rossby windows. */
+  beta: number;
   grid: RunGrid;
   fields: FieldName[];
   /** One entry per output record: model day and steps taken. */
@@ -92,8 +95,8 @@ const INTEGRAL_KEYS = INTEGRAL_VARIABLES.map((v) => v.key as IntegralKey);
 // --- from the engine ------------------------------------------------------------------------
 
 /** The parts of a scenario the file header repeats, read from the scenario JSON itself. */
-export function scenarioFacts(scenarioJson: string): { seed: string | number; dynamics: string; reducedGravity: number; layerThickness: number } {
-  let s: { seed?: unknown; physics?: { dynamics?: unknown; reducedGravity?: unknown; layerThickness?: unknown } };
+export function scenarioFacts(scenarioJson: string): { seed: string | number; dynamics: string; reducedGravity: number; layerThickness: number; beta: number } {
+  let s: { seed?: unknown; physics?: { dynamics?: unknown; reducedGravity?: unknown; layerThickness?: unknown; coriolis?: { kind?: unknown; beta?: unknown } } };
   try {
     s = JSON.parse(scenarioJson);
   } catch (e) {
@@ -108,6 +111,8 @@ export function scenarioFacts(scenarioJson: string): { seed: string | number; dy
     dynamics: typeof p.dynamics === 'string' ? p.dynamics : 'linear',
     reducedGravity: p.reducedGravity,
     layerThickness: p.layerThickness,
+    // As the scenario resolver sets it: the beta plane's own beta, else 2 Omega / R.
+    beta: p.coriolis?.kind !== 'spherical' && typeof p.coriolis?.beta === 'number' ? p.coriolis.beta : (2 * EARTH.omega) / EARTH.radius,
   };
 }
 
@@ -199,6 +204,7 @@ export class RunCollector {
       dynamics: facts.dynamics,
       reducedGravity: facts.reducedGravity,
       layerThickness: facts.layerThickness,
+      beta: facts.beta,
       grid: { nx: s.grid.nx, ny: s.grid.ny, lon: Float64Array.from(s.grid.lon), lat: Float64Array.from(s.grid.lat), ocean: Uint8Array.from(s.grid.ocean) },
       fields: [...s.fields],
       days: Float64Array.from(this.days),
@@ -264,6 +270,7 @@ export function runDescription(run: RunData): RunDescription {
     dynamics: run.dynamics,
     reducedGravity: run.reducedGravity,
     layerThickness: run.layerThickness,
+    beta: run.beta,
     command: run.version === PYCNO_VERSION ? command : `${command}; run made by Pycno ${run.version}`,
     createdAt: run.createdAt ? new Date(run.createdAt) : undefined,
   };
@@ -521,6 +528,8 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     dynamics: textAttribute(f, 'pycno_dynamics') ?? facts.dynamics,
     reducedGravity: numberAttribute(f, 'pycno_reduced_gravity', where),
     layerThickness: numberAttribute(f, 'pycno_layer_thickness', where),
+    // Files before pycno_beta: the scenario they carry says it.
+    beta: f.attributes.pycno_beta === undefined ? facts.beta : numberAttribute(f, 'pycno_beta', where),
     grid: { nx, ny, lon: lon.slice(), lat: lat.slice(), ocean },
     fields,
     days,

@@ -162,7 +162,8 @@ export function measureWaves(run: RunData): WaveMeasures {
 
   // Long Rossby: off-equatorial sections (1° to 3 L from the equator), after the Kelvin wave has
   // crossed the measured range (before that, its own off-equatorial flank moves east there).
-  const L = Math.sqrt(c / ((2 * EARTH.omega) / EARTH.radius)) / METRES_PER_DEGREE;
+  // The run's own beta: a scenario may set physics.coriolis.beta, and L follows it.
+  const L = Math.sqrt(c / run.beta) / METRES_PER_DEGREE;
   let from = run.days[0];
   if (isMeasured(kelvin)) {
     const { slope, intercept } = regress(kelvin.points.map(([t, x]) => [t, x]));

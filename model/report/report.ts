@@ -4,7 +4,6 @@
 // Colours: d3-scale-chromatic's RdBu, reversed so that positive h' (deeper thermocline) is red.
 
 import { interpolateRdBu } from 'd3-scale-chromatic';
-import { EARTH } from '../config.ts';
 import { hovmollerData, type RunData } from '../io/run-read.ts';
 import { derivedNumbers, resolveScenario, validateScenario, type DerivedNumbers } from '../scenario/index.ts';
 import { isMeasured, measureWaves, METRES_PER_DEGREE, type SpeedMeasure, type WaveMeasures } from './measure.ts';
@@ -214,7 +213,7 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   const d = derivedFor(run);
   const waves = measureWaves(run);
   const c = waves.c;
-  const beta = d?.beta ?? (2 * EARTH.omega) / EARTH.radius;
+  const beta = run.beta;
   const widthKm = equatorialWidthKm(run);
   const p = scenario.physics ?? {};
   const b = scenario.basin ?? {};

@@ -5,6 +5,7 @@ import { DAY, type DynamicsMode } from '../config.ts';
 import type { Grid } from '../grid.ts';
 import { Clock } from '../clock.ts';
 import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from '../dynamics/stability.ts';
+import { equatorialBeta } from '../dynamics/coefficients.ts';
 import type { ResolvedScenario } from './resolve.ts';
 import * as pm from '../portable-math.ts';
 import { westernBoundaryLayer, type BoundaryLayer } from './boundary-layer.ts';
@@ -84,7 +85,7 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
   const { basin, physics, time } = r.model;
   const c = Math.sqrt(physics.reducedGravity * physics.layerThickness);
   // The spherical option still has beta = 2 Omega / R at the equator, which sets the scale L.
-  const beta = physics.coriolis === 'spherical' ? (2 * physics.earthRotation) / physics.earthRadius : physics.beta;
+  const beta = equatorialBeta(physics);
   const mPerDeg = (physics.earthRadius * Math.PI) / 180;
   const nx = grid ? grid.nx : Math.round((basin.lonEast - basin.lonWest) / basin.dLon);
   const ny = grid ? grid.ny : Math.round((basin.latNorth - basin.latSouth) / basin.dLat);

@@ -32,6 +32,7 @@ async function writeRun(sets: string[] = []) {
     dynamics: m.physics.mode,
     reducedGravity: m.physics.reducedGravity,
     layerThickness: m.physics.layerThickness,
+    beta: m.physics.beta,
     createdAt: new Date('2030-01-02T03:04:05Z'),
   };
   const sink = new MemorySink();

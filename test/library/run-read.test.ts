@@ -72,7 +72,7 @@ describe('files written while running', () => {
     const createdAt = new Date('2032-02-03T04:05:06.000Z');
     const sink = new MemorySink();
     const writer = new RunOutputWriter(
-      { ...info, hovmollerRowLats: info.hovmollerRowLats!, dynamics: 'linear', reducedGravity: 0.03, layerThickness: 150, command: 'pycno run tiny.json', createdAt },
+      { ...info, hovmollerRowLats: info.hovmollerRowLats!, dynamics: 'linear', reducedGravity: 0.03, layerThickness: 150, beta: engine.model!.physics.beta, command: 'pycno run tiny.json', createdAt },
       sink,
     );
     await writer.begin();

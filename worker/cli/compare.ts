@@ -164,6 +164,7 @@ export async function writeDifference(c: RunComparison, fileA: string, fileB: st
     dynamics: a.dynamics,
     reducedGravity: a.reducedGravity,
     layerThickness: a.layerThickness,
+    beta: a.beta,
     command: `pycno compare ${fileA} ${fileB}`,
   };
   const file = runOutputFile(d);
