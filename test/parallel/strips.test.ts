@@ -81,6 +81,25 @@ describe('strip team on worker threads', () => {
     });
   }
 
+  it('with the volume-keeping sponge: the one-thread bits, and the volume kept', async () => {
+    const cfg = basin(64, 30, 'free', 5);
+    cfg.physics.sponge = { ...cfg.physics.sponge, conserveVolume: true };
+    const one = model(cfg);
+    const many = model(cfg, 2);
+    open.push(many);
+    await many.startThreads(countingHost().host);
+    expect(many.threads).toBe(2);
+    const v0 = one.integrals().volume;
+    one.advance(200);
+    many.advance(200);
+    expect(sameBits(many.state.h, one.state.h)).toBe(true);
+    expect(sameBits(many.state.u, one.state.u)).toBe(true);
+    expect(sameBits(many.state.v, one.state.v)).toBe(true);
+    // Flux-form continuity plus a sponge that relaxes toward the band means: no volume gained or lost.
+    expect(Math.abs(one.integrals().volume - v0) / v0).toBeLessThan(1e-13);
+    expect(Math.min(...one.state.h)).toBeLessThan(0);
+  });
+
   it('matches the WebAssembly one-thread run as well, and steps on one thread while the workers start', async () => {
     const cfg = basin(64, 30, 'free', 5);
     const grid = new Grid(cfg.basin, cfg.physics.earthRadius);

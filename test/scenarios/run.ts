@@ -94,7 +94,6 @@ export function firstCrossing(ys: ArrayLike<number>, level: number, from = 0): n
  */
 export function startOfNewRun(end: State): State {
   const s = end.clone();
-  s.time = 0;
-  s.steps = 0;
+  s.startNewRun();
   return s;
 }
