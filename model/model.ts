@@ -323,9 +323,11 @@ export class Model {
             i,
             j,
             `the upper layer vanished (thickness ${thick.toFixed(1)} m, the thermocline reached the surface)`,
-            this.physics.mode === 'linear'
-              ? 'The linear model cannot outcrop: weaken the wind, thicken the layer, or use the nonlinear mode with entrainment.'
-              : 'Raise the entrainment minimum thickness or shorten its time, or weaken the wind.',
+            this.gridScaleAt(k)
+              ? `The thickness alternates in sign from one cell to the next there: that is the scheme going unstable, not the wind lifting the thermocline. ${this.stabilityHint()}`
+              : this.physics.mode === 'linear'
+                ? 'The linear model cannot outcrop: weaken the wind, thicken the layer, or use the nonlinear mode with entrainment.'
+                : 'Raise the entrainment minimum thickness or shorten its time, or weaken the wind.',
           );
         }
         if (speed > RUNAWAY_SPEED) {
@@ -333,6 +335,18 @@ export class Model {
         }
       }
     }
+  }
+
+  /**
+   * True when h' at cell k and at least three of its ocean neighbours alternate in sign with
+   * comparable size: a two-grid-interval pattern, which a wind cannot draw but an unstable step does.
+   */
+  private gridScaleAt(k: number): boolean {
+    const { h } = this.state;
+    const { ocean, W } = this.grid;
+    let opposite = 0;
+    for (const n of [k - 1, k + 1, k - W, k + W]) if (ocean[n] && h[n] * h[k] < 0 && Math.abs(h[n]) > 0.3 * Math.abs(h[k])) opposite++;
+    return opposite >= 3;
   }
 
   private stabilityHint(): string {

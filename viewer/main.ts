@@ -10,6 +10,7 @@ import { showEngineLost } from './panels/engine-lost.ts';
 import { drawColourBar, formatValue } from './panels/colour-bar.ts';
 import { HovmollerPanel } from './panels/hovmoller.ts';
 import { ProbePanel } from './panels/probes.ts';
+import { RunTotals } from './panels/run-totals.ts';
 import { ScenarioPanel } from './panels/scenario-panel.ts';
 import { WindPanel } from './wind/wind-panel.ts';
 import { LibraryPage } from './library-panel/library-page.ts';
@@ -118,6 +119,7 @@ let probeTimer: ReturnType<typeof setTimeout> | null = null;
 let loading = false;
 const early: Frame[] = [];
 
+const totals = new RunTotals($('totals'));
 const panel = new ScenarioPanel($<HTMLFormElement>('params'), $('derived'), $<HTMLUListElement>('other-issues'), $('restart-note'), $<HTMLButtonElement>('btn-apply'));
 const hovPanel = new HovmollerPanel($<HTMLCanvasElement>('hovmoller'), hov, (s) => {
   $('hov-start').textContent = `from ${lonLabel(s.lon)}, day ${s.day.toFixed(1)}`;
@@ -182,6 +184,7 @@ function onFrame(f: Frame): void {
     probes.addSample(s.day, s.probeValues);
   }
   probes.addFrame(f.day, f.fields);
+  totals.add(f.samples.map((s) => s.integrals), f.integrals);
   history.push({ day: f.day, step: f.step, fields: f.fields });
   queueDraw(false);
 }
@@ -280,11 +283,14 @@ function startRun(r: LoadedScenario): void {
   $('hov-start').textContent = hovPanel.start ? `from ${lonLabel(hovPanel.start.lon)}, day ${hovPanel.start.day.toFixed(1)}` : '';
   probePanel.renderList();
   const d = r.derived;
-  setTotals([
-    ['dt', `${formatValue(r.dt)} s`],
-    ['c', `${formatValue(d.c)} m/s`],
-    ['Kelvin crossing', `${formatValue(d.kelvinCrossingDays)} days`],
-  ]);
+  totals.setRun(
+    [
+      ['dt', `${formatValue(r.dt)} s`],
+      ['c', `${formatValue(d.c)} m/s`],
+      ['Kelvin crossing', `${formatValue(d.kelvinCrossingDays)} days`],
+    ],
+    r.dynamics,
+  );
   info.ready = true;
   onStatus(status);
   queueDraw(true);
@@ -302,11 +308,6 @@ function defaultStart(sc: { wind?: { parts?: unknown[] } }): { lon: number; day:
   return null;
 }
 
-function setTotals(rows: Array<[string, string]>): void {
-  $('totals').replaceChildren(
-    ...rows.flatMap(([k, v]) => [Object.assign(document.createElement('dt'), { textContent: k }), Object.assign(document.createElement('dd'), { textContent: v })]),
-  );
-}
 
 async function openText(text: string, fileName: string): Promise<void> {
   clearMessages();

@@ -255,6 +255,7 @@ export class Engine {
       scenarioJson: parsed.scenarioJson,
       grid: gridInfo,
       derived: derivedNumbers(r, grid),
+      dynamics: model.physics.mode,
       dt: model.dt,
       days: r.days,
       outputEveryDays: r.outputEveryDays,

@@ -2,6 +2,7 @@
 // controls it takes. Frames carry typed arrays whose buffers are transferred, not copied.
 
 import type { FieldName } from '../model/diagnostics/fields.ts';
+import type { DynamicsMode } from '../model/config.ts';
 import type { Integrals } from '../model/diagnostics/integrals.ts';
 import type { DrawnBurst } from '../model/forcing/bursts.ts';
 import type { DerivedNumbers } from '../model/scenario/derived.ts';
@@ -30,6 +31,8 @@ export interface LoadedScenario {
   scenarioJson: string;
   grid: GridInfo;
   derived: DerivedNumbers;
+  /** 'linear' or 'nonlinear', as the model runs it. */
+  dynamics: DynamicsMode;
   dt: number;
   days: number;
   outputEveryDays: number;

@@ -177,6 +177,23 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     await shot(page, '03-paused.png');
   });
 
+  it('run totals say what the sponges did to the volume, the fastest flow and the Courant number', async () => {
+    const totals = await page.textContent('#totals');
+    expect(totals).toMatch(/Volume by sponges[\u2212+][\d.e-]+ % of the layer/);
+    expect(totals).toMatch(/Fastest flow[\d.]+ m\/s/);
+    expect(totals).toMatch(/Courant number0\.\d+/);
+  });
+
+  it('the derived numbers show the western boundary layer, and say what to raise when it is unresolved', async () => {
+    const derived = page.locator('#derived');
+    await expect.poll(() => derived.textContent()).toMatch(/Western boundary layer[\d.]+ km \(Munk\), 1\.\d\d \u00d7 dx/);
+    const box = page.locator('input[name="physics.viscosity"]');
+    await box.fill('0');
+    await expect.poll(() => derived.textContent()).toMatch(/Unresolved: the western boundary layer is narrower than one grid interval.*raise physics\.viscosity to at least 4000 m2\/s/);
+    await page.click('#btn-revert');
+    await expect.poll(() => derived.textContent()).not.toMatch(/Unresolved/);
+  });
+
   it('the Hovmoller diagram grows as the run goes', async () => {
     const before = Number(await page.getAttribute('#hovmoller', 'data-rows'));
     expect(before).toBeGreaterThan(30);

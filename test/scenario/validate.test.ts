@@ -17,6 +17,26 @@ describe('the example scenario', () => {
     expect(r.scenario.output.fields).toHaveLength(10);
   });
 
+  test('a basin off the equator gets a default Hovmoller latitude inside it; a latitude written outside is still refused', () => {
+    const north = example();
+    delete north.hovmoller;
+    Object.assign(north.basin, { latSouth: 5, latNorth: 25, resolution: 0.5 });
+    delete north.probes;
+    delete north.wind;
+    north.basin.land = [];
+    const r = validateScenario(north);
+    if (!r.ok) throw new Error(JSON.stringify(r.errors));
+    expect(r.scenario.hovmoller.lat).toEqual([5.25]); // the cell centre nearest to the equator
+    const south = structuredClone(north);
+    Object.assign(south.basin, { latSouth: -20, latNorth: -4 });
+    const s = validateScenario(south);
+    if (!s.ok) throw new Error(JSON.stringify(s.errors));
+    expect(s.scenario.hovmoller.lat).toEqual([-4.25]);
+    const written = structuredClone(north);
+    written.hovmoller = { lat: [0] };
+    expect(issueAt(issuesOf(written), 'hovmoller.lat[0]').message).toMatch(/outside the basin/);
+  });
+
   test('validation does not change its input', () => {
     const json = example();
     const before = JSON.stringify(json);
