@@ -4,8 +4,9 @@
 import type { ModelConfig, PhysicsConfig } from './config.ts';
 import { DAY } from './config.ts';
 import { buildCoefficients, coriolisAt, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
-import { linearStep, linearWork, type LinearWork } from './dynamics/linear.ts';
-import { WasmLinear, wasmAvailable } from './dynamics/linear-wasm.ts';
+import { TsRows, stepFields } from './dynamics/linear-rows.ts';
+import { LinearStepper } from './dynamics/linear-stepper.ts';
+import { wasmAvailable, wasmStepper } from './dynamics/linear-wasm.ts';
 import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
 import { VolumeKeepingSponge } from './dynamics/sponge.ts';
 import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from './dynamics/stability.ts';
@@ -69,9 +70,11 @@ export class Model {
   private readonly wind: WindStress;
   private accelX: Float64Array;
   private accelY: Float64Array;
-  private readonly linear: LinearWork | null;
+  /** The one-thread linear step (null in the nonlinear mode, and once a strip team steps). */
+  private stepper: LinearStepper | null = null;
+  /** What the one-thread linear step runs on; null in the nonlinear mode. */
+  private readonly linearKernel: LinearKernelName | null;
   private readonly nonlinear: NonlinearWork | null;
-  private wasm: WasmLinear | null = null;
   /** The threads option as given; the strip team once startThreads() has started it. */
   readonly threadsAsked: ThreadsOption;
   private team: StripTeam | null = null;
@@ -130,16 +133,17 @@ export class Model {
     this.tauy = this.grid.field();
     const kernel = options.kernel ?? 'auto';
     this.threadsAsked = checkThreadsOption(options.threads ?? 1);
-    if (p.mode === 'linear' && (kernel === 'wasm' || (kernel === 'auto' && wasmAvailable()))) {
-      this.wasm = new WasmLinear(this.grid, this.coefficients, p.friction, p.viscosity);
-      this.wasm.adopt(this.state);
-      this.accelX = this.wasm.accelX;
-      this.accelY = this.wasm.accelY;
+    this.linearKernel = p.mode !== 'linear' ? null : kernel === 'wasm' || (kernel === 'auto' && wasmAvailable()) ? 'wasm' : 'ts';
+    if (this.linearKernel) {
+      const fields = this.linearKernel === 'wasm' ? null : stepFields(this.grid);
+      this.stepper = fields ? new LinearStepper(new TsRows(this.grid, this.coefficients, fields), fields) : wasmStepper(this.grid, this.coefficients);
+      this.stepper.adopt(this.state);
+      this.accelX = this.stepper.fields.accelX;
+      this.accelY = this.stepper.fields.accelY;
     } else {
       this.accelX = this.grid.field();
       this.accelY = this.grid.field();
     }
-    this.linear = p.mode === 'linear' ? linearWork(this.grid) : null;
     this.nonlinear = p.mode === 'nonlinear' ? nonlinearWork(this.grid) : null;
     this.keeper = p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.grid, this.coefficients) : null;
     // A state some model has run carries its experiment's budget; a fresh one starts it here.
@@ -159,10 +163,8 @@ export class Model {
     }
     for (let s = 0; s < n; s++) {
       this.updateWind(this.state.time);
-      if (this.wasm) {
-        this.wasm.step(this.state, this.physics.friction, this.physics.viscosity);
-      } else if (this.linear) {
-        linearStep(this.grid, this.coefficients, this.physics.friction, this.physics.viscosity, this.accelX, this.accelY, this.state, this.linear);
+      if (this.stepper) {
+        this.stepper.step(this.state, this.physics.friction, this.physics.viscosity);
       } else {
         this.state.volumeBudget!.spongeMeasured -= nonlinearStep(this.grid, this.coefficients, this.physics, this.taux, this.tauy, this.state, this.nonlinear!);
       }
@@ -212,15 +214,16 @@ export class Model {
     const asked = options.threads === undefined ? this.threadsAsked : checkThreadsOption(options.threads);
     // The strips run the kernel the model runs: WebAssembly strips where the model steps on
     // WebAssembly and the shared-memory module works here, else the TypeScript rows.
-    const stripKernel = options.kernel ?? (this.wasm && wasmStripsAvailable() ? 'wasm' : 'ts');
-    const choice = chooseThreads(asked, this.grid, this.physics.mode, host.cores, this.wasm ? 'wasm' : 'ts', stripKernel);
+    const wasm = this.linearKernel === 'wasm';
+    const stripKernel = options.kernel ?? (wasm && wasmStripsAvailable() ? 'wasm' : 'ts');
+    const choice = chooseThreads(asked, this.grid, this.physics.mode, host.cores, wasm ? 'wasm' : 'ts', stripKernel);
     if (choice.threads < 2) return choice;
     const team = await StripTeam.start(this.grid, this.coefficients, choice.threads, host.spawn, { ...options, kernel: stripKernel });
     // The state moves into the team's shared buffers; the one-thread WebAssembly memory is left.
     team.adopt(this.state, this.accelX, this.accelY);
     this.accelX = team.fields.accelX;
     this.accelY = team.fields.accelY;
-    this.wasm = null;
+    this.stepper = null;
     this.team = team;
     return choice;
   }
@@ -275,7 +278,7 @@ export class Model {
 
   /** The implementation of the step in use. */
   get kernel(): LinearKernelName | 'nonlinear' {
-    return this.wasm ? 'wasm' : this.linear ? 'ts' : 'nonlinear'; // strips run the 'ts' rows
+    return this.linearKernel ?? 'nonlinear'; // strips: stripKernel says what they run
   }
 
   /** Fill the stress for a step starting at time t (s) when the wind asks for it. */
@@ -290,7 +293,7 @@ export class Model {
     }
     w.fill(t, this.taux, this.tauy);
     if (w.steady) this.windFilledFor = 0;
-    if (this.linear) {
+    if (this.linearKernel) {
       // The linear mode applies the stress over the resting depth H.
       const rhoH = this.physics.density * this.physics.layerThickness;
       const { maskU, maskV } = this.grid;

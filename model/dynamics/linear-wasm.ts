@@ -1,24 +1,32 @@
-// The linear step on WebAssembly SIMD (source: wasm/linear.as.ts). The state's u, v, h, the new
-// velocity buffers and the stress accelerations are views into the module's memory, so a step
-// copies nothing; the results are bit-identical to linearStep (test/kernels/linear-paths.test.ts).
-// Compiling a module needs WebAssembly: under a Content Security Policy that is 'wasm-unsafe-eval'
-// (no 'unsafe-eval', no eval or new Function anywhere).
+// The linear step's rows on WebAssembly SIMD (source: wasm/rows.as.ts): the module, the layout of
+// a step's fields and tables in its memory, and WasmRows, the row kernel the step schedule drives.
+// One thread runs it on a memory of its own (wasmStepper); the latitude strips run the shared build
+// on one shared memory (model/parallel/wasm-strips.ts). The results are bit-identical to the
+// TypeScript rows (test/kernels/linear-rows.test.ts, linear-paths.test.ts). Compiling a module needs
+// WebAssembly: under a Content Security Policy that is 'wasm-unsafe-eval' (no 'unsafe-eval', no
+// eval or new Function anywhere).
 
 import type { Grid } from '../grid.ts';
-import type { State } from '../state.ts';
 import type { StepCoefficients } from './coefficients.ts';
-import { LINEAR_WASM_BASE64 } from './wasm/linear-wasm.ts';
+import type { RowCoefficients } from './linear.ts';
+import type { LinearRows, StepFields } from './linear-rows.ts';
+import { LinearStepper } from './linear-stepper.ts';
+import { ROWS_SHARED_WASM_BASE64, ROWS_WASM_BASE64 } from './wasm/rows-wasm.ts';
 
-interface KernelExports {
+interface RowExports {
   heapBase(): number;
   setGrid(nx: number, ny: number, W: number): void;
   setScalars(dt: number, gpdx: number, gpdy: number, idx2: number, idy2: number, dtHdx: number, dtHdy: number, r: number, A: number): void;
   setTables(fS: number, fN: number, fV: number, sH: number, sV: number, ax: number, ay: number, mu: number, mv: number): void;
   setCoast(uStart: number, uIndex: number, uCoef: number, vStart: number, vIndex: number, vCoef: number): void;
-  step(u: number, v: number, h: number, un: number, vn: number): void;
+  uRow(u: number, v: number, h: number, un: number, j: number): void;
+  vRow(v: number, h: number, un: number, vn: number, j: number): void;
+  fusedRow(u: number, v: number, h: number, un: number, vn: number, j: number): void;
+  hRow(h: number, un: number, vn: number, j: number): void;
+  spongeRow(vn: number, j: number): void;
 }
 
-let compiled: WebAssembly.Module | null = null;
+const compiled: { own: WebAssembly.Module | null; shared: WebAssembly.Module | null } = { own: null, shared: null };
 
 /** The bytes of a base64 module text (atob exists in Node and in every worker). */
 export function decodeBase64(b64: string): Uint8Array {
@@ -28,24 +36,35 @@ export function decodeBase64(b64: string): Uint8Array {
   return out;
 }
 
-/** The compiled kernel module (compiled once per thread). */
-export function linearWasmModule(): WebAssembly.Module {
-  compiled ??= new WebAssembly.Module(decodeBase64(LINEAR_WASM_BASE64) as BufferSource);
-  return compiled;
+/** The compiled row module (once per thread): on a memory of its own, or on a shared imported one. */
+export function rowsWasmModule(shared: boolean): WebAssembly.Module {
+  const key = shared ? 'shared' : 'own';
+  compiled[key] ??= new WebAssembly.Module(decodeBase64(shared ? ROWS_SHARED_WASM_BASE64 : ROWS_WASM_BASE64) as BufferSource);
+  return compiled[key];
+}
+
+/** A shared memory of the given 64 KiB pages (its maximum the same). */
+export function sharedMemory(pages: number): WebAssembly.Memory {
+  return new WebAssembly.Memory({ initial: pages, maximum: pages, shared: true });
 }
 
 /** True where WebAssembly with SIMD can be compiled here. */
 export function wasmAvailable(): boolean {
   try {
-    linearWasmModule();
+    rowsWasmModule(false);
     return true;
   } catch {
     return false;
   }
 }
 
-/** Where the masks, row tables and coast lists of a step sit in a kernel's memory (byte offsets). */
-export interface StepTableLayout {
+/** Where a step's fields, masks, row tables and coast lists sit in a module's memory (byte offsets). */
+export interface WasmLayout {
+  u: [number, number];
+  v: [number, number];
+  h: number;
+  accelX: number;
+  accelY: number;
   maskU: number;
   maskV: number;
   /** coriolisSouth, coriolisNorth, fV, spongeH, spongeV. */
@@ -54,23 +73,37 @@ export interface StepTableLayout {
   coast: [number, number, number, number, number, number];
 }
 
-/** Reserve the row tables and coast lists with `take(bytes)` (masks are fields, taken by the caller). */
-export function takeStepTables(ny: number, c: Pick<StepCoefficients, 'coastU' | 'coastV'>, take: (bytes: number) => number): Pick<StepTableLayout, 'tables' | 'coast'> {
+const align = (p: number) => (p + 63) & ~63;
+
+/** Lay a step out above the module's heap base; returns the layout and the bytes it needs. */
+export function layOut(heapBase: number, grid: { ny: number; size: number }, c: Pick<StepCoefficients, 'coastU' | 'coastV'>): { layout: WasmLayout; bytes: number } {
+  let at = align(heapBase);
+  const take = (bytes: number) => {
+    const p = at;
+    at = align(at + bytes);
+    return p;
+  };
+  const f = () => take(grid.size * 8);
+  const { ny } = grid;
   const cu = c.coastU;
   const cv = c.coastV;
-  return {
+  const layout: WasmLayout = {
+    u: [f(), f()],
+    v: [f(), f()],
+    h: f(),
+    accelX: f(),
+    accelY: f(),
+    maskU: f(),
+    maskV: f(),
     tables: [take(8 * ny), take(8 * ny), take(8 * (ny + 1)), take(8 * ny), take(8 * (ny + 1))],
     coast: [take(4 * cu.rowStart.length), take(4 * cu.index.length), take(8 * cu.coef.length), take(4 * cv.rowStart.length), take(4 * cv.index.length), take(8 * cv.coef.length)],
   };
+  if (at > 65536 * 65536) throw new RangeError(`the grid needs ${at} bytes, more than a 32-bit WebAssembly memory holds`);
+  return { layout, bytes: at };
 }
 
-/** Copy the masks, row tables and coast lists into a kernel's memory at the given layout. */
-export function copyStepTables(
-  buf: ArrayBufferLike,
-  grid: { ny: number; size: number; maskU: Float64Array; maskV: Float64Array },
-  c: Pick<StepCoefficients, 'coriolisSouth' | 'coriolisNorth' | 'fV' | 'spongeH' | 'spongeV' | 'coastU' | 'coastV'>,
-  at: StepTableLayout,
-): void {
+/** Copy the masks, row tables and coast lists into a module's memory at the layout's places. */
+export function fillTables(buf: ArrayBufferLike, grid: { ny: number; size: number; maskU: Float64Array; maskV: Float64Array }, c: RowCoefficients, at: WasmLayout): void {
   const { ny, size } = grid;
   const f64 = (p: number, n: number) => new Float64Array(buf, p, n);
   const i32 = (p: number, n: number) => new Int32Array(buf, p, n);
@@ -93,93 +126,83 @@ export function copyStepTables(
   f64(k[5], cv.coef.length).set(cv.coef);
 }
 
-export class WasmLinear {
-  private readonly k: KernelExports;
-  readonly memory: WebAssembly.Memory;
-  /** Byte addresses of the two u buffers and the two v buffers and h. */
-  private pu: number;
-  private pv: number;
-  private pun: number;
-  private pvn: number;
-  private readonly ph: number;
-  private views = new Map<number, Float64Array>();
-  readonly accelX: Float64Array;
-  readonly accelY: Float64Array;
+/** The step's fields as views of the module's memory. */
+export function fieldViews(buf: ArrayBufferLike, at: WasmLayout, size: number): StepFields {
+  const f64 = (p: number) => new Float64Array(buf, p, size);
+  return { u: [f64(at.u[0]), f64(at.u[1])], v: [f64(at.v[0]), f64(at.v[1])], h: f64(at.h), accelX: f64(at.accelX), accelY: f64(at.accelY) };
+}
+
+/** The heap base of a module (where its own data ends), from a throw-away instance. */
+export function heapBaseOf(module: WebAssembly.Module, memory: WebAssembly.Memory): number {
+  return (new WebAssembly.Instance(module, { env: { memory } }).exports as unknown as RowExports).heapBase();
+}
+
+/** Byte addresses of one buffer set: the state's velocities and the new ones, and h. */
+interface PointerSet {
+  u: number;
+  v: number;
+  un: number;
+  vn: number;
+  h: number;
+}
+
+/** The WebAssembly rows: one instance of the module on a memory laid out by layOut and filled. */
+export class WasmRows implements LinearRows {
+  readonly ny: number;
+  private readonly x: RowExports;
+  private readonly sets: [PointerSet, PointerSet];
 
   constructor(
-    private readonly grid: Grid,
-    private readonly c: StepCoefficients,
-    friction: number,
-    viscosity: number,
+    module: WebAssembly.Module,
+    memory: WebAssembly.Memory,
+    at: WasmLayout,
+    g: { nx: number; ny: number; W: number },
+    private readonly c: RowCoefficients,
   ) {
-    const { nx, ny, W, size } = grid;
-    const fieldBytes = size * 8;
-    // Lay out: 5 state/work fields, 2 accelerations, 2 masks, 5 row tables, coast lists.
-    const probe = new WebAssembly.Instance(linearWasmModule(), { env: { memory: new WebAssembly.Memory({ initial: 1 }) } });
-    let at = align((probe.exports as unknown as KernelExports).heapBase());
-    const take = (bytes: number) => {
-      const p = at;
-      at = align(at + bytes);
-      return p;
-    };
-    const fields = Array.from({ length: 9 }, () => take(fieldBytes));
-    const { tables, coast } = takeStepTables(ny, c, take);
-    this.memory = new WebAssembly.Memory({ initial: Math.ceil(at / 65536) + 1 });
-    const inst = new WebAssembly.Instance(linearWasmModule(), { env: { memory: this.memory } });
-    this.k = inst.exports as unknown as KernelExports;
-    const buf = this.memory.buffer;
-    [this.pu, this.pv, this.ph, this.pun, this.pvn] = fields;
-    const [pax, pay, pmu, pmv] = fields.slice(5);
-    copyStepTables(buf, grid, c, { maskU: pmu, maskV: pmv, tables, coast });
-    this.accelX = new Float64Array(buf, pax, size);
-    this.accelY = new Float64Array(buf, pay, size);
-    this.k.setGrid(nx, ny, W);
-    this.k.setScalars(c.dt, c.gpdx, c.gpdy, c.idx2, c.idy2, c.dtHdx, c.dtHdy, friction, viscosity);
-    this.k.setTables(tables[0], tables[1], tables[2], tables[3], tables[4], pax, pay, pmu, pmv);
-    this.k.setCoast(coast[0], coast[1], coast[2], coast[3], coast[4], coast[5]);
+    this.ny = g.ny;
+    this.x = new WebAssembly.Instance(module, { env: { memory } }).exports as unknown as RowExports;
+    this.sets = [0, 1].map((cur) => ({ u: at.u[cur], v: at.v[cur], un: at.u[1 - cur], vn: at.v[1 - cur], h: at.h })) as [PointerSet, PointerSet];
+    const x = this.x;
+    x.setGrid(g.nx, g.ny, g.W);
+    x.setTables(at.tables[0], at.tables[1], at.tables[2], at.tables[3], at.tables[4], at.accelX, at.accelY, at.maskU, at.maskV);
+    x.setCoast(at.coast[0], at.coast[1], at.coast[2], at.coast[3], at.coast[4], at.coast[5]);
   }
 
-  private view(p: number): Float64Array {
-    let a = this.views.get(p);
-    if (!a) {
-      a = new Float64Array(this.memory.buffer, p, this.grid.size);
-      this.views.set(p, a);
-    }
-    return a;
-  }
-
-  /** Move a state's fields into the module's memory; from then on state.u/v/h are its views. */
-  adopt(state: State): void {
-    this.view(this.pu).set(state.u);
-    this.view(this.pv).set(state.v);
-    this.view(this.ph).set(state.h);
-    this.bind(state);
-  }
-
-  private bind(state: State): void {
-    state.u = this.view(this.pu);
-    state.v = this.view(this.pv);
-    state.h = this.view(this.ph);
-  }
-
-  /**
-   * One step of the state adopted before (the same arithmetic as linearStep). Friction and
-   * viscosity are passed each step, as linearStep takes them, so a change between steps counts.
-   */
-  step(state: State, friction: number, viscosity: number): void {
+  params(friction: number, viscosity: number): void {
     const c = this.c;
-    this.k.setScalars(c.dt, c.gpdx, c.gpdy, c.idx2, c.idy2, c.dtHdx, c.dtHdy, friction, viscosity);
-    this.k.step(this.pu, this.pv, this.ph, this.pun, this.pvn);
-    let t = this.pu;
-    this.pu = this.pun;
-    this.pun = t;
-    t = this.pv;
-    this.pv = this.pvn;
-    this.pvn = t;
-    this.bind(state);
+    this.x.setScalars(c.dt, c.gpdx, c.gpdy, c.idx2, c.idy2, c.dtHdx, c.dtHdy, friction, viscosity);
+  }
+
+  u(cur: number, j: number): void {
+    const s = this.sets[cur];
+    this.x.uRow(s.u, s.v, s.h, s.un, j);
+  }
+
+  v(cur: number, j: number): void {
+    const s = this.sets[cur];
+    this.x.vRow(s.v, s.h, s.un, s.vn, j);
+  }
+
+  fused(cur: number, j: number): void {
+    const s = this.sets[cur];
+    this.x.fusedRow(s.u, s.v, s.h, s.un, s.vn, j);
+  }
+
+  h(cur: number, j: number): void {
+    const s = this.sets[cur];
+    this.x.hRow(s.h, s.un, s.vn, j);
+  }
+
+  sponge(cur: number, j: number): void {
+    this.x.spongeRow(this.sets[cur].vn, j);
   }
 }
 
-function align(p: number): number {
-  return (p + 63) & ~63;
+/** The one-thread WebAssembly step: the module on a memory of its own, the state's fields in it. */
+export function wasmStepper(grid: Grid, c: StepCoefficients): LinearStepper {
+  const module = rowsWasmModule(false);
+  const { layout, bytes } = layOut(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), grid, c);
+  const memory = new WebAssembly.Memory({ initial: Math.ceil(bytes / 65536) + 1 });
+  fillTables(memory.buffer, grid, c, layout);
+  return new LinearStepper(new WasmRows(module, memory, layout, grid, c), fieldViews(memory.buffer, layout, grid.size));
 }

@@ -29,53 +29,10 @@ export function linearWork(grid: Grid): LinearWork {
 }
 
 /**
- * Advance the state one step in place. accelX / accelY are taux/(rho0 H) on u faces and
- * tauy/(rho0 H) on v faces. friction = r (s-1), viscosity = A (m2 s-1). The fields only: the
- * Model moves the clock (state.steps, state.time) after each step.
- *
- * One fused pass over the rows, so that each row of every array is read while it is still in
- * cache: at row j it updates u row j, then v row j (its Coriolis term needs new u rows j-1 and j;
- * its pressure term needs old h rows j-1 and j), then h row j-1 (new u row j-1, new v rows j-1
- * and j), then relaxes v row j-1 in the sponge (both h rows that use it are done).
- */
-export function linearStep(
-  grid: Grid,
-  c: StepCoefficients,
-  friction: number,
-  viscosity: number,
-  accelX: Float64Array,
-  accelY: Float64Array,
-  state: State,
-  work: LinearWork,
-): void {
-  const { ny } = grid;
-  const u = state.u;
-  const v = state.v;
-  const h = state.h;
-  const un = work.uNew;
-  const vn = work.vNew;
-  // Rows 0 and ny are the edges (no h row below, no u row); the interior rows take the fused loop.
-  uRow(grid, c, friction, viscosity, accelX, u, v, h, un, 0);
-  vRow(grid, c, friction, viscosity, accelY, v, h, un, vn, 0);
-  for (let j = 1; j < ny; j++) {
-    fusedRow(grid, c, friction, viscosity, accelX, accelY, u, v, h, un, vn, j);
-    spongeRow(grid, c, vn, j - 1);
-  }
-  vRow(grid, c, friction, viscosity, accelY, v, h, un, vn, ny);
-  hRow(grid, c, h, un, vn, ny - 1);
-  spongeRow(grid, c, vn, ny - 1);
-  spongeRow(grid, c, vn, ny);
-
-  state.u = un;
-  state.v = vn;
-  work.uNew = u;
-  work.vNew = v;
-}
-
-/**
- * The same step as three plain row loops per row (u row j, v row j, h row j-1, sponge), without
- * the fused sweep: the readable statement of the arithmetic that every faster path (fusedRow,
- * the WebAssembly kernel, the strip decomposition) must reproduce bit for bit.
+ * The step as three plain row loops per row (u row j, v row j, h row j-1, sponge), without the
+ * fused sweep or the step schedule: the readable statement of the arithmetic that every path the
+ * model runs (step-schedule.ts over the TypeScript or WebAssembly rows, on one thread or in strips)
+ * must reproduce bit for bit. Tests step it beside them; it leaves the step count and the clock to its caller.
  */
 export function linearStepPlain(
   grid: Grid,

@@ -7,7 +7,8 @@
 
 import type { RowCoefficients } from '../dynamics/linear.ts';
 import { BARRIER_WORDS } from './barrier.ts';
-import type { StripRows } from './strip-schedule.ts';
+import type { StepFields } from '../dynamics/linear-rows.ts';
+import type { StripRows } from '../dynamics/step-schedule.ts';
 import type { WasmStripMemory } from './wasm-strips.ts';
 
 /** The command of round n is in word CMD + (n % 2); rounds are counted by each thread from 0. */
@@ -20,14 +21,8 @@ export const SYNC = 0;
 export const STEP = 1;
 export const STOP = 2;
 
-/** Shared fields (Float64Array views of SharedArrayBuffers, padded layout). u[0]/u[1] alternate. */
-export interface SharedFields {
-  u: [Float64Array, Float64Array];
-  v: [Float64Array, Float64Array];
-  h: Float64Array;
-  accelX: Float64Array;
-  accelY: Float64Array;
-}
+/** The step's fields in shared memory (views of SharedArrayBuffers or of a shared WebAssembly.Memory). */
+export type SharedFields = StepFields;
 
 export interface StripInit {
   kind: 'strip-init';

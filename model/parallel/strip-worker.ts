@@ -4,8 +4,8 @@
 
 import { Barrier } from './barrier.ts';
 import { CMD, CURRENT, STEP, STOP, type StripInit, type StripReply } from './strip-protocol.ts';
-import { tsStripKernel } from './strip-kernel.ts';
-import { wasmStripKernel } from './wasm-strips.ts';
+import { stripBack, stripBulk, stripEdge, stripFront } from '../dynamics/step-schedule.ts';
+import { stripRows } from './strip-kernel.ts';
 
 export function isStripInit(m: unknown): m is StripInit {
   return typeof m === 'object' && m !== null && (m as { kind?: unknown }).kind === 'strip-init';
@@ -15,7 +15,7 @@ export function isStripInit(m: unknown): m is StripInit {
 export function runStrip(init: StripInit, reply: (r: StripReply) => void): void {
   const { grid: g, coefficients: c, fields, control, params, rows, edgePhase } = init;
   const barrier = new Barrier(control, 0, init.parties, init.spins);
-  const kernel = init.wasm ? wasmStripKernel(init.wasm, g, c, rows) : tsStripKernel(g, c, fields, rows);
+  const k = stripRows(g, c, fields, init.wasm);
   reply({ kind: 'strip-ready' });
   for (let round = 0; ; round++) {
     barrier.arrive();
@@ -23,16 +23,15 @@ export function runStrip(init: StripInit, reply: (r: StripReply) => void): void 
     if (cmd === STOP) return;
     if (cmd !== STEP) continue;
     const cur = Atomics.load(control, CURRENT);
-    const r = params[0];
-    const A = params[1];
-    kernel.front(cur, r, A);
+    k.params(params[0], params[1]);
+    stripFront(k, cur, rows);
     barrier.arrive();
-    kernel.bulk(cur, r, A);
+    stripBulk(k, cur, rows);
     barrier.arrive();
-    kernel.back(cur);
+    stripBack(k, cur, rows);
     if (edgePhase) {
       barrier.arrive();
-      kernel.edge(cur);
+      stripEdge(k, cur, rows);
     }
   }
 }

@@ -10,9 +10,10 @@ import type { RowCoefficients } from '../dynamics/linear.ts';
 import type { State } from '../state.ts';
 import { Barrier } from './barrier.ts';
 import { CMD, CONTROL_WORDS, CURRENT, STEP, STOP, SYNC, type SharedFields, type StripInit, type StripReply } from './strip-protocol.ts';
-import { fieldSets, tsStripKernel, type StripKernel, type StripKernelName } from './strip-kernel.ts';
-import { needsEdgeSponge, stripBounds, type StripRows } from './strip-schedule.ts';
-import { createWasmStripMemory, wasmStripKernel, type WasmStripMemory } from './wasm-strips.ts';
+import type { LinearRows } from '../dynamics/linear-rows.ts';
+import { needsEdgeSponge, stripBack, stripBounds, stripBulk, stripEdge, stripFront, type StripRows } from '../dynamics/step-schedule.ts';
+import { stripRows, type StripKernelName } from './strip-kernel.ts';
+import { createWasmStripMemory, type WasmStripMemory } from './wasm-strips.ts';
 
 /** One worker as the team sees it; hosts wrap worker_threads or Web Workers in this. */
 export interface StripWorkerPort {
@@ -64,8 +65,7 @@ export class StripTeam {
 
   private constructor(
     readonly kernelName: StripKernelName,
-    private readonly kernel: StripKernel,
-    private readonly c: { dt: number },
+    private readonly rows: LinearRows,
     fields: SharedFields,
     strips: StripRows[],
     private readonly workers: StripWorkerPort[],
@@ -77,10 +77,7 @@ export class StripTeam {
   ) {
     this.fields = fields;
     this.strips = strips;
-    this.sets = fieldSets(fields);
   }
-
-  private readonly sets: ReturnType<typeof fieldSets>;
 
   get size(): number {
     return this.strips.length;
@@ -182,8 +179,8 @@ export class StripTeam {
     }
     for (const w of workers) w.unref?.();
     const leaderGrid = { nx: grid.nx, ny: grid.ny, W: grid.W, maskU, maskV };
-    const kernel = wasm ? wasmStripKernel(wasm, leaderGrid, coefficients, strips[0]) : tsStripKernel(leaderGrid, coefficients, fields, strips[0]);
-    return new StripTeam(kernelName, kernel, c, fields, strips, workers, control, params, new Barrier(control, 0, strips.length, spins), edgePhase, options.timeoutMs ?? 20_000);
+    const rows = stripRows(leaderGrid, coefficients, fields, wasm);
+    return new StripTeam(kernelName, rows, fields, strips, workers, control, params, new Barrier(control, 0, strips.length, spins), edgePhase, options.timeoutMs ?? 20_000);
   }
 
   /** Copy a state's fields into the shared buffers; from then on state.u/v/h are the shared views. */
@@ -231,26 +228,26 @@ export class StripTeam {
     if (state.u !== this.fields.u[cur] || state.v !== this.fields.v[cur] || state.h !== this.fields.h) {
       throw new StripTeamError('the state stepped by a strip team must be the one it adopted');
     }
-    const c = this.c;
-    const f = this.sets[cur];
-    const k = this.kernel;
+    const k = this.rows;
+    const own = this.strips[0];
     this.params[0] = friction;
     this.params[1] = viscosity;
     Atomics.store(this.control, CURRENT, cur);
     this.go(STEP);
-    k.front(cur, friction, viscosity);
+    k.params(friction, viscosity);
+    stripFront(k, cur, own);
     this.arrive();
-    k.bulk(cur, friction, viscosity);
+    stripBulk(k, cur, own);
     this.arrive();
-    k.back(cur);
+    stripBack(k, cur, own);
     if (this.edgePhase) {
       this.arrive();
-      k.edge(cur);
+      stripEdge(k, cur, own);
     }
     this.pending = true;
     this.current = 1 - cur;
-    state.u = f.un;
-    state.v = f.vn;
+    state.u = this.fields.u[1 - cur];
+    state.v = this.fields.v[1 - cur];
   }
 
   /** Wait until every worker has finished the last step (a no-op when none is pending). */

@@ -9,14 +9,9 @@ import { Model, type LinearKernelName } from '../../model/model.ts';
 import type { StripHost } from '../../model/parallel/team.ts';
 import { referenceConfig } from '../../model/reference-kernel.ts';
 import { nodeStripHost } from '../../worker/strips-node.ts';
+import { sameBits } from '../support/bits.ts';
 
-export function sameBits(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  const x = new BigUint64Array(a.buffer, a.byteOffset, a.length);
-  const y = new BigUint64Array(b.buffer, b.byteOffset, b.length);
-  for (let k = 0; k < x.length; k++) if (x[k] !== y[k]) return false;
-  return true;
-}
+export { sameBits };
 
 /** A basin of nx x ny cells with the reference's island and block, sponge bands of spongeRows. */
 export function basin(nx: number, ny: number, slip: 'free' | 'no', spongeRows: number): ModelConfig {

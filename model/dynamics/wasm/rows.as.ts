@@ -1,9 +1,11 @@
-// The row functions of the WebAssembly linear step and the run's scalars and tables (AssemblyScript),
-// shared by the two entry files: linear.as.ts (the one-thread step) and strips.as.ts (the phases
-// of one latitude strip, model/parallel/strip-schedule.ts, over shared memory). The same arithmetic
-// as model/dynamics/linear.ts, operation for operation, so the result is bit-identical: IEEE double
-// in every lane, no fused multiply-add, no reordering. The interior rows take two columns at a time
-// in f64x2 lanes; edges, odd tails and coast terms go through the scalar path or a per-lane fix-up.
+// The row functions of the WebAssembly linear step and the run's scalars and tables (AssemblyScript):
+// the module's entry. The step schedule (model/dynamics/step-schedule.ts) calls these rows from
+// TypeScript, for one thread and for each latitude strip alike; the module is built twice, on a
+// memory of its own and on a shared imported memory for the strips (wasm/build.ts). The same
+// arithmetic as model/dynamics/linear.ts, operation for operation, so the result is bit-identical:
+// IEEE double in every lane, no fused multiply-add, no reordering (test/kernels/linear-rows.test.ts
+// compares every row function on random fields). The interior rows take two columns at a time in
+// f64x2 lanes; edges, odd tails and coast terms go through the scalar path or a per-lane fix-up.
 //
 // All arrays live in the module's (imported) memory at byte addresses given by the host; index
 // k of an array at p is at p + 8 k. Per-row tables: fS, fN (ny), fV, spongeV (ny + 1), spongeH (ny).
@@ -30,7 +32,7 @@ export function heapBase(): usize {
 
 // Scalars of a run, set once.
 let nx: i32 = 0;
-export let ny: i32 = 0;
+let ny: i32 = 0;
 let W: i32 = 0;
 let dt: f64 = 0;
 let gpdx: f64 = 0;
