@@ -2,6 +2,7 @@
 // scenario file into one of these; the solver never reads scenario JSON itself.
 
 import type { LandShape } from './grid.ts';
+import { earthBeta } from './theory.ts';
 
 export interface BasinConfig {
   /** Western and eastern edges of the basin, degrees east. */
@@ -97,7 +98,7 @@ export function defaultPhysics(): PhysicsConfig {
     layerThickness: 150,
     density: 1025,
     coriolis: 'beta-plane',
-    beta: (2 * EARTH.omega) / EARTH.radius,
+    beta: earthBeta(EARTH.omega, EARTH.radius),
     earthRotation: EARTH.omega,
     earthRadius: EARTH.radius,
     mode: 'linear',

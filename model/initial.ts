@@ -6,6 +6,7 @@ import { InputError } from './errors.ts';
 import type { Grid } from './grid.ts';
 import { State } from './state.ts';
 import * as pm from './portable-math.ts';
+import { equatorialBeta, equatorialRadius, waveSpeed } from './theory.ts';
 
 export type InitialSpec =
   | { kind: 'rest' }
@@ -21,8 +22,8 @@ const square = (x: number) => x * x;
 
 /** Equatorial scales: c = sqrt(g' H), L = sqrt(c / beta). */
 export function equatorialScales(physics: PhysicsConfig): { c: number; L: number } {
-  const c = Math.sqrt(physics.reducedGravity * physics.layerThickness);
-  return { c, L: Math.sqrt(c / physics.beta) };
+  const c = waveSpeed(physics.reducedGravity, physics.layerThickness);
+  return { c, L: equatorialRadius(c, equatorialBeta(physics)) };
 }
 
 export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSpec): State {

@@ -3,7 +3,7 @@
 
 import type { ModelConfig, PhysicsConfig } from './config.ts';
 import { DAY } from './config.ts';
-import { buildCoefficients, coriolisAt, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
+import { buildCoefficients, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
 import { TsRows, stepFields } from './dynamics/linear-rows.ts';
 import { LinearStepper } from './dynamics/linear-stepper.ts';
 import { wasmAvailable, wasmStepper } from './dynamics/linear-wasm.ts';
@@ -11,6 +11,7 @@ import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/non
 import { VolumeKeepingSponge } from './dynamics/sponge.ts';
 import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from './dynamics/stability.ts';
 import { Clock } from './clock.ts';
+import { coriolisParameter, waveSpeed } from './theory.ts';
 import { centredField, type FieldContext, type FieldName } from './diagnostics/fields.ts';
 import { anomalySum, integrals, type Integrals } from './diagnostics/integrals.ts';
 import { BlowUpError, InputError } from './errors.ts';
@@ -93,7 +94,7 @@ export class Model {
 
     const p = config.physics;
     this.limit = stabilityLimit({
-      c: Math.sqrt(p.reducedGravity * p.layerThickness),
+      c: waveSpeed(p.reducedGravity, p.layerThickness),
       dx: this.grid.dx,
       dy: this.grid.dy,
       fMax: largestCoriolis(this.grid, p),
@@ -363,7 +364,7 @@ export class Model {
 
   /** f at a latitude with this run's Coriolis choice. */
   coriolisAt(latDeg: number): number {
-    return coriolisAt(this.physics, latDeg, (latDeg * Math.PI * this.physics.earthRadius) / 180);
+    return coriolisParameter(this.physics, latDeg, (latDeg * Math.PI * this.physics.earthRadius) / 180);
   }
 }
 

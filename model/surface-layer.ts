@@ -9,10 +9,12 @@ export interface SurfaceShear {
   vs: number;
 }
 
-/** Solve the 2x2 balance at one point (taux, tauy in N m-2, f in s-1). */
-export function surfaceShear(taux: number, tauy: number, f: number, rho0: number, depth: number, damping: number): SurfaceShear {
+/** Solve the 2x2 balance at one point (taux, tauy in N m-2, f in s-1), into `out` (no allocation: it runs per cell). */
+export function surfaceShear(taux: number, tauy: number, f: number, rho0: number, depth: number, damping: number, out: SurfaceShear = { us: 0, vs: 0 }): SurfaceShear {
   const X = taux / (rho0 * depth);
   const Y = tauy / (rho0 * depth);
   const det = damping * damping + f * f;
-  return { us: (damping * X + f * Y) / det, vs: (damping * Y - f * X) / det };
+  out.us = (damping * X + f * Y) / det;
+  out.vs = (damping * Y - f * X) / det;
+  return out;
 }

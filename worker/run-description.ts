@@ -1,7 +1,7 @@
 // What a run's output file says about the run, from the loaded scenario and its model: one place
 // for the command line's run and rerun (the page builds its files from saved runs instead).
 
-import { equatorialBeta } from '../model/dynamics/coefficients.ts';
+import { equatorialBeta } from '../model/theory.ts';
 import type { Model } from '../model/model.ts';
 import type { RunDescription } from '../model/io/run-output.ts';
 import type { LoadedScenario } from './protocol.ts';

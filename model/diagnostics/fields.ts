@@ -1,6 +1,7 @@
 // Output fields at cell centres: what files, frames and probes carry. Face values are averaged to
 // the centre; land cells are NaN (written as the fill value in files, drawn neutral in the viewer).
 
+import { surfaceShear, type SurfaceShear } from '../surface-layer.ts';
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
 import type { State } from '../state.ts';
@@ -68,6 +69,7 @@ export function centredField(
   const rs = physics.surfaceLayer.damping;
   const rho0 = physics.density;
   const sshFactor = physics.reducedGravity / physics.gravity;
+  const shear: SurfaceShear = { us: 0, vs: 0 };
   const rowOffset = out.length >= ctx.grid.nx * ctx.grid.ny ? 0 : rows.from;
   // Only rows from..to-1 are written (a Hovmoller section needs one row, not the whole field).
   for (let j = rows.from; j < rows.to; j++) {
@@ -100,12 +102,7 @@ export function centredField(
           value = 0.5 * (tauy[k] + tauy[k + W]);
           break;
         default: {
-          // The surface-layer balance of model/surface-layer.ts, inline: this runs per cell.
-          const X = (0.5 * (taux[k] + taux[k + 1])) / (rho0 * H1);
-          const Y = (0.5 * (tauy[k] + tauy[k + W])) / (rho0 * H1);
-          const det = rs * rs + f * f;
-          const us = (rs * X + f * Y) / det;
-          const vs = (rs * Y - f * X) / det;
+          const { us, vs } = surfaceShear(0.5 * (taux[k] + taux[k + 1]), 0.5 * (tauy[k] + tauy[k + W]), f, rho0, H1, rs, shear);
           const um = 0.5 * (u[k] + u[k + 1]);
           const vm = 0.5 * (v[k] + v[k + W]);
           if (name === 'u_surf') value = um + ((H - H1) / H) * us;

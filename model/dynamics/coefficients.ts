@@ -3,7 +3,7 @@
 
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
-import * as pm from '../portable-math.ts';
+import { coriolisParameter } from '../theory.ts';
 
 export interface StepCoefficients {
   dt: number;
@@ -78,20 +78,9 @@ export function ghostFactor(slip: PhysicsConfig['slip']): number {
   return slip === 'free' ? 1 : -1;
 }
 
-export function coriolisAt(physics: PhysicsConfig, latDeg: number, yMetres: number): number {
-  return physics.coriolis === 'spherical'
-    ? 2 * physics.earthRotation * pm.sin((latDeg * Math.PI) / 180)
-    : physics.beta * yMetres;
-}
-
-/** beta at the equator: the beta plane's own, or 2 Omega / R for f = 2 Omega sin(lat); it sets the equatorial scales. */
-export function equatorialBeta(physics: Pick<PhysicsConfig, 'coriolis' | 'beta' | 'earthRotation' | 'earthRadius'>): number {
-  return physics.coriolis === 'spherical' ? (2 * physics.earthRotation) / physics.earthRadius : physics.beta;
-}
-
 export function largestCoriolis(grid: Grid, physics: PhysicsConfig): number {
   let m = 0;
-  for (let j = 0; j <= grid.ny; j++) m = Math.max(m, Math.abs(coriolisAt(physics, grid.latFace[j], grid.yFace[j])));
+  for (let j = 0; j <= grid.ny; j++) m = Math.max(m, Math.abs(coriolisParameter(physics, grid.latFace[j], grid.yFace[j])));
   return m;
 }
 
@@ -106,8 +95,8 @@ export interface KernelVariant {
 export function buildCoefficients(grid: Grid, physics: PhysicsConfig, dt: number, variant: KernelVariant = {}): StepCoefficients {
   const ghost = variant.ghost ?? ghostFactor(physics.slip);
   const { nx, ny, dx, dy } = grid;
-  const fU = Float64Array.from(grid.latCentre, (lat, j) => coriolisAt(physics, lat, grid.yCentre[j]));
-  const fV = Float64Array.from(grid.latFace, (lat, j) => coriolisAt(physics, lat, grid.yFace[j]));
+  const fU = Float64Array.from(grid.latCentre, (lat, j) => coriolisParameter(physics, lat, grid.yCentre[j]));
+  const fV = Float64Array.from(grid.latFace, (lat, j) => coriolisParameter(physics, lat, grid.yFace[j]));
 
   // Sponge: rate rises linearly from 0 at the band's inner edge to rateAtWall at the wall;
   // distance counted in grid spacings from the nearer of the south and north walls.

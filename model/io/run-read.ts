@@ -12,6 +12,7 @@
 
 import { FIELD_NAMES, type FieldName } from '../diagnostics/fields.ts';
 import { EARTH } from '../config.ts';
+import { earthBeta } from '../theory.ts';
 import type { Integrals } from '../diagnostics/integrals.ts';
 import type { DrawnBurst } from '../forcing/bursts.ts';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from './netcdf-read.ts';
@@ -112,7 +113,7 @@ export function scenarioFacts(scenarioJson: string): { seed: string | number; dy
     reducedGravity: p.reducedGravity,
     layerThickness: p.layerThickness,
     // As the scenario resolver sets it: the beta plane's own beta, else 2 Omega / R.
-    beta: p.coriolis?.kind !== 'spherical' && typeof p.coriolis?.beta === 'number' ? p.coriolis.beta : (2 * EARTH.omega) / EARTH.radius,
+    beta: p.coriolis?.kind !== 'spherical' && typeof p.coriolis?.beta === 'number' ? p.coriolis.beta : earthBeta(EARTH.omega, EARTH.radius),
   };
 }
 

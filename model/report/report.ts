@@ -5,6 +5,7 @@
 
 import { interpolateRdBu } from 'd3-scale-chromatic';
 import { hovmollerData, type RunData } from '../io/run-read.ts';
+import { equatorialRadius, longRossbySpeed } from '../theory.ts';
 import { derivedNumbers, resolveScenario, validateScenario, type DerivedNumbers } from '../scenario/index.ts';
 import { isMeasured, measureWaves, METRES_PER_DEGREE, type SpeedMeasure, type WaveMeasures } from './measure.ts';
 import { pngDataUrl } from './png.ts';
@@ -233,12 +234,12 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
     ['length', `${fmt(run.days[run.days.length - 1] - run.days[0])} days, ${run.days.length} output records, ${run.snapshots.length} with maps`],
     ['seed', escapeHtml(String(run.seed))],
   ]);
-  const L = Math.sqrt(c / beta) / 1000;
+  const L = equatorialRadius(c, beta) / 1000;
   const derived = table([
     ["Kelvin speed c = √(g'H)", `${fmt(c)} m/s`],
     ['equatorial radius L = √(c/β)', `${fmt(L)} km (β = ${fmt(beta)} m⁻¹ s⁻¹)`],
     ['Kelvin crossing', `${fmt(widthKm / c / 86.4)} days over ${fmt(widthKm, 4)} km of ocean on the equator`],
-    ['long Rossby speed c/3', `${fmt(c / 3)} m/s, crossing in ${fmt((3 * widthKm) / c / 86.4)} days`],
+    ['long Rossby speed c/3', `${fmt(longRossbySpeed(c))} m/s, crossing in ${fmt(widthKm / longRossbySpeed(c) / 86.4)} days`],
     ['time step', `dt = ${fmt(run.dt, 4)} s${d ? ` (stability limit ${fmt(d.stability.dtMax, 4)} s)` : ''}`],
   ]);
   const measured = table([

@@ -5,7 +5,7 @@
 // column to the next, metres per second strong. Common practice is a Munk width of at least one
 // grid interval, better two (Griffies 2004, Fundamentals of Ocean Climate Models, from memory).
 
-import * as pm from '../portable-math.ts';
+import { munkWidth, stommelWidth } from '../theory.ts';
 
 /** The layer counts as resolved when its width is at least this many zonal grid intervals. */
 export const RESOLVED_INTERVALS = 1;
@@ -33,8 +33,8 @@ export interface BoundaryLayer {
  * intensification, and the layer counts as resolved.
  */
 export function westernBoundaryLayer(beta: number, viscosity: number, friction: number, dx: number): BoundaryLayer {
-  const munk = beta > 0 && viscosity > 0 ? pm.pow(viscosity / beta, 1 / 3) : 0;
-  const stommel = beta > 0 ? friction / beta : 0;
+  const munk = munkWidth(viscosity, beta);
+  const stommel = stommelWidth(friction, beta);
   const intervals = beta > 0 ? Math.max(munk, stommel) / dx : Infinity;
   const forWidth = (w: number) => beta * w * w * w;
   const viscosityForOne = forWidth(RESOLVED_INTERVALS * dx);

@@ -5,9 +5,8 @@ import { DAY, type DynamicsMode } from '../config.ts';
 import type { Grid } from '../grid.ts';
 import { Clock } from '../clock.ts';
 import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from '../dynamics/stability.ts';
-import { equatorialBeta } from '../dynamics/coefficients.ts';
+import { coriolisParameter, equatorialBeta, equatorialRadius, longRossbySpeed, waveSpeed } from '../theory.ts';
 import type { ResolvedScenario } from './resolve.ts';
-import * as pm from '../portable-math.ts';
 import { westernBoundaryLayer, type BoundaryLayer } from './boundary-layer.ts';
 
 export { stabilityLimit, type LimitingTerm, type StabilityInput, type StabilityLimit } from '../dynamics/stability.ts';
@@ -16,8 +15,7 @@ export { stabilityLimit, type LimitingTerm, type StabilityInput, type StabilityL
 export function maxCoriolis(r: ResolvedScenario): number {
   const { basin, physics } = r.model;
   const maxLat = Math.max(Math.abs(basin.latSouth), Math.abs(basin.latNorth));
-  if (physics.coriolis === 'spherical') return 2 * physics.earthRotation * pm.sin((maxLat * Math.PI) / 180);
-  return physics.beta * ((maxLat * Math.PI) / 180) * physics.earthRadius;
+  return Math.abs(coriolisParameter(physics, maxLat, ((maxLat * Math.PI) / 180) * physics.earthRadius));
 }
 
 /** The stability limit of a resolved scenario (grid spacing from its basin). */
@@ -25,7 +23,7 @@ export function scenarioStability(r: ResolvedScenario): StabilityLimit {
   const { basin, physics } = r.model;
   const mPerDeg = (physics.earthRadius * Math.PI) / 180;
   return stabilityLimit({
-    c: Math.sqrt(physics.reducedGravity * physics.layerThickness),
+    c: waveSpeed(physics.reducedGravity, physics.layerThickness),
     dx: basin.dLon * mPerDeg,
     dy: basin.dLat * mPerDeg,
     fMax: maxCoriolis(r),
@@ -83,7 +81,7 @@ export interface DerivedNumbers {
 
 export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers {
   const { basin, physics, time } = r.model;
-  const c = Math.sqrt(physics.reducedGravity * physics.layerThickness);
+  const c = waveSpeed(physics.reducedGravity, physics.layerThickness);
   // The spherical option still has beta = 2 Omega / R at the equator, which sets the scale L.
   const beta = equatorialBeta(physics);
   const mPerDeg = (physics.earthRadius * Math.PI) / 180;
@@ -115,11 +113,11 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
   return {
     c,
     beta,
-    equatorialRadiusKm: beta > 0 ? Math.sqrt(c / beta) / 1000 : Infinity,
+    equatorialRadiusKm: equatorialRadius(c, beta) / 1000,
     crossingWidthKm: crossing / 1000,
     kelvinCrossingDays: crossing / c / DAY,
-    rossbySpeed: c / 3,
-    rossbyCrossingDays: (3 * crossing) / c / DAY,
+    rossbySpeed: longRossbySpeed(c),
+    rossbyCrossingDays: crossing / longRossbySpeed(c) / DAY,
     nx,
     ny,
     dxKm: dx / 1000,

@@ -1,5 +1,6 @@
 // From a validated scenario (file units: degrees, days) to what the model runs with (SI units).
 
+import { earthBeta } from '../theory.ts';
 import { secondsOfDays } from '../clock.ts';
 import { DAY, EARTH, type ModelConfig } from '../config.ts';
 import type { WindSpec } from '../forcing/spec.ts';
@@ -28,7 +29,7 @@ export interface ResolvedScenario {
 }
 
 /** beta = 2 Omega / R at the equator, m-1 s-1. */
-export const EQUATORIAL_BETA = (2 * EARTH.omega) / EARTH.radius;
+export const EQUATORIAL_BETA = earthBeta(EARTH.omega, EARTH.radius);
 
 export function cellSize(resolution: Scenario['basin']['resolution']): { dLon: number; dLat: number } {
   return typeof resolution === 'number' ? { dLon: resolution, dLat: resolution } : { dLon: resolution.lon, dLat: resolution.lat };

@@ -2,6 +2,7 @@
 // diagram (with the Kelvin and long Rossby lines), its probe series, the wave speeds measured on
 // it beside theory, and its report as a download. Everything shown is the run's saved output.
 
+import { waveSpeed } from '../../model/theory.ts';
 import { EARTH } from '../../model/config.ts';
 import type { RunData } from '../../model/io/run-read.ts';
 import { measureWaves } from '../../model/report/measure.ts';
@@ -158,7 +159,7 @@ export class RunView {
     for (let n = 0; n < run.days.length; n++) this.hovStore.add(run.days[n], run.hovmoller.map((h) => h.values.subarray(n * nx, (n + 1) * nx)));
     this.hovLat.replaceChildren(...run.hovmoller.map((h, k) => new Option(latLabel(h.rowLat), String(k))));
     const g = gridInfoOf(run.grid);
-    const c = Math.sqrt(run.reducedGravity * run.layerThickness);
+    const c = waveSpeed(run.reducedGravity, run.layerThickness);
     this.hov.setRun({ lonWest: g.lonWest, lonEast: g.lonEast, days: run.days[run.days.length - 1], nx }, c, EARTH.radius, pulseStart(run.scenarioJson));
     this.hov.draw();
 

@@ -1,22 +1,13 @@
 // The wind stress a scenario gives, before running: the SAME buildWindStress (model/forcing/wind.ts)
 // the model calls, on the same grid, filled at the chosen day exactly as the solver would fill it
 // (time-varying parts held at the middle of their updateHours interval). This is the forcing only;
-// nothing of the ocean is computed here.
-//
-// Derived layers, on cell centres:
-//   |tau|, and curl tau = d(tauy)/dx - d(taux)/dy (N m-3), with dx, dy in metres as the model uses
-//   them (R times radians; the beta plane has no cos(lat));
-//   the Sverdrup balance beta V = curl(tau) / rho0 (Sverdrup 1947, PNAS 33, 318; check-values §4,
-//   "Sverdrup interior balance"), so V = curl(tau) / (rho0 beta), the meridional transport per unit
-//   width (m2 s-1, northward positive);
-//   its zonal partner from continuity dU/dx + dV/dy = 0 with U = 0 at the eastern coast:
-//   U(x) = integral from x to the coast of dV/dy dx', the zonal transport per unit width (m2 s-1,
-//   eastward positive), integrated westward from the eastern boundary of each stretch of ocean.
-// The Sverdrup layers predict the steady interior flow off the equator (the counter current under
-// a weak-wind gap shows as eastward U); near the equator, where beta V balances nothing for long,
-// they are an indication only.
+// nothing of the ocean is computed here. Derived layers on cell centres: |tau|, and the stress curl
+// and Sverdrup transports V and U as model/diagnostics/sverdrup.ts computes them (a prediction of
+// the steady interior off the equator; near the equator an indication only).
 
+import { stressCurl, sverdrupU, sverdrupV } from '../../model/diagnostics/sverdrup.ts';
 import { Grid } from '../../model/grid.ts';
+import type { CoriolisPhysics } from '../../model/theory.ts';
 import { buildWindStress } from '../../model/forcing/wind.ts';
 import { resolveScenario, validateScenario, type ResolvedScenario } from '../../model/scenario/index.ts';
 import { formatIssue } from '../../model/scenario/errors.ts';
@@ -78,67 +69,19 @@ export function stressAt(resolved: ResolvedScenario, grid: Grid, day: number, fi
   return { nx, ny, taux, tauy, day };
 }
 
-/** Centred derivative along a row or column, one-sided next to land or the edge, NaN alone. */
-function derivative(f: Float32Array | Float64Array, nx: number, ny: number, i: number, j: number, alongX: boolean, step: number): number {
-  const at = (ii: number, jj: number) => (ii < 0 || jj < 0 || ii >= nx || jj >= ny ? NaN : f[jj * nx + ii]);
-  const [di, dj] = alongX ? [1, 0] : [0, 1];
-  const a = at(i - di, j - dj);
-  const b = at(i + di, j + dj);
-  const c = at(i, j);
-  if (a === a && b === b) return (b - a) / (2 * step);
-  if (b === b) return (b - c) / step;
-  if (a === a) return (c - a) / step;
-  return NaN;
-}
-
 /** One preview layer on cell centres (NaN on land). rho0 and beta from the scenario's physics. */
-export function layerValues(field: StressField, layer: PreviewLayer, grid: Grid, physics: { density: number; beta: number; coriolis: string; earthRotation: number; earthRadius: number }): Float32Array {
+export function layerValues(field: StressField, layer: PreviewLayer, grid: Grid, physics: CoriolisPhysics & { density: number }): Float32Array {
   const { nx, ny, taux, tauy } = field;
   const out = new Float32Array(nx * ny);
   if (layer === 'magnitude') {
     for (let k = 0; k < out.length; k++) out[k] = Math.hypot(taux[k], tauy[k]);
     return out;
   }
-  const curl = new Float64Array(nx * ny);
-  for (let j = 0; j < ny; j++) {
-    for (let i = 0; i < nx; i++) {
-      const k = j * nx + i;
-      curl[k] = taux[k] !== taux[k] ? NaN : derivative(tauy, nx, ny, i, j, true, grid.dx) - derivative(taux, nx, ny, i, j, false, grid.dy);
-    }
-  }
-  if (layer === 'curl') {
-    out.set(curl);
-    return out;
-  }
-  // beta per row: constant on the beta plane; 2 Omega cos(lat) / R on the sphere.
-  const betaRow = new Float64Array(ny);
-  for (let j = 0; j < ny; j++) {
-    betaRow[j] = physics.coriolis === 'spherical' ? (2 * physics.earthRotation * Math.cos((grid.latCentre[j] * Math.PI) / 180)) / physics.earthRadius : physics.beta;
-  }
-  const V = new Float64Array(nx * ny);
-  for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) V[j * nx + i] = curl[j * nx + i] / (physics.density * betaRow[j]);
-  if (layer === 'sverdrupV') {
-    out.set(V);
-    return out;
-  }
-  // U(x) = sum over cells east of x, up to the coast, of dV/dy dx: a midpoint sum, restarted at
-  // every land cell so each stretch of ocean starts from U = 0 at its own eastern coast.
-  for (let j = 0; j < ny; j++) {
-    let U = 0;
-    for (let i = nx - 1; i >= 0; i--) {
-      const k = j * nx + i;
-      if (taux[k] !== taux[k]) {
-        out[k] = NaN;
-        U = 0;
-        continue;
-      }
-      const dVdy = derivative(V, nx, ny, i, j, false, grid.dy);
-      const inc = dVdy === dVdy ? dVdy * grid.dx : 0;
-      // Value at the cell centre: half this cell's increment past the running sum.
-      out[k] = U + 0.5 * inc;
-      U += inc;
-    }
-  }
+  // The balance itself is the model's (model/diagnostics/sverdrup.ts); the page only draws it.
+  const curl = stressCurl(taux, tauy, grid);
+  if (layer === 'curl') out.set(curl);
+  else if (layer === 'sverdrupV') out.set(sverdrupV(curl, grid, physics));
+  else out.set(sverdrupU(sverdrupV(curl, grid, physics), grid));
   return out;
 }
 
