@@ -1,6 +1,7 @@
 // Basin integrals and extremes, computed at every output step: volume, energy, thinnest layer,
 // fastest flow, and the Courant number of the scheme.
 
+import { waveSpeed } from '../theory.ts';
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
 import type { State } from '../state.ts';
@@ -119,7 +120,7 @@ export function integrals(grid: Grid, physics: PhysicsConfig, state: State, dt: 
   const kinetic = 0.5 * rho0 * ke.value * dA;
   const potential = 0.5 * rho0 * physics.reducedGravity * pe.value * dA;
   const maxSpeed = Math.sqrt(maxSpeed2);
-  const signal = nonlinear ? Math.sqrt(physics.reducedGravity * Math.max(maxThick, 0)) + maxSpeed : Math.sqrt(physics.reducedGravity * H);
+  const signal = nonlinear ? waveSpeed(physics.reducedGravity, Math.max(maxThick, 0)) + maxSpeed : waveSpeed(physics.reducedGravity, H);
   const change = (anomaly.value - budget.anomalyAtStart) * dA;
   const spongeVolume = budget.spongeMeasured === null ? change : budget.spongeMeasured * dA;
   return {

@@ -2,6 +2,8 @@
 // would be if it travelled east at c (Kelvin) or west at c/3 (long Rossby). Only kinematics: the
 // speeds come from the scenario's derived numbers.
 
+import { longRossbySpeed } from '../../model/theory.ts';
+
 export interface Characteristic {
   name: 'kelvin' | 'rossby';
   /** Zonal speed, degrees of longitude per day (east positive). */
@@ -38,7 +40,7 @@ export function characteristics(
   const kelvin = degreesPerDay(c, earthRadius);
   const lines: Array<[Characteristic['name'], number]> = [
     ['kelvin', kelvin],
-    ['rossby', -kelvin / 3],
+    ['rossby', -longRossbySpeed(kelvin)],
   ];
   for (const [name, s] of lines) {
     const seg = clipLine(start.lon, start.day, s, extent.lonWest, extent.lonEast, extent.days);
