@@ -1,7 +1,7 @@
 // The resolved model configuration, in SI units. The scenario layer (model/scenario/) turns a
 // scenario file into one of these; the solver never reads scenario JSON itself.
 
-import type { LandShape } from './grid.ts';
+import type { LandShape } from './land.ts';
 import { earthBeta } from './theory.ts';
 
 export interface BasinConfig {

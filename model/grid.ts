@@ -9,10 +9,7 @@
 
 import type { BasinConfig } from './config.ts';
 import { InputError } from './errors.ts';
-
-export type LandShape =
-  | { kind: 'rectangle'; lonWest: number; lonEast: number; latSouth: number; latNorth: number }
-  | { kind: 'polygon'; points: Array<[number, number]> };
+import { insideShape, shapeBounds } from './land.ts';
 
 export class GridError extends InputError {
   override name = 'GridError';
@@ -146,38 +143,4 @@ export class Grid {
     const j = Math.round((lat - this.basin.latSouth) / this.dLat - 0.5);
     return Math.min(this.ny - 1, Math.max(0, j));
   }
-}
-
-/** The lon/lat box a shape lies in. */
-export function shapeBounds(s: LandShape): { lonWest: number; lonEast: number; latSouth: number; latNorth: number } {
-  if (s.kind === 'rectangle') return s;
-  let lonWest = Infinity;
-  let lonEast = -Infinity;
-  let latSouth = Infinity;
-  let latNorth = -Infinity;
-  for (const [lon, lat] of s.points) {
-    lonWest = Math.min(lonWest, lon);
-    lonEast = Math.max(lonEast, lon);
-    latSouth = Math.min(latSouth, lat);
-    latNorth = Math.max(latNorth, lat);
-  }
-  return { lonWest, lonEast, latSouth, latNorth };
-}
-
-export function insideShape(s: LandShape, lon: number, lat: number): boolean {
-  if (s.kind === 'rectangle') {
-    return lon >= s.lonWest && lon <= s.lonEast && lat >= s.latSouth && lat <= s.latNorth;
-  }
-  return insidePolygon(s.points, lon, lat);
-}
-
-/** Even-odd ray casting; the polygon closes itself. */
-export function insidePolygon(points: ReadonlyArray<readonly [number, number]>, x: number, y: number): boolean {
-  let inside = false;
-  for (let a = 0, b = points.length - 1; a < points.length; b = a++) {
-    const [xa, ya] = points[a];
-    const [xb, yb] = points[b];
-    if (ya > y !== yb > y && x < ((xb - xa) * (y - ya)) / (yb - ya) + xa) inside = !inside;
-  }
-  return inside;
 }

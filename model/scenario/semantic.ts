@@ -6,7 +6,8 @@
 import { secondsOfDays } from '../clock.ts';
 import { EARTH } from '../config.ts';
 import { notDividing, stepsInInterval } from '../dynamics/stability.ts';
-import { Grid, insideShape, type LandShape } from '../grid.ts';
+import { Grid } from '../grid.ts';
+import { insideShape, type LandShape } from '../land.ts';
 import { pathToString, type PathSegment, type ScenarioIssue } from './errors.ts';
 import { resolveScenario } from './resolve.ts';
 import { memoryEstimate, scenarioStability } from './derived.ts';

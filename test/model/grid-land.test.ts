@@ -2,7 +2,8 @@
 // test of every cell against every shape marks (centre inside, even-odd rule for polygons).
 
 import { describe, expect, it } from 'vitest';
-import { Grid, insideShape, type LandShape } from '../../model/grid.ts';
+import { Grid } from '../../model/grid.ts';
+import { insideShape, type LandShape } from '../../model/land.ts';
 import { EARTH } from '../../model/config.ts';
 
 describe('land mask', () => {

@@ -22,14 +22,7 @@ import { rerun, RERUN_HELP, RERUN_USAGE } from './rerun.ts';
 import { sweep, SWEEP_HELP, SWEEP_USAGE } from './sweep.ts';
 import { checkThreadsOption, type ThreadsOption } from '../../model/parallel/threads.ts';
 import { nodeStripHost } from '../strips-node.ts';
-
-export interface CliIO {
-  stdout: { write(s: string): unknown };
-  stderr: ProgressStream;
-  cwd: string;
-  /** Registers a Ctrl-C handler; returns its removal. */
-  onInterrupt?: (handler: () => void) => () => void;
-}
+import type { CliIO } from './io.ts';
 
 export const USAGE = `usage:
   pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--threads N|auto] [--quiet]

@@ -8,7 +8,7 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join, resolve as resolvePath } from 'node:path';
 import { Worker } from 'node:worker_threads';
-import type { CliIO } from './main.ts';
+import type { CliIO } from './io.ts';
 
 export const SWEEP_USAGE = `pycno sweep SCENARIO.json --vary path=v1,v2,... [--vary ...] --out DIR [--set path=value ...] [--days N] [--jobs N] [--list]
 `;
