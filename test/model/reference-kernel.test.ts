@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { referenceChecksum, referenceModel } from '../../model/reference-kernel.ts';
+import { record } from '../physics/setup.ts';
 
 // Checksums of the shared reference kernel (C double -O2 and NumPy float64 agree in all 16 digits;
 // table "Reference checksums" of the refbench README). Agreement to 1e-10 is a real test there:
@@ -23,6 +24,8 @@ describe('linear step against the reference kernel', () => {
     const m = referenceModel(320, 120);
     m.advance(2000);
     const { sumEta, energy } = referenceChecksum(m);
+    const worst = Math.max(Math.abs(sumEta / 3.941168231540554e4 - 1), Math.abs(energy / 2.459213520838915e18 - 1));
+    record('linear step against the reference kernel, 320 x 120, 2000 steps (largest relative checksum difference)', worst, 0, '', { source: 'shared refbench C and NumPy checksums', tolerance: '1e-10' });
     expect(Math.abs(sumEta / 3.941168231540554e4 - 1)).toBeLessThan(1e-10);
     expect(Math.abs(energy / 2.459213520838915e18 - 1)).toBeLessThan(1e-10);
   });

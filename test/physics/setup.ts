@@ -1,5 +1,8 @@
 // Small builders shared by the physics-verification tests.
 
+import { appendFileSync, mkdirSync } from 'node:fs';
+import { relative } from 'node:path';
+import { expect } from 'vitest';
 import { defaultPhysics, type BasinConfig, type ModelConfig, type PhysicsConfig } from '../../model/config.ts';
 import type { WindPart } from '../../model/forcing/spec.ts';
 import type { WindStress } from '../../model/forcing/stress.ts';
@@ -61,10 +64,20 @@ export function linearFit(xs: number[], ys: number[]): { slope: number; intercep
 
 export const DAY = 86400;
 
-import { appendFileSync, mkdirSync } from 'node:fs';
+/** A row of docs/physics.md's verification table: the outside source checked against, and the test's tolerance. */
+export interface TableRow {
+  source: string;
+  tolerance: string;
+}
 
-/** Keep a measured value for the verification table (test-artifacts/verification.jsonl, not committed). */
-export function record(check: string, measured: number, expected: number, unit = ''): void {
+/**
+ * Keep a measured value (test-artifacts/verification.jsonl, not committed), with the test file that
+ * measured it. With `table`, the value is a row of docs/physics.md's verification table, which
+ * `npm run verification` writes from these records (test/support/verification-table.ts).
+ */
+export function record(check: string, measured: number, expected: number, unit = '', table?: TableRow): void {
+  const path = expect.getState().testPath;
+  const file = path ? relative(process.cwd(), path) : '';
   mkdirSync('test-artifacts', { recursive: true });
-  appendFileSync('test-artifacts/verification.jsonl', JSON.stringify({ check, measured, expected, unit }) + '\n');
+  appendFileSync('test-artifacts/verification.jsonl', JSON.stringify({ check, measured, expected, unit, file, ...table }) + '\n');
 }

@@ -23,7 +23,7 @@ describe('Kelvin pulse scenario', () => {
       const distance = (m.grid.lonCentre[cell.i] - init.lon) * metresPerDegree(m);
       const predicted = distance / c / DAY;
       const measured = peakIndex(series[name]);
-      record(`Kelvin pulse scenario: arrival at ${name} (days)`, measured, predicted, 'd');
+      record(`Kelvin pulse scenario: arrival at ${name} (days)`, measured, predicted, 'd', { source: 'Kelvin wave at c = sqrt(g\' H) (Matsuno 1966)', tolerance: '5 %' });
       expect(Math.abs(measured / predicted - 1), `${name}: measured ${measured.toFixed(2)} d, predicted ${predicted.toFixed(2)} d`).toBeLessThan(0.05);
       // A downwelling packet arrives as a downwelling peak of the right size (10 m released).
       expect(Math.max(...series[name])).toBeGreaterThan(0.8 * init.amplitude);

@@ -53,7 +53,7 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
     const slope = sxy / sxx / mPerDeg;
     const tauMean = tau.reduce((s, t) => s + t, 0) / tau.length;
     const expectedSlope = tauMean / (p.density * p.reducedGravity * p.layerThickness);
-    record('trade spin-up: equatorial thermocline slope (m per 1000 km)', slope * 1e6, expectedSlope * 1e6, 'm/1000 km');
+    record('trade spin-up: equatorial thermocline slope (m per 1000 km)', slope * 1e6, expectedSlope * 1e6, 'm/1000 km', { source: 'g\'H dh/dx = taux/rho0 (McPhaden & Taft 1988 quoting Sverdrup 1947)', tolerance: '15 %' });
     expect(Math.abs(slope / expectedSlope - 1), `slope ${slope} vs ${expectedSlope}`).toBeLessThan(0.15);
 
     // --- Relaxation and control from the spun-up state, the clock at zero.
@@ -114,7 +114,7 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
     const predicted = tOn + ((xCoast - xMedian) * mPerDeg) / c / DAY;
     const maxRise = Math.max(...coast);
     const measured = firstCrossing(coast, maxRise / 2);
-    record('trade relaxation: east-coast half-rise day', measured, predicted, 'd');
+    record('trade relaxation: east-coast half-rise day', measured, predicted, 'd', { source: 'Kelvin time from the fetch (Matsuno 1966)', tolerance: '10 %' });
     expect(Math.abs(measured / predicted - 1), `half-rise on day ${measured.toFixed(1)}, predicted ${predicted.toFixed(1)}`).toBeLessThan(0.1);
     // Nothing reaches the coast before the signal from the east edge of the fetch could (edge = 5 % of the removed stress).
     const strong = 0.05 * Math.max(...relaxedFetch.v);
@@ -130,7 +130,7 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
     // tilt over the fetch, taux W_relaxed / (rho0 g' H), which is the size of the expected rise.
     const dxm = (relaxedFetch.lon[1] - relaxedFetch.lon[0]) * mPerDeg;
     const removedTilt = (total * dxm) / (p.density * p.reducedGravity * p.layerThickness);
-    record('trade relaxation: east-coast rise vs removed tilt (m)', maxRise, removedTilt, 'm');
+    record('trade relaxation: east-coast rise vs removed tilt (m)', maxRise, removedTilt, 'm', { source: 'tilt taux W / (rho0 g\' H) (Sverdrup 1947)', tolerance: 'factor 2' });
     expect(maxRise).toBeGreaterThan(0.5 * removedTilt);
     expect(maxRise).toBeLessThan(2 * removedTilt);
 
@@ -152,7 +152,7 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
       stt += (ts[k] - mt) ** 2;
     }
     const speed = sxt / stt; // m s-1, negative = westward
-    record('trade relaxation: reflected Rossby speed at 4N (m/s, westward)', -speed, c / 3, 'm/s');
+    record('trade relaxation: reflected Rossby speed at 4N (m/s, westward)', -speed, c / 3, 'm/s', { source: 'long Rossby c/3 (Matsuno 1966)', tolerance: '30 %' });
     expect(speed).toBeLessThan(0);
     expect(Math.abs(-speed / (c / 3) - 1), `reflected signal moves west at ${(-speed).toFixed(2)} m/s; c/3 = ${(c / 3).toFixed(2)}`).toBeLessThan(0.3);
   });

@@ -38,7 +38,7 @@ describe('westerly burst scenario', () => {
       const cell = m.grid.cellAt(probes[k].lon, 0)!;
       const predicted = tCentre + ((m.grid.lonCentre[cell.i] - patch.lon) * metresPerDegree(m)) / c / DAY;
       const measured = peakIndex(series[k]);
-      record(`westerly burst scenario: Kelvin peak at ${n} (days)`, measured, predicted, 'd');
+      record(`westerly burst scenario: Kelvin peak at ${n} (days)`, measured, predicted, 'd', { source: 'Kelvin wave at c = sqrt(g\' H) (Matsuno 1966)', tolerance: '10 %' });
       expect(Math.abs(measured / predicted - 1), `${n}: measured ${measured.toFixed(2)} d, predicted ${predicted.toFixed(2)} d`).toBeLessThan(0.1);
       // Downwelling: the peak is a deepening of the thermocline, and the largest signal of either sign.
       const max = Math.max(...series[k]);
