@@ -505,6 +505,9 @@ export class Engine {
   private async sample(): Promise<void> {
     const run = this.run!;
     const { model, fields } = run;
+    // The model checks itself every few steps; a record (the last one included) is never written
+    // from a state that has gone bad in between: the run fails here with the blow-up instead.
+    model.checkHealth();
     const ctx = model.fieldContext();
     const nx = model.grid.nx;
     const rowCache = new Map<string, Float64Array>();

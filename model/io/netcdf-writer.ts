@@ -5,6 +5,9 @@
 // any number of times, then close(). Each record is written in full before numrecs (4 bytes at
 // offset 4) is updated, so a file cut off at any moment is a valid file with the records
 // completed so far: the worst case is a partial record past the end that readers ignore.
+// With `headerLast`, the header goes to the sink only after the non-record data (at the first
+// record or close), its 4-byte magic number last of all: a file cut off before that does not
+// start with "CDF" (nothing claimed yet), never a header whose fixed data is missing.
 
 import {
   NetcdfFormatError,
@@ -75,13 +78,17 @@ export class NetcdfWriter {
   private readonly fixedWritten = new Set<string>();
   private headerWritten = false;
   private fixedClosed = false;
+  private readonly headerLast: boolean;
+  /** The header held back until the non-record data is written (headerLast). */
+  private heldHeader: Uint8Array | null = null;
   private closed = false;
   private busy = false;
   private numrecs = 0;
 
-  constructor(file: NcFileInput, sink: ByteSink) {
+  constructor(file: NcFileInput, sink: ByteSink, options: { headerLast?: boolean } = {}) {
     this.layout = computeLayout(file);
     this.sink = sink;
+    this.headerLast = options.headerLast ?? false;
     for (const v of this.layout.variables) this.byName.set(v.name, v);
     this.recordVars = this.layout.variables.filter((v) => v.isRecord);
   }
@@ -97,17 +104,24 @@ export class NetcdfWriter {
 
   /** Bytes in the file once the records written so far are in. */
   get byteLength(): number {
+    return this.bytesFor(this.numrecs);
+  }
+
+  /** Bytes of the whole file with `records` records (what a disk must hold for it). */
+  bytesFor(records: number): number {
     const l = this.layout;
     if (this.recordVars.length === 0) {
       return l.variables.reduce((end, v) => Math.max(end, v.begin + v.vsize), l.headerSize);
     }
-    return l.beginRecords + this.numrecs * l.recordSize;
+    return l.beginRecords + records * l.recordSize;
   }
 
   async writeHeader(): Promise<void> {
     await this.run('writeHeader', async () => {
       if (this.headerWritten) throw new NetcdfFormatError('writeHeader: the header is already written');
-      await this.sink.write(0, encodeHeader(this.layout, 0));
+      const header = encodeHeader(this.layout, 0);
+      if (this.headerLast) this.heldHeader = header;
+      else await this.sink.write(0, header);
       this.headerWritten = true;
     });
   }
@@ -167,6 +181,14 @@ export class NetcdfWriter {
     });
   }
 
+  /** End the non-record data (unwritten variables get their fill value; a held header goes in). */
+  async finishFixed(): Promise<void> {
+    await this.run('finishFixed', async () => {
+      this.requireHeader('finishFixed');
+      await this.fillUnwrittenFixed();
+    });
+  }
+
   /** Fill any unwritten non-record variables with their fill value; no more writes after this. */
   async close(): Promise<void> {
     await this.run('close', async () => {
@@ -198,6 +220,12 @@ export class NetcdfWriter {
     if (this.fixedClosed) return;
     for (const v of this.layout.variables) {
       if (!v.isRecord && !this.fixedWritten.has(v.name)) await this.writeFixedData(v, null);
+    }
+    const held = this.heldHeader;
+    if (held) {
+      await this.sink.write(4, held.subarray(4));
+      await this.sink.write(0, held.subarray(0, 4));
+      this.heldHeader = null;
     }
     this.fixedClosed = true;
   }

@@ -10,6 +10,7 @@ import { Clock, type ClockSpec } from '../clock.ts';
 import { State } from '../state.ts';
 import { NC_BYTE, NC_DOUBLE, type NcFileInput } from './netcdf-format.ts';
 import { readNetcdf, NetcdfReadError, type NcFile } from './netcdf-read.ts';
+import type { NcTypeName } from './netcdf-format.ts';
 import { writeNetcdfToMemory } from './netcdf-writer.ts';
 import { OUTPUT_FILL, PYCNO_VERSION } from './run-output.ts';
 
@@ -151,6 +152,30 @@ function textAttribute(f: NcFile, name: string): string | undefined {
   return a && typeof a.value === 'string' ? a.value : undefined;
 }
 
+/**
+ * A variable's numbers, refused by name unless it is there with the type and dimensions Pycno
+ * writes (and, with `finite`, every value finite): a retyped, reshaped or damaged variable must
+ * never reach the model as a start.
+ */
+function numeric(f: NcFile, source: string, name: string, type: NcTypeName, dims: readonly string[], kind: string, finite = true): Float64Array {
+  const v = f.variables.find((x) => x.name === name);
+  if (!v) fail(source, `has no variable '${name}'; ${kind} holds it`);
+  if (v.type !== type) fail(source, `variable '${name}' is ${v.type}; ${kind} has it as ${type}`);
+  if (v.dimensions.join(',') !== dims.join(',')) fail(source, `variable '${name}' has dimensions (${v.dimensions.join(', ')}); ${kind} has it on (${dims.join(', ')})`);
+  const values = v.values as Float64Array;
+  if (finite) {
+    for (let k = 0; k < values.length; k++) if (!Number.isFinite(values[k])) fail(source, `variable '${name}' has ${values[k]} at index ${k}; a start must be finite`);
+  }
+  return values;
+}
+
+/** One number of a scalar variable (see numeric). */
+function scalarOf(f: NcFile, source: string, name: string, kind: string): number {
+  return numeric(f, source, name, 'double', [], kind)[0];
+}
+
+const RESTART = 'a Pycno restart file';
+
 function open(bytes: Uint8Array, source: string): NcFile {
   try {
     return readNetcdf(bytes);
@@ -170,33 +195,40 @@ export function readRestart(bytes: Uint8Array, grid: Grid, source = 'the restart
   const format = textAttribute(f, 'pycno_restart_format');
   if (format !== RESTART_FORMAT) fail(source, `has restart format ${JSON.stringify(format)}; this program reads "${RESTART_FORMAT}"`);
   checkGrid(f, grid, source);
+  const padded = ['y_padded', 'x_padded'];
+  const dims = f.dimensions;
+  const lengthOf = (name: string) => dims.find((d) => d.name === name)?.length;
+  if (lengthOf('y_padded') !== grid.ny + 3 || lengthOf('x_padded') !== grid.nx + 3 || lengthOf('history') !== 2) {
+    fail(source, `has padded dimensions y_padded = ${lengthOf('y_padded')}, x_padded = ${lengthOf('x_padded')}, history = ${lengthOf('history')}; the scenario's grid needs ${grid.ny + 3}, ${grid.nx + 3} and 2`);
+  }
   const state = new State(grid);
-  const scalar = (name: string) => (f.variable(name).values as Float64Array)[0];
-  state.time = scalar('time');
-  state.steps = scalar('steps');
-  state.historyCount = scalar('history_count');
+  state.time = scalarOf(f, source, 'time', RESTART);
+  state.steps = scalarOf(f, source, 'steps', RESTART);
+  state.historyCount = scalarOf(f, source, 'history_count', RESTART);
+  if (!(Number.isInteger(state.steps) && state.steps >= 0)) fail(source, `variable 'steps' is ${state.steps}; a step count is a whole number >= 0`);
+  if (!(Number.isInteger(state.historyCount) && state.historyCount >= 0 && state.historyCount <= 2)) fail(source, `variable 'history_count' is ${state.historyCount}; it must be 0, 1 or 2`);
   state.clock = clockOf(f, state, source);
-  state.volumeBudget = budgetOf(f);
-  const ocean = f.variable('ocean').values as Float64Array;
+  state.volumeBudget = budgetOf(f, source);
+  const ocean = numeric(f, source, 'ocean', 'byte', padded, RESTART);
   let differ = 0;
   for (let k = 0; k < grid.size; k++) if ((ocean[k] > 0 ? 1 : 0) !== grid.ocean[k]) differ++;
   if (differ > 0) fail(source, `was written with different land: ${differ} cells are land in one and ocean in the other`);
-  state.u.set(f.variable('u').values as Float64Array);
-  state.v.set(f.variable('v').values as Float64Array);
-  state.h.set(f.variable('h').values as Float64Array);
+  state.u.set(numeric(f, source, 'u', 'double', padded, RESTART));
+  state.v.set(numeric(f, source, 'v', 'double', padded, RESTART));
+  state.h.set(numeric(f, source, 'h', 'double', padded, RESTART));
   for (const key of ['du', 'dv', 'dh'] as const) {
-    const both = f.variable(key).values as Float64Array;
+    const both = numeric(f, source, key, 'double', ['history', ...padded], RESTART);
     state.history[key][0].set(both.subarray(0, grid.size));
     state.history[key][1].set(both.subarray(grid.size));
   }
-  if (!(Number.isFinite(state.time) && state.historyCount >= 0 && state.historyCount <= 2)) fail(source, 'has a corrupt clock or history count');
   return state;
 }
 
 /** The volume budget a restart carries; null for a file from before budgets were kept, or with none (the run then starts one). */
-function budgetOf(f: NcFile): State['volumeBudget'] {
+function budgetOf(f: NcFile, source: string): State['volumeBudget'] {
   if (!f.variables.some((v) => v.name === 'budget_anomaly_at_start')) return null;
-  const scalar = (name: string) => (f.variable(name).values as Float64Array)[0];
+  // NaN is how a restart says it has no budget; other values must be numbers.
+  const scalar = (name: string) => numeric(f, source, name, 'double', [], RESTART, false)[0];
   const budget = { anomalyAtStart: scalar('budget_anomaly_at_start'), spongeMeasured: scalar('budget_sponge_measured') };
   return Number.isFinite(budget.anomalyAtStart) && Number.isFinite(budget.spongeMeasured) ? budget : null;
 }
@@ -204,13 +236,12 @@ function budgetOf(f: NcFile): State['volumeBudget'] {
 /** The clock a restart was written with; null for a file from before clocks were kept (the run then counts from its time). */
 function clockOf(f: NcFile, state: State, source: string): ClockSpec | null {
   if (!f.variables.some((v) => v.name === 'clock_origin_time')) return null;
-  const scalar = (name: string) => (f.variable(name).values as Float64Array)[0];
   const clock: ClockSpec = {
     dt: numberAttribute(f, 'pycno_time_step_seconds'),
     intervalSeconds: numberAttribute(f, 'pycno_output_interval_seconds'),
     stepsPerInterval: numberAttribute(f, 'pycno_steps_per_output_interval'),
-    originTime: scalar('clock_origin_time'),
-    originSteps: scalar('clock_origin_steps'),
+    originTime: scalarOf(f, source, 'clock_origin_time', RESTART),
+    originSteps: scalarOf(f, source, 'clock_origin_steps', RESTART),
   };
   const sound =
     Object.values(clock).every(Number.isFinite) &&
@@ -254,8 +285,9 @@ export function readStartFile(bytes: Uint8Array, grid: Grid, source = 'the resta
     return { state, exact: true, dt: numberAttribute(f, 'pycno_time_step_seconds'), note: `restart from ${source} at day ${(state.time / 86400).toFixed(2)}`, scenarioJson };
   }
   if (kind !== 'run-output') fail(source, 'is neither a Pycno restart file nor a Pycno run output (no pycno_file attribute)');
-  const lat = f.variable('lat').values as Float64Array;
-  const lon = f.variable('lon').values as Float64Array;
+  const RUN = 'a Pycno run output';
+  const lat = numeric(f, source, 'lat', 'double', ['lat'], RUN);
+  const lon = numeric(f, source, 'lon', 'double', ['lon'], RUN);
   if (lon.length !== grid.nx || lat.length !== grid.ny) {
     fail(source, `is on a ${lon.length} x ${lat.length} grid, the scenario on ${grid.nx} x ${grid.ny} (lon x lat cells)`);
   }
@@ -266,14 +298,25 @@ export function readStartFile(bytes: Uint8Array, grid: Grid, source = 'the resta
   if (n === 0) fail(source, 'holds no output record yet');
   const names = f.variables.map((v) => v.name);
   for (const need of ['h_anom', 'u', 'v']) {
-    if (!names.includes(need)) fail(source, `has no ${need} field; a run output used as a start must hold h_anom, u and v`);
+    if (!names.includes(need)) fail(source, `has no variable '${need}'; a run output used as a start must hold h_anom, u and v`);
+  }
+  // The start is the last record: the records must be in time order, so that it is the latest.
+  const days = numeric(f, source, 'time', 'double', ['time'], RUN);
+  for (let k = 1; k < days.length; k++) {
+    if (!(days[k] > days[k - 1])) fail(source, `variable 'time' does not increase: record ${k} is day ${days[k]}, after day ${days[k - 1]}`);
   }
   const cells = grid.nx * grid.ny;
-  const last = (name: string) => (f.variable(name).values as Float64Array).subarray((n - 1) * cells, n * cells);
+  const last = (name: string) => numeric(f, source, name, 'float', ['time', 'lat', 'lon'], RUN, false).subarray((n - 1) * cells, n * cells);
   const hC = last('h_anom');
   const uC = last('u');
   const vC = last('v');
   const wet = (x: number) => Number.isFinite(x) && x !== OUTPUT_FILL && Math.abs(x) < 1e30;
+  for (const [name, values] of [['u', uC], ['v', vC]] as const) {
+    for (let k = 0; k < cells; k++) {
+      const j = Math.floor(k / grid.nx);
+      if (grid.ocean[grid.idx(k % grid.nx, j)] && !wet(values[k])) fail(source, `variable '${name}' has no value (${values[k]}) at ${lon[k % grid.nx]}°E, ${lat[j]}°N, an ocean cell of the scenario, in the last record`);
+    }
+  }
   const state = new State(grid);
   const { nx, ny } = grid;
   for (let j = 0; j < ny; j++) {
@@ -297,10 +340,10 @@ export function readStartFile(bytes: Uint8Array, grid: Grid, source = 'the resta
       if (grid.maskV[k]) state.v[k] = 0.5 * (vC[(j - 1) * nx + i] + vC[j * nx + i]);
     }
   }
-  const day = (f.variable('time').values as Float64Array)[n - 1];
+  const day = days[n - 1];
   state.time = day * 86400;
-  const step = names.includes('step') ? (f.variable('step').values as Float64Array)[n - 1] : 0;
-  state.steps = Number.isFinite(step) ? step : 0;
+  const step = names.includes('step') ? numeric(f, source, 'step', 'double', ['time'], RUN)[n - 1] : 0;
+  state.steps = Number.isInteger(step) && step >= 0 ? step : 0;
   return {
     state,
     exact: false,

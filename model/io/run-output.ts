@@ -300,7 +300,9 @@ export class RunOutputWriter {
 
   constructor(d: RunDescription, sink: ByteSink) {
     this.d = d;
-    this.writer = new NetcdfWriter(runOutputFile(d), sink);
+    // The header last (after the coordinates and the mask): a run killed while it starts leaves
+    // a file that is not yet NetCDF, never a header without its data.
+    this.writer = new NetcdfWriter(runOutputFile(d), sink, { headerLast: true });
   }
 
   get records(): number {
@@ -312,10 +314,16 @@ export class RunOutputWriter {
     return this.writer.byteLength;
   }
 
-  /** Header and the fixed variables (coordinates, mask, cell areas, probe table). */
+  /** Bytes of the file with `records` records. */
+  bytesFor(records: number): number {
+    return this.writer.bytesFor(records);
+  }
+
+  /** Header and the fixed variables (coordinates, mask, cell areas, probe table); the header goes in last. */
   async begin(): Promise<void> {
     await this.writer.writeHeader();
     await writeRunFixed(this.writer, this.d);
+    await this.writer.finishFixed();
   }
 
   async append(r: OutputRecord): Promise<void> {

@@ -339,6 +339,25 @@ export function checkRun(run: RunData): void {
 
 // --- from NetCDF ----------------------------------------------------------------------------
 
+/** The variable, if it has the type and dimensions given; RunFileError naming it otherwise. */
+function typed(v: NcReadVariable, type: NcReadVariable['type'], dims: readonly string[], where: string): NcReadVariable {
+  if (v.type !== type) throw new RunFileError(`${where}: damaged Pycno run file: variable '${v.name}' is ${v.type}; a run file has it as ${type}`);
+  if (v.dimensions.join(',') !== dims.join(',')) {
+    throw new RunFileError(`${where}: damaged Pycno run file: variable '${v.name}' has dimensions (${v.dimensions.join(', ')}); a run file has it on (${dims.join(', ')})`);
+  }
+  return v;
+}
+
+/** output.fields of a scenario JSON (defaults filled in, as a run file holds it); none when it does not say. */
+function declaredFields(scenarioJson: string): FieldName[] {
+  try {
+    const fields = (JSON.parse(scenarioJson) as { output?: { fields?: unknown } }).output?.fields;
+    return Array.isArray(fields) ? fields.filter((x): x is FieldName => typeof x === 'string' && (FIELD_NAMES as readonly string[]).includes(x)) : [];
+  } catch {
+    return [];
+  }
+}
+
 function numbers(v: NcReadVariable, where: string): Float64Array {
   if (typeof v.values === 'string') throw new RunFileError(`${where}: variable '${v.name}' is text, expected numbers`);
   return v.values;
@@ -420,28 +439,35 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
   }
 
   const has = (n: string) => f.variables.some((v) => v.name === n);
-  const need = (n: string): NcReadVariable => {
+  // Every variable read must have the type and dimensions Pycno writes it with (run-output.ts):
+  // a file with a retyped or reshaped variable is damaged or crafted, and is refused by name.
+  const need = (n: string, type: NcReadVariable['type'], dims: readonly string[]): NcReadVariable => {
     if (!has(n)) throw new RunFileError(`${where}: damaged Pycno run file: variable '${n}' is missing`);
-    return f.variable(n);
+    return typed(f.variable(n), type, dims, where);
   };
-  const lon = numbers(need('lon'), where);
-  const lat = numbers(need('lat'), where);
+  const lon = numbers(need('lon', 'double', ['lon']), where);
+  const lat = numbers(need('lat', 'double', ['lat']), where);
   const nx = lon.length;
   const ny = lat.length;
-  const ocean = Uint8Array.from(numbers(need('ocean'), where));
+  const ocean = Uint8Array.from(numbers(need('ocean', 'byte', ['lat', 'lon']), where));
   if (ocean.length !== nx * ny) throw new RunFileError(`${where}: damaged Pycno run file: 'ocean' has ${ocean.length} values for a ${nx} x ${ny} grid`);
-  const days = numbers(need('time'), where).slice();
+  const days = numbers(need('time', 'double', ['time']), where).slice();
   const nt = days.length;
   if (nt === 0) throw new RunFileError(`${where}: the run file holds no output records`);
-  for (let n = 1; n < nt; n++) if (!(days[n] > days[n - 1])) throw new RunFileError(`${where}: damaged Pycno run file: time ${n} (${days[n]}) does not follow time ${n - 1} (${days[n - 1]})`);
-  const steps = numbers(need('step'), where).slice();
+  for (let n = 0; n < nt; n++) if (!Number.isFinite(days[n])) throw new RunFileError(`${where}: damaged Pycno run file: variable 'time' has ${days[n]} at record ${n}`);
+  for (let n = 1; n < nt; n++) if (!(days[n] > days[n - 1])) throw new RunFileError(`${where}: damaged Pycno run file: variable 'time' does not increase: time ${n} (${days[n]}) does not follow time ${n - 1} (${days[n - 1]})`);
+  const steps = numbers(need('step', 'double', ['time']), where).slice();
 
   const fields = f.variables.map((v) => v.name).filter(isField);
   if (fields.length === 0) throw new RunFileError(`${where}: damaged Pycno run file: no field variables (${FIELD_NAMES.join(', ')})`);
+  // The fields the run's own scenario says it wrote must all be there.
+  for (const name of declaredFields(scenarioJson)) {
+    if (!fields.includes(name)) throw new RunFileError(`${where}: damaged Pycno run file: variable '${name}' is missing (the run's scenario lists it in output.fields)`);
+  }
   if (!ocean.includes(1)) throw new RunFileError(`${where}: damaged Pycno run file: the ocean mask has no ocean cell`);
   const cells = nx * ny;
   const fieldValues = fields.map((name) => {
-    const v = read([name]).variable(name);
+    const v = typed(read([name]).variable(name), 'float', ['time', 'lat', 'lon'], where);
     const vals = numbers(v, where);
     if (v.dimensions.join(',') !== 'time,lat,lon' || vals.length !== nt * cells) {
       throw new RunFileError(`${where}: damaged Pycno run file: '${name}' has shape (${v.dimensions.join(', ')}) = ${v.shape.join(' x ')}, expected (time, lat, lon)`);
@@ -470,7 +496,7 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
       integrals[iv.key as IntegralKey] = new Float64Array(nt).fill(NaN); // written by an older Pycno
       continue;
     }
-    const vals = numbers(need(iv.name), where);
+    const vals = numbers(need(iv.name, 'double', ['time']), where);
     if (vals.length !== nt) throw new RunFileError(`${where}: damaged Pycno run file: '${iv.name}' has ${vals.length} values for ${nt} times`);
     integrals[iv.key as IntegralKey] = vals.slice();
   }
@@ -478,9 +504,9 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
   const hovmoller: HovmollerSection[] = [];
   const requested = f.attributes.pycno_hovmoller_requested_lat;
   if (has('hovmoller_lat')) {
-    const rowLats = numbers(f.variable('hovmoller_lat'), where);
+    const rowLats = numbers(need('hovmoller_lat', 'double', ['hovmoller']), where);
     const req = requested && typeof requested.value !== 'string' ? requested.value : rowLats;
-    const hv = numbers(need('hovmoller_h_anom'), where);
+    const hv = numbers(need('hovmoller_h_anom', 'float', ['time', 'hovmoller', 'lon']), where);
     const nh = rowLats.length;
     if (hv.length !== nt * nh * nx || req.length !== nh) throw new RunFileError(`${where}: damaged Pycno run file: 'hovmoller_h_anom' does not match ${nt} times x ${nh} sections x ${nx} longitudes`);
     for (let h = 0; h < nh; h++) {
@@ -492,14 +518,15 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
 
   const probes: ProbeSeries[] = [];
   if (has('probe_name')) {
-    const pv = f.variable('probe_name');
+    const pv = need('probe_name', 'char', ['probe', 'probe_name_length']);
     const np = pv.shape[0];
     const width = pv.shape[1];
-    const plon = numbers(need('probe_lon'), where);
-    const plat = numbers(need('probe_lat'), where);
+    const plon = numbers(need('probe_lon', 'double', ['probe']), where);
+    const plat = numbers(need('probe_lat', 'double', ['probe']), where);
+    if (plon.length !== np || plat.length !== np) throw new RunFileError(`${where}: damaged Pycno run file: 'probe_lon' and 'probe_lat' do not have ${np} values`);
     const names = probeNames(pv, np, width);
     const series = fields.map((name) => {
-      const vals = numbers(need(probeVariableName(name)), where);
+      const vals = numbers(need(probeVariableName(name), 'float', ['time', 'probe']), where);
       if (vals.length !== nt * np) throw new RunFileError(`${where}: damaged Pycno run file: '${probeVariableName(name)}' has ${vals.length} values for ${nt} times x ${np} probes`);
       return vals;
     });

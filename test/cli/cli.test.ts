@@ -1,7 +1,7 @@
 // The command line end to end, as a user runs it: node bin/pycno.js in a child process.
 
 import { spawn, spawnSync } from 'node:child_process';
-import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -58,7 +58,7 @@ describe('pycno check', () => {
       [['run', 'tiny.json', '--days', 'x'], /^pycno: --days: expected a number of days > 0 \(got 'x'\)/],
       [['run', 'nothere.json'], /^pycno: nothere\.json: cannot read the scenario file: no such file/],
       [['check', 'tiny.json', '--set', 'physics.reducedGravity=0'], /^pycno: tiny\.json: line \d+: physics\.reducedGravity: must be > 0 \(got 0\).*\(from --set physics\.reducedGravity=0\)/],
-      [['run', 'tiny.json', '--out', join(dir, 'no', 'such', 'dir.nc')], /^pycno: --out .*cannot write the output file/],
+      [['run', 'tiny.json', '--out', join(dir, 'no', 'such', 'dir.nc')], /^pycno: --out .*: cannot write there: the folder .*no\/such does not exist$/m],
     ] as const) {
       const r = pycno([...args]);
       expect(r.code, args.join(' ')).toBe(2);
@@ -96,28 +96,39 @@ describe('pycno run', () => {
     writeFileSync(join(dir, 'same.json'), FIXTURE_TEXT);
     const r = pycno(['run', 'same.json', '--out', 'same.json', '--quiet']);
     expect(r.code).toBe(2);
-    expect(r.stderr.trimEnd()).toBe('pycno: --out same.json: that is a file this run reads (the scenario or one of its inputs); write the output under another name');
+    expect(r.stderr.trimEnd()).toBe('pycno: --out same.json: that is the scenario file same.json; an output never replaces an input: write it under another name');
     expect(readFileSync(join(dir, 'same.json'), 'utf8')).toBe(FIXTURE_TEXT);
   });
 
-  it('a blow-up exits 1 with its message; the file holds the records before it', () => {
-    const r = pycno(['run', 'tiny.json', '--out', 'blow.nc', '--quiet', ...sets(BLOW_UP_SETS)]);
+  it('a blow-up exits 1 with its message; --keep-partial keeps the records before it, by default nothing is left', () => {
+    const r = pycno(['run', 'tiny.json', '--out', 'blow.nc', '--quiet', '--keep-partial', ...sets(BLOW_UP_SETS)]);
     expect(r.code).toBe(1);
     const lines = r.stderr.trimEnd().split('\n');
     expect(lines[0]).toMatch(/^pycno: the run blew up on day \d+\.\d\d at [\d.]+°E, [\d.]+°[NS]: the upper layer vanished/);
-    const n = Number(/holds the (\d+) records/.exec(lines[1])![1]);
-    expect(n).toBeGreaterThan(1);
-    expect(readNetcdf(new Uint8Array(readFileSync(join(dir, 'blow.nc')))).numRecords).toBe(n);
+    const m = /^pycno: the (\d+) records? written before the failure (?:is|are) in (blow\.nc\.part-\d+); blow\.nc was not written$/.exec(lines[1]);
+    expect(m, lines[1]).not.toBeNull();
+    expect(Number(m![1])).toBeGreaterThanOrEqual(1);
+    expect(readNetcdf(new Uint8Array(readFileSync(join(dir, m![2])))).numRecords).toBe(Number(m![1]));
+    expect(existsSync(join(dir, 'blow.nc'))).toBe(false);
+    const plain = pycno(['run', 'tiny.json', '--out', 'blow2.nc', '--quiet', ...sets(BLOW_UP_SETS)]);
+    expect(plain.code).toBe(1);
+    expect(plain.stderr.trimEnd().split('\n')[1]).toMatch(/^pycno: the \d+ records? written before the failure (was|were) not kept \(--keep-partial keeps (it|them)\); blow2\.nc was not written$/);
+    expect(readdirSync(dir).filter((f) => f.startsWith('blow2.nc'))).toEqual([]);
   });
 
-  it('a run killed halfway leaves a valid file of the days done', async () => {
+  it('a run killed halfway leaves its temporary file valid with the days done, and no file under --out', async () => {
     // Fine enough to take several seconds; the output every day.
     const args = [BIN, 'run', 'tiny.json', '--out', 'killed.nc', '--set', 'basin.resolution=0.1', '--days', '60'];
     const child = spawn(process.execPath, args, { cwd: dir, stdio: ['ignore', 'ignore', 'pipe'] });
-    const path = join(dir, 'killed.nc');
-    // Wait until a few records are on disk, then kill without warning.
+    let stderr = '';
+    child.stderr.on('data', (b) => (stderr += b));
+    let path = '';
+    // Wait until a few records are on disk in the temporary file it names, then kill without warning.
     await new Promise<void>((resolve, reject) => {
       const timer = setInterval(() => {
+        const named = /^pycno: writing (killed\.nc\.part-\d+);/m.exec(stderr);
+        if (!named) return;
+        path = join(dir, named[1]);
         try {
           const b = new Uint8Array(readFileSync(path));
           if (b.length > 8 && new DataView(b.buffer).getUint32(4) >= 3) {
@@ -136,6 +147,7 @@ describe('pycno run', () => {
     });
     await new Promise((r) => child.on('exit', r));
     expect(child.signalCode).toBe('SIGKILL');
+    expect(existsSync(join(dir, 'killed.nc'))).toBe(false);
     const f = readNetcdf(new Uint8Array(readFileSync(path)));
     expect(f.numRecords).toBeGreaterThanOrEqual(3);
     expect(f.numRecords).toBeLessThan(61);

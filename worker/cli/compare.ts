@@ -4,18 +4,18 @@
 // file in the layout of a run, with attributes that name both runs. Exit codes: 0 done, 2 bad
 // input (unreadable or foreign files, no common times or area).
 
-import { existsSync, readFileSync, renameSync, rmSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { basename, resolve as resolvePath } from 'node:path';
 import { compareRuns, type RunComparison } from '../../model/compare/compare.ts';
 import { showValue } from '../../model/compare/scenario-diff.ts';
 import { FIELD_INFO } from '../../model/diagnostics/fields.ts';
 import { NC_FILL_FLOAT, type NcAttributeInput } from '../../model/io/netcdf-format.ts';
-import { NetcdfWriter } from '../../model/io/netcdf-writer.ts';
+import { NetcdfWriter, type ByteSink } from '../../model/io/netcdf-writer.ts';
 import { readRun, RunFileError, type RunData } from '../../model/io/run-read.ts';
 import { INTEGRAL_VARIABLES, PYCNO_VERSION, probeVariableName, runOutputFile, writeRunFixed, type RunDescription } from '../../model/io/run-output.ts';
 import { isMeasured, measureWaves, type NotMeasured, type SpeedMeasure } from '../../model/report/measure.ts';
-import { FileSink } from '../files-node.ts';
-import type { ProgressStream } from './progress.ts';
+import { OutputRefused, OutputWriteError, planOutput, writeWhole, type OutputFile, type OutputPlan, type ReadFile } from './output-file.ts';
+import { formatBytes, type ProgressStream } from './progress.ts';
 
 export interface CommandIO {
   stdout: { write(s: string): unknown };
@@ -48,25 +48,35 @@ export function readRunFile(io: CommandIO, file: string): RunData {
 }
 
 /**
- * Write a file under a temporary name beside it and rename it when complete, so a failure or a
- * kill never leaves a half-written file under the name asked for.
+ * Write a command's output file whole (output-file.ts): checked against the files the command
+ * reads, locked, written under a temporary name and renamed when complete, so a failure or a kill
+ * never leaves a half-written file under the name asked for nor replaces an input. Refusals and
+ * write failures come back as CommandInputError lines ("--out X: ...").
  */
-export async function writeComplete(path: string, write: (sink: FileSink) => Promise<void>): Promise<void> {
-  const temp = `${path}.part-${process.pid}`;
-  let sink: FileSink | null = null;
+export async function writeComplete(io: CommandIO, out: string, reads: readonly ReadFile[], what: string, write: (sink: OutputFile) => Promise<void>): Promise<void> {
+  let plan: OutputPlan;
   try {
-    sink = new FileSink(temp);
-    await write(sink);
-    sink.close();
-    sink = null;
-    renameSync(temp, path);
+    plan = planOutput('--out', out, io.cwd, reads);
   } catch (e) {
-    try {
-      sink?.close();
-    } catch {
-      /* the first error is the one to report */
-    }
-    if (existsSync(temp)) rmSync(temp);
+    if (e instanceof OutputRefused) throw new CommandInputError(e.message);
+    throw e;
+  }
+  try {
+    await writeWhole(plan, write);
+  } catch (e) {
+    if (e instanceof OutputRefused) throw new CommandInputError(e.message);
+    if (e instanceof OutputWriteError) throw new CommandInputError(`--out ${out}: cannot write ${what}: ${e.reason} (${formatBytes(e.written)} were written); ${plan.replaces ? `${out} is as it was` : `${out} was not written`}`);
+    throw e;
+  }
+}
+
+/** Refuse an --out that names one of the command's inputs, before any work is done. */
+export function checkOut(io: CommandIO, out: string | undefined, reads: readonly ReadFile[]): void {
+  if (out === undefined) return;
+  try {
+    planOutput('--out', out, io.cwd, reads);
+  } catch (e) {
+    if (e instanceof OutputRefused) throw new CommandInputError(e.message);
     throw e;
   }
 }
@@ -147,7 +157,7 @@ function fill(values: ArrayLike<number>): Float32Array {
 }
 
 /** The difference file: a run's layout on the common grid, values B minus A, both runs named. */
-export async function writeDifference(c: RunComparison, fileA: string, fileB: string, sink: FileSink): Promise<number> {
+export async function writeDifference(c: RunComparison, fileA: string, fileB: string, sink: ByteSink): Promise<number> {
   const { a, b } = c;
   const g = c.grid!;
   const d: RunDescription = {
@@ -230,6 +240,11 @@ export async function compareCommand(args: readonly string[], io: CommandIO): Pr
       return 0;
     }
     const [fileA, fileB] = parsed.files;
+    const reads = [
+      { path: resolvePath(io.cwd, fileA), what: `run A (${fileA})` },
+      { path: resolvePath(io.cwd, fileB), what: `run B (${fileB})` },
+    ];
+    checkOut(io, parsed.out, reads);
     const a = readRunFile(io, fileA);
     const b = readRunFile(io, fileB);
     const c = compareRuns(a, b);
@@ -244,12 +259,13 @@ export async function compareCommand(args: readonly string[], io: CommandIO): Pr
       const out = parsed.out;
       try {
         let records = 0;
-        await writeComplete(resolvePath(io.cwd, out), async (sink) => {
+        await writeComplete(io, out, reads, 'the difference file', async (sink) => {
           records = await writeDifference(c, fileA, fileB, sink);
         });
         extra.push(['output', `${out} (${records} records, B minus A)`]);
       } catch (e) {
-        failure = `--out ${out}: cannot write the difference file: ${(e as Error).message}`;
+        if (!(e instanceof CommandInputError)) throw e;
+        failure = e.message;
       }
     }
     io.stdout.write(compareSummary(c, fileA, fileB, extra));

@@ -1,10 +1,14 @@
 // The command line: `pycno run` drives the engine in this process and streams every output
 // interval into a NetCDF file; `pycno check` validates and prints the derived numbers.
-// Exit codes: 0 done, 2 bad input (one clear line first), 1 the model blew up (or a failure
-// of the program itself), 130 interrupted with Ctrl-C (the file then holds the days done).
+// Exit codes: 0 done, 2 bad input (one clear line first), 1 the model blew up, the disk failed
+// mid-run (or a failure of the program itself), 130 interrupted with Ctrl-C.
+//
+// The output goes to a temporary file beside --out (output-file.ts), renamed over it only when
+// the run has finished healthy: a run that fails, blows up, is stopped or killed never touches an
+// existing file of that name.
 
-import { writeFileSync } from 'node:fs';
 import { basename, resolve as resolvePath } from 'node:path';
+import { BlowUpError } from '../../model/errors.ts';
 import type { Integrals } from '../../model/diagnostics/integrals.ts';
 import { RunOutputWriter, PYCNO_VERSION, type RunDescription } from '../../model/io/run-output.ts';
 import { writeRestart } from '../../model/io/restart.ts';
@@ -12,8 +16,9 @@ import { derivedNumbers } from '../../model/scenario/derived.ts';
 import { buildPrepared, loadInputs, parseScenario, resolveRelative } from '../../model/scenario/load-inputs.ts';
 import { describeLoadedRun } from '../run-description.ts';
 import { Engine, toEngineError } from '../engine.ts';
-import { FileSink, nodeReader } from '../files-node.ts';
+import { nodeReader } from '../files-node.ts';
 import type { EngineError, LoadedScenario } from '../protocol.ts';
+import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
 import { compareCommand, COMPARE_USAGE } from './compare.ts';
 import { Progress, type ProgressStream } from './progress.ts';
 import { reportCommand, REPORT_USAGE } from './report-command.ts';
@@ -25,18 +30,21 @@ import { nodeStripHost } from '../strips-node.ts';
 import type { CliIO } from './io.ts';
 
 export const USAGE = `usage:
-  pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--threads N|auto] [--quiet]
+  pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--threads N|auto] [--keep-partial] [--quiet]
   pycno check SCENARIO.json [--set path=value ...]
 ${RERUN_USAGE}  ${SWEEP_USAGE}  ${COMPARE_USAGE}
   ${REPORT_USAGE}
   pycno --version | --help
 
-  --out FILE.nc          output file (default: the scenario's name with .nc, in the current folder)
+  --out FILE.nc          output file (default: the scenario's name with .nc, in the current folder);
+                         written as FILE.nc.part-PID and renamed to FILE.nc when the run has finished,
+                         so an existing FILE.nc is replaced only by a complete run
   --days N               run length in days (the same as --set time.days=N)
   --set path=value       change one scenario value, e.g. --set physics.reducedGravity=0.05
   --restart-out FILE.nc  also write a restart file of the end state (exact continuation)
   --threads N|auto       split the linear step into N latitude strips on N threads (same results bit
                          for bit; auto: one per core on grids large enough to gain); default 1
+  --keep-partial         keep the unfinished FILE.nc.part-PID when the run fails (blow-up, full disk)
   --quiet                no progress and no warnings on stderr (errors only)
 ${RERUN_HELP}${SWEEP_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
                          difference per field, measured wave speeds beside theory (exit 2: no overlap)
@@ -54,6 +62,7 @@ interface Args {
   restartOut?: string;
   sets: string[];
   quiet: boolean;
+  keepPartial: boolean;
   threads?: ThreadsOption;
 }
 
@@ -63,7 +72,7 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
   if (command === '--help' || command === '-h' || command === 'help') return 'help';
   if (command === '--version' || command === '-V') return 'version';
   if (command !== 'run' && command !== 'check') throw new UsageError(`unknown command '${command}'; the commands are run, check, rerun, sweep, compare and report`);
-  const args: Args = { command, scenario: '', sets: [], quiet: false };
+  const args: Args = { command, scenario: '', sets: [], quiet: false, keepPartial: false };
   const positional: string[] = [];
   for (let k = 0; k < rest.length; k++) {
     let a = rest[k];
@@ -112,6 +121,10 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
       }
       case '--quiet':
         args.quiet = true;
+        break;
+      case '--keep-partial':
+        runOnly();
+        args.keepPartial = true;
         break;
       case '--help':
       case '-h':
@@ -224,12 +237,12 @@ async function run(args: Args, text: string, shown: string, reader: (p: string) 
 
 async function runOn(engine: Engine, args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
   const quiet = args.quiet;
-  // Every file the run reads, so that --out can never overwrite one of them.
-  const inputs = new Set([resolvePath(io.cwd, shown)]);
+  // Every file the run reads, so that no output can land on one of them.
+  const reads: ReadFile[] = [{ path: resolvePath(io.cwd, shown), what: `the scenario file ${shown}` }];
   const loaded = await engine.load(text, shown, {
     sets: args.sets,
     reader: (p) => {
-      inputs.add(p.startsWith('/') ? p : resolvePath(io.cwd, p));
+      reads.push({ path: p.startsWith('/') ? p : resolvePath(io.cwd, p), what: `${p}, an input of the scenario` });
       return reader(p);
     },
     onSpinup: quiet ? undefined : spinupReporter(io),
@@ -241,30 +254,92 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
   }
   const info = loaded.scenario;
   const outFile = args.out ?? `${basename(shown).replace(/\.json$/i, '')}.nc`;
-  const outPath = resolvePath(io.cwd, outFile);
-  if (inputs.has(outPath)) {
-    printError(io, `--out ${outFile}: that is a file this run reads (the scenario or one of its inputs); write the output under another name`);
-    return 2;
-  }
-  let sink: FileSink;
+  // The writer lays the file out at once, so its size is known before anything is written.
+  let out: OutputFile | null = null;
+  const writer = new RunOutputWriter(describe(info, shown, args, engine), { write: (offset, bytes) => out!.write(offset, bytes) });
+  let restart: OutputFile | null = null;
+  // Both outputs are checked and locked before the run starts: a refusal costs nothing.
   try {
-    sink = new FileSink(outPath);
+    const outPlan = planOutput('--out', outFile, io.cwd, reads);
+    const restartPlan = args.restartOut !== undefined ? planOutput('--restart-out', args.restartOut, io.cwd, reads, [outPlan]) : null;
+    checkSpace(outPlan, writer.bytesFor(info.derived.outputs));
+    out = OutputFile.open(outPlan);
+    try {
+      restart = restartPlan ? OutputFile.open(restartPlan) : null;
+      out.create();
+    } catch (e) {
+      out.discard(false);
+      (restart as OutputFile | null)?.discard(false);
+      throw e;
+    }
   } catch (e) {
-    printError(io, `--out ${outFile}: cannot write the output file: ${(e as Error).message}`);
-    return 2;
+    if (e instanceof OutputRefused) {
+      printError(io, e.message);
+      return 2;
+    }
+    throw e;
   }
-  const writer = new RunOutputWriter(describe(info, shown, args, engine), sink);
-  await writer.begin();
+  try {
+    return await runInto(engine, args, shown, info, writer, out, restart, io);
+  } finally {
+    // Whatever ended the run without a commit (an unexpected error included) leaves no lock.
+    out.discard(args.keepPartial);
+    restart?.discard(false);
+  }
+}
+
+/** The integrals a finished run must have finite, or it did not finish healthy. */
+const MUST_BE_FINITE = ['volume', 'energy', 'kinetic', 'potential', 'minThickness', 'maxSpeed'] as const;
+
+async function runInto(engine: Engine, args: Args, shown: string, info: LoadedScenario, writer: RunOutputWriter, out: OutputFile, restart: OutputFile | null, io: CliIO): Promise<number> {
+  const quiet = args.quiet;
+  const outFile = out.plan.shown;
+  const model = engine.model!;
+  const outputs = info.derived.outputs;
+  if (!quiet) {
+    if (out.takenOver) io.stderr.write(`pycno: note: ${out.takenOver}\n`);
+    if (!out.plan.device) {
+      io.stderr.write(`pycno: writing ${out.tempShown}; it becomes ${outFile} when the run has finished${out.plan.replaces ? `, replacing the ${outFile} there now` : ''}\n`);
+    }
+  }
+  const keepHint = args.keepPartial ? '' : ' (--keep-partial keeps it)';
+  const failWrite = (file: OutputFile, e: OutputWriteError, what: string, code: number) => {
+    const free = file.freeBytes(); // before the unfinished file goes
+    const kept = out.discard(args.keepPartial);
+    restart?.discard(false);
+    printError(io, writeFailureLine(file, e, what, free, file === out && kept, keepHint));
+    if (file !== out && !out.plan.device) io.stderr.write(`pycno: ${kept ? `the run's output is kept as ${out.tempShown}` : `the run's output was not kept${keepHint}`}; ${out.targetState()}\n`);
+    return code;
+  };
+  /** What a failed or stopped run leaves, in one line. */
+  const leftLine = (kept: boolean, records: number, done: string) => {
+    const n = records === 1 ? 'the 1 record' : `the ${records} records`;
+    if (out.plan.device) return `${n} ${done} went to ${outFile}`;
+    if (kept) return `${n} ${done} ${records === 1 ? 'is' : 'are'} in ${out.tempShown}; ${out.targetState()}`;
+    return `${n} ${done} ${records === 1 ? 'was' : 'were'} not kept (--keep-partial keeps ${records === 1 ? 'it' : 'them'}); ${out.targetState()}`;
+  };
+
+  try {
+    await writer.begin();
+  } catch (e) {
+    if (e instanceof OutputWriteError) return failWrite(out, e, 'the header', 2);
+    throw e;
+  }
   let first: Integrals | null = null;
   let fastest: Integrals | null = null;
   let largestCourant = 0;
+  let writeFailure: OutputWriteError | null = null;
   engine.setRecorder(async (r) => {
     first ??= r.integrals;
     if (!fastest || r.integrals.maxSpeed > fastest.maxSpeed) fastest = r.integrals;
     largestCourant = Math.max(largestCourant, r.integrals.courant);
-    await writer.append(r);
+    try {
+      await writer.append(r);
+    } catch (e) {
+      if (e instanceof OutputWriteError) writeFailure = e;
+      throw e;
+    }
   });
-  const model = engine.model!;
   const cells = info.grid.nx * info.grid.ny;
   const progress = new Progress(io.stderr, info.startDay ?? 0, (info.startDay ?? 0) + info.days, cells, info.dt);
   if (!quiet) engine.onFrame((f) => progress.update(f.day));
@@ -282,30 +357,81 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
   const wall = (performance.now() - t0) / 1000;
   removeInterrupt?.();
   if (!quiet) progress.done();
-  await writer.close();
-  sink.close();
   const steps = model.state.steps - stepsBefore;
+  if (writeFailure) return failWrite(out, writeFailure, `record ${writer.records + 1} of ${outputs}`, 1);
   if (end.status === 'failed' && end.error) {
     printError(io, end.error.message);
-    io.stderr.write(`pycno: ${outFile} holds the ${writer.records} records written before the failure\n`);
+    const kept = out.discard(args.keepPartial);
+    io.stderr.write(`pycno: ${leftLine(kept, writer.records, 'written before the failure')}\n`);
     return exitCodeFor(end.error);
   }
   if (interrupted || end.status !== 'finished') {
-    io.stderr.write(`pycno: interrupted on day ${model.day.toFixed(2)}; ${outFile} holds ${writer.records} records\n`);
+    // Stopped on purpose: like a kill, the days done stay in the temporary file.
+    const kept = out.discard(true);
+    io.stderr.write(`pycno: interrupted on day ${model.day.toFixed(2)}; ${leftLine(kept, writer.records, 'done')}\n`);
     return 130;
   }
-  let restartFile: string | undefined;
-  if (args.restartOut) {
+  // The engine checked the state at every record; this is the last word before "done".
+  const last = model.integrals();
+  let unhealthy: string | null = null;
+  try {
+    model.checkHealth();
+  } catch (e) {
+    if (!(e instanceof BlowUpError)) throw e;
+    unhealthy = e.message;
+  }
+  const bad = MUST_BE_FINITE.find((k) => !Number.isFinite(last[k]));
+  unhealthy ??= bad ? `the run ended on day ${model.day.toFixed(2)} with a state that is not finite (${bad} = ${last[bad]}); shorten the time step or weaken the wind` : null;
+  if (unhealthy) {
+    printError(io, unhealthy);
+    const kept = out.discard(args.keepPartial);
+    io.stderr.write(`pycno: ${leftLine(kept, writer.records, 'written')}\n`);
+    return 1;
+  }
+  try {
+    await writer.close();
+    out.sync();
+  } catch (e) {
+    if (e instanceof OutputWriteError) return failWrite(out, e, 'the end of the file', 1);
+    throw e;
+  }
+  if (restart) {
+    const bytes = await writeRestart(model, { scenarioJson: info.scenarioJson, command: commandLine(args, shown) });
+    restart.plan.needBytes = bytes.length;
     try {
-      writeFileSync(resolvePath(io.cwd, args.restartOut), await writeRestart(model, { scenarioJson: info.scenarioJson, command: commandLine(args, shown) }));
-      restartFile = args.restartOut;
+      restart.create();
+      restart.write(0, bytes);
+      restart.sync();
     } catch (e) {
-      printError(io, `--restart-out ${args.restartOut}: cannot write the restart file: ${(e as Error).message}`);
-      return 2;
+      if (e instanceof OutputWriteError) return failWrite(restart, e, 'the restart file', 1);
+      if (e instanceof OutputRefused) {
+        printError(io, e.message);
+        out.discard(args.keepPartial);
+        return 2;
+      }
+      throw e;
+    }
+  }
+  // Both files are complete and on disk: put them in place, the run output first.
+  try {
+    out.commit();
+  } catch (e) {
+    if (e instanceof OutputWriteError) return failWrite(out, e, 'the end of the file', 1);
+    throw e;
+  }
+  if (restart) {
+    try {
+      restart.commit();
+    } catch (e) {
+      if (!(e instanceof OutputWriteError)) throw e;
+      const free = restart.freeBytes();
+      restart.discard(false);
+      printError(io, `${writeFailureLine(restart, e, 'the restart file', free, false)}; the run's output ${outFile} is complete`);
+      return 1;
     }
   }
   for (const n of info.notes ?? []) io.stdout.write(`input           ${n}\n`);
-  io.stdout.write(runSummary({ wallSeconds: wall, steps, cells, first, last: model.integrals(), fastest, largestCourant, records: writer.records, outFile, restartFile }));
+  io.stdout.write(runSummary({ wallSeconds: wall, steps, cells, first, last, fastest, largestCourant, records: writer.records, outFile, restartFile: args.restartOut }));
   return 0;
 }
 

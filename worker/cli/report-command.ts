@@ -4,7 +4,7 @@
 import { basename, resolve as resolvePath } from 'node:path';
 import { measureWaves } from '../../model/report/measure.ts';
 import { runReport } from '../../model/report/report.ts';
-import { CommandInputError, parseFilesAndOut, printError, readRunFile, speedLine, writeComplete, type CommandIO } from './compare.ts';
+import { checkOut, CommandInputError, parseFilesAndOut, printError, readRunFile, speedLine, writeComplete, type CommandIO } from './compare.ts';
 
 export const REPORT_USAGE = 'pycno report RUN.nc [--out REPORT.html]';
 
@@ -16,15 +16,12 @@ export async function reportCommand(args: readonly string[], io: CommandIO): Pro
       return 0;
     }
     const [file] = parsed.files;
-    const run = readRunFile(io, file);
     const out = parsed.out ?? `${basename(file).replace(/\.nc$/i, '')}.html`;
+    const reads = [{ path: resolvePath(io.cwd, file), what: `the run file ${file}` }];
+    checkOut(io, out, reads);
+    const run = readRunFile(io, file);
     const html = new TextEncoder().encode(runReport(run, { source: basename(file) }));
-    try {
-      await writeComplete(resolvePath(io.cwd, out), async (sink) => sink.write(0, html));
-    } catch (e) {
-      printError(io, `--out ${out}: cannot write the report: ${(e as Error).message}`);
-      return 2;
-    }
+    await writeComplete(io, out, reads, 'the report', async (sink) => sink.write(0, html));
     const w = measureWaves(run);
     io.stdout.write(`Kelvin speed    ${speedLine(w.kelvin, 'c', w.c)}\nlong Rossby     ${speedLine(w.rossby, 'c/3', w.rossbyTheory)}\nreport          ${out} (${Math.round(html.length / 1000)} kB)\n`);
     return 0;

@@ -3,8 +3,10 @@
 //
 // The embedded scenario (pycno_scenario) is the scenario as it was run: defaults filled in and the
 // --set and --days values of the original command already applied, so it is run as it stands,
-// with no overrides. Inputs it names (wind files, restart files, spin-up scenarios) are found
-// relative to the folder of FILE.nc, or of --inputs DIR when given.
+// with no overrides. A run file may come from anyone, so the files its scenario names (wind
+// files, restart files, spin-up scenarios) are read only from the folder the user gives with
+// --inputs DIR, relative to it, and only when they are regular files inside it (input-policy.ts);
+// without --inputs none is read. --out is written like pycno run's output (output-file.ts).
 // Exit codes: 0 every value matches, 1 a value differs (or the run failed), 2 bad input.
 
 import { dirname, join, resolve as resolvePath } from 'node:path';
@@ -14,7 +16,9 @@ import { PYCNO_VERSION, RunOutputWriter } from '../../model/io/run-output.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../engine.ts';
 import { describeLoadedRun } from '../run-description.ts';
-import { FileSink, nodeReader } from '../files-node.ts';
+import { nodeReader } from '../files-node.ts';
+import { allowedInputs } from './input-policy.ts';
+import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
 
 export interface RerunIO {
   stdout: { write(s: string): unknown };
@@ -28,7 +32,9 @@ export const RERUN_USAGE = `  pycno rerun FILE.nc [--out NEW.nc] [--inputs DIR]
 export const RERUN_HELP = `  rerun FILE.nc          run the scenario embedded in a Pycno run output again and compare every
                          value bit for bit (exit 0 all match, 1 a difference, 2 bad input)
   --out NEW.nc           (rerun) keep the new run's file; without it the new run stays in memory
-  --inputs DIR           (rerun) folder the scenario's input files are relative to (default: FILE.nc's)
+  --inputs DIR           (rerun) allow the regular files inside DIR as the inputs the embedded
+                         scenario names (wind, restart, spin-up files; paths relative to DIR);
+                         without it, a scenario that names a file is refused
 `;
 
 /** The first difference between two run files, or null when every value is the same. */
@@ -161,15 +167,28 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
   const version = textAttribute(old, 'pycno_version');
   if (version !== PYCNO_VERSION) io.stdout.write(`note            the file was written by Pycno ${version ?? '(unknown)'}, this is ${PYCNO_VERSION}: values may differ\n`);
 
-  // The scenario's relative input paths resolve against the folder of this name.
+  // The scenario's relative input paths resolve against the allowed folder (or, to say which
+  // file it names, the run file's folder); nothing outside the allowed folder is read.
   const base = args.inputs ? resolvePath(io.cwd, args.inputs) : dirname(path);
+  let allow: (p: string) => string;
+  try {
+    allow = allowedInputs(args.inputs ? base : null, args.inputs);
+  } catch (e) {
+    say((e as Error).message);
+    return 2;
+  }
+  const reads: ReadFile[] = [{ path, what: `the run file ${args.file}` }];
   const shown = `${args.file}#pycno_scenario`;
   const engine = new Engine({ maxFramesPerSecond: 1 });
   const loaded = await engine.load(scenarioJson, join(base, 'pycno_scenario'), {
-    reader: (p) => nodeReader(p.startsWith('/') ? p : resolvePath(base, p)),
+    reader: async (p) => {
+      const real = allow(p.startsWith('/') ? p : resolvePath(base, p));
+      reads.push({ path: real, what: `${real}, an input of the run file's scenario` });
+      return nodeReader(real);
+    },
   });
   if (!loaded.ok) {
-    say(`${shown}: ${loaded.error.message}`);
+    say(`${shown}: ${loaded.error.message.replaceAll(`${join(base, 'pycno_scenario')}: `, '')}`);
     return loaded.error.kind === 'input' ? 2 : 1;
   }
   const info = loaded.scenario;
@@ -179,34 +198,87 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
     return 1;
   }
   const d = describeLoadedRun(info, engine.model!, args.file, `pycno rerun ${args.file}`);
-  let sink: ByteSink & { close?(): void };
   const memory = args.out ? null : new MemorySink();
-  try {
-    sink = memory ?? new FileSink(resolvePath(io.cwd, args.out!));
-  } catch (e) {
-    say(`--out ${args.out}: cannot write the output file: ${(e as Error).message}`);
-    return 2;
-  }
-  const writer = new RunOutputWriter(d, sink);
-  await writer.begin();
-  engine.setRecorder((r) => writer.append(r));
-  engine.start();
-  const end = await engine.idle();
-  await writer.close();
-  sink.close?.();
-  if (end.status === 'failed' && end.error) {
-    say(`the rerun failed: ${end.error.message}`);
-    return end.error.kind === 'input' ? 2 : 1;
+  let file: OutputFile | null = null;
+  const writer = new RunOutputWriter(d, memory ?? { write: (offset, bytes) => file!.write(offset, bytes) });
+  if (args.out !== undefined) {
+    try {
+      const plan = planOutput('--out', args.out, io.cwd, reads);
+      checkSpace(plan, writer.bytesFor(info.derived.outputs));
+      file = OutputFile.open(plan);
+      file.create();
+    } catch (e) {
+      file?.discard(false);
+      if (e instanceof OutputRefused) {
+        say(e.message);
+        return 2;
+      }
+      throw e;
+    }
   }
   let now: NcFile;
   try {
-    now = readNetcdf(memory ? memory.bytes() : await nodeReader(resolvePath(io.cwd, args.out!)));
-  } catch (e) {
-    if (e instanceof NetcdfReadError) {
-      say(`internal error: the rerun's own file cannot be read: ${e.message}`);
+    let failure: OutputWriteError | null = null;
+    try {
+      await writer.begin();
+    } catch (e) {
+      if (e instanceof OutputWriteError && file) {
+        say(writeFailureLine(file, e, 'the header', file.freeBytes(), false));
+        return 2;
+      }
+      throw e;
+    }
+    engine.setRecorder(async (r) => {
+      try {
+        await writer.append(r);
+      } catch (e) {
+        if (e instanceof OutputWriteError) failure = e;
+        throw e;
+      }
+    });
+    engine.start();
+    const end = await engine.idle();
+    if (failure && file) {
+      say(writeFailureLine(file, failure, `record ${writer.records + 1} of ${info.derived.outputs}`, file.freeBytes(), false));
       return 1;
     }
-    throw e;
+    if (end.status === 'failed' && end.error) {
+      say(`the rerun failed: ${end.error.message}`);
+      return end.error.kind === 'input' ? 2 : 1;
+    }
+    try {
+      await writer.close();
+      file?.sync();
+    } catch (e) {
+      if (e instanceof OutputWriteError && file) {
+        say(writeFailureLine(file, e, 'the end of the file', file.freeBytes(), false));
+        return 1;
+      }
+      throw e;
+    }
+    try {
+      now = readNetcdf(memory ? memory.bytes() : await nodeReader(file!.temp));
+    } catch (e) {
+      if (e instanceof NetcdfReadError) {
+        say(`internal error: the rerun's own file cannot be read: ${e.message}`);
+        return 1;
+      }
+      throw e;
+    }
+    // Kept whether it matches or not: the new run's file is what --out asked for.
+    if (file) {
+      try {
+        file.commit();
+      } catch (e) {
+        if (e instanceof OutputWriteError) {
+          say(writeFailureLine(file, e, 'the end of the file', file.freeBytes(), false));
+          return 1;
+        }
+        throw e;
+      }
+    }
+  } finally {
+    file?.discard(false);
   }
   const diff = firstDifference(old, now);
   if (!diff) {

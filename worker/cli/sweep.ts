@@ -4,11 +4,12 @@
 // diagnostics. --list prints the equivalent `pycno run` lines instead, for a batch scheduler
 // (job arrays, GNU parallel) on more than one machine.
 
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join, resolve as resolvePath } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import type { CliIO } from './io.ts';
+import { OutputRefused, OutputWriteError, planOutput, writeWhole } from './output-file.ts';
 
 export const SWEEP_USAGE = `pycno sweep SCENARIO.json --vary path=v1,v2,... [--vary ...] --out DIR [--set path=value ...] [--days N] [--jobs N] [--list]
 `;
@@ -128,8 +129,19 @@ export async function sweep(argv: readonly string[], io: CliIO): Promise<number>
   const index = runs.map((r, n) => ({ file: r.file, ...r.values, exit: results[n].code, ...summaryFields(results[n].stdout) }));
   const columns = [...new Set(index.flatMap((row) => Object.keys(row)))];
   const csv = [columns.join(','), ...index.map((row) => columns.map((c) => csvCell(String((row as Record<string, unknown>)[c] ?? ''))).join(','))].join('\n') + '\n';
-  writeFileSync(resolvePath(io.cwd, plan.outDir, 'index.csv'), csv);
-  writeFileSync(resolvePath(io.cwd, plan.outDir, 'index.json'), JSON.stringify({ scenario: plan.scenario, vary: plan.vary, sets: plan.sets, runs: index }, null, 2) + '\n');
+  // The index files as whole files too: a sweep stopped while writing them leaves the old ones.
+  const json = JSON.stringify({ scenario: plan.scenario, vary: plan.vary, sets: plan.sets, runs: index }, null, 2) + '\n';
+  const reads = [{ path: resolvePath(io.cwd, plan.scenario), what: `the scenario file ${plan.scenario}` }];
+  try {
+    for (const [name, text] of [['index.csv', csv], ['index.json', json]]) {
+      const bytes = new TextEncoder().encode(text);
+      await writeWhole(planOutput('--out', join(plan.outDir, name), io.cwd, reads), (sink) => sink.write(0, bytes));
+    }
+  } catch (e) {
+    if (!(e instanceof OutputRefused || e instanceof OutputWriteError)) throw e;
+    io.stderr.write(`pycno sweep: cannot write the index: ${e.message}\n`);
+    return 1;
+  }
   io.stdout.write(`sweep index   ${join(plan.outDir, 'index.csv')} (${runs.length} runs, ${index.filter((r) => r.exit !== 0).length} failed)\n`);
   return index.every((r) => r.exit === 0) ? 0 : 1;
 }
