@@ -12,9 +12,10 @@ import { FIELD_NAMES, type FieldName } from '../../model/diagnostics/fields.ts';
 import { memberResults } from '../../model/ensemble/member-results.ts';
 import { EnsembleStatistics, StatisticsShapeError } from '../../model/ensemble/statistics.ts';
 import { SEED_PATH, writeSummary, type SummaryMember } from '../../model/ensemble/summary-file.ts';
+import type { RunData } from '../../model/io/run-read.ts';
 import { scenarioHash } from '../../model/scenario/canonical-hash.ts';
 import { readFileSync } from 'node:fs';
-import { BatchUsage, PLAN_FILE, printLines, readPlan, readStatus, SCENARIO_FILE, SCRIPT_FILE, shellQuote, SUMMARY_FILE, taskOf, type BatchPlan } from './batch-folder.ts';
+import { BatchRefused, BatchUsage, PLAN_FILE, printLines, readPlan, readStatus, SCENARIO_FILE, SCRIPT_FILE, shellQuote, SUMMARY_FILE, taskOf, type BatchPlan } from './batch-folder.ts';
 import { checkMember } from './batch-member.ts';
 import type { CliIO } from './io.ts';
 import { OutputRefused, OutputWriteError, planOutput, writeWhole } from './output-file.ts';
@@ -71,7 +72,12 @@ export function seedGroups(plan: BatchPlan): { groups: Array<Record<string, stri
   return { groups, of };
 }
 
-export async function gather(argv: readonly string[], io: CliIO): Promise<number> {
+/** For the tests: sees every member run as it is read (to check none is kept). */
+export interface GatherHooks {
+  onMember?: (run: RunData) => void;
+}
+
+export async function gather(argv: readonly string[], io: CliIO, hooks: GatherHooks = {}): Promise<number> {
   const o = parseGather(argv);
   const dir = resolvePath(io.cwd, o.dir);
   const plan = readPlan(dir, o.dir);
@@ -96,7 +102,7 @@ export async function gather(argv: readonly string[], io: CliIO): Promise<number
   try {
     outPlan = planOutput('--out', outPath, io.cwd, reads);
   } catch (e) {
-    if (e instanceof OutputRefused) throw new BatchUsage(e.message.replace(outPath, outShown));
+    if (e instanceof OutputRefused) throw new BatchRefused(e.message.replace(outPath, outShown));
     throw e;
   }
 
@@ -106,12 +112,15 @@ export async function gather(argv: readonly string[], io: CliIO): Promise<number
   let probes: Array<{ name: string; lon: number; lat: number }> = [];
   const notes: string[] = [];
   for (const m of plan.members) {
+    // One member at a time, and a turn of the event loop between two: nothing of the last is held.
+    await new Promise((r) => setImmediate(r));
     const group = seeds ? seeds.of[m.id - 1] : -1;
     const base: SummaryMember = { id: m.id, values: m.values, file: m.file, state: 'missing', exit: null, message: null, group, results: null };
     const check = checkMember(dir, m);
     const status = readStatus(dir, m);
     if (check.ok) {
       const run = check.run;
+      hooks.onMember?.(run);
       if (probes.length === 0 && run.probes.length > 0) probes = run.probes.map((p) => ({ name: p.name, lon: p.lon, lat: p.lat }));
       const results = memberResults(run);
       if (stats && seeds) {
@@ -144,7 +153,6 @@ export async function gather(argv: readonly string[], io: CliIO): Promise<number
       members.push({ ...base, message: status?.state === 'complete' ? `its status says complete but ${check.reason}` : 'never ran' });
     }
   }
-  if (probes.length === 0) probes = [];
 
   const title = plan.name;
   let bytes = 0;
