@@ -1,9 +1,10 @@
 // The sweep summary (`pycno sweep --gather`): one CF-NetCDF file for a whole ensemble. Per member
 // (dimension `member`) the varied values, its state (complete, failed, missing) and its scalar
-// results (member-results.ts); for a seed ensemble, per group of members that share every varied
-// value but the seed (dimension `group`), the ensemble mean and standard deviation of each
+// results (member-results.ts); when the seed is varied, per seed ensemble (the members that share every
+// varied value but the seed; dimension `ensemble`), the ensemble mean and standard deviation of each
 // recorded field, of the Hovmoller rows, of the probe series and of the energy, record by record
-// (statistics.ts). docs/ensembles.md shows the layout as ncdump prints it.
+// (statistics.ts); the dimension is `ensemble`, not "group", which is a keyword of CDL (ncdump's
+// text). docs/ensembles.md shows the layout as ncdump prints it.
 
 import { FIELD_INFO, type FieldName } from '../diagnostics/fields.ts';
 import { NC_BYTE, NC_CHAR, NC_DOUBLE, NC_FILL_DOUBLE, NC_FLOAT, NC_INT, utf8Bytes, type NcAttributesInput, type NcFileInput, type NcVariableInput } from '../io/netcdf-format.ts';
@@ -181,18 +182,18 @@ export function summaryFile(s: SummaryInput): NcFileInput {
     );
   }
   if (s.groups.length > 0) {
-    dims.push({ name: 'group', length: s.groups.length });
-    vars.push({ name: 'group', type: NC_INT, dimensions: ['group'], attributes: { long_name: 'group of members that share every varied value but the seed', units: '1' } });
-    vars.push({ name: 'member_group', type: NC_INT, dimensions: ['member'], attributes: withCoords({ long_name: 'the group of the member', units: '1' }) });
-    vars.push({ name: 'group_members', type: NC_INT, dimensions: ['group'], attributes: { long_name: 'complete members of the group: the sample size of its mean and standard deviation', units: '1' } });
+    dims.push({ name: 'ensemble', length: s.groups.length });
+    vars.push({ name: 'ensemble', type: NC_INT, dimensions: ['ensemble'], attributes: { long_name: 'seed ensemble: the members that share every varied value but the seed', units: '1' } });
+    vars.push({ name: 'member_ensemble', type: NC_INT, dimensions: ['member'], attributes: withCoords({ long_name: 'the seed ensemble of the member', units: '1' }) });
+    vars.push({ name: 'ensemble_members', type: NC_INT, dimensions: ['ensemble'], attributes: { long_name: 'complete members of the seed ensemble: the sample size of its mean and standard deviation', units: '1' } });
     for (const c of columns) {
       if (c.path === SEED_PATH) continue;
-      const atts: Record<string, string> = { long_name: `${c.path} of the group`, pycno_path: c.path };
+      const atts: Record<string, string> = { long_name: `${c.path} of the seed ensemble`, pycno_path: c.path };
       if (!c.numeric) {
-        atts.long_name = `${c.path} of the group, as its index (from 0) in the list pycno_values`;
+        atts.long_name = `${c.path} of the seed ensemble, as its index (from 0) in the list pycno_values`;
         atts.pycno_values = JSON.stringify(c.values);
       }
-      vars.push({ name: `group_${c.name}`, type: c.numeric ? NC_DOUBLE : NC_INT, dimensions: ['group'], attributes: atts });
+      vars.push({ name: `ensemble_${c.name}`, type: c.numeric ? NC_DOUBLE : NC_INT, dimensions: ['ensemble'], attributes: atts });
     }
   }
   if (shape) {
@@ -215,25 +216,25 @@ export function summaryFile(s: SummaryInput): NcFileInput {
     };
     for (const f of shape.fields) {
       const info = FIELD_INFO[f];
-      for (const w of ['mean', 'std'] as const) stat(f, ['time', 'group', 'lat', 'lon'], info.units, info.longName, w, { cell_measures: 'area: cell_area' }, info.standardName);
+      for (const w of ['mean', 'std'] as const) stat(f, ['time', 'ensemble', 'lat', 'lon'], info.units, info.longName, w, { cell_measures: 'area: cell_area' }, info.standardName);
     }
     if (shape.hovmollerRowLats.length > 0) {
       dims.push({ name: 'hovmoller', length: shape.hovmollerRowLats.length });
       vars.push({ name: 'hovmoller_lat', type: NC_DOUBLE, dimensions: ['hovmoller'], attributes: { standard_name: 'latitude', long_name: 'centre latitude of the model row of each Hovmoller section', units: 'degrees_north' } });
-      for (const w of ['mean', 'std'] as const) stat('hovmoller_h_anom', ['time', 'group', 'hovmoller', 'lon'], 'm', `${FIELD_INFO.h_anom.longName} along the Hovmoller rows`, w, { coordinates: 'hovmoller_lat' });
+      for (const w of ['mean', 'std'] as const) stat('hovmoller_h_anom', ['time', 'ensemble', 'hovmoller', 'lon'], 'm', `${FIELD_INFO.h_anom.longName} along the Hovmoller rows`, w, { coordinates: 'hovmoller_lat' });
     }
     if (s.probes.length > 0) {
       for (const f of shape.fields) {
         const info = FIELD_INFO[f];
-        // Not probe_name: CDO cannot give a text label to a (time, group, probe) variable and warns.
-        for (const w of ['mean', 'std'] as const) stat(`probe_${f}`, ['time', 'group', 'probe'], info.units, `${info.longName} in the model cell holding the probe`, w, { coordinates: 'probe_lat probe_lon' });
+        // Not probe_name: CDO cannot give a text label to a (time, ensemble, probe) variable and warns.
+        for (const w of ['mean', 'std'] as const) stat(`probe_${f}`, ['time', 'ensemble', 'probe'], info.units, `${info.longName} in the model cell holding the probe`, w, { coordinates: 'probe_lat probe_lon' });
       }
     }
     for (const w of ['mean', 'std'] as const) {
       vars.push({
         name: `energy_${w}`,
         type: NC_DOUBLE,
-        dimensions: ['time', 'group'],
+        dimensions: ['time', 'ensemble'],
         attributes: { long_name: `${w === 'mean' ? 'ensemble mean' : 'ensemble standard deviation (n - 1 in the denominator)'} of the total energy (kinetic + available potential)`, units: 'J', _FillValue: NC_FILL_DOUBLE },
       });
     }
@@ -256,7 +257,7 @@ export function summaryFile(s: SummaryInput): NcFileInput {
       pycno_scenario_canonical_sha256: s.scenarioHash,
       pycno_vary: JSON.stringify(s.vary),
       pycno_members: JSON.stringify(s.members.map((m) => ({ member: m.id, values: m.values, file: m.file, state: m.state, exit: m.exit, message: m.message, kelvin_note: m.results?.kelvinNote ?? null }))),
-      pycno_statistics: shape ? `mean and standard deviation over the seeds of each group, fields ${shape.fields.join(', ')}` : 'none (no seed among the varied values)',
+      pycno_statistics: shape ? `mean and standard deviation over the seeds of each seed ensemble, fields ${shape.fields.join(', ')}` : 'none (no seed among the varied values)',
     },
   };
 }
@@ -280,7 +281,7 @@ export async function writeSummary(s: SummaryInput, sink: ByteSink): Promise<num
     taken.add(name);
     const c = { numeric: numericValues(v.values), values: v.values };
     await w.writeFixed(name, columnValues(c, s.members.map((m) => m.values[v.path] ?? '')));
-    if (byName.has(`group_${name}`)) await w.writeFixed(`group_${name}`, columnValues(c, s.groups.map((g) => g[v.path] ?? '')));
+    if (byName.has(`ensemble_${name}`)) await w.writeFixed(`ensemble_${name}`, columnValues(c, s.groups.map((g) => g[v.path] ?? '')));
   }
   await w.writeFixed('member_state', s.members.map((m) => MEMBER_STATES.indexOf(m.state)));
   await w.writeFixed('member_exit_code', s.members.map((m) => (m.exit === null ? -2147483647 : m.exit)));
@@ -299,10 +300,10 @@ export async function writeSummary(s: SummaryInput, sink: ByteSink): Promise<num
     await w.writeFixed('kelvin_arrival_speed', grid('arrivalSpeed'));
   }
   if (s.groups.length > 0) {
-    await w.writeFixed('group', s.groups.map((_, g) => g + 1));
-    await w.writeFixed('member_group', s.members.map((m) => m.group + 1));
+    await w.writeFixed('ensemble', s.groups.map((_, g) => g + 1));
+    await w.writeFixed('member_ensemble', s.members.map((m) => m.group + 1));
     const stats = s.statistics;
-    await w.writeFixed('group_members', s.groups.map((_, g) => stats?.groups[g]?.energy.count ?? 0));
+    await w.writeFixed('ensemble_members', s.groups.map((_, g) => stats?.groups[g]?.energy.count ?? 0));
   }
   const shape = s.statistics?.shape;
   if (shape && s.statistics) {

@@ -101,7 +101,7 @@ export function readSummary(bytes: Uint8Array, label = 'the file'): SummaryData 
   const names = np ? splitNames(probeNames, np, width) : [];
   const probes = Array.from({ length: np }, (_, p) => ({ name: names[p], lon: nums('probe_lon')[p], lat: nums('probe_lat')[p] }));
   const arrivals = np ? clean(nums('kelvin_arrival_day')) : new Float64Array(0);
-  const memberGroup = has('member_group') ? nums('member_group') : null;
+  const memberGroup = has('member_ensemble') ? nums('member_ensemble') : null;
   const members: SummaryMemberRead[] = listed.map((m, k) => ({
     id: ids[k],
     values: m.values,
@@ -117,9 +117,9 @@ export function readSummary(bytes: Uint8Array, label = 'the file'): SummaryData 
   let days: Float64Array | null = null;
   let lon: Float64Array | null = null;
   let hovmollerLat: number[] = [];
-  if (has('group')) {
-    const G = nums('group').length;
-    const counts = nums('group_members');
+  if (has('ensemble')) {
+    const G = nums('ensemble').length;
+    const counts = nums('ensemble_members');
     const others = vary.filter((v) => v.path !== SEED_PATH);
     const groupValues = Array.from({ length: G }, (_, g) => {
       const firstMember = members.find((m) => m.group === g);
@@ -135,7 +135,7 @@ export function readSummary(bytes: Uint8Array, label = 'the file'): SummaryData 
     const nx = lon?.length ?? 0;
     const nh = hovmollerLat.length;
     const slice3 = (name: string, inner: number, g: number, q: number, width: number) => {
-      // (time, group, inner, width) -> the rows of group g, inner index q: nt x width values.
+      // (time, ensemble, inner, width) -> the rows of group g, inner index q: nt x width values.
       const v = nums(name);
       const out = new Float64Array(nt * width);
       for (let n = 0; n < nt; n++) for (let i = 0; i < width; i++) out[n * width + i] = v[((n * G + g) * inner + q) * width + i];

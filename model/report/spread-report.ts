@@ -1,12 +1,13 @@
 // The report of a sweep summary (`pycno report summary.nc`): one self-contained HTML page like the
 // run report (report.ts: no script, a Content-Security-Policy that forbids any, every text
 // escaped). Per-member scalars against the varied value (or the member number), failed and
-// missing members listed with their message; for a seed ensemble, per group the ensemble mean
+// missing members listed with their message; for seed ensembles, per ensemble the mean
 // with a band of plus and minus one standard deviation for the probe series and the energy, and
 // the Hovmoller diagrams of the mean and of the standard deviation.
 
 import { MEMBER_SCALARS, SEED_PATH } from '../ensemble/summary-file.ts';
 import type { SummaryData, SummaryGroupRead, SummaryMemberRead } from '../ensemble/summary-read.ts';
+import * as pm from '../portable-math.ts';
 import { pngDataUrl } from './png.ts';
 import { CAUTION, colourBar, colourOf, escapeHtml, niceTicks, REPORT_STYLE, symmetricRange } from './report.ts';
 
@@ -22,7 +23,7 @@ function tickLabels(a: number, b: number, n: number): Array<[number, string]> {
   const t = niceTicks(a, b, n);
   const step = t.length > 1 ? t[1] - t[0] : Math.abs(b - a) || 1;
   return t.map((v) => {
-    const digits = v === 0 ? 1 : Math.max(2, Math.ceil(Math.log10(Math.abs(v) / step) + 1e-9) + 1);
+    const digits = v === 0 ? 1 : Math.max(2, Math.ceil(pm.log10(Math.abs(v) / step) + 1e-9) + 1);
     return [v, fmt(v, Math.min(6, digits))];
   });
 }
@@ -129,7 +130,7 @@ function hovmollerImage(days: Float64Array, lon: Float64Array, rows: Float64Arra
 
 function groupLabel(g: SummaryGroupRead, k: number): string {
   const v = Object.entries(g.values).map(([p, x]) => `${p} = ${x}`).join(', ');
-  return `group ${k + 1}${v ? ` (${v})` : ''}: ${g.members} member${g.members === 1 ? '' : 's'}`;
+  return `seed ensemble ${k + 1}${v ? ` (${v})` : ''}: ${g.members} member${g.members === 1 ? '' : 's'}`;
 }
 
 export function spreadReport(s: SummaryData, options: { source?: string } = {}): string {

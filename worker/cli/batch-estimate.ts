@@ -90,7 +90,7 @@ export function estimateTask(e: EstimateInput): Estimate {
   const outS = e.outputs * cells * e.fields * COST.outputNs * 1e-9;
   const memberSeconds = COST.startSeconds + stepS + outS;
   const timeMinutes = Math.max(COST.minMinutes, Math.ceil((memberSeconds * e.perTask * COST.timeMargin) / 60));
-  const modelMiB = e.memoryBytes / 2 ** 20;
+  const modelMiB = e.memoryBytes / (1024 * 1024);
   const rawMiB = COST.baseMiB + COST.modelFactor * modelMiB + COST.threadMiB * (threads - 1);
   const memMiB = Math.max(COST.minMemoryMiB, Math.ceil((rawMiB * COST.memoryMargin) / 64) * 64);
   const explain = [

@@ -50,7 +50,8 @@ ${RERUN_USAGE}  ${SWEEP_USAGE}  ${BATCH_USAGE}  ${COMPARE_USAGE}
 ${RERUN_HELP}${SWEEP_HELP}${BATCH_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
                          difference per field, measured wave speeds beside theory (exit 2: no overlap)
   --out DIFF.nc          (compare) write B minus A as a NetCDF file in the layout of a run
-  report RUN.nc          a one-page printable HTML report of a run
+  report RUN.nc          a one-page printable HTML report of a run; of a sweep summary (sweep --gather),
+                         its spread plots
   --out REPORT.html      (report) the report file (default: the run file's name with .html)
 `;
 

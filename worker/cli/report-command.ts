@@ -39,7 +39,7 @@ export async function reportCommand(args: readonly string[], io: CommandIO): Pro
       }
       const page = new TextEncoder().encode(spreadReport(summary, { source: basename(file) }));
       await writeComplete(io, out, reads, 'the report', async (sink) => sink.write(0, page));
-      io.stdout.write(`sweep summary   ${summary.members.length} members${summary.groups.length ? `, ${summary.groups.length} group${summary.groups.length > 1 ? 's' : ''} of seeds` : ''}\nreport          ${out} (${Math.round(page.length / 1000)} kB)\n`);
+      io.stdout.write(`sweep summary   ${summary.members.length} members${summary.groups.length ? `, ${summary.groups.length} seed ensemble${summary.groups.length > 1 ? 's' : ''}` : ''}\nreport          ${out} (${Math.round(page.length / 1000)} kB)\n`);
       return 0;
     }
     const run = readRunFile(io, file);

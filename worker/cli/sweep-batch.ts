@@ -40,7 +40,7 @@ import type { CliIO } from './io.ts';
 import { OutputRefused, OutputWriteError, planOutput, writeWhole } from './output-file.ts';
 import { gather } from './sweep-gather.ts';
 import { runTask } from './sweep-task.ts';
-import { parseSweep, sweepRuns } from './sweep.ts';
+import { parseSweep, SWEEP_HELP, SWEEP_USAGE, sweepRuns } from './sweep.ts';
 
 export const BATCH_USAGE = `pycno sweep SCENARIO.json --vary path=v1,v2,... [--vary ...] --batch DIR [--submit] [--per-task N] [--threads N] [--task-time T] [--task-memory M] [--task-cpus N] [--at-once N] [--sbatch-option OPT ...]
   pycno sweep --task DIR N
@@ -71,11 +71,15 @@ export const BATCH_HELP = `  --batch DIR            (sweep) instead of running h
 
 /** The options that make `pycno sweep` a cluster sweep. */
 export function isBatchSweep(argv: readonly string[]): boolean {
-  return argv.some((a) => a === '--batch' || a === '--task' || a === '--gather' || a.startsWith('--batch=') || a.startsWith('--gather='));
+  return argv.some((a) => a === '--batch' || a === '--task' || a === '--gather' || a.startsWith('--batch=') || a.startsWith('--gather=') || a === '--help' || a === '-h');
 }
 
 
 export async function batchSweep(argv: readonly string[], io: CliIO): Promise<number> {
+  if (argv.includes('--help') || argv.includes('-h')) {
+    io.stdout.write(`usage: ${SWEEP_USAGE}  ${BATCH_USAGE}\n${SWEEP_HELP}${BATCH_HELP}`);
+    return 0;
+  }
   try {
     if (argv.includes('--task')) return await runTask(argv, io);
     if (argv.some((a) => a === '--gather' || a.startsWith('--gather='))) return await gather(argv, io);

@@ -130,7 +130,7 @@ export async function gather(argv: readonly string[], io: CliIO, hooks: GatherHo
           const need = EnsembleStatistics.bytesFor(seeds.groups.length, nt, run.grid.nx * run.grid.ny, nf, run.hovmoller.length, run.grid.nx, run.probes.length);
           const free = freemem();
           if (need > 0.8 * free) {
-            throw new BatchUsage(`the seed statistics need about ${formatBytes(need)} of memory (${seeds.groups.length} group${seeds.groups.length > 1 ? 's' : ''} x ${nt} records x ${nf} fields, two float64 numbers per value); ${formatBytes(free)} are free: take fewer fields with --spread-fields (e.g. --spread-fields h_anom)`);
+            throw new BatchUsage(`the seed statistics need about ${formatBytes(need)} of memory (${seeds.groups.length} seed ensemble${seeds.groups.length > 1 ? 's' : ''} x ${nt} records x ${nf} fields, two float64 numbers per value); ${formatBytes(free)} are free: take fewer fields with --spread-fields (e.g. --spread-fields h_anom)`);
           }
         }
         try {
@@ -194,7 +194,7 @@ export async function gather(argv: readonly string[], io: CliIO, hooks: GatherHo
     lines.push(`resubmit      sbatch --array=${tasks.join(',')} ${shellQuote(join(dir, SCRIPT_FILE))}   (complete members are skipped)`);
   }
   for (const n of notes) lines.push(`note          ${n}`);
-  const st = stats?.shape ? `; mean and standard deviation over the seeds of ${stats.shape.fields.join(', ')} in ${seeds!.groups.length} group${seeds!.groups.length > 1 ? 's' : ''}` : '';
+  const st = stats?.shape ? `; mean and standard deviation over the seeds of ${stats.shape.fields.join(', ')} in ${seeds!.groups.length} seed ensemble${seeds!.groups.length > 1 ? 's' : ''}` : '';
   lines.push(`summary       ${outShown} (${formatBytes(bytes)}${st})`);
   io.stdout.write(lines.join('\n') + '\n');
   return bad.length ? 1 : 0;
