@@ -86,6 +86,7 @@ describe('pycno sweep --batch DIR', () => {
       [['--sbatch-option', 'partition short'], /--sbatch-option needs one sbatch option/],
       [['--out', 'x'], /--out does not go with --batch/],
       [['--jobs', '2'], /--jobs does not go with --batch/],
+      [['--batch', 'a b'], /--batch a b: the folder's path \(.*\) must have no spaces, quotes, backslashes or %/],
     ] as const) {
       const r = pycno(['sweep', 'tiny.json', ...VARY, '--batch', 'never', ...args]);
       expect(r.code, args.join(' ')).toBe(2);
@@ -193,6 +194,19 @@ describe('pycno sweep --task DIR N and --gather DIR', () => {
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/b1\/scenario\.json was changed after the batch was made/);
     writeFileSync(plan, text);
+  });
+});
+
+describe('pycno sweep --help', () => {
+  it('prints the usage and options of both sweeps, as docs/ensembles.md repeats them', () => {
+    const r = pycno(['sweep', '--help']);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/^usage: pycno sweep SCENARIO\.json --vary .* --out DIR/);
+    for (const o of ['--batch DIR', '--submit', '--per-task N', '--task-time T', '--task-memory M', '--task-cpus N', '--at-once N', '--sbatch-option OPT', 'sweep --task DIR N', 'sweep --gather DIR', '--list']) expect(r.stdout).toContain(o);
+    const doc = readFileSync(fileURLToPath(new URL('../../docs/ensembles.md', import.meta.url)), 'utf8');
+    const block = /## `pycno sweep --help`\n\n```\n([\s\S]*?)\n```/.exec(doc);
+    expect(block, 'the --help block of docs/ensembles.md').not.toBeNull();
+    expect(block![1]).toBe(r.stdout.trimEnd());
   });
 });
 

@@ -167,14 +167,14 @@ export async function startLocalSlurm(): Promise<LocalSlurm | { skip: string }> 
     if (!up) throw new Error('slurmctld did not answer scontrol ping within 30 s');
     const slurmd = start('slurmd', '/usr/sbin/slurmd', ['-D', '-N', 'localhost', '-f', conf], env);
     let state = '';
-    for (let k = 0; k < 240 && !exited(slurmd); k++) {
+    for (let k = 0; k < 480 && !exited(slurmd); k++) {
       await sleep(250);
       state = spawnSync('/usr/bin/sinfo', ['-h', '-n', 'localhost', '-o', '%T'], { env, encoding: 'utf8', timeout: 10_000 }).stdout?.trim() ?? '';
       if (state === 'idle') break;
       // A node left down or drained by an earlier controller state is put back.
       if (/down|drain/.test(state) && k % 8 === 7) spawnSync('/usr/bin/scontrol', ['update', 'nodename=localhost', 'state=resume'], { env, timeout: 10_000 });
     }
-    if (state !== 'idle') throw new Error(`the node localhost is '${state || 'unknown'}', not idle, after 60 s`);
+    if (state !== 'idle') throw new Error(`the node localhost is '${state || 'unknown'}', not idle, after 120 s`);
     return { dir, env, client, logs, stop };
   } catch (e) {
     const text = logs();

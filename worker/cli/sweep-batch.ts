@@ -291,6 +291,8 @@ async function makeBatch(argv: readonly string[], io: CliIO): Promise<number> {
     throw new BatchUsage((e as Error).message);
   }
   const absDir = resolvePath(io.cwd, options.dir);
+  // sbatch reads an #SBATCH line word by word and takes % in --output as a pattern.
+  if (/[\s%'"\\]/.test(absDir)) throw new BatchUsage(`--batch ${options.dir}: the folder's path (${absDir}) must have no spaces, quotes, backslashes or %: Slurm's #SBATCH lines cannot hold them`);
   const scenarioPath = resolvePath(io.cwd, sweepPlan.scenario);
   let text: string;
   try {

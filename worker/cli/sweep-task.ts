@@ -118,7 +118,8 @@ export async function runTask(argv: readonly string[], io: CliIO): Promise<numbe
       failed++;
       const signal = end.signal ?? stopping;
       let message = end.code === 0 && check && !check.ok ? `the run ended with exit 0 but its file is not right: ${check.reason}` : errorMessage(end.stderr);
-      if (signal) message = `stopped by ${signal}${signal === 'SIGTERM' ? ' (scancel, or the task reached its --time limit)' : ''}${message ? `; ${message}` : ''}`;
+      const why = signal === 'SIGTERM' ? ' (scancel, or the task reached its --time limit)' : signal === 'SIGKILL' ? ' (out of memory? the task may need more --task-memory)' : '';
+      if (signal) message = `stopped by ${signal}${why}${message ? `; ${message}` : ''}`;
       await writeStatus(dir, m, { ...base, state: 'failed', exit: end.code, signal, message, ended: new Date().toISOString(), seconds });
       io.stdout.write(`pycno sweep: member ${m.id}: failed (${end.code !== null ? `exit ${end.code}` : `signal ${signal}`}): ${message.split('\n')[0]}\n`);
     }
