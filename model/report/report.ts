@@ -29,14 +29,14 @@ function parseRgb(s: string): [number, number, number] {
 /** 256 colours, blue (negative) through white to red (positive). */
 const DIVERGING: Array<[number, number, number]> = Array.from({ length: 256 }, (_, k) => parseRgb(interpolateRdBu(1 - k / 255)));
 
-function colourOf(v: number, range: number): [number, number, number] {
+export function colourOf(v: number, range: number): [number, number, number] {
   if (!Number.isFinite(v)) return LAND;
   const t = Math.max(0, Math.min(1, 0.5 + v / (2 * range)));
   return DIVERGING[Math.round(t * 255)];
 }
 
 /** Symmetric colour range: the 99th percentile of |values| (a few extreme cells do not wash the map out). */
-function symmetricRange(arrays: ArrayLike<number>[]): number {
+export function symmetricRange(arrays: ArrayLike<number>[]): number {
   const abs: number[] = [];
   for (const a of arrays) for (let k = 0; k < a.length; k++) if (Number.isFinite(a[k])) abs.push(Math.abs(a[k]));
   if (abs.length === 0) return 1;
@@ -61,7 +61,7 @@ function table(rows: Array<[string, string]>): string {
   return `<table>${rows.map(([k, v]) => `<tr><th>${escapeHtml(k)}</th><td>${v}</td></tr>`).join('')}</table>`;
 }
 
-function colourBar(range: number, units: string): string {
+export function colourBar(range: number, units: string): string {
   const w = 256;
   const rgb = new Uint8Array(w * 3);
   for (let i = 0; i < w; i++) rgb.set(DIVERGING[i], 3 * i);
@@ -146,7 +146,7 @@ function hovmollerFigure(run: RunData, section: number, waves: WaveMeasures): st
   );
 }
 
-function niceTicks(a: number, b: number, n: number): number[] {
+export function niceTicks(a: number, b: number, n: number): number[] {
   const span = b - a;
   if (!(span > 0)) return [a];
   const raw = span / n;
@@ -187,7 +187,7 @@ function probePlot(days: Float64Array, values: Float32Array, title: string): str
   );
 }
 
-const STYLE = `
+export const REPORT_STYLE = `
 body{font:13px/1.4 system-ui,sans-serif;color:#111;max-width:1100px;margin:16px auto;padding:0 12px}
 h1{font-size:20px;margin:0 0 4px}h2{font-size:15px;margin:18px 0 6px;border-bottom:1px solid #bbb}
 .caution{border:1px solid #b55;background:#fdf3f0;padding:4px 8px;margin:8px 0}
@@ -282,7 +282,7 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8">
 <meta http-equiv="Content-Security-Policy" content="default-src 'none'; img-src data:; style-src 'unsafe-inline'">
-<title>${escapeHtml(title)}</title><style>${STYLE}</style></head>
+<title>${escapeHtml(title)}</title><style>${REPORT_STYLE}</style></head>
 <body>
 <h1>${escapeHtml(title)}</h1>
 <p>${escapeHtml(run.description || '')}</p>

@@ -4,7 +4,9 @@
 // theory), one is exported as NetCDF and imported again with every value intact, a foreign file
 // is refused with the reader's message, and a delete is undone.
 
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { copyFileSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -50,6 +52,7 @@ type Lib = {
   compare(): CompareState | null;
   viewWaves(): WaveRow[];
   viewShown(): string | null;
+  summary(): { file: string; members: number; complete: number; failed: number; missing: number; ensembles: number; rows: string[][] } | null;
 };
 
 const lib = <T>(page: Page, f: (l: Lib) => T) => page.evaluate(`(${f.toString()})(window.__pycnoLibrary)`) as Promise<T>;
@@ -250,6 +253,36 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     await page.waitForFunction(() => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.runs().length === 2);
     await page.click('.lib-undo-btn');
     await page.waitForFunction(() => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.runs().length === 3);
+    expect(errors).toEqual([]);
+  });
+
+  it('opens a sweep summary (pycno sweep --gather): its members with states and results, and its spread report', async () => {
+    const page = ctx!.pages()[0];
+    // A two-member sweep gathered by the command line: member 2 (5 N m-2) blows up.
+    const bin = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
+    const work = mkdtempSync(join(tmpdir(), 'pycno-page-summary-'));
+    copyFileSync(fileURLToPath(new URL('../fixtures/engine-tiny.json', import.meta.url)), join(work, 'tiny.json'));
+    const cli = (args: string[]) => spawnSync(process.execPath, [bin, ...args], { cwd: work, encoding: 'utf8', timeout: 120_000 }).status;
+    expect(cli(['sweep', 'tiny.json', '--vary', 'wind.parts[0].source.x=0.05,5', '--batch', 'b', '--per-task', '2'])).toBe(0);
+    expect(cli(['sweep', '--task', 'b', '1'])).toBe(1);
+    expect(cli(['sweep', '--gather', 'b'])).toBe(1);
+    const before = (await runs(page)).length;
+    await page.setInputFiles('#lib-import', join(work, 'b', 'summary.nc'));
+    await page.waitForFunction(() => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.summary() !== null);
+    const shown = (await lib(page, (l) => l.summary()))!;
+    expect(shown).toMatchObject({ file: 'summary.nc', members: 2, complete: 1, failed: 1, missing: 0, ensembles: 0 });
+    expect(shown.rows[0].slice(0, 3)).toEqual(['1', '0.05', 'complete']);
+    expect(shown.rows[1].slice(0, 3)).toEqual(['2', '5', 'failed']);
+    expect(shown.rows[1][6]).toMatch(/^the run blew up on day/);
+    expect(await page.textContent('#lib-summary-line')).toBe('2 members over wind.parts[0].source.x: 1 complete, 1 failed, 0 missing');
+    expect((await runs(page)).length).toBe(before); // shown, not saved as a run
+    const report = await downloadOf(page, () => page.click('#lib-summary-report'), files);
+    expect(report.name).toBe('summary-report.html');
+    expect(report.bytes.toString('utf8')).toMatch(/Pycno sweep report: Tiny westerly patch/);
+    await page.locator('#lib-summary').screenshot({ path: join(ARTIFACTS, 'library-summary.png') });
+    await page.click('#lib-summary-close');
+    expect(await lib(page, (l) => l.summary())).toBeNull();
+    rmSync(work, { recursive: true, force: true });
     expect(errors).toEqual([]);
   });
 });

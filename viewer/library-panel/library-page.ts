@@ -13,6 +13,8 @@ import { button, el, shortDate } from './dom.ts';
 import { download, fileBytes, fileSafe } from './files.ts';
 import { LiveRun, snapshotChoices } from './live-run.ts';
 import { RunView } from './run-view.ts';
+import { SummaryView } from './summary-view.ts';
+import { isSummaryFile, readSummary, SummaryFileError } from '../../model/ensemble/summary-read.ts';
 
 export interface LibraryHost {
   /** Ask the engine for full fields in every k-th output sample. */
@@ -49,6 +51,7 @@ export class LibraryPage {
   private prepared: RunData | null = null;
   private readonly cache = new Map<string, RunData>();
   private readonly view: RunView;
+  private readonly summaryView = new SummaryView();
   private readonly compareView: CompareView;
   private readonly list = el('ul', { id: 'lib-list', className: 'lib-list' });
   private readonly undoBar = el('div', { id: 'lib-undo', className: 'lib-undo' });
@@ -81,6 +84,7 @@ export class LibraryPage {
       compare: () => this.compareView.state,
       viewWaves: () => this.view.lastWaves,
       viewShown: () => this.view.shown,
+      summary: () => this.summaryView.state,
     };
   }
 
@@ -137,7 +141,7 @@ export class LibraryPage {
       this.importInput.value = '';
       if (f) await this.importFile(f);
     });
-    const drop = el('div', { id: 'lib-drop', className: 'lib-drop' }, el('label', { className: 'file-button' }, 'Import NetCDF…', this.importInput), el('span', { className: 'hint' }, 'or drop a Pycno run file (.nc) here'));
+    const drop = el('div', { id: 'lib-drop', className: 'lib-drop' }, el('label', { className: 'file-button' }, 'Import NetCDF…', this.importInput), el('span', { className: 'hint' }, 'or drop a Pycno run file or sweep summary (.nc) here'));
     // A file dropped on the library goes to the library, not to the scenario loader of the page.
     this.root.addEventListener('dragover', (ev) => {
       ev.preventDefault();
@@ -164,6 +168,7 @@ export class LibraryPage {
           this.saveForm,
           this.panelMsg,
           this.undoBar,
+          this.summaryView.root,
           this.list,
         ),
         this.view.root,
@@ -394,9 +399,20 @@ export class LibraryPage {
   }
 
   private async importFile(file: File): Promise<void> {
+    const bytes = await fileBytes(file);
+    // A sweep summary (pycno sweep --gather) is shown, not saved: it holds no run.
+    if (isSummaryFile(bytes)) {
+      try {
+        this.summaryView.show(readSummary(bytes, file.name), file.name);
+        this.say(`Opened the sweep summary ${file.name}.`, 'info');
+      } catch (e) {
+        this.say(e instanceof SummaryFileError ? `not opened: ${e.message}` : `not opened: ${file.name}: ${(e as Error).message}`);
+      }
+      return;
+    }
     if (!this.lib) return;
     try {
-      const meta = await this.lib.importNetcdf(await fileBytes(file), file.name, { name: `${file.name.replace(/\.nc$/i, '')} (imported)`, notes: `imported from ${file.name}` });
+      const meta = await this.lib.importNetcdf(bytes, file.name, { name: `${file.name.replace(/\.nc$/i, '')} (imported)`, notes: `imported from ${file.name}` });
       this.say(`Imported '${meta.name}' from ${file.name}.`, 'info');
       await this.refresh();
     } catch (e) {

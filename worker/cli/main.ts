@@ -25,6 +25,7 @@ import { reportCommand, REPORT_USAGE } from './report-command.ts';
 import { checkReport, runSummary } from './report.ts';
 import { rerun, RERUN_HELP, RERUN_USAGE } from './rerun.ts';
 import { sweep, SWEEP_HELP, SWEEP_USAGE } from './sweep.ts';
+import { BATCH_HELP, BATCH_USAGE, batchSweep, isBatchSweep } from './sweep-batch.ts';
 import { checkThreadsOption, type ThreadsOption } from '../../model/parallel/threads.ts';
 import { nodeStripHost } from '../strips-node.ts';
 import type { CliIO } from './io.ts';
@@ -32,7 +33,7 @@ import type { CliIO } from './io.ts';
 export const USAGE = `usage:
   pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--threads N|auto] [--keep-partial] [--quiet]
   pycno check SCENARIO.json [--set path=value ...]
-${RERUN_USAGE}  ${SWEEP_USAGE}  ${COMPARE_USAGE}
+${RERUN_USAGE}  ${SWEEP_USAGE}  ${BATCH_USAGE}  ${COMPARE_USAGE}
   ${REPORT_USAGE}
   pycno --version | --help
 
@@ -46,10 +47,11 @@ ${RERUN_USAGE}  ${SWEEP_USAGE}  ${COMPARE_USAGE}
                          for bit; auto: one per core on grids large enough to gain); default 1
   --keep-partial         keep the unfinished FILE.nc.part-PID when the run fails (blow-up, full disk)
   --quiet                no progress and no warnings on stderr (errors only)
-${RERUN_HELP}${SWEEP_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
+${RERUN_HELP}${SWEEP_HELP}${BATCH_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
                          difference per field, measured wave speeds beside theory (exit 2: no overlap)
   --out DIFF.nc          (compare) write B minus A as a NetCDF file in the layout of a run
-  report RUN.nc          a one-page printable HTML report of a run
+  report RUN.nc          a one-page printable HTML report of a run; of a sweep summary (sweep --gather),
+                         its spread plots
   --out REPORT.html      (report) the report file (default: the run file's name with .html)
 `;
 
@@ -151,7 +153,7 @@ function exitCodeFor(e: EngineError): number {
 /** Run the command line; resolves to the exit code. */
 export async function main(argv: readonly string[], io: CliIO): Promise<number> {
   if (argv[0] === 'rerun') return rerun(argv.slice(1), io);
-  if (argv[0] === 'sweep') return sweep(argv.slice(1), io);
+  if (argv[0] === 'sweep') return isBatchSweep(argv.slice(1)) ? batchSweep(argv.slice(1), io) : sweep(argv.slice(1), io);
   if (argv[0] === 'compare') return compareCommand(argv.slice(1), io);
   if (argv[0] === 'report') return reportCommand(argv.slice(1), io);
   let args: ReturnType<typeof parseArgs>;
