@@ -10,7 +10,8 @@ import { LibraryError, RunLibrary, estimateSize, type SavedRunMeta } from '../li
 import type { LoadedScenario, OutputSample } from '../../worker/protocol.ts';
 import { CompareView, type CompareChoice } from '../compare/compare-view.ts';
 import { button, el, shortDate } from './dom.ts';
-import { download, fileBytes, fileSafe } from './files.ts';
+import { download, fileSafe } from './files.ts';
+import { pickedBytes } from '../picked-file.ts';
 import { LiveRun, snapshotChoices } from './live-run.ts';
 import { RunView } from './run-view.ts';
 
@@ -396,7 +397,7 @@ export class LibraryPage {
   private async importFile(file: File): Promise<void> {
     if (!this.lib) return;
     try {
-      const meta = await this.lib.importNetcdf(await fileBytes(file), file.name, { name: `${file.name.replace(/\.nc$/i, '')} (imported)`, notes: `imported from ${file.name}` });
+      const meta = await this.lib.importNetcdf(await pickedBytes(file, 'runFile'), file.name, { name: `${file.name.replace(/\.nc$/i, '')} (imported)`, notes: `imported from ${file.name}` });
       this.say(`Imported '${meta.name}' from ${file.name}.`, 'info');
       await this.refresh();
     } catch (e) {
