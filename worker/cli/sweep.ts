@@ -18,7 +18,8 @@ export const SWEEP_USAGE = `pycno sweep SCENARIO.json --vary path=v1,v2,... [--v
 `;
 export const SWEEP_HELP = `  sweep                  every combination of the --vary values: one run (DIR/run-NNN.nc) each, in
                          parallel on the local cores (--jobs N, default the number of cores), and
-                         DIR/index.csv + DIR/index.json with the values and the final diagnostics
+                         DIR/index.csv + DIR/index.json with the values and the final diagnostics;
+                         Ctrl-C stops it (exit 130) with the index and each member's status
   --list                 (sweep) print one 'pycno run' line per combination instead, for a job array
                          or GNU parallel; every member is checked first, and none is run or listed
                          when one cannot run
