@@ -3,7 +3,7 @@
 // started from one continues bit for bit. A run's output file can also serve as a start, less
 // exactly: its last record, single precision, face velocities averaged from the cell centres.
 
-import { InputError } from '../errors.ts';
+import { formatLat, formatLon, InputError } from '../errors.ts';
 import type { Grid } from '../grid.ts';
 import { placeOfIndex, staggeringOf } from '../grid-place.ts';
 import { MAX_LAYER_THICKNESS, RUNAWAY_SPEED } from '../health-limits.ts';
@@ -343,7 +343,7 @@ export function readStartFile(bytes: Uint8Array, grid: Grid, source = 'the resta
   const uC = last('u');
   const vC = last('v');
   const wet = (x: number) => Number.isFinite(x) && x !== OUTPUT_FILL && Math.abs(x) < 1e30;
-  const centre = (k: number) => `${lon[k % grid.nx]}°E, ${lat[Math.floor(k / grid.nx)]}°N, in the last record`;
+  const centre = (k: number) => `${formatLon(lon[k % grid.nx])}, ${formatLat(lat[Math.floor(k / grid.nx)])}, in the last record`;
   for (const [name, values, bound, what] of [['u', uC, RUNAWAY_SPEED, SPEED_BOUND], ['v', vC, RUNAWAY_SPEED, SPEED_BOUND], ['h_anom', hC, MAX_LAYER_THICKNESS, DEPTH_BOUND]] as const) {
     for (let k = 0; k < cells; k++) {
       if (wet(values[k]) && Math.abs(values[k]) > bound) fail(source, `variable '${name}' has ${values[k]} at ${centre(k)}; ${what}`);

@@ -34,9 +34,16 @@ export function formatIssue(issue: ScenarioIssue): string {
   const parts: string[] = [];
   if (issue.file) parts.push(issue.file);
   if (issue.line !== undefined) parts.push(issue.column !== undefined ? `line ${issue.line}, column ${issue.column}` : `line ${issue.line}`);
-  if (issue.path) parts.push(issue.path);
+  if (issue.path) parts.push(shortText(issue.path, 200));
   parts.push(issue.message);
   return clipLine(parts.join(': '));
+}
+
+/** A name or path of a message, cut in the middle when longer than `max` characters (a hostile key can be megabytes). */
+export function shortText(text: string, max = 60): string {
+  if (text.length <= max) return text;
+  const keep = Math.floor((max - 5) / 2);
+  return `${text.slice(0, keep)} ... ${text.slice(-keep)} (${text.length.toLocaleString('en-US')} characters)`;
 }
 
 /** Problem lines shown for one scenario, in the page and on the command line alike; then a count. */

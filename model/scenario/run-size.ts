@@ -39,7 +39,9 @@ export function runSizeRefusal(d: Pick<DerivedNumbers, 'dt' | 'steps' | 'outputs
   const dt = `dt = ${short(d.dt)} s`;
   if (!(d.dt > 0) || !Number.isFinite(d.dt)) return `the time step comes out as ${d.dt} s; the run cannot start (check time.dtSeconds and time.outputEveryDays)`;
   if (!Number.isSafeInteger(d.steps)) {
-    return `the run would take ${count(d.steps)} time steps (${dt} for ${days} days), more than can be counted exactly; it cannot run: ${advice(autoDt)}`;
+    // The step count itself may have overflowed to Infinity (or NaN): say the run length over dt.
+    const steps = Number.isFinite(d.steps) ? d.steps : (days * 86400) / d.dt;
+    return `the run would take ${count(steps)} time steps (${dt} for ${days} days), more than can be counted exactly; it cannot run: ${advice(autoDt)}`;
   }
   if (d.steps < 1) return `the run of ${days} days is shorter than one time step (${dt}); it would not run at all`;
   if (!(d.outputs <= MAX_RECORDS)) {
@@ -62,7 +64,7 @@ function advice(autoDt: number | undefined): string {
 
 /** The refusal for a spin-up run of `steps` steps of dt seconds over `days` days, or null. */
 export function spinupSizeRefusal(steps: number, dt: number, days: number, allow: RunAllowance = {}): string | null {
-  if (!Number.isSafeInteger(steps)) return `the spin-up would take ${count(steps)} time steps (dt = ${short(dt)} s for ${days} days); it cannot run`;
+  if (!Number.isSafeInteger(steps)) return `the spin-up would take ${count(Number.isFinite(steps) ? steps : (days * 86400) / dt)} time steps (dt = ${short(dt)} s for ${days} days); it cannot run`;
   if (steps > MAX_STEPS && !allow.longRun) {
     return `the spin-up takes ${count(steps)} time steps (dt = ${short(dt)} s for ${days} days), above the cap of ${count(MAX_STEPS)} steps: shorten initial.days, or ask for it with ${ALLOW_LONG_RUN}`;
   }

@@ -9,7 +9,7 @@
 // unknown keys get a "did you mean ...?", the one costly part (an edit distance to every allowed
 // key). Where no branch applies the object is left as it is: the validator says why.
 
-import { pathToString, type PathSegment, type ScenarioIssue } from './errors.ts';
+import { pathToString, shortText, type PathSegment, type ScenarioIssue } from './errors.ts';
 import { chooseBranch, deref, hasOwn, isPlainObject, scenarioSchema, type SchemaNode } from './schema.ts';
 import { didYouMean } from './suggest.ts';
 
@@ -27,11 +27,12 @@ export interface SuggestionBudget {
  * file's thousands, of which only a count is shown) just name the key.
  */
 export function unknownKeyIssue(segments: readonly PathSegment[], key: string, allowed: readonly string[], allowedText: string, budget: SuggestionBudget, parent = pathToString(segments)): ScenarioIssue {
-  const where = parent === '' ? 'at the top level' : `in ${parent}`;
+  const where = parent === '' ? 'at the top level' : `in ${shortText(parent, 200)}`;
   const path = parent === '' ? key : `${parent}.${key}`;
-  if (budget.left <= 0) return { path, message: `unknown key '${key}' ${where}` };
+  const name = shortText(key);
+  if (budget.left <= 0) return { path, message: `unknown key '${name}' ${where}` };
   budget.left--;
-  return { path, message: `unknown key '${key}' ${where}${didYouMean(key, allowed)} (allowed: ${allowedText})` };
+  return { path, message: `unknown key '${name}' ${where}${key.length <= 200 ? didYouMean(key, allowed) : ''} (allowed: ${allowedText})` };
 }
 
 /** The schema node that applies to a value: $refs followed, the oneOf branch chosen; null when none applies. */
