@@ -9,6 +9,7 @@ import { availableParallelism } from 'node:os';
 import { join, resolve as resolvePath } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import type { CliIO } from './io.ts';
+import { clipLine } from '../../model/scenario/errors.ts';
 import { readJsonNumber } from '../../model/scenario/parse.ts';
 import type { RunAllowance } from '../../model/scenario/run-size.ts';
 import { OutputRefused, OutputWriteError, planOutput, writeWhole } from './output-file.ts';
@@ -102,7 +103,7 @@ export async function sweep(argv: readonly string[], io: CliIO): Promise<number>
     plan = parseSweep(argv);
   } catch (e) {
     if (!(e instanceof SweepUsage)) throw e;
-    io.stderr.write(`pycno sweep: ${e.message}\nusage: ${SWEEP_USAGE}`);
+    io.stderr.write(`pycno sweep: ${clipLine(e.message)}\nusage: ${SWEEP_USAGE}`);
     return 2;
   }
   const runs = sweepRuns(plan);
