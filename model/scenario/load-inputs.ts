@@ -16,10 +16,8 @@ import { issueListLines, ScenarioError, type ScenarioIssue } from './errors.ts';
 export { MAX_ISSUE_LINES } from './errors.ts';
 import { applyOverrides } from './overrides.ts';
 import { parseScenarioText, type TextPosition } from './parse.ts';
-import { chooseTimeStep } from '../dynamics/stability.ts';
-import { derivedNumbers } from './derived.ts';
 import { resolveScenario, type ResolvedScenario } from './resolve.ts';
-import { runSizeRefusal, spinupSizeRefusal, type RunAllowance } from './run-size.ts';
+import { scenarioRunRefusal, spinupSizeRefusal, type RunAllowance } from './run-size.ts';
 import type { Scenario } from './types.ts';
 import { validateScenario } from './validate.ts';
 
@@ -76,9 +74,7 @@ export function parseScenario(text: string, fileName: string, sets: readonly str
   }
   // A run that cannot run, or one above the caps that was not asked for, stops here, before
   // anything is read or built.
-  const d = derivedNumbers(resolved);
-  const t = resolved.model.time;
-  const refusal = runSizeRefusal(d, resolved.days, resolved.outputFields.length, options.allow, d.dtIsAuto ? undefined : chooseTimeStep(d.stability, null, t.safety, t.alignTo));
+  const refusal = scenarioRunRefusal(resolved, options.allow);
   if (refusal) throw new InputError(refusal, `${fileName}: time`);
   return { fileName, scenario, resolved, scenarioJson: JSON.stringify(scenario, null, 2) };
 }

@@ -8,7 +8,9 @@
 // The message says the number, the cap and the flag. Checked by parseScenario for every run,
 // check, rerun, sweep member and page load, and for a spin-up's own run (load-inputs.ts).
 
-import type { DerivedNumbers } from './derived.ts';
+import { chooseTimeStep } from '../dynamics/stability.ts';
+import { derivedNumbers, type DerivedNumbers } from './derived.ts';
+import type { ResolvedScenario } from './resolve.ts';
 
 /** Steps above which a run must be asked for with --allow-long-run (about 4 hours on one core at 28,000 cells). */
 export const MAX_STEPS = 10_000_000;
@@ -60,6 +62,12 @@ export function runSizeRefusal(d: Pick<DerivedNumbers, 'dt' | 'steps' | 'outputs
 function advice(autoDt: number | undefined): string {
   if (autoDt !== undefined && Number.isFinite(autoDt) && autoDt > 0) return `use a longer time step (time.dtSeconds "auto" gives ${short(autoDt)} s here) or fewer days`;
   return 'use coarser cells (basin.resolution) or fewer days';
+}
+
+/** The refusal of a resolved scenario's run (its derived numbers), or null: what parseScenario and the page's panel check. */
+export function scenarioRunRefusal(r: ResolvedScenario, allow: RunAllowance = {}, d: DerivedNumbers = derivedNumbers(r)): string | null {
+  const t = r.model.time;
+  return runSizeRefusal(d, r.days, r.outputFields.length, allow, d.dtIsAuto ? undefined : chooseTimeStep(d.stability, null, t.safety, t.alignTo));
 }
 
 /** The refusal for a spin-up run of `steps` steps of dt seconds over `days` days, or null. */

@@ -17,6 +17,7 @@ import { OUTPUT_FILL } from '../../model/io/run-output.ts';
 import { Model } from '../../model/model.ts';
 import { MAX_OUTPUT_BYTES, MAX_STEPS } from '../../model/scenario/run-size.ts';
 import { State } from '../../model/state.ts';
+import { checkEdited } from '../../viewer/panels/scenario-panel.ts';
 import { Engine } from '../../worker/engine.ts';
 import { basin, config } from '../physics/setup.ts';
 import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
@@ -103,6 +104,17 @@ describe('above the caps a run must be asked for, and the message says the cap a
     expect(listed.code, listed.stderr).toBe(0);
     expect(listed.stdout.trim().split('\n')).toHaveLength(2);
     for (const line of listed.stdout.trim().split('\n')) expect(line).toMatch(/ --allow-long-run$/);
+  });
+
+  it("the page's scenario panel says it as the values are typed, and Apply stays off", () => {
+    const edited = { ...scenario, time: { ...scenario.time, days: 4, dtSeconds: 0.001 } };
+    const check = checkEdited(edited);
+    expect(check.valid).toBe(false);
+    expect(check.issues).toHaveLength(1);
+    expect(check.issues[0].path).toBe('time');
+    expect(check.issues[0].message).toMatch(/^the run takes 345,600,000 time steps .*--allow-long-run .*the page runs no more than the cap\)$/);
+    expect(check.derived?.steps).toBe(345_600_000);
+    expect(checkEdited({ ...scenario, time: { ...scenario.time, days: 4 } }).valid).toBe(true);
   });
 
   it("the page's engine (the same Engine, here in Node) refuses it with the same clear message", async () => {

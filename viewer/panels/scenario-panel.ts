@@ -4,6 +4,7 @@
 
 import { issueListLines } from '../../model/scenario/errors.ts';
 import { derivedNumbers, resolveScenario, validateScenario, validateScenarioText, type DerivedNumbers, type ScenarioIssue } from '../../model/scenario/index.ts';
+import { scenarioRunRefusal } from '../../model/scenario/run-size.ts';
 import { scenarioSchema, type SchemaNode } from '../../model/scenario/schema.ts';
 import { formatValue } from './colour-bar.ts';
 
@@ -83,7 +84,13 @@ export interface PanelResult {
 export function checkEdited(json: Json): PanelResult {
   const r = validateScenario(json);
   if (!r.ok) return { valid: false, issues: r.errors, derived: null };
-  return { valid: true, issues: [], derived: derivedNumbers(resolveScenario(r.scenario)) };
+  const resolved = resolveScenario(r.scenario);
+  const derived = derivedNumbers(resolved);
+  // A run the engine would refuse (above the caps on steps or output; the page asks for no more) is
+  // said here already, with the same words, and cannot be applied.
+  const refusal = scenarioRunRefusal(resolved, {}, derived);
+  if (refusal) return { valid: false, issues: [{ path: 'time', message: refusal }], derived };
+  return { valid: true, issues: [], derived };
 }
 
 export class ScenarioPanel {
