@@ -1,4 +1,5 @@
-import { defineConfig } from 'vite';
+import { defineConfig, type Plugin } from 'vite';
+import { devPolicy, metaPolicy, pagePolicy } from './viewer/page-policy.ts';
 
 // Cross-origin isolation lets the engine share buffers with the page when it wants to.
 const isolation = {
@@ -6,28 +7,17 @@ const isolation = {
   'Cross-Origin-Embedder-Policy': 'require-corp',
 };
 
-/**
- * The Content-Security-Policy the page is served with (docs/reliability.md). Nothing inline, every
- * script and worker from the page's own origin, WebAssembly compiled from our embedded kernel.
- * 'unsafe-eval' is there for one reason only: regl builds its draw commands with Function at run
- * time (node_modules/regl/dist/regl.js, the Function.apply in its code generator); the browser
- * test test/browser/csp.test.ts proves that nothing else in the page or the engine needs it.
- */
-export const pagePolicy = [
-  "default-src 'self'",
-  "script-src 'self' 'wasm-unsafe-eval' 'unsafe-eval'",
-  "worker-src 'self'",
-  "style-src 'self'",
-  "img-src 'self' blob:",
-  "object-src 'none'",
-  "base-uri 'none'",
-  "form-action 'none'",
-  "frame-ancestors 'none'",
-].join('; ');
+// The Content-Security-Policy has one source, viewer/page-policy.ts: the built page carries it in
+// a meta tag (everything a meta tag can carry), the preview and dev servers send it as a header
+// (with frame-ancestors, which only a header can carry). docs/reliability.md and docs/viewer.md.
+export { pagePolicy };
 
-// The dev server injects its CSS as <style> elements and talks to the page over a WebSocket
-// ('self' covers ws: on the same host), so it needs inline styles; nothing else changes.
-const devPolicy = pagePolicy.replace("style-src 'self'", "style-src 'self' 'unsafe-inline'");
+/** The policy as the first element of the built page's <head>, before any script or style. */
+const policyInPage: Plugin = {
+  name: 'pycno-page-policy',
+  apply: 'build',
+  transformIndexHtml: () => [{ tag: 'meta', attrs: { 'http-equiv': 'Content-Security-Policy', content: metaPolicy }, injectTo: 'head-prepend' }],
+};
 
 export default defineConfig({
   root: 'viewer',
@@ -35,6 +25,7 @@ export default defineConfig({
   build: { outDir: '../dist/viewer', emptyOutDir: true },
   worker: { format: 'es' },
   optimizeDeps: { include: ['comlink', 'seedrandom', 'regl'] },
+  plugins: [policyInPage],
   server: { headers: { ...isolation, 'Content-Security-Policy': devPolicy } },
   preview: { headers: { ...isolation, 'Content-Security-Policy': pagePolicy } },
 });

@@ -4,6 +4,8 @@
 import type { PhysicsConfig } from './config.ts';
 import { InputError } from './errors.ts';
 import type { Grid } from './grid.ts';
+import { placeOfIndex, staggeringOf } from './grid-place.ts';
+import { MAX_LAYER_THICKNESS, RUNAWAY_SPEED } from './health-limits.ts';
 import { State } from './state.ts';
 import * as pm from './portable-math.ts';
 import { equatorialBeta, equatorialRadius, waveSpeed } from './theory.ts';
@@ -82,27 +84,44 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
   return s;
 }
 
-/** A state with a NaN or infinity in it, or with no layer left somewhere, is refused before the first step. */
-export function checkInitial(grid: Grid, physics: PhysicsConfig, s: State): void {
-  const at = (k: number) => {
-    const j = Math.floor(k / grid.W) - 1;
-    const i = (k % grid.W) - 1;
-    return `grid point i=${i}, j=${j}`;
+/**
+ * A start state is refused before the first step when a value is not finite, lies outside the
+ * bounds of a sane state (health-limits.ts: a current faster than a run may have, a layer thicker
+ * than the ocean is deep, or none at all), or when its multistep tendencies would carry a value
+ * past those bounds in one step of dt seconds. The message names the variable and the place.
+ */
+export function checkInitial(grid: Grid, physics: PhysicsConfig, s: State, dt?: number): void {
+  const H = physics.layerThickness;
+  const refuse = (name: "h'" | 'u' | 'v', a: Float64Array, k: number, what: string): never => {
+    throw new InputError(`the initial state has ${name} = ${a[k]} at ${placeOfIndex(grid, k, name === "h'" ? 'centre' : staggeringOf(name))}: ${what}`, 'initial');
   };
-  for (const [name, a] of [['h', s.h], ['u', s.u], ['v', s.v]] as const) {
+  for (const [name, a] of [["h'", s.h], ['u', s.u], ['v', s.v]] as const) {
+    for (let k = 0; k < a.length; k++) if (!Number.isFinite(a[k])) refuse(name, a, k, 'a start must be finite');
+  }
+  for (const [name, a] of [['u', s.u], ['v', s.v]] as const) {
     for (let k = 0; k < a.length; k++) {
-      if (!Number.isFinite(a[k])) throw new InputError(`the initial state has a non-finite ${name} (${a[k]}) at ${at(k)}`, 'initial');
+      if (Math.abs(a[k]) > RUNAWAY_SPEED) refuse(name, a, k, `a start must be slower than ${RUNAWAY_SPEED} m/s, the speed at which a run is stopped as blown up`);
     }
   }
   for (let k = 0; k < s.h.length; k++) {
-    const thick = physics.layerThickness + s.h[k];
+    if (H + s.h[k] > MAX_LAYER_THICKNESS) refuse("h'", s.h, k, `a layer of ${H} m plus this anomaly is thicker than any ocean is deep (at most ${MAX_LAYER_THICKNESS} m)`);
+    const thick = H + s.h[k];
     if (grid.ocean[k] && thick <= 0) {
-      const j = Math.floor(k / grid.W) - 1;
-      const i = (k % grid.W) - 1;
-      throw new InputError(
-        `the initial state leaves no upper layer (thickness ${thick.toFixed(1)} m) at ${grid.lonCentre[i]}°E, ${grid.latCentre[j]}°N; h' must stay above -H = -${physics.layerThickness} m`,
-        'initial',
-      );
+      throw new InputError(`the initial state leaves no upper layer (thickness ${thick.toFixed(1)} m) at ${placeOfIndex(grid, k, 'centre')}; h' must stay above -H = -${H} m`, 'initial');
+    }
+  }
+  if (dt === undefined || !(dt > 0)) return;
+  for (let n = 0; n < s.historyCount; n++) {
+    for (const [key, name, bound, unit] of [['du', 'du', RUNAWAY_SPEED, 'm/s'], ['dv', 'dv', RUNAWAY_SPEED, 'm/s'], ['dh', 'dh', MAX_LAYER_THICKNESS, 'm']] as const) {
+      const a = s.history[key][n];
+      for (let k = 0; k < a.length; k++) {
+        if (!(Math.abs(a[k]) * dt <= bound)) {
+          throw new InputError(
+            `the initial state's tendency ${name} (${n === 0 ? 'one step' : 'two steps'} back) is ${a[k]} at ${placeOfIndex(grid, k, staggeringOf(name))}: one step of ${dt} s would change it by more than ${bound} ${unit}`,
+            'initial',
+          );
+        }
+      }
     }
   }
 }

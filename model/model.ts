@@ -17,14 +17,15 @@ import { anomalySum, integrals, type Integrals } from './diagnostics/integrals.t
 import { BlowUpError, InputError } from './errors.ts';
 import { calm, type WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
+import { RUNAWAY_SPEED } from './health-limits.ts';
 import { checkInitial, initialState, type InitialSpec } from './initial.ts';
 import { State } from './state.ts';
 import { StripTeam, type StripHost, type TeamOptions } from './parallel/team.ts';
 import { checkThreadsOption, chooseThreads, type ThreadChoice, type ThreadsOption } from './parallel/threads.ts';
 import { wasmStripsAvailable } from './parallel/wasm-strips.ts';
 
-/** Flow faster than this is not an ocean any more (a blow-up), m s-1. */
-export const RUNAWAY_SPEED = 20;
+/** Flow faster than this is not an ocean any more (a blow-up), m s-1 (health-limits.ts). */
+export { RUNAWAY_SPEED } from './health-limits.ts';
 /** Steps between health scans; a blow-up grows exponentially, so it is caught within a few. */
 const HEALTH_EVERY = 10;
 
@@ -112,7 +113,7 @@ export class Model {
       if (init.grid.nx !== this.grid.nx || init.grid.ny !== this.grid.ny) {
         throw new InputError(`the restart state is on a ${init.grid.nx} x ${init.grid.ny} grid, the scenario on ${this.grid.nx} x ${this.grid.ny}`, 'initial');
       }
-      checkInitial(this.grid, p, init);
+      checkInitial(this.grid, p, init, this.dt);
       this.state = new State(this.grid);
       this.state.copyFrom(init);
     } else {
@@ -321,6 +322,8 @@ export class Model {
         if (Number.isNaN(thick) || Number.isNaN(speed)) {
           this.blowUp('not-a-number', i, j, 'the solution became NaN', this.stabilityHint());
         }
+        // An infinite thickness is no layer either (a thickness of +Infinity passes "<= 0").
+        if (thick === Infinity) this.blowUp('not-a-number', i, j, 'the layer thickness became infinite', this.stabilityHint());
         if (thick <= 0) {
           this.blowUp(
             'layer-vanished',

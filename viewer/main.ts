@@ -12,6 +12,7 @@ import { HovmollerPanel } from './panels/hovmoller.ts';
 import { ProbePanel } from './panels/probes.ts';
 import { RunTotals } from './panels/run-totals.ts';
 import { ScenarioPanel } from './panels/scenario-panel.ts';
+import { pickedScenarioText } from './picked-file.ts';
 import { WindPanel } from './wind/wind-panel.ts';
 import { LibraryPage } from './library-panel/library-page.ts';
 import { fieldChecksum } from './wind/checksum.ts';
@@ -308,6 +309,14 @@ function defaultStart(sc: { wind?: { parts?: unknown[] } }): { lon: number; day:
   return null;
 }
 
+
+/** A picked or dropped scenario file: size and encoding checked as on the command line (picked-file.ts). */
+async function openFile(file: File): Promise<void> {
+  const r = await pickedScenarioText(file);
+  if (r.ok) return openText(r.text, file.name);
+  clearMessages();
+  message(`${file.name}: ${r.message}`);
+}
 
 async function openText(text: string, fileName: string): Promise<void> {
   clearMessages();
@@ -711,7 +720,7 @@ pickScenario.addEventListener('change', () => {
 $<HTMLInputElement>('scenario-file').addEventListener('change', async (ev) => {
   const input = ev.target as HTMLInputElement;
   const file = input.files?.[0];
-  if (file) await openText(await file.text(), file.name);
+  if (file) await openFile(file);
   input.value = '';
 });
 document.addEventListener('dragover', (ev) => {
@@ -725,7 +734,7 @@ document.addEventListener('drop', async (ev) => {
   ev.preventDefault();
   document.body.classList.remove('dropping');
   const file = ev.dataTransfer?.files?.[0];
-  if (file) await openText(await file.text(), file.name);
+  if (file) await openFile(file);
 });
 
 // PNG export: the map with its overlay, the colour bar, the Hovmoller diagram and the probe chart.

@@ -23,6 +23,7 @@ import {
   type ParsedScenario,
   type PreparedInputs,
 } from '../model/scenario/load-inputs.ts';
+import type { RunAllowance } from '../model/scenario/run-size.ts';
 import { realHost, SlicePlanner, type EngineHost } from './pacing.ts';
 import type { EngineError, EngineReport, EngineStatus, Frame, GridInfo, LoadedScenario, LoadResult, OutputSample } from './protocol.ts';
 
@@ -57,6 +58,8 @@ export interface LoadOptions {
   onSpinup?: (file: string, day: number, endDay: number) => void;
   /** Threads for the linear step of this run (overrides the engine's default). */
   threads?: ThreadsOption;
+  /** Runs beyond the caps on steps and output size that the user asked for (the page asks for none). */
+  allow?: RunAllowance;
 }
 
 /** The text a user sees for any failure, the same in the page and the command line. */
@@ -161,14 +164,14 @@ export class Engine {
     this.pending = [];
     this.error = null;
     try {
-      const parsed = parseScenario(text, fileName, options.sets ?? []);
+      const parsed = parseScenario(text, fileName, options.sets ?? [], { allow: options.allow });
       let inputs: PreparedInputs;
       if (options.startState) {
         inputs = { files: new Map(), startState: options.startState, notes: ['start from a given state'] };
         const files = await loadInputs({ ...parsed, resolved: { ...parsed.resolved, initial: { kind: 'rest' } } }, this.readerFor(options));
         inputs.files = files.files;
       } else {
-        inputs = await loadInputs(parsed, this.readerFor(options), { onSpinup: options.onSpinup });
+        inputs = await loadInputs(parsed, this.readerFor(options), { onSpinup: options.onSpinup, allow: options.allow });
       }
       this.run = this.prepare(parsed, inputs);
       this.threadsAsked = options.threads ?? this.strips?.threads ?? 1;
@@ -212,9 +215,9 @@ export class Engine {
   private readerFor(options: LoadOptions): InputReader {
     const fromMap = options.files ? mapReader(options.files) : null;
     const reader = options.reader;
-    return async (path) => {
-      if (fromMap && options.files!.has(path)) return fromMap(path);
-      if (reader) return reader(path);
+    return async (path, limit) => {
+      if (fromMap && options.files!.has(path)) return fromMap(path, limit);
+      if (reader) return reader(path, limit);
       throw new Error('the file was not provided (give its contents with the scenario)');
     };
   }

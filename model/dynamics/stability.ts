@@ -129,7 +129,8 @@ export function chooseTimeStep(limit: StabilityLimit, requested: number | null, 
   const interval = alignTo && alignTo > 0 && Number.isFinite(alignTo) ? alignTo : 0;
   if (requested === null) {
     const dt = safety * limit.dtMax;
-    if (interval > 0) return interval / Math.ceil(interval / dt - 1e-9);
+    // At least one step per interval: an interval far below the limit is then one step long.
+    if (interval > 0) return interval / Math.max(1, Math.ceil(interval / dt - 1e-9));
     return dt;
   }
   if (!(requested > 0) || !Number.isFinite(requested)) {

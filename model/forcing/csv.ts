@@ -8,14 +8,21 @@
 // One row per grid point (and day). Longitudes and latitudes must each be evenly spaced and every
 // combination must be present exactly once, so the rows form a regular grid.
 
+import { decodeUtf8Text, TextEncodingError } from '../io/text-decode.ts';
 import { ForcingError } from './errors.ts';
 import type { GriddedSeries } from './gridded.ts';
 
 const REQUIRED = ['lon', 'lat', 'x', 'y'] as const;
 
-/** A field as quoted in a message: long ones are cut, so a hostile file cannot fill the screen. */
-function quote(field: string): string {
-  return field.length > 40 ? `${field.slice(0, 40)}... (${field.length} characters)` : field;
+// Messages name the line and column and say what is wrong, but never repeat the file's text: a
+// path in a scenario (or in a run file from someone else) can name any readable file as a wind
+// file, and its contents are nobody's business. Numbers are shown once read as numbers.
+
+/** "empty" or "not a number (12 characters)": what a field is, without its text. */
+function notNumber(field: string, value: number): string {
+  if (field === '') return 'is empty; every field must hold a number';
+  const size = `a field of ${field.length} character${field.length === 1 ? '' : 's'}`;
+  return Number.isNaN(value) ? `is not a number (${size})` : `is too large for a number (${size})`;
 }
 const COLUMNS = new Set(['lon', 'lat', 'day', 'x', 'y']);
 
@@ -43,7 +50,13 @@ function regular(what: string, d: { v: number[]; line: number[] }): { start: num
 }
 
 export function parseWindCsv(content: string | Uint8Array): GriddedSeries {
-  const text = typeof content === 'string' ? content : new TextDecoder('utf-8').decode(content);
+  let text: string;
+  try {
+    text = typeof content === 'string' ? content : decodeUtf8Text(content);
+  } catch (e) {
+    if (e instanceof TextEncodingError) throw new ForcingError(`CSV: ${e.message}`);
+    throw e;
+  }
   const lines = text.split(/\r\n|\n|\r/);
   let header: string[] | null = null;
   let headerLine = 0;
@@ -60,9 +73,9 @@ export function parseWindCsv(content: string | Uint8Array): GriddedSeries {
       headerLine = lineNo;
       header.forEach((name, k) => {
         if (!COLUMNS.has(name)) {
-          throw new ForcingError(`CSV line ${lineNo}: unknown column '${quote(fields[k])}' in the header; expected lon, lat, x, y and optionally day`);
+          throw new ForcingError(`CSV line ${lineNo}, column ${k + 1}: the header names a column other than lon, lat, x, y and day (the first line that is not blank or a # comment must be the header lon,lat,x,y or lon,lat,day,x,y)`);
         }
-        if (name in col) throw new ForcingError(`CSV line ${lineNo}: column '${quote(name)}' appears twice in the header`);
+        if (name in col) throw new ForcingError(`CSV line ${lineNo}, column ${k + 1}: column '${name}' appears twice in the header`);
         col[name] = k;
       });
       for (const r of REQUIRED) if (!(r in col)) throw new ForcingError(`CSV line ${lineNo}: the header has no '${r}' column (expected lon, lat, x, y and optionally day)`);
@@ -73,7 +86,7 @@ export function parseWindCsv(content: string | Uint8Array): GriddedSeries {
     }
     const row = fields.map((f, k) => {
       const v = f === '' ? NaN : Number(f);
-      if (!Number.isFinite(v)) throw new ForcingError(`CSV line ${lineNo}, column '${header![k]}': '${quote(f)}' is not a number`);
+      if (!Number.isFinite(v)) throw new ForcingError(`CSV line ${lineNo}, column ${k + 1} ('${header![k]}'): the value ${notNumber(f, v)}`);
       return v;
     });
     rows.push(row);

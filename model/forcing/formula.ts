@@ -201,6 +201,29 @@ const BINARY = new Map<string, (a: Closure, b: Closure) => Closure>([
   ['||', (a, b) => (x, y, t) => (a(x, y, t) !== 0 || b(x, y, t) !== 0 ? 1 : 0)],
 ]);
 
+/**
+ * Operators of one precedence, left-associative: a chain such as 1 + 2 - 3 + ... is one level
+ * deep, however long, so the depth limit counts nesting, not terms (the length limit bounds the
+ * chain; evaluating it nests one closure per term, well within any stack).
+ */
+const CHAIN_CLASS = new Map<string, number>([
+  ['+', 1],
+  ['-', 1],
+  ['*', 2],
+  ['/', 2],
+  ['<', 3],
+  ['<=', 3],
+  ['>', 3],
+  ['>=', 3],
+  ['==', 4],
+  ['!=', 4],
+  ['&&', 5],
+  ['||', 6],
+]);
+
+/** Words of JavaScript that a formula might borrow; none is part of the formula language. */
+const JS_WORDS = new Set(['new', 'typeof', 'instanceof', 'in', 'return', 'delete', 'void', 'function', 'var', 'let', 'const', 'class', 'import', 'export', 'await', 'async', 'yield', 'throw', 'super', 'with', 'eval', 'Function']);
+
 /** Operators jsep knows that we refuse, with a hint where there is an obvious alternative. */
 const BINARY_HINTS = new Map<string, string>([
   ['===', "use '=='"],
@@ -252,7 +275,6 @@ function describe(node: Expr): string {
       return "'this' is not allowed";
     case 'ArrayExpression':
       return 'lists [ ... ] are not allowed';
-    case 'Compound':
     case 'SequenceExpression':
       return 'a formula must be a single expression (found several separated by commas or semicolons)';
     default:
@@ -330,6 +352,7 @@ export function compileFormula(source: string): CompiledFormula {
         const c = CONSTANTS.get(name);
         if (c !== undefined) return constant(c);
         if (FUNCTIONS.has(name)) return fail(`'${name}' is a function: write ${name}( ... )`, node);
+        if (JS_WORDS.has(name)) return fail(`unknown name '${name}' (a word of JavaScript; formulas know only numbers, lon, lat, t, pi, e, operators and the functions of docs/wind.md)`, node);
         return fail(`unknown name '${name}'`, node);
       }
       case 'UnaryExpression': {
@@ -356,7 +379,9 @@ export function compileFormula(source: string): CompiledFormula {
         }
         const make = BINARY.get(op);
         if (!make) return fail(`operator '${op}' is not allowed`, left);
-        const a = build(left, level + 1);
+        // Along a chain of one precedence (a + b - c + ...) the left operand is no deeper.
+        const chained = left.type === 'BinaryExpression' && CHAIN_CLASS.get(op) !== undefined && CHAIN_CLASS.get(left.operator as string) === CHAIN_CLASS.get(op);
+        const a = build(left, chained ? level : level + 1);
         const b = build(right, level + 1);
         const general = make(a, b);
         if (constantValue.has(a) && constantValue.has(b)) return folded(general, [a, b]);
@@ -392,6 +417,19 @@ export function compileFormula(source: string): CompiledFormula {
         }
         const built = args.map((a) => build(a, level + 1));
         return folded(entry.make(built), built);
+      }
+      case 'Compound': {
+        // jsep reads "new Date()" or "lat lon" as several expressions side by side; say which
+        // word or what is missing, and where, rather than that there are several.
+        const body = node.body as Expr[];
+        const second = startOf(body[1]);
+        let before = second - 1;
+        while (before >= 0 && /\s/.test(source[before])) before--;
+        if (before >= 0 && (source[before] === ',' || source[before] === ';')) {
+          throw new FormulaError(`a formula must be a single expression (found several separated by commas or semicolons) at character ${before}`, before);
+        }
+        build(body[0], level + 1); // an unknown name or word first is the mistake
+        throw new FormulaError(`an operator is missing before character ${second} (a formula is one expression: two values side by side need + - * / or ^ between them)`, second);
       }
       default:
         return fail(describe(node), node);

@@ -259,7 +259,15 @@ export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptio
     const content = files.get(src.path);
     if (content === undefined) throw new ForcingError(`the file '${src.path}' was not provided`);
     let series: GriddedSeries;
-    if (src.format === 'csv') series = parseWindCsv(content);
+    if (src.format === 'csv') {
+      try {
+        series = parseWindCsv(content);
+      } catch (e) {
+        // The message names the file; the file's own text is never repeated (csv.ts).
+        if (e instanceof ForcingError) throw new ForcingError(`the wind file ${src.path}: ${e.message}`);
+        throw e;
+      }
+    }
     else if (src.format === 'netcdf') {
       if (typeof content === 'string') throw new ForcingError(`the NetCDF file '${src.path}' must be given as bytes, not text`);
       series = readNetcdfVectors(content, { xVariable: src.xVariable, yVariable: src.yVariable });

@@ -3,8 +3,10 @@
 // started from one continues bit for bit. A run's output file can also serve as a start, less
 // exactly: its last record, single precision, face velocities averaged from the cell centres.
 
-import { InputError } from '../errors.ts';
+import { formatLat, formatLon, InputError } from '../errors.ts';
 import type { Grid } from '../grid.ts';
+import { placeOfIndex, staggeringOf } from '../grid-place.ts';
+import { MAX_LAYER_THICKNESS, RUNAWAY_SPEED } from '../health-limits.ts';
 import type { Model } from '../model.ts';
 import { Clock, type ClockSpec } from '../clock.ts';
 import { State } from '../state.ts';
@@ -157,17 +159,32 @@ function textAttribute(f: NcFile, name: string): string | undefined {
  * writes (and, with `finite`, every value finite): a retyped, reshaped or damaged variable must
  * never reach the model as a start.
  */
-function numeric(f: NcFile, source: string, name: string, type: NcTypeName, dims: readonly string[], kind: string, finite = true): Float64Array {
+function numeric(f: NcFile, source: string, name: string, type: NcTypeName, dims: readonly string[], kind: string, finite = true, where?: (k: number) => string): Float64Array {
   const v = f.variables.find((x) => x.name === name);
   if (!v) fail(source, `has no variable '${name}'; ${kind} holds it`);
   if (v.type !== type) fail(source, `variable '${name}' is ${v.type}; ${kind} has it as ${type}`);
   if (v.dimensions.join(',') !== dims.join(',')) fail(source, `variable '${name}' has dimensions (${v.dimensions.join(', ')}); ${kind} has it on (${dims.join(', ')})`);
   const values = v.values as Float64Array;
   if (finite) {
-    for (let k = 0; k < values.length; k++) if (!Number.isFinite(values[k])) fail(source, `variable '${name}' has ${values[k]} at index ${k}; a start must be finite`);
+    for (let k = 0; k < values.length; k++) {
+      if (!Number.isFinite(values[k])) fail(source, `variable '${name}' has ${values[k]} at index ${k}${where ? ` (${where(k)})` : ''}; a start must be finite`);
+    }
   }
   return values;
 }
+
+/**
+ * Refuse a prognostic field with a value beyond the bounds of a sane state (health-limits.ts),
+ * as a NaN is refused: 1e300 is as much a damaged file as NaN, and would make one at once.
+ */
+function withinBounds(source: string, name: string, values: ArrayLike<number>, bound: number, what: string, where: (k: number) => string): void {
+  for (let k = 0; k < values.length; k++) {
+    if (Math.abs(values[k]) > bound) fail(source, `variable '${name}' has ${values[k]} at index ${k} (${where(k)}); ${what}`);
+  }
+}
+
+const SPEED_BOUND = `a start must be slower than ${RUNAWAY_SPEED} m/s, the speed at which a run is stopped as blown up`;
+const DEPTH_BOUND = `a thermocline displaced by more than ${MAX_LAYER_THICKNESS} m is deeper than any ocean`;
 
 /** One number of a scalar variable (see numeric). */
 function scalarOf(f: NcFile, source: string, name: string, kind: string): number {
@@ -213,11 +230,18 @@ export function readRestart(bytes: Uint8Array, grid: Grid, source = 'the restart
   let differ = 0;
   for (let k = 0; k < grid.size; k++) if ((ocean[k] > 0 ? 1 : 0) !== grid.ocean[k]) differ++;
   if (differ > 0) fail(source, `was written with different land: ${differ} cells are land in one and ocean in the other`);
-  state.u.set(numeric(f, source, 'u', 'double', padded, RESTART));
-  state.v.set(numeric(f, source, 'v', 'double', padded, RESTART));
-  state.h.set(numeric(f, source, 'h', 'double', padded, RESTART));
+  const at = (name: string) => (k: number) => placeOfIndex(grid, k % grid.size, staggeringOf(name)) + (k >= grid.size ? `, history ${Math.floor(k / grid.size)}` : '');
+  const u = numeric(f, source, 'u', 'double', padded, RESTART, true, at('u'));
+  const v = numeric(f, source, 'v', 'double', padded, RESTART, true, at('v'));
+  const h = numeric(f, source, 'h', 'double', padded, RESTART, true, at('h'));
+  withinBounds(source, 'u', u, RUNAWAY_SPEED, SPEED_BOUND, at('u'));
+  withinBounds(source, 'v', v, RUNAWAY_SPEED, SPEED_BOUND, at('v'));
+  withinBounds(source, 'h', h, MAX_LAYER_THICKNESS, DEPTH_BOUND, at('h'));
+  state.u.set(u);
+  state.v.set(v);
+  state.h.set(h);
   for (const key of ['du', 'dv', 'dh'] as const) {
-    const both = numeric(f, source, key, 'double', ['history', ...padded], RESTART);
+    const both = numeric(f, source, key, 'double', ['history', ...padded], RESTART, true, at(key));
     state.history[key][0].set(both.subarray(0, grid.size));
     state.history[key][1].set(both.subarray(grid.size));
   }
@@ -260,6 +284,14 @@ function clockOf(f: NcFile, state: State, source: string): ClockSpec | null {
 function checkGrid(f: NcFile, grid: Grid, source: string): void {
   const nx = numberAttribute(f, 'pycno_nx');
   const ny = numberAttribute(f, 'pycno_ny');
+  // A size that is no size at all is named as the attribute it is, not as a grid.
+  for (const [name, n] of [['pycno_nx', nx], ['pycno_ny', ny]] as const) {
+    if (!(Number.isInteger(n) && n >= 1)) {
+      const a = f.attributes[name];
+      const got = a === undefined ? 'missing' : typeof a.value === 'string' ? `the text ${JSON.stringify(a.value.slice(0, 40))}` : `${n}`;
+      fail(source, `global attribute '${name}' is ${got}; a Pycno restart file has the grid's number of cells there (a whole number >= 1)`);
+    }
+  }
   if (nx !== grid.nx || ny !== grid.ny) {
     fail(source, `is on a ${nx} x ${ny} grid, the scenario on ${grid.nx} x ${grid.ny} (lon x lat cells); a restart must come from the same basin and resolution`);
   }
@@ -311,6 +343,12 @@ export function readStartFile(bytes: Uint8Array, grid: Grid, source = 'the resta
   const uC = last('u');
   const vC = last('v');
   const wet = (x: number) => Number.isFinite(x) && x !== OUTPUT_FILL && Math.abs(x) < 1e30;
+  const centre = (k: number) => `${formatLon(lon[k % grid.nx])}, ${formatLat(lat[Math.floor(k / grid.nx)])}, in the last record`;
+  for (const [name, values, bound, what] of [['u', uC, RUNAWAY_SPEED, SPEED_BOUND], ['v', vC, RUNAWAY_SPEED, SPEED_BOUND], ['h_anom', hC, MAX_LAYER_THICKNESS, DEPTH_BOUND]] as const) {
+    for (let k = 0; k < cells; k++) {
+      if (wet(values[k]) && Math.abs(values[k]) > bound) fail(source, `variable '${name}' has ${values[k]} at ${centre(k)}; ${what}`);
+    }
+  }
   for (const [name, values] of [['u', uC], ['v', vC]] as const) {
     for (let k = 0; k < cells; k++) {
       const j = Math.floor(k / grid.nx);

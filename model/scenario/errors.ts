@@ -13,6 +13,8 @@ export interface ScenarioIssue {
   /** 1-based position in the file text, when known. */
   line?: number;
   column?: number;
+  /** A line about the list itself (it is incomplete), shown after the problems and not counted among them. */
+  summary?: boolean;
 }
 
 export type PathSegment = string | number;
@@ -32,18 +34,50 @@ export function formatIssue(issue: ScenarioIssue): string {
   const parts: string[] = [];
   if (issue.file) parts.push(issue.file);
   if (issue.line !== undefined) parts.push(issue.column !== undefined ? `line ${issue.line}, column ${issue.column}` : `line ${issue.line}`);
-  if (issue.path) parts.push(issue.path);
+  if (issue.path) parts.push(shortText(issue.path, 200));
   parts.push(issue.message);
-  return parts.join(': ');
+  return clipLine(parts.join(': '));
 }
 
-/** Thrown by the loaders that cannot return a result object; carries every issue. */
+/** A name or path of a message, cut in the middle when longer than `max` characters (a hostile key can be megabytes). */
+export function shortText(text: string, max = 60): string {
+  if (text.length <= max) return text;
+  const keep = Math.floor((max - 5) / 2);
+  return `${text.slice(0, keep)} ... ${text.slice(-keep)} (${text.length.toLocaleString('en-US')} characters)`;
+}
+
+/** Problem lines shown for one scenario, in the page and on the command line alike; then a count. */
+export const MAX_ISSUE_LINES = 20;
+/** Longest message line, characters: a 40,000-character key or path is cut, not shown whole. */
+export const MAX_LINE_CHARS = 4000;
+
+/** A line of at most MAX_LINE_CHARS characters, saying how much was cut. */
+export function clipLine(line: string): string {
+  if (line.length <= MAX_LINE_CHARS) return line;
+  const keep = MAX_LINE_CHARS - 80;
+  return `${line.slice(0, keep)} ... (${(line.length - keep).toLocaleString('en-US')} more characters not shown)`;
+}
+
+/**
+ * The lines a list of problems is shown as, wherever it is shown (pycno check and run, the page's
+ * message area, the wind designer): the first MAX_ISSUE_LINES, one per problem, and a count of
+ * the rest. Only the lines shown are formatted.
+ */
+export function issueListLines(all: readonly ScenarioIssue[]): string[] {
+  const issues = all.filter((i) => !i.summary);
+  const lines = issues.slice(0, MAX_ISSUE_LINES).map(formatIssue);
+  if (issues.length > MAX_ISSUE_LINES) lines.push(`... and ${(issues.length - MAX_ISSUE_LINES).toLocaleString('en-US')} more problems (${issues.length.toLocaleString('en-US')} in all); fix the first ones and check again`);
+  for (const i of all) if (i.summary) lines.push(clipLine(i.message));
+  return lines;
+}
+
+/** Thrown by the loaders that cannot return a result object; carries every issue, shows the first ones. */
 export class ScenarioError extends InputError {
   override name = 'ScenarioError';
   readonly issues: ScenarioIssue[];
   constructor(issues: ScenarioIssue[]) {
-    const lines = issues.map(formatIssue);
-    super(lines.length === 1 ? lines[0] : `${lines.length} problems in the scenario:\n  ${lines.join('\n  ')}`);
+    const lines = issueListLines(issues);
+    super(issues.length === 1 ? lines[0] : `${issues.length} problems in the scenario:\n  ${lines.join('\n  ')}`);
     this.issues = issues;
   }
 }

@@ -7,18 +7,25 @@ import { DAY } from '../config.ts';
 import { InputError } from '../errors.ts';
 import { ForcingError } from '../forcing/errors.ts';
 import { Grid } from '../grid.ts';
+import { READ_LIMITS, tooLarge, type ReadLimit } from '../io/read-limits.ts';
 import { readStartFile } from '../io/restart.ts';
+import { decodeUtf8Text, TextEncodingError } from '../io/text-decode.ts';
 import type { State } from '../state.ts';
 import { buildModel, type BuiltRun } from './build.ts';
-import { formatIssue, ScenarioError, type ScenarioIssue } from './errors.ts';
+import { issueListLines, ScenarioError, type ScenarioIssue } from './errors.ts';
+export { MAX_ISSUE_LINES } from './errors.ts';
 import { applyOverrides } from './overrides.ts';
 import { parseScenarioText, type TextPosition } from './parse.ts';
 import { resolveScenario, type ResolvedScenario } from './resolve.ts';
+import { scenarioRunRefusal, spinupSizeRefusal, type RunAllowance } from './run-size.ts';
 import type { Scenario } from './types.ts';
 import { validateScenario } from './validate.ts';
 
-/** Reads a file by its resolved path; rejects with a message if it cannot. */
-export type InputReader = (path: string) => Promise<Uint8Array>;
+/**
+ * Reads a file by its resolved path, at most limit.maxBytes of it (a larger file is refused before
+ * it is read); rejects with a message if it cannot.
+ */
+export type InputReader = (path: string, limit: ReadLimit) => Promise<Uint8Array>;
 
 /** Spin-ups may nest (a relaxation from a spun-up state that itself started from a restart). */
 export const MAX_SPINUP_DEPTH = 8;
@@ -31,16 +38,21 @@ export interface ParsedScenario {
   scenarioJson: string;
 }
 
-/** A scenario error's lines: the first says what and where; the others follow one per line. */
+/** A scenario error's lines: the first problems, one per line (the first says what and where), and a count. */
 export function issueLines(issues: readonly ScenarioIssue[]): string[] {
-  return issues.map(formatIssue);
+  return issueListLines(issues);
 }
 
 /**
  * Parse, apply --set overrides and validate a scenario text. Throws a ScenarioError whose message
  * has one line per problem, each with the file, the line (when known) and the JSON path.
  */
-export function parseScenario(text: string, fileName: string, sets: readonly string[] = []): ParsedScenario {
+export interface ParseOptions {
+  /** Runs above the caps on steps and output size that the user asked for (run-size.ts). */
+  allow?: RunAllowance;
+}
+
+export function parseScenario(text: string, fileName: string, sets: readonly string[] = [], options: ParseOptions = {}): ParsedScenario {
   const parsed = parseScenarioText(text, fileName);
   if (!parsed.ok) throw lineError(parsed.errors);
   let scenario: Scenario;
@@ -60,19 +72,18 @@ export function parseScenario(text: string, fileName: string, sets: readonly str
     if (e instanceof InputError) throw new InputError(`${fileName}: ${e.message}`);
     throw e;
   }
+  // A run that cannot run, or one above the caps that was not asked for, stops here, before
+  // anything is read or built.
+  const refusal = scenarioRunRefusal(resolved, options.allow);
+  if (refusal) throw new InputError(refusal, `${fileName}: time`);
   return { fileName, scenario, resolved, scenarioJson: JSON.stringify(scenario, null, 2) };
 }
-
-/** Lines shown for one scenario; a file with hundreds of mistakes gets the first ones and a count. */
-export const MAX_ISSUE_LINES = 20;
 
 class ScenarioLinesError extends ScenarioError {
   constructor(issues: ScenarioIssue[]) {
     super(issues);
     // One line per issue, no summary line in front: the first line alone says what is wrong.
-    const lines = issueLines(issues.slice(0, MAX_ISSUE_LINES));
-    if (issues.length > MAX_ISSUE_LINES) lines.push(`... and ${issues.length - MAX_ISSUE_LINES} more problems (${issues.length} in all); fix the first ones and check again`);
-    this.message = lines.join('\n');
+    this.message = issueListLines(issues).join('\n');
   }
 }
 
@@ -131,11 +142,13 @@ export interface LoadInputsOptions {
   onSpinup?: (file: string, day: number, endDay: number) => void;
   /** Files of the spin-up chain so far (cycle detection). */
   chain?: readonly string[];
+  /** Spin-ups above the cap on steps that the user asked for. */
+  allow?: RunAllowance;
 }
 
-async function readInput(reader: InputReader, path: string, what: string, where: string): Promise<Uint8Array> {
+async function readInput(reader: InputReader, path: string, what: string, where: string, limit: ReadLimit): Promise<Uint8Array> {
   try {
-    return await reader(path);
+    return await reader(path, limit);
   } catch (e) {
     const why = e instanceof Error ? e.message : String(e);
     throw new InputError(`cannot read ${what} ${path}: ${why}`, where);
@@ -152,15 +165,17 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
     const part = parts[k];
     if (part.kind !== 'fixed' || part.enabled === false || part.source.kind !== 'file' || files.has(part.source.path)) continue;
     const src = part.source;
-    const bytes = await readInput(reader, resolveRelative(p.fileName, src.path), 'the wind file', `${p.fileName}: wind.parts[${k}].source.path`);
-    files.set(src.path, src.format === 'csv' ? new TextDecoder('utf-8').decode(bytes) : bytes);
+    const path = resolveRelative(p.fileName, src.path);
+    const where = `${p.fileName}: wind.parts[${k}].source.path`;
+    const bytes = await readInput(reader, path, 'the wind file', where, src.format === 'csv' ? READ_LIMITS.csvWind : READ_LIMITS.netcdfInput);
+    files.set(src.path, src.format === 'csv' ? textOf(bytes, `the wind file ${path}`, where) : bytes);
     notes.push(`wind file ${src.path} (${bytes.length} bytes)`);
   }
   const init = p.resolved.initial;
   const grid = () => new Grid(p.resolved.model.basin, p.resolved.model.physics.earthRadius);
   if (init.kind === 'restart') {
     const path = resolveRelative(p.fileName, init.path);
-    const bytes = await readInput(reader, path, 'the restart file', `${p.fileName}: initial.path`);
+    const bytes = await readInput(reader, path, 'the restart file', `${p.fileName}: initial.path`, READ_LIMITS.netcdfInput);
     let start;
     try {
       start = readStartFile(bytes, grid(), path);
@@ -181,8 +196,9 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
     if (chain.length > MAX_SPINUP_DEPTH) {
       throw new InputError(`spin-ups nest more than ${MAX_SPINUP_DEPTH} deep: ${chain.join(' -> ')}`, `${p.fileName}: initial.scenario`);
     }
-    const bytes = await readInput(reader, path, 'the spin-up scenario', `${p.fileName}: initial.scenario`);
-    const spin = parseScenario(new TextDecoder('utf-8').decode(bytes), path);
+    const where = `${p.fileName}: initial.scenario`;
+    const bytes = await readInput(reader, path, 'the spin-up scenario', where, READ_LIMITS.scenario);
+    const spin = parseScenario(textOf(bytes, `the spin-up scenario ${path}`, where), path, [], { allow: options.allow });
     sameBasin(p, spin);
     const inner = await loadInputs(spin, reader, { ...options, chain });
     const days = init.days ?? spin.resolved.days;
@@ -190,6 +206,8 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
     const model = built.model;
     const end = model.state.time + days * DAY;
     const total = model.stepsUntil(end);
+    const refusal = spinupSizeRefusal(total, model.dt, days, options.allow);
+    if (refusal) throw new InputError(refusal, `${p.fileName}: initial`);
     // Slices keep the progress callback alive on long spin-ups.
     const slice = Math.max(1, Math.round(total / 100));
     for (let done = 0; done < total; done += slice) {
@@ -258,9 +276,22 @@ export function buildPrepared(p: ParsedScenario, inputs: PreparedInputs): BuiltR
 
 /** A reader over files the host already holds (the page's dropped files), keyed by resolved path. */
 export function mapReader(files: ReadonlyMap<string, Uint8Array | string>): InputReader {
-  return async (path) => {
+  return async (path, limit) => {
     const f = files.get(path);
     if (f === undefined) throw new Error('the file was not provided');
-    return typeof f === 'string' ? new TextEncoder().encode(f) : f;
+    const bytes = typeof f === 'string' ? new TextEncoder().encode(f) : f;
+    const big = tooLarge(bytes.length, limit);
+    if (big) throw new Error(big);
+    return bytes;
   };
+}
+
+/** A text input's bytes as text by the one UTF-8 rule (model/io/text-decode.ts). */
+function textOf(bytes: Uint8Array, what: string, where: string): string {
+  try {
+    return decodeUtf8Text(bytes);
+  } catch (e) {
+    if (e instanceof TextEncodingError) throw new InputError(`${what}: ${e.message}`, where);
+    throw e;
+  }
 }

@@ -19,13 +19,21 @@ import {
   type SchemaNode,
 } from './schema.ts';
 import { didYouMean } from './suggest.ts';
+import { MAX_SUGGESTIONS, unknownKeyIssue, type SuggestionBudget } from './unknown-keys.ts';
 
 /** Keywords that only summarise failures reported elsewhere. */
 const SUMMARY_KEYWORDS = new Set(['properties', 'items', 'prefixItems', '$ref', 'allOf', 'anyOf', 'false', 'if', 'then', 'else', 'contains']);
 
+export { MAX_SUGGESTIONS } from './unknown-keys.ts';
+
 export function issuesFromValidator(errors: readonly OutputUnit[], instance: unknown): ScenarioIssue[] {
-  const dropped: string[] = [];
-  const isDropped = (loc: string) => dropped.some((p) => loc === p || loc.startsWith(`${p}/`));
+  // Keyword locations of oneOf branches that do not apply; a location is dropped when it or one
+  // of its ancestors is in the set (a walk up its own segments, not a scan of the set).
+  const dropped = new Set<string>();
+  const isDropped = (loc: string) => {
+    for (let cut = loc.length; cut > 0; cut = loc.lastIndexOf('/', cut - 1)) if (dropped.has(loc.slice(0, cut))) return true;
+    return false;
+  };
   const issues: ScenarioIssue[] = [];
 
   // oneOf first, outermost first, so that an inner oneOf of a dropped branch is ignored.
@@ -40,16 +48,39 @@ export function issuesFromValidator(errors: readonly OutputUnit[], instance: unk
     // A value of the right type that misses a lone constant ("auto") reads better as "number or 'auto'".
     if (chosen !== null && !discriminatorKinds(branches) && hasOwn(deref(branches[chosen]), 'const')) chosen = null;
     branches.forEach((_, i) => {
-      if (i !== chosen) dropped.push(`${e.keywordLocation}/${i}`);
+      if (i !== chosen) dropped.add(`${e.keywordLocation}/${i}`);
     });
     if (chosen === null) issues.push(noBranchIssue(branches, parent, segments, value));
   }
 
+  // The validator reports an unknown key once per key; its object is phrased once, all its keys together.
+  const objectsDone = new Set<string>();
+  const budget: SuggestionBudget = { left: MAX_SUGGESTIONS };
   for (const e of errors) {
     if (e.keyword === 'oneOf' || SUMMARY_KEYWORDS.has(e.keyword) || isDropped(e.keywordLocation)) continue;
-    issues.push(...phrase(e, instance));
+    if (e.keyword === 'additionalProperties') {
+      const key = `${e.keywordLocation}\u0000${e.instanceLocation}`;
+      if (objectsDone.has(key)) continue;
+      objectsDone.add(key);
+      for (const i of unknownKeys(e, instance, budget)) issues.push(i);
+      continue;
+    }
+    for (const i of phrase(e, instance)) issues.push(i);
   }
   return dedupe(issues);
+}
+
+/** One issue per unknown key of the object an additionalProperties error is about. */
+function unknownKeys(e: OutputUnit, instance: unknown, budget: SuggestionBudget): ScenarioIssue[] {
+  const node = nodeAtKeywordLocation(e.keywordLocation.replace(/\/[^/]*$/, '')) ?? {};
+  const { segments, value } = instanceAt(instance, e.instanceLocation);
+  const allowedList = Object.keys(node.properties ?? {});
+  const allowed = new Set(allowedList);
+  const allowedText = allowedList.join(', ');
+  if (!isPlainObject(value)) return [];
+  return Object.keys(value)
+    .filter((k) => !allowed.has(k))
+    .map((k) => unknownKeyIssue(segments, k, allowedList, allowedText, budget));
 }
 
 function noBranchIssue(branches: SchemaNode[], parent: SchemaNode, segments: PathSegment[], value: unknown): ScenarioIssue {
@@ -97,15 +128,6 @@ function phrase(e: OutputUnit, instance: unknown): ScenarioIssue[] {
           return { path: pathToString([...segments, k]), message: `is required but missing${h ? `; ${h}` : ''}` };
         });
     }
-    case 'additionalProperties': {
-      const allowed = Object.keys(node.properties ?? {});
-      const keys = isPlainObject(value) ? Object.keys(value).filter((k) => !allowed.includes(k)) : [];
-      const where = path === '' ? 'at the top level' : `in ${path}`;
-      return keys.map((k) => ({
-        path: pathToString([...segments, k]),
-        message: `unknown key '${k}' ${where}${didYouMean(k, allowed)} (allowed: ${allowed.join(', ')})`,
-      }));
-    }
     case 'const':
       return [{ path, message: `must be ${show(node.const)} ${got}` }];
     case 'enum': {
@@ -137,7 +159,8 @@ function phrase(e: OutputUnit, instance: unknown): ScenarioIssue[] {
       return [withHint(`must have at most ${node.maxLength} characters (got ${typeof value === 'string' ? value.length : '?'})`)];
     case 'uniqueItems': {
       const list = Array.isArray(value) ? value.map((v) => JSON.stringify(v)) : [];
-      const twice = list.find((v, i) => list.indexOf(v) !== i);
+      const seen = new Set<string>();
+      const twice = list.find((v) => seen.size === seen.add(v).size);
       return [{ path, message: `lists ${twice ?? 'an entry'} more than once` }];
     }
     default:

@@ -4,7 +4,7 @@
 // otherwise as plain strings (nonlinear, auto). Paths are checked against the schema; the result
 // is validated like a file.
 
-import { pathToString, show, type PathSegment, type ScenarioIssue } from './errors.ts';
+import { pathToString, shortText, show, type PathSegment, type ScenarioIssue } from './errors.ts';
 import { chooseBranch, deref, discriminatorKinds, hasOwn, isPlainObject, scenarioSchema, type SchemaNode } from './schema.ts';
 import { closest } from './suggest.ts';
 import type { Scenario } from './types.ts';
@@ -127,9 +127,9 @@ function setAtPath(root: unknown, o: Override): ScenarioIssue | null {
       }
       if (!hasOwn(props, seg)) {
         const keys = Object.keys(props);
-        const near = closest(seg, keys);
-        const where = done.length ? `in ${pathToString(done)}` : 'at the top level';
-        return fail(`unknown key '${seg}' ${where}${near.length ? `; did you mean ${near.map((n) => `'${n}'`).join(' or ')}?` : ''} (keys: ${keys.join(', ')})`);
+        const near = seg.length <= 200 ? closest(seg, keys) : [];
+        const where = done.length ? `in ${shortText(pathToString(done), 200)}` : 'at the top level';
+        return fail(`unknown key '${shortText(seg)}' ${where}${near.length ? `; did you mean ${near.map((n) => `'${n}'`).join(' or ')}?` : ''} (keys: ${keys.join(', ')})`);
       }
       child = props[seg];
     } else {

@@ -64,6 +64,20 @@ export function parseScenarioText(text: string, fileName?: string): ParseResult 
 /** A JSON number, matched in place (sticky) so no substring is made per number. */
 const NUMBER = /-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?/y;
 
+/**
+ * A number written as JSON writes it (decimal, no hex, no leading zeros or '+', no Infinity),
+ * the one rule for numbers in scenario files and on the command line (--days, --threads, --jobs);
+ * null for anything else, a finite number otherwise.
+ */
+export function readJsonNumber(text: string): number | null {
+  const t = text.trim();
+  NUMBER.lastIndex = 0;
+  const m = NUMBER.exec(t);
+  if (!m || m[0].length !== t.length) return null;
+  const v = Number(t);
+  return Number.isFinite(v) ? v : null;
+}
+
 class Reader {
   private i = 0;
   readonly locations = new Map<string, TextPosition>();

@@ -127,7 +127,9 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
   }
 
   // Time.
-  if (num(t.days) && t.days > 0 && num(t.outputEveryDays) && t.outputEveryDays > t.days + EPS) {
+  if (num(t.outputEveryDays) && t.outputEveryDays > 0 && secondsOfDays(t.outputEveryDays) < 1) {
+    add(['time', 'outputEveryDays'], `${t.outputEveryDays} days is ${(t.outputEveryDays * 86400).toPrecision(3)} s; records are at least 1 s apart (${(1 / 86400).toPrecision(3)} days)`);
+  } else if (num(t.days) && t.days > 0 && num(t.outputEveryDays) && t.outputEveryDays > t.days + EPS) {
     add(['time', 'outputEveryDays'], `must be at most the run length (${t.days} days) (got ${t.outputEveryDays}); no frame would be saved`);
   }
 

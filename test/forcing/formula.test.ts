@@ -94,9 +94,12 @@ describe('formula: bad input', () => {
   it('too deep (brackets, and operators)', () => {
     expect(failure('('.repeat(60) + 'lat' + ')'.repeat(60)).message).toMatch(/nested too deeply/);
     expect(failure('sin('.repeat(60) + 'lat' + ')'.repeat(60)).message).toMatch(/nested too deeply/);
-    // A long chain without brackets still builds a deep tree.
+    // A chain of one precedence is one level however long (it used to be refused as "nested too
+    // deeply"); real nesting, a tower of powers or of signs, still is.
     const chain = Array.from({ length: MAX_FORMULA_DEPTH + 20 }, () => 'lat').join('+');
-    expect(failure(chain).message).toMatch(/nested too deeply \(more than 100 levels\)/);
+    expect(compileFormula(chain).evaluate(0, 2, 0)).toBe(2 * (MAX_FORMULA_DEPTH + 20));
+    expect(failure(Array.from({ length: MAX_FORMULA_DEPTH + 20 }, () => '2').join('^')).message).toMatch(/nested too deeply \(more than 100 levels\)/);
+    expect(failure('-'.repeat(MAX_FORMULA_DEPTH + 20) + 'lat').message).toMatch(/nested too deeply \(more than 100 levels\)/);
   });
 
   it('no property access: constructor.constructor, __proto__, [ ]', () => {

@@ -89,9 +89,9 @@ describe('CSV layout', () => {
   });
 
   it('errors name the line', () => {
-    expect(() => parseWindCsv('lon,lat,speed,y\n1,2,3,4')).toThrow("CSV line 1: unknown column 'speed' in the header; expected lon, lat, x, y and optionally day");
+    expect(() => parseWindCsv('lon,lat,speed,y\n1,2,3,4')).toThrow('CSV line 1, column 3: the header names a column other than lon, lat, x, y and day');
     expect(() => parseWindCsv('lon,lat,x\n')).toThrow(/line 1: the header has no 'y' column/);
-    expect(() => parseWindCsv('#c\n\nlon,lat,x,y\n1,2,3,4\n1,3,abc,4\n')).toThrow("CSV line 5, column 'x': 'abc' is not a number");
+    expect(() => parseWindCsv('#c\n\nlon,lat,x,y\n1,2,3,4\n1,3,abc,4\n')).toThrow("CSV line 5, column 3 ('x'): the value is not a number (a field of 3 characters)");
     expect(() => parseWindCsv('lon,lat,x,y\n1,2,3\n')).toThrow('CSV line 2: 3 values, but the header (line 1) names 4 columns');
     expect(() => parseWindCsv('lon,lat,x,y\n1,2,3,4\n2,2,3,4\n1,2,5,5\n')).toThrow('CSV line 4: lon 1, lat 2 was already given on line 2');
     expect(() => parseWindCsv('lon,lat,x,y\n0,0,1,1\n1,0,1,1\n3,0,1,1\n')).toThrow(/lon values are not evenly spaced: 1 then 3 \(line 4\)/);

@@ -65,7 +65,7 @@ describe('refused input', () => {
     s.h[grid.idx(5, 7)] = NaN;
     const e = errorOf(() => new Model(config(b), { initial: s }));
     expect(e).toBeInstanceOf(InputError);
-    expect(e.message).toBe('initial: the initial state has a non-finite h (NaN) at grid point i=5, j=7');
+    expect(e.message).toBe("initial: the initial state has h' = NaN at cell (5, 7) at 142.75°E, 6.25°S: a start must be finite");
   });
 
   it('a restart state on another grid', () => {
@@ -88,7 +88,7 @@ describe('blow-up detection', () => {
   it('an initial state deeper than the layer is refused before the first step', () => {
     const e = errorOf(() => new Model(config(b), { initial: { kind: 'bump', lon: 165, lat: 2, radiusDeg: 2, amplitude: -400 } }));
     expect(e).toBeInstanceOf(InputError);
-    expect(e.message).toMatch(/^initial: the initial state leaves no upper layer \(thickness -\d+\.\d m\) at 16\d\.\d+°E, \d\.\d+°N; h' must stay above -H = -150 m$/);
+    expect(e.message).toMatch(/^initial: the initial state leaves no upper layer \(thickness -\d+\.\d m\) at cell \(\d+, \d+\) at 16\d\.\d+°E, \d\.\d+°N; h' must stay above -H = -150 m$/);
   });
 
   it('a vanished layer stops the run with the day, the place and a hint', () => {

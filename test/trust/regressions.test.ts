@@ -44,9 +44,9 @@ describe('regressions found by the fuzzers', () => {
     });
   }
 
-  it('a CSV value of a million digits is quoted cut short (the message was 1,000,044 characters)', () => {
+  it('a CSV value of a million digits is described, not quoted (the message was 1,000,044 characters)', () => {
     const e = replayRegression('csv-long-value.csv', new TextEncoder().encode(`lon,lat,x,y\n${'9'.repeat(1_000_000)},0,0,0`)) as Error;
-    expect(e.message).toBe(`CSV line 2, column 'lon': '${'9'.repeat(40)}... (1000000 characters)' is not a number`);
+    expect(e.message).toBe("CSV line 2, column 1 ('lon'): the value is too large for a number (a field of 1000000 characters)");
   });
 
   it('a painted grid with an object for a coordinate says what it got (the message said [object Object]); null is refused', async () => {

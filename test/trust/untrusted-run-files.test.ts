@@ -94,9 +94,9 @@ describe('pycno rerun: the embedded scenario names no file the user did not allo
 describe('an embedded scenario of 3,000 unknown keys', () => {
   // All three commands read the embedded scenario through the one scenario validator
   // (rerun: parseScenario in the engine's load; report: validateScenario in model/report; compare
-  // only compares the scenario texts). The validator is quadratic in the number of unknown keys
-  // (400 keys: 5 s); making it linear is the sibling issue's work (bounded reads), so rerun and
-  // report are marked as failing until that lands: 20 s is a hang guard, not a speed target.
+  // only compares the scenario texts). The validator was quadratic in the number of unknown keys
+  // (400 keys: 5 s) and these two cases were known failures until it was made linear
+  // (model/scenario/unknown-keys.ts): 20 s is a hang guard, not a speed target.
   const many = () =>
     crafted('many-keys.nc', (sc) => {
       for (let k = 0; k < 3000; k++) sc[`extra${k}`] = k;
@@ -107,13 +107,13 @@ describe('an embedded scenario of 3,000 unknown keys', () => {
     noInternals(r);
   };
 
-  it.fails('pycno rerun answers within 20 s (exit 2: unknown keys) [fails until the validator is linear, sibling issue]', async () => {
+  it('pycno rerun answers within 20 s (exit 2: unknown keys)', async () => {
     const r = pycno(dir, ['rerun', await many()], 20_000);
     answers(r);
     expect(r.code).toBe(2);
   }, 40_000);
 
-  it.fails('pycno report answers within 20 s [fails until the validator is linear, sibling issue]', async () => {
+  it('pycno report answers within 20 s', async () => {
     answers(pycno(dir, ['report', await many(), '--out', 'many.html'], 20_000));
   }, 40_000);
 
@@ -132,7 +132,7 @@ const BAD_STARTS: Array<[string, 'restart' | 'run', (f: EditableFile) => void, R
   ['restart, no time', 'restart', (f) => dropVariable(f, 'time'), /has no variable 'time'; a Pycno restart file holds it$/],
   ['restart, no steps', 'restart', (f) => dropVariable(f, 'steps'), /has no variable 'steps'; a Pycno restart file holds it$/],
   ['restart, u on other dimensions', 'restart', (f) => void (variable(f, 'u').dimensions = ['x_padded', 'y_padded']), /variable 'u' has dimensions \(x_padded, y_padded\); a Pycno restart file has it on \(y_padded, x_padded\)$/],
-  ['restart, NaN in h', 'restart', (f) => void ((variable(f, 'h').values as Float64Array)[100] = NaN), /variable 'h' has NaN at index 100; a start must be finite$/],
+  ['restart, NaN in h', 'restart', (f) => void ((variable(f, 'h').values as Float64Array)[100] = NaN), /variable 'h' has NaN at index 100 \(cell \(13, 1\) at 163\.50°E, 8\.50°S\); a start must be finite$/],
   ['restart, a fractional step count', 'restart', (f) => void ((variable(f, 'steps').values as Float64Array)[0] = 2.5), /variable 'steps' is 2\.5; a step count is a whole number >= 0$/],
   ['restart, history count 7', 'restart', (f) => void ((variable(f, 'history_count').values as Float64Array)[0] = 7), /variable 'history_count' is 7; it must be 0, 1 or 2$/],
   ['run output, time as text', 'run', (f) => void retype(f, 'time', 'char'), /variable 'time' is char; a Pycno run output has it as double$/],

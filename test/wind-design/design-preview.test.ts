@@ -160,7 +160,7 @@ describe('import', () => {
   });
 
   it('refuses bad files with the reason', () => {
-    expect(() => readGridded('w.csv', new TextEncoder().encode('lon,lat,x,y\n1,2,abc,0\n'))).toThrow(/w\.csv: CSV line 2, column 'x'/);
+    expect(() => readGridded('w.csv', new TextEncoder().encode('lon,lat,x,y\n1,2,abc,0\n'))).toThrow(/w\.csv: CSV line 2, column 3 \('x'\): the value is not a number/);
     expect(() => readGridded('w.nc', Uint8Array.from([0x89, 0x48, 0x44, 0x46, 13, 10]))).toThrow(/NetCDF-4 \(HDF5\)/);
     expect(() => readGridded('w.nc', new TextEncoder().encode('hello'))).toThrow(/not a NetCDF classic file/);
     const far = seriesFromGrid({ lon0: -170, lat0: 0, dLon: 1, dLat: 1, nLon: 2, nLat: 2, x: [0, 0, 0, 0], y: [0, 0, 0, 0] });

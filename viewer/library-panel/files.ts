@@ -1,4 +1,4 @@
-// Files in and out of the page: a download from bytes or text, and a picked or dropped file's bytes.
+// Files out of the page: a download from bytes or text (picked files are read by viewer/picked-file.ts).
 
 export function download(data: Uint8Array | string, fileName: string, type: string): void {
   const blob = new Blob([typeof data === 'string' ? data : (data as Uint8Array<ArrayBuffer>)], { type });
@@ -10,10 +10,6 @@ export function download(data: Uint8Array | string, fileName: string, type: stri
   a.remove();
   // Later, so the browser has started the download before the address goes.
   setTimeout(() => URL.revokeObjectURL(a.href), 10_000);
-}
-
-export async function fileBytes(file: File): Promise<Uint8Array> {
-  return new Uint8Array(await file.arrayBuffer());
 }
 
 /** A name safe for a file: letters, digits, dot, dash and underscore. */

@@ -10,7 +10,8 @@ import { LibraryError, RunLibrary, estimateSize, type SavedRunMeta } from '../li
 import type { LoadedScenario, OutputSample } from '../../worker/protocol.ts';
 import { CompareView, type CompareChoice } from '../compare/compare-view.ts';
 import { button, el, shortDate } from './dom.ts';
-import { download, fileBytes, fileSafe } from './files.ts';
+import { download, fileSafe } from './files.ts';
+import { pickedBytes } from '../picked-file.ts';
 import { LiveRun, snapshotChoices } from './live-run.ts';
 import { RunView } from './run-view.ts';
 import { SummaryView } from './summary-view.ts';
@@ -399,7 +400,14 @@ export class LibraryPage {
   }
 
   private async importFile(file: File): Promise<void> {
-    const bytes = await fileBytes(file);
+    let bytes: Uint8Array;
+    try {
+      // The command line's limits: a file over the run-file cap is refused before it is read.
+      bytes = await pickedBytes(file, 'runFile');
+    } catch (e) {
+      this.say(`not opened: ${file.name}: ${(e as Error).message}`);
+      return;
+    }
     // A sweep summary (pycno sweep --gather) is shown, not saved: it holds no run.
     if (isSummaryFile(bytes)) {
       try {

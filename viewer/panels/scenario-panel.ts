@@ -2,7 +2,9 @@
 // see each value checked by the scenario validator (its message at the field) and the derived
 // numbers follow as you type. The page only calls the validator and the derived-number functions.
 
-import { derivedNumbers, formatIssue, resolveScenario, validateScenario, validateScenarioText, type DerivedNumbers, type ScenarioIssue } from '../../model/scenario/index.ts';
+import { issueListLines } from '../../model/scenario/errors.ts';
+import { derivedNumbers, resolveScenario, validateScenario, validateScenarioText, type DerivedNumbers, type ScenarioIssue } from '../../model/scenario/index.ts';
+import { scenarioRunRefusal } from '../../model/scenario/run-size.ts';
 import { scenarioSchema, type SchemaNode } from '../../model/scenario/schema.ts';
 import { formatValue } from './colour-bar.ts';
 
@@ -82,7 +84,13 @@ export interface PanelResult {
 export function checkEdited(json: Json): PanelResult {
   const r = validateScenario(json);
   if (!r.ok) return { valid: false, issues: r.errors, derived: null };
-  return { valid: true, issues: [], derived: derivedNumbers(resolveScenario(r.scenario)) };
+  const resolved = resolveScenario(r.scenario);
+  const derived = derivedNumbers(resolved);
+  // A run the engine would refuse (above the caps on steps or output; the page asks for no more) is
+  // said here already, with the same words, and cannot be applied.
+  const refusal = scenarioRunRefusal(resolved, {}, derived);
+  if (refusal) return { valid: false, issues: [{ path: 'time', message: refusal }], derived };
+  return { valid: true, issues: [], derived };
 }
 
 export class ScenarioPanel {
@@ -150,7 +158,8 @@ export class ScenarioPanel {
   /** Check a file's text before it goes to the engine: the same messages the command line prints. */
   static checkText(text: string, fileName: string): { ok: true; json: Json } | { ok: false; lines: string[] } {
     const r = validateScenarioText(text, fileName);
-    if (!r.ok) return { ok: false, lines: r.errors.map(formatIssue) };
+    // The capped list the command line prints too (errors.ts issueListLines).
+    if (!r.ok) return { ok: false, lines: issueListLines(r.errors) };
     return { ok: true, json: JSON.parse(text) as Json };
   }
 
@@ -186,13 +195,11 @@ export class ScenarioPanel {
       this.boxes.get(spec.path)!.setAttribute('aria-invalid', String(mine.length > 0));
     }
     this.otherIssues.replaceChildren(
-      ...check.issues
-        .filter((i) => !shown.has(i))
-        .map((i) => {
-          const li = document.createElement('li');
-          li.textContent = formatIssue(i);
-          return li;
-        }),
+      ...issueListLines(check.issues.filter((i) => !shown.has(i))).map((line) => {
+        const li = document.createElement('li');
+        li.textContent = line;
+        return li;
+      }),
     );
     this.restartNote.hidden = !this.changed();
     this.applyButton.disabled = !check.valid;

@@ -10,7 +10,7 @@ import { Grid } from '../../model/grid.ts';
 import type { CoriolisPhysics } from '../../model/theory.ts';
 import { buildWindStress } from '../../model/forcing/wind.ts';
 import { resolveScenario, validateScenario, type ResolvedScenario } from '../../model/scenario/index.ts';
-import { formatIssue } from '../../model/scenario/errors.ts';
+import { issueListLines } from '../../model/scenario/errors.ts';
 
 export const PREVIEW_LAYERS = ['magnitude', 'curl', 'sverdrupV', 'sverdrupU'] as const;
 export type PreviewLayer = (typeof PREVIEW_LAYERS)[number];
@@ -38,7 +38,7 @@ export class PreviewError extends Error {
 /** A resolved scenario and its grid; throws PreviewError with the validator's lines. */
 export function previewSetup(json: unknown): { resolved: ResolvedScenario; grid: Grid } {
   const r = validateScenario(json);
-  if (!r.ok) throw new PreviewError(r.errors.map(formatIssue).join('\n'));
+  if (!r.ok) throw new PreviewError(issueListLines(r.errors).join('\n'));
   const resolved = resolveScenario(r.scenario);
   return { resolved, grid: new Grid(resolved.model.basin, resolved.model.physics.earthRadius) };
 }

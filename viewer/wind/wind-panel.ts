@@ -6,7 +6,8 @@
 
 import type { WindPart } from '../../model/forcing/spec.ts';
 import { validateScenario } from '../../model/scenario/index.ts';
-import { formatIssue, type ScenarioIssue } from '../../model/scenario/errors.ts';
+import { formatIssue, issueListLines, type ScenarioIssue } from '../../model/scenario/errors.ts';
+import { pickedBytes, windFileKind } from '../picked-file.ts';
 import type { MapView } from '../render/map-view.ts';
 import { formatValue } from '../panels/colour-bar.ts';
 import { deletePart, duplicatePart, movePart, newPart, PATTERN_KINDS, PATTERN_LABELS, patternOf, setEnabled, summary, windOf, withWind, type BasinBox, type WindSection } from './design.ts';
@@ -145,7 +146,7 @@ export class WindPanel {
     e.importMsg = $new('span', { id: 'wd-import-msg', className: 'field-msg' });
     file.addEventListener('change', async () => {
       const f = file.files?.[0];
-      if (f) await this.importFile(f.name, new Uint8Array(await f.arrayBuffer()), q.value as 'stress' | 'wind');
+      if (f) await this.importFile(f.name, () => pickedBytes(f, windFileKind(f.name)), q.value as 'stress' | 'wind');
       file.value = '';
     });
     r.append(
@@ -591,10 +592,10 @@ export class WindPanel {
   }
 
   // ---- import, apply, save ----
-  async importFile(name: string, bytes: Uint8Array, quantity: 'stress' | 'wind'): Promise<void> {
+  async importFile(name: string, bytes: Uint8Array | (() => Promise<Uint8Array>), quantity: 'stress' | 'wind'): Promise<void> {
     const msg = this.el.importMsg;
     try {
-      const series = readGridded(name, bytes);
+      const series = readGridded(name, typeof bytes === 'function' ? await bytes() : bytes);
       const { parts, notes } = partsFromSeries(series, name, quantity, this.basin());
       this.edit((w) => ({ ...w, parts: [...w.parts, ...(parts as WindPart[])] }), this.wind.parts.length);
       msg.classList.remove('field-msg');
@@ -609,7 +610,7 @@ export class WindPanel {
     const json = this.compose();
     const r = validateScenario(json);
     if (!r.ok) {
-      this.host.message(`The wind design is not applied:\n${r.errors.map(formatIssue).join('\n')}`);
+      this.host.message(`The wind design is not applied:\n${issueListLines(r.errors).join('\n')}`);
       return;
     }
     const text = this.text();
@@ -623,7 +624,7 @@ export class WindPanel {
     const json = this.compose();
     const r = validateScenario(json);
     if (!r.ok) {
-      this.host.message(`The scenario is not saved; fix these first:\n${r.errors.map(formatIssue).join('\n')}`);
+      this.host.message(`The scenario is not saved; fix these first:\n${issueListLines(r.errors).join('\n')}`);
       return;
     }
     const blob = new Blob([this.text()], { type: 'application/json' });

@@ -4,7 +4,6 @@
 // file in the layout of a run, with attributes that name both runs. Exit codes: 0 done, 2 bad
 // input (unreadable or foreign files, no common times or area).
 
-import { readFileSync } from 'node:fs';
 import { basename, resolve as resolvePath } from 'node:path';
 import { compareRuns, type RunComparison } from '../../model/compare/compare.ts';
 import { showValue } from '../../model/compare/scenario-diff.ts';
@@ -14,6 +13,9 @@ import { NetcdfWriter, type ByteSink } from '../../model/io/netcdf-writer.ts';
 import { readRun, RunFileError, type RunData } from '../../model/io/run-read.ts';
 import { INTEGRAL_VARIABLES, PYCNO_VERSION, probeVariableName, runOutputFile, writeRunFixed, type RunDescription } from '../../model/io/run-output.ts';
 import { isMeasured, measureWaves, type NotMeasured, type SpeedMeasure } from '../../model/report/measure.ts';
+import { READ_LIMITS } from '../../model/io/read-limits.ts';
+import { clipLine } from '../../model/scenario/errors.ts';
+import { readBounded, ReadRefused } from '../files-node.ts';
 import { OutputRefused, OutputWriteError, planOutput, writeWhole, type OutputFile, type OutputPlan, type ReadFile } from './output-file.ts';
 import { formatBytes, type ProgressStream } from './progress.ts';
 
@@ -26,18 +28,17 @@ export interface CommandIO {
 export class CommandInputError extends Error {}
 
 export function printError(io: CommandIO, message: string): void {
-  for (const line of message.split('\n')) io.stderr.write(`pycno: ${line}\n`);
+  for (const line of message.split('\n')) io.stderr.write(`pycno: ${clipLine(line)}\n`);
 }
 
 /** Read and check a run file; a clear CommandInputError naming the file otherwise. */
 export function readRunFile(io: CommandIO, file: string): RunData {
   let bytes: Uint8Array;
   try {
-    bytes = new Uint8Array(readFileSync(resolvePath(io.cwd, file)));
+    bytes = readBounded(file === '' ? '' : resolvePath(io.cwd, file), READ_LIMITS.runFile);
   } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a directory' : code === 'EACCES' ? 'permission denied' : (e as Error).message;
-    throw new CommandInputError(`${file}: cannot read the run file: ${why}`);
+    if (!(e instanceof ReadRefused)) throw e;
+    throw new CommandInputError(`${file === '' ? "''" : file}: cannot read the run file: ${e.message}`);
   }
   try {
     return readRun(bytes, file);

@@ -13,10 +13,16 @@ import type { Integrals } from '../../model/diagnostics/integrals.ts';
 import { RunOutputWriter, PYCNO_VERSION, type RunDescription } from '../../model/io/run-output.ts';
 import { writeRestart } from '../../model/io/restart.ts';
 import { derivedNumbers } from '../../model/scenario/derived.ts';
+import { clipLine } from '../../model/scenario/errors.ts';
 import { buildPrepared, loadInputs, parseScenario, resolveRelative } from '../../model/scenario/load-inputs.ts';
+import { readJsonNumber } from '../../model/scenario/parse.ts';
 import { describeLoadedRun } from '../run-description.ts';
 import { Engine, toEngineError } from '../engine.ts';
-import { nodeReader } from '../files-node.ts';
+import { nodeReader, readScenarioText, ReadRefused } from '../files-node.ts';
+import { READ_LIMITS } from '../../model/io/read-limits.ts';
+import { decodeUtf8Text, TextEncodingError } from '../../model/io/text-decode.ts';
+import type { InputReader } from '../../model/scenario/load-inputs.ts';
+import type { RunAllowance } from '../../model/scenario/run-size.ts';
 import type { EngineError, LoadedScenario } from '../protocol.ts';
 import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
 import { compareCommand, COMPARE_USAGE } from './compare.ts';
@@ -31,8 +37,8 @@ import { nodeStripHost } from '../strips-node.ts';
 import type { CliIO } from './io.ts';
 
 export const USAGE = `usage:
-  pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--threads N|auto] [--keep-partial] [--quiet]
-  pycno check SCENARIO.json [--set path=value ...]
+  pycno run SCENARIO.json [--out FILE.nc] [--days N] [--set path=value ...] [--restart-out FILE.nc] [--threads N|auto] [--keep-partial] [--allow-long-run] [--allow-large-output] [--quiet]
+  pycno check SCENARIO.json [--days N] [--set path=value ...] [--allow-long-run] [--allow-large-output]
 ${RERUN_USAGE}  ${SWEEP_USAGE}  ${BATCH_USAGE}  ${COMPARE_USAGE}
   ${REPORT_USAGE}
   pycno --version | --help
@@ -40,12 +46,14 @@ ${RERUN_USAGE}  ${SWEEP_USAGE}  ${BATCH_USAGE}  ${COMPARE_USAGE}
   --out FILE.nc          output file (default: the scenario's name with .nc, in the current folder);
                          written as FILE.nc.part-PID and renamed to FILE.nc when the run has finished,
                          so an existing FILE.nc is replaced only by a complete run
-  --days N               run length in days (the same as --set time.days=N)
+  --days N               run length in days (the same as --set time.days=N); a decimal number, as in JSON
   --set path=value       change one scenario value, e.g. --set physics.reducedGravity=0.05
   --restart-out FILE.nc  also write a restart file of the end state (exact continuation)
   --threads N|auto       split the linear step into N latitude strips on N threads (same results bit
                          for bit; auto: one per core on grids large enough to gain); default 1
   --keep-partial         keep the unfinished FILE.nc.part-PID when the run fails (blow-up, full disk)
+  --allow-long-run       run (or check, sweep, rerun) beyond 10,000,000 time steps, which is refused otherwise
+  --allow-large-output   the same beyond 8 GiB of output
   --quiet                no progress and no warnings on stderr (errors only)
 ${RERUN_HELP}${SWEEP_HELP}${BATCH_HELP}  compare A.nc B.nc      how run B differs from run A: scenario values, grid, common times, largest
                          difference per field, measured wave speeds beside theory (exit 2: no overlap)
@@ -66,6 +74,7 @@ interface Args {
   quiet: boolean;
   keepPartial: boolean;
   threads?: ThreadsOption;
+  allow: RunAllowance;
 }
 
 function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
@@ -74,7 +83,7 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
   if (command === '--help' || command === '-h' || command === 'help') return 'help';
   if (command === '--version' || command === '-V') return 'version';
   if (command !== 'run' && command !== 'check') throw new UsageError(`unknown command '${command}'; the commands are run, check, rerun, sweep, compare and report`);
-  const args: Args = { command, scenario: '', sets: [], quiet: false, keepPartial: false };
+  const args: Args = { command, scenario: '', sets: [], quiet: false, keepPartial: false, allow: {} };
   const positional: string[] = [];
   for (let k = 0; k < rest.length; k++) {
     let a = rest[k];
@@ -106,16 +115,22 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
         break;
       case '--days': {
         const v = value('a number of days');
-        const days = Number(v);
-        if (v.trim() === '' || !(days > 0) || !Number.isFinite(days)) throw new UsageError(`--days: expected a number of days > 0 (got '${v}')`);
+        const days = readJsonNumber(v);
+        if (days === null || !(days > 0)) throw new UsageError(`--days: expected a number of days > 0 (got '${clipLine(v)}'); write it as a scenario file writes numbers, e.g. 30, 2.5 or 1e2 (no hex, no leading '+' or zeros)`);
         args.sets.push(`time.days=${days}`);
         break;
       }
+      case '--allow-long-run':
+        args.allow.longRun = true;
+        break;
+      case '--allow-large-output':
+        args.allow.largeOutput = true;
+        break;
       case '--threads': {
         runOnly();
         const v = value("a number of threads or 'auto'");
         try {
-          args.threads = checkThreadsOption(v === 'auto' ? v : v.trim() === '' ? NaN : Number(v), '--threads');
+          args.threads = checkThreadsOption(v === 'auto' ? v : (readJsonNumber(v) ?? NaN), '--threads');
         } catch (e) {
           throw new UsageError((e as Error).message.replace(/\(got .*\)$/, `(got '${v}')`));
         }
@@ -143,7 +158,7 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
 }
 
 function printError(io: CliIO, message: string): void {
-  for (const line of message.split('\n')) io.stderr.write(`pycno: ${line}\n`);
+  for (const line of message.split('\n')) io.stderr.write(`pycno: ${clipLine(line)}\n`);
 }
 
 function exitCodeFor(e: EngineError): number {
@@ -174,23 +189,25 @@ export async function main(argv: readonly string[], io: CliIO): Promise<number> 
     io.stdout.write(`pycno ${PYCNO_VERSION}\n`);
     return 0;
   }
-  const path = resolvePath(io.cwd, args.scenario);
+  // An empty argument is an empty path, not the current folder.
+  const path = args.scenario === '' ? '' : resolvePath(io.cwd, args.scenario);
   let text: string;
   try {
-    text = new TextDecoder('utf-8').decode(await nodeReader(path));
+    text = readScenarioText(path);
   } catch (e) {
-    printError(io, `${args.scenario}: cannot read the scenario file: ${(e as Error).message}`);
+    if (!(e instanceof ReadRefused || e instanceof TextEncodingError)) throw e;
+    printError(io, `${args.scenario === '' ? "''" : args.scenario}: ${e instanceof ReadRefused ? 'cannot read the scenario file: ' : ''}${e.message}`);
     return 2;
   }
   // Messages name the file as the user wrote it; inputs are found relative to its real place.
   const shown = args.scenario;
-  const reader = (p: string) => nodeReader(p.startsWith('/') ? p : resolvePath(io.cwd, p));
+  const reader: InputReader = (p, limit) => nodeReader(p.startsWith('/') ? p : resolvePath(io.cwd, p), limit);
   return args.command === 'check' ? check(args, text, shown, reader, io) : run(args, text, shown, reader, io);
 }
 
-async function check(args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
+async function check(args: Args, text: string, shown: string, reader: InputReader, io: CliIO): Promise<number> {
   try {
-    const parsed = parseScenario(text, shown, args.sets);
+    const parsed = parseScenario(text, shown, args.sets, { allow: args.allow });
     // A spin-up is not run by check: its file is validated, the start taken as rest.
     const notes: string[] = [];
     let forInputs = parsed;
@@ -198,12 +215,12 @@ async function check(args: Args, text: string, shown: string, reader: (p: string
       const spinPath = resolveRelative(shown, parsed.resolved.initial.scenario);
       let spinText: string;
       try {
-        spinText = new TextDecoder().decode(await reader(spinPath));
+        spinText = decodeUtf8Text(await reader(spinPath, READ_LIMITS.scenario));
       } catch (e) {
         printError(io, `${shown}: initial.scenario: cannot read the spin-up scenario ${spinPath}: ${(e as Error).message}`);
         return 2;
       }
-      parseScenario(spinText, spinPath);
+      parseScenario(spinText, spinPath, [], { allow: args.allow });
       notes.push(`spin-up scenario ${spinPath} is valid (not run by check)`);
       forInputs = { ...parsed, resolved: { ...parsed.resolved, initial: { kind: 'rest' } } };
     }
@@ -228,7 +245,7 @@ function describe(info: LoadedScenario, shown: string, argv: Args, engine: Engin
   return describeLoadedRun(info, engine.model!, shown, commandLine(argv, shown));
 }
 
-async function run(args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
+async function run(args: Args, text: string, shown: string, reader: InputReader, io: CliIO): Promise<number> {
   const engine = new Engine({ maxFramesPerSecond: 10, strips: { host: nodeStripHost(), threads: 1 } });
   try {
     return await runOn(engine, args, text, shown, reader, io);
@@ -237,16 +254,17 @@ async function run(args: Args, text: string, shown: string, reader: (p: string) 
   }
 }
 
-async function runOn(engine: Engine, args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
+async function runOn(engine: Engine, args: Args, text: string, shown: string, reader: InputReader, io: CliIO): Promise<number> {
   const quiet = args.quiet;
   // Every file the run reads, so that no output can land on one of them.
   const reads: ReadFile[] = [{ path: resolvePath(io.cwd, shown), what: `the scenario file ${shown}` }];
   const loaded = await engine.load(text, shown, {
     sets: args.sets,
-    reader: (p) => {
+    reader: (p, limit) => {
       reads.push({ path: p.startsWith('/') ? p : resolvePath(io.cwd, p), what: `${p}, an input of the scenario` });
-      return reader(p);
+      return reader(p, limit);
     },
+    allow: args.allow,
     onSpinup: quiet ? undefined : spinupReporter(io),
     threads: args.threads,
   });

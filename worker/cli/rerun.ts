@@ -16,7 +16,11 @@ import { PYCNO_VERSION, RunOutputWriter } from '../../model/io/run-output.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../engine.ts';
 import { describeLoadedRun } from '../run-description.ts';
-import { nodeReader } from '../files-node.ts';
+import { nodeReader, readBounded, ReadRefused } from '../files-node.ts';
+import { READ_LIMITS } from '../../model/io/read-limits.ts';
+import { clipLine } from '../../model/scenario/errors.ts';
+import { readRun, RunFileError } from '../../model/io/run-read.ts';
+import type { RunAllowance } from '../../model/scenario/run-size.ts';
 import { allowedInputs } from './input-policy.ts';
 import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
 
@@ -26,7 +30,7 @@ export interface RerunIO {
   cwd: string;
 }
 
-export const RERUN_USAGE = `  pycno rerun FILE.nc [--out NEW.nc] [--inputs DIR]
+export const RERUN_USAGE = `  pycno rerun FILE.nc [--out NEW.nc] [--inputs DIR] [--allow-long-run] [--allow-large-output]
 `;
 
 export const RERUN_HELP = `  rerun FILE.nc          run the scenario embedded in a Pycno run output again and compare every
@@ -102,10 +106,11 @@ export function placeOf(v: NcReadVariable, index: number): string {
 
 class RerunInputError extends Error {}
 
-function parseRerunArgs(argv: readonly string[]): { file: string; out?: string; inputs?: string } {
+function parseRerunArgs(argv: readonly string[]): { file: string; out?: string; inputs?: string; allow: RunAllowance } {
   const positional: string[] = [];
   let out: string | undefined;
   let inputs: string | undefined;
+  const allow: RunAllowance = {};
   for (let k = 0; k < argv.length; k++) {
     let a = argv[k];
     let inline: string | undefined;
@@ -122,16 +127,20 @@ function parseRerunArgs(argv: readonly string[]): { file: string; out?: string; 
     if (a === '--out') out = value('a file name');
     else if (a === '--inputs') inputs = value('a folder');
     else if (a === '--quiet') continue;
+    else if (a === '--allow-long-run') allow.longRun = true;
+    else if (a === '--allow-large-output') allow.largeOutput = true;
     else if (a.startsWith('-') && a.length > 1) throw new RerunInputError(`unknown option ${a} for pycno rerun; see pycno --help`);
     else positional.push(a);
   }
   if (positional.length !== 1) throw new RerunInputError(`pycno rerun takes one run file, e.g. pycno rerun run.nc (got ${positional.length})`);
-  return { file: positional[0], out, inputs };
+  return { file: positional[0], out, inputs, allow };
 }
 
 /** Run `pycno rerun`; resolves to the exit code. argv holds what follows the word rerun. */
 export async function rerun(argv: readonly string[], io: RerunIO): Promise<number> {
-  const say = (line: string) => io.stderr.write(`pycno: ${line}\n`);
+  const say = (text: string) => {
+    for (const line of text.split('\n')) io.stderr.write(`pycno: ${clipLine(line)}\n`);
+  };
   let args: ReturnType<typeof parseRerunArgs>;
   try {
     args = parseRerunArgs(argv);
@@ -142,12 +151,15 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
     }
     throw e;
   }
-  const path = resolvePath(io.cwd, args.file);
+  const path = args.file === '' ? '' : resolvePath(io.cwd, args.file);
+  let oldBytes: Uint8Array;
   let old: NcFile;
   try {
-    old = readNetcdf(await nodeReader(path));
+    oldBytes = readBounded(path, READ_LIMITS.runFile);
+    old = readNetcdf(oldBytes);
   } catch (e) {
-    say(`${args.file}: cannot read the run file: ${(e as Error).message}`);
+    if (!(e instanceof ReadRefused || e instanceof NetcdfReadError)) throw e;
+    say(`${args.file === '' ? "''" : args.file}: cannot read the run file: ${e.message}`);
     return 2;
   }
   if (textAttribute(old, 'pycno_file') !== 'run-output') {
@@ -162,6 +174,15 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
   const hash = textAttribute(old, 'pycno_scenario_sha256');
   if (hash !== sha256Hex(scenarioJson)) {
     say(`${args.file}: the embedded scenario does not match its hash (pycno_scenario_sha256 ${hash ?? 'missing'}, the text hashes to ${sha256Hex(scenarioJson)}): it was changed after the run`);
+    return 2;
+  }
+  // Every variable a run file must have, with its type and shape: a damaged file is bad input
+  // (exit 2, naming the variable), not a run that "differs" from the rerun.
+  try {
+    readRun(oldBytes, args.file);
+  } catch (e) {
+    if (!(e instanceof RunFileError)) throw e;
+    say(e.message);
     return 2;
   }
   const version = textAttribute(old, 'pycno_version');
@@ -181,11 +202,12 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
   const shown = `${args.file}#pycno_scenario`;
   const engine = new Engine({ maxFramesPerSecond: 1 });
   const loaded = await engine.load(scenarioJson, join(base, 'pycno_scenario'), {
-    reader: async (p) => {
+    reader: async (p, limit) => {
       const real = allow(p.startsWith('/') ? p : resolvePath(base, p));
       reads.push({ path: real, what: `${real}, an input of the run file's scenario` });
-      return nodeReader(real);
+      return nodeReader(real, limit);
     },
+    allow: args.allow,
   });
   if (!loaded.ok) {
     say(`${shown}: ${loaded.error.message.replaceAll(`${join(base, 'pycno_scenario')}: `, '')}`);
@@ -257,7 +279,7 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
       throw e;
     }
     try {
-      now = readNetcdf(memory ? memory.bytes() : await nodeReader(file!.temp));
+      now = readNetcdf(memory ? memory.bytes() : readBounded(file!.temp, READ_LIMITS.runFile));
     } catch (e) {
       if (e instanceof NetcdfReadError) {
         say(`internal error: the rerun's own file cannot be read: ${e.message}`);
