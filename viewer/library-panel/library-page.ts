@@ -10,7 +10,7 @@ import { LibraryError, RunLibrary, estimateSize, type SavedRunMeta } from '../li
 import type { LoadedScenario, OutputSample } from '../../worker/protocol.ts';
 import { CompareView, type CompareChoice } from '../compare/compare-view.ts';
 import { button, el, shortDate } from './dom.ts';
-import { download, fileBytes, fileSafe } from './files.ts';
+import { download, fileBytes, fileSafe } from '../files.ts';
 import { LiveRun, snapshotChoices } from './live-run.ts';
 import { RunView } from './run-view.ts';
 

@@ -17,7 +17,7 @@ import { availableDisplays, displayField, fillDisplay, type DisplayKey } from '.
 import { HovmollerStore } from '../state/hovmoller-store.ts';
 import { ProbeStore } from '../state/probe-store.ts';
 import { button, el } from './dom.ts';
-import { download, fileSafe } from './files.ts';
+import { download, fileSafe } from '../files.ts';
 import { gridInfoOf } from './grid-info.ts';
 import { MapBox } from './map-box.ts';
 import { waveRows, wavesTable, type WaveRow } from './waves.ts';

@@ -1,7 +1,8 @@
-// Files in and out of the page: a download from bytes or text, and a picked or dropped file's bytes.
+// Files in and out of the page: the one download (of bytes, text or a blob), a picked or dropped
+// file's bytes, and names safe for a file.
 
-export function download(data: Uint8Array | string, fileName: string, type: string): void {
-  const blob = new Blob([typeof data === 'string' ? data : (data as Uint8Array<ArrayBuffer>)], { type });
+export function download(data: Uint8Array | string | Blob, fileName: string, type: string): void {
+  const blob = data instanceof Blob ? data : new Blob([typeof data === 'string' ? data : (data as Uint8Array<ArrayBuffer>)], { type });
   const a = document.createElement('a');
   a.href = URL.createObjectURL(blob);
   a.download = fileName;
