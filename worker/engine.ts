@@ -13,6 +13,7 @@ import type { OutputRecord } from '../model/io/run-output.ts';
 import { NetcdfReadError } from '../model/io/netcdf-read.ts';
 import type { State } from '../model/state.ts';
 import type { DrawnBurst } from '../model/forcing/bursts.ts';
+import { runPhysics } from '../model/run-physics.ts';
 import { derivedNumbers } from '../model/scenario/derived.ts';
 import {
   buildPrepared,
@@ -253,9 +254,10 @@ export class Engine {
       name: r.name,
       description: r.description,
       scenarioJson: parsed.scenarioJson,
+      seed: r.seed,
       grid: gridInfo,
+      physics: runPhysics(r),
       derived: derivedNumbers(r, grid),
-      dynamics: model.physics.mode,
       dt: model.dt,
       days: r.days,
       outputEveryDays: r.outputEveryDays,

@@ -11,13 +11,13 @@
 // be confused.
 
 import { FIELD_NAMES, type FieldName } from '../diagnostics/fields.ts';
-import { EARTH } from '../config.ts';
-import { earthBeta } from '../theory.ts';
+import type { RunPhysics } from '../run-physics.ts';
 import type { Integrals } from '../diagnostics/integrals.ts';
 import type { DrawnBurst } from '../forcing/bursts.ts';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from './netcdf-read.ts';
 import { MemorySink } from './netcdf-writer.ts';
 import { INTEGRAL_VARIABLES, OUTPUT_FILL, PYCNO_VERSION, RunOutputWriter, probeVariableName, type OutputRecord, type RunDescription } from './run-output.ts';
+import { hasRunPhysics, legacyRunPhysics, readRunPhysics, RunPhysicsError, type KeptPhysics } from './run-physics-file.ts';
 import { sha256Hex } from './sha256.ts';
 
 export type IntegralKey = Exclude<keyof Integrals, 'day'>;
@@ -69,11 +69,8 @@ export interface RunData {
   createdAt: string | null;
   command: string | null;
   dt: number;
-  dynamics: string;
-  reducedGravity: number;
-  layerThickness: number;
-  /** beta of the run (m-1 s-1, the equatorial value for the spherical option): it sets L and the Rossby windows. */
-  beta: number;
+  /** g', H, beta, rho0, dynamics, c, L, ... of the run (model/run-physics.ts). */
+  physics: RunPhysics;
   grid: RunGrid;
   fields: FieldName[];
   /** One entry per output record: model day and steps taken. */
@@ -95,33 +92,13 @@ const INTEGRAL_KEYS = INTEGRAL_VARIABLES.map((v) => v.key as IntegralKey);
 
 // --- from the engine ------------------------------------------------------------------------
 
-/** The parts of a scenario the file header repeats, read from the scenario JSON itself. */
-export function scenarioFacts(scenarioJson: string): { seed: string | number; dynamics: string; reducedGravity: number; layerThickness: number; beta: number } {
-  let s: { seed?: unknown; physics?: { dynamics?: unknown; reducedGravity?: unknown; layerThickness?: unknown; coriolis?: { kind?: unknown; beta?: unknown } } };
-  try {
-    s = JSON.parse(scenarioJson);
-  } catch (e) {
-    throw new RunFileError(`the scenario JSON does not parse: ${(e as Error).message}`);
-  }
-  const p = s.physics ?? {};
-  if (typeof p.reducedGravity !== 'number' || typeof p.layerThickness !== 'number') {
-    throw new RunFileError('the scenario JSON has no physics.reducedGravity / physics.layerThickness (expected a scenario with defaults filled in)');
-  }
-  return {
-    seed: typeof s.seed === 'string' || typeof s.seed === 'number' ? s.seed : '',
-    dynamics: typeof p.dynamics === 'string' ? p.dynamics : 'linear',
-    reducedGravity: p.reducedGravity,
-    layerThickness: p.layerThickness,
-    // As the scenario resolver sets it: the beta plane's own beta, else 2 Omega / R.
-    beta: p.coriolis?.kind !== 'spherical' && typeof p.coriolis?.beta === 'number' ? p.coriolis.beta : earthBeta(EARTH.omega, EARTH.radius),
-  };
-}
-
 /** What a run is made of before its records: the engine's LoadedScenario has all of it. */
 export interface RunSetup {
   name: string;
   description: string;
   scenarioJson: string;
+  seed: string | number;
+  physics: RunPhysics;
   grid: { nx: number; ny: number; lon: ArrayLike<number>; lat: ArrayLike<number>; ocean: ArrayLike<number> };
   fields: readonly FieldName[];
   hovmollerLats: readonly number[];
@@ -188,7 +165,6 @@ export class RunCollector {
 
   finish(): RunData {
     const s = this.setup;
-    const facts = scenarioFacts(s.scenarioJson);
     const nt = this.days.length;
     const integrals = {} as Record<IntegralKey, Float64Array>;
     INTEGRAL_KEYS.forEach((k, q) => (integrals[k] = Float64Array.from(this.integrals[q])));
@@ -198,14 +174,11 @@ export class RunCollector {
       scenarioJson: s.scenarioJson,
       scenarioSha256: sha256Hex(s.scenarioJson),
       version: PYCNO_VERSION,
-      seed: facts.seed,
+      seed: s.seed,
       createdAt: this.createdAt,
       command: this.command,
       dt: s.dt,
-      dynamics: facts.dynamics,
-      reducedGravity: facts.reducedGravity,
-      layerThickness: facts.layerThickness,
-      beta: facts.beta,
+      physics: structuredClone(s.physics),
       grid: { nx: s.grid.nx, ny: s.grid.ny, lon: Float64Array.from(s.grid.lon), lat: Float64Array.from(s.grid.lat), ocean: Uint8Array.from(s.grid.ocean) },
       fields: [...s.fields],
       days: Float64Array.from(this.days),
@@ -268,10 +241,7 @@ export function runDescription(run: RunData): RunDescription {
     probes: run.probes.map((p) => ({ name: p.name, lon: p.lon, lat: p.lat })),
     bursts: run.bursts,
     dt: run.dt,
-    dynamics: run.dynamics,
-    reducedGravity: run.reducedGravity,
-    layerThickness: run.layerThickness,
-    beta: run.beta,
+    physics: run.physics,
     command: run.version === PYCNO_VERSION ? command : `${command}; run made by Pycno ${run.version}`,
     createdAt: run.createdAt ? new Date(run.createdAt) : undefined,
   };
@@ -324,6 +294,7 @@ export function checkRun(run: RunData): void {
     throw new RunFileError(`run '${run.name}': ${what}`);
   };
   if (nt === 0) bad('no output records');
+  if (!run.physics || !(run.physics.reducedGravity > 0 && run.physics.layerThickness > 0)) bad("no run-physics record (g', H, beta, ...)");
   if (run.grid.lon.length !== nx || run.grid.lat.length !== ny || run.grid.ocean.length !== nx * ny) bad('grid arrays do not match nx, ny');
   if (run.steps.length !== nt) bad(`steps has ${run.steps.length} values for ${nt} records`);
   for (const k of INTEGRAL_KEYS) if (run.integrals[k].length !== nt) bad(`integral ${k} has ${run.integrals[k].length} values for ${nt} records`);
@@ -385,6 +356,18 @@ function numberAttribute(f: NcFile, name: string, where: string): number {
   return a.value[0];
 }
 
+/** What a file written before the run-physics record kept of the physics, in its own attributes. */
+function legacyAttributes(f: NcFile, where: string): KeptPhysics {
+  const optional = (name: string) => (f.attributes[name] === undefined ? undefined : numberAttribute(f, name, where));
+  return {
+    reducedGravity: numberAttribute(f, 'pycno_reduced_gravity', where),
+    layerThickness: numberAttribute(f, 'pycno_layer_thickness', where),
+    beta: optional('pycno_beta'),
+    dynamics: textAttribute(f, 'pycno_dynamics'),
+    earthRadius: optional('pycno_earth_radius'),
+  };
+}
+
 /**
  * Read a Pycno run file. `label` names the file in messages (e.g. its file name). Throws
  * RunFileError with "<label>: ..." for files that are not NetCDF, not Pycno's, or damaged.
@@ -419,16 +402,22 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
   if (hash !== actual) {
     throw new RunFileError(`${label}: damaged Pycno run file: the scenario's SHA-256 is ${actual.slice(0, 12)}..., the file says ${hash.slice(0, 12) || '(none)'}...; the scenario text was changed after the run`);
   }
-  let facts: ReturnType<typeof scenarioFacts>;
-  let name = '';
-  let description = '';
+  // The file keeps its name, description and seed only in the scenario it carries.
+  let s: { name?: unknown; description?: unknown; seed?: unknown };
   try {
-    facts = scenarioFacts(scenarioJson);
-    const s = JSON.parse(scenarioJson) as { name?: unknown; description?: unknown };
-    name = typeof s.name === 'string' ? s.name : '';
-    description = typeof s.description === 'string' ? s.description : '';
+    s = JSON.parse(scenarioJson);
   } catch (e) {
-    throw new RunFileError(`${label}: damaged Pycno run file: ${(e as Error).message}`);
+    throw new RunFileError(`${label}: damaged Pycno run file: the scenario JSON does not parse: ${(e as Error).message}`);
+  }
+  const name = typeof s?.name === 'string' ? s.name : '';
+  const description = typeof s?.description === 'string' ? s.description : '';
+  const seed = typeof s?.seed === 'string' || typeof s?.seed === 'number' ? s.seed : '';
+  let physics: RunPhysics;
+  try {
+    physics = hasRunPhysics(f.attributes) ? readRunPhysics(f.attributes) : legacyRunPhysics(legacyAttributes(f, label), scenarioJson);
+  } catch (e) {
+    if (e instanceof RunPhysicsError) throw new RunFileError(`${label}: damaged Pycno run file: ${e.message}`);
+    throw e;
   }
   let bursts: DrawnBurst[];
   try {
@@ -549,15 +538,11 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     scenarioJson,
     scenarioSha256: actual,
     version: textAttribute(f, 'pycno_version') ?? 'unknown',
-    seed: facts.seed,
+    seed,
     createdAt: m ? m[1] : null,
     command: m ? m[2] : null,
     dt: numberAttribute(f, 'pycno_time_step_seconds', where),
-    dynamics: textAttribute(f, 'pycno_dynamics') ?? facts.dynamics,
-    reducedGravity: numberAttribute(f, 'pycno_reduced_gravity', where),
-    layerThickness: numberAttribute(f, 'pycno_layer_thickness', where),
-    // Files before pycno_beta: the scenario they carry says it.
-    beta: f.attributes.pycno_beta === undefined ? facts.beta : numberAttribute(f, 'pycno_beta', where),
+    physics,
     grid: { nx, ny, lon: lon.slice(), lat: lat.slice(), ocean },
     fields,
     days,

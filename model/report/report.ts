@@ -5,7 +5,7 @@
 
 import { interpolateRdBu } from 'd3-scale-chromatic';
 import { hovmollerData, type RunData } from '../io/run-read.ts';
-import { equatorialRadius, longRossbySpeed } from '../theory.ts';
+import { longRossbySpeed } from '../theory.ts';
 import { derivedNumbers, resolveScenario, validateScenario, type DerivedNumbers } from '../scenario/index.ts';
 import { isMeasured, measureWaves, METRES_PER_DEGREE, type SpeedMeasure, type WaveMeasures } from './measure.ts';
 import { pngDataUrl } from './png.ts';
@@ -214,9 +214,8 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   const d = derivedFor(run);
   const waves = measureWaves(run);
   const c = waves.c;
-  const beta = run.beta;
+  const beta = run.physics.beta;
   const widthKm = equatorialWidthKm(run);
-  const p = scenario.physics ?? {};
   const b = scenario.basin ?? {};
   const res = typeof b.resolution === 'number' ? `${b.resolution}°` : `${b.resolution?.lon}° x ${b.resolution?.lat}°`;
   const parts: string[] = (scenario.wind?.parts ?? []).map((w: any, k: number) => {
@@ -226,15 +225,15 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
 
   const params = table([
     ['basin', escapeHtml(`${b.lonWest}°E to ${b.lonEast}°E, ${b.latSouth}°N to ${b.latNorth}°N, cells ${res} (${run.grid.nx} x ${run.grid.ny})`)],
-    ["reduced gravity g'", `${fmt(run.reducedGravity)} m s⁻²`],
-    ['layer thickness H', `${fmt(run.layerThickness)} m`],
-    ['dynamics', escapeHtml(run.dynamics)],
-    ['friction', p.frictionDays === null || p.frictionDays === undefined ? 'none' : `1 / (${fmt(p.frictionDays)} days)`],
+    ["reduced gravity g'", `${fmt(run.physics.reducedGravity)} m s⁻²`],
+    ['layer thickness H', `${fmt(run.physics.layerThickness)} m`],
+    ['dynamics', escapeHtml(run.physics.dynamics)],
+    ['friction', run.physics.frictionDays === null ? 'none' : `1 / (${fmt(run.physics.frictionDays)} days)`],
     ['wind parts', parts.length ? parts.map(escapeHtml).join('<br>') : 'none'],
     ['length', `${fmt(run.days[run.days.length - 1] - run.days[0])} days, ${run.days.length} output records, ${run.snapshots.length} with maps`],
     ['seed', escapeHtml(String(run.seed))],
   ]);
-  const L = equatorialRadius(c, beta) / 1000;
+  const L = run.physics.equatorialRadius / 1000;
   const derived = table([
     ["Kelvin speed c = √(g'H)", `${fmt(c)} m/s`],
     ['equatorial radius L = √(c/β)', `${fmt(L)} km (β = ${fmt(beta)} m⁻¹ s⁻¹)`],

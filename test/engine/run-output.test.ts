@@ -29,10 +29,7 @@ async function writeRun(sets: string[] = []) {
     probes: info.probes,
     bursts: info.bursts,
     dt: info.dt,
-    dynamics: m.physics.mode,
-    reducedGravity: m.physics.reducedGravity,
-    layerThickness: m.physics.layerThickness,
-    beta: m.physics.beta,
+    physics: info.physics,
     createdAt: new Date('2030-01-02T03:04:05Z'),
   };
   const sink = new MemorySink();
@@ -159,7 +156,7 @@ describe('run output file', () => {
     const oceanArea = a.reduce((s, x, k) => s + (info.grid.ocean[k] ? x : 0), 0);
     expect(records[0].integrals.volumeAnomaly).toBe(0);
     expect(records[0].integrals.volume / (150 * oceanArea)).toBeCloseTo(1, 12);
-    expect(f.attributes.pycno_earth_radius.value).toEqual(new Float64Array([6371008.7714]));
+    expect(f.attributes.pycno_physics_earth_radius.value).toEqual(new Float64Array([6371008.7714]));
   });
 
   it('cell size: the centre spacing, or (one cell) the basin from the scenario', () => {

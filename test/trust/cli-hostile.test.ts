@@ -104,7 +104,7 @@ describe('runs killed without warning', () => {
     const f = readNetcdf(b);
     expect(f.numRecords).toBeGreaterThanOrEqual(2);
     expect(f.numRecords).toBeLessThan(61);
-    expect(f.attributes.pycno_dynamics.value).toBe('nonlinear');
+    expect(f.attributes.pycno_physics_dynamics.value).toBe('nonlinear');
     const h = f.variable('h_anom').values as Float64Array;
     expect(h.length).toBe(f.numRecords * 400 * 200);
     expect(h.every((x) => x === OUTPUT_FILL || Number.isFinite(x))).toBe(true);

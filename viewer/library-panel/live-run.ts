@@ -35,6 +35,8 @@ export class LiveRun {
       name: r.name,
       description: r.description,
       scenarioJson: r.scenarioJson,
+      seed: r.seed,
+      physics: r.physics,
       grid: r.grid,
       fields: [...r.fields],
       hovmollerLats: [...r.hovmollerLats],

@@ -65,7 +65,7 @@ export class DrawLoop {
     const fresh = this.displayFrom === null || this.displayFrom.frame !== f || this.displayFrom.key !== key || this.display.length !== g.nx * g.ny;
     if (fresh) {
       if (this.display.length !== g.nx * g.ny) this.display = new Float32Array(g.nx * g.ny);
-      this.displayOk = fillDisplay(key, f.fields, state.layerThickness, this.display);
+      this.displayOk = fillDisplay(key, f.fields, run.physics.layerThickness, this.display);
       this.displayFrom = { frame: f, key };
     }
     if (!this.displayOk) return;
@@ -97,7 +97,7 @@ export class DrawLoop {
     if (f !== this.readoutFrame || rk !== this.readoutKey) {
       this.readoutFrame = f;
       this.readoutKey = rk;
-      showReadout($<HTMLTableElement>('readout'), run, f, cell, state.layerThickness);
+      showReadout($<HTMLTableElement>('readout'), run, f, cell);
     }
     hovPanel.setMark(state.viewIndex !== null ? f.day : null);
     // The Hovmoller diagram again only when it changed: a new row throttled; a new mark,
@@ -111,7 +111,7 @@ export class DrawLoop {
   /** The read-out of the cell under the pointer (or the cursor) now, outside the draw. */
   showReadout(): void {
     const { state } = this.page;
-    showReadout($<HTMLTableElement>('readout'), state.run, shownFrame(state, this.page.history), state.hover ?? state.cursor, state.layerThickness);
+    showReadout($<HTMLTableElement>('readout'), state.run, shownFrame(state, this.page.history), state.hover ?? state.cursor);
   }
 
   /** What the Hovmoller diagram shows besides its rows. */

@@ -2,12 +2,12 @@
 // it answers with, taking its frames, following its status, resetting it, and what happens when
 // the engine's worker is gone.
 
-import { EARTH } from '../../model/config.ts';
 import type { EngineError, EngineStatus, Frame, LoadedScenario } from '../../worker/protocol.ts';
 import { EngineLostError } from '../engine-client.ts';
 import { formatValue } from '../panels/colour-bar.ts';
 import { showEngineLost } from '../panels/engine-lost.ts';
 import { latLabel, lonLabel } from '../render/geo.ts';
+import { pulseStart } from '../state/characteristics.ts';
 import { availableDisplays, type DisplayKey } from '../state/display-fields.ts';
 import { $ } from './dom.ts';
 import type { DrawLoop } from './draw-loop.ts';
@@ -142,9 +142,7 @@ export class RunLifecycle {
     const { state, info, library, probePanel, history, hov, probes, map, hovPanel, totals } = this.page;
     state.run = r;
     library.runStarted(r);
-    const sc = JSON.parse(r.scenarioJson) as { physics?: { layerThickness?: number }; wind?: { parts?: unknown[] } };
-    state.layerThickness = sc.physics?.layerThickness ?? 150;
-    probePanel.layerThickness = state.layerThickness;
+    probePanel.layerThickness = r.physics.layerThickness;
     history.clear();
     this.drawing.forget();
     hov.reset(r.hovmollerLats);
@@ -168,32 +166,20 @@ export class RunLifecycle {
     state.fieldKey = pick.value as DisplayKey;
     probePanel.key = probePick.value as DisplayKey;
     $<HTMLSelectElement>('hov-lat').replaceChildren(...r.hovmollerLats.map((lat, n) => new Option(latLabel(lat), String(n))));
-    hovPanel.setRun({ lonWest: r.grid.lonWest, lonEast: r.grid.lonEast, days: r.days, nx: r.grid.nx }, r.derived.c, EARTH.radius, defaultStart(sc));
+    hovPanel.setRun({ lonWest: r.grid.lonWest, lonEast: r.grid.lonEast, days: r.days, nx: r.grid.nx }, r.physics.waveSpeed, r.physics.earthRadius, pulseStart(r.scenarioJson));
     $('hov-start').textContent = hovPanel.start ? `from ${lonLabel(hovPanel.start.lon)}, day ${hovPanel.start.day.toFixed(1)}` : '';
     probePanel.renderList();
     const d = r.derived;
     totals.setRun(
       [
         ['dt', `${formatValue(r.dt)} s`],
-        ['c', `${formatValue(d.c)} m/s`],
+        ['c', `${formatValue(r.physics.waveSpeed)} m/s`],
         ['Kelvin crossing', `${formatValue(d.kelvinCrossingDays)} days`],
       ],
-      r.dynamics,
+      r.physics.dynamics,
     );
     info.ready = true;
     this.onStatus(state.status);
     this.drawing.queue(true);
   }
-}
-
-/** Where the characteristic lines start before the user clicks: the first pulsed patch of wind, at its middle. */
-function defaultStart(sc: { wind?: { parts?: unknown[] } }): { lon: number; day: number } | null {
-  for (const p of (sc.wind?.parts ?? []) as Array<{ source?: { shape?: { kind?: string; lon?: number } }; envelope?: { kind?: string; start?: number; duration?: number } }>) {
-    const shape = p.source?.shape;
-    const env = p.envelope;
-    if (shape?.kind === 'patch' && typeof shape.lon === 'number' && env?.kind === 'pulse' && typeof env.start === 'number' && typeof env.duration === 'number') {
-      return { lon: shape.lon, day: env.start + env.duration / 2 };
-    }
-  }
-  return null;
 }

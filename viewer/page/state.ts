@@ -18,8 +18,6 @@ export interface PageState {
   /** Index into the frame history while scrubbing, null to follow the latest frame. */
   viewIndex: number | null;
   fieldKey: DisplayKey;
-  /** The run's layer thickness H, m (the displays that need it: layer depth, transports). */
-  layerThickness: number;
   /** The cell picked by click or keys, and the one under the pointer. */
   cursor: Cell | null;
   hover: Cell | null;
@@ -29,7 +27,7 @@ export interface PageState {
 }
 
 export function newPageState(): PageState {
-  return { run: null, status: 'empty', viewIndex: null, fieldKey: 'h_anom', layerThickness: 150, cursor: null, hover: null, loading: false, early: [] };
+  return { run: null, status: 'empty', viewIndex: null, fieldKey: 'h_anom', cursor: null, hover: null, loading: false, early: [] };
 }
 
 /** The frame on screen: the one scrubbed to, or the latest. */

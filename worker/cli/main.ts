@@ -222,8 +222,8 @@ function commandLine(argv: Args, shown: string): string {
   return ['pycno', argv.command, shown, ...argv.sets.flatMap((s) => ['--set', s])].join(' ');
 }
 
-function describe(info: LoadedScenario, shown: string, argv: Args, engine: Engine): RunDescription {
-  return describeLoadedRun(info, engine.model!, shown, commandLine(argv, shown));
+function describe(info: LoadedScenario, shown: string, argv: Args): RunDescription {
+  return describeLoadedRun(info, shown, commandLine(argv, shown));
 }
 
 async function run(args: Args, text: string, shown: string, reader: (p: string) => Promise<Uint8Array>, io: CliIO): Promise<number> {
@@ -256,7 +256,7 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
   const outFile = args.out ?? `${basename(shown).replace(/\.json$/i, '')}.nc`;
   // The writer lays the file out at once, so its size is known before anything is written.
   let out: OutputFile | null = null;
-  const writer = new RunOutputWriter(describe(info, shown, args, engine), { write: (offset, bytes) => out!.write(offset, bytes) });
+  const writer = new RunOutputWriter(describe(info, shown, args), { write: (offset, bytes) => out!.write(offset, bytes) });
   let restart: OutputFile | null = null;
   // Both outputs are checked and locked before the run starts: a refusal costs nothing.
   try {

@@ -13,6 +13,7 @@ import { dirname, join, resolve as resolvePath } from 'node:path';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from '../../model/io/netcdf-read.ts';
 import { MemorySink, type ByteSink } from '../../model/io/netcdf-writer.ts';
 import { PYCNO_VERSION, RunOutputWriter } from '../../model/io/run-output.ts';
+import { RUN_PHYSICS_ATTRIBUTES } from '../../model/io/run-physics-file.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../engine.ts';
 import { describeLoadedRun } from '../run-description.ts';
@@ -62,7 +63,7 @@ function describeShape(v: NcReadVariable): string {
 
 /** Compare every variable's values (and the attributes that describe the run, not when it ran). */
 export function firstDifference(was: NcFile, now: NcFile): Difference | null {
-  for (const att of ['pycno_scenario_sha256', 'pycno_bursts', 'pycno_time_step_seconds', 'pycno_dynamics']) {
+  for (const att of ['pycno_scenario_sha256', 'pycno_bursts', 'pycno_time_step_seconds', ...RUN_PHYSICS_ATTRIBUTES.map((a) => a.name)]) {
     const a = was.attributes[att];
     const b = now.attributes[att];
     const sa = a === undefined ? '(none)' : typeof a.value === 'string' ? a.value : Array.from(a.value).join(',');
@@ -197,7 +198,7 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
     say(`${shown}: the scenario reads back differently from the text embedded in the file; it cannot be repeated exactly`);
     return 1;
   }
-  const d = describeLoadedRun(info, engine.model!, args.file, `pycno rerun ${args.file}`);
+  const d = describeLoadedRun(info, args.file, `pycno rerun ${args.file}`);
   const memory = args.out ? null : new MemorySink();
   let file: OutputFile | null = null;
   const writer = new RunOutputWriter(d, memory ?? { write: (offset, bytes) => file!.write(offset, bytes) });
