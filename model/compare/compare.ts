@@ -9,7 +9,7 @@
 
 import type { FieldName } from '../diagnostics/fields.ts';
 import { INTEGRAL_VARIABLES } from '../io/run-output.ts';
-import type { IntegralKey, RunData, RunSnapshot } from '../io/run-read.ts';
+import type { IntegralKey, RunData, RunSnapshot } from '../io/run-data.ts';
 import { Interpolator, spacing, type LonLatGrid } from './interpolate.ts';
 import { diffScenarios, type ScenarioDifference } from './scenario-diff.ts';
 

@@ -5,7 +5,7 @@
 
 import { EARTH } from '../config.ts';
 import { fitSpeed, regress, arrivalDay, WaveFitError, type FrontOptions, type SpeedFit } from '../diagnostics/wave-fit.ts';
-import { hovmollerData, type RunData } from '../io/run-read.ts';
+import { hovmollerData, type RunData } from '../io/run-data.ts';
 import { longRossbySpeed } from '../theory.ts';
 
 export const METRES_PER_DEGREE = (EARTH.radius * Math.PI) / 180;

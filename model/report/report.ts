@@ -4,7 +4,7 @@
 // Colours: d3-scale-chromatic's RdBu, reversed so that positive h' (deeper thermocline) is red.
 
 import { interpolateRdBu } from 'd3-scale-chromatic';
-import { hovmollerData, type RunData } from '../io/run-read.ts';
+import { hovmollerData, type RunData } from '../io/run-data.ts';
 import { longRossbySpeed } from '../theory.ts';
 import { derivedNumbers, resolveScenario, validateScenario, type DerivedNumbers } from '../scenario/index.ts';
 import { isMeasured, measureWaves, METRES_PER_DEGREE, type SpeedMeasure, type WaveMeasures } from './measure.ts';

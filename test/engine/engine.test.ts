@@ -2,7 +2,8 @@ import { MessageChannel } from 'node:worker_threads';
 import { describe, expect, it } from 'vitest';
 import { buildModel } from '../../model/scenario/build.ts';
 import { parseScenario } from '../../model/scenario/load-inputs.ts';
-import { Engine, transferList } from '../../worker/engine.ts';
+import { Engine } from '../../worker/engine.ts';
+import { transferList } from '../../worker/frames.ts';
 import type { Frame } from '../../worker/protocol.ts';
 import { BLOW_UP_SETS, FIXTURE, FIXTURE_TEXT, fakeHost } from './helpers.ts';
 

@@ -4,7 +4,8 @@
 
 import { describe, expect, it } from 'vitest';
 import type { OutputRecord } from '../../model/io/run-output.ts';
-import { Engine, transferList } from '../../worker/engine.ts';
+import { Engine } from '../../worker/engine.ts';
+import { transferList } from '../../worker/frames.ts';
 import type { Frame } from '../../worker/protocol.ts';
 import { FIXTURE, FIXTURE_TEXT, fakeHost } from './helpers.ts';
 

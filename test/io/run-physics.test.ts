@@ -8,7 +8,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { EARTH } from '../../model/config.ts';
-import { readRun } from '../../model/io/run-read.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { legacyRunPhysics, readRunPhysics, RUN_PHYSICS_ATTRIBUTES, runPhysicsAttributes } from '../../model/io/run-physics-file.ts';
 import { runPhysics } from '../../model/run-physics.ts';
 import { loadScenario, resolveScenario } from '../../model/scenario/index.ts';
@@ -102,7 +102,7 @@ describe('readers', () => {
   // Every JSON.parse of a run's scenario text in the program, and why it is not a number of the
   // physics read back: a new one must say here what it reads.
   const ALLOWED: Record<string, string> = {
-    'model/io/run-read.ts': "name, description, seed and output.fields: the file's only copy is its scenario",
+    'model/io/run-import.ts': "name, description, seed and output.fields: the file's only copy is its scenario",
     'model/io/run-physics-file.ts': 'legacyRunPhysics: files and saved runs from before the record',
     'model/io/run-output.ts': 'the basin of a one-cell grid, whose cell size the centres cannot give',
     'model/report/report.ts': "the scenario resolved for its stability limit, and the basin and wind parts as written",

@@ -4,7 +4,9 @@
 import 'fake-indexeddb/auto';
 import { openDB } from 'idb';
 import { afterEach, describe, expect, it } from 'vitest';
-import { readRun, toNetcdf, type RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
+import { toNetcdf } from '../../model/io/run-export.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { LibraryError, RunLibrary, StorageFullError, estimateSize, type LibraryOptions } from '../../viewer/library/store.ts';
 import { expectSameRun, tinyRun } from './run-fixture.ts';
 

@@ -2,7 +2,8 @@
 // decode, no script anywhere, every text escaped.
 
 import { describe, expect, it } from 'vitest';
-import { readRun, toNetcdf } from '../../model/io/run-read.ts';
+import { toNetcdf } from '../../model/io/run-export.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { isMeasured, measureWaves } from '../../model/report/measure.ts';
 import { CAUTION, escapeHtml, runReport } from '../../model/report/report.ts';
 import { shortBurst } from '../library/run-fixture.ts';

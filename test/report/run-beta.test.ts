@@ -4,7 +4,7 @@
 // carry it into the file, the read-back run, the report and the comparison.
 
 import { describe, expect, it } from 'vitest';
-import { readRun } from '../../model/io/run-read.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { legacyRunPhysics } from '../../model/io/run-physics-file.ts';
 import { measureWaves } from '../../model/report/measure.ts';
 import { runReport } from '../../model/report/report.ts';

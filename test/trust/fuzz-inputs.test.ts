@@ -15,7 +15,7 @@ import { NC_DOUBLE, NC_FLOAT } from '../../model/io/netcdf-format.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { writeNetcdfToMemory } from '../../model/io/netcdf-writer.ts';
 import { readStartFile, writeRestart } from '../../model/io/restart.ts';
-import { readRun } from '../../model/io/run-read.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { buildModel } from '../../model/scenario/build.ts';
 import { parseScenario } from '../../model/scenario/load-inputs.ts';
 import { FIXTURE, FIXTURE_TEXT } from '../engine/helpers.ts';

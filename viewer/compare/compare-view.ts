@@ -7,7 +7,7 @@
 import uPlot from 'uplot';
 import { compareRuns, type RunComparison } from '../../model/compare/compare.ts';
 import { FIELD_INFO, type FieldName } from '../../model/diagnostics/fields.ts';
-import type { RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
 import { measureWaves } from '../../model/report/measure.ts';
 import { probeColour } from '../panels/probes.ts';
 import { latLabel } from '../render/geo.ts';

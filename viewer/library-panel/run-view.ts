@@ -2,7 +2,7 @@
 // diagram (with the Kelvin and long Rossby lines), its probe series, the wave speeds measured on
 // it beside theory, and its report as a download. Everything shown is the run's saved output.
 
-import type { RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
 import { measureWaves } from '../../model/report/measure.ts';
 import { runReport } from '../../model/report/report.ts';
 import { formatValue } from '../panels/colour-bar.ts';

@@ -9,7 +9,9 @@
 // is reloaded. docs/library.md describes the format and how a future version migrates it.
 
 import { openDB, type DBSchema, type IDBPDatabase } from 'idb';
-import { readRun, thinSnapshots, toNetcdf, checkRun, withAllIntegrals, RunFileError, type RunData } from '../../model/io/run-read.ts';
+import { thinSnapshots, checkRun, withAllIntegrals, RunFileError, type RunData } from '../../model/io/run-data.ts';
+import { toNetcdf } from '../../model/io/run-export.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { legacyRunPhysics } from '../../model/io/run-physics-file.ts';
 import type { RunPhysics } from '../../model/run-physics.ts';
 import { formatBytes } from '../state/frame-history.ts';
