@@ -5,7 +5,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
+import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
 import { EARTH } from '../../model/config.ts';
 
 const missing = chromiumMissing();

@@ -10,13 +10,13 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
+import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
 import { Engine } from '../../worker/engine.ts';
 import type { Frame } from '../../worker/protocol.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { OUTPUT_FILL } from '../../model/io/run-output.ts';
 import { fieldChecksum } from '../../viewer/wind/checksum.ts';
-import { fakeHost } from '../engine/helpers.ts';
+import { fakeHost } from '../support/engine-fixture.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);

@@ -11,7 +11,7 @@ import type { RunData } from '../../model/io/run-data.ts';
 import { toNetcdf } from '../../model/io/run-export.ts';
 import { readRun } from '../../model/io/run-import.ts';
 import { main } from '../../worker/cli/main.ts';
-import { shortBurst, tinyRun } from '../library/run-fixture.ts';
+import { shortBurst, tinyRun } from '../support/run-fixture.ts';
 
 let dir: string;
 let a: RunData;

@@ -8,7 +8,7 @@ import { MemorySink } from '../../model/io/netcdf-writer.ts';
 import { INTEGRAL_VARIABLES, OUTPUT_FILL, PYCNO_VERSION, RunOutputWriter, TIME_UNITS, cellSizeDegrees, type OutputRecord, type RunDescription } from '../../model/io/run-output.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from './helpers.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
 
 /** Run the fixture through the engine into memory; keep every record for comparison. */
 async function writeRun(sets: string[] = []) {
@@ -16,7 +16,6 @@ async function writeRun(sets: string[] = []) {
   const r = await engine.load(FIXTURE_TEXT, FIXTURE, { sets });
   if (!r.ok) throw new Error(r.error.message);
   const info = r.scenario;
-  const m = engine.model!;
   const d: RunDescription = {
     name: info.name,
     description: info.description,

@@ -13,9 +13,9 @@ import { legacyRunPhysics, readRunPhysics, RUN_PHYSICS_ATTRIBUTES, runPhysicsAtt
 import { runPhysics } from '../../model/run-physics.ts';
 import { loadScenario, resolveScenario } from '../../model/scenario/index.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
 import { runInMemory } from '../support/run-records.ts';
-import { edited } from '../trust/nc-edit.ts';
+import { edited } from '../support/nc-edit.ts';
 
 async function loaded(sets: string[] = []) {
   const r = await new Engine({ host: fakeHost(2) }).load(FIXTURE_TEXT, FIXTURE, { sets });

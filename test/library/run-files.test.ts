@@ -15,8 +15,8 @@ import { RunOutputWriter, runOutputFile } from '../../model/io/run-output.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
-import { expectSameRun, tinyRun } from './run-fixture.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
+import { expectSameRun, tinyRun } from '../support/run-fixture.ts';
 
 describe('RunData <-> NetCDF', () => {
   it('collects a run with every series at full resolution and the snapshots asked for', async () => {

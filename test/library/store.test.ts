@@ -8,7 +8,7 @@ import type { RunData } from '../../model/io/run-data.ts';
 import { toNetcdf } from '../../model/io/run-export.ts';
 import { readRun } from '../../model/io/run-import.ts';
 import { LibraryError, RunLibrary, StorageFullError, estimateSize, type LibraryOptions } from '../../viewer/library/store.ts';
-import { expectSameRun, tinyRun } from './run-fixture.ts';
+import { expectSameRun, tinyRun } from '../support/run-fixture.ts';
 
 let dbCount = 0;
 const opened: RunLibrary[] = [];

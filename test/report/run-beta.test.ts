@@ -9,7 +9,7 @@ import { legacyRunPhysics } from '../../model/io/run-physics-file.ts';
 import { measureWaves } from '../../model/report/measure.ts';
 import { runReport } from '../../model/report/report.ts';
 import { EARTH } from '../../model/config.ts';
-import { FIXTURE, FIXTURE_TEXT } from '../engine/helpers.ts';
+import { FIXTURE, FIXTURE_TEXT } from '../support/engine-fixture.ts';
 import { runInMemory } from '../support/run-records.ts';
 
 const STRONG_BETA = 4e-11;

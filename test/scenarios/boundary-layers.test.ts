@@ -21,8 +21,8 @@ import { describe, expect, it } from 'vitest';
 import { Grid } from '../../model/grid.ts';
 import type { Model } from '../../model/model.ts';
 import { derivedNumbers } from '../../model/scenario/index.ts';
-import { record } from '../physics/setup.ts';
-import { build, resolved, startOfNewRun } from './run.ts';
+import { record } from '../support/physics-kit.ts';
+import { build, resolved, startOfNewRun } from '../support/shipped-scenarios.ts';
 
 const GRID_SCALE_BOUND = 0.2;
 const SPEED_BOUND = 2;

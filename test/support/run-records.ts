@@ -7,7 +7,7 @@ import { RunOutputWriter } from '../../model/io/run-output.ts';
 import { Engine } from '../../worker/engine.ts';
 import { describeLoadedRun } from '../../worker/run-description.ts';
 import type { Model } from '../../model/model.ts';
-import { fakeHost } from '../engine/helpers.ts';
+import { fakeHost } from './engine-fixture.ts';
 
 export interface RunInMemory {
   bytes: Uint8Array;

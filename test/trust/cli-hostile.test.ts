@@ -11,8 +11,8 @@ import fc from 'fast-check';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { OUTPUT_FILL } from '../../model/io/run-output.ts';
-import { FIXTURE, FIXTURE_TEXT } from '../engine/helpers.ts';
-import { fuzzSeed } from './fuzz-kit.ts';
+import { FIXTURE, FIXTURE_TEXT } from '../support/engine-fixture.ts';
+import { fuzzSeed } from '../support/fuzz-kit.ts';
 
 const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
 const REGRESSIONS = fileURLToPath(new URL('./regressions/', import.meta.url));

@@ -11,8 +11,8 @@ import fc from 'fast-check';
 import { afterAll, describe, it } from 'vitest';
 import { BlowUpError } from '../../model/errors.ts';
 import { buildPrepared, parseScenario } from '../../model/scenario/load-inputs.ts';
-import { FIXTURE_TEXT } from '../engine/helpers.ts';
-import { check, fuzzSeed, hostileValue, printTally, runCase } from './fuzz-kit.ts';
+import { FIXTURE_TEXT } from '../support/engine-fixture.ts';
+import { check, fuzzSeed, hostileValue, printTally, runCase } from '../support/fuzz-kit.ts';
 
 const CONFIGS = fileURLToPath(new URL('../../configs/', import.meta.url));
 export const BASES: string[] = [

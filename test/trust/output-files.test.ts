@@ -9,8 +9,8 @@ import { hostname, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { BLOW_UP_SETS } from '../engine/helpers.ts';
-import { BIN, days, filesLike, folder, increasing, LONG, nc, noInternals, pycno, pycnoAsync, recordsIn, refusedWith, smallDisk, unmount, when } from './cli-kit.ts';
+import { BLOW_UP_SETS } from '../support/engine-fixture.ts';
+import { BIN, days, filesLike, folder, increasing, LONG, nc, noInternals, pycno, pycnoAsync, recordsIn, refusedWith, smallDisk, unmount, when } from '../support/cli-kit.ts';
 
 let dir: string;
 /** Bytes of a good earlier run of tiny.json (7 records), copied in as the file to protect. */

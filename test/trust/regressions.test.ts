@@ -7,9 +7,9 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { parseScenario } from '../../model/scenario/load-inputs.ts';
 import { validateScenario } from '../../model/scenario/validate.ts';
-import { FIXTURE_TEXT } from '../engine/helpers.ts';
-import { judge } from './fuzz-kit.ts';
-import { replayRegression } from './regression-replay.ts';
+import { FIXTURE_TEXT } from '../support/engine-fixture.ts';
+import { judge } from '../support/fuzz-kit.ts';
+import { replayRegression } from '../support/regression-replay.ts';
 
 const DIR = fileURLToPath(new URL('./regressions/', import.meta.url));
 

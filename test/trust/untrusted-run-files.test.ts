@@ -8,8 +8,8 @@
 import { mkdirSync, readFileSync, readdirSync, symlinkSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { folder, noInternals, pycno, refusedWith, type Ran } from './cli-kit.ts';
-import { dropVariable, edited, retype, setScenario, variable, type EditableFile } from './nc-edit.ts';
+import { folder, noInternals, pycno, refusedWith, type Ran } from '../support/cli-kit.ts';
+import { dropVariable, edited, retype, setScenario, variable, type EditableFile } from '../support/nc-edit.ts';
 
 let dir: string;
 let run: Uint8Array;

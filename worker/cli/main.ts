@@ -20,7 +20,7 @@ import { nodeReader } from '../files-node.ts';
 import type { EngineError, LoadedScenario } from '../protocol.ts';
 import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
 import { compareCommand, COMPARE_USAGE } from './compare.ts';
-import { Progress, type ProgressStream } from './progress.ts';
+import { Progress } from './progress.ts';
 import { reportCommand, REPORT_USAGE } from './report-command.ts';
 import { checkReport, runSummary } from './report.ts';
 import { rerun, RERUN_HELP, RERUN_USAGE } from './rerun.ts';

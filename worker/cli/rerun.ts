@@ -11,7 +11,7 @@
 
 import { dirname, join, resolve as resolvePath } from 'node:path';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from '../../model/io/netcdf-read.ts';
-import { MemorySink, type ByteSink } from '../../model/io/netcdf-writer.ts';
+import { MemorySink } from '../../model/io/netcdf-writer.ts';
 import { PYCNO_VERSION, RunOutputWriter } from '../../model/io/run-output.ts';
 import { RUN_PHYSICS_ATTRIBUTES } from '../../model/io/run-physics-file.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';

@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { expect } from 'vitest';
 import { readNetcdf, type NcFile } from '../../model/io/netcdf-read.ts';
-import { FIXTURE } from '../engine/helpers.ts';
+import { FIXTURE } from './engine-fixture.ts';
 
 export const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
 

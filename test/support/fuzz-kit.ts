@@ -105,7 +105,8 @@ export function check<T>(name: string, seed: number, runs: number, arb: fc.Arbit
   fc.assert(
     fc.property(arb, (x) => {
       const p = problem(x);
-      if (p) throw new Error(`${p}\ninput: ${show(x)}`);
+      // Which fuzz and seed, so the failure can be run again (PYCNO_FUZZ_SEED=<seed>).
+      if (p) throw new Error(`fuzz ${name} (seed ${seed}): ${p}\ninput: ${show(x)}`);
     }),
     { seed, numRuns: runs, endOnFailure: false },
   );

@@ -7,7 +7,7 @@ import { expect } from 'vitest';
 import { RunCollector } from '../../model/io/run-collector.ts';
 import type { RunData } from '../../model/io/run-data.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from './engine-fixture.ts';
 
 export { FIXTURE, FIXTURE_TEXT };
 
