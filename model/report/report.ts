@@ -208,9 +208,15 @@ export interface ReportOptions {
   maps?: number;
 }
 
+/** What the report shows of the scenario as written: its basin and wind parts (a run file may hold an older scenario, so all optional). */
+interface WrittenScenario {
+  basin?: { lonWest?: number; lonEast?: number; latSouth?: number; latNorth?: number; resolution?: number | { lon?: number; lat?: number } };
+  wind?: { parts?: Array<{ kind?: string; name?: string; quantity?: string; enabled?: boolean; source?: { kind?: string; shape?: { kind?: string } }; envelope?: { kind?: string } }> };
+}
+
 /** The report of one run, as the text of an HTML page. */
 export function runReport(run: RunData, options: ReportOptions = {}): string {
-  const scenario = JSON.parse(run.scenarioJson) as Record<string, any>;
+  const scenario = JSON.parse(run.scenarioJson) as WrittenScenario;
   const d = derivedFor(run);
   const waves = measureWaves(run);
   const c = waves.c;
@@ -218,7 +224,7 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   const widthKm = equatorialWidthKm(run);
   const b = scenario.basin ?? {};
   const res = typeof b.resolution === 'number' ? `${b.resolution}°` : `${b.resolution?.lon}° x ${b.resolution?.lat}°`;
-  const parts: string[] = (scenario.wind?.parts ?? []).map((w: any, k: number) => {
+  const parts: string[] = (scenario.wind?.parts ?? []).map((w, k) => {
     const what = w.kind === 'fixed' ? `${w.source?.kind === 'shaped' ? w.source.shape?.kind : w.source?.kind} x ${w.envelope?.kind}` : w.kind;
     return `${k}: ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${w.quantity}${w.enabled === false ? ', off' : ''}`;
   });
@@ -267,7 +273,9 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   let hov = '<p>The run has no Hovmoller section.</p>';
   if (run.hovmoller.length > 0) {
     let eq = 0;
-    run.hovmoller.forEach((h, k) => Math.abs(h.rowLat) < Math.abs(run.hovmoller[eq].rowLat) && (eq = k));
+    run.hovmoller.forEach((h, k) => {
+      if (Math.abs(h.rowLat) < Math.abs(run.hovmoller[eq].rowLat)) eq = k;
+    });
     hov =
       `<p>h′ along ${fmt(run.hovmoller[eq].rowLat)}°N against time (upward). Dashed: a Kelvin wave at c = ${fmt(c)} m/s; dotted: a long Rossby wave at c/3 from the east coast where that line arrives; dots: the measured front.</p>` +
       hovmollerFigure(run, eq, waves);

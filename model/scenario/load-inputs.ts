@@ -7,7 +7,7 @@ import { DAY } from '../config.ts';
 import { InputError } from '../errors.ts';
 import { ForcingError } from '../forcing/errors.ts';
 import { Grid } from '../grid.ts';
-import { readStartFile } from '../io/restart.ts';
+import { readStartFile, type StartFile } from '../io/restart.ts';
 import type { State } from '../state.ts';
 import { buildModel, type BuiltRun } from './build.ts';
 import { formatIssue, ScenarioError, type ScenarioIssue } from './errors.ts';
@@ -161,7 +161,7 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
   if (init.kind === 'restart') {
     const path = resolveRelative(p.fileName, init.path);
     const bytes = await readInput(reader, path, 'the restart file', `${p.fileName}: initial.path`);
-    let start;
+    let start: StartFile;
     try {
       start = readStartFile(bytes, grid(), path);
     } catch (e) {

@@ -42,7 +42,12 @@ function treeRss(root: number): Map<string, number> {
   const inTree = new Set([root]);
   for (let grew = true; grew; ) {
     grew = false;
-    for (const p of procs) if (!inTree.has(p.pid) && inTree.has(p.ppid)) (inTree.add(p.pid), (grew = true));
+    for (const p of procs) {
+      if (!inTree.has(p.pid) && inTree.has(p.ppid)) {
+        inTree.add(p.pid);
+        grew = true;
+      }
+    }
   }
   const kinds = new Map<string, number>();
   for (const p of procs) {

@@ -84,7 +84,7 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
 
   it('loads with the default scenario ready, the map white at rest', async () => {
     await page.goto(served.url);
-    await page.waitForFunction(() => (window as unknown as { __pycno?: Info }).__pycno?.framesDrawn! > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: Info }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
     const i = await info(page);
     expect(i.status).toBe('ready');
     expect(await page.textContent('#run-name')).toBe(burst.name);

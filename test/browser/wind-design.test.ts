@@ -85,7 +85,7 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
       if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
     });
     await page.goto(served.url);
-    await page.waitForFunction(() => (window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn! > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
   });
 
   afterAll(async () => {
@@ -196,7 +196,7 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
 
     // Load the saved file as a user would: the panel shows it, and composes the same text.
     await page.reload();
-    await page.waitForFunction(() => (window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn! > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
     await page.setInputFiles('#scenario-file', path);
     await page.waitForFunction(() => (document.getElementById('scenario-pick') as HTMLSelectElement).value === 'opened:saved.json' || (window as unknown as { __pycno: { errors: string[] } }).__pycno.errors.length > 0);
     await expect.poll(() => page.evaluate(() => (window as unknown as { __pycnoWind: { json(): string } }).__pycnoWind.json())).toBe(savedText);

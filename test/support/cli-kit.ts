@@ -55,7 +55,7 @@ export function refusedWith(r: Ran, line: RegExp): void {
 }
 
 export function noInternals(r: Ran): void {
-  expect(r.stderr).not.toMatch(/internal error|    at |TypeError|RangeError|is not a function|node:internal|\[object Object\]/);
+  expect(r.stderr).not.toMatch(/internal error| {4}at |TypeError|RangeError|is not a function|node:internal|\[object Object\]/);
 }
 
 /** Files in the folder whose names start with `prefix` (the output, its .part-N and .lock). */

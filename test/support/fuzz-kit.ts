@@ -34,7 +34,8 @@ export interface Tally {
 export const tallies: Record<string, Tally> = {};
 
 export function tally(name: string): Tally {
-  return (tallies[name] ??= { tried: 0, accepted: 0, refused: 0, slowestMs: 0 });
+  tallies[name] ??= { tried: 0, accepted: 0, refused: 0, slowestMs: 0 };
+  return tallies[name];
 }
 
 /** Why an outcome is not acceptable, or null when it is. */
