@@ -1,7 +1,8 @@
 // The engine's API as the page (through comlink) or a Node host sees it: plain data in and out,
 // frames pushed to a callback with their buffers transferred. Both entries expose this object.
 
-import type { Engine, LoadOptions } from './engine.ts';
+import type { Engine } from './engine.ts';
+import type { LoadOptions } from './run-plan.ts';
 import type { EngineReport, Frame, LoadResult } from './protocol.ts';
 import { stateChecksum, type StateChecksum } from './state-checksum.ts';
 

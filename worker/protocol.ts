@@ -2,9 +2,9 @@
 // controls it takes. Frames carry typed arrays whose buffers are transferred, not copied.
 
 import type { FieldName } from '../model/diagnostics/fields.ts';
-import type { DynamicsMode } from '../model/config.ts';
 import type { Integrals } from '../model/diagnostics/integrals.ts';
 import type { DrawnBurst } from '../model/forcing/bursts.ts';
+import type { RunPhysics } from '../model/run-physics.ts';
 import type { DerivedNumbers } from '../model/scenario/derived.ts';
 
 /** Grid geometry a listener needs to draw and label fields (sent once per loaded scenario). */
@@ -29,10 +29,12 @@ export interface LoadedScenario {
   description: string;
   /** The scenario JSON exactly as run (defaults filled in), for saving and reproducing. */
   scenarioJson: string;
+  /** The scenario's seed (random bursts draw from it). */
+  seed: string | number;
   grid: GridInfo;
+  /** g', H, beta, rho0, dynamics ('linear' or 'nonlinear'), c, L, ... of the run. */
+  physics: RunPhysics;
   derived: DerivedNumbers;
-  /** 'linear' or 'nonlinear', as the model runs it. */
-  dynamics: DynamicsMode;
   dt: number;
   days: number;
   outputEveryDays: number;

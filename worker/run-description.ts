@@ -1,12 +1,10 @@
 // What a run's output file says about the run, from the loaded scenario and its model: one place
 // for the command line's run and rerun (the page builds its files from saved runs instead).
 
-import { equatorialBeta } from '../model/theory.ts';
-import type { Model } from '../model/model.ts';
 import type { RunDescription } from '../model/io/run-output.ts';
 import type { LoadedScenario } from './protocol.ts';
 
-export function describeLoadedRun(info: LoadedScenario, model: Model, scenarioFile: string, command: string): RunDescription {
+export function describeLoadedRun(info: LoadedScenario, scenarioFile: string, command: string): RunDescription {
   return {
     name: info.name,
     description: info.description,
@@ -19,10 +17,7 @@ export function describeLoadedRun(info: LoadedScenario, model: Model, scenarioFi
     probes: info.probes,
     bursts: info.bursts,
     dt: info.dt,
-    dynamics: model.physics.mode,
-    reducedGravity: model.physics.reducedGravity,
-    layerThickness: model.physics.layerThickness,
-    beta: equatorialBeta(model.physics),
+    physics: info.physics,
     command,
   };
 }

@@ -9,7 +9,7 @@
 
 import type { FieldName } from '../diagnostics/fields.ts';
 import { INTEGRAL_VARIABLES } from '../io/run-output.ts';
-import type { IntegralKey, RunData, RunSnapshot } from '../io/run-read.ts';
+import type { IntegralKey, RunData, RunSnapshot } from '../io/run-data.ts';
 import { Interpolator, spacing, type LonLatGrid } from './interpolate.ts';
 import { diffScenarios, type ScenarioDifference } from './scenario-diff.ts';
 
@@ -292,7 +292,7 @@ export class RunComparison implements CompareSummary {
 
   private field(run: 'A' | 'B', k: number, f: FieldName): Float32Array | null {
     const t = this.commonTimes[k];
-    if (!this.plan || !t || !t.hasFields || !this.fields.includes(f)) return null;
+    if (!this.plan || !t?.hasFields || !this.fields.includes(f)) return null;
     const snap = run === 'A' ? this.snapA.get(t.indexA)! : this.snapB.get(t.indexB)!;
     const out = (run === 'A' ? this.plan.toCommonA : this.plan.toCommonB).apply(snap.fields[f]!);
     const ocean = this.plan.grid.ocean;

@@ -30,9 +30,9 @@ function derivative(f: ArrayLike<number>, nx: number, ny: number, i: number, j: 
   const a = at(i - di, j - dj);
   const b = at(i + di, j + dj);
   const c = at(i, j);
-  if (a === a && b === b) return (b - a) / (2 * step);
-  if (b === b) return (b - c) / step;
-  if (a === a) return (c - a) / step;
+  if (!Number.isNaN(a) && !Number.isNaN(b)) return (b - a) / (2 * step);
+  if (!Number.isNaN(b)) return (b - c) / step;
+  if (!Number.isNaN(a)) return (c - a) / step;
   return NaN;
 }
 
@@ -43,7 +43,7 @@ export function stressCurl(taux: ArrayLike<number>, tauy: ArrayLike<number>, g: 
   for (let j = 0; j < ny; j++) {
     for (let i = 0; i < nx; i++) {
       const k = j * nx + i;
-      curl[k] = taux[k] !== taux[k] ? NaN : derivative(tauy, nx, ny, i, j, true, g.dx) - derivative(taux, nx, ny, i, j, false, g.dy);
+      curl[k] = Number.isNaN(taux[k]) ? NaN : derivative(tauy, nx, ny, i, j, true, g.dx) - derivative(taux, nx, ny, i, j, false, g.dy);
     }
   }
   return curl;
@@ -71,13 +71,13 @@ export function sverdrupU(V: ArrayLike<number>, g: SverdrupGrid): Float64Array {
     let U = 0;
     for (let i = nx - 1; i >= 0; i--) {
       const k = j * nx + i;
-      if (V[k] !== V[k]) {
+      if (Number.isNaN(V[k])) {
         out[k] = NaN;
         U = 0;
         continue;
       }
       const dVdy = derivative(V, nx, ny, i, j, false, g.dy);
-      const inc = dVdy === dVdy ? dVdy * g.dx : 0;
+      const inc = Number.isNaN(dVdy) ? 0 : dVdy * g.dx;
       // Value at the cell centre: half this cell's increment past the running sum.
       out[k] = U + 0.5 * inc;
       U += inc;

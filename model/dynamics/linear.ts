@@ -112,9 +112,9 @@ export function fusedRow(
   let uC = u[k];
   let vW = v[k - 1];
   let vC = v[k];
-  let vNW = v[k - 1 + W];
+  const vNW = v[k - 1 + W];
   let vN = v[k + W];
-  let hW = h[k - 1];
+  const hW = h[k - 1];
   let hC = h[k];
   {
     const fvbar = fS * (vW + vC) + fN * (vNW + vN);

@@ -4,7 +4,7 @@
 // reaches half its largest value there).
 
 import { EARTH } from '../config.ts';
-import type { RunData } from '../io/run-read.ts';
+import type { RunData } from '../io/run-data.ts';
 import { isMeasured, measureWaves, METRES_PER_DEGREE } from '../report/measure.ts';
 
 export interface MemberResults {
@@ -49,7 +49,7 @@ export function memberResults(run: RunData): MemberResults {
   let peak = 0;
   let peakDay = NaN;
   let peakCell = -1;
-  const factor = run.reducedGravity / EARTH.gravity;
+  const factor = run.physics.reducedGravity / EARTH.gravity;
   for (const s of run.snapshots) {
     const ssh = s.fields.ssh;
     const h = s.fields.h_anom;

@@ -5,7 +5,7 @@
 // same for 5 members as for 500.
 
 import type { FieldName } from '../diagnostics/fields.ts';
-import type { RunData } from '../io/run-read.ts';
+import type { RunData } from '../io/run-data.ts';
 import { WelfordAccumulator } from './welford.ts';
 
 /** What every member of the statistics must share (taken from the first one added). */

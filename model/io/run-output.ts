@@ -12,6 +12,8 @@ import type { DrawnBurst } from '../forcing/bursts.ts';
 import { EARTH } from '../config.ts';
 import { NC_BYTE, NC_CHAR, NC_DOUBLE, NC_FILL_FLOAT, NC_FLOAT, utf8Bytes, type NcFileInput, type NcVariableInput } from './netcdf-format.ts';
 import { NetcdfWriter, type ByteSink, type NcRecordInput } from './netcdf-writer.ts';
+import type { RunPhysics } from '../run-physics.ts';
+import { runPhysicsAttributes } from './run-physics-file.ts';
 import { sha256Hex } from './sha256.ts';
 
 /** The program version written into files; test/engine checks it against package.json. */
@@ -70,11 +72,8 @@ export interface RunDescription {
   probes: ReadonlyArray<{ name: string; lon: number; lat: number }>;
   bursts: readonly DrawnBurst[];
   dt: number;
-  dynamics: string;
-  reducedGravity: number;
-  layerThickness: number;
-  /** beta of the run's Coriolis parameter (m-1 s-1; the equatorial 2 Omega / R for the spherical option). */
-  beta: number;
+  /** The run's physics record, written as the pycno_physics_* attributes (run-physics-file.ts). */
+  physics: RunPhysics;
   /** The command or action that made the file (history attribute), and when. */
   command?: string;
   createdAt?: Date;
@@ -250,11 +249,7 @@ export function runOutputFile(d: RunDescription): NcFileInput {
       pycno_scenario_sha256: sha256Hex(d.scenarioJson),
       pycno_bursts: JSON.stringify(d.bursts),
       pycno_time_step_seconds: d.dt,
-      pycno_dynamics: d.dynamics,
-      pycno_reduced_gravity: d.reducedGravity,
-      pycno_layer_thickness: d.layerThickness,
-      pycno_beta: d.beta,
-      pycno_earth_radius: EARTH.radius,
+      ...runPhysicsAttributes(d.physics),
       pycno_hovmoller_requested_lat: d.hovmollerLats.length ? [...d.hovmollerLats] : 'none',
     },
   };

@@ -5,8 +5,8 @@
 
 import { EARTH } from '../config.ts';
 import { fitSpeed, regress, arrivalDay, WaveFitError, type FrontOptions, type SpeedFit } from '../diagnostics/wave-fit.ts';
-import { hovmollerData, type RunData } from '../io/run-read.ts';
-import { equatorialRadius, longRossbySpeed, waveSpeed } from '../theory.ts';
+import { hovmollerData, type RunData } from '../io/run-data.ts';
+import { longRossbySpeed } from '../theory.ts';
 
 export const METRES_PER_DEGREE = (EARTH.radius * Math.PI) / 180;
 
@@ -155,7 +155,7 @@ function measure(run: RunData, section: number, direction: 'east' | 'west', theo
 }
 
 export function measureWaves(run: RunData): WaveMeasures {
-  const c = waveSpeed(run.reducedGravity, run.layerThickness);
+  const c = run.physics.waveSpeed;
   const rossbyTheory = longRossbySpeed(c);
   const byLat = run.hovmoller.map((s, k) => ({ k, lat: Math.abs(s.rowLat) }));
   const eq = byLat.filter((s) => s.lat <= 1).sort((p, q) => p.lat - q.lat)[0];
@@ -164,7 +164,7 @@ export function measureWaves(run: RunData): WaveMeasures {
   // Long Rossby: off-equatorial sections (1° to 3 L from the equator), after the Kelvin wave has
   // crossed the measured range (before that, its own off-equatorial flank moves east there).
   // The run's own beta: a scenario may set physics.coriolis.beta, and L follows it.
-  const L = equatorialRadius(c, run.beta) / METRES_PER_DEGREE;
+  const L = run.physics.equatorialRadius / METRES_PER_DEGREE;
   let from = run.days[0];
   if (isMeasured(kelvin)) {
     const { slope, intercept } = regress(kelvin.points.map(([t, x]) => [t, x]));

@@ -4,8 +4,8 @@
 // Colours: d3-scale-chromatic's RdBu, reversed so that positive h' (deeper thermocline) is red.
 
 import { interpolateRdBu } from 'd3-scale-chromatic';
-import { hovmollerData, type RunData } from '../io/run-read.ts';
-import { equatorialRadius, longRossbySpeed } from '../theory.ts';
+import { hovmollerData, type RunData } from '../io/run-data.ts';
+import { longRossbySpeed } from '../theory.ts';
 import { derivedNumbers, resolveScenario, validateScenario, type DerivedNumbers } from '../scenario/index.ts';
 import { isMeasured, measureWaves, METRES_PER_DEGREE, type SpeedMeasure, type WaveMeasures } from './measure.ts';
 import { pngDataUrl } from './png.ts';
@@ -208,33 +208,38 @@ export interface ReportOptions {
   maps?: number;
 }
 
+/** What the report shows of the scenario as written: its basin and wind parts (a run file may hold an older scenario, so all optional). */
+interface WrittenScenario {
+  basin?: { lonWest?: number; lonEast?: number; latSouth?: number; latNorth?: number; resolution?: number | { lon?: number; lat?: number } };
+  wind?: { parts?: Array<{ kind?: string; name?: string; quantity?: string; enabled?: boolean; source?: { kind?: string; shape?: { kind?: string } }; envelope?: { kind?: string } }> };
+}
+
 /** The report of one run, as the text of an HTML page. */
 export function runReport(run: RunData, options: ReportOptions = {}): string {
-  const scenario = JSON.parse(run.scenarioJson) as Record<string, any>;
+  const scenario = JSON.parse(run.scenarioJson) as WrittenScenario;
   const d = derivedFor(run);
   const waves = measureWaves(run);
   const c = waves.c;
-  const beta = run.beta;
+  const beta = run.physics.beta;
   const widthKm = equatorialWidthKm(run);
-  const p = scenario.physics ?? {};
   const b = scenario.basin ?? {};
   const res = typeof b.resolution === 'number' ? `${b.resolution}°` : `${b.resolution?.lon}° x ${b.resolution?.lat}°`;
-  const parts: string[] = (scenario.wind?.parts ?? []).map((w: any, k: number) => {
+  const parts: string[] = (scenario.wind?.parts ?? []).map((w, k) => {
     const what = w.kind === 'fixed' ? `${w.source?.kind === 'shaped' ? w.source.shape?.kind : w.source?.kind} x ${w.envelope?.kind}` : w.kind;
     return `${k}: ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${w.quantity}${w.enabled === false ? ', off' : ''}`;
   });
 
   const params = table([
     ['basin', escapeHtml(`${b.lonWest}°E to ${b.lonEast}°E, ${b.latSouth}°N to ${b.latNorth}°N, cells ${res} (${run.grid.nx} x ${run.grid.ny})`)],
-    ["reduced gravity g'", `${fmt(run.reducedGravity)} m s⁻²`],
-    ['layer thickness H', `${fmt(run.layerThickness)} m`],
-    ['dynamics', escapeHtml(run.dynamics)],
-    ['friction', p.frictionDays === null || p.frictionDays === undefined ? 'none' : `1 / (${fmt(p.frictionDays)} days)`],
+    ["reduced gravity g'", `${fmt(run.physics.reducedGravity)} m s⁻²`],
+    ['layer thickness H', `${fmt(run.physics.layerThickness)} m`],
+    ['dynamics', escapeHtml(run.physics.dynamics)],
+    ['friction', run.physics.frictionDays === null ? 'none' : `1 / (${fmt(run.physics.frictionDays)} days)`],
     ['wind parts', parts.length ? parts.map(escapeHtml).join('<br>') : 'none'],
     ['length', `${fmt(run.days[run.days.length - 1] - run.days[0])} days, ${run.days.length} output records, ${run.snapshots.length} with maps`],
     ['seed', escapeHtml(String(run.seed))],
   ]);
-  const L = equatorialRadius(c, beta) / 1000;
+  const L = run.physics.equatorialRadius / 1000;
   const derived = table([
     ["Kelvin speed c = √(g'H)", `${fmt(c)} m/s`],
     ['equatorial radius L = √(c/β)', `${fmt(L)} km (β = ${fmt(beta)} m⁻¹ s⁻¹)`],
@@ -268,7 +273,9 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   let hov = '<p>The run has no Hovmoller section.</p>';
   if (run.hovmoller.length > 0) {
     let eq = 0;
-    run.hovmoller.forEach((h, k) => Math.abs(h.rowLat) < Math.abs(run.hovmoller[eq].rowLat) && (eq = k));
+    run.hovmoller.forEach((h, k) => {
+      if (Math.abs(h.rowLat) < Math.abs(run.hovmoller[eq].rowLat)) eq = k;
+    });
     hov =
       `<p>h′ along ${fmt(run.hovmoller[eq].rowLat)}°N against time (upward). Dashed: a Kelvin wave at c = ${fmt(c)} m/s; dotted: a long Rossby wave at c/3 from the east coast where that line arrives; dots: the measured front.</p>` +
       hovmollerFigure(run, eq, waves);

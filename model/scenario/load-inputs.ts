@@ -8,7 +8,7 @@ import { InputError } from '../errors.ts';
 import { ForcingError } from '../forcing/errors.ts';
 import { Grid } from '../grid.ts';
 import { READ_LIMITS, tooLarge, type ReadLimit } from '../io/read-limits.ts';
-import { readStartFile } from '../io/restart.ts';
+import { readStartFile, type StartFile } from '../io/restart.ts';
 import { decodeUtf8Text, TextEncodingError } from '../io/text-decode.ts';
 import type { State } from '../state.ts';
 import { buildModel, type BuiltRun } from './build.ts';
@@ -176,7 +176,7 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
   if (init.kind === 'restart') {
     const path = resolveRelative(p.fileName, init.path);
     const bytes = await readInput(reader, path, 'the restart file', `${p.fileName}: initial.path`, READ_LIMITS.netcdfInput);
-    let start;
+    let start: StartFile;
     try {
       start = readStartFile(bytes, grid(), path);
     } catch (e) {

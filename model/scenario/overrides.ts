@@ -76,9 +76,8 @@ function parsePath(text: string): PathSegment[] | string {
   const segs: PathSegment[] = [];
   const re = /([^.[\]]+)|\[(\d+)\]|(\.)/gy;
   let expectKey = true;
-  let m: RegExpExecArray | null;
   let last = 0;
-  while ((m = re.exec(text)) !== null) {
+  for (let m = re.exec(text); m !== null; m = re.exec(text)) {
     if (m[1] !== undefined) {
       if (!expectKey) return `a "." is missing before '${m[1]}'`;
       segs.push(m[1]);

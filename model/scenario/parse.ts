@@ -174,7 +174,7 @@ class Reader {
       }
       const keyAt = this.i;
       const key = this.string();
-      if (Object.prototype.hasOwnProperty.call(out, key)) {
+      if (Object.hasOwn(out, key)) {
         const first = located ? this.locations.get(pathToString([...path!, key])) : undefined;
         throw new JsonSyntaxError(`duplicate key "${key}"${first ? ` (first at line ${first.line})` : ''}`, keyAt);
       }

@@ -9,7 +9,7 @@ export type SchemaNode = { [keyword: string]: any };
 export const scenarioSchema: SchemaNode = schemaJson as SchemaNode;
 
 export function hasOwn(o: object, key: string): boolean {
-  return Object.prototype.hasOwnProperty.call(o, key);
+  return  Object.hasOwn(o, key);
 }
 
 export function isPlainObject(v: unknown): v is Record<string, unknown> {

@@ -6,7 +6,7 @@ import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { build } from 'vite';
-import { buildPage, chromiumMissing, launch, ROOT, servePage, type Served } from '../browser/harness.ts';
+import { buildPage, chromiumMissing, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
 
 /** The page as shipped, or unminified so that a profile names our functions. */
 async function buildFor(minify: boolean): Promise<string> {

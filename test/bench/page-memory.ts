@@ -14,7 +14,7 @@ import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { ROOT } from '../browser/harness.ts';
+import { ROOT } from '../support/browser-harness.ts';
 import { benchScenario, BENCH_NX, BENCH_NY } from './page-scenario.ts';
 import { loadScenario, openPage, pageInfo } from './page-common.ts';
 
@@ -42,7 +42,12 @@ function treeRss(root: number): Map<string, number> {
   const inTree = new Set([root]);
   for (let grew = true; grew; ) {
     grew = false;
-    for (const p of procs) if (!inTree.has(p.pid) && inTree.has(p.ppid)) (inTree.add(p.pid), (grew = true));
+    for (const p of procs) {
+      if (!inTree.has(p.pid) && inTree.has(p.ppid)) {
+        inTree.add(p.pid);
+        grew = true;
+      }
+    }
   }
   const kinds = new Map<string, number>();
   for (const p of procs) {

@@ -4,7 +4,7 @@
 
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { ROOT } from '../browser/harness.ts';
+import { ROOT } from '../support/browser-harness.ts';
 
 export const BENCH_NX = 640;
 export const BENCH_NY = 240;

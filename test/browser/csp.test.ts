@@ -16,8 +16,8 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { build, preview, type PreviewServer } from 'vite';
 import type { Browser, Page } from 'playwright-core';
-import { chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
-import { builtScripts, originalSource, type SourceMapV3 } from './code-generation.ts';
+import { chromiumMissing, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
+import { builtScripts, originalSource, type SourceMapV3 } from '../support/code-generation.ts';
 import { pagePolicy } from '../../vite.config.ts';
 
 const missing = chromiumMissing();

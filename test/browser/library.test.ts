@@ -11,7 +11,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { ARTIFACTS, buildPage, CHROMIUM, chromiumMissing, isNoise, servePage, type Served } from './harness.ts';
+import { ARTIFACTS, buildPage, CHROMIUM, chromiumMissing, isNoise, servePage, type Served } from '../support/browser-harness.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);

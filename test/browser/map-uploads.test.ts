@@ -5,7 +5,7 @@
 
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { buildPage, chromiumMissing, launch, servePage, type Served } from './harness.ts';
+import { buildPage, chromiumMissing, launch, servePage, type Served } from '../support/browser-harness.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);

@@ -7,8 +7,8 @@ import { tmpdir } from 'node:os';
 import { join, relative } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { build } from 'vite';
-import { ROOT } from './harness.ts';
-import { builtScripts, findCodeGeneration, originalSource, type Hit } from './code-generation.ts';
+import { ROOT } from '../support/browser-harness.ts';
+import { builtScripts, findCodeGeneration, originalSource, type Hit } from '../support/code-generation.ts';
 
 function sourceFiles(dir: string): string[] {
   return readdirSync(dir).flatMap((f) => {

@@ -12,7 +12,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
-import { buildPage, CHROMIUM, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
+import { buildPage, CHROMIUM, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);

@@ -17,11 +17,11 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
+import { buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
 import { Engine } from '../../worker/engine.ts';
 import { stateChecksum, type StateChecksum } from '../../worker/state-checksum.ts';
 import { readRestart } from '../../model/io/restart.ts';
-import { fakeHost } from '../engine/helpers.ts';
+import { fakeHost } from '../support/engine-fixture.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);

@@ -9,7 +9,7 @@ import { createServer, type Server } from 'node:http';
 import { extname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { buildPage, chromiumMissing, isNoise, launch, servePage, type Served } from './harness.ts';
+import { buildPage, chromiumMissing, isNoise, launch, servePage, type Served } from '../support/browser-harness.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);

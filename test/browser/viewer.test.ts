@@ -5,7 +5,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
+import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
 import { EARTH } from '../../model/config.ts';
 
 const missing = chromiumMissing();
@@ -84,7 +84,7 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
 
   it('loads with the default scenario ready, the map white at rest', async () => {
     await page.goto(served.url);
-    await page.waitForFunction(() => (window as unknown as { __pycno?: Info }).__pycno?.framesDrawn! > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: Info }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
     const i = await info(page);
     expect(i.status).toBe('ready');
     expect(await page.textContent('#run-name')).toBe(burst.name);

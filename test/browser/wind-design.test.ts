@@ -10,13 +10,13 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from './harness.ts';
+import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
 import { Engine } from '../../worker/engine.ts';
 import type { Frame } from '../../worker/protocol.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { OUTPUT_FILL } from '../../model/io/run-output.ts';
 import { fieldChecksum } from '../../viewer/wind/checksum.ts';
-import { fakeHost } from '../engine/helpers.ts';
+import { fakeHost } from '../support/engine-fixture.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);
@@ -85,7 +85,7 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
       if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
     });
     await page.goto(served.url);
-    await page.waitForFunction(() => (window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn! > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
   });
 
   afterAll(async () => {
@@ -196,7 +196,7 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
 
     // Load the saved file as a user would: the panel shows it, and composes the same text.
     await page.reload();
-    await page.waitForFunction(() => (window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn! > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
     await page.setInputFiles('#scenario-file', path);
     await page.waitForFunction(() => (document.getElementById('scenario-pick') as HTMLSelectElement).value === 'opened:saved.json' || (window as unknown as { __pycno: { errors: string[] } }).__pycno.errors.length > 0);
     await expect.poll(() => page.evaluate(() => (window as unknown as { __pycnoWind: { json(): string } }).__pycnoWind.json())).toBe(savedText);

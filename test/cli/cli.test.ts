@@ -9,7 +9,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { OUTPUT_FILL } from '../../model/io/run-output.ts';
 import { Engine } from '../../worker/engine.ts';
-import { BLOW_UP_SETS, FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
+import { BLOW_UP_SETS, FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
 
 const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
 let dir: string;

@@ -15,8 +15,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { memberResults } from '../../model/ensemble/member-results.ts';
 import { MEMBER_SCALARS } from '../../model/ensemble/summary-file.ts';
 import { readNetcdf, type NcFile } from '../../model/io/netcdf-read.ts';
-import { readRun } from '../../model/io/run-read.ts';
-import { FIXTURE } from '../engine/helpers.ts';
+import { readRun } from '../../model/io/run-import.ts';
+import { FIXTURE } from '../support/engine-fixture.ts';
 import { sameBits } from '../support/bits.ts';
 import { startLocalSlurm, type LocalSlurm } from '../support/slurm-cluster.ts';
 

@@ -12,7 +12,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { scenarioHash } from '../../model/scenario/canonical-hash.ts';
 import { estimateTask, slurmTime } from '../../worker/cli/batch-estimate.ts';
-import { FIXTURE } from '../engine/helpers.ts';
+import { FIXTURE } from '../support/engine-fixture.ts';
 
 const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
 let dir = '';

@@ -7,9 +7,11 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { compareRuns } from '../../model/compare/compare.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { OUTPUT_FILL } from '../../model/io/run-output.ts';
-import { readRun, toNetcdf, type RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
+import { toNetcdf } from '../../model/io/run-export.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { main } from '../../worker/cli/main.ts';
-import { shortBurst, tinyRun } from '../library/run-fixture.ts';
+import { shortBurst, tinyRun } from '../support/run-fixture.ts';
 
 let dir: string;
 let a: RunData;

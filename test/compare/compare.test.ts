@@ -4,8 +4,8 @@ import { describe, expect, it } from 'vitest';
 import { compareRuns, matchTimes } from '../../model/compare/compare.ts';
 import { Interpolator } from '../../model/compare/interpolate.ts';
 import { diffScenarios } from '../../model/compare/scenario-diff.ts';
-import type { RunData } from '../../model/io/run-read.ts';
-import { tinyRun } from '../library/run-fixture.ts';
+import type { RunData } from '../../model/io/run-data.ts';
+import { tinyRun } from '../support/run-fixture.ts';
 
 const linear = (lon: number, lat: number) => 2 + 0.3 * (lon - 170) - 0.7 * lat;
 

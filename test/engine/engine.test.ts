@@ -2,9 +2,10 @@ import { MessageChannel } from 'node:worker_threads';
 import { describe, expect, it } from 'vitest';
 import { buildModel } from '../../model/scenario/build.ts';
 import { parseScenario } from '../../model/scenario/load-inputs.ts';
-import { Engine, transferList } from '../../worker/engine.ts';
+import { Engine } from '../../worker/engine.ts';
+import { transferList } from '../../worker/frames.ts';
 import type { Frame } from '../../worker/protocol.ts';
-import { BLOW_UP_SETS, FIXTURE, FIXTURE_TEXT, fakeHost } from './helpers.ts';
+import { BLOW_UP_SETS, FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
 
 // Many output intervals of about one step each: far more samples than frames fit in the time.
 const MANY_SAMPLES = ['basin.resolution=0.25', 'time.days=20', 'time.outputEveryDays=0.1'];

@@ -5,7 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { startEngineThread } from '../../worker/node-host.ts';
 import type { EngineReport, Frame } from '../../worker/protocol.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from './helpers.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
 
 const thread = startEngineThread();
 afterAll(() => thread.close());

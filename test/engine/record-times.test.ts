@@ -12,7 +12,7 @@ import { writeRestart } from '../../model/io/restart.ts';
 import { derivedNumbers } from '../../model/scenario/derived.ts';
 import { parseScenario } from '../../model/scenario/load-inputs.ts';
 import { recordDays, runInMemory } from '../support/run-records.ts';
-import { FIXTURE_TEXT } from './helpers.ts';
+import { FIXTURE_TEXT } from '../support/engine-fixture.ts';
 
 // g' = 0.037 makes dt a fraction of a second (5 days in 17 steps at 1 degree), where adding dt
 // at every step drifts off the whole days.

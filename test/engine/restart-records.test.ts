@@ -6,8 +6,8 @@
 import { describe, expect, it } from 'vitest';
 import { writeRestart } from '../../model/io/restart.ts';
 import { recordDays, recordDifferences, runInMemory, type RunInMemory } from '../support/run-records.ts';
-import { BURSTS_PART } from '../trust/helpers.ts';
-import { FIXTURE_TEXT } from './helpers.ts';
+import { BURSTS_PART } from '../support/trust-kit.ts';
+import { FIXTURE_TEXT } from '../support/engine-fixture.ts';
 
 const PATCH = { kind: 'shaped', shape: { kind: 'patch', lon: 165, lat: 0, lonWidth: 6, latWidth: 3 }, x: 0.1, y: 0.02 };
 

@@ -8,7 +8,7 @@ import { readRestart, readStartFile, writeRestart } from '../../model/io/restart
 import { buildModel } from '../../model/scenario/build.ts';
 import { buildPrepared, parseScenario } from '../../model/scenario/load-inputs.ts';
 import type { State } from '../../model/state.ts';
-import { FIXTURE, FIXTURE_TEXT } from './helpers.ts';
+import { FIXTURE, FIXTURE_TEXT } from '../support/engine-fixture.ts';
 
 function same(a: Float64Array, b: Float64Array): boolean {
   return Buffer.from(a.buffer, a.byteOffset, a.byteLength).equals(Buffer.from(b.buffer, b.byteOffset, b.byteLength));

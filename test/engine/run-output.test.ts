@@ -8,7 +8,7 @@ import { MemorySink } from '../../model/io/netcdf-writer.ts';
 import { INTEGRAL_VARIABLES, OUTPUT_FILL, PYCNO_VERSION, RunOutputWriter, TIME_UNITS, cellSizeDegrees, type OutputRecord, type RunDescription } from '../../model/io/run-output.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from './helpers.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
 
 /** Run the fixture through the engine into memory; keep every record for comparison. */
 async function writeRun(sets: string[] = []) {
@@ -16,7 +16,6 @@ async function writeRun(sets: string[] = []) {
   const r = await engine.load(FIXTURE_TEXT, FIXTURE, { sets });
   if (!r.ok) throw new Error(r.error.message);
   const info = r.scenario;
-  const m = engine.model!;
   const d: RunDescription = {
     name: info.name,
     description: info.description,
@@ -29,10 +28,7 @@ async function writeRun(sets: string[] = []) {
     probes: info.probes,
     bursts: info.bursts,
     dt: info.dt,
-    dynamics: m.physics.mode,
-    reducedGravity: m.physics.reducedGravity,
-    layerThickness: m.physics.layerThickness,
-    beta: m.physics.beta,
+    physics: info.physics,
     createdAt: new Date('2030-01-02T03:04:05Z'),
   };
   const sink = new MemorySink();
@@ -159,7 +155,7 @@ describe('run output file', () => {
     const oceanArea = a.reduce((s, x, k) => s + (info.grid.ocean[k] ? x : 0), 0);
     expect(records[0].integrals.volumeAnomaly).toBe(0);
     expect(records[0].integrals.volume / (150 * oceanArea)).toBeCloseTo(1, 12);
-    expect(f.attributes.pycno_earth_radius.value).toEqual(new Float64Array([6371008.7714]));
+    expect(f.attributes.pycno_physics_earth_radius.value).toEqual(new Float64Array([6371008.7714]));
   });
 
   it('cell size: the centre spacing, or (one cell) the basin from the scenario', () => {

@@ -4,9 +4,10 @@
 
 import { describe, expect, it } from 'vitest';
 import type { OutputRecord } from '../../model/io/run-output.ts';
-import { Engine, transferList } from '../../worker/engine.ts';
+import { Engine } from '../../worker/engine.ts';
+import { transferList } from '../../worker/frames.ts';
 import type { Frame } from '../../worker/protocol.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from './helpers.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
 
 async function run(every: number | null): Promise<{ frames: Array<{ frame: Frame; transfer: ArrayBuffer[] }>; records: OutputRecord[]; fields: string[] }> {
   const engine = new Engine({ host: fakeHost(5) });

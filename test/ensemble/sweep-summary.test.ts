@@ -17,9 +17,10 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { FIELD_NAMES } from '../../model/diagnostics/fields.ts';
 import { EnsembleStatistics } from '../../model/ensemble/statistics.ts';
 import { readNetcdf, type NcFile } from '../../model/io/netcdf-read.ts';
-import { readRun, type RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { gather } from '../../worker/cli/sweep-gather.ts';
-import { FIXTURE } from '../engine/helpers.ts';
+import { FIXTURE } from '../support/engine-fixture.ts';
 import { CDO_SINFON, NCDUMP_HEADER, NETCDF4_READER, OUTSIDE_READERS, missingUdunits, udunits } from '../support/outside-readers.ts';
 
 const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));

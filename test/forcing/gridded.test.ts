@@ -169,10 +169,18 @@ function writeClassic(dims: Array<[string, number]>, vars: NcVar[], recordDim: n
   const size = header(vars.map(() => 0));
   const begins: number[] = [];
   let at = size;
-  for (const v of vars) if (!isRec(v)) (begins[vars.indexOf(v)] = at), (at += sliceLen(v) * 8);
+  for (const v of vars) {
+    if (isRec(v)) continue;
+    begins[vars.indexOf(v)] = at;
+    at += sliceLen(v) * 8;
+  }
   const recStart = at;
   let recStep = 0;
-  for (const v of vars) if (isRec(v)) (begins[vars.indexOf(v)] = recStart + recStep), (recStep += sliceLen(v) * 8);
+  for (const v of vars) {
+    if (!isRec(v)) continue;
+    begins[vars.indexOf(v)] = recStart + recStep;
+    recStep += sliceLen(v) * 8;
+  }
   header(begins);
   const out = new DataView(new ArrayBuffer(recStart + recStep * numrecs));
   new Uint8Array(out.buffer).set(parts);

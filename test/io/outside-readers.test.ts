@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readNetcdf, type NcFile } from '../../model/io/netcdf-read.ts';
-import { FIXTURE } from '../engine/helpers.ts';
+import { FIXTURE } from '../support/engine-fixture.ts';
 import {
   CDO_SHOWTIMESTAMP,
   CDO_SINFON,

@@ -12,7 +12,7 @@ import { readFileSync } from 'node:fs';
 import { referenceConfig, referenceStress } from '../../model/reference-kernel.ts';
 import { sameBits } from '../support/bits.ts';
 
-export function testConfigs(): Array<{ name: string; cfg: ModelConfig }> {
+function testConfigs(): Array<{ name: string; cfg: ModelConfig }> {
   const out: Array<{ name: string; cfg: ModelConfig }> = [];
   for (const [nx, ny] of [
     [160, 60],
@@ -28,7 +28,7 @@ export function testConfigs(): Array<{ name: string; cfg: ModelConfig }> {
   return out;
 }
 
-export function windyModel(cfg: ModelConfig, kernel: LinearKernelName = 'ts'): Model {
+function windyModel(cfg: ModelConfig, kernel: LinearKernelName = 'ts'): Model {
   return new Model(cfg, { wind: referenceStress(new Grid(cfg.basin, cfg.physics.earthRadius)), kernel });
 }
 

@@ -9,7 +9,7 @@ import { hovPixels } from '../../viewer/compare/hov-image.ts';
 import { differenceRange, sharedRange } from '../../viewer/compare/ranges.ts';
 import { differenceRows } from '../../viewer/compare/scenario-table.ts';
 import { gridInfoOf } from '../../viewer/library-panel/grid-info.ts';
-import { pulseStart } from '../../viewer/library-panel/run-view.ts';
+import { pulseStart } from '../../viewer/state/characteristics.ts';
 import { waveRows } from '../../viewer/library-panel/waves.ts';
 import { lookupTable } from '../../viewer/render/colour-maps.ts';
 

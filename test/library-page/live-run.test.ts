@@ -1,6 +1,7 @@
 // The page's recorder of the run on screen: samples in, a RunData out (through RunCollector),
 // snapshots thinned within a memory budget, the choices the save form offers.
 
+import { completeRunPhysics } from '../../model/run-physics.ts';
 import { describe, expect, it } from 'vitest';
 import type { FieldName } from '../../model/diagnostics/fields.ts';
 import type { Integrals } from '../../model/diagnostics/integrals.ts';
@@ -17,8 +18,9 @@ function loaded(): LoadedScenario {
     description: 'a test run',
     scenarioJson: scenario,
     grid: { nx, ny, lonWest: 0, lonEast: 4, latSouth: -1.5, latNorth: 1.5, dLon: 1, dLat: 1, lon: Float64Array.from([0.5, 1.5, 2.5, 3.5]), lat: Float64Array.from([-1, 0, 1]), ocean: new Uint8Array(nx * ny).fill(1) },
+    seed: 3,
+    physics: completeRunPhysics({ reducedGravity: 0.05, layerThickness: 150, density: 1025, coriolis: 'beta-plane', beta: 2.289e-11, earthRadius: 6371008.7714, dynamics: 'linear', frictionDays: null, viscosity: 0 }),
     derived: {} as LoadedScenario['derived'],
-    dynamics: 'linear',
     dt: 3600,
     days: 10,
     outputEveryDays: 1,

@@ -4,9 +4,11 @@
 import 'fake-indexeddb/auto';
 import { openDB } from 'idb';
 import { afterEach, describe, expect, it } from 'vitest';
-import { readRun, toNetcdf, type RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
+import { toNetcdf } from '../../model/io/run-export.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { LibraryError, RunLibrary, StorageFullError, estimateSize, type LibraryOptions } from '../../viewer/library/store.ts';
-import { expectSameRun, tinyRun } from './run-fixture.ts';
+import { expectSameRun, tinyRun } from '../support/run-fixture.ts';
 
 let dbCount = 0;
 const opened: RunLibrary[] = [];
@@ -190,5 +192,34 @@ describe('run library', () => {
     await expect(lib.importNetcdf(new TextEncoder().encode('hello'), 'notes.txt')).rejects.toThrow(/^not imported: notes\.txt: not a NetCDF file/);
     await expect(lib.importNetcdf(bytes.slice(0, bytes.length - 100), 'cut.nc')).rejects.toThrow(LibraryError);
     expect(await raw(lib.dbName)).toEqual(before);
+  });
+});
+
+describe('a library of the first version', () => {
+  it('opens with its runs moved to format 2: the physics record from what each kept and its scenario', async () => {
+    const dbName = `test-library-${++dbCount}`;
+    const run = await tinyRun(['physics.frictionDays=90']);
+    // A run as version 1 saved it: g', H, beta and dynamics beside the scenario, no record.
+    const { physics, ...rest } = run;
+    const v1Run = { ...rest, dynamics: physics.dynamics, reducedGravity: physics.reducedGravity, layerThickness: physics.layerThickness, beta: physics.beta };
+    const v1 = await openDB(dbName, 1, {
+      upgrade(db) {
+        db.createObjectStore('runs', { keyPath: 'id' });
+        db.createObjectStore('payloads', { keyPath: 'id' });
+      },
+    });
+    const meta = { id: 'old', name: 'old run', savedAt: '2030-01-01T00:00:00.000Z', runCreatedAt: null, notes: '', summary: {}, version: '0.1.0', seed: 11, scenarioSha256: run.scenarioSha256, sizeBytes: 1, snapshotEvery: 1, snapshots: run.snapshots.length, records: run.days.length, firstDay: 0, lastDay: 6, deletedAt: null };
+    await v1.put('runs', meta);
+    await v1.put('payloads', { id: 'old', format: 'pycno-saved-run/1', run: v1Run });
+    // One that cannot move (its scenario is not JSON) stays as it was, and is refused by name.
+    await v1.put('runs', { ...meta, id: 'broken', name: 'broken run' });
+    await v1.put('payloads', { id: 'broken', format: 'pycno-saved-run/1', run: { ...v1Run, scenarioJson: '{ not json' } });
+    v1.close();
+    const lib = await library({ dbName });
+    const got = await lib.get('old');
+    expect(got.physics).toEqual(physics);
+    expect('reducedGravity' in got).toBe(false);
+    expectSameRun(run, got);
+    await expect(lib.get('broken')).rejects.toThrow(/saved run 'broken run' is in format pycno-saved-run\/1, which this version \(pycno-saved-run\/2\) does not read/);
   });
 });

@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { BlowUpError } from '../../model/errors.ts';
 import { Model } from '../../model/model.ts';
-import { basin, config } from '../physics/setup.ts';
+import { basin, config } from '../support/physics-kit.ts';
 
 function vanished(fill: (i: number, j: number) => number): BlowUpError {
   const m = new Model(config(basin(0, 20, -5, 5, 0.5), { reducedGravity: 0.03, layerThickness: 150 }));

@@ -5,7 +5,7 @@ import { BlowUpError, InputError } from '../../model/errors.ts';
 import { Model } from '../../model/model.ts';
 import { State } from '../../model/state.ts';
 import { Grid } from '../../model/grid.ts';
-import { basin, config, uniformStress } from '../physics/setup.ts';
+import { basin, config, uniformStress } from '../support/physics-kit.ts';
 import { EARTH } from '../../model/config.ts';
 
 const b = basin(140, 180, -10, 10, 0.5);

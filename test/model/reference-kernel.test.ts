@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { referenceChecksum, referenceModel } from '../../model/reference-kernel.ts';
-import { record } from '../physics/setup.ts';
+import { record } from '../support/physics-kit.ts';
 
 // Checksums of the shared reference kernel (C double -O2 and NumPy float64 agree in all 16 digits;
 // table "Reference checksums" of the refbench README). Agreement to 1e-10 is a real test there:

@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { probeStencil, sampleAt, sectionAlong } from '../../model/diagnostics/sampling.ts';
 import { Grid } from '../../model/grid.ts';
 import { Model } from '../../model/model.ts';
-import { basin, config } from '../physics/setup.ts';
+import { basin, config } from '../support/physics-kit.ts';
 import { EARTH } from '../../model/config.ts';
 
 describe('sampling', () => {

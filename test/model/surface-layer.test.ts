@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { Model } from '../../model/model.ts';
 import { surfaceShear } from '../../model/surface-layer.ts';
-import { basin, config, windOn } from '../physics/setup.ts';
+import { basin, config, windOn } from '../support/physics-kit.ts';
 
 describe('surface layer', () => {
   it('the point balance solves its two equations', () => {

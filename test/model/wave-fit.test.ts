@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { arrivalDay, fitSpeed, regress, WaveFitError } from '../../model/diagnostics/wave-fit.ts';
 import { equatorialScales } from '../../model/initial.ts';
 import { Model } from '../../model/model.ts';
-import { basin, config, DAY } from '../physics/setup.ts';
+import { basin, config, DAY } from '../support/physics-kit.ts';
 
 const M_PER_DEG = 111_195;
 

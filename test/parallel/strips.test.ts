@@ -4,7 +4,7 @@
 // friction and viscosity. The worker threads are real (worker_threads) and terminated after.
 
 import { afterEach, describe, expect, it } from 'vitest';
-import { basin, changingWind, countingHost, expectSameSteps, model, sameBits, STRIP_CASES } from './strip-helpers.ts';
+import { basin, changingWind, countingHost, expectSameSteps, model, sameBits, STRIP_CASES } from '../support/strip-helpers.ts';
 import { linearStepPlain, linearWork } from '../../model/dynamics/linear.ts';
 import { InputError } from '../../model/errors.ts';
 import { Grid } from '../../model/grid.ts';

@@ -10,7 +10,7 @@ import type { Model } from '../../model/model.ts';
 import { needsEdgeSponge, stepInStrips, stripBounds } from '../../model/dynamics/step-schedule.ts';
 import { chooseThreads } from '../../model/parallel/threads.ts';
 import { createWasmStripMemory, wasmStripRows, wasmStripsAvailable } from '../../model/parallel/wasm-strips.ts';
-import { basin, countingHost, expectSameSteps, model, sameBits, STRIP_CASES } from './strip-helpers.ts';
+import { basin, countingHost, expectSameSteps, model, sameBits, STRIP_CASES } from '../support/strip-helpers.ts';
 
 const open: Model[] = [];
 afterEach(async () => {

@@ -6,7 +6,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { Model } from '../../model/model.ts';
-import { basin, config, DAY, record } from './setup.ts';
+import { basin, config, DAY, record } from '../support/physics-kit.ts';
 
 describe('Kelvin wave reflection at an eastern coast (linear, 0.25 degree grid)', () => {
   const b = basin(130, 200, -20.125, 20.125, 0.25);

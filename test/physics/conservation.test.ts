@@ -6,7 +6,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { Model } from '../../model/model.ts';
-import { basin, config, record } from './setup.ts';
+import { basin, config, record } from '../support/physics-kit.ts';
 
 // A small basin with an island and a coast polygon, so that land boundaries take part.
 const land = [

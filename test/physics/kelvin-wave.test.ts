@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { equatorialScales } from '../../model/initial.ts';
 import { Model } from '../../model/model.ts';
-import { basin, config, DAY, linearFit, peak, record, row } from './setup.ts';
+import { basin, config, DAY, linearFit, peak, record, row } from '../support/physics-kit.ts';
 
 // 0.25 degree cells, no friction, no viscosity, closed walls far from the wave.
 const RES = 0.25;

@@ -10,7 +10,7 @@
 import { describe, expect, it } from 'vitest';
 import { equatorialScales } from '../../model/initial.ts';
 import { Model } from '../../model/model.ts';
-import { basin, config, DAY, record } from './setup.ts';
+import { basin, config, DAY, record } from '../support/physics-kit.ts';
 
 describe('long first-mode Rossby wave (linear mode, 0.5 degree grid)', () => {
   it('travels west at c/3 within 5 %', () => {

@@ -9,7 +9,7 @@
 import { describe, expect, it } from 'vitest';
 import type { SpongeConfig } from '../../model/config.ts';
 import { Model, type LinearKernelName } from '../../model/model.ts';
-import { basin, config, record, uniformStress } from './setup.ts';
+import { basin, config, record, uniformStress } from '../support/physics-kit.ts';
 
 const DAY = 86400;
 const B = basin(0, 40, -15, 15, 0.5);

@@ -9,7 +9,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { Model } from '../../model/model.ts';
-import { basin, config, DAY, linearFit, record, row, uniformStress } from './setup.ts';
+import { basin, config, DAY, linearFit, record, row, uniformStress } from '../support/physics-kit.ts';
 
 const TAU = -0.05;
 

@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { calm } from '../../model/forcing/stress.ts';
 import { Model } from '../../model/model.ts';
-import { basin, config, DAY, record, uniformStress } from './setup.ts';
+import { basin, config, DAY, record, uniformStress } from '../support/physics-kit.ts';
 
 const TAU = 0.05;
 // 200 degrees wide: the Kelvin wave from the western wall needs about 40 days to reach mid-basin.

@@ -1,7 +1,7 @@
 // The report's PNG encoder, checked by decoding its output with Node's zlib.
 
 import { inflateSync, crc32 as nodeCrc32 } from 'node:zlib';
-import { decodePng } from './decode-png.ts';
+import { decodePng } from '../support/decode-png.ts';
 import { describe, expect, it } from 'vitest';
 import { adler32, base64, crc32, encodePng, zlibStored } from '../../model/report/png.ts';
 

@@ -2,11 +2,12 @@
 // decode, no script anywhere, every text escaped.
 
 import { describe, expect, it } from 'vitest';
-import { readRun, toNetcdf } from '../../model/io/run-read.ts';
+import { toNetcdf } from '../../model/io/run-export.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { isMeasured, measureWaves } from '../../model/report/measure.ts';
 import { CAUTION, escapeHtml, runReport } from '../../model/report/report.ts';
-import { shortBurst } from '../library/run-fixture.ts';
-import { decodePng } from './decode-png.ts';
+import { shortBurst } from '../support/run-fixture.ts';
+import { decodePng } from '../support/decode-png.ts';
 
 describe('run report', () => {
   it('measures the Kelvin speed within 10 % of sqrt(g H) and gives arrival times in order', async () => {

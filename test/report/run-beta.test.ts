@@ -4,11 +4,12 @@
 // carry it into the file, the read-back run, the report and the comparison.
 
 import { describe, expect, it } from 'vitest';
-import { readRun, scenarioFacts } from '../../model/io/run-read.ts';
+import { readRun } from '../../model/io/run-import.ts';
+import { legacyRunPhysics } from '../../model/io/run-physics-file.ts';
 import { measureWaves } from '../../model/report/measure.ts';
 import { runReport } from '../../model/report/report.ts';
 import { EARTH } from '../../model/config.ts';
-import { FIXTURE, FIXTURE_TEXT } from '../engine/helpers.ts';
+import { FIXTURE, FIXTURE_TEXT } from '../support/engine-fixture.ts';
 import { runInMemory } from '../support/run-records.ts';
 
 const STRONG_BETA = 4e-11;
@@ -21,11 +22,11 @@ describe("the run's own beta", () => {
   it('is written to the file, read back, and sets the Rossby windows of the measurement', async () => {
     const own = await runInMemory(FIXTURE_TEXT, FIXTURE, { sets: [...SETS, `physics.coriolis={"kind":"beta-plane","beta":${STRONG_BETA}}`] });
     const earth = await runInMemory(FIXTURE_TEXT, FIXTURE, { sets: SETS });
-    expect(Array.from((own.file.attributes.pycno_beta as { value: ArrayLike<number> }).value)).toEqual([STRONG_BETA]);
+    expect(Array.from((own.file.attributes.pycno_physics_beta as { value: ArrayLike<number> }).value)).toEqual([STRONG_BETA]);
     const runOwn = readRun(own.bytes, 'own.nc');
     const runEarth = readRun(earth.bytes, 'earth.nc');
-    expect(runOwn.beta).toBe(STRONG_BETA);
-    expect(runEarth.beta).toBe((2 * EARTH.omega) / EARTH.radius);
+    expect(runOwn.physics.beta).toBe(STRONG_BETA);
+    expect(runEarth.physics.beta).toBe((2 * EARTH.omega) / EARTH.radius);
     // 7N is within 3 L of the equator only with Earth's beta.
     expect(measureWaves(runEarth).rossby).not.toBeNull();
     expect(measureWaves(runOwn).rossby).toBeNull();
@@ -35,9 +36,12 @@ describe("the run's own beta", () => {
   });
 
   it('of a file written before the attribute comes from the scenario it carries', () => {
-    const json = JSON.stringify({ physics: { reducedGravity: 0.03, layerThickness: 150, coriolis: { kind: 'beta-plane', beta: STRONG_BETA } } });
-    expect(scenarioFacts(json).beta).toBe(STRONG_BETA);
-    const spherical = JSON.stringify({ physics: { reducedGravity: 0.03, layerThickness: 150, coriolis: { kind: 'spherical' } } });
-    expect(scenarioFacts(spherical).beta).toBe((2 * EARTH.omega) / EARTH.radius);
+    const kept = { reducedGravity: 0.03, layerThickness: 150 };
+    const json = JSON.stringify({ physics: { ...kept, coriolis: { kind: 'beta-plane', beta: STRONG_BETA } } });
+    expect(legacyRunPhysics(kept, json).beta).toBe(STRONG_BETA);
+    const spherical = JSON.stringify({ physics: { ...kept, coriolis: { kind: 'spherical' } } });
+    expect(legacyRunPhysics(kept, spherical).beta).toBe((2 * EARTH.omega) / EARTH.radius);
+    // A pycno_beta the file kept wins over the scenario.
+    expect(legacyRunPhysics({ ...kept, beta: 3e-11 }, json).beta).toBe(3e-11);
   });
 });

@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { canonicalJson, scenarioHash } from '../../model/scenario/canonical-hash.ts';
 import { parseScenario } from '../../model/scenario/load-inputs.ts';
-import { FIXTURE_TEXT } from '../engine/helpers.ts';
+import { FIXTURE_TEXT } from '../support/engine-fixture.ts';
 
 describe('canonical JSON and the scenario hash', () => {
   it('sorts keys by UTF-16 code units and writes numbers in the shortest round-trip form', () => {

@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import { Grid } from '../../model/grid.ts';
 import { derivedNumbers, resolveScenario, stabilityLimit, validateScenario, type ResolvedScenario } from '../../model/scenario/index.ts';
-import { example } from './helpers.ts';
+import { example } from '../support/scenario-example.ts';
 
 function resolved(edit: (j: any) => void = () => {}): ResolvedScenario {
   const j = example();

@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { applyOverrides, formatIssue } from '../../model/scenario/index.ts';
-import { example } from './helpers.ts';
+import { example } from '../support/scenario-example.ts';
 
 function ok(sets: string[], json: unknown = example()) {
   const r = applyOverrides(json, sets);

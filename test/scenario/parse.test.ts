@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import { formatIssue, loadScenario, parseScenarioText, ScenarioError, validateScenarioText } from '../../model/scenario/index.ts';
 import { InputError } from '../../model/errors.ts';
-import { exampleText } from './helpers.ts';
+import { exampleText } from '../support/scenario-example.ts';
 
 function syntaxError(text: string): string {
   const r = parseScenarioText(text, 'bad.json');

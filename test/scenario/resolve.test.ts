@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import { DAY, defaultPhysics } from '../../model/config.ts';
 import { resolveScenario, validateScenario, type Scenario } from '../../model/scenario/index.ts';
-import { example } from './helpers.ts';
+import { example } from '../support/scenario-example.ts';
 
 function scenario(json: unknown): Scenario {
   const r = validateScenario(json);

@@ -3,7 +3,7 @@ import { describe, expect, test } from 'vitest';
 import type { WindSpec } from '../../model/forcing/spec.ts';
 import { formatIssue, validateScenario, withDefaults, type ScenarioFile } from '../../model/scenario/index.ts';
 import { scenarioSchema } from '../../model/scenario/schema.ts';
-import { example } from './helpers.ts';
+import { example } from '../support/scenario-example.ts';
 
 /** Every schema node that describes an instance value, with its pointer. */
 function walk(node: any, at: string, visit: (node: any, at: string) => void): void {

@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { validateScenario } from '../../model/scenario/index.ts';
-import { example, issueAt, issuesOf } from './helpers.ts';
+import { example, issueAt, issuesOf } from '../support/scenario-example.ts';
 
 describe('the example scenario', () => {
   test('validates, and defaults are filled in', () => {

@@ -6,7 +6,7 @@ import { dirname, join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { Grid } from '../../model/grid.ts';
 import { derivedNumbers, resolveScenario, validateScenarioText } from '../../model/scenario/index.ts';
-import { CONFIGS, DAY } from './run.ts';
+import { CONFIGS, DAY } from '../support/shipped-scenarios.ts';
 
 const files = readdirSync(CONFIGS).filter((f) => f.endsWith('.json') && f !== 'scenario.schema.json');
 

@@ -21,8 +21,8 @@ import { describe, expect, it } from 'vitest';
 import { Grid } from '../../model/grid.ts';
 import type { Model } from '../../model/model.ts';
 import { derivedNumbers } from '../../model/scenario/index.ts';
-import { record } from '../physics/setup.ts';
-import { build, resolved, startOfNewRun } from './run.ts';
+import { record } from '../support/physics-kit.ts';
+import { build, resolved, startOfNewRun } from '../support/shipped-scenarios.ts';
 
 const GRID_SCALE_BOUND = 0.2;
 const SPEED_BOUND = 2;
@@ -35,7 +35,7 @@ const COAST_COLUMNS = 6;
  * (v[i-1] - 2 v[i] + v[i+1]) / 4, which is v itself for a pattern alternating in sign and near 0 for
  * a smooth one; its RMS over the RMS of v there.
  */
-export function westernGridScaleShare(m: Model): number {
+function westernGridScaleShare(m: Model): number {
   const { nx, ny } = m.grid;
   const v = m.field('v');
   const wet = (i: number, j: number) => i >= 0 && i < nx && Number.isFinite(v[j * nx + i]);

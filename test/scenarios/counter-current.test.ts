@@ -7,9 +7,9 @@
 // coast, continuity gives U(x) = (x_east - x) dV/dy, so U has the sign of d(curl)/dy.
 
 import { describe, expect, it } from 'vitest';
-import { record } from '../physics/setup.ts';
+import { record } from '../support/physics-kit.ts';
 import type { Model } from '../../model/model.ts';
-import { boxMean, build } from './run.ts';
+import { boxMean, build } from '../support/shipped-scenarios.ts';
 
 /** Zonal means over a longitude band, for every row: [lat, value]. */
 function profile(m: Model, name: 'u' | 'h_anom' | 'taux', lon: [number, number]): Array<[number, number]> {

@@ -2,8 +2,8 @@
 // (Matsuno 1966, J. Meteor. Soc. Japan 44; Gill 1982, Atmosphere-Ocean Dynamics, ch. 11).
 
 import { describe, expect, it } from 'vitest';
-import { record } from '../physics/setup.ts';
-import { at, build, DAY, metresPerDegree, peakIndex, runDaily } from './run.ts';
+import { record } from '../support/physics-kit.ts';
+import { at, build, DAY, metresPerDegree, peakIndex, runDaily } from '../support/shipped-scenarios.ts';
 
 describe('Kelvin pulse scenario', () => {
   it('the packet peak reaches mid-basin and the east coast at distance / sqrt(g\'H), within 5 %', () => {

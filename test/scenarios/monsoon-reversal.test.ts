@@ -3,8 +3,8 @@
 // 181, 262; check-values §4), westward flow when the zonal wind turns easterly.
 
 import { describe, expect, it } from 'vitest';
-import { record } from '../physics/setup.ts';
-import { boxMean, build, runDaily } from './run.ts';
+import { record } from '../support/physics-kit.ts';
+import { boxMean, build, runDaily } from '../support/shipped-scenarios.ts';
 
 /** Contiguous runs of days [first, last] where pred holds, within [from, to]. */
 function spells(values: number[], pred: (v: number) => boolean, from: number, to: number): Array<[number, number]> {

@@ -3,9 +3,9 @@
 // reaches the probe east of the burst region at the Kelvin time (Matsuno 1966; Gill 1982, ch. 11).
 
 import { describe, expect, it } from 'vitest';
-import { record } from '../physics/setup.ts';
+import { record } from '../support/physics-kit.ts';
 import type { DrawnBurst } from '../../model/forcing/bursts.ts';
-import { at, build, DAY, metresPerDegree, runDaily } from './run.ts';
+import { at, build, DAY, metresPerDegree, runDaily } from '../support/shipped-scenarios.ts';
 
 function run(seedOverride?: string) {
   const built = build('random-bursts.json', seedOverride ? { overrides: [`seed=${seedOverride}`] } : {});

@@ -6,9 +6,9 @@
 // disabled; the model is linear, so the difference is the response to the relaxation alone.
 
 import { describe, expect, it } from 'vitest';
-import { record } from '../physics/setup.ts';
+import { record } from '../support/physics-kit.ts';
 import type { Model } from '../../model/model.ts';
-import { build, DAY, firstCrossing, metresPerDegree, peakIndex, startOfNewRun } from './run.ts';
+import { build, DAY, firstCrossing, metresPerDegree, peakIndex, startOfNewRun } from '../support/shipped-scenarios.ts';
 
 /** Equatorial row values of a centred field between two longitudes (centres). */
 function equatorRow(m: Model, name: 'h_anom' | 'taux', lonA: number, lonB: number): { lon: number[]; v: number[] } {

@@ -9,8 +9,8 @@
 // t_max = t_pulse_centre + (x_p - x_patch)/c. That is the prediction tested (within 10 %).
 
 import { describe, expect, it } from 'vitest';
-import { record } from '../physics/setup.ts';
-import { at, build, DAY, metresPerDegree, peakIndex, runDaily } from './run.ts';
+import { record } from '../support/physics-kit.ts';
+import { at, build, DAY, metresPerDegree, peakIndex, runDaily } from '../support/shipped-scenarios.ts';
 
 describe('westerly burst scenario', () => {
   it('the downwelling Kelvin wave peaks at the east coast and mid-basin at the predicted time (within 10 %)', () => {

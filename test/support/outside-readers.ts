@@ -64,13 +64,13 @@ function missingPython(module: string, pkg: string): () => string | null {
 // Both Python readers import everything first and only then turn warnings into errors: the
 // imports themselves may warn about the installed packages (numpy ABI notes), which says nothing
 // about our file. Everything after the filter that warns fails the run with a traceback.
-const PY_PRELUDE = String.raw`
+const PY_PRELUDE = `
 import json, sys, warnings
 import numpy as np
 `;
 
 /** netCDF4: opens the file and reads every variable with the library's default decoding. */
-const PY_NETCDF4 = PY_PRELUDE + String.raw`
+const PY_NETCDF4 = PY_PRELUDE + `
 import netCDF4
 warnings.simplefilter('error')
 def plain(x):
@@ -91,7 +91,7 @@ print(json.dumps(out))
 `;
 
 /** xarray: open_dataset with every CF decoding on (times, masks, coordinates, cell measures). */
-const PY_XARRAY = PY_PRELUDE + String.raw`
+const PY_XARRAY = PY_PRELUDE + `
 import xarray as xr
 import netCDF4  # the backend xarray picks; imported before the filter like the rest
 warnings.simplefilter('error')
@@ -158,7 +158,7 @@ export const OUTSIDE_READERS: readonly OutsideReader[] = [NETCDF4_READER, XARRAY
 
 // --- UDUNITS-2: does a units string parse, and does it convert to another? ----------------------
 
-const PY_UDUNITS = PY_PRELUDE + String.raw`
+const PY_UDUNITS = PY_PRELUDE + `
 import ctypes
 lib = ctypes.CDLL('libudunits2.so.0')
 lib.ut_set_error_message_handler.restype = ctypes.c_void_p

@@ -7,7 +7,7 @@ import { RunOutputWriter } from '../../model/io/run-output.ts';
 import { Engine } from '../../worker/engine.ts';
 import { describeLoadedRun } from '../../worker/run-description.ts';
 import type { Model } from '../../model/model.ts';
-import { fakeHost } from '../engine/helpers.ts';
+import { fakeHost } from './engine-fixture.ts';
 
 export interface RunInMemory {
   bytes: Uint8Array;
@@ -25,7 +25,7 @@ export async function runInMemory(text: string, fileName: string, options: { set
   const engine = new Engine({ host: fakeHost(2) });
   const loaded = await engine.load(text, fileName, { sets: options.sets ?? [], files: options.files });
   if (!loaded.ok) throw new Error(loaded.error.message);
-  const d = describeLoadedRun(loaded.scenario, engine.model!, fileName, `test run of ${fileName}`);
+  const d = describeLoadedRun(loaded.scenario, fileName, `test run of ${fileName}`);
   d.createdAt = new Date('2030-01-01T00:00:00Z');
   const sink = new MemorySink();
   const writer = new RunOutputWriter(d, sink);

@@ -1,5 +1,5 @@
 // Writes the verification table of docs/physics.md from the values the tests recorded
-// (test-artifacts/verification.jsonl, written by record() in test/physics/setup.ts during
+// (test-artifacts/verification.jsonl, written by record() in test/support/physics-kit.ts during
 // `npm test`): one row per recorded check that names its outside source, with the test file that
 // measured it. Run after `npm test`:   npm run verification   (then commit docs/physics.md).
 

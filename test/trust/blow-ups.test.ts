@@ -11,9 +11,9 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { OUTPUT_FILL } from '../../model/io/run-output.ts';
 import { RUNAWAY_SPEED } from '../../model/model.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
-import { filesLike, folder, nc, noInternals, pycno } from './cli-kit.ts';
-import { edited, setScenario } from './nc-edit.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
+import { filesLike, folder, nc, noInternals, pycno } from '../support/cli-kit.ts';
+import { edited, setScenario } from '../support/nc-edit.ts';
 
 let dir: string;
 beforeAll(() => {

@@ -14,7 +14,7 @@ import { decodeUtf8Text, TextEncodingError } from '../../model/io/text-decode.ts
 import { parseWindCsv } from '../../model/forcing/csv.ts';
 import { pickedBytes, pickedScenarioText } from '../../viewer/picked-file.ts';
 import { readBounded, ReadRefused } from '../../worker/files-node.ts';
-import { BIN, folder, noInternals, pycno, refusedWith } from './cli-kit.ts';
+import { BIN, folder, noInternals, pycno, refusedWith } from '../support/cli-kit.ts';
 
 let dir: string;
 let scenario: Record<string, any>;

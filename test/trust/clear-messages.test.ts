@@ -7,8 +7,8 @@ import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { compileFormula } from '../../model/forcing/formula.ts';
-import { filesLike, folder, noInternals, pycno, pycnoAsync, refusedWith, when } from './cli-kit.ts';
-import { dropVariable, edited, retype, variable } from './nc-edit.ts';
+import { filesLike, folder, noInternals, pycno, pycnoAsync, refusedWith, when } from '../support/cli-kit.ts';
+import { dropVariable, edited, retype, variable } from '../support/nc-edit.ts';
 
 let dir: string;
 let scenario: Record<string, any>;

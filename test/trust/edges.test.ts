@@ -3,7 +3,7 @@
 // the estimate in the message), a time step exactly at the stability limit.
 
 import { describe, expect, it } from 'vitest';
-import { BlowUpError } from '../../model/errors.ts';
+import type { BlowUpError } from '../../model/errors.ts';
 import { buildPrepared, parseScenario } from '../../model/scenario/load-inputs.ts';
 import { MAX_CELLS, MEMORY_BUDGET } from '../../model/scenario/semantic.ts';
 import { memoryEstimate } from '../../model/scenario/derived.ts';

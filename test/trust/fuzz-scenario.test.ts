@@ -11,11 +11,11 @@ import fc from 'fast-check';
 import { afterAll, describe, it } from 'vitest';
 import { BlowUpError } from '../../model/errors.ts';
 import { buildPrepared, parseScenario } from '../../model/scenario/load-inputs.ts';
-import { FIXTURE_TEXT } from '../engine/helpers.ts';
-import { check, fuzzSeed, hostileValue, printTally, runCase } from './fuzz-kit.ts';
+import { FIXTURE_TEXT } from '../support/engine-fixture.ts';
+import { check, fuzzSeed, hostileValue, printTally, runCase } from '../support/fuzz-kit.ts';
 
 const CONFIGS = fileURLToPath(new URL('../../configs/', import.meta.url));
-export const BASES: string[] = [
+const BASES: string[] = [
   FIXTURE_TEXT,
   ...readdirSync(CONFIGS)
     .filter((f) => f.endsWith('.json') && !f.includes('schema'))
@@ -115,7 +115,7 @@ function applyTrick(text: string, t: TextTrick): string {
       return text.slice(0, k) + t.with + text.slice(k);
     }
     case 'duplicate': {
-      const keys = [...text.matchAll(/"(\w+)": ([^,{}\[\]\n]+)/g)];
+      const keys = [...text.matchAll(/"(\w+)": ([^,{}[\]\n]+)/g)];
       if (keys.length === 0) return text;
       const m = keys[t.at % keys.length];
       const end = m.index! + m[0].length;
@@ -131,7 +131,7 @@ function applyTrick(text: string, t: TextTrick): string {
 }
 
 /** Parse, and when small enough build the model and take a few steps. */
-export function scenarioCase(text: string, name = 'fuzz.json'): void {
+function scenarioCase(text: string, name = 'fuzz.json'): void {
   const p = parseScenario(text, name);
   const b = p.resolved.model.basin;
   const cells = Math.round((b.lonEast - b.lonWest) / b.dLon) * Math.round((b.latNorth - b.latSouth) / b.dLat);

@@ -18,9 +18,9 @@ import { parseScenario } from '../../model/scenario/load-inputs.ts';
 import { MAX_SUGGESTIONS } from '../../model/scenario/unknown-keys.ts';
 import { validateScenario } from '../../model/scenario/validate.ts';
 import { ScenarioPanel } from '../../viewer/panels/scenario-panel.ts';
-import { CASE_BOUND_MS } from './fuzz-kit.ts';
-import { FIXTURE_TEXT } from './helpers.ts';
-import { folder, noInternals, pycno } from './cli-kit.ts';
+import { CASE_BOUND_MS } from '../support/fuzz-kit.ts';
+import { FIXTURE_TEXT } from '../support/trust-kit.ts';
+import { folder, noInternals, pycno } from '../support/cli-kit.ts';
 
 const base = () => JSON.parse(FIXTURE_TEXT) as Record<string, any>;
 

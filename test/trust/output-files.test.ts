@@ -9,8 +9,8 @@ import { hostname, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { BLOW_UP_SETS } from '../engine/helpers.ts';
-import { BIN, days, filesLike, folder, increasing, LONG, nc, noInternals, pycno, pycnoAsync, recordsIn, refusedWith, smallDisk, unmount, when } from './cli-kit.ts';
+import { BLOW_UP_SETS } from '../support/engine-fixture.ts';
+import { BIN, days, filesLike, folder, increasing, LONG, nc, noInternals, pycno, pycnoAsync, recordsIn, refusedWith, smallDisk, unmount, when } from '../support/cli-kit.ts';
 
 let dir: string;
 /** Bytes of a good earlier run of tiny.json (7 records), copied in as the file to protect. */
@@ -264,7 +264,7 @@ describe('a full disk', () => {
   afterAll(() => mounts.forEach(unmount));
 
   it('--out /dev/full: one line (what, where, how much), exit 2, no stack', () => {
-    refusedWith(pycno(dir, ['run', 'tiny.json', '--out', '/dev/full']), /^pycno: --out \/dev\/full: no space left on the device while writing the header \(the file needs about 242\.1 KiB, 0 bytes were written\)$/);
+    refusedWith(pycno(dir, ['run', 'tiny.json', '--out', '/dev/full']), /^pycno: --out \/dev\/full: no space left on the device while writing the header \(the file needs about 242\.4 KiB, 0 bytes were written\)$/);
     refusedWith(pycno(dir, ['report', 'first.nc', '--out', '/dev/full']), /^pycno: --out \/dev\/full: cannot write the report: no space left on the device/);
     const c = pycno(dir, ['compare', 'first.nc', 'first.nc', '--out', '/dev/full']);
     expect(c.code).toBe(2);
@@ -284,7 +284,7 @@ describe('a full disk', () => {
     mounts.push(disk.path);
     copyFileSync(join(dir, 'tiny.json'), join(disk.path, 'tiny.json'));
     writeFileSync(join(disk.path, 'filler'), new Uint8Array(100 * 1024));
-    refusedWith(pycno(disk.path, ['run', 'tiny.json', '--out', 'run.nc']), /^pycno: --out run\.nc: not enough space: the file needs about 242\.1 KiB, \d+\.\d KiB are free there$/);
+    refusedWith(pycno(disk.path, ['run', 'tiny.json', '--out', 'run.nc']), /^pycno: --out run\.nc: not enough space: the file needs about 242\.4 KiB, \d+\.\d KiB are free there$/);
     expect(filesLike(disk.path, 'run.nc')).toEqual([]);
   });
 

@@ -14,7 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { build } from 'vite';
 import viteConfig, { pagePolicy as servedPolicy } from '../../vite.config.ts';
 import { devPolicy, HEADER_ONLY_DIRECTIVES, metaPolicy, pagePolicy } from '../../viewer/page-policy.ts';
-import { chromiumMissing, launch, ROOT } from '../browser/harness.ts';
+import { chromiumMissing, launch, ROOT } from '../support/browser-harness.ts';
 
 let outDir: string;
 let html: string;

@@ -16,7 +16,7 @@
 import fc from 'fast-check';
 import { describe, it } from 'vitest';
 import { buildPrepared, parseScenario } from '../../model/scenario/load-inputs.ts';
-import { fuzzSeed } from './fuzz-kit.ts';
+import { fuzzSeed } from '../support/fuzz-kit.ts';
 
 const runs = Number(process.env.PYCNO_PROPERTY_RUNS ?? 100);
 

@@ -7,14 +7,14 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { parseScenario } from '../../model/scenario/load-inputs.ts';
 import { validateScenario } from '../../model/scenario/validate.ts';
-import { FIXTURE_TEXT } from '../engine/helpers.ts';
-import { judge } from './fuzz-kit.ts';
-import { replayRegression } from './regression-replay.ts';
+import { FIXTURE_TEXT } from '../support/engine-fixture.ts';
+import { judge } from '../support/fuzz-kit.ts';
+import { replayRegression } from '../support/regression-replay.ts';
 
 const DIR = fileURLToPath(new URL('./regressions/', import.meta.url));
 
 /** What each kept input must now give: a pattern of the first line of the message. */
-export const EXPECTED: Record<string, RegExp> = {
+const EXPECTED: Record<string, RegExp> = {
   // RangeError (stack overflow) in the defaults walk and the schema validator.
   'scenario-deep-nesting.json': /^scenario-deep-nesting\.json: line 36, column \d+: nesting deeper than 64 levels/,
   // RangeError: the schema validator spreads one error per bad item into a push() call.

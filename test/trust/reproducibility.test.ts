@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { NC_CHAR } from '../../model/io/netcdf-format.ts';
-import { cli, differingVariables, FIXTURE, readNc, withBursts } from './helpers.ts';
+import { cli, differingVariables, FIXTURE, readNc, withBursts } from '../support/trust-kit.ts';
 
 const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
 const PACKAGE = JSON.parse(readFileSync(fileURLToPath(new URL('../../package.json', import.meta.url)), 'utf8'));

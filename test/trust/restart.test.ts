@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { readRestart, writeRestart } from '../../model/io/restart.ts';
 import { buildPrepared, loadInputs, mapReader, parseScenario } from '../../model/scenario/load-inputs.ts';
 import type { State } from '../../model/state.ts';
-import { withBursts } from './helpers.ts';
+import { withBursts } from '../support/trust-kit.ts';
 
 const bitsEqual = (a: Float64Array, b: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).equals(Buffer.from(b.buffer, b.byteOffset, b.byteLength));
 

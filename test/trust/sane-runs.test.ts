@@ -19,10 +19,10 @@ import { MAX_OUTPUT_BYTES, MAX_STEPS } from '../../model/scenario/run-size.ts';
 import { State } from '../../model/state.ts';
 import { checkEdited } from '../../viewer/panels/scenario-panel.ts';
 import { Engine } from '../../worker/engine.ts';
-import { basin, config } from '../physics/setup.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
-import { folder, nc, noInternals, pycno, refusedWith } from './cli-kit.ts';
-import { edited, variable } from './nc-edit.ts';
+import { basin, config } from '../support/physics-kit.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
+import { folder, nc, noInternals, pycno, refusedWith } from '../support/cli-kit.ts';
+import { edited, variable } from '../support/nc-edit.ts';
 
 let dir: string;
 let scenario: Record<string, any>;

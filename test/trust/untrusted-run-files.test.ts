@@ -8,8 +8,8 @@
 import { mkdirSync, readFileSync, readdirSync, symlinkSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { folder, noInternals, pycno, refusedWith, type Ran } from './cli-kit.ts';
-import { dropVariable, edited, retype, setScenario, variable, type EditableFile } from './nc-edit.ts';
+import { folder, noInternals, pycno, refusedWith, type Ran } from '../support/cli-kit.ts';
+import { dropVariable, edited, retype, setScenario, variable, type EditableFile } from '../support/nc-edit.ts';
 
 let dir: string;
 let run: Uint8Array;
@@ -126,15 +126,25 @@ describe('an embedded scenario of 3,000 unknown keys', () => {
 
 /** A restart (or run output) used as the start of a run: each must be refused naming the variable. */
 const BAD_STARTS: Array<[string, 'restart' | 'run', (f: EditableFile) => void, RegExp]> = [
-  ['restart, time as text', 'restart', (f) => void (retype(f, 'time', 'char').values = 'x'), /variable 'time' is char; a Pycno restart file has it as double$/],
+  ['restart, time as text', 'restart', (f) => {
+    retype(f, 'time', 'char').values = 'x';
+  }, /variable 'time' is char; a Pycno restart file has it as double$/],
   ['restart, h as int16', 'restart', (f) => void retype(f, 'h', 'short'), /variable 'h' is short; a Pycno restart file has it as double$/],
   ['restart, no h', 'restart', (f) => dropVariable(f, 'h'), /has no variable 'h'; a Pycno restart file holds it$/],
   ['restart, no time', 'restart', (f) => dropVariable(f, 'time'), /has no variable 'time'; a Pycno restart file holds it$/],
   ['restart, no steps', 'restart', (f) => dropVariable(f, 'steps'), /has no variable 'steps'; a Pycno restart file holds it$/],
-  ['restart, u on other dimensions', 'restart', (f) => void (variable(f, 'u').dimensions = ['x_padded', 'y_padded']), /variable 'u' has dimensions \(x_padded, y_padded\); a Pycno restart file has it on \(y_padded, x_padded\)$/],
-  ['restart, NaN in h', 'restart', (f) => void ((variable(f, 'h').values as Float64Array)[100] = NaN), /variable 'h' has NaN at index 100 \(cell \(13, 1\) at 163\.50°E, 8\.50°S\); a start must be finite$/],
-  ['restart, a fractional step count', 'restart', (f) => void ((variable(f, 'steps').values as Float64Array)[0] = 2.5), /variable 'steps' is 2\.5; a step count is a whole number >= 0$/],
-  ['restart, history count 7', 'restart', (f) => void ((variable(f, 'history_count').values as Float64Array)[0] = 7), /variable 'history_count' is 7; it must be 0, 1 or 2$/],
+  ['restart, u on other dimensions', 'restart', (f) => {
+    variable(f, 'u').dimensions = ['x_padded', 'y_padded'];
+  }, /variable 'u' has dimensions \(x_padded, y_padded\); a Pycno restart file has it on \(y_padded, x_padded\)$/],
+  ['restart, NaN in h', 'restart', (f) => {
+    (variable(f, 'h').values as Float64Array)[100] = NaN;
+  }, /variable 'h' has NaN at index 100 \(cell \(13, 1\) at 163\.50°E, 8\.50°S\); a start must be finite$/],
+  ['restart, a fractional step count', 'restart', (f) => {
+    (variable(f, 'steps').values as Float64Array)[0] = 2.5;
+  }, /variable 'steps' is 2\.5; a step count is a whole number >= 0$/],
+  ['restart, history count 7', 'restart', (f) => {
+    (variable(f, 'history_count').values as Float64Array)[0] = 7;
+  }, /variable 'history_count' is 7; it must be 0, 1 or 2$/],
   ['run output, time as text', 'run', (f) => void retype(f, 'time', 'char'), /variable 'time' is char; a Pycno run output has it as double$/],
   ['run output, time reversed', 'run', (f) => void (variable(f, 'time').values as Float64Array).reverse(), /variable 'time' does not increase: record 1 is day 5, after day 6$/],
   ['run output, h_anom as int16', 'run', (f) => void retype(f, 'h_anom', 'short'), /variable 'h_anom' is short; a Pycno run output has it as float$/],
@@ -161,7 +171,9 @@ describe('pycno run from a hostile restart or run file: exit 2 naming the variab
 const BAD_RUNS: Array<[string, (f: EditableFile) => void, RegExp]> = [
   ['time as text', (f) => void retype(f, 'time', 'char'), /variable 'time' is char; a run file has it as double$/],
   ['time reversed', (f) => void (variable(f, 'time').values as Float64Array).reverse(), /variable 'time' does not increase: time 1 \(5\) does not follow time 0 \(6\)$/],
-  ['time with NaN', (f) => void ((variable(f, 'time').values as Float64Array)[3] = NaN), /variable 'time' has NaN at record 3$/],
+  ['time with NaN', (f) => {
+    (variable(f, 'time').values as Float64Array)[3] = NaN;
+  }, /variable 'time' has NaN at record 3$/],
   ['h_anom as int16', (f) => void retype(f, 'h_anom', 'short'), /variable 'h_anom' is short; a run file has it as float$/],
   ['h_anom as double', (f) => void retype(f, 'h_anom', 'double'), /variable 'h_anom' is double; a run file has it as float$/],
   ['no h_anom', (f) => dropVariable(f, 'h_anom'), /variable 'h_anom' is missing \(the run's scenario lists it in output\.fields\)$/],

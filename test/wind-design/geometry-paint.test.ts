@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { compileShape } from '../../model/forcing/shapes.ts';
 import { bandFromDrag, dragEdge, hitHandle, insidePatch, moveCentre, patchHandles, scaleWidth, turnBy, turnTowards, type PatchGeometry } from '../../viewer/wind/patch-geometry.ts';
 import { blankGrid, dab, footprint, neighbourMean, strokePoints, type Brush } from '../../viewer/wind/paint.ts';
-import { History } from '../../viewer/wind/history.ts';
+import { emptyTimeline, recorded, redone, undone, type Timeline } from '../../viewer/wind/history.ts';
 
 const P: PatchGeometry = { lon: 100, lat: 0, lonWidth: 10, latWidth: 4 };
 
@@ -122,23 +122,28 @@ describe('painting', () => {
 
   it('undoes and redoes strokes by snapshots; a new stroke forgets the redo list', () => {
     const g = blankGrid(basin, 1);
-    const h = new History<typeof g>((v) => structuredClone(v));
+    let h: Timeline<typeof g> = emptyTimeline();
     let cur = g;
     const stroke = (lon: number, mode: Brush['mode'] = 'paint') => {
-      h.record(cur);
+      h = recorded(h, cur);
       dab(cur, lon, 0.5, brush({ mode }));
+    };
+    const back = (f: typeof undone) => {
+      const r = f(h, cur)!;
+      h = r.timeline;
+      cur = r.value;
     };
     stroke(5);
     const after1 = structuredClone(cur);
     stroke(15);
-    cur = h.undo(cur)!;
+    back(undone);
     expect(cur).toEqual(after1);
-    cur = h.undo(cur)!;
+    back(undone);
     expect(cur.x.every((v) => v === 0)).toBe(true);
-    expect(h.undo(cur)).toBeNull();
-    cur = h.redo(cur)!;
+    expect(undone(h, cur)).toBeNull();
+    back(redone);
     expect(cur).toEqual(after1);
     stroke(10, 'erase');
-    expect(h.canRedo).toBe(false);
+    expect(h.future.length).toBe(0);
   });
 });

@@ -7,7 +7,7 @@
 import uPlot from 'uplot';
 import { compareRuns, type RunComparison } from '../../model/compare/compare.ts';
 import { FIELD_INFO, type FieldName } from '../../model/diagnostics/fields.ts';
-import type { RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
 import { measureWaves } from '../../model/report/measure.ts';
 import { probeColour } from '../panels/probes.ts';
 import { latLabel } from '../render/geo.ts';
@@ -217,7 +217,7 @@ export class CompareView {
 
   private drawMaps(): void {
     const cmp = this.cmp;
-    if (!cmp || cmp.status !== 'ok') return;
+    if (cmp?.status !== 'ok') return;
     const f = this.field.value as FieldName;
     const ft = cmp.fieldTimes;
     if (ft.length === 0) {
@@ -246,7 +246,7 @@ export class CompareView {
 
   private drawHovs(): void {
     const cmp = this.cmp;
-    if (!cmp || cmp.status !== 'ok') return;
+    if (cmp?.status !== 'ok') return;
     const h = cmp.hovmoller[Number(this.hovLat.value)];
     if (!h) {
       for (const c of [this.hovA, this.hovB, this.hovD]) c.getContext('2d')?.clearRect(0, 0, c.width, c.height);
@@ -260,7 +260,7 @@ export class CompareView {
 
   private drawProbes(): void {
     const cmp = this.cmp;
-    if (!cmp || cmp.status !== 'ok') return;
+    if (cmp?.status !== 'ok') return;
     const f = this.probeField.value as FieldName;
     this.plot?.destroy();
     this.plot = null;

@@ -3,14 +3,14 @@
 // scenario, export as CF-NetCDF, import a Pycno NetCDF by picker or drop, report, open), the
 // opened run's view and the comparison of two runs. The library itself is viewer/library/store.ts.
 
-import type { RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
 import { runReport } from '../../model/report/report.ts';
 import { formatBytes } from '../state/frame-history.ts';
 import { LibraryError, RunLibrary, estimateSize, type SavedRunMeta } from '../library/store.ts';
 import type { LoadedScenario, OutputSample } from '../../worker/protocol.ts';
 import { CompareView, type CompareChoice } from '../compare/compare-view.ts';
 import { button, el, shortDate } from './dom.ts';
-import { download, fileSafe } from './files.ts';
+import { download, fileSafe } from '../files.ts';
 import { pickedBytes } from '../picked-file.ts';
 import { LiveRun, snapshotChoices } from './live-run.ts';
 import { RunView } from './run-view.ts';

@@ -6,7 +6,8 @@
 // No physics here: the values are the engine's, stored as they came.
 
 import type { FieldName } from '../../model/diagnostics/fields.ts';
-import { RunCollector, type RunData, type RunSetup } from '../../model/io/run-read.ts';
+import { RunCollector, type RunSetup } from '../../model/io/run-collector.ts';
+import type { RunData } from '../../model/io/run-data.ts';
 import type { LoadedScenario, OutputSample } from '../../worker/protocol.ts';
 
 interface KeptRecord {
@@ -35,6 +36,8 @@ export class LiveRun {
       name: r.name,
       description: r.description,
       scenarioJson: r.scenarioJson,
+      seed: r.seed,
+      physics: r.physics,
       grid: r.grid,
       fields: [...r.fields],
       hovmollerLats: [...r.hovmollerLats],

@@ -2,9 +2,7 @@
 // diagram (with the Kelvin and long Rossby lines), its probe series, the wave speeds measured on
 // it beside theory, and its report as a download. Everything shown is the run's saved output.
 
-import { waveSpeed } from '../../model/theory.ts';
-import { EARTH } from '../../model/config.ts';
-import type { RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
 import { measureWaves } from '../../model/report/measure.ts';
 import { runReport } from '../../model/report/report.ts';
 import { formatValue } from '../panels/colour-bar.ts';
@@ -17,28 +15,11 @@ import { availableDisplays, displayField, fillDisplay, type DisplayKey } from '.
 import { HovmollerStore } from '../state/hovmoller-store.ts';
 import { ProbeStore } from '../state/probe-store.ts';
 import { button, el } from './dom.ts';
-import { download, fileSafe } from './files.ts';
+import { download, fileSafe } from '../files.ts';
+import { pulseStart } from '../state/characteristics.ts';
 import { gridInfoOf } from './grid-info.ts';
 import { MapBox } from './map-box.ts';
 import { waveRows, wavesTable, type WaveRow } from './waves.ts';
-
-/** Where the characteristic lines start: the first pulsed wind patch, mid-pulse (as the live diagram does). */
-export function pulseStart(scenarioJson: string): { lon: number; day: number } | null {
-  let sc: { wind?: { parts?: unknown[] } };
-  try {
-    sc = JSON.parse(scenarioJson);
-  } catch {
-    return null;
-  }
-  for (const p of (sc.wind?.parts ?? []) as Array<{ source?: { shape?: { kind?: string; lon?: number } }; envelope?: { kind?: string; start?: number; duration?: number } }>) {
-    const shape = p.source?.shape;
-    const env = p.envelope;
-    if (shape?.kind === 'patch' && typeof shape.lon === 'number' && env?.kind === 'pulse' && typeof env.start === 'number' && typeof env.duration === 'number') {
-      return { lon: shape.lon, day: env.start + env.duration / 2 };
-    }
-  }
-  return null;
-}
 
 /** One colour range over every snapshot of a field, so colours mean the same while scrubbing. */
 export function rangeOverSnapshots(run: RunData, key: DisplayKey): Range {
@@ -46,7 +27,7 @@ export function rangeOverSnapshots(run: RunData, key: DisplayKey): Range {
   const out = new Float32Array(run.grid.nx * run.grid.ny);
   let r: Range | null = null;
   for (const s of run.snapshots) {
-    if (!fillDisplay(key, s.fields, run.layerThickness, out)) continue;
+    if (!fillDisplay(key, s.fields, run.physics.layerThickness, out)) continue;
     const x = autoRange(out, kind);
     r = r ? { min: Math.min(r.min, x.min), max: Math.max(r.max, x.max) } : x;
   }
@@ -159,20 +140,19 @@ export class RunView {
     for (let n = 0; n < run.days.length; n++) this.hovStore.add(run.days[n], run.hovmoller.map((h) => h.values.subarray(n * nx, (n + 1) * nx)));
     this.hovLat.replaceChildren(...run.hovmoller.map((h, k) => new Option(latLabel(h.rowLat), String(k))));
     const g = gridInfoOf(run.grid);
-    const c = waveSpeed(run.reducedGravity, run.layerThickness);
-    this.hov.setRun({ lonWest: g.lonWest, lonEast: g.lonEast, days: run.days[run.days.length - 1], nx }, c, EARTH.radius, pulseStart(run.scenarioJson));
+    this.hov.setRun({ lonWest: g.lonWest, lonEast: g.lonEast, days: run.days[run.days.length - 1], nx }, run.physics.waveSpeed, run.physics.earthRadius, pulseStart(run.scenarioJson));
     this.hov.draw();
 
     // Probe series, as the live chart draws them.
     this.probeStore.reset(run.fields, run.probes);
     for (let n = 0; n < run.days.length; n++) this.probeStore.addSample(run.days[n], run.probes.map((p) => Float32Array.from(run.fields, (f) => p.series[f]![n])));
     this.probes.key = (this.probeField.value || 'h_anom') as DisplayKey;
-    this.probes.layerThickness = run.layerThickness;
+    this.probes.layerThickness = run.physics.layerThickness;
     this.probes.renderList();
     this.probes.draw();
 
     this.lastWaves = waveRows(measureWaves(run));
-    this.waves.replaceChildren(wavesTable(this.lastWaves, `${label}: g′ = ${formatValue(run.reducedGravity)} m s-2, H = ${formatValue(run.layerThickness)} m`));
+    this.waves.replaceChildren(wavesTable(this.lastWaves, `${label}: g′ = ${formatValue(run.physics.reducedGravity)} m s-2, H = ${formatValue(run.physics.layerThickness)} m`));
     this.root.scrollIntoView({ block: 'nearest' });
   }
 
@@ -187,7 +167,7 @@ export class RunView {
     this.day.textContent = `day ${s.day.toFixed(1)} (snapshot ${Number(this.slider.value) + 1} of ${run.snapshots.length})`;
     const df = displayField(this.key);
     const out = new Float32Array(run.grid.nx * run.grid.ny);
-    if (!fillDisplay(this.key, s.fields, run.layerThickness, out)) return;
+    if (!fillDisplay(this.key, s.fields, run.physics.layerThickness, out)) return;
     this.range ??= rangeOverSnapshots(run, this.key);
     this.map.setTitle(`${this.label}, day ${s.day.toFixed(1)}`);
     this.map.draw(out, this.range, mapFor(this.key), df.label, df.units, run.probes);

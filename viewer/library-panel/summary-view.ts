@@ -6,7 +6,7 @@
 import type { SummaryData } from '../../model/ensemble/summary-read.ts';
 import { spreadReport } from '../../model/report/spread-report.ts';
 import { button, el } from './dom.ts';
-import { download, fileSafe } from './files.ts';
+import { download, fileSafe } from '../files.ts';
 
 const fmt = (x: number | undefined) => (x !== undefined && Number.isFinite(x) ? Number(x.toPrecision(4)).toString() : '–');
 

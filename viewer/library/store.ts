@@ -9,19 +9,24 @@
 // is reloaded. docs/library.md describes the format and how a future version migrates it.
 
 import { openDB, type DBSchema, type IDBPDatabase } from 'idb';
-import { readRun, thinSnapshots, toNetcdf, checkRun, withAllIntegrals, RunFileError, type RunData } from '../../model/io/run-read.ts';
+import { thinSnapshots, checkRun, withAllIntegrals, RunFileError, type RunData } from '../../model/io/run-data.ts';
+import { toNetcdf } from '../../model/io/run-export.ts';
+import { readRun } from '../../model/io/run-import.ts';
+import { legacyRunPhysics } from '../../model/io/run-physics-file.ts';
+import type { RunPhysics } from '../../model/run-physics.ts';
 import { formatBytes } from '../state/frame-history.ts';
 
 export const LIBRARY_DB = 'pycno-library';
 /** Schema version of the database (IndexedDB's version number). */
-export const LIBRARY_DB_VERSION = 1;
-/** Format tag of a payload record; bumped when RunData changes shape. */
-export const PAYLOAD_FORMAT = 'pycno-saved-run/1';
+export const LIBRARY_DB_VERSION = 2;
+/** Format tag of a payload record; bumped when RunData changes shape. 2: the run-physics record. */
+export const PAYLOAD_FORMAT = 'pycno-saved-run/2';
 
 export interface ScenarioSummary {
   scenarioName: string;
+  /** The basin as the scenario writes it. */
   basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number; resolution: string };
-  /** g' (m s-2), H (m), friction time (days, null for none). */
+  /** g' (m s-2), H (m), friction time (days, null for none), dynamics: from the run's physics record. */
   reducedGravity: number;
   layerThickness: number;
   frictionDays: number | null;
@@ -53,7 +58,7 @@ export interface SavedRunMeta {
   deletedAt: string | null;
 }
 
-interface PayloadRecord {
+export interface PayloadRecord {
   id: string;
   format: string;
   run: RunData;
@@ -152,7 +157,8 @@ function partLine(p: unknown): string {
   return `${String(part.kind ?? '?')}${name}${off}`;
 }
 
-export function scenarioSummary(scenarioJson: string): ScenarioSummary {
+/** What the run list shows of a run: the scenario's name, basin and wind parts as written, the physics from its record. */
+export function scenarioSummary(scenarioJson: string, physics: RunPhysics): ScenarioSummary {
   let s: Json;
   try {
     s = obj(JSON.parse(scenarioJson));
@@ -160,19 +166,36 @@ export function scenarioSummary(scenarioJson: string): ScenarioSummary {
     throw new LibraryError(`the run's scenario JSON does not parse: ${(e as Error).message}`);
   }
   const basin = obj(s.basin);
-  const physics = obj(s.physics);
   const res = basin.resolution;
   const resolution = typeof res === 'number' ? `${res}°` : `${num(obj(res).lon)}° x ${num(obj(res).lat)}°`;
-  const friction = physics.frictionDays;
   return {
     scenarioName: typeof s.name === 'string' ? s.name : '',
     basin: { lonWest: num(basin.lonWest), lonEast: num(basin.lonEast), latSouth: num(basin.latSouth), latNorth: num(basin.latNorth), resolution },
-    reducedGravity: num(physics.reducedGravity),
-    layerThickness: num(physics.layerThickness),
-    frictionDays: typeof friction === 'number' ? friction : null,
-    dynamics: typeof physics.dynamics === 'string' ? physics.dynamics : 'linear',
+    reducedGravity: physics.reducedGravity,
+    layerThickness: physics.layerThickness,
+    frictionDays: physics.frictionDays,
+    dynamics: physics.dynamics,
     windParts: (Array.isArray(obj(s.wind).parts) ? (obj(s.wind).parts as unknown[]) : []).map(partLine),
   };
+}
+
+// --- older payloads ---------------------------------------------------------------------------
+
+/** A format-1 payload in format 2, or null when it cannot be (it is left for get() to refuse by name). */
+export function payloadToFormat2(p: PayloadRecord): PayloadRecord | null {
+  if (p.format !== 'pycno-saved-run/1') return null;
+  const old = p.run as RunData & { reducedGravity?: unknown; layerThickness?: unknown; beta?: unknown; dynamics?: unknown };
+  if (typeof old.reducedGravity !== 'number' || typeof old.layerThickness !== 'number') return null;
+  try {
+    const physics = legacyRunPhysics(
+      { reducedGravity: old.reducedGravity, layerThickness: old.layerThickness, beta: typeof old.beta === 'number' ? old.beta : undefined, dynamics: typeof old.dynamics === 'string' ? old.dynamics : undefined },
+      old.scenarioJson,
+    );
+    const { reducedGravity: _g, layerThickness: _h, beta: _b, dynamics: _d, ...rest } = old;
+    return { ...p, format: PAYLOAD_FORMAT, run: { ...rest, physics } };
+  } catch {
+    return null;
+  }
 }
 
 // --- errors -----------------------------------------------------------------------------------
@@ -205,12 +228,18 @@ export class RunLibrary {
     let db: IDBPDatabase<LibrarySchema>;
     try {
       db = await openDB<LibrarySchema>(options.dbName ?? LIBRARY_DB, LIBRARY_DB_VERSION, {
-        upgrade(database, oldVersion) {
-          // One step per version; a future version 2 adds `if (oldVersion < 2) { ... }` below,
-          // rewriting records through the upgrade transaction (docs/library.md).
+        async upgrade(database, oldVersion, _newVersion, tx) {
+          // One step per version, rewriting records through the upgrade transaction (docs/library.md).
           if (oldVersion < 1) {
             database.createObjectStore('runs', { keyPath: 'id' });
             database.createObjectStore('payloads', { keyPath: 'id' });
+          }
+          if (oldVersion === 1) {
+            // Format 1 -> 2: the run-physics record in place of g', H, beta and dynamics.
+            for (let c = await tx.objectStore('payloads').openCursor(); c; c = await c.continue()) {
+              const p = payloadToFormat2(c.value);
+              if (p) await c.update(p);
+            }
           }
         },
       });
@@ -276,7 +305,7 @@ export class RunLibrary {
       savedAt: this.options.now().toISOString(),
       runCreatedAt: run.createdAt,
       notes: options.notes ?? '',
-      summary: scenarioSummary(run.scenarioJson),
+      summary: scenarioSummary(run.scenarioJson, run.physics),
       version: run.version,
       seed: run.seed,
       scenarioSha256: run.scenarioSha256,

@@ -120,7 +120,7 @@ export class HovmollerPanel {
       let o = (nRows - 1 - n) * e.nx * 4;
       for (let i = 0; i < e.nx; i++, o += 4) {
         const v = r.values[i];
-        if (v === v) {
+        if (!Number.isNaN(v)) {
           const l = Math.max(0, Math.min(top, Math.round((0.5 + 0.5 * (v / s)) * top))) * 4;
           data[o] = lut[l];
           data[o + 1] = lut[l + 1];
@@ -134,7 +134,8 @@ export class HovmollerPanel {
       }
     });
     if (rows.length) {
-      const tmp = (this.tmp ??= document.createElement('canvas'));
+      this.tmp ??= document.createElement('canvas');
+      const tmp = this.tmp;
       if (tmp.width !== img.width) tmp.width = img.width;
       if (tmp.height !== img.height) tmp.height = img.height;
       tmp.getContext('2d')!.putImageData(img, 0, 0);

@@ -183,7 +183,7 @@ export class MapRenderer {
       // NaN in a texture is undefined behaviour on some drivers: land goes up as the sentinel.
       for (let k = 0; k < n; k++) {
         const v = values[k];
-        t[k] = ocean[k] ? (v === v ? v : 0) : LAND;
+        t[k] = ocean[k] ? (Number.isNaN(v) ? 0 : v) : LAND;
       }
       this.fieldTex.subimage({ width: this.nx, height: this.ny, data: t });
       return [range.min, range.max];
@@ -193,7 +193,7 @@ export class MapRenderer {
     const span = range.max - range.min;
     for (let k = 0; k < n; k++) {
       const p = (values[k] - range.min) / span;
-      t[k] = ocean[k] ? 1 + (p === p ? Math.round(254 * Math.min(1, Math.max(0, p))) : 0) : 0;
+      t[k] = ocean[k] ? 1 + (Number.isNaN(p) ? 0 : Math.round(254 * Math.min(1, Math.max(0, p)))) : 0;
     }
     this.fieldTex.subimage({ width: this.nx, height: this.ny, data: t });
     return [0, 1];

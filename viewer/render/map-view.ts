@@ -208,7 +208,7 @@ export class MapView {
     for (const k of cells) {
       const u = layer.u[k];
       const v = layer.v[k];
-      if (!(u === u && v === v) || !g.ocean[k]) continue;
+      if (Number.isNaN(u) || Number.isNaN(v) || !g.ocean[k]) continue;
       const i = k % g.nx;
       const j = (k - i) / g.nx;
       at[2 * count] = ((i + 0.5) / g.nx) * 2 - 1;

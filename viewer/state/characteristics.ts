@@ -48,3 +48,21 @@ export function characteristics(
   }
   return out;
 }
+
+/** Where the characteristic lines start before the user picks a start: the first pulsed patch of wind, mid-pulse (the live page and saved runs). */
+export function pulseStart(scenarioJson: string): { lon: number; day: number } | null {
+  let sc: { wind?: { parts?: unknown[] } };
+  try {
+    sc = JSON.parse(scenarioJson);
+  } catch {
+    return null;
+  }
+  for (const p of (sc.wind?.parts ?? []) as Array<{ source?: { shape?: { kind?: string; lon?: number } }; envelope?: { kind?: string; start?: number; duration?: number } }>) {
+    const shape = p.source?.shape;
+    const env = p.envelope;
+    if (shape?.kind === 'patch' && typeof shape.lon === 'number' && env?.kind === 'pulse' && typeof env.start === 'number' && typeof env.duration === 'number') {
+      return { lon: shape.lon, day: env.start + env.duration / 2 };
+    }
+  }
+  return null;
+}

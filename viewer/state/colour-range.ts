@@ -74,7 +74,7 @@ export function checkFixedRange(min: number, max: number): string | null {
 /** Position 0..1 of a value in a range, clamped. */
 export function rangePosition(v: number, r: Range): number {
   const t = (v - r.min) / (r.max - r.min);
-  return t < 0 ? 0 : t > 1 ? 1 : t;
+  return t < 0 ? 0 : Math.min(t , 1);
 }
 
 /** Tick values for a colour bar: about `count` nice steps inside the range. */

@@ -3,7 +3,7 @@
 // once whether the shape is what they meant (a shape is a factor, about -1..1, that the part's
 // x and y scale).
 
-import { compileFormula, FormulaError } from '../../model/forcing/formula.ts';
+import { compileFormula, FormulaError, type CompiledFormula } from '../../model/forcing/formula.ts';
 
 export type FormulaCheck =
   | { ok: true; usesTime: boolean; min: number; max: number; badAt: string | null }
@@ -11,7 +11,7 @@ export type FormulaCheck =
 
 /** Compile and sample a formula on a coarse lattice of the basin at day `t`. */
 export function checkFormula(text: string, basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number }, t = 0): FormulaCheck {
-  let f;
+  let f: CompiledFormula;
   try {
     f = compileFormula(text);
   } catch (e) {

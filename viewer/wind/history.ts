@@ -1,47 +1,31 @@
 // Undo and redo by snapshots: cheap to reason about, and a design is small enough (a painted grid
-// of a few thousand numbers) that keeping a hundred copies costs little.
+// of a few thousand numbers) that keeping a hundred copies costs little. A timeline is a value:
+// each function returns a new one and leaves its arguments alone. Snapshots are copies, so a caller
+// that later changes the current value in place (painting does) cannot change the past.
 
-export class History<T> {
-  private past: T[] = [];
-  private future: T[] = [];
+export interface Timeline<T> {
+  readonly past: readonly T[];
+  readonly future: readonly T[];
+}
 
-  constructor(
-    private readonly copy: (v: T) => T,
-    private readonly limit = 100,
-  ) {}
+export const HISTORY_LIMIT = 100;
 
-  /** Remember `current` before it changes. A new change forgets what could be redone. */
-  record(current: T): void {
-    this.past.push(this.copy(current));
-    if (this.past.length > this.limit) this.past.shift();
-    this.future = [];
-  }
+export function emptyTimeline<T>(): Timeline<T> {
+  return { past: [], future: [] };
+}
 
-  /** The state before the last change, or null; `current` moves to the redo list. */
-  undo(current: T): T | null {
-    const prev = this.past.pop();
-    if (prev === undefined) return null;
-    this.future.push(this.copy(current));
-    return prev;
-  }
+/** Remember `current` before it changes. A new change forgets what could be redone. */
+export function recorded<T>(t: Timeline<T>, current: T, limit = HISTORY_LIMIT): Timeline<T> {
+  return { past: [...t.past, structuredClone(current)].slice(-limit), future: [] };
+}
 
-  redo(current: T): T | null {
-    const next = this.future.pop();
-    if (next === undefined) return null;
-    this.past.push(this.copy(current));
-    return next;
-  }
+/** The value before the last change and the timeline after going back, or null; `current` moves to the redo list. */
+export function undone<T>(t: Timeline<T>, current: T): { value: T; timeline: Timeline<T> } | null {
+  if (!t.past.length) return null;
+  return { value: t.past[t.past.length - 1], timeline: { past: t.past.slice(0, -1), future: [...t.future, structuredClone(current)] } };
+}
 
-  get canUndo(): boolean {
-    return this.past.length > 0;
-  }
-
-  get canRedo(): boolean {
-    return this.future.length > 0;
-  }
-
-  clear(): void {
-    this.past = [];
-    this.future = [];
-  }
+export function redone<T>(t: Timeline<T>, current: T): { value: T; timeline: Timeline<T> } | null {
+  if (!t.future.length) return null;
+  return { value: t.future[t.future.length - 1], timeline: { past: [...t.past, structuredClone(current)], future: t.future.slice(0, -1) } };
 }

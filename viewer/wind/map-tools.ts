@@ -112,7 +112,10 @@ export class MapTools {
     }
     if (this.mode === 'patch') {
       const p = this.patchOf(part);
-      if (!p || !part) return this.host.say('Select a Gaussian patch part first (or add one), then drag it on the map.');
+      if (!p || !part) {
+        this.host.say('Select a Gaussian patch part first (or add one), then drag it on the map.');
+        return;
+      }
       const h = hitHandle(p, e.offsetX, e.offsetY, this.toPixel) ?? (insidePatch(p, at.lon, at.lat) ? 'centre' : null);
       this.host.begin();
       if (h) this.drag = { kind: 'handle', handle: h, lastLon: at.lon, lastLat: at.lat };
@@ -122,12 +125,18 @@ export class MapTools {
         this.host.changed(this.withPatch(part, { ...p, lon: tidy(at.lon), lat: tidy(at.lat) }));
       }
     } else if (this.mode === 'band') {
-      if (!part || !this.withBand(part, at.lat, at.lat + 1)) return this.host.say('Select a latitude-profile part first (or add one), then drag across the latitudes of the band.');
+      if (!part || !this.withBand(part, at.lat, at.lat + 1)) {
+        this.host.say('Select a latitude-profile part first (or add one), then drag across the latitudes of the band.');
+        return;
+      }
       this.host.begin();
       this.drag = { kind: 'band', lat: at.lat };
     } else if (this.mode === 'paint') {
       const g = this.paintGrid(part);
-      if (!g || !part) return this.host.say('Select a painted part first (or add one), then paint on the map.');
+      if (!g || !part) {
+        this.host.say('Select a painted part first (or add one), then paint on the map.');
+        return;
+      }
       this.host.begin();
       dab(g, at.lon, at.lat, this.host.brush());
       this.drag = { kind: 'paint', lon: at.lon, lat: at.lat };
@@ -205,7 +214,7 @@ export class MapTools {
         done = true;
       }
     } else if (this.mode === 'band') {
-      if (!part || part.kind !== 'fixed' || part.source.kind !== 'shaped' || part.source.shape.kind !== 'band') return;
+      if (part?.kind !== 'fixed' || part.source.kind !== 'shaped' || part.source.shape.kind !== 'band') return;
       const [s, n] = bandOutline(part.source.shape.profile);
       let next: WindPart | null = null;
       if (e.key === 'ArrowUp' || e.key === 'ArrowDown') {
@@ -227,7 +236,10 @@ export class MapTools {
         if (this.mode === 'point') this.host.setPoint(c.lon, c.lat);
         else {
           const grid = this.paintGrid(part);
-          if (!grid || !part) return this.host.say('Select a painted part first (or add one), then paint on the map.');
+          if (!grid || !part) {
+            this.host.say('Select a painted part first (or add one), then paint on the map.');
+            return;
+          }
           this.host.begin();
           dab(grid, c.lon, c.lat, this.host.brush());
           this.host.changed(part);

@@ -91,7 +91,7 @@ export function finiteRange(a: ArrayLike<number>): [number, number] {
   let hi = -Infinity;
   for (let k = 0; k < a.length; k++) {
     const v = a[k];
-    if (v === v) {
+    if (!Number.isNaN(v)) {
       if (v < lo) lo = v;
       if (v > hi) hi = v;
     }

@@ -6,7 +6,8 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { diffScenarios, showValue } from '../../model/compare/scenario-diff.ts';
-import { readRun, RunFileError, type RunData } from '../../model/io/run-read.ts';
+import { RunFileError, type RunData } from '../../model/io/run-data.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { scenarioHash } from '../../model/scenario/canonical-hash.ts';
 import { parseScenario } from '../../model/scenario/load-inputs.ts';
 import { SCENARIO_FILE, type BatchMember } from './batch-folder.ts';

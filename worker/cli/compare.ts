@@ -10,7 +10,9 @@ import { showValue } from '../../model/compare/scenario-diff.ts';
 import { FIELD_INFO } from '../../model/diagnostics/fields.ts';
 import { NC_FILL_FLOAT, type NcAttributeInput } from '../../model/io/netcdf-format.ts';
 import { NetcdfWriter, type ByteSink } from '../../model/io/netcdf-writer.ts';
-import { readRun, RunFileError, type RunData } from '../../model/io/run-read.ts';
+import { RunFileError, type RunData } from '../../model/io/run-data.ts';
+import { readRun } from '../../model/io/run-import.ts';
+import { RUN_PHYSICS_ATTRIBUTES } from '../../model/io/run-physics-file.ts';
 import { INTEGRAL_VARIABLES, PYCNO_VERSION, probeVariableName, runOutputFile, writeRunFixed, type RunDescription } from '../../model/io/run-output.ts';
 import { isMeasured, measureWaves, type NotMeasured, type SpeedMeasure } from '../../model/report/measure.ts';
 import { READ_LIMITS } from '../../model/io/read-limits.ts';
@@ -172,10 +174,7 @@ export async function writeDifference(c: RunComparison, fileA: string, fileB: st
     probes: c.probes.map((p) => ({ name: p.name, lon: p.lonA, lat: p.latA })),
     bursts: [],
     dt: a.dt,
-    dynamics: a.dynamics,
-    reducedGravity: a.reducedGravity,
-    layerThickness: a.layerThickness,
-    beta: a.beta,
+    physics: a.physics,
     command: `pycno compare ${fileA} ${fileB}`,
   };
   const file = runOutputFile(d);
@@ -190,7 +189,8 @@ export async function writeDifference(c: RunComparison, fileA: string, fileB: st
     if (v.name === 'time') v.attributes = { ...(v.attributes ?? {}), comment: `run A's model day; run B's record within ${c.toleranceDays} days of it` };
   }
   const atts = { ...file.attributes } as Record<string, NcAttributeInput>;
-  for (const k of ['pycno_scenario', 'pycno_scenario_sha256', 'pycno_bursts', 'pycno_time_step_seconds', 'pycno_dynamics', 'pycno_reduced_gravity', 'pycno_layer_thickness']) delete atts[k];
+  // Neither run's scenario nor physics describes a difference of two runs.
+  for (const k of ['pycno_scenario', 'pycno_scenario_sha256', 'pycno_bursts', 'pycno_time_step_seconds', ...RUN_PHYSICS_ATTRIBUTES.map((a) => a.name)]) delete atts[k];
   Object.assign(atts, {
     title: `Difference B minus A: ${b.name} minus ${a.name}`,
     summary: `Fields, integrals, Hovmoller rows and probe series of run B minus those of run A at matching model times (B = ${basename(fileB)}, A = ${basename(fileA)})`,

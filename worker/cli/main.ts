@@ -26,7 +26,7 @@ import type { RunAllowance } from '../../model/scenario/run-size.ts';
 import type { EngineError, LoadedScenario } from '../protocol.ts';
 import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
 import { compareCommand, COMPARE_USAGE } from './compare.ts';
-import { Progress, type ProgressStream } from './progress.ts';
+import { Progress } from './progress.ts';
 import { reportCommand, REPORT_USAGE } from './report-command.ts';
 import { checkReport, runSummary } from './report.ts';
 import { rerun, RERUN_HELP, RERUN_USAGE } from './rerun.ts';
@@ -241,8 +241,8 @@ function commandLine(argv: Args, shown: string): string {
   return ['pycno', argv.command, shown, ...argv.sets.flatMap((s) => ['--set', s])].join(' ');
 }
 
-function describe(info: LoadedScenario, shown: string, argv: Args, engine: Engine): RunDescription {
-  return describeLoadedRun(info, engine.model!, shown, commandLine(argv, shown));
+function describe(info: LoadedScenario, shown: string, argv: Args): RunDescription {
+  return describeLoadedRun(info, shown, commandLine(argv, shown));
 }
 
 async function run(args: Args, text: string, shown: string, reader: InputReader, io: CliIO): Promise<number> {
@@ -276,7 +276,7 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
   const outFile = args.out ?? `${basename(shown).replace(/\.json$/i, '')}.nc`;
   // The writer lays the file out at once, so its size is known before anything is written.
   let out: OutputFile | null = null;
-  const writer = new RunOutputWriter(describe(info, shown, args, engine), { write: (offset, bytes) => out!.write(offset, bytes) });
+  const writer = new RunOutputWriter(describe(info, shown, args), { write: (offset, bytes) => out!.write(offset, bytes) });
   let restart: OutputFile | null = null;
   // Both outputs are checked and locked before the run starts: a refusal costs nothing.
   try {

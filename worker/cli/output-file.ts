@@ -198,7 +198,7 @@ export function planOutput(option: string, shown: string, cwd: string, reads: re
       refuse('is read-only (you cannot write it); an existing file is replaced only when you could write it');
     }
   }
-  return { option, shown, target, device, replaces: !!st && st.isFile(), mode: st && st.isFile() ? st.mode & 0o7777 : null };
+  return { option, shown, target, device, replaces: !!st && st.isFile(), mode: st?.isFile() ? st.mode & 0o7777 : null };
 }
 
 // --- locks -------------------------------------------------------------------------------------

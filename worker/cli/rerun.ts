@@ -11,15 +11,17 @@
 
 import { dirname, join, resolve as resolvePath } from 'node:path';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from '../../model/io/netcdf-read.ts';
-import { MemorySink, type ByteSink } from '../../model/io/netcdf-writer.ts';
+import { MemorySink } from '../../model/io/netcdf-writer.ts';
 import { PYCNO_VERSION, RunOutputWriter } from '../../model/io/run-output.ts';
+import { RUN_PHYSICS_ATTRIBUTES } from '../../model/io/run-physics-file.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../engine.ts';
 import { describeLoadedRun } from '../run-description.ts';
 import { nodeReader, readBounded, ReadRefused } from '../files-node.ts';
 import { READ_LIMITS } from '../../model/io/read-limits.ts';
 import { clipLine } from '../../model/scenario/errors.ts';
-import { readRun, RunFileError } from '../../model/io/run-read.ts';
+import { RunFileError } from '../../model/io/run-data.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import type { RunAllowance } from '../../model/scenario/run-size.ts';
 import { allowedInputs } from './input-policy.ts';
 import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
@@ -66,7 +68,7 @@ function describeShape(v: NcReadVariable): string {
 
 /** Compare every variable's values (and the attributes that describe the run, not when it ran). */
 export function firstDifference(was: NcFile, now: NcFile): Difference | null {
-  for (const att of ['pycno_scenario_sha256', 'pycno_bursts', 'pycno_time_step_seconds', 'pycno_dynamics']) {
+  for (const att of ['pycno_scenario_sha256', 'pycno_bursts', 'pycno_time_step_seconds', ...RUN_PHYSICS_ATTRIBUTES.map((a) => a.name)]) {
     const a = was.attributes[att];
     const b = now.attributes[att];
     const sa = a === undefined ? '(none)' : typeof a.value === 'string' ? a.value : Array.from(a.value).join(',');
@@ -219,7 +221,7 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
     say(`${shown}: the scenario reads back differently from the text embedded in the file; it cannot be repeated exactly`);
     return 1;
   }
-  const d = describeLoadedRun(info, engine.model!, args.file, `pycno rerun ${args.file}`);
+  const d = describeLoadedRun(info, args.file, `pycno rerun ${args.file}`);
   const memory = args.out ? null : new MemorySink();
   let file: OutputFile | null = null;
   const writer = new RunOutputWriter(d, memory ?? { write: (offset, bytes) => file!.write(offset, bytes) });

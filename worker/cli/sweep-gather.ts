@@ -12,7 +12,7 @@ import { FIELD_NAMES, type FieldName } from '../../model/diagnostics/fields.ts';
 import { memberResults } from '../../model/ensemble/member-results.ts';
 import { EnsembleStatistics, StatisticsShapeError } from '../../model/ensemble/statistics.ts';
 import { SEED_PATH, writeSummary, type SummaryMember } from '../../model/ensemble/summary-file.ts';
-import type { RunData } from '../../model/io/run-read.ts';
+import type { RunData } from '../../model/io/run-data.ts';
 import { scenarioHash } from '../../model/scenario/canonical-hash.ts';
 import { readFileSync } from 'node:fs';
 import { BatchRefused, BatchUsage, PLAN_FILE, printLines, readPlan, readStatus, SCENARIO_FILE, SCRIPT_FILE, shellQuote, SUMMARY_FILE, taskOf, type BatchPlan } from './batch-folder.ts';

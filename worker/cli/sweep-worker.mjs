@@ -33,7 +33,7 @@ parentPort.on('message', async ({ argv, interrupt }) => {
   try {
     code = await main(argv, io);
   } catch (e) {
-    stderr += String(e && e.stack ? e.stack : e);
+    stderr += String(e?.stack ? e.stack : e);
     code = 1;
   }
   parentPort.postMessage({ code, stdout, stderr });

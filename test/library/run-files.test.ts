@@ -1,18 +1,22 @@
 // Reading a Pycno run file back into a RunData, and writing it again: every value kept, and
 // files that are not Pycno run files, or are damaged, refused with a message that says why.
 
+import { RUN_PHYSICS_ATTRIBUTES } from '../../model/io/run-physics-file.ts';
 import { describe, expect, it } from 'vitest';
 import { FIELD_NAMES } from '../../model/diagnostics/fields.ts';
 import { writeNetcdfToMemory } from '../../model/io/netcdf-writer.ts';
 import { NC_FLOAT } from '../../model/io/netcdf-format.ts';
-import { readRun, RunCollector, runDescription, toNetcdf, thinSnapshots, RunFileError } from '../../model/io/run-read.ts';
+import { RunCollector } from '../../model/io/run-collector.ts';
+import { thinSnapshots, RunFileError } from '../../model/io/run-data.ts';
+import { runDescription, toNetcdf } from '../../model/io/run-export.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { MemorySink } from '../../model/io/netcdf-writer.ts';
 import { RunOutputWriter, runOutputFile } from '../../model/io/run-output.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
-import { expectSameRun, tinyRun } from './run-fixture.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
+import { expectSameRun, tinyRun } from '../support/run-fixture.ts';
 
 describe('RunData <-> NetCDF', () => {
   it('collects a run with every series at full resolution and the snapshots asked for', async () => {
@@ -42,7 +46,7 @@ describe('RunData <-> NetCDF', () => {
   it('keeps NaN on land and the land mask', async () => {
     const run = await tinyRun();
     const back = readRun(await toNetcdf(run));
-    const land = Array.from(back.grid.ocean).findIndex((o) => o === 0);
+    const land = Array.from(back.grid.ocean).indexOf(0);
     expect(land).toBeGreaterThanOrEqual(0);
     expect(back.snapshots[2].fields.u![land]).toBeNaN();
     expect(Number.isFinite(back.snapshots[2].fields.u![back.grid.ocean.indexOf(1)])).toBe(true);
@@ -72,7 +76,7 @@ describe('files written while running', () => {
     const createdAt = new Date('2032-02-03T04:05:06.000Z');
     const sink = new MemorySink();
     const writer = new RunOutputWriter(
-      { ...info, hovmollerRowLats: info.hovmollerRowLats!, dynamics: 'linear', reducedGravity: 0.03, layerThickness: 150, beta: engine.model!.physics.beta, command: 'pycno run tiny.json', createdAt },
+      { ...info, hovmollerRowLats: info.hovmollerRowLats!, command: 'pycno run tiny.json', createdAt },
       sink,
     );
     await writer.begin();
@@ -92,7 +96,7 @@ describe('files written while running', () => {
 });
 
 describe('older files', () => {
-  it('a run file of the layout before cell areas (no cell_area, probe names not in coordinates) reads the same', async () => {
+  it('a run file of the layout before cell areas and the physics record (no cell_area, probe names not in coordinates, g\' and H in their own attributes) reads the same', async () => {
     const run = await tinyRun([], 2);
     const now = await toNetcdf(run);
     // The same file laid out as Pycno wrote it before: no cell_area, no cell_measures, probe
@@ -107,7 +111,11 @@ describe('older files', () => {
         if (a.coordinates === 'probe_lat probe_lon probe_name') a.coordinates = 'probe_lat probe_lon';
         return { ...v, attributes: a };
       });
-    delete (layout.attributes as Record<string, unknown>).pycno_earth_radius;
+    // Before the run-physics record: dynamics, g' and H in attributes of their own, the rest
+    // (beta, rho0, friction, viscosity, R) only in the scenario the file carries.
+    const atts = layout.attributes as Record<string, unknown>;
+    for (const a of RUN_PHYSICS_ATTRIBUTES) delete atts[a.name];
+    Object.assign(atts, { pycno_dynamics: run.physics.dynamics, pycno_reduced_gravity: run.physics.reducedGravity, pycno_layer_thickness: run.physics.layerThickness });
     const f = readNetcdf(now);
     const dims = new Map(f.dimensions.map((d) => [d.name, d]));
     const fixed: Record<string, Float64Array | string> = {};

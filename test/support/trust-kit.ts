@@ -4,9 +4,9 @@
 import { readFileSync } from 'node:fs';
 import { readNetcdf, type NcFile } from '../../model/io/netcdf-read.ts';
 import { main } from '../../worker/cli/main.ts';
-import { FIXTURE_TEXT } from '../engine/helpers.ts';
+import { FIXTURE_TEXT } from './engine-fixture.ts';
 
-export { FIXTURE, FIXTURE_TEXT } from '../engine/helpers.ts';
+export { FIXTURE, FIXTURE_TEXT } from './engine-fixture.ts';
 
 /** A bursts part drawn from the scenario's seed; a few bursts fall inside the first days. */
 export const BURSTS_PART = {

@@ -1,8 +1,8 @@
 // Measurement, not a test: how often Chromium's Math functions give other bits than this Node's,
 // over 20,000 seeded arguments each (docs/reliability.md, "Across hosts").
-//   node --import tsx test/browser/math-hosts.ts
+//   node --import tsx test/support/math-hosts.ts
 
-import { launch } from './harness.ts';
+import { launch } from './browser-harness.ts';
 
 const sample = () => {
   const out: Record<string, number[]> = { sin: [], cos: [], tan: [], exp: [], log: [], pow: [], atan2: [], tanh: [], sqrt: [], hypot: [] };

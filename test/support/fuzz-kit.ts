@@ -34,7 +34,8 @@ export interface Tally {
 export const tallies: Record<string, Tally> = {};
 
 export function tally(name: string): Tally {
-  return (tallies[name] ??= { tried: 0, accepted: 0, refused: 0, slowestMs: 0 });
+  tallies[name] ??= { tried: 0, accepted: 0, refused: 0, slowestMs: 0 };
+  return tallies[name];
 }
 
 /** Why an outcome is not acceptable, or null when it is. */
@@ -105,7 +106,8 @@ export function check<T>(name: string, seed: number, runs: number, arb: fc.Arbit
   fc.assert(
     fc.property(arb, (x) => {
       const p = problem(x);
-      if (p) throw new Error(`${p}\ninput: ${show(x)}`);
+      // Which fuzz and seed, so the failure can be run again (PYCNO_FUZZ_SEED=<seed>).
+      if (p) throw new Error(`fuzz ${name} (seed ${seed}): ${p}\ninput: ${show(x)}`);
     }),
     { seed, numRuns: runs, endOnFailure: false },
   );

@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { expect } from 'vitest';
 import { readNetcdf, type NcFile } from '../../model/io/netcdf-read.ts';
-import { FIXTURE } from '../engine/helpers.ts';
+import { FIXTURE } from './engine-fixture.ts';
 
 export const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
 
@@ -55,7 +55,7 @@ export function refusedWith(r: Ran, line: RegExp): void {
 }
 
 export function noInternals(r: Ran): void {
-  expect(r.stderr).not.toMatch(/internal error|    at |TypeError|RangeError|is not a function|node:internal|\[object Object\]/);
+  expect(r.stderr).not.toMatch(/internal error| {4}at |TypeError|RangeError|is not a function|node:internal|\[object Object\]/);
 }
 
 /** Files in the folder whose names start with `prefix` (the output, its .part-N and .lock). */

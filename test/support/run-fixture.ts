@@ -4,9 +4,10 @@
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { expect } from 'vitest';
-import { RunCollector, type RunData } from '../../model/io/run-read.ts';
+import { RunCollector } from '../../model/io/run-collector.ts';
+import type { RunData } from '../../model/io/run-data.ts';
 import { Engine } from '../../worker/engine.ts';
-import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../engine/helpers.ts';
+import { FIXTURE, FIXTURE_TEXT, fakeHost } from './engine-fixture.ts';
 
 export { FIXTURE, FIXTURE_TEXT };
 

@@ -1,7 +1,8 @@
-// Files out of the page: a download from bytes or text (picked files are read by viewer/picked-file.ts).
+// Files out of the page: the one download (of bytes, text or a blob) and names safe for a file
+// (picked and dropped files are read by viewer/picked-file.ts, under the command line's limits).
 
-export function download(data: Uint8Array | string, fileName: string, type: string): void {
-  const blob = new Blob([typeof data === 'string' ? data : (data as Uint8Array<ArrayBuffer>)], { type });
+export function download(data: Uint8Array | string | Blob, fileName: string, type: string): void {
+  const blob = data instanceof Blob ? data : new Blob([typeof data === 'string' ? data : (data as Uint8Array<ArrayBuffer>)], { type });
   const a = document.createElement('a');
   a.href = URL.createObjectURL(blob);
   a.download = fileName;

@@ -8,7 +8,7 @@ import { readNetcdfVectors } from '../../model/forcing/gridded.ts';
 import { Grid } from '../../model/grid.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { readStartFile } from '../../model/io/restart.ts';
-import { readRun } from '../../model/io/run-read.ts';
+import { readRun } from '../../model/io/run-import.ts';
 import { buildPrepared, parseScenario } from '../../model/scenario/load-inputs.ts';
 import { EARTH } from '../../model/config.ts';
 

@@ -9,7 +9,7 @@ import { Model, type LinearKernelName } from '../../model/model.ts';
 import type { StripHost } from '../../model/parallel/team.ts';
 import { referenceConfig } from '../../model/reference-kernel.ts';
 import { nodeStripHost } from '../../worker/strips-node.ts';
-import { sameBits } from '../support/bits.ts';
+import { sameBits } from './bits.ts';
 
 export { sameBits };
 
