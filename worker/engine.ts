@@ -525,6 +525,8 @@ export class Engine {
     const probeValues = run.probeCells.map(({ i, j }) => Float32Array.from(fields, (f) => row(f, j)[i]));
     const integrals = model.integrals();
     const sample: OutputSample = { day: model.day, step: model.state.steps, integrals, hovmoller, probeValues };
+    const coupled = model.coupledIndices();
+    if (coupled) sample.coupled = coupled;
     const withFields = this.sampleFieldsEvery > 0 && this.samplesTaken % this.sampleFieldsEvery === 0 && this.frameListeners.size > 0;
     this.samplesTaken++;
     const full = (): Partial<Record<FieldName, Float32Array>> => {

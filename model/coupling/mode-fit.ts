@@ -187,3 +187,31 @@ export function phaseLead(days: ArrayLike<number>, lead: ArrayLike<number>, foll
   share -= Math.round(share);
   return share === -0.5 ? 0.5 : share;
 }
+
+/** The coupled mode of a run's index series as the program reports it: the fit and the warm-water lead. */
+export interface CoupledMode {
+  fit: ModeFit;
+  /** Share of a period by which the warm-water volume leads the eastern SST (Jin 1997: about a quarter). */
+  warmWaterLead: number;
+}
+
+/** Share of a run's days the report skips before fitting: the mode growing out of its kick. */
+export const FIT_SKIP = 0.1;
+
+/** Fit the eastern SST of a run (skipping the first FIT_SKIP of its days) and measure the warm-water lead; null when it does not oscillate enough to tell. */
+export function coupledMode(days: ArrayLike<number>, eastSst: ArrayLike<number>, warmWater: ArrayLike<number>): CoupledMode | null {
+  if (days.length < 4) return null;
+  const from = days[0] + FIT_SKIP * (days[days.length - 1] - days[0]);
+  const fit = fitOscillation(days, eastSst, from);
+  if (!fit) return null;
+  return { fit, warmWaterLead: phaseLead(days, warmWater, eastSst, fit) };
+}
+
+/** One line about a coupled mode, the same on the command line and in reports. */
+export function coupledModeLine(m: CoupledMode | null): string {
+  if (!m) return 'no oscillation to measure: fewer than three complete half cycles of the eastern SST anomaly';
+  const f = m.fit;
+  const efold = f.growthPerYear !== 0 ? `, e-folding ${Math.abs(1 / f.growthPerYear).toPrecision(3)} years` : '';
+  const kind = f.growthPerYear > 0 ? 'growing' : 'damped';
+  return `period ${f.periodDays.toFixed(0)} days (${(f.periodDays / 365.25).toFixed(2)} years), growth rate ${f.growthPerYear.toFixed(3)} per year (${kind}${efold}), from ${f.halfCycles} half cycles over days ${f.fromDay.toFixed(0)}-${f.toDay.toFixed(0)}; the warm-water volume leads the eastern SST by ${m.warmWaterLead.toFixed(2)} of a period`;
+}
