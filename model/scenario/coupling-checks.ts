@@ -25,7 +25,7 @@ export function couplingIssues(sc: Scenario, add: (path: PathSegment[], message:
   const fields: unknown[] = Array.isArray(sc.output?.fields) ? sc.output.fields : [];
   fields.forEach((f, k) => {
     if (on.length === 0 && (COUPLED_FIELDS as readonly unknown[]).includes(f)) {
-      add(['output', 'fields', k], `${String(f)} comes from an answering wind part, and this scenario has none switched on`);
+      add(['output', 'fields', k], `${String(f)} comes from an answering wind part, and this scenario has none switched on; leave it out of output.fields or switch the part on`);
     }
   });
   if (on.length === 0) return;
