@@ -11,6 +11,7 @@ import { drawColourBar, formatValue } from './panels/colour-bar.ts';
 import { HovmollerPanel } from './panels/hovmoller.ts';
 import { ProbePanel } from './panels/probes.ts';
 import { RunTotals } from './panels/run-totals.ts';
+import { CoupledPanel } from './panels/coupled-panel.ts';
 import { ScenarioPanel } from './panels/scenario-panel.ts';
 import { WindPanel } from './wind/wind-panel.ts';
 import { LibraryPage } from './library-panel/library-page.ts';
@@ -120,6 +121,7 @@ let loading = false;
 const early: Frame[] = [];
 
 const totals = new RunTotals($('totals'));
+const coupledPanel = new CoupledPanel($('coupled-panel'));
 const panel = new ScenarioPanel($<HTMLFormElement>('params'), $('derived'), $<HTMLUListElement>('other-issues'), $('restart-note'), $<HTMLButtonElement>('btn-apply'));
 const hovPanel = new HovmollerPanel($<HTMLCanvasElement>('hovmoller'), hov, (s) => {
   $('hov-start').textContent = `from ${lonLabel(s.lon)}, day ${s.day.toFixed(1)}`;
@@ -185,6 +187,8 @@ function onFrame(f: Frame): void {
   }
   probes.addFrame(f.day, f.fields);
   totals.add(f.samples.map((s) => s.integrals), f.integrals);
+  coupledPanel.addSamples(f.samples);
+  if (run?.derived.answering) panel.setCoupledMode(coupledPanel.shortMode());
   history.push({ day: f.day, step: f.step, fields: f.fields });
   queueDraw(false);
 }
@@ -283,6 +287,8 @@ function startRun(r: LoadedScenario): void {
   $('hov-start').textContent = hovPanel.start ? `from ${lonLabel(hovPanel.start.lon)}, day ${hovPanel.start.day.toFixed(1)}` : '';
   probePanel.renderList();
   const d = r.derived;
+  coupledPanel.setRun(r.grid, r.fields, d.answering !== null);
+  panel.setCoupledMode(coupledPanel.shortMode());
   totals.setRun(
     [
       ['dt', `${formatValue(r.dt)} s`],
@@ -393,6 +399,11 @@ function draw(): void {
   if ($<HTMLInputElement>('show-wind').checked && f.fields.taux && f.fields.tauy) {
     layers.push({ name: 'wind stress', u: f.fields.taux, v: f.fields.tauy, units: 'N m-2', colour: [120, 30, 160] });
   }
+  // Over the SST anomaly, the wind that answers it.
+  if (fieldKey === 'sst_anom' && f.fields.u_atm && f.fields.v_atm) {
+    layers.push({ name: 'answering wind', u: f.fields.u_atm, v: f.fields.v_atm, units: 'm/s', colour: [0, 90, 40] });
+  }
+  if (fresh) coupledPanel.drawFields(f.fields);
   map.gl.setColourMap(mapFor(fieldKey), lookupTable(mapFor(fieldKey)));
   // While the wind preview is on, the map shows the designed forcing instead of the run's field.
   if (!windPanel.drawOnMap()) {
