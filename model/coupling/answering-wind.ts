@@ -84,8 +84,8 @@ export class AnsweringWind {
     this.sst = new SstAnomaly(grid, part.sst);
     this.atmosphere = new GillAtmosphere(grid, {
       speed: finite('atmosphere.speed', a?.speed),
-      damping: 1 / (finite('atmosphere.dampingDays', a.dampingDays) * DAY),
-      heatingModes: a.heatingModes,
+      damping: 1 / (finite('atmosphere.dampingDays', a?.dampingDays) * DAY),
+      heatingModes: a?.heatingModes,
       beta: options.beta,
     });
     this.bulk = options.bulk;

@@ -90,6 +90,9 @@ export class SstAnomaly {
         this.region[k] = Math.abs(s) < REGION_FLOOR ? 0 : s;
       }
     }
+    if (this.region.every((s) => s === 0)) {
+      throw new ForcingError(`sst.region: ${shape.label} is 0 on every ocean cell, so the SST would never feel the thermocline; put the region over the ocean`);
+    }
   }
 
   /** The SST of a fresh run: initial x S. */

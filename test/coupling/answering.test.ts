@@ -259,3 +259,15 @@ describe('the answering part in a scenario', () => {
     expect(rp.ok && derivedNumbers(resolveScenario(rp.scenario)).answering).toBeNull();
   });
 });
+
+describe('a region that misses the ocean', () => {
+  it('is refused when the model is built, saying why', () => {
+    const sc = scenario();
+    sc.wind.parts[1].sst.region = { kind: 'patch', lon: 85, lat: 0, lonWidth: 0.01, latWidth: 0.01 };
+    // The patch falls between cell centres (84.75 and 85.25) and is below 1e-6 at both.
+    const r = validateScenario(sc);
+    if (!r.ok) throw new Error('invalid');
+    const grid = new Grid(resolveScenario(r.scenario).model.basin, EARTH.radius);
+    expect(() => buildWindStress(grid, r.scenario.wind, { seed: 's', beta: BETA })).toThrow(/wind part 1 \('answering wind'\): sst.region: patch is 0 on every ocean cell/);
+  });
+});
