@@ -15,7 +15,7 @@ import { coriolisParameter, waveSpeed } from './theory.ts';
 import { centredField, type FieldContext, type FieldName } from './diagnostics/fields.ts';
 import { anomalySum, integrals, type Integrals } from './diagnostics/integrals.ts';
 import { BlowUpError, InputError } from './errors.ts';
-import { calm, type WindStress } from './forcing/stress.ts';
+import { calm, type CoupledIndices, type OceanCoupling, type WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
 import { RUNAWAY_SPEED } from './health-limits.ts';
 import { checkInitial, initialState, type InitialSpec } from './initial.ts';
@@ -70,6 +70,8 @@ export class Model {
   /** f at cell-centre rows, s-1. */
   readonly fCentre: Float64Array;
   private readonly wind: WindStress;
+  /** The wind's side that answers the ocean (an answering part), or null. */
+  private readonly coupling: OceanCoupling | null;
   private accelX: Float64Array;
   private accelY: Float64Array;
   /** The one-thread linear step (null in the nonlinear mode, and once a strip team steps). */
@@ -150,6 +152,10 @@ export class Model {
     this.keeper = p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.grid, this.coefficients) : null;
     // A state some model has run carries its experiment's budget; a fresh one starts it here.
     this.state.volumeBudget ??= { anomalyAtStart: anomalySum(this.grid, this.state.h), spongeMeasured: 0 };
+    // A coupled wind answers the state's SST before the first fill: a restart recomputes the very
+    // wind the run that wrote it had in force.
+    this.coupling = this.wind.coupling ?? null;
+    this.coupling?.start(this.state, { physics: p, dt: this.dt, fCentre: this.fCentre });
     this.updateWind(previous);
   }
 
@@ -164,6 +170,7 @@ export class Model {
       return;
     }
     for (let s = 0; s < n; s++) {
+      this.coupleIfDue();
       this.updateWind(this.state.time);
       if (this.stepper) {
         this.stepper.step(this.state, this.physics.friction, this.physics.viscosity);
@@ -182,6 +189,9 @@ export class Model {
   private advanceStrips(n: number, team: StripTeam): void {
     try {
       for (let s = 0; s < n; s++) {
+        // The coupling reads h' and u: the workers must have finished the step before.
+        if (this.couplingDue()) team.sync();
+        this.coupleIfDue();
         this.updateWind(this.state.time);
         team.step(this.state, this.physics.friction, this.physics.viscosity);
         if (this.keeper) {
@@ -248,6 +258,24 @@ export class Model {
     if (team) await team.close();
   }
 
+  /** True when the step about to start is a coupling step: n > 0 and n a multiple of everySteps. */
+  private couplingDue(): boolean {
+    const c = this.coupling;
+    return c !== null && this.state.steps > 0 && this.state.steps % c.everySteps === 0;
+  }
+
+  /** At a coupling step: advance the SST from the ocean, let the atmosphere answer, refill the stress. */
+  private coupleIfDue(): void {
+    if (!this.couplingDue()) return;
+    this.coupling!.couple(this.state, this.taux, this.tauy);
+    this.windFilledFor = Number.NaN;
+  }
+
+  /** The coupled run's eastern SST index and warm-water volume now; null without an answering wind. */
+  coupledIndices(): CoupledIndices | null {
+    return this.coupling ? this.coupling.indices(this.state) : null;
+  }
+
   /** One step done: the count goes up and the time is read from it, never accumulated. */
   private tick(): void {
     const s = this.state;
@@ -269,7 +297,7 @@ export class Model {
   }
 
   fieldContext(): FieldContext {
-    return { grid: this.grid, physics: this.physics, state: this.state, taux: this.taux, tauy: this.tauy, fCentre: this.fCentre };
+    return { grid: this.grid, physics: this.physics, state: this.state, taux: this.taux, tauy: this.tauy, fCentre: this.fCentre, atmosphere: this.coupling?.centredWind() ?? null };
   }
 
   /** One output field at cell centres (nx * ny, south-west first); land is NaN. */

@@ -34,6 +34,11 @@ export class State {
    */
   readonly history: { du: Float64Array[]; dv: Float64Array[]; dh: Float64Array[] };
   historyCount = 0;
+  /**
+   * The sea-surface temperature anomaly of a coupled run (K, cell centres; model/coupling/), or
+   * null in a run without an answering wind. Part of the state so that a restart continues it.
+   */
+  sst: Float64Array | null = null;
 
   constructor(readonly grid: Grid) {
     this.u = grid.field();
@@ -71,6 +76,10 @@ export class State {
     this.clock = o.clock ? { ...o.clock } : null;
     this.volumeBudget = o.volumeBudget ? { ...o.volumeBudget } : null;
     this.historyCount = o.historyCount;
+    if (o.sst) {
+      this.sst ??= this.grid.field();
+      this.sst.set(o.sst);
+    } else this.sst = null;
     for (const key of ['du', 'dv', 'dh'] as const) {
       for (let n = 0; n < 2; n++) this.history[key][n].set(o.history[key][n]);
     }

@@ -9,6 +9,7 @@ import { LibraryPage } from './library-panel/library-page.ts';
 import { HovmollerPanel } from './panels/hovmoller.ts';
 import { ProbePanel } from './panels/probes.ts';
 import { RunTotals } from './panels/run-totals.ts';
+import { CoupledPanel } from './panels/coupled-panel.ts';
 import { ScenarioPanel } from './panels/scenario-panel.ts';
 import { lonLabel } from './render/geo.ts';
 import { NoWebGLError } from './render/map-gl.ts';
@@ -59,6 +60,7 @@ info.kept = () => ({ frames: history.length, bytes: history.bytes, budget: histo
 const hov = new HovmollerStore();
 const probes = new ProbeStore();
 const totals = new RunTotals($('totals'));
+const coupledPanel = new CoupledPanel($('coupled-panel'));
 const panel = new ScenarioPanel($<HTMLFormElement>('params'), $('derived'), $<HTMLUListElement>('other-issues'), $('restart-note'), $<HTMLButtonElement>('btn-apply'));
 const hovPanel = new HovmollerPanel($<HTMLCanvasElement>('hovmoller'), hov, (s) => {
   $('hov-start').textContent = `from ${lonLabel(s.lon)}, day ${s.day.toFixed(1)}`;
@@ -109,7 +111,7 @@ const library = new LibraryPage($('library-panel'), $('compare-panel'), {
   outputEveryDays: () => state.run?.outputEveryDays ?? 1,
 });
 
-const page: Page = { state, info, notices, map, history, hov, probes, totals, panel, hovPanel, probePanel, windPanel, library, engine };
+const page: Page = { state, info, notices, map, history, hov, probes, totals, coupledPanel, panel, hovPanel, probePanel, windPanel, library, engine };
 const drawing = new DrawLoop(page);
 function layoutMap(): void {
   const host = $('map-stack');

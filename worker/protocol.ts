@@ -3,6 +3,7 @@
 
 import type { FieldName } from '../model/diagnostics/fields.ts';
 import type { Integrals } from '../model/diagnostics/integrals.ts';
+import type { CoupledIndices } from '../model/forcing/stress.ts';
 import type { DrawnBurst } from '../model/forcing/bursts.ts';
 import type { RunPhysics } from '../model/run-physics.ts';
 import type { DerivedNumbers } from '../model/scenario/derived.ts';
@@ -62,6 +63,8 @@ export interface OutputSample {
   step?: number;
   /** Every output field in full (nx * ny, NaN on land); only on the samples asked for with setSampleFields. */
   fields?: Partial<Record<FieldName, Float32Array>>;
+  /** A run with an answering wind: its eastern SST index and warm-water volume (model/coupling/indices.ts). */
+  coupled?: CoupledIndices;
 }
 
 /**

@@ -31,7 +31,10 @@ export function takeSample(run: RunPlan): OutputSample {
   const hovmoller = run.hovRows.map((j) => Float32Array.from(row('h_anom', j)));
   const probeValues = run.probeCells.map(({ i, j }) => Float32Array.from(fields, (f) => row(f, j)[i]));
   const integrals = model.integrals();
-  return { day: model.day, step: model.state.steps, integrals, hovmoller, probeValues };
+  const sample: OutputSample = { day: model.day, step: model.state.steps, integrals, hovmoller, probeValues };
+  const coupled = model.coupledIndices();
+  if (coupled) sample.coupled = coupled;
+  return sample;
 }
 
 /** Every output field of the run's model now, in fresh arrays. */

@@ -17,6 +17,9 @@ export const FIELD_NAMES = [
   'v_below',
   'taux',
   'tauy',
+  'sst_anom',
+  'u_atm',
+  'v_atm',
 ] as const;
 export type FieldName = (typeof FIELD_NAMES)[number];
 
@@ -38,7 +41,13 @@ export const FIELD_INFO: Record<FieldName, FieldInfo> = {
   v_below: { units: 'm s-1', longName: 'northward velocity beneath the surface layer' },
   taux: { units: 'N m-2', longName: 'eastward wind stress', standardName: 'surface_downward_eastward_stress' },
   tauy: { units: 'N m-2', longName: 'northward wind stress', standardName: 'surface_downward_northward_stress' },
+  sst_anom: { units: 'K', longName: 'sea surface temperature anomaly of the answering wind (thermocline feedback)' },
+  u_atm: { units: 'm s-1', longName: 'eastward surface wind of the answering atmosphere (Gill 1980)' },
+  v_atm: { units: 'm s-1', longName: 'northward surface wind of the answering atmosphere (Gill 1980)' },
 };
+
+/** The fields only a run with an answering wind part has. */
+export const COUPLED_FIELDS: readonly FieldName[] = ['sst_anom', 'u_atm', 'v_atm'];
 
 export interface FieldContext {
   grid: Grid;
@@ -49,6 +58,8 @@ export interface FieldContext {
   tauy: Float64Array;
   /** f at cell-centre rows. */
   fCentre: Float64Array;
+  /** The answering wind at cell centres (padded), m s-1; null or absent without one. */
+  atmosphere?: { u: Float64Array; v: Float64Array } | null;
 }
 
 /**
@@ -100,6 +111,16 @@ export function centredField(
           break;
         case 'tauy':
           value = 0.5 * (tauy[k] + tauy[k + W]);
+          break;
+        // A run without an answering wind has none of these (the validator refuses asking for them).
+        case 'sst_anom':
+          value = state.sst ? state.sst[k] : 0;
+          break;
+        case 'u_atm':
+          value = ctx.atmosphere ? ctx.atmosphere.u[k] : 0;
+          break;
+        case 'v_atm':
+          value = ctx.atmosphere ? ctx.atmosphere.v[k] : 0;
           break;
         default: {
           const { us, vs } = surfaceShear(0.5 * (taux[k] + taux[k + 1]), 0.5 * (tauy[k] + tauy[k + W]), f, rho0, H1, rs, shear);

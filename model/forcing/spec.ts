@@ -94,7 +94,58 @@ export interface BurstsPart {
   ramp: number;
 }
 
-export type WindPart = FixedPart | BurstsPart;
+/**
+ * The answering wind: a wind that answers the ocean. The run's thermocline sets a sea-surface
+ * temperature anomaly (thermocline feedback), a damped Gill (1980) atmosphere answers its heating,
+ * and the surface wind of that answer becomes stress by a drag law. Its state is the SST anomaly,
+ * which the model carries (State.sst) and restart files keep. docs/wind.md and docs/physics.md.
+ */
+export interface AnsweringPart {
+  kind: 'answering';
+  name?: string;
+  enabled?: boolean;
+  /** Coupling strength mu: surface wind per kelvin of the normalised atmospheric answer, m s-1 K-1. */
+  strength: number;
+  /** The SST and the atmosphere are brought up to date every this many ocean steps. */
+  everySteps: number;
+  /**
+   * From wind to stress. 'linear': tau = rho_air C_D(|U_b|) |U_b| u; 'bulk': tau = B(U_b + u) - B(U_b)
+   * with B the run's bulk formula (wind.bulk); U_b the background wind.
+   */
+  drag: 'linear' | 'bulk';
+  /** The background (mean) surface wind the answer blows on, m s-1 (x eastward, y northward). */
+  background: { x: number; y: number };
+  sst: SstSpec;
+  atmosphere: AtmosphereSpec;
+}
+
+/** The SST anomaly: dT/dt = w S (T_sub(h') - T) - eps_T T - S G u_surf (docs/physics.md). */
+export interface SstSpec {
+  /** S(lon, lat), 0..1: where mean upwelling and the mean zonal SST gradient act (a cold tongue); must not depend on t. */
+  region: ShapeSpec;
+  /** 1/w: the time the mean upwelling takes to renew the surface water where S = 1, days. */
+  upwellingDays: number;
+  /** 1/eps_T: Newtonian damping of the anomaly (exchange with the air), days. */
+  dampingDays: number;
+  /** Subsurface temperature anomaly: warm tanh(h'/warmDepth) for h' >= 0, cold tanh(h'/coldDepth) below (K, m). */
+  subsurface: { warm: number; warmDepth: number; cold: number; coldDepth: number };
+  /** dTbar/dx, the mean zonal SST gradient in the region, K per 1000 km (negative: colder to the east); 0 leaves out zonal advection. */
+  meanGradient: number;
+  /** T' at the start of a fresh run, K, times S: a kick that needs no wind. */
+  initial: number;
+}
+
+/** Gill's (1980) damped, steady, long-wave atmosphere on the equatorial beta plane. */
+export interface AtmosphereSpec {
+  /** c_a, the gravity-wave speed of the atmosphere's mode, m s-1. */
+  speed: number;
+  /** 1/eps, the damping time of both friction and cooling, days. */
+  dampingDays: number;
+  /** The projection: how many Hermite functions of the atmosphere's equatorial radius carry the heating (1: Gill's symmetric case). */
+  heatingModes: number;
+}
+
+export type WindPart = FixedPart | BurstsPart | AnsweringPart;
 
 export interface BulkSpec {
   /** Air density, kg m-3 (1.2: McPhaden & Taft 1988). */

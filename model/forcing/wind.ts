@@ -19,6 +19,9 @@ import { makeBulkFormula } from './bulk.ts';
 import { applyWeights, bilinearWeights, readNetcdfVectors, seriesFromGrid, timeBracket, type GriddedSeries, type Weights } from './gridded.ts';
 import { parseWindCsv } from './csv.ts';
 import { drawBursts, type DrawnBurst } from './bursts.ts';
+import { AnsweringWind } from '../coupling/answering-wind.ts';
+import { EARTH } from '../config.ts';
+import { earthBeta } from '../theory.ts';
 import * as pm from '../portable-math.ts';
 
 export interface WindBuildOptions {
@@ -26,13 +29,20 @@ export interface WindBuildOptions {
   seed: string;
   /** File contents by the path written in the scenario (the caller reads the files). */
   files?: Map<string, string | Uint8Array>;
+  /** beta of the run's beta plane, m-1 s-1: the answering wind's atmosphere lives on it (default 2 Omega / R). */
+  beta?: number;
 }
 
 export interface BuiltWind {
   stress: WindStress;
   /** Every burst drawn, in part order, then by start day. */
   bursts: DrawnBurst[];
+  /** The answering part, if the wind has one on (the wind preview asks it for a test answer). */
+  answering: AnsweringWind | null;
 }
+
+/** beta = 2 Omega / R with the Earth's constants, the default beta plane. */
+const EARTH_BETA = earthBeta(EARTH.omega, EARTH.radius);
 
 const SECONDS_PER_DAY = 86400;
 
@@ -277,12 +287,23 @@ export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptio
   };
 
   const terms: Term[] = [];
+  let answering: AnsweringWind | null = null;
+  let answeringTerm: Term | null = null;
   let windParts = 0;
   let windVarying = false;
   const drawn: DrawnBurst[] = [];
   wind.parts.forEach((part, k) => {
     if (part.enabled === false) return;
     try {
+      if (part.kind === 'answering') {
+        // Its stress changes only when the model couples; the wind re-evaluates then (coupling below).
+        if (answering) throw new ForcingError('a run has one SST anomaly, so at most one answering part can be on');
+        const a = new AnsweringWind(grid, part, { u, v, bulk, beta: opts.beta ?? EARTH_BETA });
+        answering = a;
+        answeringTerm = { timeVarying: true, add: (_days, acc) => a.addStress(acc.sx, acc.sy) };
+        terms.push(answeringTerm);
+        return;
+      }
       if (part.quantity !== 'stress' && part.quantity !== 'wind') {
         throw new ForcingError(`quantity must be 'stress' or 'wind' (got ${String(part.quantity)})`);
       }
@@ -343,19 +364,33 @@ export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptio
   };
   evaluate(0);
 
-  const steady = dynamic.length === 0;
+  // The answer changes only when the model couples; it alone does not make the design unsteady.
+  const steady = dynamic.every((t) => t === answeringTerm);
+  let answered = false;
   const interval = updateHours * 3600;
   let lastSlot = steady ? 0 : Number.NaN;
   const size = grid.size;
+  const coupled = answering as AnsweringWind | null;
   const stress: WindStress = {
     steady,
+    // A new answer from the ocean makes the next fill() evaluate again, in whatever interval.
+    ...(coupled
+      ? {
+          coupling: coupled.coupling(() => {
+            lastSlot = Number.NaN;
+            answered = true;
+          }),
+        }
+      : {}),
     // Tell the solver the field is held over each interval, so it refills (and rescales) once per interval.
     ...(interval > 0 ? { updateSeconds: interval } : {}),
     fill(timeSeconds, taux, tauy) {
       if (taux.length !== size || tauy.length !== size) {
         throw new ForcingError(`fill(): the arrays must have the grid's padded size ${size} (got ${taux.length}, ${tauy.length})`);
       }
-      if (!steady) {
+      if (steady) {
+        if (answered) evaluate(0);
+      } else {
         if (interval === 0) {
           if (timeSeconds !== lastSlot) {
             evaluate(timeSeconds / SECONDS_PER_DAY);
@@ -370,9 +405,10 @@ export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptio
           }
         }
       }
+      answered = false;
       taux.set(resultX);
       tauy.set(resultY);
     },
   };
-  return { stress, bursts: drawn };
+  return { stress, bursts: drawn, answering: coupled };
 }

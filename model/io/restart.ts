@@ -28,7 +28,7 @@ export interface RestartInfo {
   createdAt?: Date;
 }
 
-function restartLayout(grid: Grid, info: RestartInfo, dt: number, clock: ClockSpec | null): NcFileInput {
+function restartLayout(grid: Grid, info: RestartInfo, dt: number, clock: ClockSpec | null, coupled: boolean): NcFileInput {
   const atts: Record<string, string | number> = {
     title: 'Pycno restart',
     comment: 'the complete model state on the padded C grid; see docs/output.md',
@@ -91,6 +91,8 @@ function restartLayout(grid: Grid, info: RestartInfo, dt: number, clock: ClockSp
       tendency('du', 'tendency of u', 'm s-2'),
       tendency('dv', 'tendency of v', 'm s-2'),
       tendency('dh', 'tendency of h', 'm s-1'),
+      // The coupled state of an answering wind: the wind it answers with follows from it alone.
+      ...(coupled ? [field('sst_anom', 'sea surface temperature anomaly of the answering wind at cell centres (padded C grid)', 'K')] : []),
     ],
   };
 }
@@ -110,7 +112,7 @@ export async function writeRestartState(state: State, info: RestartInfo = {}): P
   };
   const h = state.history;
   const clock = state.clock;
-  return writeNetcdfToMemory(restartLayout(grid, info, info.dt ?? clock?.dt ?? NaN, clock), {
+  return writeNetcdfToMemory(restartLayout(grid, info, info.dt ?? clock?.dt ?? NaN, clock, state.sst !== null), {
     time: state.time,
     steps: state.steps,
     clock_origin_time: clock ? clock.originTime : state.time,
@@ -125,6 +127,7 @@ export async function writeRestartState(state: State, info: RestartInfo = {}): P
     du: both(h.du[0], h.du[1]),
     dv: both(h.dv[0], h.dv[1]),
     dh: both(h.dh[0], h.dh[1]),
+    ...(state.sst ? { sst_anom: state.sst } : {}),
   });
 }
 
@@ -244,6 +247,11 @@ export function readRestart(bytes: Uint8Array, grid: Grid, source = 'the restart
     const both = numeric(f, source, key, 'double', ['history', ...padded], RESTART, true, at(key));
     state.history[key][0].set(both.subarray(0, grid.size));
     state.history[key][1].set(both.subarray(grid.size));
+  }
+  // Only a coupled run writes its SST anomaly; a file without one leaves the state uncoupled.
+  if (f.variables.some((v) => v.name === 'sst_anom')) {
+    state.sst = grid.field();
+    state.sst.set(numeric(f, source, 'sst_anom', 'double', padded, RESTART));
   }
   return state;
 }

@@ -9,6 +9,8 @@ import { longRossbySpeed } from '../theory.ts';
 import { derivedNumbers, resolveScenario, validateScenario, type DerivedNumbers } from '../scenario/index.ts';
 import { isMeasured, measureWaves, METRES_PER_DEGREE, type SpeedMeasure, type WaveMeasures } from './measure.ts';
 import { pngDataUrl } from './png.ts';
+import { coupledSeries, type CoupledSeries } from '../coupling/run-indices.ts';
+import { coupledMode, coupledModeLine } from '../coupling/mode-fit.ts';
 import * as pm from '../portable-math.ts';
 
 export const CAUTION =
@@ -187,6 +189,50 @@ function probePlot(days: Float64Array, values: Float32Array, title: string): str
   );
 }
 
+/** The coupled run's two indices against time: eastern SST (K, left scale) and warm-water volume (m, right scale). */
+function indexPlot(c: CoupledSeries): string {
+  const W = 520;
+  const H = 200;
+  const m = { l: 44, r: 44, t: 16, b: 22 };
+  const d0 = c.days[0];
+  const d1 = c.days[c.days.length - 1];
+  const X = (d: number) => m.l + ((d - d0) / (d1 - d0 || 1)) * (W - m.l - m.r);
+  const scaleOf = (v: number[]) => Math.max(1e-12, ...v.filter(Number.isFinite).map(Math.abs));
+  const line = (v: number[], cls: string) => {
+    const s = scaleOf(v);
+    const Y = (y: number) => m.t + (0.5 - y / (2 * s)) * (H - m.t - m.b);
+    const pts = v.map((y, n) => (Number.isFinite(y) ? `${X(c.days[n]).toFixed(1)},${Y(y).toFixed(1)}` : '')).filter(Boolean);
+    return { poly: `<polyline class="${cls}" points="${pts.join(' ')}"/>`, s };
+  };
+  const sst = line(c.eastSst, 'sst');
+  const warm = line(c.warmWater, 'warm');
+  const mid = (m.t + H - m.b) / 2;
+  return (
+    `<svg class="indices" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="Eastern SST anomaly and warm-water volume">` +
+    `<line class="zero" x1="${m.l}" x2="${W - m.r}" y1="${mid}" y2="${mid}"/>${sst.poly}${warm.poly}` +
+    `<text x="${m.l - 3}" y="${m.t + 4}" text-anchor="end">${fmt(sst.s, 2)} K</text><text x="${m.l - 3}" y="${H - m.b}" text-anchor="end">${fmt(-sst.s, 2)} K</text>` +
+    `<text x="${W - m.r + 3}" y="${m.t + 4}">${fmt(warm.s, 2)} m</text><text x="${W - m.r + 3}" y="${H - m.b}">${fmt(-warm.s, 2)} m</text>` +
+    `<text x="${m.l}" y="11" class="t sst">eastern SST anomaly (K)</text><text x="${W - m.r}" y="11" class="t warm" text-anchor="end">warm-water volume, mean h′ 5S–5N (m)</text>` +
+    `<text x="${m.l}" y="${H - 5}">day ${fmt(d0)}</text><text x="${W - m.r}" y="${H - 5}" text-anchor="end">${fmt(d1)}</text>` +
+    `</svg>`
+  );
+}
+
+/** The coupled section of a report: the mode measured from the run's indices, and their plot; '' for an uncoupled run. */
+function coupledSection(run: RunData): string {
+  const c = coupledSeries(run);
+  if (!c || c.days.length < 2) return '';
+  const mode = coupledMode(c.days, c.eastSst, c.warmWater);
+  const p = c.part;
+  return (
+    `<h2>Coupled ocean and atmosphere</h2>` +
+    `<p>The answering wind (strength ${fmt(p.strength)} m/s per K, coupled every ${p.everySteps} steps, Gill atmosphere c<sub>a</sub> = ${fmt(p.atmosphere.speed)} m/s, 1/ε = ${fmt(p.atmosphere.dampingDays)} days). ` +
+    `Eastern SST: the SST anomaly averaged over the upwelling region, weighted by it; warm-water volume: mean h′ between 5S and 5N. ${run.snapshots.length < run.days.length ? `From the ${c.days.length} records that kept their fields.` : ''}</p>` +
+    table([['coupled mode', escapeHtml(coupledModeLine(mode))]]) +
+    indexPlot(c)
+  );
+}
+
 export const REPORT_STYLE = `
 body{font:13px/1.4 system-ui,sans-serif;color:#111;max-width:1100px;margin:16px auto;padding:0 12px}
 h1{font-size:20px;margin:0 0 4px}h2{font-size:15px;margin:18px 0 6px;border-bottom:1px solid #bbb}
@@ -198,6 +244,7 @@ svg text{font-size:10px;fill:#222}svg .t{font-size:11px;font-weight:600}
 .hov .kelvin{stroke:#000;stroke-width:1.5;stroke-dasharray:6 3}.hov .rossby{stroke:#000;stroke-width:1.5;stroke-dasharray:2 3}.hov .dots circle{fill:#000}
 .probes{display:flex;flex-wrap:wrap;gap:8px}.probe{margin:0}.probe polyline{fill:none;stroke:#1a4f8b;stroke-width:1.3}.probe .zero{stroke:#999;stroke-width:.7}
 footer{margin-top:18px;font-size:11px;color:#444}
+.indices polyline{fill:none;stroke-width:1.3}.indices .sst{stroke:#b2182b;fill:#b2182b}.indices .warm{stroke:#2166ac;fill:#2166ac}.indices .zero{stroke:#999;stroke-width:.7}
 @media print{body{margin:0;max-width:none}h2{break-after:avoid}.maps,.probes,svg{break-inside:avoid}}
 `;
 
@@ -211,7 +258,7 @@ export interface ReportOptions {
 /** What the report shows of the scenario as written: its basin and wind parts (a run file may hold an older scenario, so all optional). */
 interface WrittenScenario {
   basin?: { lonWest?: number; lonEast?: number; latSouth?: number; latNorth?: number; resolution?: number | { lon?: number; lat?: number } };
-  wind?: { parts?: Array<{ kind?: string; name?: string; quantity?: string; enabled?: boolean; source?: { kind?: string; shape?: { kind?: string } }; envelope?: { kind?: string } }> };
+  wind?: { parts?: Array<{ kind?: string; name?: string; quantity?: string; enabled?: boolean; strength?: number; drag?: string; source?: { kind?: string; shape?: { kind?: string } }; envelope?: { kind?: string } }> };
 }
 
 /** The report of one run, as the text of an HTML page. */
@@ -226,7 +273,8 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   const res = typeof b.resolution === 'number' ? `${b.resolution}°` : `${b.resolution?.lon}° x ${b.resolution?.lat}°`;
   const parts: string[] = (scenario.wind?.parts ?? []).map((w, k) => {
     const what = w.kind === 'fixed' ? `${w.source?.kind === 'shaped' ? w.source.shape?.kind : w.source?.kind} x ${w.envelope?.kind}` : w.kind;
-    return `${k}: ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${w.quantity}${w.enabled === false ? ', off' : ''}`;
+    const how = w.kind === 'answering' ? `strength ${w.strength} m/s per K, ${w.drag} drag` : w.quantity;
+    return `${k}: ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${how}${w.enabled === false ? ', off' : ''}`;
   });
 
   const params = table([
@@ -301,6 +349,7 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
 <h2>Thermocline anomaly</h2>${maps}
 <h2>Equatorial Hovmoller diagram</h2>${hov}
 <h2>Probe series</h2>${probes}
+${coupledSection(run)}
 <footer>Pycno ${escapeHtml(run.version)}${run.createdAt ? `, run made ${escapeHtml(run.createdAt)}` : ''}${run.command ? ` by “${escapeHtml(run.command)}”` : ''}. Scenario SHA-256 ${escapeHtml(run.scenarioSha256)}${options.source ? `; from ${escapeHtml(options.source)}` : ''}. The scenario JSON in the run file repeats the run exactly.</footer>
 </body></html>
 `;

@@ -6,6 +6,7 @@ import type { DrawnBurst } from '../forcing/bursts.ts';
 import { InputError } from '../errors.ts';
 import { Grid } from '../grid.ts';
 import { Model } from '../model.ts';
+import { equatorialBeta } from '../theory.ts';
 import type { State } from '../state.ts';
 import type { ResolvedScenario } from './resolve.ts';
 
@@ -27,7 +28,7 @@ export interface BuiltRun {
 
 export function buildModel(r: ResolvedScenario, options: BuildOptions = {}): BuiltRun {
   const grid = new Grid(r.model.basin, r.model.physics.earthRadius);
-  const { stress, bursts } = buildWindStress(grid, r.wind, { seed: String(r.seed), files: options.files });
+  const { stress, bursts } = buildWindStress(grid, r.wind, { seed: String(r.seed), files: options.files, beta: equatorialBeta(r.model.physics) });
   const init = r.initial;
   if (init.kind === 'restart' || init.kind === 'spinup') {
     if (!options.startState) {

@@ -8,6 +8,7 @@ import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } 
 import { coriolisParameter, equatorialBeta, equatorialRadius, longRossbySpeed, waveSpeed } from '../theory.ts';
 import type { ResolvedScenario } from './resolve.ts';
 import { westernBoundaryLayer, type BoundaryLayer } from './boundary-layer.ts';
+import { answeringNumbers, answeringPartOf, type AnsweringNumbers } from '../coupling/derived.ts';
 
 export { stabilityLimit, type LimitingTerm, type StabilityInput, type StabilityLimit } from '../dynamics/stability.ts';
 
@@ -77,6 +78,8 @@ export interface DerivedNumbers {
   memoryBytes: number;
   /** The western boundary layer's width against the zonal grid interval, with advice when unresolved. */
   boundaryLayer: BoundaryLayer;
+  /** The answering wind's scales and coupling interval (model/coupling/derived.ts); null without one. */
+  answering: AnsweringNumbers | null;
 }
 
 export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers {
@@ -133,5 +136,11 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
     outputBytes,
     memoryBytes,
     boundaryLayer: westernBoundaryLayer(beta, physics.viscosity, physics.friction, dx),
+    answering: answeringFor(r, dt, beta),
   };
+}
+
+function answeringFor(r: ResolvedScenario, dt: number, beta: number): AnsweringNumbers | null {
+  const found = answeringPartOf(r.wind.parts);
+  return found ? answeringNumbers(found.part, found.index, dt, beta, r.wind.bulk) : null;
 }

@@ -12,6 +12,7 @@ import { pathToString, type PathSegment, type ScenarioIssue } from './errors.ts'
 import { resolveScenario } from './resolve.ts';
 import { memoryEstimate, scenarioStability } from './derived.ts';
 import type { Scenario } from './types.ts';
+import { couplingIssues } from './coupling-checks.ts';
 
 /** Grids above this many cells are refused: the page would run out of memory and patience. */
 export const MAX_CELLS = 4_000_000;
@@ -177,6 +178,7 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
   // Wind parts.
   const parts: unknown[] = Array.isArray(sc.wind?.parts) ? sc.wind.parts : [];
   parts.forEach((part: any, i) => windPartIssues(part, ['wind', 'parts', i], num(t.days) && t.days > 0 ? t.days : null, add));
+  couplingIssues(sc, add);
 
   // A user time step above the stability limit (only when the numbers it needs are sound), or
   // one that does not divide the output interval into whole steps (records on whole intervals).

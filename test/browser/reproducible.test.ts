@@ -9,7 +9,8 @@
 // being exact IEEE operations), so the seeded random bursts (log for the waiting times, exp for
 // the patches) gave different bits in the page. The model now computes those functions itself
 // from IEEE arithmetic only, and all three winds here agree: one of arithmetic only, the seeded
-// bursts, and a formula wind that calls most of the formula language's functions.
+// bursts, and a formula wind that calls most of the formula language's functions; and so does a
+// coupled run, whose answering wind steps an SST (tanh) and solves Gill's atmosphere (exp).
 
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -58,7 +59,19 @@ const FORMULA_WIND = {
   envelope: { kind: 'constant' },
 };
 
-type Wind = 'bursts' | 'arithmetic' | 'formula';
+/** An answering wind, strongly coupled, SST kicked, zonal advection on: its SST goes through tanh, its atmosphere through exp. */
+const ANSWERING_WIND = {
+  kind: 'answering',
+  name: 'answering wind',
+  strength: 60,
+  everySteps: 3,
+  drag: 'bulk',
+  background: { x: -5, y: 1 },
+  sst: { region: { kind: 'patch', lon: 110, lat: 0, lonWidth: 15, latWidth: 4 }, meanGradient: -1.5, initial: 0.8 },
+  atmosphere: { heatingModes: 3 },
+};
+
+type Wind = 'bursts' | 'arithmetic' | 'formula' | 'answering';
 
 /** configs/random-bursts.json made small and short, with bursts falling inside the run. */
 function scenario(dynamics: 'linear' | 'nonlinear', wind: Wind): string {
@@ -72,6 +85,7 @@ function scenario(dynamics: 'linear' | 'nonlinear', wind: Wind): string {
   sc.seed = 20261201;
   if (wind === 'arithmetic') sc.wind.parts = [ARITHMETIC_WIND];
   if (wind === 'formula') sc.wind.parts = [FORMULA_WIND];
+  if (wind === 'answering') sc.wind.parts.push(ANSWERING_WIND);
   return JSON.stringify(sc, null, 2);
 }
 
@@ -181,6 +195,16 @@ describe.skipIf(missing !== null)('the same state bits in the page worker, the N
       const r = await three(dynamics, 'formula');
       expect(r.node).toEqual(r.page);
       expect(r.cli).toEqual(r.page);
+    });
+  }
+
+  for (const dynamics of ['linear', 'nonlinear'] as const) {
+    it(`${dynamics}, bursts and an answering wind (the SST, Gill's atmosphere, the bulk drag): the page, the Node engine and the command line agree`, async () => {
+      const r = await three(dynamics, 'answering');
+      expect(r.node).toEqual(r.page);
+      expect(r.cli).toEqual(r.page);
+      // The answer changed the run: not the bursts-only state.
+      expect(r.node.sha256).not.toBe((await three(dynamics, 'bursts')).node.sha256);
     });
   }
 

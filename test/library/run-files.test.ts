@@ -3,7 +3,7 @@
 
 import { RUN_PHYSICS_ATTRIBUTES } from '../../model/io/run-physics-file.ts';
 import { describe, expect, it } from 'vitest';
-import { FIELD_NAMES } from '../../model/diagnostics/fields.ts';
+import { COUPLED_FIELDS, FIELD_NAMES } from '../../model/diagnostics/fields.ts';
 import { writeNetcdfToMemory } from '../../model/io/netcdf-writer.ts';
 import { NC_FLOAT } from '../../model/io/netcdf-format.ts';
 import { RunCollector } from '../../model/io/run-collector.ts';
@@ -23,7 +23,8 @@ describe('RunData <-> NetCDF', () => {
     const run = await tinyRun([], 3);
     expect(Array.from(run.days)).toEqual([0, 1, 2, 3, 4, 5, 6]);
     expect(run.snapshots.map((s) => s.index)).toEqual([0, 3, 6]);
-    expect(run.fields).toEqual([...FIELD_NAMES]);
+    // The default fields: all but those of an answering wind, which this run has not.
+    expect(run.fields).toEqual(FIELD_NAMES.filter((f) => !COUPLED_FIELDS.includes(f)));
     expect(run.hovmoller.map((h) => h.values.length)).toEqual([7 * 40, 7 * 40]);
     expect(run.probes.map((p) => p.series.h_anom!.length)).toEqual([7, 7]);
     expect(run.scenarioSha256).toBe(sha256Hex(run.scenarioJson));

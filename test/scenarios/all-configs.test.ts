@@ -11,7 +11,7 @@ import { CONFIGS, DAY } from '../support/shipped-scenarios.ts';
 const files = readdirSync(CONFIGS).filter((f) => f.endsWith('.json') && f !== 'scenario.schema.json');
 
 /** The scenarios this suite ships; each must be present (a missing one is a failure, not a skip). */
-const SHIPPED = ['kelvin-pulse.json', 'westerly-burst.json', 'trade-spinup.json', 'trade-relaxation.json', 'monsoon-reversal.json', 'counter-current.json', 'random-bursts.json'];
+const SHIPPED = ['kelvin-pulse.json', 'westerly-burst.json', 'trade-spinup.json', 'trade-relaxation.json', 'monsoon-reversal.json', 'counter-current.json', 'random-bursts.json', 'coupled-oscillation.json'];
 
 describe('configs/*.json', () => {
   it('holds the shipped scenarios', () => {

@@ -87,7 +87,7 @@ function runScenario(file: string, overrides: string[] = []): Measured {
   return runThrough(model, r.runSeconds, r.outputEverySeconds);
 }
 
-const SHIPPED = ['kelvin-pulse.json', 'westerly-burst.json', 'trade-spinup.json', 'trade-relaxation.json', 'monsoon-reversal.json', 'counter-current.json', 'random-bursts.json', 'example-minimal.json'];
+const SHIPPED = ['kelvin-pulse.json', 'westerly-burst.json', 'trade-spinup.json', 'trade-relaxation.json', 'monsoon-reversal.json', 'counter-current.json', 'random-bursts.json', 'example-minimal.json', 'coupled-oscillation.json'];
 
 describe('western boundary layers of the shipped scenarios', () => {
   for (const file of SHIPPED) {

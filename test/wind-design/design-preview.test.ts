@@ -39,8 +39,8 @@ describe('design round trip', () => {
     const loaded = JSON.parse(text) as Record<string, unknown>;
     const again = `${JSON.stringify(withWind(loaded, windOf(loaded)), null, 2)}\n`;
     expect(again).toBe(text);
-    expect(new Set(windOf(loaded).parts.map((p) => (p.kind === 'bursts' ? 'bursts' : p.source.kind === 'shaped' ? p.source.shape.kind : p.source.kind)))).toEqual(
-      new Set(['uniform', 'band', 'patch', 'formula', 'painted', 'file', 'bursts']),
+    expect(new Set(windOf(loaded).parts.map((p) => (p.kind !== 'fixed' ? p.kind : p.source.kind === 'shaped' ? p.source.shape.kind : p.source.kind)))).toEqual(
+      new Set(['uniform', 'band', 'patch', 'formula', 'painted', 'file', 'bursts', 'answering']),
     );
   });
 

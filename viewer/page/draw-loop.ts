@@ -77,6 +77,11 @@ export class DrawLoop {
     if ($<HTMLInputElement>('show-wind').checked && f.fields.taux && f.fields.tauy) {
       layers.push({ name: 'wind stress', u: f.fields.taux, v: f.fields.tauy, units: 'N m-2', colour: [120, 30, 160] });
     }
+    // Over the SST anomaly, the wind that answers it.
+    if (key === 'sst_anom' && f.fields.u_atm && f.fields.v_atm) {
+      layers.push({ name: 'answering wind', u: f.fields.u_atm, v: f.fields.v_atm, units: 'm/s', colour: [0, 90, 40] });
+    }
+    if (fresh) this.page.coupledPanel.drawFields(f.fields);
     map.gl.setColourMap(mapFor(key), lookupTable(mapFor(key)));
     // While the wind preview is on, the map shows the designed forcing instead of the run's field.
     if (!windPanel.drawOnMap()) {

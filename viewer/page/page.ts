@@ -6,6 +6,7 @@ import type { EngineClient } from '../engine-client.ts';
 import type { LibraryPage } from '../library-panel/library-page.ts';
 import type { HovmollerPanel } from '../panels/hovmoller.ts';
 import type { ProbePanel } from '../panels/probes.ts';
+import type { CoupledPanel } from '../panels/coupled-panel.ts';
 import type { RunTotals } from '../panels/run-totals.ts';
 import type { ScenarioPanel } from '../panels/scenario-panel.ts';
 import type { MapView } from '../render/map-view.ts';
@@ -28,6 +29,8 @@ export interface Page {
   readonly hov: HovmollerStore;
   readonly probes: ProbeStore;
   readonly totals: RunTotals;
+  /** The coupled run's SST, answering wind and indices (hidden for uncoupled runs). */
+  readonly coupledPanel: CoupledPanel;
   readonly panel: ScenarioPanel;
   readonly hovPanel: HovmollerPanel;
   readonly probePanel: ProbePanel;

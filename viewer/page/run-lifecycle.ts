@@ -47,6 +47,8 @@ export class RunLifecycle {
     }
     probes.addFrame(f.day, f.fields);
     totals.add(f.samples.map((s) => s.integrals), f.integrals);
+    this.page.coupledPanel.addSamples(f.samples);
+    if (state.run?.derived.answering) this.page.panel.setCoupledMode(this.page.coupledPanel.shortMode());
     history.push({ day: f.day, step: f.step, fields: f.fields });
     this.drawing.queue(false);
   }
@@ -170,6 +172,8 @@ export class RunLifecycle {
     $('hov-start').textContent = hovPanel.start ? `from ${lonLabel(hovPanel.start.lon)}, day ${hovPanel.start.day.toFixed(1)}` : '';
     probePanel.renderList();
     const d = r.derived;
+    this.page.coupledPanel.setRun(r.grid, r.fields, d.answering !== null);
+    this.page.panel.setCoupledMode(this.page.coupledPanel.shortMode());
     totals.setRun(
       [
         ['dt', `${formatValue(r.dt)} s`],

@@ -216,6 +216,17 @@ export class ScenarioPanel {
     this.onEdit();
   }
 
+  /** The coupled mode as the running model shows it (the page sets it from the engine's samples). */
+  private coupledMode = 'measured as the run goes';
+
+  /** Show the coupled mode measured so far in the derived numbers (kept across re-renders until the next run). */
+  setCoupledMode(text: string): void {
+    this.coupledMode = text;
+    const dt = [...this.derivedList.querySelectorAll('dt')].find((e) => e.textContent === COUPLED_MODE_ROW);
+    const dd = dt?.nextElementSibling;
+    if (dd && dd.textContent !== text) dd.textContent = text;
+  }
+
   private showDerived(d: DerivedNumbers | null): void {
     if (!d) {
       this.derivedList.replaceChildren(Object.assign(document.createElement('dd'), { textContent: 'fix the marked values to see them' }));
@@ -233,6 +244,16 @@ export class ScenarioPanel {
       ['Steps, saved frames', `${d.steps.toLocaleString('en')}, ${d.outputs}`],
       ['Solver memory', `${(d.memoryBytes / 1e6).toFixed(1)} MB`],
     ];
+    const a = d.answering;
+    if (a) {
+      rows.push(
+        ['Answering wind', `${formatValue(a.strength)} m/s per K, every ${a.everySteps} steps (${formatValue(a.couplingDays)} days)`],
+        ['Atmosphere radius \u221a(c\u2090/\u03b2)', `${formatValue(a.atmosphereRadiusKm)} km`],
+        ['Kelvin, Rossby decay c\u2090/\u03b5, c\u2090/3\u03b5', `${formatValue(a.kelvinDecayKm)}, ${formatValue(a.rossbyDecayKm)} km`],
+        ['SST relaxation 1/(w + \u03b5\u209c)', `${formatValue(a.sstRelaxationDays)} days`],
+        [COUPLED_MODE_ROW, this.coupledMode],
+      );
+    }
     this.derivedList.replaceChildren(
       ...rows.flatMap(([k, v, bad]) => {
         const dt = document.createElement('dt');
@@ -251,6 +272,8 @@ export class ScenarioPanel {
     }
   }
 }
+
+const COUPLED_MODE_ROW = 'Coupled mode (period, growth)';
 
 /** Munk and Stommel widths against dx (the wider one sets the layer), as the derived list shows them. */
 function boundaryLayerText(d: DerivedNumbers): string {

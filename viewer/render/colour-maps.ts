@@ -21,7 +21,7 @@ const interpolators: Record<MapName, (t: number) => string> = {
 
 export function mapFor(key: DisplayKey): MapName {
   if (key === 'depth') return 'depth';
-  if (key === 'speed' || key === 'surf_speed' || key === 'stress') return 'magnitude';
+  if (key === 'speed' || key === 'surf_speed' || key === 'stress' || key === 'atm_speed') return 'magnitude';
   return 'diverging';
 }
 

@@ -3,7 +3,7 @@
 
 import { FIELD_INFO, type FieldName } from '../../model/diagnostics/fields.ts';
 
-export type DisplayKey = 'h_anom' | 'depth' | 'ssh' | 'u' | 'v' | 'speed' | 'surf_speed' | 'stress';
+export type DisplayKey = 'h_anom' | 'depth' | 'ssh' | 'u' | 'v' | 'speed' | 'surf_speed' | 'stress' | 'sst_anom' | 'atm_speed';
 
 export type ColourKind = 'diverging' | 'sequential';
 
@@ -25,6 +25,8 @@ export const DISPLAY_FIELDS: DisplayField[] = [
   { key: 'speed', label: 'Speed (layer mean)', units: 'm s-1', kind: 'sequential', needs: ['u', 'v'] },
   { key: 'surf_speed', label: 'Surface current speed', units: 'm s-1', kind: 'sequential', needs: ['u_surf', 'v_surf'] },
   { key: 'stress', label: 'Wind stress magnitude', units: 'N m-2', kind: 'sequential', needs: ['taux', 'tauy'] },
+  { key: 'sst_anom', label: 'Sea-surface temperature anomaly (answering wind)', units: FIELD_INFO.sst_anom.units, kind: 'diverging', needs: ['sst_anom'] },
+  { key: 'atm_speed', label: 'Answering wind speed', units: 'm s-1', kind: 'sequential', needs: ['u_atm', 'v_atm'] },
 ];
 
 export function displayField(key: DisplayKey): DisplayField {
@@ -61,6 +63,8 @@ export function fillDisplay(key: DisplayKey, fields: Fields, layerThickness: num
       return magnitude(fields.u_surf!, fields.v_surf!, out);
     case 'stress':
       return magnitude(fields.taux!, fields.tauy!, out);
+    case 'atm_speed':
+      return magnitude(fields.u_atm!, fields.v_atm!, out);
     default:
       out.set(fields[key]!.subarray(0, n));
       return true;
@@ -84,6 +88,8 @@ export function displayAt(key: DisplayKey, fields: Partial<Record<FieldName, Arr
       return Math.hypot(get('u_surf'), get('v_surf'));
     case 'stress':
       return Math.hypot(get('taux'), get('tauy'));
+    case 'atm_speed':
+      return Math.hypot(get('u_atm'), get('v_atm'));
     default:
       return get(key);
   }

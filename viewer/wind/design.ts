@@ -13,7 +13,7 @@ export interface WindSection {
   [key: string]: unknown;
 }
 
-export const PATTERN_KINDS = ['uniform', 'band', 'patch', 'formula', 'painted', 'file', 'bursts'] as const;
+export const PATTERN_KINDS = ['uniform', 'band', 'patch', 'formula', 'painted', 'file', 'bursts', 'answering'] as const;
 export type PatternKind = (typeof PATTERN_KINDS)[number];
 
 export const PATTERN_LABELS: Record<PatternKind, string> = {
@@ -24,6 +24,7 @@ export const PATTERN_LABELS: Record<PatternKind, string> = {
   painted: 'Painted',
   file: 'Gridded file',
   bursts: 'Random bursts',
+  answering: 'Answering wind (coupled)',
 };
 
 export interface BasinBox {
@@ -59,6 +60,7 @@ export function withWind(scenario: Json, wind: WindSection): Json {
 /** The kind of pattern a part has, as the panel names them. */
 export function patternOf(part: WindPart): PatternKind {
   if (part.kind === 'bursts') return 'bursts';
+  if (part.kind === 'answering') return 'answering';
   const src = part.source;
   if (src.kind === 'painted') return 'painted';
   if (src.kind === 'file') return 'file';
@@ -112,6 +114,26 @@ export function newPart(kind: PatternKind, basin: BasinBox, paintSpacing = 1): W
         ramp: 2,
       };
       break;
+    case 'answering':
+      // The cold tongue in the eastern third of the basin, on the equator; the shipped scenario's numbers.
+      part = {
+        kind: 'answering',
+        name: '',
+        strength: 20,
+        everySteps: 8,
+        drag: 'linear',
+        background: { x: -6, y: 0 },
+        sst: {
+          region: { kind: 'patch', lon: Number((basin.lonEast - span * 0.2).toFixed(1)), lat: midLat, lonWidth: Number(Math.max(1, span / 7).toFixed(1)), latWidth: 4 },
+          upwellingDays: 30,
+          dampingDays: 125,
+          subsurface: { warm: 2, warmDepth: 25, cold: 4, coldDepth: 50 },
+          meanGradient: 0,
+          initial: 0,
+        },
+        atmosphere: { speed: 30, dampingDays: 2, heatingModes: 1 },
+      };
+      break;
   }
   part.name = PATTERN_LABELS[kind].toLowerCase();
   return part;
@@ -119,8 +141,13 @@ export function newPart(kind: PatternKind, basin: BasinBox, paintSpacing = 1): W
 
 /** One line that says what a part is: pattern, envelope, amplitude with units. */
 export function summary(part: WindPart): string {
-  const units = part.quantity === 'wind' ? 'm/s' : 'N m-2';
   const pattern = PATTERN_LABELS[patternOf(part)].toLowerCase();
+  if (part.kind === 'answering') {
+    const r = part.sst?.region;
+    const where = r?.kind === 'patch' ? ` over a region at ${r.lon}°E, ${r.lat}°N` : r ? ` over a ${r.kind} region` : '';
+    return `${pattern}, ${part.strength} m/s per K${where}, every ${part.everySteps ?? 8} steps`;
+  }
+  const units = part.quantity === 'wind' ? 'm/s' : 'N m-2';
   if (part.kind === 'bursts') {
     return `${pattern}, ${part.ratePerYear} per year in days ${part.window[0]}-${part.window[1]}, ${part.amplitude[0]}-${part.amplitude[1]} ${units} eastward`;
   }

@@ -19,6 +19,8 @@ export function dayAxis(runDays: number, n = 240): number[] {
  * hard). Throws the model's message for an envelope that does not compile.
  */
 export function partSeries(part: WindPart, days: number[], seed: string, index: number): { values: number[]; units: string } {
+  // The answering wind follows the ocean, not the calendar: it has no time factor of its own.
+  if (part.kind === 'answering') return { values: days.map(() => 0), units: 'follows the ocean' };
   if (part.kind === 'bursts') {
     const list = drawBursts(part, seed, index);
     return {

@@ -110,8 +110,63 @@ export function defaultShape(kind: ShapeSpec['kind'], basin: { lonWest: number; 
   }
 }
 
+/** The fields of a shape (patch or band profile) at a path inside a part. */
+function shapeFields(at: string, sh: ShapeSpec, f: FieldSpec[]): void {
+  if (sh.kind === 'patch') {
+    f.push({ path: `${at}.lon`, label: 'Centre longitude', units: '°E', type: 'number' });
+    f.push({ path: `${at}.lat`, label: 'Centre latitude', units: '°N', type: 'number' });
+    f.push({ path: `${at}.lonWidth`, label: "Width along x'", units: '°', type: 'number' });
+    f.push({ path: `${at}.latWidth`, label: "Width along y'", units: '°', type: 'number' });
+    f.push({ path: `${at}.tiltDeg`, label: 'Tilt (anticlockwise)', units: '°', type: 'number', optional: true });
+  } else if (sh.kind === 'band') {
+    const p = sh.profile;
+    const pp = (k: string) => `${at}.profile.${k}`;
+    if (p.kind === 'trades') f.push({ path: pp('edgeLat'), label: 'Falls to zero at', units: '° from the equator', type: 'number' });
+    if (p.kind === 'cosine') {
+      f.push({ path: pp('centre'), label: 'Centre', units: '°N', type: 'number' });
+      f.push({ path: pp('halfWidth'), label: 'Half-width', units: '°', type: 'number' });
+    }
+    if (p.kind === 'tanh') {
+      f.push({ path: pp('south'), label: 'South edge', units: '°N', type: 'number' });
+      f.push({ path: pp('north'), label: 'North edge', units: '°N', type: 'number' });
+      f.push({ path: pp('edge'), label: 'Edge width', units: '°', type: 'number' });
+    }
+    if (p.kind === 'gap') {
+      f.push({ path: pp('centre'), label: 'Gap centre', units: '°N', type: 'number' });
+      f.push({ path: pp('width'), label: 'Gap width', units: '°', type: 'number' });
+      f.push({ path: pp('depth'), label: 'Fraction removed', units: '0-1', type: 'number' });
+    }
+  }
+}
+
+/** The fields of an answering part: coupling, background wind, the SST's region and relation, the atmosphere. */
+function answeringFields(part: Extract<WindPart, { kind: 'answering' }>): FieldSpec[] {
+  const f: FieldSpec[] = [
+    { path: 'strength', label: 'Coupling strength mu', units: 'm s-1 per K', type: 'number' },
+    { path: 'everySteps', label: 'Couple every', units: 'ocean steps', type: 'number' },
+    { path: 'background.x', label: 'Background wind, eastward', units: 'm s-1', type: 'number' },
+    { path: 'background.y', label: 'Background wind, northward', units: 'm s-1', type: 'number' },
+  ];
+  shapeFields('sst.region', part.sst.region, f);
+  f.push(
+    { path: 'sst.upwellingDays', label: 'Upwelling renews the surface in', units: 'days', type: 'number' },
+    { path: 'sst.dampingDays', label: 'SST damping time', units: 'days', type: 'number' },
+    { path: 'sst.subsurface.warm', label: 'Subsurface warming at most', units: 'K', type: 'number' },
+    { path: 'sst.subsurface.warmDepth', label: '... over a deepening of', units: 'm', type: 'number' },
+    { path: 'sst.subsurface.cold', label: 'Subsurface cooling at most', units: 'K', type: 'number' },
+    { path: 'sst.subsurface.coldDepth', label: '... over a shoaling of', units: 'm', type: 'number' },
+    { path: 'sst.meanGradient', label: 'Mean zonal SST gradient (0: no advection)', units: 'K per 1000 km', type: 'number' },
+    { path: 'sst.initial', label: 'SST anomaly at the start, times the region', units: 'K', type: 'number' },
+    { path: 'atmosphere.speed', label: 'Atmosphere wave speed c_a', units: 'm s-1', type: 'number' },
+    { path: 'atmosphere.dampingDays', label: 'Atmosphere damping time 1/eps', units: 'days', type: 'number' },
+    { path: 'atmosphere.heatingModes', label: 'Heating projected onto', units: 'Hermite functions', type: 'number' },
+  );
+  return f;
+}
+
 /** The numeric and text fields of a part (selects and special editors are added by the editor). */
 export function fieldsOf(part: WindPart): FieldSpec[] {
+  if (part.kind === 'answering') return answeringFields(part);
   const q = part.quantity === 'wind' ? 'm s-1' : 'N m-2';
   const f: FieldSpec[] = [];
   if (part.kind === 'bursts') {
@@ -134,32 +189,7 @@ export function fieldsOf(part: WindPart): FieldSpec[] {
   if (src.kind === 'shaped') {
     f.push({ path: 'source.x', label: 'Eastward component x', units: q, type: 'number' });
     f.push({ path: 'source.y', label: 'Northward component y', units: q, type: 'number' });
-    const sh = src.shape;
-    if (sh.kind === 'patch') {
-      f.push({ path: 'source.shape.lon', label: 'Centre longitude', units: '°E', type: 'number' });
-      f.push({ path: 'source.shape.lat', label: 'Centre latitude', units: '°N', type: 'number' });
-      f.push({ path: 'source.shape.lonWidth', label: "Width along x'", units: '°', type: 'number' });
-      f.push({ path: 'source.shape.latWidth', label: "Width along y'", units: '°', type: 'number' });
-      f.push({ path: 'source.shape.tiltDeg', label: 'Tilt (anticlockwise)', units: '°', type: 'number', optional: true });
-    } else if (sh.kind === 'band') {
-      const p = sh.profile;
-      const at = (k: string) => `source.shape.profile.${k}`;
-      if (p.kind === 'trades') f.push({ path: at('edgeLat'), label: 'Falls to zero at', units: '° from the equator', type: 'number' });
-      if (p.kind === 'cosine') {
-        f.push({ path: at('centre'), label: 'Centre', units: '°N', type: 'number' });
-        f.push({ path: at('halfWidth'), label: 'Half-width', units: '°', type: 'number' });
-      }
-      if (p.kind === 'tanh') {
-        f.push({ path: at('south'), label: 'South edge', units: '°N', type: 'number' });
-        f.push({ path: at('north'), label: 'North edge', units: '°N', type: 'number' });
-        f.push({ path: at('edge'), label: 'Edge width', units: '°', type: 'number' });
-      }
-      if (p.kind === 'gap') {
-        f.push({ path: at('centre'), label: 'Gap centre', units: '°N', type: 'number' });
-        f.push({ path: at('width'), label: 'Gap width', units: '°', type: 'number' });
-        f.push({ path: at('depth'), label: 'Fraction removed', units: '0-1', type: 'number' });
-      }
-    }
+    shapeFields('source.shape', src.shape, f);
   } else if (src.kind === 'file') {
     f.push({ path: 'source.path', label: 'File (relative to the scenario)', units: '', type: 'text' });
     f.push({ path: 'source.xVariable', label: 'Eastward variable', units: '', type: 'text', optional: true });

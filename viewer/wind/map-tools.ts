@@ -78,10 +78,17 @@ export class MapTools {
 
   private patchOf(part: WindPart | null): PatchGeometry | null {
     if (part?.kind === 'fixed' && part.source.kind === 'shaped' && part.source.shape.kind === 'patch') return part.source.shape;
+    // An answering part's upwelling region, when it is a patch, moves and sizes the same way.
+    if (part?.kind === 'answering' && part.sst.region.kind === 'patch') return part.sst.region;
     return null;
   }
 
   private withPatch(part: WindPart, p: PatchGeometry): WindPart {
+    if (part.kind === 'answering') {
+      const next = structuredClone(part);
+      next.sst.region = { ...(next.sst.region as object), ...p } as PatchGeometry & { kind: 'patch' };
+      return next;
+    }
     const next = structuredClone(part) as WindPart & { source: { shape: PatchGeometry } };
     next.source.shape = { ...(next.source.shape as object), ...p } as PatchGeometry;
     return next;

@@ -103,13 +103,36 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
 
   const fieldsHost = document.createElement('div');
   fieldsHost.className = 'wd-fields';
-  const units = part.quantity === 'wind' ? 'm s-1' : 'N m-2';
+  const units = part.kind === 'answering' || part.quantity === 'wind' ? 'm s-1' : 'N m-2';
 
-  // Name and quantity.
+  // Name and quantity (an answering part gives wind, and says how it becomes stress).
   fieldsHost.append(box('name', 'Name', '', 'text', true));
-  fieldsHost.append(
-    select('quantity', 'Given as', ['stress', 'wind'], part.quantity, (v) => commit(setAt(part, 'quantity', v), true, true)),
-  );
+  if (part.kind === 'answering') {
+    fieldsHost.append(select('drag', 'Wind to stress', ['linear', 'bulk'], part.drag, (v) => commit(setAt(part, 'drag', v), true)));
+    const region = part.sst.region;
+    fieldsHost.append(
+      select('sst.region.kind', 'Upwelling region', SHAPE_KINDS, region.kind, (v) => commit(setAt(part, 'sst.region', defaultShape(v as ShapeSpec['kind'], ctx.basin)), true, true)),
+    );
+    if (region.kind === 'band') {
+      fieldsHost.append(
+        select('sst.region.profile.kind', 'Region latitude profile', PROFILE_KINDS, region.profile.kind, (v) =>
+          commit(setAt(part, 'sst.region.profile', defaultProfile(v as BandProfile['kind'])), true, true),
+        ),
+      );
+    }
+    if (region.kind === 'formula') {
+      const f = formulaInput(region.expression, ctx.basin, '0 to 1', (text) => commit(setAt(part, 'sst.region.expression', text), true), id);
+      const msg = document.createElement('div');
+      msg.className = 'field-msg';
+      msgs.set('sst.region.expression', msg);
+      f.append(msg);
+      fieldsHost.append(f);
+    }
+  } else {
+    fieldsHost.append(
+      select('quantity', 'Given as', ['stress', 'wind'], part.quantity, (v) => commit(setAt(part, 'quantity', v), true, true)),
+    );
+  }
   const pattern = patternOf(part);
   if (part.kind === 'fixed' && part.source.kind === 'shaped') {
     const shape = part.source.shape;
@@ -209,6 +232,15 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
   const plotMsg = document.createElement('div');
   plotMsg.className = 'field-msg';
   el.append(canvas, plotMsg);
+  if (part.kind === 'answering') {
+    // It has no envelope: its stress follows the run's own SST. The preview shows its answer to a warm region.
+    canvas.hidden = true;
+    const note = document.createElement('p');
+    note.className = 'hint wd-answering-note';
+    note.textContent =
+      'This wind answers the run\u2019s own sea-surface temperature: the thermocline sets the SST anomaly over the upwelling region, and a Gill atmosphere answers its heating. It has no time envelope. The preview shows its answer to a warming of 1 K times the region.';
+    el.append(note);
+  }
   let series: { days: number[]; values: number[]; units: string } | null = null;
   const marker = () => {
     if (series) drawTimePlot(canvas, series.days, [{ values: series.values, colour: '#0b5cad', label: 'envelope' }], series.units, ctx.markDay());

@@ -1,9 +1,10 @@
 // The wind stress a scenario gives, before running: the SAME buildWindStress (model/forcing/wind.ts)
 // the model calls, on the same grid, filled at the chosen day exactly as the solver would fill it
 // (time-varying parts held at the middle of their updateHours interval). This is the forcing only;
-// nothing of the ocean is computed here. Derived layers on cell centres: |tau|, and the stress curl
-// and Sverdrup transports V and U as model/diagnostics/sverdrup.ts computes them (a prediction of
-// the steady interior off the equator; near the equator an indication only).
+// nothing of the ocean is computed here: an answering part shows its answer to a test warming.
+// Derived layers on cell centres: |tau|, and the stress curl and Sverdrup transports V and U as
+// model/diagnostics/sverdrup.ts computes them (a prediction of the steady interior off the
+// equator; near the equator an indication only).
 
 import { stressCurl, sverdrupU, sverdrupV } from '../../model/diagnostics/sverdrup.ts';
 import { Grid } from '../../model/grid.ts';
@@ -11,6 +12,13 @@ import type { CoriolisPhysics } from '../../model/theory.ts';
 import { buildWindStress } from '../../model/forcing/wind.ts';
 import { resolveScenario, validateScenario, type ResolvedScenario } from '../../model/scenario/index.ts';
 import { issueListLines } from '../../model/scenario/errors.ts';
+import { equatorialBeta } from '../../model/theory.ts';
+
+/**
+ * The answering wind follows the run's own SST, which no preview knows: the preview shows its
+ * answer to a warming of this many kelvin times its upwelling region.
+ */
+export const PREVIEW_WARMING = 1;
 
 export const PREVIEW_LAYERS = ['magnitude', 'curl', 'sverdrupV', 'sverdrupU'] as const;
 export type PreviewLayer = (typeof PREVIEW_LAYERS)[number];
@@ -45,7 +53,8 @@ export function previewSetup(json: unknown): { resolved: ResolvedScenario; grid:
 
 /** The stress the model gets at `day`. Forcing errors (a formula giving NaN...) come out as thrown. */
 export function stressAt(resolved: ResolvedScenario, grid: Grid, day: number, files?: Map<string, string | Uint8Array>): StressField {
-  const { stress } = buildWindStress(grid, resolved.wind, { seed: String(resolved.seed), files });
+  const { stress, answering } = buildWindStress(grid, resolved.wind, { seed: String(resolved.seed), files, beta: equatorialBeta(resolved.model.physics) });
+  answering?.answerTestAnomaly(PREVIEW_WARMING);
   const tx = grid.field();
   const ty = grid.field();
   stress.fill(day * 86400, tx, ty);
@@ -114,7 +123,9 @@ export function stressSeriesAt(resolved: ResolvedScenario, grid: Grid, lon: numb
   const j0 = Math.max(0, j - 1);
   const j1 = Math.min(grid.ny - 1, j + 1);
   const small = new Grid({ ...b, lonWest: grid.lonFace[i0], lonEast: grid.lonFace[i1 + 1], latSouth: grid.latFace[j0], latNorth: grid.latFace[j1 + 1] }, resolved.model.physics.earthRadius);
-  const { stress } = buildWindStress(small, resolved.wind, { seed: String(resolved.seed), files });
+  // The designed parts only: the answering wind over the run depends on the run (and its atmosphere on the whole basin).
+  const designed = { ...resolved.wind, parts: resolved.wind.parts.filter((p) => p.kind !== 'answering') };
+  const { stress } = buildWindStress(small, designed, { seed: String(resolved.seed), files });
   const tx = small.field();
   const ty = small.field();
   const k = small.idx(i - i0, j - j0);

@@ -349,8 +349,15 @@ async function runInto(engine: Engine, args: Args, shown: string, info: LoadedSc
   let fastest: Integrals | null = null;
   let largestCourant = 0;
   let writeFailure: OutputWriteError | null = null;
+  const coupled = model.coupledIndices() ? { days: [] as number[], eastSst: [] as number[], warmWater: [] as number[] } : undefined;
   engine.setRecorder(async (r) => {
     first ??= r.integrals;
+    const c = coupled ? model.coupledIndices() : null;
+    if (coupled && c) {
+      coupled.days.push(r.day);
+      coupled.eastSst.push(c.eastSst);
+      coupled.warmWater.push(c.warmWater);
+    }
     if (!fastest || r.integrals.maxSpeed > fastest.maxSpeed) fastest = r.integrals;
     largestCourant = Math.max(largestCourant, r.integrals.courant);
     try {
@@ -451,7 +458,7 @@ async function runInto(engine: Engine, args: Args, shown: string, info: LoadedSc
     }
   }
   for (const n of info.notes ?? []) io.stdout.write(`input           ${n}\n`);
-  io.stdout.write(runSummary({ wallSeconds: wall, steps, cells, first, last, fastest, largestCourant, records: writer.records, outFile, restartFile: args.restartOut }));
+  io.stdout.write(runSummary({ wallSeconds: wall, steps, cells, first, last, fastest, largestCourant, records: writer.records, outFile, restartFile: args.restartOut, coupled }));
   return 0;
 }
 

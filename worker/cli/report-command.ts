@@ -7,6 +7,8 @@ import { isSummaryFile, readSummary, SummaryFileError } from '../../model/ensemb
 import { measureWaves } from '../../model/report/measure.ts';
 import { spreadReport } from '../../model/report/spread-report.ts';
 import { runReport } from '../../model/report/report.ts';
+import { coupledSeries } from '../../model/coupling/run-indices.ts';
+import { coupledMode, coupledModeLine } from '../../model/coupling/mode-fit.ts';
 import { checkOut, CommandInputError, parseFilesAndOut, printError, readRunFile, speedLine, writeComplete, type CommandIO } from './compare.ts';
 
 export const REPORT_USAGE = 'pycno report RUN.nc|SUMMARY.nc [--out REPORT.html]';
@@ -46,7 +48,9 @@ export async function reportCommand(args: readonly string[], io: CommandIO): Pro
     const html = new TextEncoder().encode(runReport(run, { source: basename(file) }));
     await writeComplete(io, out, reads, 'the report', async (sink) => sink.write(0, html));
     const w = measureWaves(run);
-    io.stdout.write(`Kelvin speed    ${speedLine(w.kelvin, 'c', w.c)}\nlong Rossby     ${speedLine(w.rossby, 'c/3', w.rossbyTheory)}\nreport          ${out} (${Math.round(html.length / 1000)} kB)\n`);
+    const c = coupledSeries(run);
+    const coupled = c ? `coupled mode    ${coupledModeLine(coupledMode(c.days, c.eastSst, c.warmWater))}\n` : '';
+    io.stdout.write(`Kelvin speed    ${speedLine(w.kelvin, 'c', w.c)}\nlong Rossby     ${speedLine(w.rossby, 'c/3', w.rossbyTheory)}\n${coupled}report          ${out} (${Math.round(html.length / 1000)} kB)\n`);
     return 0;
   } catch (e) {
     if (e instanceof CommandInputError) {

@@ -3,6 +3,8 @@
 import type { Integrals } from '../../model/diagnostics/integrals.ts';
 import type { DerivedNumbers } from '../../model/scenario/derived.ts';
 import { formatBytes, formatDuration, formatRate } from './progress.ts';
+import { coupledMode, coupledModeLine } from '../../model/coupling/mode-fit.ts';
+import type { AnsweringNumbers } from '../../model/coupling/derived.ts';
 
 const p3 = (x: number) => (Number.isFinite(x) ? x.toPrecision(3) : String(x));
 
@@ -31,9 +33,20 @@ export function checkReport(name: string, file: string, d: DerivedNumbers, field
     ['output', `${d.outputs} records every ${everyDays} days${d.outputs > Math.floor(days / everyDays + 1e-9) + 1 ? ', the last at the end of the run (a shorter interval),' : ''} of ${fields.join(', ')}: about ${formatBytes(d.outputBytes)}`],
     ['memory', `about ${formatBytes(d.memoryBytes)}`],
   ];
+  if (d.answering) list.push(...answeringLines(d.answering));
   for (const n of notes) list.push(['input', n]);
   if (d.boundaryLayer.advice) list.push(['warning', d.boundaryLayer.advice]);
   return rows(list);
+}
+
+/** What an answering wind part implies, before running (its measured mode comes with the run). */
+export function answeringLines(a: AnsweringNumbers): Array<[string, string]> {
+  const drag = a.drag === 'linear' ? `linear drag ${p3(a.dragPerWind)} N m-2 per m/s` : `bulk formula about the background wind (slope about ${p3(2 * a.dragPerWind)} N m-2 per m/s)`;
+  return [
+    ['answering wind', `wind.parts[${a.part}]: strength ${a.strength} m/s per K, coupled every ${a.everySteps} steps (${a.couplingDays.toPrecision(3)} days), ${drag}`],
+    ['atmosphere', `L_a = sqrt(c_a / beta) = ${a.atmosphereRadiusKm.toFixed(0)} km; Kelvin answer decays east over c_a/eps = ${a.kelvinDecayKm.toFixed(0)} km, Rossby west over c_a/(3 eps) = ${a.rossbyDecayKm.toFixed(0)} km`],
+    ['SST', `relaxes toward the subsurface temperature in 1/(w + eps_T) = ${a.sstRelaxationDays.toPrecision(3)} days where the region is 1`],
+  ];
 }
 
 /** The western boundary layer's widths against dx, in one line. */
@@ -56,6 +69,8 @@ export interface RunSummary {
   records: number;
   outFile: string;
   restartFile?: string;
+  /** A coupled run's index series at every record (model/coupling/indices.ts). */
+  coupled?: { days: number[]; eastSst: number[]; warmWater: number[] };
 }
 
 /** What the sponge bands did to the layer volume (signed: negative = taken out), and entrainment beside it. */
@@ -89,6 +104,7 @@ export function runSummary(s: RunSummary): string {
     ['Courant number', s.largestCourant !== undefined && s.largestCourant > s.last.courant ? `${s.last.courant.toFixed(3)} (largest of the run ${s.largestCourant.toFixed(3)})` : s.last.courant.toFixed(3)],
     ['output', `${s.outFile} (${s.records} records)`],
   ];
+  if (s.coupled) list.push(['coupled mode', coupledModeLine(coupledMode(s.coupled.days, s.coupled.eastSst, s.coupled.warmWater))]);
   if (s.restartFile) list.push(['restart', s.restartFile]);
   return rows(list);
 }
