@@ -23,7 +23,7 @@ describe('comparison helpers', () => {
 
   it('colours a Hovmoller row by row, latest on top, zero white-ish, land grey', () => {
     const px = hovPixels([0, 1, -1, NaN, 0, 0, 0, 0], 4, 2, 1);
-    const lut = lookupTable('diverging');
+    const lut = lookupTable('anomaly');
     const at = (x: number, y: number) => Array.from(px.subarray((y * 4 + x) * 4, (y * 4 + x) * 4 + 3));
     // Time 0 is the bottom row (y = 1).
     expect(at(0, 1)).toEqual(Array.from(lut.subarray(128 * 4, 128 * 4 + 3)));

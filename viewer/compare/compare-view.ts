@@ -235,10 +235,10 @@ export class CompareView {
     this.mapA.setTitle(`A: ${la}, day ${t.dayA.toFixed(1)}`);
     this.mapB.setTitle(`B: ${lb}, day ${t.dayB.toFixed(1)}`);
     this.mapD.setTitle(`B − A, day ${t.day.toFixed(1)}`);
-    this.mapA.draw(a, shared, 'diverging', `${f} (A and B share this range)`, units);
-    this.mapB.draw(b, shared, 'diverging', `${f} (A and B share this range)`, units);
+    this.mapA.draw(a, shared, 'anomaly', `${f} (A and B share this range)`, units);
+    this.mapB.draw(b, shared, 'anomaly', `${f} (A and B share this range)`, units);
     const m = maxAbs(d);
-    this.mapD.draw(d, differenceRange(d), 'diverging', `${f}, B − A`, units);
+    this.mapD.draw(d, differenceRange(d), 'anomaly', `${f}, B − A`, units);
     this.day.textContent = `day ${t.day.toFixed(1)} (${Number(this.slider.value) + 1} of ${ft.length})`;
     this.mapNote.textContent = `Largest |B − A| of ${f} at this time: ${m.toPrecision(3)} ${units}; over the whole run: ${(cmp.maxAbsDifference[f] ?? NaN).toPrecision(3)} ${units}.`;
     if (this.state) Object.assign(this.state, { shownDay: t.day, field: f, maxAbsShown: m });

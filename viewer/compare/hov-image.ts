@@ -10,7 +10,7 @@ const M = { left: 40, right: 8, top: 18, bottom: 20 };
 
 /** RGBA pixels, one per longitude and time, latest time on the top row. */
 export function hovPixels(values: ArrayLike<number>, nx: number, nt: number, scale: number): Uint8ClampedArray<ArrayBuffer> {
-  const lut = lookupTable('diverging');
+  const lut = lookupTable('anomaly');
   const px = new Uint8ClampedArray(nx * nt * 4);
   for (let n = 0; n < nt; n++) {
     const y = nt - 1 - n;

@@ -102,7 +102,7 @@ export class HovmollerPanel {
     if (!e) return;
     const p = this.plot();
     const rows = this.store.at(this.latIndex);
-    const lut = lookupTable('diverging');
+    const lut = lookupTable('anomaly');
     // A symmetric range that only widens (the diagram's early rows keep their colours).
     const m = niceCeil(this.store.maxAbs(this.latIndex));
     if (m > this.scale) this.scale = m;
