@@ -70,10 +70,14 @@ const windPanel = new WindPanel($('wind-panel'), {
   colourBar: $<HTMLCanvasElement>('colour-bar'),
   baseScenario: () => panel.edited,
   fileName: () => panel.fileName,
+  // Apply and run: the designed wind with the panel's values from day 0, and the run goes at once.
   apply: async (text, fileName) => {
     notices.clear();
     if (!(await runs.load(text, fileName))) return false;
-    panel.setScenario(JSON.parse(text), fileName);
+    // What runs becomes the panel's base; values typed meanwhile stay in their boxes.
+    panel.ranWith(JSON.parse(text));
+    state.viewIndex = null;
+    void engine.start();
     return true;
   },
   redraw: () => drawing.queue(false),
@@ -111,9 +115,17 @@ const library = new LibraryPage($('library-panel'), $('compare-panel'), {
 
 const page: Page = { state, info, notices, map, history, hov, probes, totals, panel, hovPanel, probePanel, windPanel, library, engine };
 const drawing = new DrawLoop(page);
+/** The map and the Hovmoller diagram fill their columns; the map's height follows the basin. */
 function layoutMap(): void {
   const host = $('map-stack');
-  map.layout(host.clientWidth || 600, Math.max(220, window.innerHeight * 0.55));
+  map.layout(host.clientWidth || 600, Math.max(200, window.innerHeight * 0.5));
+  const hov = $<HTMLCanvasElement>('hovmoller');
+  const w = Math.round($('hov-host').clientWidth);
+  const h = Math.round(Math.min(340, Math.max(200, window.innerHeight * 0.36)));
+  if (w > 100 && (hov.width !== w || hov.height !== h)) {
+    hov.width = w;
+    hov.height = h;
+  }
   windPanel.layout();
 }
 const runs = new RunLifecycle(page, drawing, layoutMap);

@@ -199,6 +199,16 @@ export class ScenarioPanel {
     this.showDerived(check.derived);
   }
 
+  /**
+   * The engine now runs `json` (applied from elsewhere, e.g. the wind designer): it becomes the
+   * base, and the boxes keep what they hold, so a value typed while it loaded is not lost.
+   */
+  ranWith(json: Json): void {
+    this.base = structuredClone(json);
+    this.edited = structuredClone(json);
+    this.onEdit();
+  }
+
   revert(): void {
     this.setScenario(this.base, this.fileName);
   }

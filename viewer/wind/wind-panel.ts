@@ -3,7 +3,7 @@
 // map-tools.ts), the preview (preview-box.ts) and the stress at a point (point-series-box.ts).
 // The design itself, its undo and where the validator's issues go live in design-state.ts (a
 // reducer, tested in Node); this file renders it and turns input into its actions. What is
-// designed stays in the panel until "Apply and restart" hands the whole scenario to the engine
+// designed stays in the panel until "Apply and run" hands the whole scenario to the engine
 // (the run on screen is untouched before that), and "Save scenario" downloads exactly that JSON.
 
 import type { WindPart } from '../../model/forcing/spec.ts';
@@ -106,7 +106,7 @@ export class WindPanel {
     const note = $new('span', { className: 'wd-note', id: 'wd-note' });
     const undo = button('Undo', 'wd-undo', 'Undo the last change (Ctrl+Z)');
     const redo = button('Redo', 'wd-redo', 'Redo (Ctrl+Shift+Z or Ctrl+Y)');
-    const apply = button('Apply and restart', 'wd-apply', 'Run the scenario with this wind from day 0');
+    const apply = button('Apply and run', 'wd-apply', 'Start again from day 0 with this wind and the scenario panel\u2019s values, and run');
     const save = button('Save scenario…', 'wd-save', 'Download the scenario with this wind as JSON');
     const clear = button('Remove all parts', 'wd-clear', 'Start from no wind at all (undo brings the parts back)');
     undo.addEventListener('click', () => this.undo());
