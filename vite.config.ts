@@ -1,4 +1,6 @@
+import { fileURLToPath } from 'node:url';
 import { defineConfig } from 'vite';
+import { helpPlugin } from './viewer/help/docs-plugin.ts';
 
 // Cross-origin isolation lets the engine share buffers with the page when it wants to.
 const isolation = {
@@ -31,6 +33,8 @@ const devPolicy = pagePolicy.replace("style-src 'self'", "style-src 'self' 'unsa
 
 export default defineConfig({
   root: 'viewer',
+  // The docs as in-page help, rendered at build time (viewer/help/docs-plugin.ts).
+  plugins: [helpPlugin(fileURLToPath(new URL('./docs', import.meta.url)))],
   publicDir: false,
   build: { outDir: '../dist/viewer', emptyOutDir: true },
   worker: { format: 'es' },

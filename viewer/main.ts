@@ -21,6 +21,7 @@ import { WindPanel } from './wind/wind-panel.ts';
 import { wireControls } from './page/controls.ts';
 import { $ } from './page/dom.ts';
 import { DrawLoop } from './page/draw-loop.ts';
+import { wireHelp } from './page/help.ts';
 import { wireMapInput } from './page/map-input.ts';
 import { Notices } from './page/notices.ts';
 import type { Page } from './page/page.ts';
@@ -136,6 +137,7 @@ wireMapInput(page, drawing);
 wireControls(page, runs, drawing, layoutMap);
 opener.wire();
 $('btn-png').addEventListener('click', () => exportPng(page));
+wireHelp();
 
 // Start with the default scenario ready to run.
 runs.onStatus('empty');

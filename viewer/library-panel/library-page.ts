@@ -102,6 +102,11 @@ export class LibraryPage {
     if (this.live.length === 1 || every !== null) this.updateSaveButton();
   }
 
+  /** The maps the page keeps of the run on screen (for a probe added later), and how often. */
+  keptMaps(): { days: number[]; maps: Array<Partial<Record<string, Float32Array>>>; every: number } {
+    return { ...this.live.keptMaps(), every: this.live.keptEvery };
+  }
+
   private updateSaveButton(): void {
     this.saveBtn.disabled = this.live.length === 0 || this.lib === null;
     this.saveBtn.title = this.live.length === 0 ? 'Run the model first: there is no output to save yet' : 'Save the run on screen in the library';

@@ -44,6 +44,8 @@ export class RunLifecycle {
       library.sample(s);
       hov.add(s.day, s.hovmoller);
       probes.addSample(s.day, s.probeValues);
+      // Page probes from every sample that carries its maps, so they miss no output interval.
+      if (s.fields) probes.addFrame(s.day, s.fields);
     }
     probes.addFrame(f.day, f.fields);
     totals.add(f.samples.map((s) => s.integrals), f.integrals);

@@ -29,7 +29,10 @@ export function formulaInput(
   box.setAttribute('aria-describedby', caret.id);
   const hint = document.createElement('div');
   hint.className = 'hint';
-  hint.textContent = `lon in °E, lat in °N, t in days; the value is a dimensionless factor (about -1 to 1) that x and y (${quantityUnits}) scale. See docs/wind.md for the functions.`;
+  const link = document.createElement('a');
+  link.href = '#help:wind.md#the-formula-language';
+  link.textContent = 'the formula language in Help';
+  hint.append(`lon in °E, lat in °N, t in days; the value is a dimensionless factor (about -1 to 1) that x and y (${quantityUnits}) scale. The functions: `, link, '.');
   const check = (fromUser: boolean) => {
     const r = checkFormula(box.value, basin);
     wrap.classList.toggle('invalid', !r.ok);
