@@ -209,7 +209,7 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   const res = typeof b.resolution === 'number' ? `${b.resolution}°` : `${b.resolution?.lon}° x ${b.resolution?.lat}°`;
   const parts: string[] = (scenario.wind?.parts ?? []).map((w: any, k: number) => {
     const what = w.kind === 'fixed' ? `${w.source?.kind === 'shaped' ? w.source.shape?.kind : w.source?.kind} x ${w.envelope?.kind}` : w.kind;
-    return `${k}: ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${w.quantity}${w.enabled === false ? ', off' : ''}`;
+    return `${k + 1}. ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${w.quantity}${w.enabled === false ? ', off' : ''}`;
   });
 
   const params = table([

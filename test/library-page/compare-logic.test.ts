@@ -38,7 +38,7 @@ describe('comparison helpers', () => {
     const b = { name: 'B', description: 'y', physics: { frictionDays: 20 }, wind: { parts: [{ kind: 'fixed', name: 'w', envelope: { duration: 20 } }] } };
     expect(differenceRows(diffScenarios(a, b))).toEqual([
       { path: 'physics.frictionDays', part: '', a: '730', b: '20' },
-      { path: 'wind.parts[0].envelope.duration', part: "wind part 0 (fixed 'w')", a: '14', b: '20' },
+      { path: 'wind.parts[0].envelope.duration', part: "wind part 1 (fixed 'w')", a: '14', b: '20' },
     ]);
   });
 

@@ -8,6 +8,7 @@
 
 import type { WindPart } from '../../model/forcing/spec.ts';
 import { validateScenario } from '../../model/scenario/index.ts';
+import { forcingProblem } from './forcing-check.ts';
 import { formatIssue, type ScenarioIssue } from '../../model/scenario/errors.ts';
 import { download } from '../files.ts';
 import type { MapView } from '../render/map-view.ts';
@@ -260,14 +261,20 @@ export class WindPanel {
     const json = this.compose();
     const r = validateScenario(json);
     this.issues = r.ok ? [] : r.errors;
+    // The forcing the engine would build from it (formulas compiled and evaluated on the grid): a
+    // scenario that validates but whose wind cannot be built is not runnable either.
+    const forcing = r.ok ? forcingProblem(json) : null;
+    if (forcing) this.issues = [forcing];
+    const runnable = r.ok && !forcing;
     const routed = routeIssues(this.issues, this.design.selected, this.design.wind.parts.length);
     if (this.editor && this.design.selected !== null) this.editor.showIssues(routed.editor);
     this.el.issues.replaceChildren(...routed.elsewhere.map((i) => $new('li', { textContent: formatIssue(i) })));
     this.el.parts.querySelectorAll<HTMLElement>('li').forEach((li, k) => li.classList.toggle('invalid', routed.invalid[k] ?? false));
-    this.el.apply.disabled = !r.ok;
+    this.el.apply.disabled = !runnable;
+    this.el.apply.title = runnable ? 'Start again from day 0 with this wind and the scenario panel\u2019s values, and run' : 'Not runnable yet: see the marked part';
     this.editor?.redrawPlot();
-    this.preview.update(r.ok, () => this.compose());
-    this.point.update(r.ok);
+    this.preview.update(runnable, () => this.compose());
+    this.point.update(runnable);
     this.tools.draw();
   }
 
@@ -327,8 +334,9 @@ export class WindPanel {
 
   private async applyDesign(): Promise<void> {
     const r = validateScenario(this.compose());
-    if (!r.ok) {
-      this.host.message(`The wind design is not applied:\n${r.errors.map(formatIssue).join('\n')}`);
+    const forcing = r.ok ? forcingProblem(this.compose()) : null;
+    if (!r.ok || forcing) {
+      this.host.message(`The wind design is not applied:\n${(r.ok ? [forcing!] : r.errors).map(formatIssue).join('\n')}`);
       return;
     }
     if (await this.host.apply(this.text(), this.host.fileName())) this.dispatch({ kind: 'applied' }, { rebuild: false });
