@@ -3,6 +3,7 @@
 // scenario, export as CF-NetCDF, import a Pycno NetCDF by picker or drop, report, open), the
 // opened run's view and the comparison of two runs. The library itself is viewer/library/store.ts.
 
+import { latLabel, lonLabel } from '../../model/display/coordinates.ts';
 import type { RunData } from '../../model/io/run-read.ts';
 import { runReport } from '../../model/report/report.ts';
 import { formatBytes } from '../state/frame-history.ts';
@@ -30,10 +31,9 @@ const LIVE_BUDGET = 160e6;
 function summaryLine(m: SavedRunMeta): string {
   const s = m.summary;
   const b = s.basin;
-  const lat = (x: number) => `${Math.abs(x)}°${x < 0 ? 'S' : x > 0 ? 'N' : ''}`;
   const parts = [
     s.scenarioName,
-    `${b.lonWest}–${b.lonEast}°E, ${lat(b.latSouth)}–${lat(b.latNorth)} at ${b.resolution}`,
+    `${lonLabel(b.lonWest)}–${lonLabel(b.lonEast)}, ${latLabel(b.latSouth)}–${latLabel(b.latNorth)} at ${b.resolution}`,
     `g′ ${s.reducedGravity} m s-2, H ${s.layerThickness} m, friction ${s.frictionDays === null ? 'none' : `${s.frictionDays} days`}, ${s.dynamics}`,
     s.windParts.length ? `wind: ${s.windParts.join('; ')}` : 'no wind',
     `days ${+m.firstDay.toFixed(2)}–${+m.lastDay.toFixed(2)}, ${m.records} records, ${m.snapshots} maps (every ${m.snapshotEvery})`,
