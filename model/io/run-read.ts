@@ -5,10 +5,11 @@
 // export -> import gives back every value bit for bit.
 //
 // Field snapshots may be kept for only some output records (the run library saves every k-th).
-// In the file every record has the field variables; a record without a snapshot has them all at
-// the fill value (CF's "missing"), and readRun() reads such a record back as "no snapshot". An
-// ocean cell of a real snapshot is never missing (a run that makes NaN stops), so the two cannot
-// be confused.
+// Such a run is written with the kept maps on an axis of their own, map_time (the fields are
+// (map_time, lat, lon), the series stay complete on time), so the file holds no empty maps. Files
+// of an earlier layout, where every record had the field variables and a record without a
+// snapshot had them all at the fill value, are still read: such a record is "no snapshot" (an
+// ocean cell of a real snapshot is never missing, since a run that makes NaN stops).
 
 import { FIELD_NAMES, type FieldName } from '../diagnostics/fields.ts';
 import { EARTH } from '../config.ts';
@@ -16,8 +17,8 @@ import { earthBeta } from '../theory.ts';
 import type { Integrals } from '../diagnostics/integrals.ts';
 import type { DrawnBurst } from '../forcing/bursts.ts';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from './netcdf-read.ts';
-import { MemorySink } from './netcdf-writer.ts';
-import { INTEGRAL_VARIABLES, OUTPUT_FILL, PYCNO_VERSION, RunOutputWriter, probeVariableName, type OutputRecord, type RunDescription } from './run-output.ts';
+import { MemorySink, NetcdfWriter } from './netcdf-writer.ts';
+import { INTEGRAL_VARIABLES, MAP_TIME, runOutputFile, OUTPUT_FILL, PYCNO_VERSION, RunOutputWriter, probeVariableName, type OutputRecord, type RunDescription } from './run-output.ts';
 import { sha256Hex } from './sha256.ts';
 
 export type IntegralKey = Exclude<keyof Integrals, 'day'>;
@@ -294,17 +295,54 @@ export function runRecord(run: RunData, n: number, snapshot: RunSnapshot | undef
   };
 }
 
-/** The run as a CF-NetCDF file, written by the command line's writer. */
-export async function toNetcdf(run: RunData): Promise<Uint8Array> {
+export interface ExportOptions {
+  /**
+   * Called as the file grows, with the steps done and the steps in all (one per kept map field
+   * and one per record); a returned promise is awaited, so a page can show it and stay responsive.
+   */
+  progress?: (done: number, total: number) => Promise<void> | void;
+}
+
+/** Whether a run's maps are kept for every record (then they are written on time, as pycno run does). */
+export function mapsOnEveryRecord(run: RunData): boolean {
+  return run.snapshots.length === run.days.length;
+}
+
+/**
+ * The run as a CF-NetCDF file, written by the command line's writer. A run with maps for every
+ * record has them on time; one with fewer has only its kept maps, on their own axis map_time.
+ */
+export async function toNetcdf(run: RunData, options: ExportOptions = {}): Promise<Uint8Array> {
   checkRun(run);
+  const every = mapsOnEveryRecord(run);
+  const d = runDescription(run);
+  if (!every) d.mapRecords = run.snapshots.length;
   const sink = new MemorySink(1 << 16);
-  const writer = new RunOutputWriter(runDescription(run), sink);
-  await writer.begin();
+  const writer = new RunOutputWriter(d, sink);
+  const total = run.days.length + (every ? 0 : run.fields.length);
+  let done = 0;
+  const step = async () => {
+    done++;
+    // Every record would be too often for a callback that yields: about a hundred calls in all.
+    if (options.progress && (done === total || done % Math.max(1, Math.floor(total / 100)) === 0)) await options.progress(done, total);
+  };
+  await writer.begin(every ? undefined : { days: run.snapshots.map((s) => s.day), fields: run.snapshots.map((s) => s.fields), progress: step });
   const missing = new Float32Array(run.grid.nx * run.grid.ny).fill(NaN);
   const byIndex = new Map(run.snapshots.map((s) => [s.index, s]));
-  for (let n = 0; n < run.days.length; n++) await writer.append(runRecord(run, n, byIndex.get(n), missing));
+  for (let n = 0; n < run.days.length; n++) {
+    await writer.append(runRecord(run, n, byIndex.get(n), missing));
+    await step();
+  }
   await writer.close();
   return sink.bytes().slice();
+}
+
+/** Bytes of the file toNetcdf writes for a run when every `snapshotEvery`-th map is kept, without writing it. */
+export function netcdfBytes(run: RunData, snapshotEvery = 1): number {
+  const kept = thinSnapshots(run, snapshotEvery).length;
+  const d = runDescription(run);
+  if (kept !== run.days.length) d.mapRecords = kept;
+  return new NetcdfWriter(runOutputFile(d), new MemorySink(1)).bytesFor(run.days.length);
 }
 
 /** A run kept by an older Pycno lacks the newer (optional) integrals: they are NaN, as when a file is read. */
@@ -466,16 +504,33 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
   }
   if (!ocean.includes(1)) throw new RunFileError(`${where}: damaged Pycno run file: the ocean mask has no ocean cell`);
   const cells = nx * ny;
+  // The maps lie on time (every record) or on map_time (the kept maps only).
+  const ownAxis = has(MAP_TIME);
+  const mapDays = ownAxis ? numbers(need(MAP_TIME, 'double', [MAP_TIME]), where) : days;
+  const nm = mapDays.length;
+  const mapDim = ownAxis ? MAP_TIME : 'time';
   const fieldValues = fields.map((name) => {
-    const v = typed(read([name]).variable(name), 'float', ['time', 'lat', 'lon'], where);
+    const v = typed(read([name]).variable(name), 'float', [mapDim, 'lat', 'lon'], where);
     const vals = numbers(v, where);
-    if (v.dimensions.join(',') !== 'time,lat,lon' || vals.length !== nt * cells) {
-      throw new RunFileError(`${where}: damaged Pycno run file: '${name}' has shape (${v.dimensions.join(', ')}) = ${v.shape.join(' x ')}, expected (time, lat, lon)`);
+    if (vals.length !== nm * cells) {
+      throw new RunFileError(`${where}: damaged Pycno run file: '${name}' has shape (${v.dimensions.join(', ')}) = ${v.shape.join(' x ')}, expected (${mapDim}, lat, lon)`);
     }
     return floats(vals);
   });
   const snapshots: RunSnapshot[] = [];
-  for (let n = 0; n < nt; n++) {
+  if (ownAxis) {
+    // Each kept map belongs to the record of the same day (map_time holds those days exactly).
+    let n = 0;
+    for (let q = 0; q < nm; q++) {
+      while (n < nt && days[n] < mapDays[q]) n++;
+      if (n >= nt || days[n] !== mapDays[q]) throw new RunFileError(`${where}: damaged Pycno run file: map_time ${q} (${mapDays[q]}) is not a time of the run's records (or map_time does not increase)`);
+      const fl: Partial<Record<FieldName, Float32Array>> = {};
+      fields.forEach((name, f) => (fl[name] = fieldValues[f].slice(q * cells, (q + 1) * cells)));
+      snapshots.push({ index: n, day: days[n], fields: fl });
+      n++;
+    }
+  }
+  for (let n = 0; n < (ownAxis ? 0 : nt); n++) {
     // A record without a snapshot has every field missing (see the note at the top).
     const present = fieldValues.map((vals) => {
       for (let k = 0; k < cells; k++) if (ocean[k] && !Number.isNaN(vals[n * cells + k])) return true;
