@@ -70,6 +70,7 @@ const windPanel = new WindPanel($('wind-panel'), {
   stack: $('map-stack'),
   colourBar: $<HTMLCanvasElement>('colour-bar'),
   baseScenario: () => panel.edited,
+  openedScenario: () => panel.opened,
   fileName: () => panel.fileName,
   // Apply and run: the designed wind with the panel's values from day 0, and the run goes at once.
   apply: async (text, fileName) => {

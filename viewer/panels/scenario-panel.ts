@@ -89,6 +89,8 @@ export class ScenarioPanel {
   /** The file as loaded (what the run on screen uses) and the edited copy. */
   private base: Json = {};
   edited: Json = {};
+  /** The scenario as it was opened (a shipped file, a file, a saved run's copy), before any edit. */
+  opened: Json = {};
   fileName = 'scenario.json';
   private boxes = new Map<string, HTMLInputElement>();
   private msgs = new Map<string, HTMLElement>();
@@ -135,6 +137,7 @@ export class ScenarioPanel {
 
   /** Show a scenario file's values (it becomes the run's scenario). */
   setScenario(json: Json, fileName: string): void {
+    this.opened = structuredClone(json);
     this.base = structuredClone(json);
     this.edited = structuredClone(json);
     this.fileName = fileName;

@@ -34,6 +34,8 @@ export interface WindHost {
   colourBar: HTMLCanvasElement;
   /** The scenario as edited in the scenario panel; the wind section is replaced by the design. */
   baseScenario(): Json;
+  /** The scenario as it was opened, before any edit (to name an edited one's download). */
+  openedScenario(): Json;
   fileName(): string;
   /** Validate-and-run a scenario text; true when the engine took it. */
   apply(text: string, fileName: string): Promise<boolean>;
@@ -349,7 +351,21 @@ export class WindPanel {
       this.host.message(`The scenario is not saved; fix these first:\n${r.errors.map(formatIssue).join('\n')}`);
       return;
     }
-    const stem = String(json.name ?? 'scenario').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'scenario';
-    download(this.text(), `${stem}.json`, 'application/json');
+    const named = savedName(json, this.host.openedScenario());
+    const stem = String(named.name ?? 'scenario').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'scenario';
+    download(`${JSON.stringify(named, null, 2)}\n`, `${stem}.json`, 'application/json');
+    if (named !== json) this.host.message(`Saved the edited scenario as ${stem}.json, named '${String(named.name)}' (the file it came from keeps its name).`, 'info');
   }
+}
+
+/**
+ * The scenario as it is saved: an edited scenario that still has the name of the file it came
+ * from gets "(edited)" added, so the download is named after the edited run, not the original.
+ * The same object when nothing was edited or the name was changed already.
+ */
+export function savedName(json: Json, opened: Json): Json {
+  const same = (a: Json, b: Json) => JSON.stringify({ ...a, name: null }) === JSON.stringify({ ...b, name: null });
+  if (same(json, opened) || json.name !== opened.name) return json;
+  const base = typeof json.name === 'string' && json.name ? json.name : 'scenario';
+  return { ...json, name: `${base} (edited)` };
 }
