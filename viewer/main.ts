@@ -40,6 +40,7 @@ function startMap(): MapView {
     const map = new MapView($<HTMLCanvasElement>('map-gl'), $<HTMLCanvasElement>('map-overlay'), { forceBytes: new URLSearchParams(location.search).has('bytes') });
     info.floatTextures = map.gl.floatTextures;
     info.gpu = map.counts;
+    info.arrows = () => map.referenceArrows();
     return map;
   } catch (e) {
     if (e instanceof NoWebGLError) {
@@ -71,6 +72,7 @@ const windPanel = new WindPanel($('wind-panel'), {
   colourBar: $<HTMLCanvasElement>('colour-bar'),
   baseScenario: () => panel.edited,
   openedScenario: () => panel.opened,
+  valuesEdited: () => panel.changedFrom(panel.opened),
   fileName: () => panel.fileName,
   // Apply and run: the designed wind with the panel's values from day 0, and the run goes at once.
   apply: async (text, fileName) => {

@@ -163,9 +163,14 @@ export class ScenarioPanel {
   }
 
   changed(): boolean {
+    return this.changedFrom(this.base);
+  }
+
+  /** Whether the boxes' values differ from a scenario's (the run's base, or the file as opened). */
+  changedFrom(other: Json): boolean {
     // A value absent from the file reads as what its empty box means ("auto", no friction).
     const norm = (v: unknown, s: ParamSpec) => JSON.stringify(v === undefined ? (s.empty === undefined ? null : s.empty) : v);
-    return PARAMS.some((s) => norm(getPath(this.base, s.path), s) !== norm(getPath(this.edited, s.path), s));
+    return PARAMS.some((s) => norm(getPath(other, s.path), s) !== norm(getPath(this.edited, s.path), s));
   }
 
   private onEdit(): void {

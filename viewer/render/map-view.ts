@@ -77,6 +77,8 @@ export class MapView {
   /** Steady reference magnitudes per layer name (widen at once, shrink slowly). */
   private refs = new Map<string, number>();
   private lastArrows: Array<{ layer: VectorLayer; ref: number; pxPerRef: number }> = [];
+  /** The longest arrow of each layer at its last upload. */
+  private longest = new Map<string, number>();
   private lastSource: FieldSource | null = null;
   private uploadedRange: [number, number] | null = null;
   private shaderRange: [number, number] = [0, 1];
@@ -248,6 +250,9 @@ export class MapView {
       ref = next > prev || next < prev / 4 ? next : prev;
     }
     this.refs.set(layer.name, ref);
+    let most = 0;
+    for (let k = 0; k < count; k++) if (this.lengths[k] > most) most = this.lengths[k];
+    this.longest.set(layer.name, most);
     // The key magnitude gets KEY_LENGTH arrow spacings; stronger arrows are longer, in proportion.
     const pxPerUnit = ref > 0 ? (this.arrowSpacing * KEY_LENGTH * this.dpr) / ref : 0;
     const set: ArrowSet = { at, vec, count: ref > 0 ? count : 0, pxPerUnit, colour: layer.colour };
@@ -263,8 +268,8 @@ export class MapView {
   }
 
   /** Layers that were drawn last time, with their reference arrows. */
-  referenceArrows(): Array<{ name: string; ref: number; units: string; set: boolean; pxPerRef: number }> {
-    return this.lastArrows.map((a) => ({ name: a.layer.name, ref: a.ref, units: a.layer.units, set: a.layer.reference !== undefined, pxPerRef: a.pxPerRef }));
+  referenceArrows(): Array<{ name: string; ref: number; units: string; set: boolean; pxPerRef: number; longest: number; spacing: number }> {
+    return this.lastArrows.map((a) => ({ name: a.layer.name, ref: a.ref, units: a.layer.units, set: a.layer.reference !== undefined, pxPerRef: a.pxPerRef, longest: this.longest.get(a.layer.name) ?? 0, spacing: this.arrowSpacing }));
   }
 
   forgetArrows(): void {

@@ -99,7 +99,10 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
       commit(setAt(part, path, v), fresh);
       fresh = false;
     });
-    return row(path, label, units, input);
+    const w = row(path, label, units, input);
+    // A text (a name) gets the whole row, so it is never cut (style.css).
+    if (kind === 'text') w.classList.add('text');
+    return w;
   };
 
   const fieldsHost = document.createElement('div');

@@ -13,7 +13,7 @@ import { formatIssue, type ScenarioIssue } from '../../model/scenario/errors.ts'
 import { download } from '../files.ts';
 import type { MapView } from '../render/map-view.ts';
 import { FrameQueue } from '../throttle.ts';
-import { newPart, PATTERN_KINDS, PATTERN_LABELS, withWind, type BasinBox, type PatternKind } from './design.ts';
+import { newPart, PATTERN_KINDS, PATTERN_LABELS, windOf, withWind, type BasinBox, type PatternKind } from './design.ts';
 import { basinOf, canRedo, canUndo, emptyDesign, liveliestDay, notApplied, reduceDesign, routeIssues, runDaysOf, scenarioKeyOf, seedOf, type DesignAction, type DesignState, type ListEdit } from './design-state.ts';
 import { $new, button, numberBox } from './dom.ts';
 import { ImportError, partsFromSeries, readGridded } from './import.ts';
@@ -36,6 +36,8 @@ export interface WindHost {
   baseScenario(): Json;
   /** The scenario as it was opened, before any edit (to name an edited one's download). */
   openedScenario(): Json;
+  /** Whether the scenario panel's values differ from the scenario as it was opened. */
+  valuesEdited(): boolean;
   fileName(): string;
   /** Validate-and-run a scenario text; true when the engine took it. */
   apply(text: string, fileName: string): Promise<boolean>;
@@ -351,7 +353,9 @@ export class WindPanel {
       this.host.message(`The scenario is not saved; fix these first:\n${r.errors.map(formatIssue).join('\n')}`);
       return;
     }
-    const named = savedName(json, this.host.openedScenario());
+    const opened = this.host.openedScenario();
+    const edited = this.host.valuesEdited() || JSON.stringify(windOf(opened)) !== JSON.stringify(this.design.wind);
+    const named = savedName(json, opened, edited);
     const stem = String(named.name ?? 'scenario').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'scenario';
     download(`${JSON.stringify(named, null, 2)}\n`, `${stem}.json`, 'application/json');
     if (named !== json) this.host.message(`Saved the edited scenario as ${stem}.json, named '${String(named.name)}' (the file it came from keeps its name).`, 'info');
@@ -363,9 +367,8 @@ export class WindPanel {
  * from gets "(edited)" added, so the download is named after the edited run, not the original.
  * The same object when nothing was edited or the name was changed already.
  */
-export function savedName(json: Json, opened: Json): Json {
-  const same = (a: Json, b: Json) => JSON.stringify({ ...a, name: null }) === JSON.stringify({ ...b, name: null });
-  if (same(json, opened) || json.name !== opened.name) return json;
+export function savedName(json: Json, opened: Json, edited: boolean): Json {
+  if (!edited || json.name !== opened.name) return json;
   const base = typeof json.name === 'string' && json.name ? json.name : 'scenario';
   return { ...json, name: `${base} (edited)` };
 }
