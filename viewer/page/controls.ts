@@ -97,7 +97,7 @@ export function wireControls(page: Page, runs: RunLifecycle, drawing: DrawLoop, 
     drawing.queue(true);
   };
   // Open on a wide screen, where the map and the diagrams still fit beside it; closed on a narrow one.
-  setDrawer(window.innerWidth >= 1300);
+  setDrawer(window.innerWidth >= 1200);
   toggle.addEventListener('click', () => setDrawer(!layout.classList.contains('scenario-open')));
   $('btn-scenario-close').addEventListener('click', () => setDrawer(false));
 }
