@@ -84,9 +84,17 @@ async function runAndSave(page: Page, friction: string, name: string, every: str
   await page.fill('input[name="time.days"]', '40');
   await page.fill('input[name="physics.frictionDays"]', friction);
   await page.selectOption('#speed', 'max');
-  // "Apply and run" starts the run by itself.
+  const framesBefore = await page.evaluate(() => (window as unknown as { __pycno: { framesReceived: number } }).__pycno.framesReceived);
+  // "Apply and run" starts the run by itself; wait for this run's frames, not the last run's end.
   await page.click('#btn-apply');
-  await page.waitForFunction(() => (window as unknown as { __pycno: { status: string } }).__pycno.status === 'finished', null, { timeout: 120_000 });
+  await page.waitForFunction(
+    (n) => {
+      const p = (window as unknown as { __pycno: { status: string; framesReceived: number } }).__pycno;
+      return p.framesReceived > n && p.status === 'finished';
+    },
+    framesBefore,
+    { timeout: 120_000 },
+  );
   // Every output record (day 0 to 40) reached the library's recorder, each with its fields.
   await page.waitForFunction(() => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.live().records === 41);
   const live = await lib(page, (l) => l.live());
