@@ -1,4 +1,6 @@
+import { fileURLToPath } from 'node:url';
 import { defineConfig, type Plugin } from 'vite';
+import { helpPlugin } from './viewer/help/docs-plugin.ts';
 import { devPolicy, metaPolicy, pagePolicy } from './viewer/page-policy.ts';
 
 // Cross-origin isolation lets the engine share buffers with the page when it wants to.
@@ -21,11 +23,12 @@ const policyInPage: Plugin = {
 
 export default defineConfig({
   root: 'viewer',
+  // The docs as in-page help, rendered at build time (viewer/help/docs-plugin.ts).
+  plugins: [helpPlugin(fileURLToPath(new URL('./docs', import.meta.url))), policyInPage],
   publicDir: false,
   build: { outDir: '../dist/viewer', emptyOutDir: true },
   worker: { format: 'es' },
   optimizeDeps: { include: ['comlink', 'seedrandom', 'regl'] },
-  plugins: [policyInPage],
   server: { headers: { ...isolation, 'Content-Security-Policy': devPolicy } },
   preview: { headers: { ...isolation, 'Content-Security-Policy': pagePolicy } },
 });

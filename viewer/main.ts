@@ -22,6 +22,7 @@ import { WindPanel } from './wind/wind-panel.ts';
 import { wireControls } from './page/controls.ts';
 import { $ } from './page/dom.ts';
 import { DrawLoop } from './page/draw-loop.ts';
+import { wireHelp } from './page/help.ts';
 import { wireMapInput } from './page/map-input.ts';
 import { Notices } from './page/notices.ts';
 import type { Page } from './page/page.ts';
@@ -40,6 +41,7 @@ function startMap(): MapView {
     const map = new MapView($<HTMLCanvasElement>('map-gl'), $<HTMLCanvasElement>('map-overlay'), { forceBytes: new URLSearchParams(location.search).has('bytes') });
     info.floatTextures = map.gl.floatTextures;
     info.gpu = map.counts;
+    info.arrows = () => map.referenceArrows();
     return map;
   } catch (e) {
     if (e instanceof NoWebGLError) {
@@ -71,11 +73,17 @@ const windPanel = new WindPanel($('wind-panel'), {
   stack: $('map-stack'),
   colourBar: $<HTMLCanvasElement>('colour-bar'),
   baseScenario: () => panel.edited,
+  openedScenario: () => panel.opened,
+  valuesEdited: () => panel.changedFrom(panel.opened),
   fileName: () => panel.fileName,
+  // Apply and run: the designed wind with the panel's values from day 0, and the run goes at once.
   apply: async (text, fileName) => {
     notices.clear();
     if (!(await runs.load(text, fileName))) return false;
-    panel.setScenario(JSON.parse(text), fileName);
+    // What runs becomes the panel's base; values typed meanwhile stay in their boxes.
+    panel.ranWith(JSON.parse(text));
+    state.viewIndex = null;
+    void engine.start();
     return true;
   },
   redraw: () => drawing.queue(false),
@@ -113,9 +121,17 @@ const library = new LibraryPage($('library-panel'), $('compare-panel'), {
 
 const page: Page = { state, info, notices, map, history, hov, probes, totals, coupledPanel, panel, hovPanel, probePanel, windPanel, library, engine };
 const drawing = new DrawLoop(page);
+/** The map and the Hovmoller diagram fill their columns; the map's height follows the basin. */
 function layoutMap(): void {
   const host = $('map-stack');
-  map.layout(host.clientWidth || 600, Math.max(220, window.innerHeight * 0.55));
+  map.layout(host.clientWidth || 600, Math.max(200, window.innerHeight * 0.5));
+  const hov = $<HTMLCanvasElement>('hovmoller');
+  const w = Math.round($('hov-host').clientWidth);
+  const h = Math.round(Math.min(340, Math.max(200, window.innerHeight * 0.36)));
+  if (w > 100 && (hov.width !== w || hov.height !== h)) {
+    hov.width = w;
+    hov.height = h;
+  }
   windPanel.layout();
 }
 const runs = new RunLifecycle(page, drawing, layoutMap);
@@ -126,6 +142,7 @@ wireMapInput(page, drawing);
 wireControls(page, runs, drawing, layoutMap);
 opener.wire();
 $('btn-png').addEventListener('click', () => exportPng(page));
+wireHelp();
 
 // Start with the default scenario ready to run.
 runs.onStatus('empty');

@@ -36,7 +36,7 @@ function partLabel(index: number, a: unknown, b: unknown): string {
   };
   const la = one(a);
   const lb = one(b);
-  return `wind part ${index} (${la === lb ? la : `${la} / ${lb}`})`;
+  return `wind part ${index + 1} (${la === lb ? la : `${la} / ${lb}`})`;
 }
 
 function walk(a: unknown, b: unknown, path: string, out: ScenarioDifference[], part?: string): void {

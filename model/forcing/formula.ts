@@ -57,6 +57,8 @@ const JsepBase = (jsep as unknown as { Jsep: new (expr: string) => JsepParser })
 class LocatingParser extends JsepBase {
   readonly starts = new WeakMap<object, number>();
   readonly grouped = new WeakSet<object>();
+  /** The last binary operator as written ('^', not the '**' it is read as), for messages. */
+  lastWritten = '';
   constructor(expr: string) {
     super(expr);
   }
@@ -75,6 +77,7 @@ class LocatingParser extends JsepBase {
   override gobbleBinaryOp(): string | false {
     const op = super.gobbleBinaryOp();
     if (op === false) return op;
+    this.lastWritten = op;
     if (op === '^') return '**';
     // Refuse unknown operators here, where the parser still knows where they stand.
     if (!BINARY.has(op)) {
@@ -311,7 +314,9 @@ export function compileFormula(source: string): CompiledFormula {
     if (err instanceof FormulaError) throw err;
     const e = err as { index?: unknown; description?: unknown; message?: unknown };
     if (typeof e.index === 'number') {
-      const what = typeof e.description === 'string' ? e.description : String(e.message);
+      let what = typeof e.description === 'string' ? e.description : String(e.message);
+      // jsep names the power it was handed; the formula wrote '^' (e.g. "lat^^2").
+      if (parser.lastWritten === '^' && what === 'Expected expression after **') what = "'^' must be followed by a number, a name or a bracket";
       throw new FormulaError(`syntax error at character ${e.index}: ${what}`, e.index);
     }
     throw new FormulaError(`syntax error: ${String(e.message ?? err)}`, -1);

@@ -245,8 +245,9 @@ function burstsTerm(bursts: DrawnBurst[], grid: Grid, u: Faces, v: Faces): Term 
   };
 }
 
+/** "wind part 2 ('burst')": counted from 1, as the page's list numbers the parts (wind.parts[1]). */
 function partLabel(k: number, part: WindPart): string {
-  return `wind part ${k}${part.name ? ` ('${part.name}')` : ''}`;
+  return `wind part ${k + 1}${part.name ? ` ('${part.name}')` : ''}`;
 }
 
 export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptions): BuiltWind {

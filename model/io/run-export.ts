@@ -1,12 +1,14 @@
 // A RunData as a Pycno run file, written by the command line's own RunOutputWriter, so export ->
-// import (run-import.ts) gives back every value bit for bit. In the file every record has the
-// field variables; a record without a snapshot has them all at the fill value (CF's "missing").
+// import (run-import.ts) gives back every value bit for bit. A run whose maps are kept for only
+// some records (the run library saves every k-th) is written with the kept maps on an axis of
+// their own, map_time (the fields are (map_time, lat, lon), the series stay complete on time), so
+// the file holds no empty maps.
 
 import type { FieldName } from '../diagnostics/fields.ts';
 import type { Integrals } from '../diagnostics/integrals.ts';
-import { MemorySink } from './netcdf-writer.ts';
-import { checkRun, INTEGRAL_KEYS, type RunData, type RunSnapshot } from './run-data.ts';
-import { PYCNO_VERSION, RunOutputWriter, type OutputRecord, type RunDescription } from './run-output.ts';
+import { MemorySink, NetcdfWriter } from './netcdf-writer.ts';
+import { checkRun, INTEGRAL_KEYS, thinSnapshots, type RunData, type RunSnapshot } from './run-data.ts';
+import { PYCNO_VERSION, RunOutputWriter, runOutputFile, type OutputRecord, type RunDescription } from './run-output.ts';
 
 export function runDescription(run: RunData): RunDescription {
   // The version in a file is the writer's; a run made by another version says so in its history.
@@ -45,15 +47,52 @@ export function runRecord(run: RunData, n: number, snapshot: RunSnapshot | undef
   };
 }
 
-/** The run as a CF-NetCDF file, written by the command line's writer. */
-export async function toNetcdf(run: RunData): Promise<Uint8Array> {
+export interface ExportOptions {
+  /**
+   * Called as the file grows, with the steps done and the steps in all (one per kept map field
+   * and one per record); a returned promise is awaited, so a page can show it and stay responsive.
+   */
+  progress?: (done: number, total: number) => Promise<void> | void;
+}
+
+/** Whether a run's maps are kept for every record (then they are written on time, as pycno run does). */
+export function mapsOnEveryRecord(run: RunData): boolean {
+  return run.snapshots.length === run.days.length;
+}
+
+/**
+ * The run as a CF-NetCDF file, written by the command line's writer. A run with maps for every
+ * record has them on time; one with fewer has only its kept maps, on their own axis map_time.
+ */
+export async function toNetcdf(run: RunData, options: ExportOptions = {}): Promise<Uint8Array> {
   checkRun(run);
+  const every = mapsOnEveryRecord(run);
+  const d = runDescription(run);
+  if (!every) d.mapRecords = run.snapshots.length;
   const sink = new MemorySink(1 << 16);
-  const writer = new RunOutputWriter(runDescription(run), sink);
-  await writer.begin();
+  const writer = new RunOutputWriter(d, sink);
+  const total = run.days.length + (every ? 0 : run.fields.length);
+  let done = 0;
+  const step = async () => {
+    done++;
+    // Every record would be too often for a callback that yields: about a hundred calls in all.
+    if (options.progress && (done === total || done % Math.max(1, Math.floor(total / 100)) === 0)) await options.progress(done, total);
+  };
+  await writer.begin(every ? undefined : { days: run.snapshots.map((s) => s.day), fields: run.snapshots.map((s) => s.fields), progress: step });
   const missing = new Float32Array(run.grid.nx * run.grid.ny).fill(NaN);
   const byIndex = new Map(run.snapshots.map((s) => [s.index, s]));
-  for (let n = 0; n < run.days.length; n++) await writer.append(runRecord(run, n, byIndex.get(n), missing));
+  for (let n = 0; n < run.days.length; n++) {
+    await writer.append(runRecord(run, n, byIndex.get(n), missing));
+    await step();
+  }
   await writer.close();
   return sink.bytes().slice();
+}
+
+/** Bytes of the file toNetcdf writes for a run when every `snapshotEvery`-th map is kept, without writing it. */
+export function netcdfBytes(run: RunData, snapshotEvery = 1): number {
+  const kept = thinSnapshots(run, snapshotEvery).length;
+  const d = runDescription(run);
+  if (kept !== run.days.length) d.mapRecords = kept;
+  return new NetcdfWriter(runOutputFile(d), new MemorySink(1)).bytesFor(run.days.length);
 }

@@ -1,14 +1,15 @@
 // Reading a Pycno run file back into a RunData: files that are not Pycno run files, or are
-// damaged, are refused with a message that says what and where. A record whose fields are all
-// missing (the fill value) has no snapshot; an ocean cell of a real snapshot is never missing (a
-// run that makes NaN stops), so the two cannot be confused.
+// damaged, are refused with a message that says what and where. Kept maps lie on time (every
+// record) or on their own axis map_time (run-export.ts). Files of an earlier layout, where a
+// record without a map had every field at the fill value, still read: such a record has no
+// snapshot (an ocean cell of a real snapshot is never missing, since a run that makes NaN stops).
 
 import { FIELD_NAMES, type FieldName } from '../diagnostics/fields.ts';
 import type { DrawnBurst } from '../forcing/bursts.ts';
 import type { RunPhysics } from '../run-physics.ts';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from './netcdf-read.ts';
 import { RunFileError, type HovmollerSection, type IntegralKey, type ProbeSeries, type RunData, type RunSnapshot } from './run-data.ts';
-import { INTEGRAL_VARIABLES, OUTPUT_FILL, probeVariableName } from './run-output.ts';
+import { INTEGRAL_VARIABLES, MAP_TIME, OUTPUT_FILL, probeVariableName } from './run-output.ts';
 import { hasRunPhysics, legacyRunPhysics, readRunPhysics, RunPhysicsError, type KeptPhysics } from './run-physics-file.ts';
 import { sha256Hex } from './sha256.ts';
 
@@ -160,16 +161,33 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
   }
   if (!ocean.includes(1)) throw new RunFileError(`${where}: damaged Pycno run file: the ocean mask has no ocean cell`);
   const cells = nx * ny;
+  // The maps lie on time (every record) or on map_time (the kept maps only).
+  const ownAxis = has(MAP_TIME);
+  const mapDays = ownAxis ? numbers(need(MAP_TIME, 'double', [MAP_TIME]), where) : days;
+  const nm = mapDays.length;
+  const mapDim = ownAxis ? MAP_TIME : 'time';
   const fieldValues = fields.map((name) => {
-    const v = typed(read([name]).variable(name), 'float', ['time', 'lat', 'lon'], where);
+    const v = typed(read([name]).variable(name), 'float', [mapDim, 'lat', 'lon'], where);
     const vals = numbers(v, where);
-    if (v.dimensions.join(',') !== 'time,lat,lon' || vals.length !== nt * cells) {
-      throw new RunFileError(`${where}: damaged Pycno run file: '${name}' has shape (${v.dimensions.join(', ')}) = ${v.shape.join(' x ')}, expected (time, lat, lon)`);
+    if (vals.length !== nm * cells) {
+      throw new RunFileError(`${where}: damaged Pycno run file: '${name}' has shape (${v.dimensions.join(', ')}) = ${v.shape.join(' x ')}, expected (${mapDim}, lat, lon)`);
     }
     return floats(vals);
   });
   const snapshots: RunSnapshot[] = [];
-  for (let n = 0; n < nt; n++) {
+  if (ownAxis) {
+    // Each kept map belongs to the record of the same day (map_time holds those days exactly).
+    let n = 0;
+    for (let q = 0; q < nm; q++) {
+      while (n < nt && days[n] < mapDays[q]) n++;
+      if (n >= nt || days[n] !== mapDays[q]) throw new RunFileError(`${where}: damaged Pycno run file: map_time ${q} (${mapDays[q]}) is not a time of the run's records (or map_time does not increase)`);
+      const fl: Partial<Record<FieldName, Float32Array>> = {};
+      fields.forEach((name, f) => (fl[name] = fieldValues[f].slice(q * cells, (q + 1) * cells)));
+      snapshots.push({ index: n, day: days[n], fields: fl });
+      n++;
+    }
+  }
+  for (let n = 0; n < (ownAxis ? 0 : nt); n++) {
     // A record without a snapshot has every field missing (see the note at the top).
     const present = fieldValues.map((vals) => {
       for (let k = 0; k < cells; k++) if (ocean[k] && !Number.isNaN(vals[n * cells + k])) return true;

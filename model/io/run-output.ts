@@ -77,7 +77,16 @@ export interface RunDescription {
   /** The command or action that made the file (history attribute), and when. */
   command?: string;
   createdAt?: Date;
+  /**
+   * Maps kept for only some records (a saved run of the page's library): their number. The maps
+   * then lie on an axis of their own, map_time, and the fields are (map_time, lat, lon); absent
+   * when every record has its maps (the fields are then (time, lat, lon), as pycno run writes).
+   */
+  mapRecords?: number;
 }
+
+/** The second time axis of a file whose maps are kept for only some records. */
+export const MAP_TIME = 'map_time';
 
 /** One output interval. Field arrays are nx * ny from the south-west corner, NaN on land. */
 export interface OutputRecord {
@@ -147,6 +156,8 @@ export function runOutputFile(d: RunDescription): NcFileInput {
     { name: 'lat', length: d.grid.ny },
     { name: 'lon', length: d.grid.nx },
   ];
+  const ownMapAxis = d.mapRecords !== undefined;
+  if (ownMapAxis) dimensions.push({ name: MAP_TIME, length: d.mapRecords! });
   const variables: NcVariableInput[] = [
     {
       name: 'time',
@@ -177,12 +188,26 @@ export function runOutputFile(d: RunDescription): NcFileInput {
     },
     { name: 'step', type: NC_DOUBLE, dimensions: ['time'], attributes: { long_name: 'model time steps taken', units: '1' } },
   ];
+  if (ownMapAxis) {
+    variables.push({
+      name: MAP_TIME,
+      type: NC_DOUBLE,
+      dimensions: [MAP_TIME],
+      attributes: {
+        standard_name: 'time',
+        long_name: 'model time of the kept maps',
+        units: TIME_UNITS,
+        calendar: TIME_CALENDAR,
+        comment: 'the maps (fields on lat and lon) were kept for these output times only; the series on time are complete',
+      },
+    });
+  }
   for (const f of d.fields) {
     const info = FIELD_INFO[f];
     variables.push({
       name: f,
       type: NC_FLOAT,
-      dimensions: ['time', 'lat', 'lon'],
+      dimensions: [ownMapAxis ? MAP_TIME : 'time', 'lat', 'lon'],
       attributes: { ...floatAtts(info.units, info.longName, info.standardName), cell_measures: 'area: cell_area' },
     });
   }
@@ -314,20 +339,44 @@ export class RunOutputWriter {
     return this.writer.bytesFor(records);
   }
 
-  /** Header and the fixed variables (coordinates, mask, cell areas, probe table); the header goes in last. */
-  async begin(): Promise<void> {
+  /**
+   * Header and the fixed variables (coordinates, mask, cell areas, probe table, and the kept maps
+   * of a file with its own map axis); the header goes in last.
+   */
+  async begin(maps?: { days: ArrayLike<number>; fields: ReadonlyArray<Partial<Record<FieldName, ArrayLike<number>>>>; progress?: () => Promise<void> | void }): Promise<void> {
     await this.writer.writeHeader();
     await writeRunFixed(this.writer, this.d);
+    if (maps) await this.writeMaps(maps.days, maps.fields, maps.progress);
     await this.writer.finishFixed();
+  }
+
+  /** The kept maps of a file with its own map axis (d.mapRecords): their days and fields, in order. */
+  async writeMaps(days: ArrayLike<number>, maps: ReadonlyArray<Partial<Record<FieldName, ArrayLike<number>>>>, progress?: () => Promise<void> | void): Promise<void> {
+    const { d } = this;
+    if (d.mapRecords === undefined || maps.length !== d.mapRecords) throw new Error(`run file: ${maps.length} maps for a layout of ${d.mapRecords ?? 'no'} map records`);
+    await this.writer.writeFixed(MAP_TIME, days);
+    const cells = d.grid.nx * d.grid.ny;
+    for (const f of d.fields) {
+      const all = new Float32Array(maps.length * cells);
+      maps.forEach((m, n) => {
+        const v = m[f];
+        if (!v) throw new Error(`kept map ${n} (day ${days[n]}): field ${f} is missing`);
+        all.set(filled(v), n * cells);
+      });
+      await this.writer.writeFixed(f, all);
+      await progress?.();
+    }
   }
 
   async append(r: OutputRecord): Promise<void> {
     const { d } = this;
     const values: Record<string, ArrayLike<number> | number> = { time: r.day, step: r.step };
-    for (const f of d.fields) {
-      const v = r.fields[f];
-      if (!v) throw new Error(`output record for day ${r.day}: field ${f} is missing`);
-      values[f] = filled(v);
+    if (d.mapRecords === undefined) {
+      for (const f of d.fields) {
+        const v = r.fields[f];
+        if (!v) throw new Error(`output record for day ${r.day}: field ${f} is missing`);
+        values[f] = filled(v);
+      }
     }
     for (const iv of INTEGRAL_VARIABLES) values[iv.name] = r.integrals[iv.key];
     if (d.hovmollerLats.length > 0) values.hovmoller_h_anom = concat(r.hovmoller, d.grid.nx);

@@ -3,6 +3,7 @@
 // off-equatorial section where it shows against c/3, and the arrival day at each probe.
 // Used by the run report and by `pycno compare`. docs/library.md says how the ranges are chosen.
 
+import { latLabel } from '../display/coordinates.ts';
 import { EARTH } from '../config.ts';
 import { fitSpeed, regress, arrivalDay, WaveFitError, type FrontOptions, type SpeedFit } from '../diagnostics/wave-fit.ts';
 import { hovmollerData, type RunData } from '../io/run-data.ts';
@@ -134,7 +135,7 @@ function measure(run: RunData, section: number, direction: 'east' | 'west', theo
   const h = hovmollerData(run, section);
   const span = oceanSpan(h.rows, h.lon);
   const lat = run.hovmoller[section].rowLat;
-  if (!span) return { reason: `the section at ${lat}° has no ocean` };
+  if (!span) return { reason: `the section at ${latLabel(lat)} has no ocean` };
   const cell = Math.abs(h.lon[1] - h.lon[0]) || 1;
   // Keep clear of the coasts, where waves pile up and reflect: 5 % of the width, 3 cells at least.
   const margin = Math.max(3 * cell, 0.05 * (span[1] - span[0]));
@@ -145,11 +146,11 @@ function measure(run: RunData, section: number, direction: 'east' | 'west', theo
     // First one level for the whole diagram: it sees only the strong leading wave.
     const base = { direction, method: 'front', sign, lonRange, metresPerDegree: METRES_PER_DEGREE } as const;
     const first = robust(fitSpeed(h, { ...base, dayRange }), cell, direction);
-    if (first.points.length < 4) return { reason: `the front was found at only ${first.points.length} times at ${lat}°` };
+    if (first.points.length < 4) return { reason: `the front was found at only ${first.points.length} times at ${latLabel(lat)}` };
     const r = levelFrom === 'each-time' ? (refitCrossing(h, base, first, dayRange, cell) ?? first) : first;
     return { lat, direction, sign, speed: r.speed, standardError: r.standardError, theory, points: r.points, dayRange, lonRange };
   } catch (e) {
-    if (e instanceof WaveFitError) return { reason: `${e.message} (section at ${lat}°)` };
+    if (e instanceof WaveFitError) return { reason: `${e.message} (section at ${latLabel(lat)})` };
     throw e;
   }
 }
@@ -177,7 +178,7 @@ export function measureWaves(run: RunData): WaveMeasures {
     const tries = off.flatMap((s) => [measure(run, s.k, 'west', rossbyTheory, from, 'diagram', 1), measure(run, s.k, 'west', rossbyTheory, from, 'diagram', -1)]);
     const good = tries.filter(isMeasured).filter((m) => m.speed > 0);
     good.sort((p, q) => q.points.length - p.points.length || p.standardError / p.speed - q.standardError / q.speed);
-    rossby = good[0] ?? { reason: `no westward front on the section${off.length > 1 ? 's' : ''} at ${off.map((s) => `${run.hovmoller[s.k].rowLat}°`).join(', ')} after day ${Number(from.toPrecision(3))}` };
+    rossby = good[0] ?? { reason: `no westward front on the section${off.length > 1 ? 's' : ''} at ${off.map((s) => latLabel(run.hovmoller[s.k].rowLat)).join(', ')} after day ${Number(from.toPrecision(3))}` };
   }
 
   const arrivals = run.probes.map((p) => {

@@ -1,9 +1,12 @@
 // The run report: one self-contained, printable HTML page. Inline CSS, images as data: URLs of
 // PNGs encoded here (model/report/png.ts), plots as inline SVG, no script of any kind (a
 // Content-Security-Policy meta tag forbids them too), every text from the run HTML-escaped.
-// Colours: d3-scale-chromatic's RdBu, reversed so that positive h' (deeper thermocline) is red.
+// Colours, places and theory lines as the page draws them (model/display/): the anomaly map,
+// one place formatter, Kelvin solid and long Rossby dashed, one rule for the colour range.
 
-import { interpolateRdBu } from 'd3-scale-chromatic';
+import { lookupTable } from '../display/colour-maps.ts';
+import { latLabel, lonLabel, placeLabel } from '../display/coordinates.ts';
+import { svgDash, symmetricRange, THEORY_LINES } from '../display/conventions.ts';
 import { hovmollerData, type RunData } from '../io/run-data.ts';
 import { longRossbySpeed } from '../theory.ts';
 import { derivedNumbers, resolveScenario, validateScenario, type DerivedNumbers } from '../scenario/index.ts';
@@ -22,29 +25,14 @@ export function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }
 
-function parseRgb(s: string): [number, number, number] {
-  const m = /^rgb\((\d+),\s*(\d+),\s*(\d+)\)$/.exec(s.trim());
-  if (!m) throw new Error(`unexpected colour ${s}`);
-  return [Number(m[1]), Number(m[2]), Number(m[3])];
-}
-
-/** 256 colours, blue (negative) through white to red (positive). */
-const DIVERGING: Array<[number, number, number]> = Array.from({ length: 256 }, (_, k) => parseRgb(interpolateRdBu(1 - k / 255)));
+/** 256 colours of the anomaly map (Pycno Split): blue below zero, pale at zero, copper above. */
+const ANOMALY_LUT = lookupTable('anomaly');
+const DIVERGING: Array<[number, number, number]> = Array.from({ length: 256 }, (_, k) => [ANOMALY_LUT[4 * k], ANOMALY_LUT[4 * k + 1], ANOMALY_LUT[4 * k + 2]]);
 
 export function colourOf(v: number, range: number): [number, number, number] {
   if (!Number.isFinite(v)) return LAND;
   const t = Math.max(0, Math.min(1, 0.5 + v / (2 * range)));
   return DIVERGING[Math.round(t * 255)];
-}
-
-/** Symmetric colour range: the 99th percentile of |values| (a few extreme cells do not wash the map out). */
-export function symmetricRange(arrays: ArrayLike<number>[]): number {
-  const abs: number[] = [];
-  for (const a of arrays) for (let k = 0; k < a.length; k++) if (Number.isFinite(a[k])) abs.push(Math.abs(a[k]));
-  if (abs.length === 0) return 1;
-  abs.sort((p, q) => p - q);
-  const r = abs[Math.min(abs.length - 1, Math.floor(0.99 * abs.length))];
-  return r > 0 ? r : abs[abs.length - 1] || 1;
 }
 
 /** A field (nx * ny from the south-west) as an RGB image with north up. */
@@ -94,7 +82,7 @@ function speedText(m: SpeedMeasure | { reason: string } | null, theoryName: stri
   if (!isMeasured(m)) return `not measured: ${escapeHtml(m.reason)} (theory ${theoryName} = ${fmt(theory)} m/s)`;
   const dev = (100 * (m.speed - theory)) / theory;
   return (
-    `<b>${fmt(m.speed)} ± ${fmt(m.standardError, 2)} m/s</b> measured ${m.direction}ward at ${fmt(m.lat)}° ` +
+    `<b>${fmt(m.speed)} ± ${fmt(m.standardError, 2)} m/s</b> measured ${m.direction}ward at ${latLabel(m.lat)} ` +
     `(${m.sign > 0 ? 'downwelling' : 'upwelling'} front, ${m.points.length} times, days ${fmt(m.points[0][0])}–${fmt(m.points[m.points.length - 1][0])}); ` +
     `theory ${theoryName} = ${fmt(theory)} m/s; difference ${dev >= 0 ? '+' : ''}${dev.toFixed(1)} %`
   );
@@ -137,7 +125,7 @@ function hovmollerFigure(run: RunData, section: number, waves: WaveMeasures): st
     lines.push(`<line class="rossby" x1="${X(lon1).toFixed(1)}" y1="${Y(tEast).toFixed(1)}" x2="${X(lon1 - sR * (rEnd - tEast)).toFixed(1)}" y2="${Y(rEnd).toFixed(1)}"/>`);
   }
   const dots = isMeasured(kelvin) && kelvin.lat === run.hovmoller[section].rowLat ? kelvin.points.map(([t, x]) => `<circle cx="${X(x).toFixed(1)}" cy="${Y(t).toFixed(1)}" r="1.6"/>`).join('') : '';
-  const ticksX = niceTicks(lon0, lon1, 6).map((v) => `<text x="${X(v).toFixed(1)}" y="${H - m.b + 14}" text-anchor="middle">${fmt(v)}°E</text>`);
+  const ticksX = niceTicks(lon0, lon1, 6).map((v) => `<text x="${X(v).toFixed(1)}" y="${H - m.b + 14}" text-anchor="middle">${lonLabel(v)}</text>`);
   const ticksY = niceTicks(d0, d1, 6).map((v) => `<text x="${m.l - 4}" y="${(Y(v) + 4).toFixed(1)}" text-anchor="end">${fmt(v)}</text>`);
   return (
     `<svg class="hov" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="Hovmoller diagram">` +
@@ -233,7 +221,7 @@ function coupledSection(run: RunData): string {
   );
 }
 
-export const REPORT_STYLE = `
+export const REPORT_STYLE = () => `
 body{font:13px/1.4 system-ui,sans-serif;color:#111;max-width:1100px;margin:16px auto;padding:0 12px}
 h1{font-size:20px;margin:0 0 4px}h2{font-size:15px;margin:18px 0 6px;border-bottom:1px solid #bbb}
 .caution{border:1px solid #b55;background:#fdf3f0;padding:4px 8px;margin:8px 0}
@@ -241,7 +229,7 @@ table{border-collapse:collapse;margin:4px 0}th,td{text-align:left;padding:2px 10
 .maps{display:flex;flex-wrap:wrap;gap:10px}.maps figure{margin:0}.maps img{width:250px;image-rendering:pixelated;border:1px solid #888}
 figcaption{font-size:12px;color:#333}.bar{display:flex;align-items:center;gap:6px;font-size:12px;margin:4px 0}.bar img{image-rendering:pixelated;border:1px solid #888}
 svg text{font-size:10px;fill:#222}svg .t{font-size:11px;font-weight:600}
-.hov .kelvin{stroke:#000;stroke-width:1.5;stroke-dasharray:6 3}.hov .rossby{stroke:#000;stroke-width:1.5;stroke-dasharray:2 3}.hov .dots circle{fill:#000}
+.hov .kelvin{stroke:${THEORY_LINES.kelvin.colour};stroke-width:${THEORY_LINES.kelvin.width};stroke-dasharray:${svgDash(THEORY_LINES.kelvin)}}.hov .rossby{stroke:${THEORY_LINES.rossby.colour};stroke-width:${THEORY_LINES.rossby.width};stroke-dasharray:${svgDash(THEORY_LINES.rossby)}}.hov .dots circle{fill:#000}
 .probes{display:flex;flex-wrap:wrap;gap:8px}.probe{margin:0}.probe polyline{fill:none;stroke:#1a4f8b;stroke-width:1.3}.probe .zero{stroke:#999;stroke-width:.7}
 footer{margin-top:18px;font-size:11px;color:#444}
 .indices polyline{fill:none;stroke-width:1.3}.indices .sst{stroke:#b2182b;fill:#b2182b}.indices .warm{stroke:#2166ac;fill:#2166ac}.indices .zero{stroke:#999;stroke-width:.7}
@@ -274,11 +262,11 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   const parts: string[] = (scenario.wind?.parts ?? []).map((w, k) => {
     const what = w.kind === 'fixed' ? `${w.source?.kind === 'shaped' ? w.source.shape?.kind : w.source?.kind} x ${w.envelope?.kind}` : w.kind;
     const how = w.kind === 'answering' ? `strength ${w.strength} m/s per K, ${w.drag} drag` : w.quantity;
-    return `${k}: ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${how}${w.enabled === false ? ', off' : ''}`;
+    return `${k + 1}. ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${how}${w.enabled === false ? ', off' : ''}`;
   });
 
   const params = table([
-    ['basin', escapeHtml(`${b.lonWest}°E to ${b.lonEast}°E, ${b.latSouth}°N to ${b.latNorth}°N, cells ${res} (${run.grid.nx} x ${run.grid.ny})`)],
+    ['basin', escapeHtml(`${lonLabel(Number(b.lonWest))} to ${lonLabel(Number(b.lonEast))}, ${latLabel(Number(b.latSouth))} to ${latLabel(Number(b.latNorth))}, cells ${res} (${run.grid.nx} x ${run.grid.ny})`)],
     ["reduced gravity g'", `${fmt(run.physics.reducedGravity)} m s⁻²`],
     ['layer thickness H', `${fmt(run.physics.layerThickness)} m`],
     ['dynamics', escapeHtml(run.physics.dynamics)],
@@ -301,7 +289,7 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   ]);
   const arrivals = waves.arrivals.length
     ? `<table><tr><th>probe</th><th>where</th><th>arrival (half the largest ${'h′'})</th></tr>${waves.arrivals
-        .map((a) => `<tr><td>${escapeHtml(a.probe)}</td><td>${fmt(a.lon)}°E, ${fmt(a.lat)}°N</td><td>${a.day === null ? 'no signal' : `day ${fmt(a.day)} (${a.sign > 0 ? 'h′ > 0' : 'h′ < 0'})`}</td></tr>`)
+        .map((a) => `<tr><td>${escapeHtml(a.probe)}</td><td>${placeLabel(a.lon, a.lat)}</td><td>${a.day === null ? 'no signal' : `day ${fmt(a.day)} (${a.sign > 0 ? 'h′ > 0' : 'h′ < 0'})`}</td></tr>`)
         .join('')}</table>`
     : '<p>No probes in this run.</p>';
 
@@ -325,7 +313,7 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
       if (Math.abs(h.rowLat) < Math.abs(run.hovmoller[eq].rowLat)) eq = k;
     });
     hov =
-      `<p>h′ along ${fmt(run.hovmoller[eq].rowLat)}°N against time (upward). Dashed: a Kelvin wave at c = ${fmt(c)} m/s; dotted: a long Rossby wave at c/3 from the east coast where that line arrives; dots: the measured front.</p>` +
+      `<p>h′ along ${latLabel(run.hovmoller[eq].rowLat)} against time (upward). Solid: a Kelvin wave at c = ${fmt(c)} m/s; dashed: a long Rossby wave at c/3 from the east coast where that line arrives; dots: the measured front.</p>` +
       hovmollerFigure(run, eq, waves);
   }
 
@@ -337,7 +325,7 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8">
 <meta http-equiv="Content-Security-Policy" content="default-src 'none'; img-src data:; style-src 'unsafe-inline'">
-<title>${escapeHtml(title)}</title><style>${REPORT_STYLE}</style></head>
+<title>${escapeHtml(title)}</title><style>${REPORT_STYLE()}</style></head>
 <body>
 <h1>${escapeHtml(title)}</h1>
 <p>${escapeHtml(run.description || '')}</p>

@@ -9,7 +9,8 @@ import { MEMBER_SCALARS, SEED_PATH } from '../ensemble/summary-file.ts';
 import type { SummaryData, SummaryGroupRead, SummaryMemberRead } from '../ensemble/summary-read.ts';
 import * as pm from '../portable-math.ts';
 import { pngDataUrl } from './png.ts';
-import { CAUTION, colourBar, colourOf, escapeHtml, niceTicks, REPORT_STYLE, symmetricRange } from './report.ts';
+import { symmetricRange } from '../display/conventions.ts';
+import { CAUTION, colourBar, colourOf, escapeHtml, niceTicks, REPORT_STYLE } from './report.ts';
 
 const fmt = (x: number, digits = 3) => {
   if (!Number.isFinite(x)) return '–';
@@ -173,7 +174,7 @@ export function spreadReport(s: SummaryData, options: { source?: string } = {}):
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8">
 <meta http-equiv="Content-Security-Policy" content="default-src 'none'; img-src data:; style-src 'unsafe-inline'">
-<title>${escapeHtml(title)}</title><style>${REPORT_STYLE}${SPREAD_STYLE}</style></head>
+<title>${escapeHtml(title)}</title><style>${REPORT_STYLE()}${SPREAD_STYLE}</style></head>
 <body>
 <h1>${escapeHtml(title)}</h1>
 <p>${s.members.length} members over ${escapeHtml(s.vary.map((v) => `${v.path} (${v.values.length} values)`).join(' x '))}: ${count('complete')} complete, ${count('failed')} failed, ${count('missing')} missing.</p>

@@ -86,11 +86,18 @@ async function openPage(ctx: BrowserContext, url: string, errors: string[]): Pro
 async function runAndSave(page: Page, friction: string, name: string, every: string): Promise<void> {
   await page.fill('input[name="time.days"]', '40');
   await page.fill('input[name="physics.frictionDays"]', friction);
-  await page.click('#btn-apply');
-  await page.waitForFunction(() => (window as unknown as { __pycno: { status: string } }).__pycno.status === 'ready');
   await page.selectOption('#speed', 'max');
-  await page.click('#btn-run');
-  await page.waitForFunction(() => (window as unknown as { __pycno: { status: string } }).__pycno.status === 'finished', null, { timeout: 120_000 });
+  const framesBefore = await page.evaluate(() => (window as unknown as { __pycno: { framesReceived: number } }).__pycno.framesReceived);
+  // "Apply and run" starts the run by itself; wait for this run's frames, not the last run's end.
+  await page.click('#btn-apply');
+  await page.waitForFunction(
+    (n) => {
+      const p = (window as unknown as { __pycno: { status: string; framesReceived: number } }).__pycno;
+      return p.framesReceived > n && p.status === 'finished';
+    },
+    framesBefore,
+    { timeout: 120_000 },
+  );
   // Every output record (day 0 to 40) reached the library's recorder, each with its fields.
   await page.waitForFunction(() => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.live().records === 41);
   const live = await lib(page, (l) => l.live());
@@ -193,6 +200,11 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     expect(st.gridNote).toMatch(/both runs on one 0.5° grid/);
     expect(st.table).toEqual([{ path: 'physics.frictionDays', part: '', a: '730', b: '20' }]);
     expect(await page.textContent('#cmp-scenario-table')).toContain('physics.frictionDays');
+    // Variables by the page's own labels, not the file's names.
+    expect(await page.$eval('#cmp-field', (s) => (s as HTMLSelectElement).selectedOptions[0].textContent)).toBe('Thermocline depth anomaly (positive down) (m)');
+    expect(await page.$$eval('#cmp-field option', (os) => os.map((o) => o.textContent ?? '').filter((t) => /^[a-z_]+:/.test(t)))).toEqual([]);
+    // The comparison's Hovmollers: A and B on one scale by the rule every view uses.
+    expect(await page.getAttribute('#cmp-hov-a', 'data-scale')).toBe(await page.getAttribute('#cmp-hov-b', 'data-scale'));
     // The difference map: white where the runs agree, coloured where friction damped B.
     const px = await plotPixels(page, 'cmp-map-diff-gl');
     const coloured = px.filter(([r, g, b]) => Math.max(r, g, b) - Math.min(r, g, b) > 40).length;
@@ -241,6 +253,16 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     const again = await downloadOf(page, () => itemButton(page, imported.name, 'lib-export').click(), files);
     expect(again.bytes.length).toBe(first.bytes.length);
     expect(Buffer.compare(again.bytes, first.bytes)).toBe(0);
+
+    // B kept every second map: its export holds only those, on their own time axis, and the size
+    // the save form stated is within 10 % of the file; the export said how far it had got.
+    const metaB = (await runs(page)).find((r) => r.name === B)!;
+    const fileB = await downloadOf(page, () => itemButton(page, B, 'lib-export').click(), files);
+    expect(Math.abs(fileB.bytes.length - metaB.sizeBytes) / fileB.bytes.length).toBeLessThan(0.1);
+    expect(await page.textContent('#lib-msg')).toMatch(new RegExp(`^Exported '${B}': .*21 kept maps on their own time axis map_time; the series of all 41 records`));
+    expect(await page.getAttribute('#lib-msg', 'data-progress')).toBe('1');
+    // The library says what the saved runs take and what is left.
+    expect(await page.textContent('#lib-storage')).toMatch(/^Storage: 3 saved runs, about [\d.]+ MB; this page uses [\d.]+ [kMG]?B of the browser's storage, about [\d.]+ [kMG]?B left\.$/);
 
     // A file that is not a Pycno run is refused with the reader's message, and nothing is added.
     await page.setInputFiles('#lib-import', { name: 'notes.nc', mimeType: 'application/x-netcdf', buffer: Buffer.from('{"just": "json"}') });

@@ -73,7 +73,7 @@ describe('compareRuns', () => {
     const c = compareRuns(a, b);
     expect(c.scenario).toEqual([
       { path: 'physics.frictionDays', a: 365, b: 5 },
-      { path: 'wind.parts[0].envelope.duration', a: 4, b: 3, part: "wind part 0 (fixed 'westerly patch')" },
+      { path: 'wind.parts[0].envelope.duration', a: 4, b: 3, part: "wind part 1 (fixed 'westerly patch')" },
     ]);
     expect(c.maxAbsDifference.h_anom).toBeGreaterThan(0.01);
     // Day 0 (rest) is identical; differences grow later.
@@ -154,11 +154,11 @@ describe('diffScenarios', () => {
     expect(diffScenarios(a, b)).toEqual([
       { path: 'physics.reducedGravity', a: 0.05, b: 0.03 },
       { path: 'physics.slip', a: undefined, b: 'free' },
-      { path: 'wind.parts[0].kind', a: 'fixed', b: 'bursts', part: "wind part 0 (fixed 'w' / bursts)" },
-      { path: 'wind.parts[0].name', a: 'w', b: undefined, part: "wind part 0 (fixed 'w' / bursts)" },
-      { path: 'wind.parts[0].envelope', a: { kind: 'pulse', start: 10 }, b: undefined, part: "wind part 0 (fixed 'w' / bursts)" },
-      { path: 'wind.parts[0].ratePerYear', a: undefined, b: 4, part: "wind part 0 (fixed 'w' / bursts)" },
-      { path: 'wind.parts[1]', a: undefined, b: { kind: 'fixed' }, part: 'wind part 1 (none / fixed)' },
+      { path: 'wind.parts[0].kind', a: 'fixed', b: 'bursts', part: "wind part 1 (fixed 'w' / bursts)" },
+      { path: 'wind.parts[0].name', a: 'w', b: undefined, part: "wind part 1 (fixed 'w' / bursts)" },
+      { path: 'wind.parts[0].envelope', a: { kind: 'pulse', start: 10 }, b: undefined, part: "wind part 1 (fixed 'w' / bursts)" },
+      { path: 'wind.parts[0].ratePerYear', a: undefined, b: 4, part: "wind part 1 (fixed 'w' / bursts)" },
+      { path: 'wind.parts[1]', a: undefined, b: { kind: 'fixed' }, part: 'wind part 2 (none / fixed)' },
     ]);
   });
 });

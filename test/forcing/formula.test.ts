@@ -71,6 +71,9 @@ describe('formula: bad input', () => {
     expect(failure('sin(lat').message).toMatch(/^syntax error at character 7/);
     expect(failure('lat + * 2').message).toMatch(/^syntax error at character \d+: Expected expression/);
     expect(failure('1 +').message).toBe('syntax error at character 3: Expected expression after +');
+    // The power is written '^' in our syntax, and the message says '^' (jsep reads it as **).
+    expect(failure('lat^^2').message).toBe("syntax error at character 4: '^' must be followed by a number, a name or a bracket");
+    expect(failure('lat^^2').message).not.toMatch(/\*\*/);
   });
 
   it('wrong number of arguments', () => {

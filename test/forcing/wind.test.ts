@@ -144,7 +144,7 @@ describe('buildWindStress', () => {
     expect(fillAt(w, 8)[0][k]).toBeCloseTo(0.08 * grid.latCentre[15], 12);
     const bad = shaped('stress', 1, 0, { kind: 'constant' }, { kind: 'formula', expression: 'sqrt(lat)' });
     expect(() => buildWindStress(grid, spec([{ ...bad, name: 'trades' }]), { seed: 'a' })).toThrow(
-      /^wind part 0 \('trades'\): formula 'sqrt\(lat\)' gives NaN at lon 141, lat -4.75, t 0 days \(a u face\)$/,
+      /^wind part 1 \('trades'\): formula 'sqrt\(lat\)' gives NaN at lon 141, lat -4.75, t 0 days \(a u face\)$/,
     );
     const later = shaped('stress', 1, 0, { kind: 'constant' }, { kind: 'formula', expression: 'log(10 - t)' });
     const lw = buildWindStress(grid, spec([later]), { seed: 'a' });
@@ -201,7 +201,7 @@ describe('buildWindStress', () => {
     const k = grid.idx(3, 3);
     expect(fillAt(w, 2.5)[0][k]).toBeCloseTo(-0.03, 14);
     expect(fillAt(w, 50)[0][k]).toBeCloseTo(-0.06, 14);
-    expect(() => buildWindStress(grid, spec([part]), { seed: 'a' })).toThrow("wind part 0: the file 'winds.csv' was not provided");
+    expect(() => buildWindStress(grid, spec([part]), { seed: 'a' })).toThrow("wind part 1: the file 'winds.csv' was not provided");
   });
 
   it('bursts: the field is the sum of the drawn patches under their pulses', () => {
@@ -242,9 +242,9 @@ describe('buildWindStress', () => {
   it('rejects bad settings with the part named', () => {
     expect(() => buildWindStress(grid, { ...spec([]), updateHours: -1 }, { seed: 'a' })).toThrow(/updateHours/);
     const bad = shaped('stress', 1, 0, { kind: 'pulse', start: 0, duration: 1, ramp: 2 });
-    expect(() => buildWindStress(grid, spec([shaped('stress', 1, 0), { ...bad, name: 'burst' }]), { seed: 'a' })).toThrow(/^wind part 1 \('burst'\): pulse ramp/);
+    expect(() => buildWindStress(grid, spec([shaped('stress', 1, 0), { ...bad, name: 'burst' }]), { seed: 'a' })).toThrow(/^wind part 2 \('burst'\): pulse ramp/);
     const f = shaped('stress', 1, 0, { kind: 'constant' }, { kind: 'formula', expression: 'lat + lonn' });
-    expect(() => buildWindStress(grid, spec([f]), { seed: 'a' })).toThrow("wind part 0: unknown name 'lonn' at character 6");
+    expect(() => buildWindStress(grid, spec([f]), { seed: 'a' })).toThrow("wind part 1: unknown name 'lonn' at character 6");
     const w = buildWindStress(grid, spec([]), { seed: 'a' });
     expect(() => w.stress.fill(0, new Float64Array(3), grid.field())).toThrow(/padded size/);
   });

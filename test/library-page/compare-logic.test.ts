@@ -23,7 +23,7 @@ describe('comparison helpers', () => {
 
   it('colours a Hovmoller row by row, latest on top, zero white-ish, land grey', () => {
     const px = hovPixels([0, 1, -1, NaN, 0, 0, 0, 0], 4, 2, 1);
-    const lut = lookupTable('diverging');
+    const lut = lookupTable('anomaly');
     const at = (x: number, y: number) => Array.from(px.subarray((y * 4 + x) * 4, (y * 4 + x) * 4 + 3));
     // Time 0 is the bottom row (y = 1).
     expect(at(0, 1)).toEqual(Array.from(lut.subarray(128 * 4, 128 * 4 + 3)));
@@ -38,7 +38,7 @@ describe('comparison helpers', () => {
     const b = { name: 'B', description: 'y', physics: { frictionDays: 20 }, wind: { parts: [{ kind: 'fixed', name: 'w', envelope: { duration: 20 } }] } };
     expect(differenceRows(diffScenarios(a, b))).toEqual([
       { path: 'physics.frictionDays', part: '', a: '730', b: '20' },
-      { path: 'wind.parts[0].envelope.duration', part: "wind part 0 (fixed 'w')", a: '14', b: '20' },
+      { path: 'wind.parts[0].envelope.duration', part: "wind part 1 (fixed 'w')", a: '14', b: '20' },
     ]);
   });
 

@@ -39,6 +39,12 @@ describe('run report', () => {
     if (!isMeasured(w.kelvin)) throw new Error('no Kelvin fit');
     expect(html).toContain(`<b>${Number(w.kelvin.speed.toPrecision(3))} ± `);
     expect(html).toContain(`theory c = ${Number(w.c.toPrecision(3))} m/s`);
+    // The page's conventions: Kelvin solid, long Rossby dashed; places written one way.
+    expect(html).toMatch(/\.hov \.kelvin\{[^}]*stroke-dasharray:none/);
+    expect(html).toMatch(/\.hov \.rossby\{[^}]*stroke-dasharray:6 4/);
+    expect(html).toContain('Solid: a Kelvin wave');
+    expect(html).not.toMatch(/-\d+(\.\d+)?°N/);
+    expect(html).toMatch(/\d°E, \d+(\.\d+)?°[NS]|\d°E, 0°/);
     const urls = [...html.matchAll(/data:image\/png;base64,([A-Za-z0-9+/=]+)/g)].map((m) => m[1]);
     // 4 maps, their colour bar, the Hovmoller image and its colour bar.
     expect(urls.length).toBe(7);

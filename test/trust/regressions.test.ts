@@ -22,7 +22,7 @@ const EXPECTED: Record<string, RegExp> = {
   // A 94,000-character message of 500 lines.
   'scenario-500-problems.json': /^scenario-500-problems\.json: line 1: basin\.land\[0\]: must be an object/,
   // "internal error" and exit 1: a FormulaError was not recognised as bad input by the builder.
-  'scenario-formula-too-deep.json': /^scenario-formula-too-deep\.json: wind part 0 \('westerly patch'\): formula nested too deeply: more than 50 brackets at character 50/,
+  'scenario-formula-too-deep.json': /^scenario-formula-too-deep\.json: wind part 1 \('westerly patch'\): formula nested too deeply: more than 50 brackets at character 50/,
   // Wind data read by netcdfjs without the bounds-checked header walk: RangeError, TypeError, RangeError.
   'netcdf-wind-dataview-range.nc': /^not a readable NetCDF classic file: (truncated|corrupt|unsupported)/,
   'netcdf-wind-bad-dimension-id.nc': /^not a readable NetCDF classic file: (truncated|corrupt|unsupported)/,

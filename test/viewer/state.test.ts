@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { FrameHistory, formatBytes, framesInBudget } from '../../viewer/state/frame-history.ts';
-import { autoRange, checkFixedRange, niceCeil, steadyRange, ticks } from '../../viewer/state/colour-range.ts';
+import { autoRange, checkFixedRange, niceCeil, steadyRange } from '../../viewer/state/colour-range.ts';
 import { characteristics, clipLine, degreesPerDay } from '../../viewer/state/characteristics.ts';
 import { availableDisplays, displayAt, fillDisplay } from '../../viewer/state/display-fields.ts';
 import { alignSeries, ProbeStore } from '../../viewer/state/probe-store.ts';
@@ -85,9 +85,8 @@ describe('colour ranges', () => {
     expect(checkFixedRange(NaN, 1)).toMatch(/two numbers/);
     expect(checkFixedRange(-1, 1)).toBeNull();
   });
-  it('nice numbers and ticks', () => {
+  it('nice numbers (the ticks: test/viewer/display-conventions.test.ts)', () => {
     expect([niceCeil(0.7), niceCeil(1.2), niceCeil(3), niceCeil(7)]).toEqual([1, 2, 5, 10]);
-    expect(ticks({ min: -20, max: 20 }, 4)).toEqual([-20, -10, 0, 10, 20]);
   });
 });
 

@@ -11,11 +11,13 @@ import type { RunData } from '../../model/io/run-data.ts';
 import { measureWaves } from '../../model/report/measure.ts';
 import { probeColour } from '../panels/probes.ts';
 import { latLabel } from '../render/geo.ts';
+import { fieldLabel, fieldName } from '../state/display-fields.ts';
 import { button, el } from '../library-panel/dom.ts';
 import { gridInfoOf } from '../library-panel/grid-info.ts';
 import { MapBox } from '../library-panel/map-box.ts';
 import { waveRows, wavesTable, type WaveRow } from '../library-panel/waves.ts';
-import { drawHovmoller } from './hov-image.ts';
+import { drawHovmoller, type TheoryStart } from './hov-image.ts';
+import { pulseStart } from '../state/characteristics.ts';
 import { differenceRange, maxAbs, sharedRange } from './ranges.ts';
 import { differenceRows, differenceTable, type DifferenceRow } from './scenario-table.ts';
 
@@ -70,6 +72,7 @@ export class CompareView {
   private readonly waves = el('div', { id: 'cmp-waves', className: 'lib-waves-box' });
   private cmp: RunComparison | null = null;
   private labels: [string, string] = ['A', 'B'];
+  private theory: [TheoryStart | null, TheoryStart | null] = [null, null];
   private plot: uPlot | null = null;
   state: CompareState | null = null;
 
@@ -88,10 +91,11 @@ export class CompareView {
       ),
     );
     this.body.append(
-      el('div', { className: 'row small' }, el('label', {}, 'Field ', this.field), el('label', { className: 'lib-scrub' }, 'Matching time ', this.slider), this.day),
+      el('div', { className: 'row small' }, el('label', {}, 'Map shows ', this.field), el('label', { className: 'lib-scrub' }, 'Day in both runs ', this.slider), this.day),
       el('div', { className: 'cmp-maps' }, this.mapA.root, this.mapB.root, this.mapD.root),
       this.mapNote,
       el('h4', {}, 'Hovmoller diagrams'),
+      el('p', { className: 'legend' }, el('span', { className: 'swatch kelvin' }), ' Kelvin wave, east at c ', el('span', { className: 'swatch rossby' }), ' long Rossby wave, west at c/3, from each run\u2019s pulsed wind patch; A and B on one colour scale, B \u2212 A on its own'),
       el('div', { className: 'row small' }, el('label', {}, 'Latitude ', this.hovLat)),
       el('div', { className: 'cmp-hovs' }, this.hovA, this.hovB, this.hovD),
       el('h4', {}, 'Probes (A solid, B dashed)'),
@@ -144,6 +148,11 @@ export class CompareView {
     const [a, b] = await Promise.all([this.host.runFor(va), this.host.runFor(vb)]);
     if (!a || !b) return;
     this.labels = [a.label, b.label];
+    const theoryOf = (run: RunData): TheoryStart | null => {
+      const s = pulseStart(run.scenarioJson);
+      return s ? { ...s, c: run.physics.waveSpeed } : null;
+    };
+    this.theory = [theoryOf(a.run), theoryOf(b.run)];
     let cmp: RunComparison;
     try {
       cmp = compareRuns(a.run, b.run);
@@ -179,7 +188,7 @@ export class CompareView {
     }
     this.setSectionsVisible(true);
     this.showStatus(`A: ${a.label}; B: ${b.label}. Grid: ${cmp.grid!.note}. ${cmp.commonTimes.length} matching times (within ${+cmp.toleranceDays.toFixed(3)} days), ${cmp.fieldTimes.length} with maps in both.`, false);
-    const opts = cmp.fields.map((f) => new Option(`${f}: ${FIELD_INFO[f].longName} (${FIELD_INFO[f].units})`, f));
+    const opts = cmp.fields.map((f) => new Option(fieldLabel(f), f));
     for (const sel of [this.field, this.probeField]) {
       const keep = sel.value;
       sel.replaceChildren(...opts.map((o) => new Option(o.text, o.value)));
@@ -235,12 +244,12 @@ export class CompareView {
     this.mapA.setTitle(`A: ${la}, day ${t.dayA.toFixed(1)}`);
     this.mapB.setTitle(`B: ${lb}, day ${t.dayB.toFixed(1)}`);
     this.mapD.setTitle(`B − A, day ${t.day.toFixed(1)}`);
-    this.mapA.draw(a, shared, 'diverging', `${f} (A and B share this range)`, units);
-    this.mapB.draw(b, shared, 'diverging', `${f} (A and B share this range)`, units);
+    this.mapA.draw(a, shared, 'anomaly', `${fieldName(f)}, A and B on one scale`, units);
+    this.mapB.draw(b, shared, 'anomaly', `${fieldName(f)}, A and B on one scale`, units);
     const m = maxAbs(d);
-    this.mapD.draw(d, differenceRange(d), 'diverging', `${f}, B − A`, units);
+    this.mapD.draw(d, differenceRange(d), 'anomaly', `${fieldName(f)}, B − A`, units);
     this.day.textContent = `day ${t.day.toFixed(1)} (${Number(this.slider.value) + 1} of ${ft.length})`;
-    this.mapNote.textContent = `Largest |B − A| of ${f} at this time: ${m.toPrecision(3)} ${units}; over the whole run: ${(cmp.maxAbsDifference[f] ?? NaN).toPrecision(3)} ${units}.`;
+    this.mapNote.textContent = `Largest |B − A| of the ${fieldName(f).toLowerCase()} at this time: ${m.toPrecision(3)} ${units}; over the whole run: ${(cmp.maxAbsDifference[f] ?? NaN).toPrecision(3)} ${units}.`;
     if (this.state) Object.assign(this.state, { shownDay: t.day, field: f, maxAbsShown: m });
   }
 
@@ -253,8 +262,8 @@ export class CompareView {
       return;
     }
     const s = sharedRange(h.a, h.b).max;
-    drawHovmoller(this.hovA, h.lon, h.days, h.a, s, `A: h′ at ${latLabel(h.rowLatA)}`);
-    drawHovmoller(this.hovB, h.lon, h.days, h.b, s, `B: h′ at ${latLabel(h.rowLatB)}`);
+    drawHovmoller(this.hovA, h.lon, h.days, h.a, s, `A: h′ at ${latLabel(h.rowLatA)}`, this.theory[0]);
+    drawHovmoller(this.hovB, h.lon, h.days, h.b, s, `B: h′ at ${latLabel(h.rowLatB)}`, this.theory[1]);
     drawHovmoller(this.hovD, h.lon, h.days, h.diff, differenceRange(h.diff).max, 'B − A');
   }
 
@@ -268,7 +277,13 @@ export class CompareView {
       this.probeHost.textContent = 'The runs have no probe of the same name.';
       return;
     }
-    this.probeHost.replaceChildren();
+    // Our own key: one colour per probe, A solid and B dashed (uPlot's legend stays off).
+    const key = el('div', { className: 'probe-legend', id: 'cmp-probe-legend' }, ...cmp.probes.map((p, n) => {
+      const line = el('span', { className: 'line' });
+      line.style.borderColor = probeColour(n);
+      return el('span', { className: 'key' }, line, p.name);
+    }), el('span', { className: 'hint' }, 'A solid, B dashed'));
+    this.probeHost.replaceChildren(key);
     const x = Array.from(cmp.probes[0].days);
     const ys: Array<Array<number | null>> = [];
     const series: uPlot.Series[] = [{ label: 'day' }];
@@ -280,7 +295,7 @@ export class CompareView {
       series.push({ label: `${p.name} A`, stroke: probeColour(n), width: 1.5 }, { label: `${p.name} B`, stroke: probeColour(n), width: 1.5, dash: [6, 4] });
     });
     this.plot = new uPlot(
-      { width: Math.max(320, Math.min(900, this.probeHost.clientWidth || 640)), height: 220, scales: { x: { time: false } }, axes: [{ label: 'day' }, { label: FIELD_INFO[f].units, size: 60 }], series },
+      { width: Math.max(320, Math.min(900, this.probeHost.clientWidth || 640)), height: 220, scales: { x: { time: false } }, axes: [{ label: 'day' }, { label: FIELD_INFO[f].units, size: 60 }], series, legend: { show: false } },
       [x, ...ys] as uPlot.AlignedData,
       this.probeHost,
     );

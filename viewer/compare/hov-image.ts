@@ -5,12 +5,22 @@ import { colourAt, lookupTable } from '../render/colour-maps.ts';
 import { drawAxes } from '../render/axes.ts';
 import { graticuleLines, graticuleStep, lonLabel } from '../render/geo.ts';
 import { formatValue } from '../panels/colour-bar.ts';
+import { THEORY_LINES } from '../../model/display/conventions.ts';
+import { EARTH } from '../../model/config.ts';
+import { characteristics } from '../state/characteristics.ts';
+
+/** Where the Kelvin and long Rossby lines start on a run's diagram, and that run's c. */
+export interface TheoryStart {
+  lon: number;
+  day: number;
+  c: number;
+}
 
 const M = { left: 40, right: 8, top: 18, bottom: 20 };
 
 /** RGBA pixels, one per longitude and time, latest time on the top row. */
 export function hovPixels(values: ArrayLike<number>, nx: number, nt: number, scale: number): Uint8ClampedArray<ArrayBuffer> {
-  const lut = lookupTable('diverging');
+  const lut = lookupTable('anomaly');
   const px = new Uint8ClampedArray(nx * nt * 4);
   for (let n = 0; n < nt; n++) {
     const y = nt - 1 - n;
@@ -23,7 +33,7 @@ export function hovPixels(values: ArrayLike<number>, nx: number, nt: number, sca
   return px;
 }
 
-export function drawHovmoller(canvas: HTMLCanvasElement, lon: Float64Array, days: Float64Array, values: Float32Array, scale: number, title: string): void {
+export function drawHovmoller(canvas: HTMLCanvasElement, lon: Float64Array, days: Float64Array, values: Float32Array, scale: number, title: string, theory: TheoryStart | null = null): void {
   const ctx = canvas.getContext('2d');
   if (!ctx) return;
   const W = canvas.width;
@@ -59,4 +69,25 @@ export function drawHovmoller(canvas: HTMLCanvasElement, lon: Float64Array, days
     { values: graticuleLines(d0, d1, graticuleStep(d1 - d0, Math.floor(p.h / 30))), at: (d) => p.y + p.h - ((d - d0) / (d1 - d0)) * p.h, label: (d) => `${d}` },
     'rgba(0,0,0,0.25)',
   );
+  // The theory lines as every view draws them: Kelvin solid, long Rossby dashed.
+  if (theory && theory.c > 0) {
+    const X = (l: number) => p.x + ((l - west) / (east - west)) * p.w;
+    const Y = (d: number) => p.y + p.h - ((d - d0) / (d1 - d0)) * p.h;
+    ctx.save();
+    ctx.beginPath();
+    ctx.rect(p.x, p.y, p.w, p.h);
+    ctx.clip();
+    for (const l of characteristics(theory, theory.c, EARTH.radius, { lonWest: west, lonEast: east, days: d1 })) {
+      const style = THEORY_LINES[l.name];
+      ctx.strokeStyle = style.colour;
+      ctx.lineWidth = style.width;
+      ctx.setLineDash(style.dash);
+      ctx.beginPath();
+      ctx.moveTo(X(l.from[0]), Y(l.from[1]));
+      ctx.lineTo(X(l.to[0]), Y(l.to[1]));
+      ctx.stroke();
+    }
+    ctx.restore();
+  }
+  canvas.dataset.scale = String(scale);
 }

@@ -1,18 +1,20 @@
 // Colour ranges for a comparison: A and B share one range (so equal colours mean equal values),
-// the difference gets its own, symmetric about zero (white: no difference).
+// the difference gets its own, symmetric about zero (the pale middle: no difference). Both follow
+// the rule every view keeps (model/display/conventions.ts): the 99.5th percentile of |value|,
+// rounded up to a round number.
 
-import { finiteExtent, niceCeil, type Range } from '../state/colour-range.ts';
+import { symmetricRange } from '../../model/display/conventions.ts';
+import { finiteExtent, type Range } from '../state/colour-range.ts';
 
-/** Symmetric range over both fields (the fields compared are signed: diverging colours). */
+/** Symmetric range over both fields (the fields compared are signed: the anomaly colours). */
 export function sharedRange(a: ArrayLike<number>, b: ArrayLike<number>): Range {
-  const m = Math.max(maxAbs(a), maxAbs(b));
-  const s = niceCeil(m) || 1;
+  const s = symmetricRange([a, b]);
   return { min: -s, max: s };
 }
 
-/** Symmetric range of a difference; a difference of exactly zero everywhere shows white on ±1. */
+/** Symmetric range of a difference; a difference of exactly zero everywhere shows pale on ±1. */
 export function differenceRange(d: ArrayLike<number>): Range {
-  const s = niceCeil(maxAbs(d)) || 1;
+  const s = symmetricRange([d]);
   return { min: -s, max: s };
 }
 

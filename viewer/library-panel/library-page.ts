@@ -3,7 +3,9 @@
 // scenario, export as CF-NetCDF, import a Pycno NetCDF by picker or drop, report, open), the
 // opened run's view and the comparison of two runs. The library itself is viewer/library/store.ts.
 
+import { latLabel, lonLabel } from '../../model/display/coordinates.ts';
 import type { RunData } from '../../model/io/run-data.ts';
+import { toNetcdf } from '../../model/io/run-export.ts';
 import { runReport } from '../../model/report/report.ts';
 import { formatBytes } from '../state/frame-history.ts';
 import { LibraryError, RunLibrary, estimateSize, type SavedRunMeta } from '../library/store.ts';
@@ -30,13 +32,23 @@ export interface LibraryHost {
 /** Snapshot fields the page keeps for saving the run on screen. */
 const LIVE_BUDGET = 160e6;
 
+/**
+ * The size a saved run aims at by default: the first choice of the save form whose estimate is
+ * at most this, so a browser's storage holds dozens of runs (the user can still keep every map).
+ */
+export const DEFAULT_SAVE_BYTES = 16e6;
+
+/** The default snapshot interval among the choices: the finest one within DEFAULT_SAVE_BYTES, else the coarsest. */
+export function defaultSnapshotChoice(choices: readonly number[], size: (every: number) => number): number {
+  return choices.find((k) => size(k) <= DEFAULT_SAVE_BYTES) ?? choices[choices.length - 1];
+}
+
 function summaryLine(m: SavedRunMeta): string {
   const s = m.summary;
   const b = s.basin;
-  const lat = (x: number) => `${Math.abs(x)}°${x < 0 ? 'S' : x > 0 ? 'N' : ''}`;
   const parts = [
     s.scenarioName,
-    `${b.lonWest}–${b.lonEast}°E, ${lat(b.latSouth)}–${lat(b.latNorth)} at ${b.resolution}`,
+    `${lonLabel(b.lonWest)}–${lonLabel(b.lonEast)}, ${latLabel(b.latSouth)}–${latLabel(b.latNorth)} at ${b.resolution}`,
     `g′ ${s.reducedGravity} m s-2, H ${s.layerThickness} m, friction ${s.frictionDays === null ? 'none' : `${s.frictionDays} days`}, ${s.dynamics}`,
     s.windParts.length ? `wind: ${s.windParts.join('; ')}` : 'no wind',
     `days ${+m.firstDay.toFixed(2)}–${+m.lastDay.toFixed(2)}, ${m.records} records, ${m.snapshots} maps (every ${m.snapshotEvery})`,
@@ -64,6 +76,7 @@ export class LibraryPage {
   private readonly saveEvery = el('select', { id: 'lib-save-every', 'aria-label': 'snapshot interval' });
   private readonly saveWhat = el('p', { id: 'lib-save-what', className: 'hint' });
   private readonly saveMsg = el('p', { id: 'lib-save-msg', className: 'field-msg', role: 'alert' });
+  private readonly storageLine = el('p', { id: 'lib-storage', className: 'hint' });
   private readonly importInput = el('input', { id: 'lib-import', type: 'file', accept: '.nc,application/x-netcdf,application/netcdf' });
   ready = false;
 
@@ -105,6 +118,11 @@ export class LibraryPage {
       this.liveStatus = `The page keeps a map of every ${every} output intervals of this run (memory limit ${formatBytes(this.live.budget)}).`;
     }
     if (this.live.length === 1 || every !== null) this.updateSaveButton();
+  }
+
+  /** The maps the page keeps of the run on screen (for a probe added later), and how often. */
+  keptMaps(): { days: number[]; maps: Array<Partial<Record<string, Float32Array>>>; every: number } {
+    return { ...this.live.keptMaps(), every: this.live.keptEvery };
   }
 
   private updateSaveButton(): void {
@@ -167,6 +185,7 @@ export class LibraryPage {
           el('div', { className: 'row' }, this.saveBtn, drop),
           el('p', { id: 'lib-live-note', className: 'hint' }),
           this.saveForm,
+          this.storageLine,
           this.panelMsg,
           this.undoBar,
           this.summaryView.root,
@@ -215,7 +234,7 @@ export class LibraryPage {
         return new Option(`every ${+(k * per).toFixed(3)} days: ${kept} maps, about ${formatBytes(estimateSize(run, k))}`, String(k));
       }),
     );
-    this.saveEvery.value = String(choices[0]);
+    this.saveEvery.value = String(defaultSnapshotChoice(choices, (k) => estimateSize(run, k)));
     this.describeSave();
     this.saveForm.hidden = false;
     this.saveName.focus();
@@ -259,9 +278,29 @@ export class LibraryPage {
     this.metas = await this.lib.list();
     for (const id of [...this.cache.keys()]) if (!this.metas.some((m) => m.id === id)) this.cache.delete(id);
     this.list.replaceChildren(...(this.metas.length ? this.metas.map((m) => this.item(m)) : [el('li', { className: 'hint' }, 'No saved runs yet. Run a scenario and save it, or import a run file.')]));
+    void this.showStorage();
     const choices: CompareChoice[] = this.metas.map((m) => ({ value: m.id, label: `${m.name} (saved ${shortDate(m.savedAt)})` }));
     choices.push({ value: 'live', label: 'the run on screen (live)' });
     this.compareView.setChoices(choices);
+  }
+
+  /** What the saved runs take, and what the browser says is left for this page. */
+  private async showStorage(): Promise<void> {
+    const used = this.metas.reduce((sum, m) => sum + m.sizeBytes, 0);
+    const runs = `${this.metas.length} saved ${this.metas.length === 1 ? 'run' : 'runs'}, about ${formatBytes(used)}`;
+    let left = 'the browser does not say how much space is left';
+    try {
+      const est = await navigator.storage?.estimate?.();
+      if (est && typeof est.quota === 'number' && typeof est.usage === 'number') {
+        left = `this page uses ${formatBytes(est.usage)} of the browser's storage, about ${formatBytes(Math.max(0, est.quota - est.usage))} left`;
+        this.storageLine.dataset.usage = String(est.usage);
+        this.storageLine.dataset.left = String(Math.max(0, est.quota - est.usage));
+      }
+    } catch {
+      /* left unknown */
+    }
+    this.storageLine.dataset.used = String(used);
+    this.storageLine.textContent = `Storage: ${runs}; ${left}.`;
   }
 
   private item(m: SavedRunMeta): HTMLLIElement {
@@ -372,9 +411,26 @@ export class LibraryPage {
     await this.host.openScenario(text, `${fileSafe(m.name)}-copy.json`);
   }
 
+  /** The CF-NetCDF file of a saved run, with its progress on the panel's message line. */
   private async exportRun(m: SavedRunMeta): Promise<void> {
-    const bytes = await this.lib!.exportNetcdf(m.id);
+    const say = (t: string) => {
+      this.panelMsg.textContent = t;
+      this.panelMsg.classList.remove('bad');
+    };
+    say(`Exporting '${m.name}': reading it from the library…`);
+    const run = await this.get(m.id);
+    const bytes = await toNetcdf(run, {
+      progress: async (done, total) => {
+        say(`Exporting '${m.name}': ${Math.round((100 * done) / total)} %`);
+        this.panelMsg.dataset.progress = String(done / total);
+        // Let the page draw the line (and stay responsive) between the steps.
+        await new Promise((r) => setTimeout(r, 0));
+      },
+    });
     download(bytes, `${fileSafe(m.name)}.nc`, 'application/x-netcdf');
+    const maps = run.snapshots.length === run.days.length ? `${run.snapshots.length} maps, one per record` : `${run.snapshots.length} kept maps on their own time axis map_time`;
+    say(`Exported '${m.name}': ${fileSafe(m.name)}.nc, ${formatBytes(bytes.length)} (${maps}; the series of all ${run.days.length} records).`);
+    this.panelMsg.dataset.bytes = String(bytes.length);
   }
 
   private async report(m: SavedRunMeta): Promise<void> {

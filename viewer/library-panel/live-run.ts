@@ -118,6 +118,18 @@ export class LiveRun {
     });
   }
 
+  /** The days and full maps kept so far (every keptEvery-th output record), oldest first. */
+  keptMaps(): { days: number[]; maps: Array<Partial<Record<FieldName, Float32Array>>> } {
+    const days: number[] = [];
+    const maps: Array<Partial<Record<FieldName, Float32Array>>> = [];
+    for (const r of this.records) {
+      if (!r.fields) continue;
+      days.push(r.sample.day);
+      maps.push(r.fields);
+    }
+    return { days, maps };
+  }
+
   snapshotCount(): number {
     return this.records.reduce((c, r) => c + (r.fields ? 1 : 0), 0);
   }

@@ -2,7 +2,7 @@
 // run or one side of a comparison. The WebGL context is made on first use.
 
 import { drawColourBar } from '../panels/colour-bar.ts';
-import { lookupTable, type MapName } from '../render/colour-maps.ts';
+import { lookupTable, MAP_TITLES, type MapName } from '../render/colour-maps.ts';
 import { MapView, type Mark } from '../render/map-view.ts';
 import type { Range } from '../state/colour-range.ts';
 import type { GridInfo } from '../../worker/protocol.ts';
@@ -48,7 +48,7 @@ export class MapBox {
     v.forgetArrows();
     v.gl.setColourMap(map, lookupTable(map));
     v.draw(values, range, [], marks, null);
-    drawColourBar(this.bar, lookupTable(map), range, label, units);
+    drawColourBar(this.bar, lookupTable(map), range, label, units, MAP_TITLES[map]);
     this.gl.dataset.range = `${range.min},${range.max}`;
   }
 }

@@ -10,6 +10,7 @@ import { HovmollerPanel } from '../panels/hovmoller.ts';
 import { ProbePanel } from '../panels/probes.ts';
 import { mapFor } from '../render/colour-maps.ts';
 import { latLabel } from '../render/geo.ts';
+import { symmetricRange } from '../../model/display/conventions.ts';
 import { autoRange, type Range } from '../state/colour-range.ts';
 import { availableDisplays, displayField, fillDisplay, type DisplayKey } from '../state/display-fields.ts';
 import { HovmollerStore } from '../state/hovmoller-store.ts';
@@ -21,10 +22,19 @@ import { gridInfoOf } from './grid-info.ts';
 import { MapBox } from './map-box.ts';
 import { waveRows, wavesTable, type WaveRow } from './waves.ts';
 
-/** One colour range over every snapshot of a field, so colours mean the same while scrubbing. */
+/**
+ * One colour range over every snapshot of a field, so colours mean the same while scrubbing:
+ * for a signed field the rule of every view (the 99.5th percentile of |value|, rounded up).
+ */
 export function rangeOverSnapshots(run: RunData, key: DisplayKey): Range {
   const kind = displayField(key).kind;
   const out = new Float32Array(run.grid.nx * run.grid.ny);
+  if (kind === 'diverging') {
+    const all: Float32Array[] = [];
+    for (const s of run.snapshots) if (fillDisplay(key, s.fields, run.physics.layerThickness, out)) all.push(out.slice());
+    const m = symmetricRange(all);
+    return { min: -m, max: m };
+  }
   let r: Range | null = null;
   for (const s of run.snapshots) {
     if (!fillDisplay(key, s.fields, run.physics.layerThickness, out)) continue;
@@ -64,14 +74,14 @@ export class RunView {
       'div',
       { id: 'lib-view', className: 'lib-view', hidden: true },
       el('div', { className: 'row' }, this.title, report, close),
-      el('div', { className: 'row small' }, el('label', {}, 'Field ', this.field), el('label', { className: 'lib-scrub' }, 'Time ', this.slider), this.day),
+      el('div', { className: 'row small' }, el('label', {}, 'Map shows ', this.field), el('label', { className: 'lib-scrub' }, 'Saved map ', this.slider), this.day),
       this.map.root,
       el('h4', {}, 'Measured against theory'),
       this.waves,
       el(
         'div',
         { className: 'split' },
-        el('div', {}, el('h4', {}, 'Hovmoller diagram'), el('div', { className: 'row small' }, el('label', {}, 'Latitude ', this.hovLat), el('span', { className: 'hint' }, 'click to move the start of the Kelvin (c) and long Rossby (c/3) lines')), this.hovCanvas),
+        el('div', {}, el('h4', {}, 'Hovmoller diagram'), el('div', { className: 'row small' }, el('label', {}, 'Latitude ', this.hovLat), el('span', { className: 'hint' }, 'Kelvin wave (east at c) solid, long Rossby wave (west at c/3) dashed; a click moves their start')), this.hovCanvas),
         el('div', {}, el('h4', {}, 'Probes'), el('div', { className: 'row small' }, el('label', {}, 'Series ', this.probeField)), this.probeHost, this.probeList),
       ),
     );

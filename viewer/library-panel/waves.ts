@@ -1,6 +1,7 @@
 // "Measured against theory": the Kelvin and long Rossby speeds measured on a run's Hovmoller
 // diagrams (model/report/measure.ts) beside c = sqrt(g' H) and c/3, as rows for the page.
 
+import { latLabel } from '../../model/display/coordinates.ts';
 import { isMeasured, type NotMeasured, type SpeedMeasure, type WaveMeasures } from '../../model/report/measure.ts';
 import { formatValue } from '../panels/colour-bar.ts';
 
@@ -20,10 +21,7 @@ function speedText(v: number): string {
   return v.toFixed(Math.abs(v) >= 1 ? 2 : 3);
 }
 
-function latText(lat: number): string {
-  const r = Math.round(lat * 100) / 100;
-  return r === 0 ? '0°' : `${Math.abs(r)}°${r > 0 ? 'N' : 'S'}`;
-}
+const latText = latLabel;
 
 function row(wave: WaveRow['wave'], m: SpeedMeasure | NotMeasured | null, theory: number, theoryName: string): WaveRow {
   const theoryText = `${theoryName} = ${speedText(theory)} m/s`;

@@ -27,10 +27,15 @@ export function wireControls(page: Page, runs: RunLifecycle, drawing: DrawLoop, 
     void engine.setSpeed(v === 'max' ? 'max' : Number(v));
   });
   $('btn-reset').addEventListener('click', () => void runs.reset());
+  // Apply and run: the edited values from day 0, and the run goes at once.
   $('btn-apply').addEventListener('click', async () => {
     if (!panel.lastCheck.valid) return;
     notices.clear();
-    if (await runs.load(panel.text(), panel.fileName)) panel.commit();
+    if (await runs.load(panel.text(), panel.fileName)) {
+      panel.commit();
+      state.viewIndex = null;
+      void engine.start();
+    }
   });
   $('btn-revert').addEventListener('click', () => panel.revert());
 
@@ -44,7 +49,7 @@ export function wireControls(page: Page, runs: RunLifecycle, drawing: DrawLoop, 
     probePanel.key = (ev.target as HTMLSelectElement).value as DisplayKey;
     drawing.queue(true);
   });
-  for (const id of ['show-currents', 'show-wind', 'range-min', 'range-max']) $(id).addEventListener('input', redraw);
+  for (const id of ['show-currents', 'show-wind', 'range-min', 'range-max', 'arrow-ref-current', 'arrow-ref-wind', 'arrow-density']) $(id).addEventListener('input', redraw);
   for (const r of document.querySelectorAll('input[name="range-mode"]')) {
     r.addEventListener('change', () => {
       drawing.rescanRange();
@@ -81,4 +86,18 @@ export function wireControls(page: Page, runs: RunLifecycle, drawing: DrawLoop, 
     layoutMap();
     drawing.queue(true);
   });
+
+  // ---- the scenario drawer ----
+  const layout = $('app');
+  const toggle = $<HTMLButtonElement>('btn-scenario');
+  const setDrawer = (open: boolean) => {
+    layout.classList.toggle('scenario-open', open);
+    toggle.setAttribute('aria-expanded', String(open));
+    layoutMap();
+    drawing.queue(true);
+  };
+  // Open on a wide screen, where the map and the diagrams still fit beside it; closed on a narrow one.
+  setDrawer(window.innerWidth >= 1200);
+  toggle.addEventListener('click', () => setDrawer(!layout.classList.contains('scenario-open')));
+  $('btn-scenario-close').addEventListener('click', () => setDrawer(false));
 }

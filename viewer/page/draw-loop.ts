@@ -6,7 +6,7 @@
 // when what they show changed.
 
 import { formatValue, drawColourBar } from '../panels/colour-bar.ts';
-import { lookupTable, mapFor } from '../render/colour-maps.ts';
+import { lookupTable, MAP_TITLES, mapFor } from '../render/colour-maps.ts';
 import type { VectorLayer } from '../render/map-view.ts';
 import { autoRange, checkFixedRange, steadyRange, type Range } from '../state/colour-range.ts';
 import { displayField, fillDisplay, type DisplayKey } from '../state/display-fields.ts';
@@ -70,13 +70,7 @@ export class DrawLoop {
     }
     if (!this.displayOk) return;
     const range = this.currentRange(df.kind, fresh);
-    const layers: VectorLayer[] = [];
-    if ($<HTMLInputElement>('show-currents').checked && f.fields.u_surf && f.fields.v_surf) {
-      layers.push({ name: 'surface current', u: f.fields.u_surf, v: f.fields.v_surf, units: 'm/s', colour: [20, 20, 20] });
-    }
-    if ($<HTMLInputElement>('show-wind').checked && f.fields.taux && f.fields.tauy) {
-      layers.push({ name: 'wind stress', u: f.fields.taux, v: f.fields.tauy, units: 'N m-2', colour: [120, 30, 160] });
-    }
+    const layers = this.arrowLayers(f);
     // Over the SST anomaly, the wind that answers it.
     if (key === 'sst_anom' && f.fields.u_atm && f.fields.v_atm) {
       layers.push({ name: 'answering wind', u: f.fields.u_atm, v: f.fields.v_atm, units: 'm/s', colour: [0, 90, 40] });
@@ -88,14 +82,17 @@ export class DrawLoop {
       map.draw(this.display, range, layers, this.page.probes.probes, state.cursor, { frame: f, field: key });
       const bar = `${key}|${range.min}|${range.max}`;
       if (bar !== this.barKey) {
-        drawColourBar($<HTMLCanvasElement>('colour-bar'), lookupTable(mapFor(key)), range, df.label, df.units);
+        drawColourBar($<HTMLCanvasElement>('colour-bar'), lookupTable(mapFor(key)), range, df.label, df.units, MAP_TITLES[mapFor(key)]);
         this.barKey = bar;
       }
     } else this.barKey = ''; // the preview drew its own colour bar
     windPanel.setModelDay(f.day);
     if (fresh) info.framesDrawn++;
     info.shownDay = f.day;
-    setText('map-day', `day ${f.day.toFixed(1)}${state.viewIndex !== null ? ' (looking back)' : ''}`);
+    setText('map-day', `day ${f.day.toFixed(1)}`);
+    // A badge whose place is always kept, so the map never moves when it shows.
+    const back = $('map-looking-back');
+    if (back.hidden !== (state.viewIndex === null)) back.hidden = state.viewIndex === null;
     this.updateSlider(f);
     const cell = state.hover ?? state.cursor;
     const rk = cell ? `${cell.i},${cell.j}|${key}` : '';
@@ -111,6 +108,33 @@ export class DrawLoop {
     if (hovPanel.rows !== this.hovShown.rows || rest !== this.hovShown.rest) this.hovThrottle.request(rest !== this.hovShown.rest);
     this.probeThrottle.request();
     setText('budget-note', this.budgetNote());
+  }
+
+  /** The arrow layers asked for, with the key arrows the user set (an empty box: automatic). */
+  private arrowLayers(f: KeptFrame): VectorLayer[] {
+    const layers: VectorLayer[] = [];
+    const problems: string[] = [];
+    const key = (id: string, what: string): number | undefined => {
+      const t = $<HTMLInputElement>(id).value.trim();
+      if (t === '') return undefined;
+      const v = Number(t);
+      if (!(v > 0) || !Number.isFinite(v)) {
+        problems.push(`${what} key: give a speed above 0, or leave it empty for automatic (got '${t}')`);
+        return undefined;
+      }
+      return v;
+    };
+    const current = key('arrow-ref-current', 'current');
+    const wind = key('arrow-ref-wind', 'wind stress');
+    if ($<HTMLInputElement>('show-currents').checked && f.fields.u_surf && f.fields.v_surf) {
+      layers.push({ name: 'surface current', u: f.fields.u_surf, v: f.fields.v_surf, units: 'm/s', colour: [20, 20, 20], reference: current });
+    }
+    if ($<HTMLInputElement>('show-wind').checked && f.fields.taux && f.fields.tauy) {
+      layers.push({ name: 'wind stress', u: f.fields.taux, v: f.fields.tauy, units: 'N m-2', colour: [120, 30, 160], reference: wind });
+    }
+    this.page.map.arrowSpacing = Number($<HTMLSelectElement>('arrow-density').value) || 22;
+    setText('arrow-msg', problems.join('; '));
+    return layers;
   }
 
   /** The read-out of the cell under the pointer (or the cursor) now, outside the draw. */

@@ -1,11 +1,11 @@
 // The map takes the pointer (the read-out follows it), clicks (a cursor, or a probe in probe mode)
 // and keys (arrows move the cursor, Enter or p puts a probe there).
 
-import type { FieldName } from '../../model/diagnostics/fields.ts';
 import { $, checkedValue } from './dom.ts';
 import type { DrawLoop } from './draw-loop.ts';
 import type { Page } from './page.ts';
 import type { Cell } from './state.ts';
+import type { KeptFrame } from '../state/frame-history.ts';
 
 export function wireMapInput(page: Page, drawing: DrawLoop): void {
   const { state, map } = page;
@@ -45,9 +45,13 @@ export function wireMapInput(page: Page, drawing: DrawLoop): void {
   });
 }
 
-/** A probe of the page at a cell, its series started from the frames still kept, oldest first. */
+/**
+ * A probe of the page at a cell. Its series before now comes from the maps the page keeps of the
+ * run (every output record while they fit in memory, else every k-th), or, failing those, from
+ * the frames kept for looking back; the probe list says which days it got.
+ */
 function addProbeAt(page: Page, c: Cell): void {
-  const { state, probes, history, probePanel, notices } = page;
+  const { state, probes, history, probePanel, notices, library } = page;
   const run = state.run;
   if (!run) return;
   const g = run.grid;
@@ -56,12 +60,24 @@ function addProbeAt(page: Page, c: Cell): void {
     notices.message('A probe must sit over the ocean; that cell is land.', 'info');
     return;
   }
-  probes.addPageProbe(g.lon[c.i], g.lat[c.j], k);
-  const p = probes.probes[probes.probes.length - 1];
-  for (let n = 0; n < history.length; n++) {
-    const f = history.at(n)!;
-    p.days.push(f.day);
-    for (const name of run.fields as FieldName[]) p.values[name]!.push(f.fields[name] ? f.fields[name]![k] : NaN);
+  const p = probes.addPageProbe(g.lon[c.i], g.lat[c.j], k);
+  const kept = library.keptMaps();
+  const per = run.outputEveryDays ?? 1;
+  if (kept.days.length > 0) {
+    probes.fillPageProbe(p, kept.days, kept.maps as Array<KeptFrame['fields']>);
+    const every = kept.every > 1 ? `the page's maps, one every ${+(kept.every * per).toFixed(3)} days` : 'the page\u2019s maps of every output';
+    p.note = `days ${dayText(kept.days[0])} to ${dayText(kept.days[kept.days.length - 1])} from ${every}, then as the run goes`;
+  } else {
+    const days: number[] = [];
+    const maps: Array<KeptFrame['fields']> = [];
+    for (let n = 0; n < history.length; n++) {
+      days.push(history.at(n)!.day);
+      maps.push(history.at(n)!.fields);
+    }
+    probes.fillPageProbe(p, days, maps);
+    p.note = days.length ? `days ${dayText(days[0])} to ${dayText(days[days.length - 1])} from the frames kept for looking back` : 'from now on';
   }
   probePanel.renderList();
 }
+
+const dayText = (d: number) => String(+d.toFixed(2));

@@ -19,6 +19,8 @@ export interface PageInfo {
   kept?: () => unknown;
   /** The checksum of the latest h_anom frame, to compare with a Node run. */
   hAnomChecksum?: () => unknown;
+  /** The key arrows drawn last, with the longest arrow of each layer (the arrows' test). */
+  arrows?: () => unknown;
   /** The engine's own SHA-256 of its u, v, h bits, to compare with the command line. */
   stateChecksum?: () => unknown;
 }

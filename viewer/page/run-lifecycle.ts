@@ -44,6 +44,8 @@ export class RunLifecycle {
       library.sample(s);
       hov.add(s.day, s.hovmoller);
       probes.addSample(s.day, s.probeValues);
+      // Page probes from every sample that carries its maps, so they miss no output interval.
+      if (s.fields) probes.addFrame(s.day, s.fields);
     }
     probes.addFrame(f.day, f.fields);
     totals.add(f.samples.map((s) => s.integrals), f.integrals);
@@ -111,9 +113,11 @@ export class RunLifecycle {
       const err = e as EngineError;
       // A lost worker has its own notice, with the restart button.
       if (!(e instanceof EngineLostError)) notices.message(err.message ?? String(e));
-      // The engine holds no run now; the map keeps the last picture but the controls wait for a scenario.
+      // The engine holds no run now; the map keeps the last picture but the controls wait for a
+      // scenario. Nothing ran, so the status says the scenario was not loaded, not that a run stopped.
       state.run = null;
-      this.onStatus('failed');
+      this.onStatus('empty');
+      $('status').textContent = 'scenario not loaded (see the message)';
       return false;
     }
   }

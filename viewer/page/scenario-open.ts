@@ -46,9 +46,11 @@ export class ScenarioOpener {
       notices.message(check.lines.join('\n'));
       return;
     }
+    // The panels show the scenario before the engine has it, so a value typed the moment the
+    // status says "ready to run" lands in a box that stays (never overwritten after the load).
+    panel.setScenario(check.json, fileName);
+    windPanel.setScenario(check.json);
     if (await this.runs.load(text, fileName)) {
-      panel.setScenario(check.json, fileName);
-      windPanel.setScenario(check.json);
       // Show an opened file in the picker too, so the panel never names the wrong scenario.
       const pick = $<HTMLSelectElement>('scenario-pick');
       if (!this.shipped.some((s) => s.file === fileName)) {

@@ -75,7 +75,7 @@ export class CoupledPanel {
     let m = 0;
     for (let k = 0; k < sst.length; k++) if (Number.isFinite(sst[k])) m = Math.max(m, Math.abs(sst[k]));
     const range = m > 0 ? m : 1e-6;
-    const lut = lookupTable('diverging');
+    const lut = lookupTable('anomaly');
     const img = ctx.createImageData(g.nx, g.ny);
     for (let j = 0; j < g.ny; j++) {
       for (let i = 0; i < g.nx; i++) {

@@ -7,7 +7,8 @@ import { LAND_GREY, LUT_SIZE, lookupTable } from '../render/colour-maps.ts';
 import { drawAxes } from '../render/axes.ts';
 import { graticuleLines, graticuleStep, lonLabel } from '../render/geo.ts';
 import { characteristics } from '../state/characteristics.ts';
-import { niceCeil } from '../state/colour-range.ts';
+import { symmetricRange, THEORY_LINES } from '../../model/display/conventions.ts';
+import { latLabel } from '../render/geo.ts';
 import type { HovmollerStore } from '../state/hovmoller-store.ts';
 import { formatValue } from './colour-bar.ts';
 
@@ -102,9 +103,10 @@ export class HovmollerPanel {
     if (!e) return;
     const p = this.plot();
     const rows = this.store.at(this.latIndex);
-    const lut = lookupTable('diverging');
-    // A symmetric range that only widens (the diagram's early rows keep their colours).
-    const m = niceCeil(this.store.maxAbs(this.latIndex));
+    const lut = lookupTable('anomaly');
+    // The range every view uses (conventions.ts), and one that only widens while the run goes
+    // (the diagram's early rows keep their colours).
+    const m = rows.length ? symmetricRange(rows.map((r) => r.values)) : 0;
     if (m > this.scale) this.scale = m;
     const s = this.scale || 1;
 
@@ -173,7 +175,8 @@ export class HovmollerPanel {
     ctx.textAlign = 'left';
     ctx.textBaseline = 'top';
     const lat = this.store.lats[this.latIndex];
-    ctx.fillText(`h′ along ${lat === undefined ? '—' : `${formatValue(lat)}°`}, colour ±${formatValue(s)} m`, p.x, 4);
+    ctx.fillText(`h′ along ${lat === undefined ? '—' : latLabel(lat)}, colour ±${formatValue(s)} m`, p.x, 4);
+    this.canvas.dataset.scale = String(s);
 
     if (this.markDay !== null) {
       const [, y] = this.toPixel(e.lonWest, this.markDay);
@@ -193,9 +196,10 @@ export class HovmollerPanel {
       ctx.rect(p.x, p.y, p.w, p.h);
       ctx.clip();
       for (const l of lines) {
-        ctx.strokeStyle = '#000';
-        ctx.lineWidth = 1.5;
-        ctx.setLineDash(l.name === 'rossby' ? [6, 4] : []);
+        const style = THEORY_LINES[l.name];
+        ctx.strokeStyle = style.colour;
+        ctx.lineWidth = style.width;
+        ctx.setLineDash(style.dash);
         const [x0, y0] = this.toPixel(l.from[0], l.from[1]);
         const [x1, y1] = this.toPixel(l.to[0], l.to[1]);
         ctx.beginPath();

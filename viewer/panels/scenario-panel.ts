@@ -97,6 +97,8 @@ export class ScenarioPanel {
   /** The file as loaded (what the run on screen uses) and the edited copy. */
   private base: Json = {};
   edited: Json = {};
+  /** The scenario as it was opened (a shipped file, a file, a saved run's copy), before any edit. */
+  opened: Json = {};
   fileName = 'scenario.json';
   private boxes = new Map<string, HTMLInputElement>();
   private msgs = new Map<string, HTMLElement>();
@@ -143,6 +145,7 @@ export class ScenarioPanel {
 
   /** Show a scenario file's values (it becomes the run's scenario). */
   setScenario(json: Json, fileName: string): void {
+    this.opened = structuredClone(json);
     this.base = structuredClone(json);
     this.edited = structuredClone(json);
     this.fileName = fileName;
@@ -169,9 +172,14 @@ export class ScenarioPanel {
   }
 
   changed(): boolean {
+    return this.changedFrom(this.base);
+  }
+
+  /** Whether the boxes' values differ from a scenario's (the run's base, or the file as opened). */
+  changedFrom(other: Json): boolean {
     // A value absent from the file reads as what its empty box means ("auto", no friction).
     const norm = (v: unknown, s: ParamSpec) => JSON.stringify(v === undefined ? (s.empty === undefined ? null : s.empty) : v);
-    return PARAMS.some((s) => norm(getPath(this.base, s.path), s) !== norm(getPath(this.edited, s.path), s));
+    return PARAMS.some((s) => norm(getPath(other, s.path), s) !== norm(getPath(this.edited, s.path), s));
   }
 
   private onEdit(): void {
@@ -204,6 +212,16 @@ export class ScenarioPanel {
     this.restartNote.hidden = !this.changed();
     this.applyButton.disabled = !check.valid;
     this.showDerived(check.derived);
+  }
+
+  /**
+   * The engine now runs `json` (applied from elsewhere, e.g. the wind designer): it becomes the
+   * base, and the boxes keep what they hold, so a value typed while it loaded is not lost.
+   */
+  ranWith(json: Json): void {
+    this.base = structuredClone(json);
+    this.edited = structuredClone(json);
+    this.onEdit();
   }
 
   revert(): void {

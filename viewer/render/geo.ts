@@ -8,20 +8,8 @@ export interface Extent {
   latNorth: number;
 }
 
-/** "160°E", "150°W", "0°", "180°": longitudes as a chart reads them. */
-export function lonLabel(lon: number): string {
-  const l = ((((lon + 180) % 360) + 360) % 360) - 180;
-  const r = Math.round(l * 100) / 100;
-  if (r === 0) return '0°';
-  if (Math.abs(r) === 180) return '180°';
-  return `${Math.abs(r)}°${r < 0 ? 'W' : 'E'}`;
-}
-
-export function latLabel(lat: number): string {
-  const r = Math.round(lat * 100) / 100;
-  if (r === 0) return '0°';
-  return `${Math.abs(r)}°${r < 0 ? 'S' : 'N'}`;
-}
+// One formatter for places everywhere (the page, the comparison, the report).
+export { latLabel, lonLabel, placeLabel } from '../../model/display/coordinates.ts';
 
 const STEPS = [0.5, 1, 2, 5, 10, 15, 20, 30, 45, 60, 90];
 

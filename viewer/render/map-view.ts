@@ -8,12 +8,27 @@
 import { drawAxes } from './axes.ts';
 import { MapRenderer, type ArrowSet, type Viewport } from './map-gl.ts';
 import { arrowCells, cellAt, graticuleLines, graticuleStep, latLabel, lonLabel, type Extent } from './geo.ts';
-import { niceCeil } from '../state/colour-range.ts';
+import { roundUp } from '../../model/display/conventions.ts';
 import type { GridInfo } from '../../worker/protocol.ts';
 
 const MARGIN = { left: 46, right: 10, top: 10, bottom: 24 };
-/** CSS pixels between arrows. */
-const ARROW_SPACING = 22;
+/** CSS pixels between arrows, unless the page sets another spacing (its density control). */
+export const ARROW_SPACING = 22;
+/** The percentile of the arrows' lengths that the automatic key arrow stands for. */
+export const KEY_PERCENTILE = 0.95;
+/** The key arrow's length in arrow spacings. */
+const KEY_LENGTH = 1.2;
+
+/**
+ * The automatic key of an arrow layer: the 95th percentile of the arrows' lengths, rounded up
+ * to 1, 2, 2.5 or 5 times a power of ten. A high percentile rather than the largest arrow, so one
+ * fast jet does not shrink every other arrow to a dot.
+ */
+export function keyMagnitude(lengths: Float32Array): number {
+  if (lengths.length === 0) return 0;
+  const sorted = Float32Array.from(lengths).sort();
+  return roundUp(sorted[Math.min(sorted.length - 1, Math.floor(KEY_PERCENTILE * sorted.length))]);
+}
 
 export interface VectorLayer {
   name: string;
@@ -21,6 +36,8 @@ export interface VectorLayer {
   v: Float32Array;
   units: string;
   colour: [number, number, number];
+  /** The magnitude the key arrow stands for, set by the user; absent: chosen from the data. */
+  reference?: number;
 }
 
 /**
@@ -37,6 +54,7 @@ interface ArrowSlot {
   u: Float32Array | null;
   v: Float32Array | null;
   stride: number;
+  reference: number | undefined;
   at: Float32Array;
   vec: Float32Array;
   set: ArrowSet | null;
@@ -59,15 +77,20 @@ export class MapView {
   /** Steady reference magnitudes per layer name (widen at once, shrink slowly). */
   private refs = new Map<string, number>();
   private lastArrows: Array<{ layer: VectorLayer; ref: number; pxPerRef: number }> = [];
+  /** The longest arrow of each layer at its last upload. */
+  private longest = new Map<string, number>();
   private lastSource: FieldSource | null = null;
   private uploadedRange: [number, number] | null = null;
   private shaderRange: [number, number] = [0, 1];
-  private slots: ArrowSlot[] = [0, 1].map(() => ({ u: null, v: null, stride: 0, at: new Float32Array(0), vec: new Float32Array(0), set: null }));
+  private slots: ArrowSlot[] = [0, 1].map(() => ({ u: null, v: null, stride: 0, reference: undefined, at: new Float32Array(0), vec: new Float32Array(0), set: null }));
   private cells: { nx: number; ny: number; stride: number; list: number[] } | null = null;
   /** Set when the canvas, grid or GPU data changed: the WebGL canvas must be drawn again. */
   private glDirty = true;
   private glKey = '';
   private overlayKey = '';
+  /** CSS pixels between arrows (the page's density control); the key arrow is one spacing long. */
+  arrowSpacing = ARROW_SPACING;
+  private lengths = new Float32Array(0);
   /** GPU uploads and WebGL draws so far, for the benchmarks and tests. */
   readonly counts = { fieldUploads: 0, arrowUploads: 0, glDraws: 0, overlayDraws: 0 };
 
@@ -169,7 +192,7 @@ export class MapView {
     for (let n = 0; n < Math.min(2, layers.length); n++) {
       const a = this.arrowLayer(n, layers[n]);
       arrows.push(a);
-      drawn.push({ layer: layers[n], ref: this.refs.get(layers[n].name) ?? 0, pxPerRef: ARROW_SPACING * 1.4 });
+      drawn.push({ layer: layers[n], ref: this.refs.get(layers[n].name) ?? 0, pxPerRef: this.arrowSpacing * KEY_LENGTH });
     }
     // A slot no longer drawn must be uploaded again when a layer comes back to it.
     for (let n = layers.length; n < 2; n++) this.slots[n].u = null;
@@ -191,8 +214,8 @@ export class MapView {
     const slot = this.slots[n];
     const g = this.grid!;
     const r = this.plotRect();
-    const stride = Math.max(1, Math.round((ARROW_SPACING / r.width) * g.nx));
-    if (slot.set && slot.u === layer.u && slot.v === layer.v && slot.stride === stride && sameColour(slot.set.colour, layer.colour)) return slot.set;
+    const stride = Math.max(1, Math.round((this.arrowSpacing / r.width) * g.nx));
+    if (slot.set && slot.u === layer.u && slot.v === layer.v && slot.stride === stride && slot.reference === layer.reference && sameColour(slot.set.colour, layer.colour)) return slot.set;
     if (!this.cells || this.cells.nx !== g.nx || this.cells.ny !== g.ny || this.cells.stride !== stride) {
       this.cells = { nx: g.nx, ny: g.ny, stride, list: arrowCells(g.nx, g.ny, stride) };
     }
@@ -203,8 +226,8 @@ export class MapView {
     }
     const at = slot.at;
     const vec = slot.vec;
+    if (this.lengths.length < cells.length) this.lengths = new Float32Array(cells.length);
     let count = 0;
-    let biggest = 0;
     for (const k of cells) {
       const u = layer.u[k];
       const v = layer.v[k];
@@ -215,30 +238,38 @@ export class MapView {
       at[2 * count + 1] = ((j + 0.5) / g.ny) * 2 - 1;
       vec[2 * count] = u;
       vec[2 * count + 1] = v;
-      const m = Math.sqrt(u * u + v * v);
-      if (m > biggest) biggest = m;
+      this.lengths[count] = Math.sqrt(u * u + v * v);
       count++;
     }
-    const prev = this.refs.get(layer.name) ?? 0;
-    let ref = prev;
-    if (biggest > prev || biggest < prev / 4) ref = niceCeil(biggest);
+    let ref: number;
+    if (layer.reference !== undefined && layer.reference > 0) ref = layer.reference;
+    else {
+      // Steady while the run goes: a new key only when the data outgrow it or fall well inside.
+      const prev = this.refs.get(layer.name) ?? 0;
+      const next = keyMagnitude(this.lengths.subarray(0, count));
+      ref = next > prev || next < prev / 4 ? next : prev;
+    }
     this.refs.set(layer.name, ref);
-    // The reference magnitude gets 1.4 arrow spacings, so the longest arrow overlaps little.
-    const pxPerUnit = ref > 0 ? (ARROW_SPACING * 1.4 * this.dpr) / ref : 0;
+    let most = 0;
+    for (let k = 0; k < count; k++) if (this.lengths[k] > most) most = this.lengths[k];
+    this.longest.set(layer.name, most);
+    // The key magnitude gets KEY_LENGTH arrow spacings; stronger arrows are longer, in proportion.
+    const pxPerUnit = ref > 0 ? (this.arrowSpacing * KEY_LENGTH * this.dpr) / ref : 0;
     const set: ArrowSet = { at, vec, count: ref > 0 ? count : 0, pxPerUnit, colour: layer.colour };
     this.gl.setArrows(n, set);
     this.counts.arrowUploads++;
     slot.u = layer.u;
     slot.v = layer.v;
     slot.stride = stride;
+    slot.reference = layer.reference;
     slot.set = set;
     this.glDirty = true;
     return set;
   }
 
   /** Layers that were drawn last time, with their reference arrows. */
-  referenceArrows(): Array<{ name: string; ref: number; units: string }> {
-    return this.lastArrows.map((a) => ({ name: a.layer.name, ref: a.ref, units: a.layer.units }));
+  referenceArrows(): Array<{ name: string; ref: number; units: string; set: boolean; pxPerRef: number; longest: number; spacing: number }> {
+    return this.lastArrows.map((a) => ({ name: a.layer.name, ref: a.ref, units: a.layer.units, set: a.layer.reference !== undefined, pxPerRef: a.pxPerRef, longest: this.longest.get(a.layer.name) ?? 0, spacing: this.arrowSpacing }));
   }
 
   forgetArrows(): void {
@@ -248,7 +279,7 @@ export class MapView {
 
   private drawOverlay(marks: Mark[], cursor: { i: number; j: number } | null): void {
     const g = this.grid!;
-    const refsKey = this.lastArrows.map((a) => `${a.layer.name}:${a.ref}:${a.layer.units}:${a.layer.colour.join(',')}`).join(';');
+    const refsKey = this.lastArrows.map((a) => `${a.layer.name}:${a.ref}:${a.pxPerRef}:${a.layer.units}:${a.layer.colour.join(',')}`).join(';');
     const key = `${this.cssW}x${this.cssH}@${this.dpr}|${marks.map((m) => `${m.name}:${m.lon}:${m.lat}`).join(';')}|${cursor ? `${cursor.i},${cursor.j}` : ''}|${refsKey}`;
     if (key === this.overlayKey) return;
     const ctx = this.overlay.getContext('2d');
@@ -290,7 +321,13 @@ export class MapView {
       ctx.fill();
       ctx.stroke();
       ctx.fillStyle = '#000';
-      ctx.fillText(m.name, x + 6, y - 7);
+      // Near the east edge the name goes to the left of the mark, so it is never cut.
+      const w = ctx.measureText(m.name).width;
+      if (x + 6 + w > r.left + r.width) {
+        ctx.textAlign = 'right';
+        ctx.fillText(m.name, x - 6, y - 7);
+        ctx.textAlign = 'left';
+      } else ctx.fillText(m.name, x + 6, y - 7);
     }
 
     if (cursor) {
@@ -307,16 +344,19 @@ export class MapView {
     // Reference arrows in a white box in the top-right corner.
     const refs = this.lastArrows.filter((a) => a.ref > 0);
     if (refs.length) {
-      const boxW = 150;
-      const boxH = 8 + 16 * refs.length;
+      ctx.font = '12px system-ui, sans-serif';
+      const text = (a: (typeof refs)[number]) => `${formatKey(a.ref)} ${a.layer.units} ${a.layer.name}`;
+      const boxW = Math.max(...refs.map((a) => a.pxPerRef + 18 + ctx.measureText(text(a)).width));
+      const boxH = 8 + 18 * refs.length;
       const bx = r.left + r.width - boxW - 4;
       const by = r.top + 4;
       ctx.fillStyle = 'rgba(255,255,255,0.85)';
       ctx.fillRect(bx, by, boxW, boxH);
       refs.forEach((a, n) => {
-        const y = by + 12 + 16 * n;
+        const y = by + 13 + 18 * n;
         const [cr, cg, cb] = a.layer.colour;
         ctx.strokeStyle = `rgb(${cr},${cg},${cb})`;
+        ctx.lineWidth = 1.5;
         const x0 = bx + 6;
         const x1 = x0 + a.pxPerRef;
         ctx.beginPath();
@@ -326,9 +366,10 @@ export class MapView {
         ctx.moveTo(x1, y);
         ctx.lineTo(x1 - 0.28 * a.pxPerRef, y + 0.22 * a.pxPerRef);
         ctx.stroke();
+        ctx.lineWidth = 1;
         ctx.fillStyle = '#000';
         ctx.textBaseline = 'middle';
-        ctx.fillText(`${a.ref} ${a.layer.units}`, x1 + 6, y);
+        ctx.fillText(text(a), x1 + 6, y);
       });
     }
   }
@@ -343,4 +384,9 @@ export class MapView {
     ctx.drawImage(this.overlay, 0, 0);
     return out;
   }
+}
+
+/** A key magnitude as written beside its arrow: "0.25", "2.5e-5". */
+function formatKey(v: number): string {
+  return v >= 1e-3 && v < 1e5 ? String(Number(v.toPrecision(3))) : v.toExponential(1);
 }

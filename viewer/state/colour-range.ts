@@ -76,17 +76,3 @@ export function rangePosition(v: number, r: Range): number {
   const t = (v - r.min) / (r.max - r.min);
   return t < 0 ? 0 : Math.min(t , 1);
 }
-
-/** Tick values for a colour bar: about `count` nice steps inside the range. */
-export function ticks(r: Range, count = 5): number[] {
-  const span = r.max - r.min;
-  if (!(span > 0)) return [r.min];
-  const raw = span / count;
-  const p = 10 ** Math.floor(Math.log10(raw));
-  const m = raw / p;
-  const step = (m < 1.5 ? 1 : m < 3.5 ? 2 : m < 7.5 ? 5 : 10) * p;
-  const out: number[] = [];
-  const first = Math.ceil(r.min / step - 1e-9) * step;
-  for (let v = first; v <= r.max + step * 1e-9; v += step) out.push(Math.abs(v) < step * 1e-9 ? 0 : v);
-  return out;
-}

@@ -29,6 +29,36 @@ export const DISPLAY_FIELDS: DisplayField[] = [
   { key: 'atm_speed', label: 'Answering wind speed', units: 'm s-1', kind: 'sequential', needs: ['u_atm', 'v_atm'] },
 ];
 
+/**
+ * The page's own label of every output field, for the views that list the file's variables (the
+ * comparison): the same words as the map's list, never the variable name.
+ */
+const OUTPUT_LABELS: Record<FieldName, string> = {
+  h_anom: 'Thermocline depth anomaly (positive down)',
+  ssh: 'Sea-surface height',
+  u: 'Eastward velocity u (layer mean)',
+  v: 'Northward velocity v (layer mean)',
+  u_surf: 'Eastward surface current',
+  v_surf: 'Northward surface current',
+  u_below: 'Eastward velocity below the surface layer',
+  v_below: 'Northward velocity below the surface layer',
+  taux: 'Eastward wind stress',
+  tauy: 'Northward wind stress',
+  sst_anom: 'Sea-surface temperature anomaly (answering wind)',
+  u_atm: 'Eastward answering wind',
+  v_atm: 'Northward answering wind',
+};
+
+/** "Sea-surface height (m)": an output field as the page names it, with its units. */
+export function fieldLabel(f: FieldName): string {
+  return `${OUTPUT_LABELS[f] ?? f} (${FIELD_INFO[f]?.units ?? ''})`;
+}
+
+/** The label of an output field without units. */
+export function fieldName(f: FieldName): string {
+  return OUTPUT_LABELS[f] ?? f;
+}
+
 export function displayField(key: DisplayKey): DisplayField {
   const f = DISPLAY_FIELDS.find((d) => d.key === key);
   if (!f) throw new Error(`unknown display field ${key}`);

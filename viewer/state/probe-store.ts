@@ -15,6 +15,8 @@ export interface ProbeSeries {
   cell: number;
   days: number[];
   values: Partial<Record<FieldName, number[]>>;
+  /** For a page probe: where its series came from ("days 0 to 35 from the kept maps"). */
+  note?: string;
 }
 
 export class ProbeStore {
@@ -53,7 +55,16 @@ export class ProbeStore {
     });
   }
 
-  /** A frame's fields at every page probe's cell. */
+  /**
+   * A page probe's series before it was added, from kept maps: `days` in order, `fields` the
+   * full maps of those days. Replaces what the probe had.
+   */
+  fillPageProbe(p: ProbeSeries, days: readonly number[], maps: ReadonlyArray<Frame['fields']>): void {
+    p.days = [...days];
+    for (const f of this.fields) p.values[f] = maps.map((m) => (m[f] ? m[f]![p.cell] : NaN));
+  }
+
+  /** A frame's (or a sample's) fields at every page probe's cell. */
   addFrame(day: number, fields: Frame['fields']): void {
     for (const p of this.probes) {
       if (p.origin !== 'page') continue;

@@ -3,6 +3,7 @@
 // Typing updates the design without rebuilding the editor (focus and caret stay where they are);
 // a change of kind rebuilds it.
 
+import { placeLabel } from '../../model/display/coordinates.ts';
 import type { BandProfile, EnvelopeSpec, ShapeSpec, WindPart } from '../../model/forcing/spec.ts';
 import type { ScenarioIssue } from '../../model/scenario/errors.ts';
 import { getAt, patternOf, setAt, type BasinBox } from './design.ts';
@@ -98,7 +99,10 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
       commit(setAt(part, path, v), fresh);
       fresh = false;
     });
-    return row(path, label, units, input);
+    const w = row(path, label, units, input);
+    // A text (a name) gets the whole row, so it is never cut (style.css).
+    if (kind === 'text') w.classList.add('text');
+    return w;
   };
 
   const fieldsHost = document.createElement('div');
@@ -168,7 +172,7 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
     const g = part.source.grid;
     const p = document.createElement('p');
     p.className = 'hint wd-painted-info';
-    p.textContent = `Painted grid: ${g.nLon} x ${g.nLat} points, ${g.dLon}° x ${g.dLat}°, from ${g.lon0}°E, ${g.lat0}°N; largest vector ${Number(largestVector(g).toPrecision(3))} ${units}. Choose "paint" in the map tools to paint it.`;
+    p.textContent = `Painted grid: ${g.nLon} x ${g.nLat} points, ${g.dLon}° x ${g.dLat}°, from ${placeLabel(g.lon0, g.lat0)}; largest vector ${Number(largestVector(g).toPrecision(3))} ${units}. Choose "paint" in the map tools to paint it.`;
     fieldsHost.append(p);
   }
   for (const f of fieldsOf(part)) fieldsHost.append(box(f.path, f.label, f.units, f.type === 'number' ? 'number' : 'text', f.optional === true));

@@ -1,7 +1,7 @@
 // The wind panel's "total stress at a point" box: taux and tauy at one cell over the whole run,
 // from the model's own forcing, with a marker at the model day on screen.
 
-import { formatValue } from '../panels/colour-bar.ts';
+import { placeLabel } from '../../model/display/coordinates.ts';
 import type { BasinBox } from './design.ts';
 import { $new, numberBox } from './dom.ts';
 import { dayAxis, drawTimePlot } from './envelope-plot.ts';
@@ -90,11 +90,11 @@ export class PointSeriesBox {
       const days = dayAxis(this.design.runDays(), 160);
       const s = stressSeriesAt(resolved, grid, this.point.lon, this.point.lat, days);
       if (!s) {
-        msg.textContent = `${this.point.lon}°E, ${this.point.lat}°N is land`;
+        msg.textContent = `${placeLabel(this.point.lon, this.point.lat)} is land`;
         return;
       }
       this.series = { days, taux: s.taux, tauy: s.tauy };
-      msg.textContent = `cell centre ${formatValue(s.lon)}°E, ${formatValue(s.lat)}°N`;
+      msg.textContent = `cell centre ${placeLabel(s.lon, s.lat)}`;
       this.drawMarker();
     } catch (e) {
       msg.textContent = (e as Error).message;

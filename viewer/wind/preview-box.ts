@@ -2,6 +2,7 @@
 // (stress, curl, Sverdrup transports) drawn on the map instead of the run's field, with a line
 // that says its largest stress and its colour range.
 
+import { placeLabel } from '../../model/display/coordinates.ts';
 import type { MapView } from '../render/map-view.ts';
 import { formatValue } from '../panels/colour-bar.ts';
 import { $new, numberBox } from './dom.ts';
@@ -94,7 +95,7 @@ export class PreviewBox {
     }
     const p = this.result;
     msg.textContent = p
-      ? `Day ${formatValue(p.field.day)}: largest |tau| ${formatValue(p.peak.value)} N m-2${p.peak.value > 0 ? ` at ${formatValue(p.peak.lon)}°E, ${formatValue(p.peak.lat)}°N` : ''}; colours ${formatValue(p.range.min)} to ${formatValue(p.range.max)} ${LAYER_INFO[p.layer].units}.`
+      ? `Day ${formatValue(p.field.day)}: largest |tau| ${formatValue(p.peak.value)} N m-2${p.peak.value > 0 ? ` at ${placeLabel(p.peak.lon, p.peak.lat)}` : ''}; colours ${formatValue(p.range.min)} to ${formatValue(p.range.max)} ${LAYER_INFO[p.layer].units}.`
       : this.error;
     msg.classList.toggle('field-msg', !p);
     this.host.redraw();

@@ -36,7 +36,7 @@ export function computePreview(json: unknown, day: number, layer: PreviewLayer):
 }
 
 export function mapNameFor(layer: PreviewLayer): MapName {
-  return LAYER_INFO[layer].diverging ? 'diverging' : 'magnitude';
+  return LAYER_INFO[layer].diverging ? 'anomaly' : 'strength';
 }
 
 /** Draw a preview on the map and the colour bar. False when the map's grid is another basin. */

@@ -3,17 +3,18 @@
 // map-tools.ts), the preview (preview-box.ts) and the stress at a point (point-series-box.ts).
 // The design itself, its undo and where the validator's issues go live in design-state.ts (a
 // reducer, tested in Node); this file renders it and turns input into its actions. What is
-// designed stays in the panel until "Apply and restart" hands the whole scenario to the engine
+// designed stays in the panel until "Apply and run" hands the whole scenario to the engine
 // (the run on screen is untouched before that), and "Save scenario" downloads exactly that JSON.
 
 import type { WindPart } from '../../model/forcing/spec.ts';
 import { validateScenario } from '../../model/scenario/index.ts';
+import { forcingProblem } from './forcing-check.ts';
 import { formatIssue, issueListLines, type ScenarioIssue } from '../../model/scenario/errors.ts';
 import { pickedBytes, windFileKind } from '../picked-file.ts';
 import { download } from '../files.ts';
 import type { MapView } from '../render/map-view.ts';
 import { FrameQueue } from '../throttle.ts';
-import { newPart, PATTERN_KINDS, PATTERN_LABELS, withWind, type BasinBox, type PatternKind } from './design.ts';
+import { newPart, PATTERN_KINDS, PATTERN_LABELS, windOf, withWind, type BasinBox, type PatternKind } from './design.ts';
 import { basinOf, canRedo, canUndo, emptyDesign, liveliestDay, notApplied, reduceDesign, routeIssues, runDaysOf, scenarioKeyOf, seedOf, type DesignAction, type DesignState, type ListEdit } from './design-state.ts';
 import { $new, button, numberBox } from './dom.ts';
 import { ImportError, partsFromSeries, readGridded } from './import.ts';
@@ -34,6 +35,10 @@ export interface WindHost {
   colourBar: HTMLCanvasElement;
   /** The scenario as edited in the scenario panel; the wind section is replaced by the design. */
   baseScenario(): Json;
+  /** The scenario as it was opened, before any edit (to name an edited one's download). */
+  openedScenario(): Json;
+  /** Whether the scenario panel's values differ from the scenario as it was opened. */
+  valuesEdited(): boolean;
   fileName(): string;
   /** Validate-and-run a scenario text; true when the engine took it. */
   apply(text: string, fileName: string): Promise<boolean>;
@@ -107,7 +112,7 @@ export class WindPanel {
     const note = $new('span', { className: 'wd-note', id: 'wd-note' });
     const undo = button('Undo', 'wd-undo', 'Undo the last change (Ctrl+Z)');
     const redo = button('Redo', 'wd-redo', 'Redo (Ctrl+Shift+Z or Ctrl+Y)');
-    const apply = button('Apply and restart', 'wd-apply', 'Run the scenario with this wind from day 0');
+    const apply = button('Apply and run', 'wd-apply', 'Start again from day 0 with this wind and the scenario panel\u2019s values, and run');
     const save = button('Save scenario…', 'wd-save', 'Download the scenario with this wind as JSON');
     const clear = button('Remove all parts', 'wd-clear', 'Start from no wind at all (undo brings the parts back)');
     undo.addEventListener('click', () => this.undo());
@@ -261,14 +266,20 @@ export class WindPanel {
     const json = this.compose();
     const r = validateScenario(json);
     this.issues = r.ok ? [] : r.errors;
+    // The forcing the engine would build from it (formulas compiled and evaluated on the grid): a
+    // scenario that validates but whose wind cannot be built is not runnable either.
+    const forcing = r.ok ? forcingProblem(json) : null;
+    if (forcing) this.issues = [forcing];
+    const runnable = r.ok && !forcing;
     const routed = routeIssues(this.issues, this.design.selected, this.design.wind.parts.length);
     if (this.editor && this.design.selected !== null) this.editor.showIssues(routed.editor);
     this.el.issues.replaceChildren(...routed.elsewhere.map((i) => $new('li', { textContent: formatIssue(i) })));
     this.el.parts.querySelectorAll<HTMLElement>('li').forEach((li, k) => li.classList.toggle('invalid', routed.invalid[k] ?? false));
-    this.el.apply.disabled = !r.ok;
+    this.el.apply.disabled = !runnable;
+    this.el.apply.title = runnable ? 'Start again from day 0 with this wind and the scenario panel\u2019s values, and run' : 'Not runnable yet: see the marked part';
     this.editor?.redrawPlot();
-    this.preview.update(r.ok, () => this.compose());
-    this.point.update(r.ok);
+    this.preview.update(runnable, () => this.compose());
+    this.point.update(runnable);
     this.tools.draw();
   }
 
@@ -328,8 +339,9 @@ export class WindPanel {
 
   private async applyDesign(): Promise<void> {
     const r = validateScenario(this.compose());
-    if (!r.ok) {
-      this.host.message(`The wind design is not applied:\n${issueListLines(r.errors).join('\n')}`);
+    const forcing = r.ok ? forcingProblem(this.compose()) : null;
+    if (!r.ok || forcing) {
+      this.host.message(`The wind design is not applied:\n${(r.ok ? [forcing!].map(formatIssue) : issueListLines(r.errors)).join('\n')}`);
       return;
     }
     if (await this.host.apply(this.text(), this.host.fileName())) this.dispatch({ kind: 'applied' }, { rebuild: false });
@@ -342,7 +354,22 @@ export class WindPanel {
       this.host.message(`The scenario is not saved; fix these first:\n${issueListLines(r.errors).join('\n')}`);
       return;
     }
-    const stem = String(json.name ?? 'scenario').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'scenario';
-    download(this.text(), `${stem}.json`, 'application/json');
+    const opened = this.host.openedScenario();
+    const edited = this.host.valuesEdited() || JSON.stringify(windOf(opened)) !== JSON.stringify(this.design.wind);
+    const named = savedName(json, opened, edited);
+    const stem = String(named.name ?? 'scenario').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'scenario';
+    download(`${JSON.stringify(named, null, 2)}\n`, `${stem}.json`, 'application/json');
+    if (named !== json) this.host.message(`Saved the edited scenario as ${stem}.json, named '${String(named.name)}' (the file it came from keeps its name).`, 'info');
   }
+}
+
+/**
+ * The scenario as it is saved: an edited scenario that still has the name of the file it came
+ * from gets "(edited)" added, so the download is named after the edited run, not the original.
+ * The same object when nothing was edited or the name was changed already.
+ */
+export function savedName(json: Json, opened: Json, edited: boolean): Json {
+  if (!edited || json.name !== opened.name) return json;
+  const base = typeof json.name === 'string' && json.name ? json.name : 'scenario';
+  return { ...json, name: `${base} (edited)` };
 }
