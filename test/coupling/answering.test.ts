@@ -268,6 +268,6 @@ describe('a region that misses the ocean', () => {
     const r = validateScenario(sc);
     if (!r.ok) throw new Error('invalid');
     const grid = new Grid(resolveScenario(r.scenario).model.basin, EARTH.radius);
-    expect(() => buildWindStress(grid, r.scenario.wind, { seed: 's', beta: BETA })).toThrow(/wind part 1 \('answering wind'\): sst.region: patch is 0 on every ocean cell/);
+    expect(() => buildWindStress(grid, r.scenario.wind, { seed: 's', beta: BETA })).toThrow(/wind part 2 \('answering wind'\): sst.region: patch is 0 on every ocean cell/);
   });
 });

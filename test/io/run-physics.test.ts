@@ -109,6 +109,7 @@ describe('readers', () => {
     'model/compare/compare.ts': 'the difference of two scenarios, key by key',
     'viewer/library/store.ts': 'the run list shows the scenario name, basin and wind parts as written; duplicating renames it',
     'viewer/state/characteristics.ts': "the first pulsed wind patch, where the Hovmoller lines start",
+    'model/coupling/run-indices.ts': "the answering part's region and settings, to measure the coupled indices from a saved run",
     'model/scenario/canonical-hash.ts': "a member's identity: the hash of the whole resolved scenario in canonical form",
     'worker/cli/batch-member.ts': "a member file's scenario against the batch's, key by key, to say what differs",
     'worker/cli/sweep-batch.ts': 'the paths a batch scenario names (made absolute for the tasks) and its name',
