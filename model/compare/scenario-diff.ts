@@ -8,7 +8,7 @@ export interface ScenarioDifference {
   /** The values; undefined where one scenario does not have the key. */
   a: unknown;
   b: unknown;
-  /** For values inside a wind part: which part, e.g. "wind part 0 (fixed 'westerly burst')". */
+  /** For values inside a wind part: which part, e.g. "wind part 1 (fixed 'westerly burst')". */
   part?: string;
 }
 

@@ -140,7 +140,7 @@ describe('CSV wind messages name the file, the line and the column, never the te
     writeFileSync(join(dir, 'private.txt'), `${secret}\nsecond line\n`);
     const f = variant('wind-private.json', csvWind('private.txt'));
     const r = pycno(dir, ['check', f]);
-    refusedWith(r, /^pycno: wind-private\.json: wind part 0 \('westerly patch'\): the wind file private\.txt: CSV line 1, column 1: the header names a column other than lon, lat, x, y and day/);
+    refusedWith(r, /^pycno: wind-private\.json: wind part 1 \('westerly patch'\): the wind file private\.txt: CSV line 1, column 1: the header names a column other than lon, lat, x, y and day/);
     expect(r.stderr).not.toMatch(/hunter2|private file|second line/);
   });
 

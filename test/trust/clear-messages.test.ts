@@ -32,7 +32,7 @@ function formulaScenario(name: string, expression: string): string {
 describe('formula messages say what is wrong and where', () => {
   it('`new Date()`: an unknown name, a word of JavaScript, at character 0 (it said "several separated by commas or semicolons")', () => {
     const r = pycno(dir, ['check', formulaScenario('new-date.json', 'new Date()')]);
-    refusedWith(r, /^pycno: new-date\.json: wind part 0 \('westerly patch'\): .*unknown name 'new' \(a word of JavaScript; formulas know only numbers, lon, lat, t, pi, e, operators and the functions of docs\/wind\.md\) at character 0$/);
+    refusedWith(r, /^pycno: new-date\.json: wind part 1 \('westerly patch'\): .*unknown name 'new' \(a word of JavaScript; formulas know only numbers, lon, lat, t, pi, e, operators and the functions of docs\/wind\.md\) at character 0$/);
     expect(r.stderr).not.toMatch(/separated by commas/);
   });
 

@@ -121,7 +121,7 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
     const s = base();
     s.wind.parts = Array.from({ length: 1000 }, () => ({ ...structuredClone(s.wind.parts[0]), kind: 'fixd' }));
     const lines = refusedFast(JSON.stringify(s));
-    expect(lines[0]).toMatch(/wind\.parts\[0\]\.kind: unknown kind "fixd"; allowed: 'fixed', 'bursts'; did you mean 'fixed'\?$/);
+    expect(lines[0]).toMatch(/wind\.parts\[0\]\.kind: unknown kind "fixd"; allowed: 'fixed', 'bursts', 'answering'; did you mean 'fixed'\?$/);
     expect(lines.at(-1)).toBe('... and 980 more problems (1,000 in all); fix the first ones and check again');
   });
 
