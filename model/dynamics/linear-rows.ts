@@ -5,6 +5,8 @@
 // (WasmRows, linear-wasm.ts). test/kernels/linear-rows.test.ts holds them to the same bits.
 
 import type { Grid } from '../grid.ts';
+import type { State } from '../state.ts';
+import type { FieldBinding } from './field-binding.ts';
 import { fusedRow, hRow, spongeRow, uRow, vRow, type RowCoefficients, type RowGrid } from './linear.ts';
 
 /**
@@ -93,4 +95,36 @@ export class TsRows implements LinearRows {
   sponge(cur: number, j: number): void {
     spongeRow(this.g, this.c, this.sets[cur].vn, j);
   }
+}
+
+/** The linear fields and the State: u, v double-buffered, h in place, the stress as accelerations. */
+export function linearBinding(grid: Pick<Grid, 'maskU' | 'maskV'>, f: StepFields, rhoH: number): FieldBinding {
+  const bind = (state: State, cur: number) => {
+    state.u = f.u[cur];
+    state.v = f.v[cur];
+    state.h = f.h;
+  };
+  return {
+    adopt(state) {
+      f.u[0].set(state.u);
+      f.v[0].set(state.v);
+      f.h.set(state.h);
+      bind(state, 0);
+    },
+    bind,
+    setStress(taux, tauy) {
+      const { maskU, maskV } = grid;
+      const { accelX, accelY } = f;
+      for (let k = 0; k < taux.length; k++) {
+        accelX[k] = maskU[k] * (taux[k] / rhoH);
+        accelY[k] = maskV[k] * (tauy[k] / rhoH);
+      }
+    },
+    stepParams(_state, friction, viscosity, out) {
+      out[0] = friction;
+      out[1] = viscosity;
+    },
+    stepped() {},
+    spongeTaken: () => 0,
+  };
 }

@@ -1,6 +1,6 @@
 // The linear step's rows on WebAssembly SIMD (source: wasm/rows.as.ts): the module, the layout of
 // a step's fields and tables in its memory, and WasmRows, the row kernel the step schedule drives.
-// One thread runs it on a memory of its own (wasmStepper); the latitude strips run the shared build
+// One thread runs it on a memory of its own (wasmLinearParts, for model/dynamics/stepper.ts); the latitude strips run the shared build
 // on one shared memory (model/parallel/wasm-strips.ts). The results are bit-identical to the
 // TypeScript rows (test/kernels/linear-rows.test.ts, linear-paths.test.ts). Compiling a module needs
 // WebAssembly: under a Content Security Policy that is 'wasm-unsafe-eval' (no 'unsafe-eval', no
@@ -10,7 +10,6 @@ import type { Grid } from '../grid.ts';
 import type { StepCoefficients } from './coefficients.ts';
 import type { RowCoefficients } from './linear.ts';
 import type { LinearRows, StepFields } from './linear-rows.ts';
-import { LinearStepper } from './linear-stepper.ts';
 import { ROWS_SHARED_WASM_BASE64, ROWS_WASM_BASE64 } from './wasm/rows-wasm.ts';
 
 interface RowExports {
@@ -198,11 +197,11 @@ export class WasmRows implements LinearRows {
   }
 }
 
-/** The one-thread WebAssembly step: the module on a memory of its own, the state's fields in it. */
-export function wasmStepper(grid: Grid, c: StepCoefficients): LinearStepper {
+/** The one-thread WebAssembly rows on a memory of their own, and the step's fields (views of it). */
+export function wasmLinearParts(grid: Grid, c: StepCoefficients): { rows: WasmRows; fields: StepFields } {
   const module = rowsWasmModule(false);
   const { layout, bytes } = layOut(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), grid, c);
   const memory = new WebAssembly.Memory({ initial: Math.ceil(bytes / 65536) + 1 });
   fillTables(memory.buffer, grid, c, layout);
-  return new LinearStepper(new WasmRows(module, memory, layout, grid, c), fieldViews(memory.buffer, layout, grid.size));
+  return { rows: new WasmRows(module, memory, layout, grid, c), fields: fieldViews(memory.buffer, layout, grid.size) };
 }

@@ -5,6 +5,11 @@
 // with U = h u, V = h v, potential vorticity q = (f + zeta)/h at cell corners, Bernoulli function
 // B = g' h' + |u|^2/2. The PV flux is Sadourny's (1975) energy-conserving form. Time stepping is
 // third-order Adams-Bashforth; the first two steps use first and second order (no history yet).
+//
+// This is the plain statement of the step, in whole-grid loops: the readable arithmetic that every
+// path the model runs (the nonlinear rows of nonlinear-rows.ts and wasm/nonlinear.as.ts through the
+// step schedule, on one thread or in strips) must reproduce bit for bit. Tests step it beside them
+// (test/support/plain-nonlinear.ts); the Model steps through model/dynamics/stepper.ts.
 
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';

@@ -9,6 +9,9 @@
 //
 // All arrays live in the module's (imported) memory at byte addresses given by the host; index
 // k of an array at p is at p + 8 k. Per-row tables: fS, fN (ny), fV, spongeV (ny + 1), spongeH (ny).
+// The nonlinear step's rows are in nonlinear.as.ts, exported from here (nl...).
+
+export * from './nonlinear.as';
 
 @inline function ld(p: usize, k: i32): f64 {
   return load<f64>(p + (<usize>k << 3));
