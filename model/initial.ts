@@ -4,7 +4,7 @@
 import type { PhysicsConfig } from './config.ts';
 import { InputError } from './errors.ts';
 import type { Grid } from './grid.ts';
-import { State } from './state.ts';
+import { State, type FieldArray } from './state.ts';
 import * as pm from './portable-math.ts';
 import { equatorialBeta, equatorialRadius, waveSpeed } from './theory.ts';
 
@@ -107,7 +107,7 @@ export function checkInitial(grid: Grid, physics: PhysicsConfig, s: State): void
   }
 }
 
-function fillCentres(grid: Grid, a: Float64Array, fn: (lon: number, lat: number, y: number) => number): void {
+function fillCentres(grid: Grid, a: FieldArray, fn: (lon: number, lat: number, y: number) => number): void {
   for (let j = 0; j < grid.ny; j++) {
     for (let i = 0; i < grid.nx; i++) {
       const k = grid.idx(i, j);
@@ -116,7 +116,7 @@ function fillCentres(grid: Grid, a: Float64Array, fn: (lon: number, lat: number,
   }
 }
 
-function fillU(grid: Grid, a: Float64Array, fn: (lon: number, y: number) => number): void {
+function fillU(grid: Grid, a: FieldArray, fn: (lon: number, y: number) => number): void {
   for (let j = 0; j < grid.ny; j++) {
     for (let i = 0; i <= grid.nx; i++) {
       const k = grid.idx(i, j);
@@ -125,7 +125,7 @@ function fillU(grid: Grid, a: Float64Array, fn: (lon: number, y: number) => numb
   }
 }
 
-function fillV(grid: Grid, a: Float64Array, fn: (lon: number, y: number) => number): void {
+function fillV(grid: Grid, a: FieldArray, fn: (lon: number, y: number) => number): void {
   for (let j = 0; j <= grid.ny; j++) {
     for (let i = 0; i < grid.nx; i++) {
       const k = grid.idx(i, j);

@@ -6,6 +6,7 @@ import { DAY } from './config.ts';
 import { buildCoefficients, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
 import { wasmAvailable } from './dynamics/linear-wasm.ts';
 import { createStepper, type KernelName, type Stepper } from './dynamics/stepper.ts';
+import { PRECISIONS, type Precision } from './precision.ts';
 import { VolumeKeepingSponge } from './dynamics/sponge.ts';
 import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from './dynamics/stability.ts';
 import { Clock } from './clock.ts';
@@ -16,7 +17,7 @@ import { BlowUpError, InputError } from './errors.ts';
 import { calm, type WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
 import { checkInitial, initialState, type InitialSpec } from './initial.ts';
-import { State } from './state.ts';
+import { State, type FieldArray } from './state.ts';
 import { StripTeam, type StripHost, type TeamOptions } from './parallel/team.ts';
 import { checkThreadsOption, chooseThreads, type ThreadChoice, type ThreadsOption } from './parallel/threads.ts';
 import { wasmStripsAvailable } from './parallel/wasm-strips.ts';
@@ -71,6 +72,8 @@ export class Model {
   private readonly stepper: Stepper;
   /** What the one-thread step runs on. */
   private readonly stepKernel: KernelName;
+  /** The working precision of the state and the step (model/precision.ts). */
+  readonly precision: Precision;
   private readonly nonlinear: boolean;
   /** The threads option as given; the strip team once startThreads() has started it. */
   readonly threadsAsked: ThreadsOption;
@@ -83,6 +86,9 @@ export class Model {
 
   constructor(config: ModelConfig, options: ModelOptions = {}) {
     checkPhysics(config.physics);
+    if (config.precision !== undefined && !PRECISIONS.includes(config.precision)) {
+      throw new InputError(`must be one of ${PRECISIONS.join(', ')} (got ${JSON.stringify(config.precision)})`, 'numerics.precision');
+    }
     this.config = config;
     this.physics = config.physics;
     this.grid = new Grid(config.basin, config.physics.earthRadius);
@@ -131,7 +137,8 @@ export class Model {
     const kernel = options.kernel ?? 'auto';
     this.threadsAsked = checkThreadsOption(options.threads ?? 1);
     this.stepKernel = kernel === 'wasm' || (kernel === 'auto' && wasmAvailable()) ? 'wasm' : 'ts';
-    this.stepper = createStepper(this.grid, this.coefficients, p, this.stepKernel);
+    this.precision = config.precision ?? 'float64';
+    this.stepper = createStepper(this.grid, this.coefficients, p, this.stepKernel, this.precision);
     this.stepper.adopt(this.state);
     this.nonlinear = p.mode === 'nonlinear';
     this.keeper = p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.grid, this.coefficients) : null;
@@ -213,7 +220,7 @@ export class Model {
     const stripKernel = options.kernel ?? (wasm && wasmStripsAvailable() ? 'wasm' : 'ts');
     const choice = chooseThreads(asked, this.grid, host.cores, this.stepKernel, stripKernel);
     if (choice.threads < 2) return choice;
-    const team = await StripTeam.start(this.grid, this.coefficients, this.physics, choice.threads, host.spawn, { ...options, kernel: stripKernel });
+    const team = await StripTeam.start(this.grid, this.coefficients, this.physics, choice.threads, host.spawn, { ...options, kernel: stripKernel, precision: this.precision });
     // The state moves into the team's shared buffers (the one-thread step takes it back on close).
     team.adopt(this.state);
     team.setStress(this.taux, this.tauy);
@@ -244,11 +251,11 @@ export class Model {
   }
 
   /** The linear step's stress accelerations (tests step the plain loops beside the model with them). */
-  private get accelX(): Float64Array | undefined {
+  private get accelX(): FieldArray | undefined {
     return this.stepper.accelerations?.accelX;
   }
 
-  private get accelY(): Float64Array | undefined {
+  private get accelY(): FieldArray | undefined {
     return this.stepper.accelerations?.accelY;
   }
 

@@ -16,26 +16,26 @@
 
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
-import type { State } from '../state.ts';
+import type { FieldArray, State } from '../state.ts';
 import type { StepCoefficients } from './coefficients.ts';
 import type { FieldBinding } from './field-binding.ts';
 
 /** The fields of the nonlinear step, in the padded layout (see model/grid.ts). */
-export interface NonlinearFields {
+export interface NonlinearFields<F extends FieldArray = Float64Array> {
   /** The state in [cur], the step's result in [1 - cur]. */
-  u: [Float64Array, Float64Array];
-  v: [Float64Array, Float64Array];
-  h: [Float64Array, Float64Array];
+  u: [F, F];
+  v: [F, F];
+  h: [F, F];
   /**
    * Tendency history: slot [cur] holds the previous step's tendency, slot [1 - cur] the one before;
    * the step reads both and writes its own tendency into slot [1 - cur].
    */
-  du: [Float64Array, Float64Array];
-  dv: [Float64Array, Float64Array];
-  dh: [Float64Array, Float64Array];
+  du: [F, F];
+  dv: [F, F];
+  dh: [F, F];
   /** Wind stress on u and v faces, N m-2. */
-  taux: Float64Array;
-  tauy: Float64Array;
+  taux: F;
+  tauy: F;
   /**
    * Sum of h' over each sponge row after the step's advance (before its sponge factor), by j; the
    * step that begins with `cur` current writes [1 - cur] (so a team's leader can read a step's
@@ -47,6 +47,13 @@ export interface NonlinearFields {
 export function nonlinearFields(grid: Pick<Grid, 'field' | 'ny'>): NonlinearFields {
   const two = (): [Float64Array, Float64Array] => [grid.field(), grid.field()];
   return { u: two(), v: two(), h: two(), du: two(), dv: two(), dh: two(), taux: grid.field(), tauy: grid.field(), spongeSums: [new Float64Array(grid.ny + 1), new Float64Array(grid.ny + 1)] };
+}
+
+/** The same in float32 (the sponge sums stay double: they are the budget's). */
+export function nonlinearFields32(grid: Pick<Grid, 'size' | 'ny'>): NonlinearFields<Float32Array> {
+  const f = () => new Float32Array(grid.size);
+  const two = (): [Float32Array, Float32Array] => [f(), f()];
+  return { u: two(), v: two(), h: two(), du: two(), dv: two(), dh: two(), taux: f(), tauy: f(), spongeSums: [new Float64Array(grid.ny + 1), new Float64Array(grid.ny + 1)] };
 }
 
 /** What the nonlinear rows read of the grid (a strip worker holds only these). */
@@ -294,7 +301,7 @@ export class TsNonlinearRows implements NonlinearRows {
 }
 
 /** The nonlinear fields and the State: u, v, h double-buffered, the history in two slots, the stress as given. */
-export function nonlinearBinding(f: NonlinearFields, spongeH: Float64Array, spongeRowsH: Int32Array): FieldBinding {
+export function nonlinearBinding(f: NonlinearFields<FieldArray>, spongeH: Float64Array, spongeRowsH: Int32Array): FieldBinding {
   const bind = (state: State, cur: number) => {
     state.u = f.u[cur];
     state.v = f.v[cur];

@@ -5,6 +5,8 @@
 // (model/parallel/wasm-strips.ts), each thread with a ring of its own in it. The results are
 // bit-identical to the TypeScript rows (test/kernels/nonlinear-rows.test.ts) and to nonlinearStep.
 
+import { bytesOf, type Precision } from '../precision.ts';
+import type { FieldArray } from '../state.ts';
 import { heapBaseOf, rowsWasmModule } from './linear-wasm.ts';
 import type { NonlinearFields, NonlinearRowCoefficients, NonlinearRowGrid, NonlinearRows } from './nonlinear-rows.ts';
 
@@ -44,18 +46,18 @@ export interface NonlinearWasmLayout {
 
 const align = (p: number) => (p + 63) & ~63;
 
-/** Lay a nonlinear step out above the module's heap base, with `threads` rings; returns the layout and the bytes it needs. */
-export function layOutNonlinear(heapBase: number, grid: { ny: number; W: number; size: number }, threads: number): { layout: NonlinearWasmLayout; bytes: number } {
+/** Lay a nonlinear step out above the module's heap base, with `threads` rings, values of `value` bytes; returns the layout and the bytes it needs. */
+export function layOutNonlinear(heapBase: number, grid: { ny: number; W: number; size: number }, threads: number, value: 4 | 8 = 8): { layout: NonlinearWasmLayout; bytes: number } {
   let at = align(heapBase);
   const take = (bytes: number) => {
     const p = at;
     at = align(at + bytes);
     return p;
   };
-  const f = () => take(grid.size * 8);
+  const f = () => take(grid.size * value);
   const pair = (): Pair => [f(), f()];
   const { ny, W } = grid;
-  const ring = () => take(3 * W * 8);
+  const ring = () => take(3 * W * value);
   const layout: NonlinearWasmLayout = {
     u: pair(),
     v: pair(),
@@ -69,19 +71,21 @@ export function layOutNonlinear(heapBase: number, grid: { ny: number; W: number;
     oceanBits: f(),
     coastU: f(),
     coastV: f(),
-    tables: [take(8 * (ny + 1)), take(8 * ny), take(8 * (ny + 1))],
+    tables: [take(value * (ny + 1)), take(value * ny), take(value * (ny + 1))],
     rings: Array.from({ length: threads }, () => [ring(), ring(), ring(), ring()] as [number, number, number, number]),
   };
   if (at > 65536 * 65536) throw new RangeError(`the grid needs ${at} bytes, more than a 32-bit WebAssembly memory holds`);
   return { layout, bytes: at };
 }
 
-/** Copy the ocean masks, coast terms and row tables into a module's memory at the layout's places. */
-export function fillNonlinearTables(buf: ArrayBufferLike, g: NonlinearRowGrid, c: NonlinearRowCoefficients, at: NonlinearWasmLayout): void {
+/** Copy the ocean masks, coast terms and row tables into a module's memory at the layout's places (float32: c already rounded). */
+export function fillNonlinearTables(buf: ArrayBufferLike, g: NonlinearRowGrid, c: NonlinearRowCoefficients, at: NonlinearWasmLayout, precision: Precision = 'float64'): void {
   const size = g.maskU.length;
-  const f64 = (p: number, n: number) => new Float64Array(buf, p, n);
-  const bits = new Int32Array(buf, at.oceanBits, 2 * size);
-  for (let k = 0; k < size; k++) bits[2 * k] = bits[2 * k + 1] = g.oceanF[k] ? -1 : 0;
+  const f64 = (p: number, n: number) => (precision === 'float32' ? new Float32Array(buf, p, n) : new Float64Array(buf, p, n));
+  // a mask as wide as a value: one 32-bit word per cell in float32, two in double
+  const words = bytesOf(precision) / 4;
+  const bits = new Int32Array(buf, at.oceanBits, words * size);
+  for (let k = 0; k < size; k++) for (let w = 0; w < words; w++) bits[words * k + w] = g.oceanF[k] ? -1 : 0;
   f64(at.coastU, size).set(c.coastU);
   f64(at.coastV, size).set(c.coastV);
   f64(at.tables[0], g.ny + 1).set(c.fCorner);
@@ -89,10 +93,10 @@ export function fillNonlinearTables(buf: ArrayBufferLike, g: NonlinearRowGrid, c
   f64(at.tables[2], g.ny + 1).set(c.spongeV);
 }
 
-/** The step's fields as views of the module's memory. */
-export function nonlinearFieldViews(buf: ArrayBufferLike, at: NonlinearWasmLayout, size: number, ny: number): NonlinearFields {
-  const f64 = (p: number) => new Float64Array(buf, p, size);
-  const pair = (p: Pair): [Float64Array, Float64Array] => [f64(p[0]), f64(p[1])];
+/** The step's fields as views of the module's memory (the sponge sums stay double). */
+export function nonlinearFieldViews(buf: ArrayBufferLike, at: NonlinearWasmLayout, size: number, ny: number, precision: Precision = 'float64'): NonlinearFields<FieldArray> {
+  const f64 = (p: number): FieldArray => (precision === 'float32' ? new Float32Array(buf, p, size) : new Float64Array(buf, p, size));
+  const pair = (p: Pair): [FieldArray, FieldArray] => [f64(p[0]), f64(p[1])];
   return {
     u: pair(at.u),
     v: pair(at.v),
@@ -135,12 +139,12 @@ export class WasmNonlinearRows implements NonlinearRows {
   }
 }
 
-/** The one-thread WebAssembly nonlinear rows on a memory of their own, and the fields (views of it). */
-export function wasmNonlinearParts(g: NonlinearRowGrid, c: NonlinearRowCoefficients): { rows: WasmNonlinearRows; fields: NonlinearFields } {
-  const module = rowsWasmModule(false);
+/** The one-thread WebAssembly nonlinear rows on a memory of their own, and the fields (views of it); float32: c already rounded. */
+export function wasmNonlinearParts(g: NonlinearRowGrid, c: NonlinearRowCoefficients, precision: Precision = 'float64'): { rows: WasmNonlinearRows; fields: NonlinearFields<FieldArray> } {
+  const module = rowsWasmModule(false, precision);
   const size = g.maskU.length;
-  const { layout, bytes } = layOutNonlinear(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), { ny: g.ny, W: g.W, size }, 1);
+  const { layout, bytes } = layOutNonlinear(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), { ny: g.ny, W: g.W, size }, 1, bytesOf(precision));
   const memory = new WebAssembly.Memory({ initial: Math.ceil(bytes / 65536) + 1 });
-  fillNonlinearTables(memory.buffer, g, c, layout);
-  return { rows: new WasmNonlinearRows(module, memory, layout, 0, g, c), fields: nonlinearFieldViews(memory.buffer, layout, size, g.ny) };
+  fillNonlinearTables(memory.buffer, g, c, layout, precision);
+  return { rows: new WasmNonlinearRows(module, memory, layout, 0, g, c), fields: nonlinearFieldViews(memory.buffer, layout, size, g.ny, precision) };
 }

@@ -10,6 +10,10 @@ import type { StepCoefficients } from '../dynamics/coefficients.ts';
 import type { FieldBinding } from '../dynamics/field-binding.ts';
 import { linearBinding, TsRows, type StepFields } from '../dynamics/linear-rows.ts';
 import type { RowCoefficients } from '../dynamics/linear.ts';
+import { roundRowCoefficients, TsRows32 } from '../dynamics/linear-rows32.ts';
+import { roundNonlinearCoefficients, TsNonlinearRows32 } from '../dynamics/nonlinear-rows32.ts';
+import { bytesOf, type Precision } from '../precision.ts';
+import type { FieldArray } from '../state.ts';
 import {
   nonlinearBinding,
   nonlinearRowCoefficients,
@@ -37,16 +41,18 @@ export type StripSetup =
       mode: 'linear';
       kernel: StripKernelName;
       grid: { nx: number; ny: number; W: number; maskU: Float64Array; maskV: Float64Array };
+      precision: Precision;
       coefficients: RowCoefficients;
-      fields: StepFields;
+      fields: StepFields<FieldArray>;
       wasm?: WasmStripMemory;
     }
   | {
       mode: 'nonlinear';
       kernel: StripKernelName;
       grid: NonlinearRowGrid;
+      precision: Precision;
       coefficients: NonlinearRowCoefficients;
-      fields: NonlinearFields;
+      fields: NonlinearFields<FieldArray>;
       wasm?: WasmNonlinearStripMemory;
     };
 
@@ -57,8 +63,12 @@ function shared(a: Float64Array): Float64Array {
   return s;
 }
 
-const sharedField = (size: number) => new Float64Array(new SharedArrayBuffer(size * 8));
-const sharedPair = (size: number): [Float64Array, Float64Array] => [sharedField(size), sharedField(size)];
+/** A zeroed field of a precision in a SharedArrayBuffer. */
+function sharedField(size: number, precision: Precision): FieldArray {
+  const buf = new SharedArrayBuffer(size * bytesOf(precision));
+  return precision === 'float32' ? new Float32Array(buf) : new Float64Array(buf);
+}
+const sharedPair = (size: number, p: Precision): [FieldArray, FieldArray] => [sharedField(size, p), sharedField(size, p)];
 
 /** The linear step's row constants (without the dense coast fields of the nonlinear step). */
 function rowCoefficients(c: StepCoefficients): RowCoefficients {
@@ -67,57 +77,76 @@ function rowCoefficients(c: StepCoefficients): RowCoefficients {
 }
 
 /** The shared fields of a team of `threads` and the leader's binding of them to the State. */
-export function createStripSetup(grid: Grid, c: StepCoefficients, physics: PhysicsConfig, kernel: StripKernelName, threads: number): { setup: StripSetup; binding: FieldBinding } {
+export function createStripSetup(
+  grid: Grid,
+  c: StepCoefficients,
+  physics: PhysicsConfig,
+  kernel: StripKernelName,
+  threads: number,
+  precision: Precision = 'float64',
+): { setup: StripSetup; binding: FieldBinding } {
   const { size } = grid;
+  const f32 = precision === 'float32';
+  const p = precision;
   if (physics.mode === 'linear') {
-    const coefficients = rowCoefficients(c);
+    const coefficients = f32 ? roundRowCoefficients(rowCoefficients(c)) : rowCoefficients(c);
     const g = { nx: grid.nx, ny: grid.ny, W: grid.W, maskU: shared(grid.maskU), maskV: shared(grid.maskV) };
-    let fields: StepFields;
+    let fields: StepFields<FieldArray>;
     let wasm: WasmStripMemory | undefined;
     if (kernel === 'wasm') {
-      const made = createWasmStripMemory(grid, coefficients);
+      const made = createWasmStripMemory(grid, coefficients, precision);
       fields = made.fields;
       wasm = made.shared;
     } else {
-      fields = { u: sharedPair(size), v: sharedPair(size), h: sharedField(size), accelX: sharedField(size), accelY: sharedField(size) };
+      fields = { u: sharedPair(size, p), v: sharedPair(size, p), h: sharedField(size, p), accelX: sharedField(size, p), accelY: sharedField(size, p) };
     }
-    const setup: StripSetup = { mode: 'linear', kernel, grid: g, coefficients, fields, ...(wasm ? { wasm } : {}) };
+    const setup: StripSetup = { mode: 'linear', kernel, precision, grid: g, coefficients, fields, ...(wasm ? { wasm } : {}) };
     return { setup, binding: linearBinding(grid, fields, physics.density * physics.layerThickness) };
   }
   const base = nonlinearRowGrid(grid);
-  const nc = nonlinearRowCoefficients(grid, c, physics);
+  const exact = nonlinearRowCoefficients(grid, c, physics);
+  const nc = f32 ? roundNonlinearCoefficients(exact) : exact;
   const g: NonlinearRowGrid = { ...base, maskU: shared(base.maskU), maskV: shared(base.maskV), oceanF: shared(base.oceanF) };
   const coefficients: NonlinearRowCoefficients = { ...nc, coastU: shared(nc.coastU), coastV: shared(nc.coastV) };
-  let fields: NonlinearFields;
+  let fields: NonlinearFields<FieldArray>;
   let wasm: WasmNonlinearStripMemory | undefined;
   if (kernel === 'wasm') {
-    const made = createWasmNonlinearStripMemory(g, coefficients, threads);
+    const made = createWasmNonlinearStripMemory(g, coefficients, threads, precision);
     fields = made.fields;
     wasm = made.shared;
   } else {
     const sums = () => new Float64Array(new SharedArrayBuffer((grid.ny + 1) * 8));
     fields = {
-      u: sharedPair(size),
-      v: sharedPair(size),
-      h: sharedPair(size),
-      du: sharedPair(size),
-      dv: sharedPair(size),
-      dh: sharedPair(size),
-      taux: sharedField(size),
-      tauy: sharedField(size),
+      u: sharedPair(size, p),
+      v: sharedPair(size, p),
+      h: sharedPair(size, p),
+      du: sharedPair(size, p),
+      dv: sharedPair(size, p),
+      dh: sharedPair(size, p),
+      taux: sharedField(size, p),
+      tauy: sharedField(size, p),
       spongeSums: [sums(), sums()],
     };
   }
-  const setup: StripSetup = { mode: 'nonlinear', kernel, grid: g, coefficients, fields, ...(wasm ? { wasm } : {}) };
+  const setup: StripSetup = { mode: 'nonlinear', kernel, precision, grid: g, coefficients, fields, ...(wasm ? { wasm } : {}) };
   return { setup, binding: nonlinearBinding(fields, nc.spongeH, c.spongeRowsH) };
 }
 
 /** This thread's rows as a StripStep; `strip` is the thread's strip number (its ring in shared memory). */
 export function stripStep(s: StripSetup, strip: number): StripStep {
+  const f32 = s.precision === 'float32';
   if (s.mode === 'linear') {
-    const rows = s.wasm ? wasmStripRows(s.wasm, s.grid, s.coefficients) : new TsRows(s.grid, s.coefficients, s.fields);
+    const rows = s.wasm
+      ? wasmStripRows(s.wasm, s.grid, s.coefficients, s.precision)
+      : f32
+        ? new TsRows32(s.grid, s.coefficients, s.fields as StepFields<Float32Array>)
+        : new TsRows(s.grid, s.coefficients, s.fields as StepFields<Float64Array>);
     return linearStripStep(rows, s.coefficients);
   }
-  const rows = s.wasm ? wasmNonlinearStripRows(s.wasm, strip, s.grid, s.coefficients) : new TsNonlinearRows(s.grid, s.coefficients, s.fields);
+  const rows = s.wasm
+    ? wasmNonlinearStripRows(s.wasm, strip, s.grid, s.coefficients, s.precision)
+    : f32
+      ? new TsNonlinearRows32(s.grid, s.coefficients, s.fields as NonlinearFields<Float32Array>)
+      : new TsNonlinearRows(s.grid, s.coefficients, s.fields as NonlinearFields<Float64Array>);
   return nonlinearStripStep(rows);
 }

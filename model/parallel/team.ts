@@ -9,6 +9,7 @@ import type { Grid } from '../grid.ts';
 import type { StepCoefficients } from '../dynamics/coefficients.ts';
 import { STEP_PARAMS, type FieldBinding } from '../dynamics/field-binding.ts';
 import type { State } from '../state.ts';
+import type { Precision } from '../precision.ts';
 import { Barrier } from './barrier.ts';
 import { CMD, CONTROL_WORDS, CURRENT, STEP, STOP, SYNC, type StripInit, type StripReply } from './strip-protocol.ts';
 import { stripBounds, type StripRows, type StripStep } from '../dynamics/step-schedule.ts';
@@ -41,6 +42,8 @@ export interface TeamOptions {
   startMs?: number;
   /** What computes the rows: the TypeScript row functions (default) or the WebAssembly kernel. */
   kernel?: StripKernelName;
+  /** The working precision of the state and the step (default float64). */
+  precision?: Precision;
 }
 
 export class StripTeamError extends Error {
@@ -93,7 +96,7 @@ export class StripTeam {
     const spins = options.spins ?? 4000;
     // The TypeScript strips keep each field in a SharedArrayBuffer of its own; the WebAssembly
     // strips keep them all in one shared WebAssembly.Memory (with masks and tables).
-    const { setup, binding } = createStripSetup(grid, c, physics, kernelName, strips.length);
+    const { setup, binding } = createStripSetup(grid, c, physics, kernelName, strips.length, options.precision ?? 'float64');
     const workers: StripWorkerPort[] = [];
     const terminateAll = () => {
       for (const w of workers) w.terminate();

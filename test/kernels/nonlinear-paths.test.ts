@@ -17,7 +17,11 @@ import { scenarioCase, SHIPPED } from '../support/scenario-cases.ts';
 const calm: () => WindStress = () => ({ steady: true, fill: (_t, x, y) => (x.fill(0), y.fill(0)) });
 
 /** Largest |u| of a state: the comparison is worth something only where the flow moves. */
-const speed = (m: { state: { u: Float64Array } }) => m.state.u.reduce((a, x) => Math.max(a, Math.abs(x)), 0);
+const speed = (m: { state: { u: ArrayLike<number> } }) => {
+  let top = 0;
+  for (let k = 0; k < m.state.u.length; k++) top = Math.max(top, Math.abs(m.state.u[k]));
+  return top;
+};
 
 /** Plain, TypeScript and WebAssembly runs from the same start, compared after each count of steps. */
 function compare(cfg: ModelConfig, wind: () => WindStress, initial: ModelOptions['initial'], counts: number[]): { plain: PlainNonlinear; wasm: Model } {

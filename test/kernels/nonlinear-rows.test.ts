@@ -1,6 +1,8 @@
 // The two row kernels of the nonlinear step hold the same arithmetic: every row function of the
 // WebAssembly SIMD module (model/dynamics/wasm/nonlinear.as.ts) against the TypeScript rows
-// (model/dynamics/nonlinear-rows.ts) on the same random fields and history, bit for bit, on every
+// (model/dynamics/nonlinear-rows.ts, and in float32 nonlinear-rows32.ts against the float32 build:
+// 36, 37 and 38 columns put every remainder of four lanes into the scalar tails) on the same random
+// fields and history, bit for bit, on every
 // row of a basin with land (coasts in free and no slip), sponge rows, thin layers (entrainment and
 // the stress depth floor), friction, viscosity and each order of the multistep weights. A change
 // to one without the other fails here, row by row, before any step comparison would.
@@ -8,15 +10,18 @@
 import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';
 import { buildCoefficients } from '../../model/dynamics/coefficients.ts';
-import { AB_WEIGHTS, nonlinearFields, nonlinearRowCoefficients, nonlinearRowGrid, TsNonlinearRows, type NonlinearFields, type NonlinearRows } from '../../model/dynamics/nonlinear-rows.ts';
+import { AB_WEIGHTS, nonlinearFields, nonlinearFields32, nonlinearRowCoefficients, nonlinearRowGrid, TsNonlinearRows, type NonlinearFields, type NonlinearRows } from '../../model/dynamics/nonlinear-rows.ts';
+import { roundNonlinearCoefficients, TsNonlinearRows32 } from '../../model/dynamics/nonlinear-rows32.ts';
 import { wasmNonlinearParts } from '../../model/dynamics/nonlinear-wasm.ts';
+import type { Precision } from '../../model/precision.ts';
+import type { FieldArray } from '../../model/state.ts';
 import { Grid } from '../../model/grid.ts';
 import { referenceConfig } from '../../model/reference-kernel.ts';
 import { sameBits } from '../support/bits.ts';
 
 const FIELDS = ['u', 'v', 'h', 'du', 'dv', 'dh'] as const;
 
-function setup(slip: 'free' | 'no', nx = 37) {
+function setup(slip: 'free' | 'no', nx = 37, precision: Precision = 'float64') {
   // 37 columns: the v and h rows end in a scalar column; 36: the u rows and corner rows do
   const cfg = referenceConfig(nx, 30);
   cfg.basin.land = [...cfg.basin.land, { kind: 'rectangle', lonWest: 100, lonEast: 125, latSouth: 4, latNorth: 20 }];
@@ -32,17 +37,24 @@ function setup(slip: 'free' | 'no', nx = 37) {
   const grid = new Grid(cfg.basin, cfg.physics.earthRadius);
   const c = buildCoefficients(grid, cfg.physics, 900);
   const g = nonlinearRowGrid(grid);
-  const nc = nonlinearRowCoefficients(grid, c, cfg.physics);
+  const exact = nonlinearRowCoefficients(grid, c, cfg.physics);
+  if (precision === 'float32') {
+    const nc = roundNonlinearCoefficients(exact);
+    const tsFields = nonlinearFields32(grid);
+    const ts = new TsNonlinearRows32(g, nc, tsFields);
+    const { rows: wasm, fields: wasmFields } = wasmNonlinearParts(g, nc, precision);
+    return { cfg, grid, ts, tsFields: tsFields as NonlinearFields<FieldArray>, wasm, wasmFields };
+  }
   const tsFields = nonlinearFields(grid);
-  const ts = new TsNonlinearRows(g, nc, tsFields);
-  const { rows: wasm, fields: wasmFields } = wasmNonlinearParts(g, nc);
-  return { cfg, grid, ts, tsFields, wasm, wasmFields };
+  const ts = new TsNonlinearRows(g, exact, tsFields);
+  const { rows: wasm, fields: wasmFields } = wasmNonlinearParts(g, exact);
+  return { cfg, grid, ts, tsFields: tsFields as NonlinearFields<FieldArray>, wasm, wasmFields };
 }
 
 /** The same random values in both field sets (thicknesses down to 40 m below H = 60 m), land at 0, as the model's. */
-function fill(grid: Grid, seed: string, a: NonlinearFields, b: NonlinearFields): void {
+function fill(grid: Grid, seed: string, a: NonlinearFields<FieldArray>, b: NonlinearFields<FieldArray>): void {
   const rnd = seedrandom(seed);
-  const put = (x: Float64Array, y: Float64Array, scale: number, mask: Float64Array | Uint8Array, offset = 0) => {
+  const put = (x: FieldArray, y: FieldArray, scale: number, mask: Float64Array | Uint8Array, offset = 0) => {
     for (let k = 0; k < x.length; k++) x[k] = y[k] = mask[k] ? offset + scale * (2 * rnd() - 1) : 0;
   };
   for (const n of [0, 1]) {
@@ -57,21 +69,28 @@ function fill(grid: Grid, seed: string, a: NonlinearFields, b: NonlinearFields):
   put(a.tauy, b.tauy, 0.05, grid.maskV);
 }
 
-function same(a: NonlinearFields, b: NonlinearFields): string[] {
+function same(a: NonlinearFields<FieldArray>, b: NonlinearFields<FieldArray>): string[] {
   const bad: string[] = [];
   for (const f of FIELDS) for (const n of [0, 1]) if (!sameBits(a[f][n], b[f][n])) bad.push(`${f}[${n}]`);
   for (const n of [0, 1]) if (!sameBits(a.spongeSums[n], b.spongeSums[n])) bad.push(`spongeSums[${n}]`);
   return bad;
 }
 
-function snapshot(f: NonlinearFields): Float64Array[] {
+function snapshot(f: NonlinearFields<FieldArray>): FieldArray[] {
   return FIELDS.flatMap((k) => [f[k][0].slice(), f[k][1].slice()]);
 }
 
 describe('WebAssembly nonlinear rows against the TypeScript rows', () => {
-  for (const [slip, nx] of [['free', 37], ['no', 37], ['no', 36]] as const) {
-    it(`every row, both buffer sets, every multistep order, the same bits (${slip} slip, ${nx} columns)`, () => {
-      const { cfg, grid, ts, tsFields, wasm, wasmFields } = setup(slip, nx);
+  for (const [slip, nx, precision] of [
+    ['free', 37, 'float64'],
+    ['no', 37, 'float64'],
+    ['no', 36, 'float64'],
+    ['free', 37, 'float32'],
+    ['no', 38, 'float32'],
+    ['no', 36, 'float32'],
+  ] as const) {
+    it(`every row, both buffer sets, every multistep order, the same bits (${precision}, ${slip} slip, ${nx} columns)`, () => {
+      const { cfg, grid, ts, tsFields, wasm, wasmFields } = setup(slip, nx, precision);
       const { ny } = grid;
       const run = (k: NonlinearRows, cur: number, j: number) => {
         // the ring rows out(j) reads: pre of j - 1, j and j + 1 where they exist
@@ -83,7 +102,7 @@ describe('WebAssembly nonlinear rows against the TypeScript rows', () => {
       for (const weights of AB_WEIGHTS) {
         for (const cur of [0, 1]) {
           for (let j = 0; j <= ny; j++) {
-            fill(grid, `${slip} ${nx} ${weights[0]} ${cur} ${j}`, tsFields, wasmFields);
+            fill(grid, `${precision} ${slip} ${nx} ${weights[0]} ${cur} ${j}`, tsFields, wasmFields);
             const before = snapshot(tsFields);
             for (const k of [ts, wasm]) k.params(cfg.physics.friction, cfg.physics.viscosity, weights[0], weights[1], weights[2]);
             run(ts, cur, j);

@@ -66,7 +66,7 @@ export class PlainNonlinear {
 /** Which of a state's arrays differ in any bit from another's (empty when none). */
 export function differences(a: State, b: State): string[] {
   const out: string[] = [];
-  const pairs: Array<[string, Float64Array, Float64Array]> = [
+  const pairs: Array<[string, Float64Array | Float32Array, Float64Array | Float32Array]> = [
     ['u', a.u, b.u],
     ['v', a.v, b.v],
     ['h', a.h, b.h],

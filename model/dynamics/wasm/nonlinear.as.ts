@@ -14,82 +14,34 @@
 // reloaded at every use inside a loop), ring rows get their own bases, and the common case of a
 // corner with four ocean cells skips the division by their count (x / 4 is x * 0.25 exactly).
 
-@inline function ld(p: usize, k: i32): f64 {
-  return load<f64>(p + (<usize>k << 3));
-}
-@inline function st(p: usize, k: i32, x: f64): void {
-  store<f64>(p + (<usize>k << 3), x);
-}
-@inline function ldv(p: usize, k: i32): v128 {
-  return v128.load(p + (<usize>k << 3));
-}
-@inline function stv(p: usize, k: i32, x: v128): void {
-  v128.store(p + (<usize>k << 3), x);
-}
-@inline function splat(x: f64): v128 {
-  return f64x2.splat(x);
-}
-@inline function add(a: v128, b: v128): v128 {
-  return f64x2.add(a, b);
-}
-@inline function sub(a: v128, b: v128): v128 {
-  return f64x2.sub(a, b);
-}
-@inline function mul(a: v128, b: v128): v128 {
-  return f64x2.mul(a, b);
-}
-@inline function div(a: v128, b: v128): v128 {
-  return f64x2.div(a, b);
-}
-/** a where the lane of m is set, else b. */
-@inline function pick(a: v128, b: v128, m: v128): v128 {
-  return v128.bitselect(a, b, m);
-}
-/** x where the lane's mask bits are all set, +0 where they are all clear (the TypeScript's `mask ? x : 0`). */
-@inline function keep(x: v128, m: v128): v128 {
-  return v128.and(x, m);
-}
-/** Math.max(x, y) for y not NaN: x when x is NaN (one instruction, unlike f64x2.max). */
-@inline function maxv(x: v128, y: v128): v128 {
-  return f64x2.pmax(x, y);
-}
-@inline function maxs(x: f64, y: f64): f64 {
-  return x < y ? y : x;
-}
+import { real, LANES, SHIFT, ld, st, ldv, stv, ldb, asOne, splat, add, sub, mul, div, neg, lt, maxv, maxs, pick, keep, allSet, maskSplat } from './real.as';
 
-@inline function ldb(p: usize, k: i32): u64 {
-  return load<u64>(p + (<usize>k << 3));
-}
-/** The 0/1 double of a mask (1.0 where all bits are set, +0 where none). */
-@inline function asOne(b: u64): f64 {
-  return reinterpret<f64>(b & 0x3ff0000000000000);
-}
 /** The base that makes index k of the ring row starting at ring + 8 (o + row) read as ring row column k - row. */
 @inline function rowBase(ring: usize, o: i32): usize {
-  return ring + (<usize>o << 3);
+  return ring + (<usize>o << SHIFT);
 }
 
 // Grid and scalars of a run, set once.
 let nx: i32 = 0;
 let ny: i32 = 0;
 let W: i32 = 0;
-let dt: f64 = 0;
-let H: f64 = 0;
-let gp: f64 = 0;
-let rho0: f64 = 0;
-let hMin: f64 = 0;
-let entrainRate: f64 = 0;
+let dt: real = 0;
+let H: real = 0;
+let gp: real = 0;
+let rho0: real = 0;
+let hMin: real = 0;
+let entrainRate: real = 0;
 let freeSlip: bool = false;
-let idx: f64 = 0;
-let idy: f64 = 0;
-let idx2: f64 = 0;
-let idy2: f64 = 0;
+let idx: real = 0;
+let idy: real = 0;
+let idx2: real = 0;
+let idy2: real = 0;
 // Per step.
-let r: f64 = 0;
-let A: f64 = 0;
-let a0: f64 = 1;
-let a1: f64 = 0;
-let a2: f64 = 0;
+let r: real = 0;
+let A: real = 0;
+let a0: real = 1;
+let a1: real = 0;
+let a2: real = 0;
 // Row tables (fCorner ny + 1, spongeH ny, spongeV ny + 1), the ocean masks and the coast terms.
 let pFC: usize = 0;
 let pSH: usize = 0;
@@ -126,7 +78,7 @@ export function nlSetGrid(nx_: i32, ny_: i32, W_: i32): void {
   W = W_;
 }
 
-export function nlSetScalars(dt_: f64, H_: f64, gp_: f64, rho0_: f64, hMin_: f64, entrainRate_: f64, freeSlip_: i32, idx_: f64, idy_: f64, idx2_: f64, idy2_: f64): void {
+export function nlSetScalars(dt_: real, H_: real, gp_: real, rho0_: real, hMin_: real, entrainRate_: real, freeSlip_: i32, idx_: real, idy_: real, idx2_: real, idy2_: real): void {
   dt = dt_;
   H = H_;
   gp = gp_;
@@ -179,7 +131,7 @@ export function nlSetFields(
   pSS1 = sums1;
 }
 
-export function nlParams(r_: f64, A_: f64, a0_: f64, a1_: f64, a2_: f64): void {
+export function nlParams(r_: real, A_: real, a0_: real, a1_: real, a2_: real): void {
   r = r_;
   A = A_;
   a0 = a0_;
@@ -204,7 +156,7 @@ export function nlPre(cur: i32, j: i32): void {
     preB(u, v, h, row, rowBase(pRB, o));
   }
   preV(v, h, row, rowBase(pRV, o));
-  preQ(u, v, h, row, rowBase(pRQ, o), load<f64>(pFC + (<usize>j << 3)));
+  preQ(u, v, h, row, rowBase(pRQ, o), ld(pFC, j));
 }
 
 /** Mass flux on the u faces of the row: maskU 0.5 (2H + h[k-1] + h[k]) u. */
@@ -215,11 +167,11 @@ function preU(u: usize, h: usize, row: i32, out: usize): void {
   const one = splat(1);
   const end = row + nx + 2;
   let k = row + 1;
-  for (; k + 1 < end; k += 2) {
+  for (; k + LANES - 1 < end; k += LANES) {
     const mU = v128.and(v128.and(ldv(ob, k - 1), ldv(ob, k)), one);
     stv(out, k, mul(mul(mul(mU, half), add(add(twoH, ldv(h, k - 1)), ldv(h, k))), ldv(u, k)));
   }
-  if (k < end) st(out, k, asOne(ldb(ob, k - 1) & ldb(ob, k)) * 0.5 * (2 * H + ld(h, k - 1) + ld(h, k)) * ld(u, k));
+  for (; k < end; k++) st(out, k, asOne(ldb(ob, k - 1) & ldb(ob, k)) * <real>0.5 * (<real>2 * H + ld(h, k - 1) + ld(h, k)) * ld(u, k));
 }
 
 /** Mass flux on the v faces of the row. */
@@ -231,11 +183,11 @@ function preV(v: usize, h: usize, row: i32, out: usize): void {
   const one = splat(1);
   const end = row + nx + 1;
   let k = row + 1;
-  for (; k + 1 < end; k += 2) {
+  for (; k + LANES - 1 < end; k += LANES) {
     const mV = v128.and(v128.and(ldv(ob, k - w), ldv(ob, k)), one);
     stv(out, k, mul(mul(mul(mV, half), add(add(twoH, ldv(h, k - w)), ldv(h, k))), ldv(v, k)));
   }
-  if (k < end) st(out, k, asOne(ldb(ob, k - w) & ldb(ob, k)) * 0.5 * (2 * H + ld(h, k - w) + ld(h, k)) * ld(v, k));
+  for (; k < end; k++) st(out, k, asOne(ldb(ob, k - w) & ldb(ob, k)) * <real>0.5 * (<real>2 * H + ld(h, k - w) + ld(h, k)) * ld(v, k));
 }
 
 /** Bernoulli function at the centres of the row: g' h' + |u|^2 / 2 over ocean, 0 on land. */
@@ -246,7 +198,7 @@ function preB(u: usize, v: usize, h: usize, row: i32, out: usize): void {
   const quarter = splat(0.25);
   const end = row + nx + 1;
   let k = row + 1;
-  for (; k + 1 < end; k += 2) {
+  for (; k + LANES - 1 < end; k += LANES) {
     const uC = ldv(u, k);
     const uE = ldv(u, k + 1);
     const vC = ldv(v, k);
@@ -254,10 +206,10 @@ function preB(u: usize, v: usize, h: usize, row: i32, out: usize): void {
     const ke = mul(quarter, add(add(add(mul(uC, uC), mul(uE, uE)), mul(vC, vC)), mul(vN, vN)));
     stv(out, k, keep(add(mul(vgp, ldv(h, k)), ke), ldv(ob, k)));
   }
-  if (k < end) {
-    let b: f64 = 0;
+  for (; k < end; k++) {
+    let b: real = 0;
     if (ldb(ob, k) != 0) {
-      const ke = 0.25 * (ld(u, k) * ld(u, k) + ld(u, k + 1) * ld(u, k + 1) + ld(v, k) * ld(v, k) + ld(v, k + w) * ld(v, k + w));
+      const ke = <real>0.25 * (ld(u, k) * ld(u, k) + ld(u, k + 1) * ld(u, k + 1) + ld(v, k) * ld(v, k) + ld(v, k + w) * ld(v, k + w));
       b = gp * ld(h, k) + ke;
     }
     st(out, k, b);
@@ -265,7 +217,7 @@ function preB(u: usize, v: usize, h: usize, row: i32, out: usize): void {
 }
 
 /** Potential vorticity (f + zeta) / h at the south-west corners of the row's cells. */
-function preQ(u: usize, v: usize, h: usize, row: i32, out: usize, f: f64): void {
+function preQ(u: usize, v: usize, h: usize, row: i32, out: usize, f: real): void {
   const ob = pOB;
   const w = W;
   const zero = splat(0);
@@ -276,10 +228,10 @@ function preQ(u: usize, v: usize, h: usize, row: i32, out: usize, f: f64): void 
   const vidx = splat(idx);
   const vidy = splat(idy);
   // free slip: no shear where a corner touches land
-  const slipAll = freeSlip ? i64x2.splat(-1) : i64x2.splat(0);
+  const slipAll = maskSplat(freeSlip);
   const end = row + nx + 2;
   let k = row + 1;
-  for (; k + 1 < end; k += 2) {
+  for (; k + LANES - 1 < end; k += LANES) {
     const bC = ldv(ob, k);
     const bW = ldv(ob, k - 1);
     const bS = ldv(ob, k - w);
@@ -290,7 +242,7 @@ function preQ(u: usize, v: usize, h: usize, row: i32, out: usize, f: f64): void 
     const hS = ldv(h, k - w);
     const hSW = ldv(h, k - w - 1);
     const shear = sub(mul(sub(ldv(v, k), ldv(v, k - 1)), vidx), mul(sub(ldv(u, k), ldv(u, k - w)), vidy));
-    if (i64x2.all_true(all)) {
+    if (allSet(all)) {
       // four ocean cells: the weights are 1 and their count 4
       const hq = add(mul(add(add(add(hC, hW), hS), hSW), quarter), vH);
       stv(out, k, div(add(vf, shear), maxv(hq, one)));
@@ -307,17 +259,17 @@ function preQ(u: usize, v: usize, h: usize, row: i32, out: usize, f: f64): void 
       stv(out, k, keep(q, v128.or(v128.or(v128.or(bC, bW), bS), bSW)));
     }
   }
-  if (k < end) {
+  for (; k < end; k++) {
     const oC = asOne(ldb(ob, k));
     const oW = asOne(ldb(ob, k - 1));
     const oS = asOne(ldb(ob, k - w));
     const oSW = asOne(ldb(ob, k - w - 1));
     const wet = oC + oW + oS + oSW;
-    let q: f64 = 0;
+    let q: real = 0;
     if (wet != 0) {
-      const zeta: f64 = freeSlip && wet < 4 ? 0 : (ld(v, k) - ld(v, k - 1)) * idx - (ld(u, k) - ld(u, k - w)) * idy;
+      const zeta: real = freeSlip && wet < <real>4 ? <real>0 : (ld(v, k) - ld(v, k - 1)) * idx - (ld(u, k) - ld(u, k - w)) * idy;
       const hq = (oC * ld(h, k) + oW * ld(h, k - 1) + oS * ld(h, k - w) + oSW * ld(h, k - w - 1)) / wet + H;
-      q = (f + zeta) / maxs(hq, 1);
+      q = (f + zeta) / maxs(hq, <real>1);
     }
     st(out, k, q);
   }
@@ -334,7 +286,7 @@ export function nlOut(cur: i32, j: i32): void {
   const v = cur ? pV1 : pV0;
   const h = cur ? pH1 : pH0;
   if (j < ny) outU(u, h, cur ? pU0 : pU1, cur ? pDU1 : pDU0, cur ? pDU0 : pDU1, row, rowBase(pRQ, oC), rowBase(pRQ, oN), rowBase(pRV, oC), rowBase(pRV, oN), rowBase(pRB, oC));
-  outV(v, h, cur ? pV0 : pV1, cur ? pDV1 : pDV0, cur ? pDV0 : pDV1, row, rowBase(pRQ, oC), rowBase(pRU, oS), rowBase(pRU, oC), rowBase(pRB, oS), rowBase(pRB, oC), load<f64>(pSV + (<usize>j << 3)));
+  outV(v, h, cur ? pV0 : pV1, cur ? pDV1 : pDV0, cur ? pDV0 : pDV1, row, rowBase(pRQ, oC), rowBase(pRU, oS), rowBase(pRU, oC), rowBase(pRB, oS), rowBase(pRB, oC), ld(pSV, j));
   if (j < ny) outH(h, cur ? pH0 : pH1, cur ? pDH1 : pDH0, cur ? pDH0 : pDH1, cur ? pSS0 : pSS1, row, rowBase(pRU, oC), rowBase(pRV, oC), rowBase(pRV, oN), j);
 }
 
@@ -361,7 +313,7 @@ function outU(u: usize, h: usize, un: usize, t1: usize, t2: usize, row: i32, qC:
   const va2 = splat(a2);
   const end = row + nx + 2;
   let k = row + 1;
-  for (; k + 1 < end; k += 2) {
+  for (; k + LANES - 1 < end; k += LANES) {
     const uc = ldv(u, k);
     const pv = mul(quarter, add(mul(ldv(qN, k), add(ldv(VN, k - 1), ldv(VN, k))), mul(ldv(qC, k), add(ldv(VC, k - 1), ldv(VC, k)))));
     const hu = maxv(add(vH, mul(half, add(ldv(h, k - 1), ldv(h, k)))), one);
@@ -372,13 +324,13 @@ function outU(u: usize, h: usize, un: usize, t1: usize, t2: usize, row: i32, qC:
     stv(un, k, add(uc, mul(vdt, add(add(mul(va0, du), mul(va1, ldv(t1, k))), mul(va2, ldv(t2, k))))));
     stv(t2, k, du);
   }
-  if (k < end) {
-    let du: f64 = 0;
+  for (; k < end; k++) {
+    let du: real = 0;
     const uc = ld(u, k);
     if ((ldb(ob, k - 1) & ldb(ob, k)) != 0) {
-      const pv = 0.25 * (ld(qN, k) * (ld(VN, k - 1) + ld(VN, k)) + ld(qC, k) * (ld(VC, k - 1) + ld(VC, k)));
-      const hu = maxs(H + 0.5 * (ld(h, k - 1) + ld(h, k)), 1);
-      const lap = (ld(u, k + 1) + ld(u, k - 1) - 2 * uc) * idx2 + (ld(u, k + w) + ld(u, k - w) - 2 * uc) * idy2 + ld(cu, k) * uc;
+      const pv = <real>0.25 * (ld(qN, k) * (ld(VN, k - 1) + ld(VN, k)) + ld(qC, k) * (ld(VC, k - 1) + ld(VC, k)));
+      const hu = maxs(H + <real>0.5 * (ld(h, k - 1) + ld(h, k)), <real>1);
+      const lap = (ld(u, k + 1) + ld(u, k - 1) - <real>2 * uc) * idx2 + (ld(u, k + w) + ld(u, k - w) - <real>2 * uc) * idy2 + ld(cu, k) * uc;
       du = pv - (ld(BC, k) - ld(BC, k - 1)) * idx + ld(tx, k) / (rho0 * hu) - r * uc + A * lap;
     }
     st(un, k, uc + dt * (a0 * du + a1 * ld(t1, k) + a2 * ld(t2, k)));
@@ -387,7 +339,7 @@ function outU(u: usize, h: usize, un: usize, t1: usize, t2: usize, row: i32, qC:
 }
 
 /** Momentum on the v faces of the row, its AB3 advance, the tendency into slot t2, the row's sponge. */
-function outV(v: usize, h: usize, vn: usize, t1: usize, t2: usize, row: i32, qC: usize, US: usize, UC: usize, BS: usize, BC: usize, s: f64): void {
+function outV(v: usize, h: usize, vn: usize, t1: usize, t2: usize, row: i32, qC: usize, US: usize, UC: usize, BS: usize, BC: usize, s: real): void {
   const ob = pOB;
   const cv = pCV;
   const ty = pTY;
@@ -409,24 +361,24 @@ function outV(v: usize, h: usize, vn: usize, t1: usize, t2: usize, row: i32, qC:
   const va2 = splat(a2);
   const end = row + nx + 1;
   let k = row + 1;
-  for (; k + 1 < end; k += 2) {
+  for (; k + LANES - 1 < end; k += LANES) {
     const vc = ldv(v, k);
     const pv = mul(quarter, add(mul(ldv(qC, k + 1), add(ldv(US, k + 1), ldv(UC, k + 1))), mul(ldv(qC, k), add(ldv(US, k), ldv(UC, k)))));
     const hv = maxv(add(vH, mul(half, add(ldv(h, k - w), ldv(h, k)))), one);
     const twoV = mul(two, vc);
     const lap = add(add(mul(sub(add(ldv(v, k + 1), ldv(v, k - 1)), twoV), vidx2), mul(sub(add(ldv(v, k + w), ldv(v, k - w)), twoV), vidy2)), mul(ldv(cv, k), vc));
-    const tend = add(sub(add(sub(f64x2.neg(pv), mul(sub(ldv(BC, k), ldv(BS, k)), vidy)), div(ldv(ty, k), mul(vrho, hv))), mul(vr, vc)), mul(vA, lap));
+    const tend = add(sub(add(sub(neg(pv), mul(sub(ldv(BC, k), ldv(BS, k)), vidy)), div(ldv(ty, k), mul(vrho, hv))), mul(vr, vc)), mul(vA, lap));
     const dv = keep(tend, v128.and(ldv(ob, k - w), ldv(ob, k)));
     stv(vn, k, add(vc, mul(vdt, add(add(mul(va0, dv), mul(va1, ldv(t1, k))), mul(va2, ldv(t2, k))))));
     stv(t2, k, dv);
   }
-  if (k < end) {
-    let dv: f64 = 0;
+  for (; k < end; k++) {
+    let dv: real = 0;
     const vc = ld(v, k);
     if ((ldb(ob, k - w) & ldb(ob, k)) != 0) {
-      const pv = 0.25 * (ld(qC, k + 1) * (ld(US, k + 1) + ld(UC, k + 1)) + ld(qC, k) * (ld(US, k) + ld(UC, k)));
-      const hv = maxs(H + 0.5 * (ld(h, k - w) + ld(h, k)), 1);
-      const lap = (ld(v, k + 1) + ld(v, k - 1) - 2 * vc) * idx2 + (ld(v, k + w) + ld(v, k - w) - 2 * vc) * idy2 + ld(cv, k) * vc;
+      const pv = <real>0.25 * (ld(qC, k + 1) * (ld(US, k + 1) + ld(UC, k + 1)) + ld(qC, k) * (ld(US, k) + ld(UC, k)));
+      const hv = maxs(H + <real>0.5 * (ld(h, k - w) + ld(h, k)), <real>1);
+      const lap = (ld(v, k + 1) + ld(v, k - 1) - <real>2 * vc) * idx2 + (ld(v, k + w) + ld(v, k - w) - <real>2 * vc) * idy2 + ld(cv, k) * vc;
       dv = -pv - (ld(BC, k) - ld(BS, k)) * idy + ld(ty, k) / (rho0 * hv) - r * vc + A * lap;
     }
     st(vn, k, vc + dt * (a0 * dv + a1 * ld(t1, k) + a2 * ld(t2, k)));
@@ -435,8 +387,8 @@ function outV(v: usize, h: usize, vn: usize, t1: usize, t2: usize, row: i32, qC:
   if (s != 1) {
     const vs = splat(s);
     k = row + 1;
-    for (; k + 1 < end; k += 2) stv(vn, k, mul(ldv(vn, k), vs));
-    if (k < end) st(vn, k, ld(vn, k) * s);
+    for (; k + LANES - 1 < end; k += LANES) stv(vn, k, mul(ldv(vn, k), vs));
+    for (; k < end; k++) st(vn, k, ld(vn, k) * s);
   }
 }
 
@@ -454,33 +406,34 @@ function outH(h: usize, hn: usize, t1: usize, t2: usize, sums: usize, row: i32, 
   const va2 = splat(a2);
   const end = row + nx + 1;
   let k = row + 1;
-  for (; k + 1 < end; k += 2) {
+  for (; k + LANES - 1 < end; k += LANES) {
     const hc = ldv(h, k);
     const thick = add(vH, hc);
-    const entrain = keep(mul(sub(vhMin, thick), vrate), f64x2.lt(thick, vhMin));
+    const entrain = keep(mul(sub(vhMin, thick), vrate), lt(thick, vhMin));
     const div_ = add(mul(sub(ldv(UC, k + 1), ldv(UC, k)), vidx), mul(sub(ldv(VN, k), ldv(VC, k)), vidy));
-    const dh = keep(add(f64x2.neg(div_), entrain), ldv(ob, k));
+    const dh = keep(add(neg(div_), entrain), ldv(ob, k));
     stv(hn, k, add(hc, mul(vdt, add(add(mul(va0, dh), mul(va1, ldv(t1, k))), mul(va2, ldv(t2, k))))));
     stv(t2, k, dh);
   }
-  if (k < end) {
-    let dh: f64 = 0;
+  for (; k < end; k++) {
+    let dh: real = 0;
     const hc = ld(h, k);
     if (ldb(ob, k) != 0) {
       const thick = H + hc;
-      const entrain: f64 = thick < hMin ? (hMin - thick) * entrainRate : 0;
+      const entrain: real = thick < hMin ? (hMin - thick) * entrainRate : <real>0;
       dh = -((ld(UC, k + 1) - ld(UC, k)) * idx + (ld(VN, k) - ld(VC, k)) * idy) + entrain;
     }
     st(hn, k, hc + dt * (a0 * dh + a1 * ld(t1, k) + a2 * ld(t2, k)));
     st(t2, k, dh);
   }
-  const s = load<f64>(pSH + (<usize>j << 3));
+  const s = ld(pSH, j);
   if (s != 1) {
     // the sum in column order, as the TypeScript step takes it
+    // (in double in both builds: the sums are the budget's, a diagnostic)
     let sum: f64 = 0;
     for (k = row + 1; k < end; k++) {
       const x = ld(hn, k);
-      sum += x;
+      sum += <f64>x;
       st(hn, k, x * s);
     }
     store<f64>(sums + (<usize>j << 3), sum);
