@@ -152,21 +152,85 @@ export function nlPre(cur: i32, j: i32): void {
   const row = (j + 1) * W;
   const o = slot(j) * W - row;
   if (j < ny) {
-    preU(u, h, row, rowBase(pRU, o));
-    preB(u, v, h, row, rowBase(pRB, o));
+    preAll(u, v, h, row, rowBase(pRU, o), rowBase(pRV, o), rowBase(pRQ, o), rowBase(pRB, o), ld(pFC, j));
+    return;
   }
   preV(v, h, row, rowBase(pRV, o));
   preQ(u, v, h, row, rowBase(pRQ, o), ld(pFC, j));
 }
 
-/** Mass flux on the u faces of the row: maskU 0.5 (2H + h[k-1] + h[k]) u. */
-function preU(u: usize, h: usize, row: i32, out: usize): void {
+/**
+ * U, V, q and B of a row below the north wall in one sweep (each value as preU, preV, preQ and
+ * preB compute it; the sweep shares their loads): LANES columns at a time over the row's nx cells,
+ * then the last face (U and q only) and the leftover columns through the single-row functions.
+ */
+function preAll(u: usize, v: usize, h: usize, row: i32, oU: usize, oV: usize, oQ: usize, oB: usize, f: real): void {
+  const ob = pOB;
+  const w = W;
+  const twoH = splat(2 * H);
+  const half = splat(0.5);
+  const one = splat(1);
+  const zero = splat(0);
+  const quarter = splat(0.25);
+  const vgp = splat(gp);
+  const vH = splat(H);
+  const vf = splat(f);
+  const vidx = splat(idx);
+  const vidy = splat(idy);
+  const slipAll = maskSplat(freeSlip);
+  const end = row + nx + 1;
+  let k = row + 1;
+  for (; k + LANES - 1 < end; k += LANES) {
+    const bC = ldv(ob, k);
+    const bW = ldv(ob, k - 1);
+    const bS = ldv(ob, k - w);
+    const bSW = ldv(ob, k - w - 1);
+    const hC = ldv(h, k);
+    const hW = ldv(h, k - 1);
+    const hS = ldv(h, k - w);
+    const hSW = ldv(h, k - w - 1);
+    const uC = ldv(u, k);
+    const vC = ldv(v, k);
+    // U on the west faces, V on the south faces
+    stv(oU, k, mul(mul(mul(v128.and(v128.and(bW, bC), one), half), add(add(twoH, hW), hC)), uC));
+    stv(oV, k, mul(mul(mul(v128.and(v128.and(bS, bC), one), half), add(add(twoH, hS), hC)), vC));
+    // B at the centres
+    const uE = ldv(u, k + 1);
+    const vN = ldv(v, k + w);
+    const ke = mul(quarter, add(add(add(mul(uC, uC), mul(uE, uE)), mul(vC, vC)), mul(vN, vN)));
+    stv(oB, k, keep(add(mul(vgp, hC), ke), bC));
+    // q at the south-west corners
+    const all = v128.and(v128.and(v128.and(bC, bW), bS), bSW);
+    const shear = sub(mul(sub(vC, ldv(v, k - 1)), vidx), mul(sub(uC, ldv(u, k - w)), vidy));
+    if (allSet(all)) {
+      const hq = add(mul(add(add(add(hC, hW), hS), hSW), quarter), vH);
+      stv(oQ, k, div(add(vf, shear), maxv(hq, one)));
+    } else {
+      const oC = v128.and(bC, one);
+      const oW = v128.and(bW, one);
+      const oS = v128.and(bS, one);
+      const oSW = v128.and(bSW, one);
+      const wet = add(add(add(oC, oW), oS), oSW);
+      const zeta = pick(zero, shear, v128.andnot(slipAll, all));
+      const hsum = add(add(add(mul(oC, hC), mul(oW, hW)), mul(oS, hS)), mul(oSW, hSW));
+      const q = div(add(vf, zeta), maxv(add(div(hsum, wet), vH), one));
+      stv(oQ, k, keep(q, v128.or(v128.or(v128.or(bC, bW), bS), bSW)));
+    }
+  }
+  // the columns left over and the row's last face, one value at a time
+  preUFrom(u, h, k, row + nx + 2, oU);
+  preVFrom(v, h, k, end, oV);
+  preBFrom(u, v, h, k, end, oB);
+  preQFrom(u, v, h, k, row + nx + 2, oQ, f);
+}
+
+/** Mass flux on the u faces k0 .. end - 1: maskU 0.5 (2H + h[k-1] + h[k]) u. */
+function preUFrom(u: usize, h: usize, k0: i32, end: i32, out: usize): void {
   const ob = pOB;
   const twoH = splat(2 * H);
   const half = splat(0.5);
   const one = splat(1);
-  const end = row + nx + 2;
-  let k = row + 1;
+  let k = k0;
   for (; k + LANES - 1 < end; k += LANES) {
     const mU = v128.and(v128.and(ldv(ob, k - 1), ldv(ob, k)), one);
     stv(out, k, mul(mul(mul(mU, half), add(add(twoH, ldv(h, k - 1)), ldv(h, k))), ldv(u, k)));
@@ -176,13 +240,15 @@ function preU(u: usize, h: usize, row: i32, out: usize): void {
 
 /** Mass flux on the v faces of the row. */
 function preV(v: usize, h: usize, row: i32, out: usize): void {
+  preVFrom(v, h, row + 1, row + nx + 1, out);
+}
+function preVFrom(v: usize, h: usize, k0: i32, end: i32, out: usize): void {
   const ob = pOB;
   const w = W;
   const twoH = splat(2 * H);
   const half = splat(0.5);
   const one = splat(1);
-  const end = row + nx + 1;
-  let k = row + 1;
+  let k = k0;
   for (; k + LANES - 1 < end; k += LANES) {
     const mV = v128.and(v128.and(ldv(ob, k - w), ldv(ob, k)), one);
     stv(out, k, mul(mul(mul(mV, half), add(add(twoH, ldv(h, k - w)), ldv(h, k))), ldv(v, k)));
@@ -191,13 +257,12 @@ function preV(v: usize, h: usize, row: i32, out: usize): void {
 }
 
 /** Bernoulli function at the centres of the row: g' h' + |u|^2 / 2 over ocean, 0 on land. */
-function preB(u: usize, v: usize, h: usize, row: i32, out: usize): void {
+function preBFrom(u: usize, v: usize, h: usize, k0: i32, end: i32, out: usize): void {
   const ob = pOB;
   const w = W;
   const vgp = splat(gp);
   const quarter = splat(0.25);
-  const end = row + nx + 1;
-  let k = row + 1;
+  let k = k0;
   for (; k + LANES - 1 < end; k += LANES) {
     const uC = ldv(u, k);
     const uE = ldv(u, k + 1);
@@ -218,6 +283,9 @@ function preB(u: usize, v: usize, h: usize, row: i32, out: usize): void {
 
 /** Potential vorticity (f + zeta) / h at the south-west corners of the row's cells. */
 function preQ(u: usize, v: usize, h: usize, row: i32, out: usize, f: real): void {
+  preQFrom(u, v, h, row + 1, row + nx + 2, out, f);
+}
+function preQFrom(u: usize, v: usize, h: usize, k0: i32, end: i32, out: usize, f: real): void {
   const ob = pOB;
   const w = W;
   const zero = splat(0);
@@ -229,8 +297,7 @@ function preQ(u: usize, v: usize, h: usize, row: i32, out: usize, f: real): void
   const vidy = splat(idy);
   // free slip: no shear where a corner touches land
   const slipAll = maskSplat(freeSlip);
-  const end = row + nx + 2;
-  let k = row + 1;
+  let k = k0;
   for (; k + LANES - 1 < end; k += LANES) {
     const bC = ldv(ob, k);
     const bW = ldv(ob, k - 1);
