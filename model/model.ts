@@ -314,34 +314,48 @@ export class Model {
     const { nx, ny, W, ocean } = this.grid;
     const { u, v, h } = this.state;
     const H = this.physics.layerThickness;
+    const limit2 = RUNAWAY_SPEED * RUNAWAY_SPEED;
+    // A cheap test of every cell (no square root; NaN fails every comparison), and the exact
+    // checks with their messages only where it fails: the scan runs every HEALTH_EVERY steps on
+    // the leading thread while strip workers wait, so its cost counts twice.
     for (let j = 0; j < ny; j++) {
-      for (let i = 0; i < nx; i++) {
-        const k = (j + 1) * W + i + 1;
+      const row = (j + 1) * W + 1;
+      for (let k = row; k < row + nx; k++) {
         if (!ocean[k]) continue;
         const uc = 0.5 * (u[k] + u[k + 1]);
         const vc = 0.5 * (v[k] + v[k + W]);
-        const speed = Math.sqrt(uc * uc + vc * vc);
-        const thick = H + h[k];
-        if (Number.isNaN(thick) || Number.isNaN(speed)) {
-          this.blowUp('not-a-number', i, j, 'the solution became NaN', this.stabilityHint());
-        }
-        if (thick <= 0) {
-          this.blowUp(
-            'layer-vanished',
-            i,
-            j,
-            `the upper layer vanished (thickness ${thick.toFixed(1)} m, the thermocline reached the surface)`,
-            this.gridScaleAt(k)
-              ? `The thickness alternates in sign from one cell to the next there: that is the scheme going unstable, not the wind lifting the thermocline. ${this.stabilityHint()}`
-              : this.physics.mode === 'linear'
-                ? 'The linear model cannot outcrop: weaken the wind, thicken the layer, or use the nonlinear mode with entrainment.'
-                : 'Raise the entrainment minimum thickness or shorten its time, or weaken the wind.',
-          );
-        }
-        if (speed > RUNAWAY_SPEED) {
-          this.blowUp('runaway-speed', i, j, `the current reached ${speed.toFixed(1)} m/s (limit ${RUNAWAY_SPEED} m/s)`, this.stabilityHint());
-        }
+        if (!(H + h[k] > 0 && uc * uc + vc * vc <= limit2)) this.checkCell(k - row, j, k);
       }
+    }
+  }
+
+  /** The exact checks of one cell, with the report of what went wrong there. */
+  private checkCell(i: number, j: number, k: number): void {
+    const { W } = this.grid;
+    const { u, v, h } = this.state;
+    const H = this.physics.layerThickness;
+    const uc = 0.5 * (u[k] + u[k + 1]);
+    const vc = 0.5 * (v[k] + v[k + W]);
+    const speed = Math.sqrt(uc * uc + vc * vc);
+    const thick = H + h[k];
+    if (Number.isNaN(thick) || Number.isNaN(speed)) {
+      this.blowUp('not-a-number', i, j, 'the solution became NaN', this.stabilityHint());
+    }
+    if (thick <= 0) {
+      this.blowUp(
+        'layer-vanished',
+        i,
+        j,
+        `the upper layer vanished (thickness ${thick.toFixed(1)} m, the thermocline reached the surface)`,
+        this.gridScaleAt(k)
+          ? `The thickness alternates in sign from one cell to the next there: that is the scheme going unstable, not the wind lifting the thermocline. ${this.stabilityHint()}`
+          : this.physics.mode === 'linear'
+            ? 'The linear model cannot outcrop: weaken the wind, thicken the layer, or use the nonlinear mode with entrainment.'
+            : 'Raise the entrainment minimum thickness or shorten its time, or weaken the wind.',
+      );
+    }
+    if (speed > RUNAWAY_SPEED) {
+      this.blowUp('runaway-speed', i, j, `the current reached ${speed.toFixed(1)} m/s (limit ${RUNAWAY_SPEED} m/s)`, this.stabilityHint());
     }
   }
 
