@@ -87,7 +87,7 @@ const ours: Array<[string, string]> = [
   ['nl-ts', 'nl-ts'],
   ['nl-wasm', 'nl-ts'],
   ...stripCounts.map((n): [string, string] => [`nl-wasm-strips-${n}`, 'nl-ts']),
-  ['nl-wasm-float32', 'nl-wasm-float32'],
+  ['nl-wasm-float32', 'nl-ts'],
 ];
 const impls: Impl[] = ours.map(([label, ref]) => ({ label, cmd: line, ref }));
 let bandwidth: number | null = null;
