@@ -2,6 +2,7 @@
 // scenario file into one of these; the solver never reads scenario JSON itself.
 
 import type { LandShape } from './land.ts';
+import type { Precision } from './precision.ts';
 import { earthBeta } from './theory.ts';
 
 export interface BasinConfig {
@@ -80,6 +81,8 @@ export interface ModelConfig {
   basin: BasinConfig;
   physics: PhysicsConfig;
   time: TimeConfig;
+  /** Working precision of the state and the step (model/precision.ts); default 'float64'. */
+  precision?: Precision;
 }
 
 /** Earth constants: GRS80 angular velocity (Moritz 2000), IUGG mean radius R1, standard gravity (CGPM 1901). */

@@ -6,7 +6,7 @@ import { InputError } from './errors.ts';
 import type { Grid } from './grid.ts';
 import { placeOfIndex, staggeringOf } from './grid-place.ts';
 import { MAX_LAYER_THICKNESS, RUNAWAY_SPEED } from './health-limits.ts';
-import { State } from './state.ts';
+import { State, type FieldArray } from './state.ts';
 import * as pm from './portable-math.ts';
 import { equatorialBeta, equatorialRadius, waveSpeed } from './theory.ts';
 
@@ -92,7 +92,7 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
  */
 export function checkInitial(grid: Grid, physics: PhysicsConfig, s: State, dt?: number): void {
   const H = physics.layerThickness;
-  const refuse = (name: "h'" | 'u' | 'v', a: Float64Array, k: number, what: string): never => {
+  const refuse = (name: "h'" | 'u' | 'v', a: ArrayLike<number>, k: number, what: string): never => {
     throw new InputError(`the initial state has ${name} = ${a[k]} at ${placeOfIndex(grid, k, name === "h'" ? 'centre' : staggeringOf(name))}: ${what}`, 'initial');
   };
   for (const [name, a] of [["h'", s.h], ['u', s.u], ['v', s.v]] as const) {
@@ -126,7 +126,7 @@ export function checkInitial(grid: Grid, physics: PhysicsConfig, s: State, dt?: 
   }
 }
 
-function fillCentres(grid: Grid, a: Float64Array, fn: (lon: number, lat: number, y: number) => number): void {
+function fillCentres(grid: Grid, a: FieldArray, fn: (lon: number, lat: number, y: number) => number): void {
   for (let j = 0; j < grid.ny; j++) {
     for (let i = 0; i < grid.nx; i++) {
       const k = grid.idx(i, j);
@@ -135,7 +135,7 @@ function fillCentres(grid: Grid, a: Float64Array, fn: (lon: number, lat: number,
   }
 }
 
-function fillU(grid: Grid, a: Float64Array, fn: (lon: number, y: number) => number): void {
+function fillU(grid: Grid, a: FieldArray, fn: (lon: number, y: number) => number): void {
   for (let j = 0; j < grid.ny; j++) {
     for (let i = 0; i <= grid.nx; i++) {
       const k = grid.idx(i, j);
@@ -144,7 +144,7 @@ function fillU(grid: Grid, a: Float64Array, fn: (lon: number, y: number) => numb
   }
 }
 
-function fillV(grid: Grid, a: Float64Array, fn: (lon: number, y: number) => number): void {
+function fillV(grid: Grid, a: FieldArray, fn: (lon: number, y: number) => number): void {
   for (let j = 0; j <= grid.ny; j++) {
     for (let i = 0; i < grid.nx; i++) {
       const k = grid.idx(i, j);

@@ -4,10 +4,9 @@
 import type { ModelConfig, PhysicsConfig } from './config.ts';
 import { DAY } from './config.ts';
 import { buildCoefficients, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
-import { TsRows, stepFields } from './dynamics/linear-rows.ts';
-import { LinearStepper } from './dynamics/linear-stepper.ts';
-import { wasmAvailable, wasmStepper } from './dynamics/linear-wasm.ts';
-import { nonlinearStep, nonlinearWork, type NonlinearWork } from './dynamics/nonlinear.ts';
+import { wasmAvailable } from './dynamics/linear-wasm.ts';
+import { createStepper, type KernelName, type Stepper } from './dynamics/stepper.ts';
+import { PRECISIONS, type Precision } from './precision.ts';
 import { VolumeKeepingSponge } from './dynamics/sponge.ts';
 import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from './dynamics/stability.ts';
 import { Clock } from './clock.ts';
@@ -19,7 +18,7 @@ import { calm, type CoupledIndices, type OceanCoupling, type WindStress } from '
 import { Grid } from './grid.ts';
 import { RUNAWAY_SPEED } from './health-limits.ts';
 import { checkInitial, initialState, type InitialSpec } from './initial.ts';
-import { State } from './state.ts';
+import { State, type FieldArray } from './state.ts';
 import { StripTeam, type StripHost, type TeamOptions } from './parallel/team.ts';
 import { checkThreadsOption, chooseThreads, type ThreadChoice, type ThreadsOption } from './parallel/threads.ts';
 import { wasmStripsAvailable } from './parallel/wasm-strips.ts';
@@ -36,23 +35,23 @@ export interface ModelOptions {
   /** Discretisation variant; only for reproducing the reference kernel (npm run bench). */
   variant?: KernelVariant;
   /**
-   * Which implementation of the linear step runs (same results bit for bit): 'ts' (plain
-   * TypeScript), 'wasm' (WebAssembly SIMD), or 'auto' (the default: wasm where it compiles,
-   * else ts). Ignored in the nonlinear mode.
+   * Which implementation of the step runs, in either mode (same results bit for bit): 'ts'
+   * (plain TypeScript), 'wasm' (WebAssembly SIMD), or 'auto' (the default: wasm where it
+   * compiles, else ts).
    */
-  kernel?: LinearKernelName | 'auto';
+  kernel?: KernelName | 'auto';
   /**
-   * Threads for the linear step, split into latitude strips (model/parallel/): a count, or 'auto'
+   * Threads for the step, split into latitude strips (model/parallel/): a count, or 'auto'
    * (one per core where each strip keeps at least 40,000 cells, and with the WebAssembly kernel
    * at hand only from 4 cores; see chooseThreads). Default 1. The strips run the WebAssembly kernel
    * over one shared memory when this model steps on WebAssembly, else the TypeScript rows.
    * Takes effect when the host calls startThreads(); the results are the same bits either way.
-   * The nonlinear scheme always runs on one thread.
    */
   threads?: ThreadsOption;
 }
 
-export type LinearKernelName = 'ts' | 'wasm';
+/** The kernels of a step (either mode): plain TypeScript or WebAssembly SIMD. */
+export type LinearKernelName = KernelName;
 
 export class Model {
   readonly config: ModelConfig;
@@ -72,13 +71,13 @@ export class Model {
   private readonly wind: WindStress;
   /** The wind's side that answers the ocean (an answering part), or null. */
   private readonly coupling: OceanCoupling | null;
-  private accelX: Float64Array;
-  private accelY: Float64Array;
-  /** The one-thread linear step (null in the nonlinear mode, and once a strip team steps). */
-  private stepper: LinearStepper | null = null;
-  /** What the one-thread linear step runs on; null in the nonlinear mode. */
-  private readonly linearKernel: LinearKernelName | null;
-  private readonly nonlinear: NonlinearWork | null;
+  /** The one-thread step (a strip team, once started, steps instead). */
+  private readonly stepper: Stepper;
+  /** What the one-thread step runs on. */
+  private readonly stepKernel: KernelName;
+  /** The working precision of the state and the step (model/precision.ts). */
+  readonly precision: Precision;
+  private readonly nonlinear: boolean;
   /** The threads option as given; the strip team once startThreads() has started it. */
   readonly threadsAsked: ThreadsOption;
   private team: StripTeam | null = null;
@@ -90,6 +89,9 @@ export class Model {
 
   constructor(config: ModelConfig, options: ModelOptions = {}) {
     checkPhysics(config.physics);
+    if (config.precision !== undefined && !PRECISIONS.includes(config.precision)) {
+      throw new InputError(`must be one of ${PRECISIONS.join(', ')} (got ${JSON.stringify(config.precision)})`, 'numerics.precision');
+    }
     this.config = config;
     this.physics = config.physics;
     this.grid = new Grid(config.basin, config.physics.earthRadius);
@@ -137,18 +139,11 @@ export class Model {
     this.tauy = this.grid.field();
     const kernel = options.kernel ?? 'auto';
     this.threadsAsked = checkThreadsOption(options.threads ?? 1);
-    this.linearKernel = p.mode !== 'linear' ? null : kernel === 'wasm' || (kernel === 'auto' && wasmAvailable()) ? 'wasm' : 'ts';
-    if (this.linearKernel) {
-      const fields = this.linearKernel === 'wasm' ? null : stepFields(this.grid);
-      this.stepper = fields ? new LinearStepper(new TsRows(this.grid, this.coefficients, fields), fields) : wasmStepper(this.grid, this.coefficients);
-      this.stepper.adopt(this.state);
-      this.accelX = this.stepper.fields.accelX;
-      this.accelY = this.stepper.fields.accelY;
-    } else {
-      this.accelX = this.grid.field();
-      this.accelY = this.grid.field();
-    }
-    this.nonlinear = p.mode === 'nonlinear' ? nonlinearWork(this.grid) : null;
+    this.stepKernel = kernel === 'wasm' || (kernel === 'auto' && wasmAvailable()) ? 'wasm' : 'ts';
+    this.precision = config.precision ?? 'float64';
+    this.stepper = createStepper(this.grid, this.coefficients, p, this.stepKernel, this.precision);
+    this.stepper.adopt(this.state);
+    this.nonlinear = p.mode === 'nonlinear';
     this.keeper = p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.grid, this.coefficients) : null;
     // A state some model has run carries its experiment's budget; a fresh one starts it here.
     this.state.volumeBudget ??= { anomalyAtStart: anomalySum(this.grid, this.state.h), spongeMeasured: 0 };
@@ -169,14 +164,12 @@ export class Model {
       this.advanceStrips(n, this.team);
       return;
     }
+    const stepper = this.stepper;
     for (let s = 0; s < n; s++) {
       this.coupleIfDue();
       this.updateWind(this.state.time);
-      if (this.stepper) {
-        this.stepper.step(this.state, this.physics.friction, this.physics.viscosity);
-      } else {
-        this.state.volumeBudget!.spongeMeasured -= nonlinearStep(this.grid, this.coefficients, this.physics, this.taux, this.tauy, this.state, this.nonlinear!);
-      }
+      const taken = stepper.step(this.state, this.physics.friction, this.physics.viscosity);
+      if (this.nonlinear) this.state.volumeBudget!.spongeMeasured -= taken;
       if (this.keeper) {
         const added = this.keeper.restore(this.state.h);
         if (this.nonlinear) this.state.volumeBudget!.spongeMeasured += added;
@@ -194,10 +187,13 @@ export class Model {
         this.coupleIfDue();
         this.updateWind(this.state.time);
         team.step(this.state, this.physics.friction, this.physics.viscosity);
+        this.takeSponge(team);
         if (this.keeper) {
           // The band means need every strip's h rows of this step: wait for the workers.
           team.sync();
-          this.keeper.restore(this.state.h);
+          this.takeSponge(team);
+          const added = this.keeper.restore(this.state.h);
+          if (this.nonlinear) this.state.volumeBudget!.spongeMeasured += added;
         }
         this.tick();
         if (this.state.steps % HEALTH_EVERY === 0) {
@@ -207,12 +203,17 @@ export class Model {
       }
     } finally {
       team.sync();
+      this.takeSponge(team);
     }
   }
 
+  /** The nonlinear step's sponge volumes of the team's finished steps, into the budget in step order. */
+  private takeSponge(team: StripTeam): void {
+    for (const taken of team.takeSpongeTaken()) if (this.nonlinear) this.state.volumeBudget!.spongeMeasured -= taken;
+  }
+
   /**
-   * Start the strip workers the threads option asks for (none for 1, or for the nonlinear
-   * scheme). Asynchronous: spawning must not block the thread. Until it resolves, advance() runs
+   * Start the strip workers the threads option asks for (none for 1). Asynchronous: spawning must not block the thread. Until it resolves, advance() runs
    * on this thread, with the same results. The choice says how many threads run and why.
    * options.threads, when given, replaces the threads option of the constructor.
    */
@@ -226,16 +227,14 @@ export class Model {
     const asked = options.threads === undefined ? this.threadsAsked : checkThreadsOption(options.threads);
     // The strips run the kernel the model runs: WebAssembly strips where the model steps on
     // WebAssembly and the shared-memory module works here, else the TypeScript rows.
-    const wasm = this.linearKernel === 'wasm';
+    const wasm = this.stepKernel === 'wasm';
     const stripKernel = options.kernel ?? (wasm && wasmStripsAvailable() ? 'wasm' : 'ts');
-    const choice = chooseThreads(asked, this.grid, this.physics.mode, host.cores, wasm ? 'wasm' : 'ts', stripKernel);
+    const choice = chooseThreads(asked, this.grid, host.cores, this.stepKernel, stripKernel);
     if (choice.threads < 2) return choice;
-    const team = await StripTeam.start(this.grid, this.coefficients, choice.threads, host.spawn, { ...options, kernel: stripKernel });
-    // The state moves into the team's shared buffers; the one-thread WebAssembly memory is left.
-    team.adopt(this.state, this.accelX, this.accelY);
-    this.accelX = team.fields.accelX;
-    this.accelY = team.fields.accelY;
-    this.stepper = null;
+    const team = await StripTeam.start(this.grid, this.coefficients, this.physics, choice.threads, host.spawn, { ...options, kernel: stripKernel, precision: this.precision });
+    // The state moves into the team's shared buffers (the one-thread step takes it back on close).
+    team.adopt(this.state);
+    team.setStress(this.taux, this.tauy);
     this.team = team;
     return choice;
   }
@@ -255,7 +254,20 @@ export class Model {
     await this.starting?.catch(() => undefined);
     const team = this.team;
     this.team = null;
-    if (team) await team.close();
+    if (team) {
+      await team.close();
+      this.stepper.adopt(this.state);
+      this.stepper.setStress(this.taux, this.tauy);
+    }
+  }
+
+  /** The linear step's stress accelerations (tests step the plain loops beside the model with them). */
+  get accelX(): FieldArray | undefined {
+    return this.stepper.accelerations?.accelX;
+  }
+
+  get accelY(): FieldArray | undefined {
+    return this.stepper.accelerations?.accelY;
   }
 
   /** True when the step about to start is a coupling step: n > 0 and n a multiple of everySteps. */
@@ -306,9 +318,9 @@ export class Model {
     return out;
   }
 
-  /** The implementation of the step in use. */
-  get kernel(): LinearKernelName | 'nonlinear' {
-    return this.linearKernel ?? 'nonlinear'; // strips: stripKernel says what they run
+  /** The implementation of the one-thread step (strips: stripKernel says what they run). */
+  get kernel(): KernelName {
+    return this.stepKernel;
   }
 
   /** Fill the stress for a step starting at time t (s) when the wind asks for it. */
@@ -323,15 +335,7 @@ export class Model {
     }
     w.fill(t, this.taux, this.tauy);
     if (w.steady) this.windFilledFor = 0;
-    if (this.linearKernel) {
-      // The linear mode applies the stress over the resting depth H.
-      const rhoH = this.physics.density * this.physics.layerThickness;
-      const { maskU, maskV } = this.grid;
-      for (let k = 0; k < this.taux.length; k++) {
-        this.accelX[k] = maskU[k] * (this.taux[k] / rhoH);
-        this.accelY[k] = maskV[k] * (this.tauy[k] / rhoH);
-      }
-    }
+    (this.team ?? this.stepper).setStress(this.taux, this.tauy);
   }
 
   /** Scan for NaN, a vanished layer and runaway speed; report the first bad point. */
@@ -339,36 +343,52 @@ export class Model {
     const { nx, ny, W, ocean } = this.grid;
     const { u, v, h } = this.state;
     const H = this.physics.layerThickness;
+    const limit2 = RUNAWAY_SPEED * RUNAWAY_SPEED;
+    // A cheap test of every cell (no square root; NaN fails every comparison), and the exact
+    // checks with their messages only where it fails: the scan runs every HEALTH_EVERY steps on
+    // the leading thread while strip workers wait, so its cost counts twice.
     for (let j = 0; j < ny; j++) {
-      for (let i = 0; i < nx; i++) {
-        const k = (j + 1) * W + i + 1;
+      const row = (j + 1) * W + 1;
+      for (let k = row; k < row + nx; k++) {
         if (!ocean[k]) continue;
         const uc = 0.5 * (u[k] + u[k + 1]);
         const vc = 0.5 * (v[k] + v[k + W]);
-        const speed = Math.sqrt(uc * uc + vc * vc);
         const thick = H + h[k];
-        if (Number.isNaN(thick) || Number.isNaN(speed)) {
-          this.blowUp('not-a-number', i, j, 'the solution became NaN', this.stabilityHint());
-        }
-        // An infinite thickness is no layer either (a thickness of +Infinity passes "<= 0").
-        if (thick === Infinity) this.blowUp('not-a-number', i, j, 'the layer thickness became infinite', this.stabilityHint());
-        if (thick <= 0) {
-          this.blowUp(
-            'layer-vanished',
-            i,
-            j,
-            `the upper layer vanished (thickness ${thick.toFixed(1)} m, the thermocline reached the surface)`,
-            this.gridScaleAt(k)
-              ? `The thickness alternates in sign from one cell to the next there: that is the scheme going unstable, not the wind lifting the thermocline. ${this.stabilityHint()}`
-              : this.physics.mode === 'linear'
-                ? 'The linear model cannot outcrop: weaken the wind, thicken the layer, or use the nonlinear mode with entrainment.'
-                : 'Raise the entrainment minimum thickness or shorten its time, or weaken the wind.',
-          );
-        }
-        if (speed > RUNAWAY_SPEED) {
-          this.blowUp('runaway-speed', i, j, `the current reached ${speed.toFixed(1)} m/s (limit ${RUNAWAY_SPEED} m/s)`, this.stabilityHint());
-        }
+        // NaN fails every comparison; +Infinity passes "> 0" but is no layer either.
+        if (!(thick > 0 && thick < Infinity && uc * uc + vc * vc <= limit2)) this.checkCell(k - row, j, k);
       }
+    }
+  }
+
+  /** The exact checks of one cell, with the report of what went wrong there. */
+  private checkCell(i: number, j: number, k: number): void {
+    const { W } = this.grid;
+    const { u, v, h } = this.state;
+    const H = this.physics.layerThickness;
+    const uc = 0.5 * (u[k] + u[k + 1]);
+    const vc = 0.5 * (v[k] + v[k + W]);
+    const speed = Math.sqrt(uc * uc + vc * vc);
+    const thick = H + h[k];
+    if (Number.isNaN(thick) || Number.isNaN(speed)) {
+      this.blowUp('not-a-number', i, j, 'the solution became NaN', this.stabilityHint());
+    }
+    // An infinite thickness is no layer either (a thickness of +Infinity passes "<= 0").
+    if (thick === Infinity) this.blowUp('not-a-number', i, j, 'the layer thickness became infinite', this.stabilityHint());
+    if (thick <= 0) {
+      this.blowUp(
+        'layer-vanished',
+        i,
+        j,
+        `the upper layer vanished (thickness ${thick.toFixed(1)} m, the thermocline reached the surface)`,
+        this.gridScaleAt(k)
+          ? `The thickness alternates in sign from one cell to the next there: that is the scheme going unstable, not the wind lifting the thermocline. ${this.stabilityHint()}`
+          : this.physics.mode === 'linear'
+            ? 'The linear model cannot outcrop: weaken the wind, thicken the layer, or use the nonlinear mode with entrainment.'
+            : 'Raise the entrainment minimum thickness or shorten its time, or weaken the wind.',
+      );
+    }
+    if (speed > RUNAWAY_SPEED) {
+      this.blowUp('runaway-speed', i, j, `the current reached ${speed.toFixed(1)} m/s (limit ${RUNAWAY_SPEED} m/s)`, this.stabilityHint());
     }
   }
 

@@ -8,6 +8,7 @@ import type { WindStress } from './forcing/stress.ts';
 import { Grid } from './grid.ts';
 import { Model, type LinearKernelName } from './model.ts';
 import * as pm from './portable-math.ts';
+import type { Precision } from './precision.ts';
 
 const M_PER_DEG = 111.2e3;
 const DAY = 86400;
@@ -72,8 +73,8 @@ export function referenceStress(grid: Grid): WindStress {
   };
 }
 
-export function referenceModel(nx: number, ny: number, kernel: LinearKernelName = 'ts'): Model {
-  const config = referenceConfig(nx, ny);
+export function referenceModel(nx: number, ny: number, kernel: LinearKernelName = 'ts', precision: Precision = 'float64'): Model {
+  const config = { ...referenceConfig(nx, ny), precision };
   const grid = new Grid(config.basin, config.physics.earthRadius);
   return new Model(config, { variant: { ghost: 0, coriolis: 'collocated' }, wind: referenceStress(grid), kernel });
 }
@@ -82,7 +83,7 @@ export function referenceModel(nx: number, ny: number, kernel: LinearKernelName 
 export function referenceChecksum(model: Model): { sumEta: number; energy: number } {
   const { grid, state } = model;
   const p = model.physics;
-  const sum = (a: Float64Array, sq: boolean) => {
+  const sum = (a: ArrayLike<number>, sq: boolean) => {
     let s = 0;
     let c = 0;
     for (let k = 0; k < a.length; k++) {

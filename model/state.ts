@@ -2,14 +2,17 @@
 
 import type { ClockSpec } from './clock.ts';
 import type { Grid } from './grid.ts';
+import type { FieldArray } from './precision.ts';
+
+export type { FieldArray } from './precision.ts';
 
 export class State {
   /** Layer-mean zonal velocity on u faces, m s-1. */
-  u: Float64Array;
+  u: FieldArray;
   /** Layer-mean meridional velocity on v faces, m s-1. */
-  v: Float64Array;
+  v: FieldArray;
   /** Thickness anomaly h' = h - H at cell centres, m; positive = deeper thermocline. */
-  h: Float64Array;
+  h: FieldArray;
   /**
    * Model time, s since the start of the experiment, and the number of steps taken. The Model
    * sets both after each step from its clock (model/clock.ts); the step kernels leave them alone.
@@ -32,7 +35,7 @@ export class State {
    * (index 0 = one step back). historyCount says how many are valid. Part of the state so that
    * a restart continues bit for bit.
    */
-  readonly history: { du: Float64Array[]; dv: Float64Array[]; dh: Float64Array[] };
+  readonly history: { du: FieldArray[]; dv: FieldArray[]; dh: FieldArray[] };
   historyCount = 0;
   /**
    * The sea-surface temperature anomaly of a coupled run (K, cell centres; model/coupling/), or
@@ -60,7 +63,7 @@ export class State {
     this.historyCount = 0;
   }
 
-  /** A deep copy, for snapshots and tests. */
+  /** A deep copy, for snapshots and tests (in double: a copy of a float32 state holds the same values). */
   clone(): State {
     const s = new State(this.grid);
     s.copyFrom(this);

@@ -143,7 +143,7 @@ export class Engine {
       try {
         const choice = await model.startThreads(this.strips.host, { threads: asked });
         const rows = model.stripKernel === 'wasm' ? 'WebAssembly SIMD' : 'TypeScript';
-        const on = `linear step on ${model.threads} threads (latitude strips), ${rows}`;
+        const on = `${model.physics.mode} step on ${model.threads} threads (latitude strips), ${rows}`;
         note = choice.notice ?? on;
         if (choice.notice && model.threads > 1) note += `; ${on}`;
       } catch (e) {

@@ -106,7 +106,7 @@ export class SstAnomaly {
    * Advance T' (padded, in place) over `seconds` with the thermocline h' and layer-mean u of the
    * state and the stress in force (for the surface current, only when there is a mean gradient).
    */
-  step(sst: Float64Array, h: Float64Array, u: Float64Array, taux: Float64Array, tauy: Float64Array, seconds: number, ctx: SstContext): void {
+  step(sst: Float64Array, h: ArrayLike<number>, u: ArrayLike<number>, taux: Float64Array, tauy: Float64Array, seconds: number, ctx: SstContext): void {
     const { nx, ny, W, ocean } = this.grid;
     const w = this.upwelling;
     const eps = this.damping;

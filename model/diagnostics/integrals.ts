@@ -4,7 +4,7 @@
 import { waveSpeed } from '../theory.ts';
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
-import type { State } from '../state.ts';
+import type { FieldArray, State } from '../state.ts';
 
 export interface Integrals {
   /** Model time, days. */
@@ -61,7 +61,7 @@ export interface VolumeBudget {
 }
 
 /** sum(h') over the ocean cells, compensated. */
-export function anomalySum(grid: Grid, h: Float64Array): number {
+export function anomalySum(grid: Grid, h: FieldArray): number {
   const sum = new Sum();
   const { nx, ny, W, ocean } = grid;
   for (let j = 0; j < ny; j++) {

@@ -5,6 +5,8 @@
 // (WasmRows, linear-wasm.ts). test/kernels/linear-rows.test.ts holds them to the same bits.
 
 import type { Grid } from '../grid.ts';
+import type { FieldArray, State } from '../state.ts';
+import type { FieldBinding } from './field-binding.ts';
 import { fusedRow, hRow, spongeRow, uRow, vRow, type RowCoefficients, type RowGrid } from './linear.ts';
 
 /**
@@ -12,17 +14,23 @@ import { fusedRow, hRow, spongeRow, uRow, vRow, type RowCoefficients, type RowGr
  * u[cur], v[cur]; the step writes the new velocities into the other), h (updated in place) and
  * the stress accelerations taux/(rho0 H), tauy/(rho0 H).
  */
-export interface StepFields {
-  u: [Float64Array, Float64Array];
-  v: [Float64Array, Float64Array];
-  h: Float64Array;
-  accelX: Float64Array;
-  accelY: Float64Array;
+export interface StepFields<F extends FieldArray = Float64Array> {
+  u: [F, F];
+  v: [F, F];
+  h: F;
+  accelX: F;
+  accelY: F;
 }
 
 /** Fresh zeroed fields of a grid (the one-thread TypeScript step). */
 export function stepFields(grid: Pick<Grid, 'field'>): StepFields {
   return { u: [grid.field(), grid.field()], v: [grid.field(), grid.field()], h: grid.field(), accelX: grid.field(), accelY: grid.field() };
+}
+
+/** Fresh zeroed float32 fields of a grid. */
+export function stepFields32(grid: Pick<Grid, 'size'>): StepFields<Float32Array> {
+  const f = () => new Float32Array(grid.size);
+  return { u: [f(), f()], v: [f(), f()], h: f(), accelX: f(), accelY: f() };
 }
 
 /** The row operations of one step; `cur` says which velocity buffers hold the state. */
@@ -93,4 +101,36 @@ export class TsRows implements LinearRows {
   sponge(cur: number, j: number): void {
     spongeRow(this.g, this.c, this.sets[cur].vn, j);
   }
+}
+
+/** The linear fields and the State: u, v double-buffered, h in place, the stress as accelerations. */
+export function linearBinding(grid: Pick<Grid, 'maskU' | 'maskV'>, f: StepFields<FieldArray>, rhoH: number): FieldBinding {
+  const bind = (state: State, cur: number) => {
+    state.u = f.u[cur];
+    state.v = f.v[cur];
+    state.h = f.h;
+  };
+  return {
+    adopt(state) {
+      f.u[0].set(state.u);
+      f.v[0].set(state.v);
+      f.h.set(state.h);
+      bind(state, 0);
+    },
+    bind,
+    setStress(taux, tauy) {
+      const { maskU, maskV } = grid;
+      const { accelX, accelY } = f;
+      for (let k = 0; k < taux.length; k++) {
+        accelX[k] = maskU[k] * (taux[k] / rhoH);
+        accelY[k] = maskV[k] * (tauy[k] / rhoH);
+      }
+    },
+    stepParams(_state, friction, viscosity, out) {
+      out[0] = friction;
+      out[1] = viscosity;
+    },
+    stepped() {},
+    spongeTaken: () => 0,
+  };
 }

@@ -1,6 +1,6 @@
 // The linear step's rows on WebAssembly SIMD (source: wasm/rows.as.ts): the module, the layout of
 // a step's fields and tables in its memory, and WasmRows, the row kernel the step schedule drives.
-// One thread runs it on a memory of its own (wasmStepper); the latitude strips run the shared build
+// One thread runs it on a memory of its own (wasmLinearParts, for model/dynamics/stepper.ts); the latitude strips run the shared build
 // on one shared memory (model/parallel/wasm-strips.ts). The results are bit-identical to the
 // TypeScript rows (test/kernels/linear-rows.test.ts, linear-paths.test.ts). Compiling a module needs
 // WebAssembly: under a Content Security Policy that is 'wasm-unsafe-eval' (no 'unsafe-eval', no
@@ -10,8 +10,9 @@ import type { Grid } from '../grid.ts';
 import type { StepCoefficients } from './coefficients.ts';
 import type { RowCoefficients } from './linear.ts';
 import type { LinearRows, StepFields } from './linear-rows.ts';
-import { LinearStepper } from './linear-stepper.ts';
-import { ROWS_SHARED_WASM_BASE64, ROWS_WASM_BASE64 } from './wasm/rows-wasm.ts';
+import type { FieldArray } from '../state.ts';
+import { bytesOf, type Precision } from '../precision.ts';
+import { ROWS32_SHARED_WASM_BASE64, ROWS32_WASM_BASE64, ROWS_SHARED_WASM_BASE64, ROWS_WASM_BASE64 } from './wasm/rows-wasm.ts';
 
 interface RowExports {
   heapBase(): number;
@@ -26,7 +27,13 @@ interface RowExports {
   spongeRow(vn: number, j: number): void;
 }
 
-const compiled: { own: WebAssembly.Module | null; shared: WebAssembly.Module | null } = { own: null, shared: null };
+const compiled = new Map<string, WebAssembly.Module>();
+const SOURCES: Record<string, string> = {
+  'own float64': ROWS_WASM_BASE64,
+  'shared float64': ROWS_SHARED_WASM_BASE64,
+  'own float32': ROWS32_WASM_BASE64,
+  'shared float32': ROWS32_SHARED_WASM_BASE64,
+};
 
 /** The bytes of a base64 module text (atob exists in Node and in every worker). */
 export function decodeBase64(b64: string): Uint8Array {
@@ -36,11 +43,15 @@ export function decodeBase64(b64: string): Uint8Array {
   return out;
 }
 
-/** The compiled row module (once per thread): on a memory of its own, or on a shared imported one. */
-export function rowsWasmModule(shared: boolean): WebAssembly.Module {
-  const key = shared ? 'shared' : 'own';
-  compiled[key] ??= new WebAssembly.Module(decodeBase64(shared ? ROWS_SHARED_WASM_BASE64 : ROWS_WASM_BASE64) as BufferSource);
-  return compiled[key];
+/** The compiled row module (once per thread): on a memory of its own or on a shared imported one, in double or float32. */
+export function rowsWasmModule(shared: boolean, precision: Precision = 'float64'): WebAssembly.Module {
+  const key = `${shared ? 'shared' : 'own'} ${precision}`;
+  let m = compiled.get(key);
+  if (!m) {
+    m = new WebAssembly.Module(decodeBase64(SOURCES[key]) as BufferSource);
+    compiled.set(key, m);
+  }
+  return m;
 }
 
 /** A shared memory of the given 64 KiB pages (its maximum the same). */
@@ -75,18 +86,19 @@ export interface WasmLayout {
 
 const align = (p: number) => (p + 63) & ~63;
 
-/** Lay a step out above the module's heap base; returns the layout and the bytes it needs. */
-export function layOut(heapBase: number, grid: { ny: number; size: number }, c: Pick<StepCoefficients, 'coastU' | 'coastV'>): { layout: WasmLayout; bytes: number } {
+/** Lay a step out above the module's heap base, values of `value` bytes; returns the layout and the bytes it needs. */
+export function layOut(heapBase: number, grid: { ny: number; size: number }, c: Pick<StepCoefficients, 'coastU' | 'coastV'>, value: 4 | 8 = 8): { layout: WasmLayout; bytes: number } {
   let at = align(heapBase);
   const take = (bytes: number) => {
     const p = at;
     at = align(at + bytes);
     return p;
   };
-  const f = () => take(grid.size * 8);
+  const f = () => take(grid.size * value);
   const { ny } = grid;
   const cu = c.coastU;
   const cv = c.coastV;
+  const b = value;
   const layout: WasmLayout = {
     u: [f(), f()],
     v: [f(), f()],
@@ -95,17 +107,17 @@ export function layOut(heapBase: number, grid: { ny: number; size: number }, c: 
     accelY: f(),
     maskU: f(),
     maskV: f(),
-    tables: [take(8 * ny), take(8 * ny), take(8 * (ny + 1)), take(8 * ny), take(8 * (ny + 1))],
-    coast: [take(4 * cu.rowStart.length), take(4 * cu.index.length), take(8 * cu.coef.length), take(4 * cv.rowStart.length), take(4 * cv.index.length), take(8 * cv.coef.length)],
+    tables: [take(b * ny), take(b * ny), take(b * (ny + 1)), take(b * ny), take(b * (ny + 1))],
+    coast: [take(4 * cu.rowStart.length), take(4 * cu.index.length), take(b * cu.coef.length), take(4 * cv.rowStart.length), take(4 * cv.index.length), take(b * cv.coef.length)],
   };
   if (at > 65536 * 65536) throw new RangeError(`the grid needs ${at} bytes, more than a 32-bit WebAssembly memory holds`);
   return { layout, bytes: at };
 }
 
-/** Copy the masks, row tables and coast lists into a module's memory at the layout's places. */
-export function fillTables(buf: ArrayBufferLike, grid: { ny: number; size: number; maskU: Float64Array; maskV: Float64Array }, c: RowCoefficients, at: WasmLayout): void {
+/** Copy the masks, row tables and coast lists into a module's memory at the layout's places (float32: c already rounded). */
+export function fillTables(buf: ArrayBufferLike, grid: { ny: number; size: number; maskU: Float64Array; maskV: Float64Array }, c: RowCoefficients, at: WasmLayout, precision: Precision = 'float64'): void {
   const { ny, size } = grid;
-  const f64 = (p: number, n: number) => new Float64Array(buf, p, n);
+  const f64 = (p: number, n: number) => (precision === 'float32' ? new Float32Array(buf, p, n) : new Float64Array(buf, p, n));
   const i32 = (p: number, n: number) => new Int32Array(buf, p, n);
   f64(at.maskU, size).set(grid.maskU);
   f64(at.maskV, size).set(grid.maskV);
@@ -127,9 +139,11 @@ export function fillTables(buf: ArrayBufferLike, grid: { ny: number; size: numbe
 }
 
 /** The step's fields as views of the module's memory. */
-export function fieldViews(buf: ArrayBufferLike, at: WasmLayout, size: number): StepFields {
-  const f64 = (p: number) => new Float64Array(buf, p, size);
-  return { u: [f64(at.u[0]), f64(at.u[1])], v: [f64(at.v[0]), f64(at.v[1])], h: f64(at.h), accelX: f64(at.accelX), accelY: f64(at.accelY) };
+export function fieldViews(buf: ArrayBufferLike, at: WasmLayout, size: number): StepFields;
+export function fieldViews(buf: ArrayBufferLike, at: WasmLayout, size: number, precision: Precision): StepFields<FieldArray>;
+export function fieldViews(buf: ArrayBufferLike, at: WasmLayout, size: number, precision: Precision = 'float64'): StepFields<FieldArray> {
+  const v = (p: number) => (precision === 'float32' ? new Float32Array(buf, p, size) : new Float64Array(buf, p, size));
+  return { u: [v(at.u[0]), v(at.u[1])], v: [v(at.v[0]), v(at.v[1])], h: v(at.h), accelX: v(at.accelX), accelY: v(at.accelY) };
 }
 
 /** The heap base of a module (where its own data ends), from a throw-away instance. */
@@ -198,11 +212,11 @@ export class WasmRows implements LinearRows {
   }
 }
 
-/** The one-thread WebAssembly step: the module on a memory of its own, the state's fields in it. */
-export function wasmStepper(grid: Grid, c: StepCoefficients): LinearStepper {
-  const module = rowsWasmModule(false);
-  const { layout, bytes } = layOut(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), grid, c);
+/** The one-thread WebAssembly rows on a memory of their own, and the step's fields (views of it); float32: c already rounded. */
+export function wasmLinearParts(grid: Grid, c: RowCoefficients, precision: Precision = 'float64'): { rows: WasmRows; fields: StepFields<FieldArray> } {
+  const module = rowsWasmModule(false, precision);
+  const { layout, bytes } = layOut(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), grid, c, bytesOf(precision));
   const memory = new WebAssembly.Memory({ initial: Math.ceil(bytes / 65536) + 1 });
-  fillTables(memory.buffer, grid, c, layout);
-  return new LinearStepper(new WasmRows(module, memory, layout, grid, c), fieldViews(memory.buffer, layout, grid.size));
+  fillTables(memory.buffer, grid, c, layout, precision);
+  return { rows: new WasmRows(module, memory, layout, grid, c), fields: fieldViews(memory.buffer, layout, grid.size, precision) };
 }

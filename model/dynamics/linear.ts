@@ -9,6 +9,7 @@
 
 import type { Grid } from '../grid.ts';
 import type { State } from '../state.ts';
+import { doubleField } from '../precision.ts';
 import type { CoastTerms, StepCoefficients } from './coefficients.ts';
 
 /** What the row functions read of the grid and the coefficients (a strip worker holds only these). */
@@ -45,9 +46,9 @@ export function linearStepPlain(
   work: LinearWork,
 ): void {
   const { ny } = grid;
-  const u = state.u;
-  const v = state.v;
-  const h = state.h;
+  const u = doubleField(state.u, 'state.u');
+  const v = doubleField(state.v, 'state.v');
+  const h = doubleField(state.h, 'state.h');
   const un = work.uNew;
   const vn = work.vNew;
   for (let j = 0; j <= ny; j++) {

@@ -5,11 +5,17 @@
 // with U = h u, V = h v, potential vorticity q = (f + zeta)/h at cell corners, Bernoulli function
 // B = g' h' + |u|^2/2. The PV flux is Sadourny's (1975) energy-conserving form. Time stepping is
 // third-order Adams-Bashforth; the first two steps use first and second order (no history yet).
+//
+// This is the plain statement of the step, in whole-grid loops: the readable arithmetic that every
+// path the model runs (the nonlinear rows of nonlinear-rows.ts and wasm/nonlinear.as.ts through the
+// step schedule, on one thread or in strips) must reproduce bit for bit. Tests step it beside them
+// (test/support/plain-nonlinear.ts); the Model steps through model/dynamics/stepper.ts.
 
 import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
 import type { State } from '../state.ts';
 import type { StepCoefficients } from './coefficients.ts';
+import { doubleField } from '../precision.ts';
 import { applySponge } from './sponge.ts';
 
 export interface NonlinearWork {
@@ -160,10 +166,11 @@ export function nonlinearStep(
   const order = Math.min(state.historyCount, 2);
   const [a0, a1, a2] = AB[order];
   const dt = c.dt;
-  const hist = state.history;
-  advance(state.u, dt, a0, a1, a2, w.du, hist.du[0], hist.du[1]);
-  advance(state.v, dt, a0, a1, a2, w.dv, hist.dv[0], hist.dv[1]);
-  advance(state.h, dt, a0, a1, a2, w.dh, hist.dh[0], hist.dh[1]);
+  const hist = state.history as { du: Float64Array[]; dv: Float64Array[]; dh: Float64Array[] };
+  for (const key of ['du', 'dv', 'dh'] as const) for (const n of [0, 1]) doubleField(hist[key][n], `state.history.${key}[${n}]`);
+  advance(doubleField(state.u, 'state.u'), dt, a0, a1, a2, w.du, hist.du[0], hist.du[1]);
+  advance(doubleField(state.v, 'state.v'), dt, a0, a1, a2, w.dv, hist.dv[0], hist.dv[1]);
+  advance(doubleField(state.h, 'state.h'), dt, a0, a1, a2, w.dh, hist.dh[0], hist.dh[1]);
   const spongeTaken = applySponge(grid, c, state);
 
   // Rotate: this step's tendency becomes history[0]; the oldest buffer becomes next step's scratch.

@@ -4,7 +4,7 @@
 // volume-keeping variant relaxes h' toward its own mean over each band instead.
 
 import type { Grid } from '../grid.ts';
-import type { State } from '../state.ts';
+import type { FieldArray, State } from '../state.ts';
 import type { StepCoefficients } from './coefficients.ts';
 
 /**
@@ -31,7 +31,7 @@ export function applySponge(grid: Grid, c: StepCoefficients, state: State): numb
   return removed;
 }
 
-export function relaxRows(rows: Int32Array, factor: Float64Array, x: Float64Array, nx: number, W: number): void {
+export function relaxRows(rows: Int32Array, factor: Float64Array, x: FieldArray, nx: number, W: number): void {
   for (let n = 0; n < rows.length; n++) {
     const j = rows[n];
     const s = factor[j];
@@ -87,7 +87,7 @@ export class VolumeKeepingSponge {
   }
 
   /** Put back what the step's relaxation took from each band, as (1 - s) M. Returns the sum of h' added (m). */
-  restore(h: Float64Array): number {
+  restore(h: FieldArray): number {
     const { nx, W, ocean } = this.grid;
     let added = 0;
     for (const b of this.bands) {

@@ -1,8 +1,12 @@
-// The one schedule of the linear step: which rows are computed in which order, for the one-thread
-// step and for each latitude strip of the parallel step (model/parallel/), over either row kernel
-// (linear-rows.ts: TypeScript or WebAssembly). Every value goes through the same row function with
-// the same inputs as in linearStepPlain (linear.ts), so every path gives its bits; only the order
-// of rows differs.
+// The step schedules: which rows are computed in which order, for the one-thread step and for each
+// latitude strip of the parallel step (model/parallel/), over any row kernel (TypeScript or
+// WebAssembly). A step is a few phases (StripStep); a strip team runs them with a barrier between
+// consecutive phases, one thread runs them in turn on the one strip [0, ny). Every value goes
+// through the same row function with the same inputs as in the plain step (linearStepPlain in
+// linear.ts, nonlinearStep in nonlinear.ts), so every path gives its bits; only the order of rows
+// differs.
+//
+// The linear step (four phases, the last only with an edge sponge):
 //
 // Strip [j0, j1) owns u and h rows j0..j1-1 and v rows j0..j1-1 (the top strip also v row ny).
 // A team of strips runs the phases between barriers, and the phases keep every read on the value
@@ -21,6 +25,7 @@
 
 import type { LinearRows } from './linear-rows.ts';
 import type { RowCoefficients } from './linear.ts';
+import type { NonlinearRows } from './nonlinear-rows.ts';
 
 export interface StripRows {
   j0: number;
@@ -91,4 +96,64 @@ export function stepInStrips(kernels: (s: number) => LinearRows, cur: number, bo
   bounds.forEach((s, n) => stripBulk(kernels(n), cur, s));
   bounds.forEach((s, n) => stripBack(kernels(n), cur, s));
   bounds.forEach((s, n) => stripEdge(kernels(n), cur, s));
+}
+
+/** A step as phases over strips: what one thread and each thread of a strip team run. */
+export interface StripStep {
+  readonly ny: number;
+  /** The scalars of the steps that follow, as the leader posts them (stepParams of the binding). */
+  params(p: ArrayLike<number>): void;
+  /** Phases of a step when the grid is cut into these strips (barriers between them in a team). */
+  phases(strips: readonly StripRows[]): number;
+  /** Phase n (0 <= n < phases) of the step for strip s. */
+  phase(n: number, cur: number, s: StripRows): void;
+}
+
+/** The linear rows as a StripStep: front, bulk, back and (where a strip needs it) edge; params [r, A]. */
+export function linearStripStep(k: LinearRows, c: Pick<RowCoefficients, 'spongeV'>): StripStep {
+  return {
+    ny: k.ny,
+    params: (p) => k.params(p[0], p[1]),
+    phases: (strips) => (strips.some((s) => needsEdgeSponge(c, s)) ? 4 : 3),
+    phase(n, cur, s) {
+      if (n === 0) stripFront(k, cur, s);
+      else if (n === 1) stripBulk(k, cur, s);
+      else if (n === 2) stripBack(k, cur, s);
+      else stripEdge(k, cur, s);
+    },
+  };
+}
+
+/** The nonlinear step of strip s: diagnosed rows from j0 - 1 up, each new row once its neighbours are there. */
+export function nonlinearSweep(k: NonlinearRows, cur: number, s: StripRows): void {
+  const { j0, j1 } = s;
+  if (j0 > 0) k.pre(cur, j0 - 1);
+  k.pre(cur, j0);
+  for (let j = j0; j < j1; j++) {
+    k.pre(cur, j + 1);
+    k.out(cur, j);
+  }
+  if (j1 === k.ny) k.out(cur, k.ny);
+}
+
+/** The nonlinear rows as a StripStep: one phase; params [r, A, a0, a1, a2]. */
+export function nonlinearStripStep(k: NonlinearRows): StripStep {
+  return {
+    ny: k.ny,
+    params: (p) => k.params(p[0], p[1], p[2], p[3], p[4]),
+    phases: () => 1,
+    phase: (_n, cur, s) => nonlinearSweep(k, cur, s),
+  };
+}
+
+/** One whole step on one thread: every phase of the single strip [0, ny). */
+export function runWholeStep(k: StripStep, cur: number, whole: StripRows): void {
+  const n = k.phases([whole]);
+  for (let p = 0; p < n; p++) k.phase(p, cur, whole);
+}
+
+/** The strips one after another on one thread, phase by phase, as a team runs them between barriers. */
+export function runStripsInTurn(kernels: (s: number) => StripStep, cur: number, bounds: readonly StripRows[]): void {
+  const n = kernels(0).phases(bounds);
+  for (let p = 0; p < n; p++) bounds.forEach((s, i) => kernels(i).phase(p, cur, s));
 }

@@ -15,6 +15,7 @@ import { NetCDFReader } from 'netcdfjs';
 import {
   NC_ATTRIBUTE_TAG,
   NC_DIMENSION_TAG,
+  NC_MAX_NAME,
   NC_STREAMING,
   NC_TYPE_NAMES,
   NC_VARIABLE_TAG,
@@ -117,6 +118,8 @@ class Cursor {
     const at = this.pos;
     const n = this.u32(`length of ${what}`);
     if (n === 0) throw new NetcdfReadError(`corrupt header: ${what} at byte ${at} is empty`);
+    // a longer name is a corrupt length (and would flood the message with the bytes after it)
+    if (n > NC_MAX_NAME) throw new NetcdfReadError(`corrupt header: ${what} at byte ${at} claims ${n} bytes (a NetCDF name holds at most ${NC_MAX_NAME})`);
     this.need(pad4(n), `${what} (${n} bytes)`);
     const s = utf8.decode(this.b.subarray(this.pos, this.pos + n));
     this.pos += pad4(n);

@@ -104,7 +104,7 @@ export async function writeRestart(model: Model, info: RestartInfo = {}): Promis
 
 export async function writeRestartState(state: State, info: RestartInfo = {}): Promise<Uint8Array> {
   const grid = state.grid;
-  const both = (a: Float64Array, b: Float64Array) => {
+  const both = (a: ArrayLike<number>, b: ArrayLike<number>) => {
     const out = new Float64Array(a.length * 2);
     out.set(a);
     out.set(b, a.length);

@@ -4,16 +4,16 @@
 // keeps its shape. The workers are started by a host-supplied spawner: the model itself never
 // touches a Worker API (Node: worker/strips-node.ts, page: worker/strips-browser.ts).
 
+import type { PhysicsConfig } from '../config.ts';
 import type { Grid } from '../grid.ts';
 import type { StepCoefficients } from '../dynamics/coefficients.ts';
-import type { RowCoefficients } from '../dynamics/linear.ts';
+import { STEP_PARAMS, type FieldBinding } from '../dynamics/field-binding.ts';
 import type { State } from '../state.ts';
+import type { Precision } from '../precision.ts';
 import { Barrier } from './barrier.ts';
-import { CMD, CONTROL_WORDS, CURRENT, STEP, STOP, SYNC, type SharedFields, type StripInit, type StripReply } from './strip-protocol.ts';
-import type { LinearRows } from '../dynamics/linear-rows.ts';
-import { needsEdgeSponge, stripBack, stripBounds, stripBulk, stripEdge, stripFront, type StripRows } from '../dynamics/step-schedule.ts';
-import { stripRows, type StripKernelName } from './strip-kernel.ts';
-import { createWasmStripMemory, type WasmStripMemory } from './wasm-strips.ts';
+import { CMD, CONTROL_WORDS, CURRENT, STEP, STOP, SYNC, type StripInit, type StripReply } from './strip-protocol.ts';
+import { stripBounds, type StripRows, type StripStep } from '../dynamics/step-schedule.ts';
+import { createStripSetup, stripStep, type StripKernelName } from './strip-kernel.ts';
 
 /** One worker as the team sees it; hosts wrap worker_threads or Web Workers in this. */
 export interface StripWorkerPort {
@@ -42,41 +42,42 @@ export interface TeamOptions {
   startMs?: number;
   /** What computes the rows: the TypeScript row functions (default) or the WebAssembly kernel. */
   kernel?: StripKernelName;
+  /** The working precision of the state and the step (default float64). */
+  precision?: Precision;
 }
 
 export class StripTeamError extends Error {
   override name = 'StripTeamError';
 }
 
-function sharedField(size: number): Float64Array {
-  return new Float64Array(new SharedArrayBuffer(size * 8));
-}
-
 export class StripTeam {
-  readonly fields: SharedFields;
   readonly strips: readonly StripRows[];
   private current = 0;
   /** Rounds begun with a "go" (steps, syncs); selects the command slot. */
   private round = 0;
   /** A step was taken since the last sync: the workers may still be in their last phase. */
   private pending = false;
+  /** The `cur` of the last step whose sponge sums have not been read (null: none). */
+  private unread: number | null = null;
+  /** Sponge volumes of finished steps, in step order, until the Model takes them. */
+  private taken: number[] = [];
+  private readonly phases: number;
   private broken = false;
   private closed = false;
 
   private constructor(
     readonly kernelName: StripKernelName,
-    private readonly rows: LinearRows,
-    fields: SharedFields,
+    private readonly rows: StripStep,
+    private readonly binding: FieldBinding,
     strips: StripRows[],
     private readonly workers: StripWorkerPort[],
     private readonly control: Int32Array,
     private readonly params: Float64Array,
     private readonly barrier: Barrier,
-    private readonly edgePhase: boolean,
     private readonly timeoutMs: number,
   ) {
-    this.fields = fields;
     this.strips = strips;
+    this.phases = rows.phases(strips);
   }
 
   get size(): number {
@@ -84,60 +85,24 @@ export class StripTeam {
   }
 
   /** Start threads - 1 workers (the caller is the last thread); resolves when all are ready. */
-  static async start(grid: Grid, c: StepCoefficients, threads: number, spawn: StripSpawner, options: TeamOptions = {}): Promise<StripTeam> {
+  static async start(grid: Grid, c: StepCoefficients, physics: PhysicsConfig, threads: number, spawn: StripSpawner, options: TeamOptions = {}): Promise<StripTeam> {
     if (typeof SharedArrayBuffer === 'undefined') {
       throw new StripTeamError('strip workers need SharedArrayBuffer, which a page has only when it is cross-origin isolated');
     }
     const strips = stripBounds(grid.ny, threads);
-    const { size } = grid;
     const kernelName = options.kernel ?? 'ts';
     const control = new Int32Array(new SharedArrayBuffer(4 * CONTROL_WORDS));
-    const params = new Float64Array(new SharedArrayBuffer(16));
+    const params = new Float64Array(new SharedArrayBuffer(16 * STEP_PARAMS));
     const spins = options.spins ?? 4000;
-    const edgePhase = strips.some((s) => needsEdgeSponge(c, s));
-    const coefficients: RowCoefficients = {
-      dt: c.dt,
-      gpdx: c.gpdx,
-      gpdy: c.gpdy,
-      idx2: c.idx2,
-      idy2: c.idy2,
-      dtHdx: c.dtHdx,
-      dtHdy: c.dtHdy,
-      coriolisSouth: c.coriolisSouth,
-      coriolisNorth: c.coriolisNorth,
-      fV: c.fV,
-      spongeH: c.spongeH,
-      spongeV: c.spongeV,
-      coastU: c.coastU,
-      coastV: c.coastV,
-    };
     // The TypeScript strips keep each field in a SharedArrayBuffer of its own; the WebAssembly
     // strips keep them all in one shared WebAssembly.Memory (with masks and tables).
-    let fields: SharedFields;
-    let wasm: WasmStripMemory | undefined;
-    const maskU = sharedField(size);
-    const maskV = sharedField(size);
-    maskU.set(grid.maskU);
-    maskV.set(grid.maskV);
-    if (kernelName === 'wasm') {
-      const made = createWasmStripMemory(grid, coefficients);
-      fields = made.fields;
-      wasm = made.shared;
-    } else {
-      fields = {
-        u: [sharedField(size), sharedField(size)],
-        v: [sharedField(size), sharedField(size)],
-        h: sharedField(size),
-        accelX: sharedField(size),
-        accelY: sharedField(size),
-      };
-    }
+    const { setup, binding } = createStripSetup(grid, c, physics, kernelName, strips.length, options.precision ?? 'float64');
     const workers: StripWorkerPort[] = [];
     const terminateAll = () => {
       for (const w of workers) w.terminate();
     };
     try {
-      const ready = strips.slice(1).map((rows) => {
+      const ready = strips.slice(1).map((rows, n) => {
         const w = spawn();
         workers.push(w);
         return new Promise<void>((resolve, reject) => {
@@ -147,19 +112,7 @@ export class StripTeam {
             else if (r.kind === 'strip-failed') reject(new StripTeamError(`strip worker for rows ${rows.j0}..${rows.j1 - 1} failed: ${r.message}`));
           });
           w.onError((e) => reject(new StripTeamError(`strip worker for rows ${rows.j0}..${rows.j1 - 1} failed to start: ${e instanceof Error ? e.message : String(e)}`)));
-          const init: StripInit = {
-            kind: 'strip-init',
-            rows,
-            edgePhase,
-            parties: strips.length,
-            spins,
-            grid: { nx: grid.nx, ny: grid.ny, W: grid.W, maskU, maskV },
-            coefficients,
-            fields,
-            control,
-            params,
-            ...(wasm ? { wasm } : {}),
-          };
+          const init: StripInit = { kind: 'strip-init', strip: n + 1, strips, parties: strips.length, spins, setup, control, params };
           w.postMessage(init);
         });
       });
@@ -178,30 +131,40 @@ export class StripTeam {
       throw e;
     }
     for (const w of workers) w.unref?.();
-    const leaderGrid = { nx: grid.nx, ny: grid.ny, W: grid.W, maskU, maskV };
-    const rows = stripRows(leaderGrid, coefficients, fields, wasm);
-    return new StripTeam(kernelName, rows, fields, strips, workers, control, params, new Barrier(control, 0, strips.length, spins), edgePhase, options.timeoutMs ?? 20_000);
+    const rows = stripStep(setup, 0);
+    return new StripTeam(kernelName, rows, binding, strips, workers, control, params, new Barrier(control, 0, strips.length, spins), options.timeoutMs ?? 20_000);
   }
 
-  /** Copy a state's fields into the shared buffers; from then on state.u/v/h are the shared views. */
-  adopt(state: State, accelX: Float64Array, accelY: Float64Array): void {
+  /** Copy a state's fields into the shared buffers; from then on the state's arrays are the shared views. */
+  adopt(state: State): void {
     this.sync();
     this.current = 0;
-    this.fields.u[0].set(state.u);
-    this.fields.v[0].set(state.v);
-    this.fields.h.set(state.h);
-    this.fields.accelX.set(accelX);
-    this.fields.accelY.set(accelY);
-    state.u = this.fields.u[0];
-    state.v = this.fields.v[0];
-    state.h = this.fields.h;
+    this.binding.adopt(state);
+    this.remember(state);
   }
 
-  /** Post the command of the next round and arrive at its "go" barrier. */
+  /** The wind stress (N m-2) for the steps that follow; waits for the workers' last step first. */
+  setStress(taux: Float64Array, tauy: Float64Array): void {
+    this.sync();
+    this.binding.setStress(taux, tauy);
+  }
+
+  /** Post the command of the next round and arrive at its "go" barrier (every worker has then finished the last step). */
   private go(cmd: number): void {
     Atomics.store(this.control, CMD + (this.round % 2), cmd);
     this.round++;
     this.arrive();
+    if (this.unread !== null) {
+      this.taken.push(this.binding.spongeTaken(this.unread));
+      this.unread = null;
+    }
+  }
+
+  /** The sponge volumes (sum of h', m) of the steps finished since the last call, in step order. */
+  takeSpongeTaken(): number[] {
+    const t = this.taken;
+    this.taken = [];
+    return t;
   }
 
   private arrive(): void {
@@ -219,35 +182,42 @@ export class StripTeam {
   }
 
   /**
-   * One linear step of the adopted state, the same bits as linearStepPlain. The workers may still
-   * be finishing their last phase when this returns: call sync() before reading the state.
+   * One step of the adopted state, the same bits as the plain step of the mode. The workers may
+   * still be finishing their last phase when this returns: call sync() before reading the state.
    */
   step(state: State, friction: number, viscosity: number): void {
     this.check();
     const cur = this.current;
-    if (state.u !== this.fields.u[cur] || state.v !== this.fields.v[cur] || state.h !== this.fields.h) {
-      throw new StripTeamError('the state stepped by a strip team must be the one it adopted');
-    }
     const k = this.rows;
     const own = this.strips[0];
-    this.params[0] = friction;
-    this.params[1] = viscosity;
-    Atomics.store(this.control, CURRENT, cur);
+    const b = this.binding;
+    if (state.u !== this.bound.u || state.v !== this.bound.v || state.h !== this.bound.h) {
+      throw new StripTeamError('the state stepped by a strip team must be the one it adopted');
+    }
+    // The round's slot of the scalars and of `cur` (see strip-protocol.ts).
+    const slot = this.round % 2;
+    const p = this.params.subarray(slot * STEP_PARAMS, (slot + 1) * STEP_PARAMS);
+    b.stepParams(state, friction, viscosity, p);
+    Atomics.store(this.control, CURRENT + slot, cur);
     this.go(STEP);
-    k.params(friction, viscosity);
-    stripFront(k, cur, own);
-    this.arrive();
-    stripBulk(k, cur, own);
-    this.arrive();
-    stripBack(k, cur, own);
-    if (this.edgePhase) {
-      this.arrive();
-      stripEdge(k, cur, own);
+    k.params(p);
+    for (let p = 0; p < this.phases; p++) {
+      if (p > 0) this.arrive();
+      k.phase(p, cur, own);
     }
     this.pending = true;
+    this.unread = cur;
     this.current = 1 - cur;
-    state.u = this.fields.u[1 - cur];
-    state.v = this.fields.v[1 - cur];
+    b.bind(state, this.current);
+    b.stepped(state);
+    this.remember(state);
+  }
+
+  /** The arrays the adopted state should be showing (checked before each step). */
+  private bound: { u: unknown; v: unknown; h: unknown } = { u: null, v: null, h: null };
+
+  private remember(state: State): void {
+    this.bound = { u: state.u, v: state.v, h: state.h };
   }
 
   /** Wait until every worker has finished the last step (a no-op when none is pending). */

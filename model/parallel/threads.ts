@@ -1,6 +1,7 @@
-// How many strip threads a run gets. 'auto' is one thread per available core, but only where a
-// strip keeps enough work to hide the barriers (AUTO_MIN_CELLS_PER_STRIP cells), and only where
-// the strips were measured to beat the one-thread step. Over a model on WebAssembly the strips run
+// How many strip threads a run gets, in either mode. 'auto' is one thread per available core, but
+// only where a strip keeps enough work to hide the barriers (AUTO_MIN_CELLS_PER_STRIP cells; set
+// for the linear step's three barriers a step, so ample for the nonlinear step's one barrier and
+// heavier cells), and only where the strips were measured to beat the one-thread step. Over a model on WebAssembly the strips run
 // the WebAssembly kernel too (wasm-strips.ts): 2 of them were 1.4 times one WebAssembly thread on
 // 2 free cores, so they follow the per-core rule. Where only the TypeScript strips can run, 2 of
 // them barely beat (free cores) or lose to (loaded cores) one WebAssembly thread, so 'auto' wants
@@ -39,17 +40,12 @@ export function checkThreadsOption(t: unknown, where = 'threads'): ThreadsOption
 export function chooseThreads(
   requested: ThreadsOption,
   grid: { nx: number; ny: number },
-  mode: 'linear' | 'nonlinear',
   cores: number,
   singleKernel: 'ts' | 'wasm' = 'ts',
   stripKernel: 'ts' | 'wasm' = 'ts',
 ): ThreadChoice {
   checkThreadsOption(requested);
-  const asked = requested === 'auto' ? 'auto' : String(requested);
   if (requested === 1) return { threads: 1, notice: null };
-  if (mode === 'nonlinear') {
-    return { threads: 1, notice: `threads ${asked}: the nonlinear scheme runs on one thread (only the linear step is split into strips)` };
-  }
   if (requested === 'auto') {
     const coreWord = `${cores} core${cores === 1 ? '' : 's'} for strips`;
     if (singleKernel === 'wasm' && stripKernel === 'ts' && cores < AUTO_MIN_CORES_OVER_WASM) {

@@ -2,6 +2,7 @@
 // time-step limit and the size of the output. Shown by `pycno check` and the page before a run.
 
 import { DAY, type DynamicsMode } from '../config.ts';
+import { bytesOf, type Precision } from '../precision.ts';
 import type { Grid } from '../grid.ts';
 import { Clock } from '../clock.ts';
 import { chooseTimeStep, stabilityLimit, stepsInInterval, type StabilityLimit } from '../dynamics/stability.ts';
@@ -37,11 +38,14 @@ export function scenarioStability(r: ResolvedScenario): StabilityLimit {
 
 /** Solver arrays of the padded grid size, 8 bytes each (a rough count of state, forcing, masks and work). */
 const SOLVER_ARRAYS: Record<DynamicsMode, number> = { linear: 12, nonlinear: 25 };
+/** Of those, the step's own fields, which a float32 run holds in 4 bytes (model/precision.ts). */
+const STEP_ARRAYS: Record<DynamicsMode, number> = { linear: 7, nonlinear: 14 };
 
 /** Bytes a run of nx x ny cells holds while it runs: the solver's arrays and one output frame. */
-export function memoryEstimate(nx: number, ny: number, mode: DynamicsMode, fields: number): number {
+export function memoryEstimate(nx: number, ny: number, mode: DynamicsMode, fields: number, precision: Precision = 'float64'): number {
   const padded = (nx + 3) * (ny + 3);
-  return padded * 8 * SOLVER_ARRAYS[mode] + padded + nx * ny * 4 * fields;
+  const stepBytes = bytesOf(precision) * STEP_ARRAYS[mode] + 8 * (SOLVER_ARRAYS[mode] - STEP_ARRAYS[mode]);
+  return padded * stepBytes + padded + nx * ny * 4 * fields;
 }
 
 export interface DerivedNumbers {
@@ -76,6 +80,8 @@ export interface DerivedNumbers {
   outputBytes: number;
   /** Memory of the solver arrays plus one output frame. */
   memoryBytes: number;
+  /** The working precision of the state and the step. */
+  precision: Precision;
   /** The western boundary layer's width against the zonal grid interval, with advice when unresolved. */
   boundaryLayer: BoundaryLayer;
   /** The answering wind's scales and coupling interval (model/coupling/derived.ts); null without one. */
@@ -112,7 +118,7 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
   const outputs = 1 + wholeIntervals + (perInterval > 0 && steps % perInterval !== 0 ? 1 : 0);
   const fields = r.outputFields.length;
   const outputBytes = nx * ny * 4 * fields * outputs + (nx + ny) * 8 + outputs * 8;
-  const memoryBytes = memoryEstimate(nx, ny, physics.mode, fields);
+  const memoryBytes = memoryEstimate(nx, ny, physics.mode, fields, r.model.precision);
   return {
     c,
     beta,
@@ -135,6 +141,7 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
     outputs,
     outputBytes,
     memoryBytes,
+    precision: r.model.precision ?? 'float64',
     boundaryLayer: westernBoundaryLayer(beta, physics.viscosity, physics.friction, dx),
     answering: answeringFor(r, dt, beta),
   };

@@ -71,6 +71,7 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
       sponge: { widthDeg: basin.sponge.widthDeg, rateAtWall: rate(basin.sponge.dampingDays), conserveVolume: basin.sponge.conserveVolume },
     },
     time: { dt: time.dtSeconds === 'auto' ? null : time.dtSeconds, safety: time.safety, alignTo: secondsOfDays(time.outputEveryDays) },
+    precision: scenario.numerics.precision,
   };
   return {
     name: scenario.name,

@@ -3,6 +3,7 @@
 // Units are those a user writes: degrees, days, metres, m s-2, N m-2 or m s-1.
 
 import { FIELD_NAMES } from '../diagnostics/fields.ts';
+import type { Precision } from '../precision.ts';
 import type { LandShape } from '../land.ts';
 import type { BulkSpec, WindPart, WindSpec } from '../forcing/spec.ts';
 import type { DynamicsMode, SlipKind } from '../config.ts';
@@ -113,5 +114,6 @@ export interface Scenario {
   probes: Probe[];
   hovmoller: { lat: number[] };
   seed: string | number;
+  numerics: { precision: Precision };
   output: { fields: OutputField[] };
 }

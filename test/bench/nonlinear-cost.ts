@@ -15,7 +15,12 @@ function make(mode: 'linear' | 'nonlinear', kernel: ModelOptions['kernel']): Mod
   return new Model(cfg, { wind: referenceStress(new Grid(cfg.basin, cfg.physics.earthRadius)), kernel });
 }
 
-const cases = { 'linear-ts': () => make('linear', 'ts'), 'linear-wasm': () => make('linear', 'wasm'), nonlinear: () => make('nonlinear', 'ts') };
+const cases = {
+  'linear-ts': () => make('linear', 'ts'),
+  'linear-wasm': () => make('linear', 'wasm'),
+  'nonlinear-ts': () => make('nonlinear', 'ts'),
+  'nonlinear-wasm': () => make('nonlinear', 'wasm'),
+};
 const steps = Math.max(20, Math.round(3e7 / (nx * ny)));
 const ns: Record<string, number[]> = {};
 for (const [name, f] of Object.entries(cases)) {
@@ -35,5 +40,5 @@ const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.len
 const lin = median(ns['linear-ts']);
 for (const name of Object.keys(cases)) {
   const m = median(ns[name]);
-  console.log(`cost ${name.padEnd(12)} ${m.toFixed(2)} ns/cell  (${(m / lin).toFixed(2)} x linear-ts)`);
+  console.log(`cost ${name.padEnd(14)} ${m.toFixed(2)} ns/cell  (${(m / lin).toFixed(2)} x linear-ts)`);
 }

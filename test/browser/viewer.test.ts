@@ -194,6 +194,18 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     await expect.poll(() => derived.textContent()).not.toMatch(/Unresolved/);
   });
 
+  it('the precision is a choice of the scenario panel: float32 lowers the solver memory, and revert takes it back', async () => {
+    const derived = page.locator('#derived');
+    const memory = async () => Number(/Solver memory([\d.]+) MB/.exec((await derived.textContent()) ?? '')?.[1]);
+    const before = await memory();
+    expect(before).toBeGreaterThan(0);
+    expect(await page.$eval('select[name="numerics.precision"]', (s) => (s as HTMLSelectElement).value)).toBe('float64');
+    await page.selectOption('select[name="numerics.precision"]', 'float32');
+    await expect.poll(memory).toBeLessThan(before);
+    await page.click('#btn-revert');
+    await expect.poll(memory).toBe(before);
+  });
+
   it('the Hovmoller diagram grows as the run goes', async () => {
     const before = Number(await page.getAttribute('#hovmoller', 'data-rows'));
     expect(before).toBeGreaterThan(30);

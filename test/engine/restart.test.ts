@@ -10,7 +10,7 @@ import { buildPrepared, parseScenario } from '../../model/scenario/load-inputs.t
 import type { State } from '../../model/state.ts';
 import { FIXTURE, FIXTURE_TEXT } from '../support/engine-fixture.ts';
 
-function same(a: Float64Array, b: Float64Array): boolean {
+function same(a: Float64Array | Float32Array, b: Float64Array | Float32Array): boolean {
   return Buffer.from(a.buffer, a.byteOffset, a.byteLength).equals(Buffer.from(b.buffer, b.byteOffset, b.byteLength));
 }
 

@@ -25,6 +25,12 @@ function restartFields(file: string): Record<'u' | 'v' | 'h', Float64Array> {
   return { u: f.variable('u').values as Float64Array, v: f.variable('v').values as Float64Array, h: f.variable('h').values as Float64Array };
 }
 
+/** Every numeric variable of a restart file (the state, the multistep history, the clock, the budget). */
+function restartVariables(file: string): Map<string, ArrayLike<number>> {
+  const f = readNetcdf(new Uint8Array(readFileSync(join(dir, file))));
+  return new Map(f.variables.filter((v) => typeof (v.values as ArrayLike<number>).length === 'number' && typeof (v.values as ArrayLike<number>)[0] !== 'string').map((v) => [v.name, v.values as ArrayLike<number>]));
+}
+
 describe('pycno run --threads', () => {
   it('ends in the one-thread state bit for bit, says so, and exits', () => {
     const common = ['run', SCENARIO, '--days', '16', '--quiet', '--set', 'physics.viscosity=800'];
@@ -46,6 +52,27 @@ describe('pycno run --threads', () => {
       expect(differ, key).toBe(0);
     }
     expect(Math.max(...a.h)).toBeGreaterThan(0.01); // the burst has moved the thermocline
+  });
+
+  it('the nonlinear step too: every variable of the restart file (history included) bit for bit', () => {
+    const common = ['run', SCENARIO, '--days', '14', '--quiet', '--set', 'physics.dynamics=nonlinear', '--set', 'physics.viscosity=800'];
+    const one = pycno([...common, '--out', 'nl-one.nc', '--restart-out', 'nl-one-restart.nc']);
+    const two = pycno([...common, '--out', 'nl-two.nc', '--restart-out', 'nl-two-restart.nc', '--threads', '2']);
+    expect(one.stderr).toBe('');
+    expect(two.stderr).toBe('');
+    expect([one.code, two.code]).toEqual([0, 0]);
+    expect(two.stdout).toMatch(/nonlinear step on 2 threads \(latitude strips\)/);
+    const a = restartVariables('nl-one-restart.nc');
+    const b = restartVariables('nl-two-restart.nc');
+    expect([...b.keys()]).toEqual([...a.keys()]);
+    for (const name of ['u', 'v', 'h', 'du', 'dv', 'dh', 'history_count']) expect(a.has(name), name).toBe(true);
+    for (const [name, x] of a) {
+      const y = b.get(name)!;
+      let differ = 0;
+      for (let k = 0; k < x.length; k++) if (!Object.is(x[k], y[k])) differ++;
+      expect(differ, name).toBe(0);
+    }
+    expect(Math.max(...(a.get('h') as Float64Array))).toBeGreaterThan(0.01);
   });
 
   it('refuses a bad count with exit 2 and one line', () => {

@@ -157,18 +157,6 @@ describe('strip team on worker threads', () => {
     expect(sameBits(many.state.v, one.state.v)).toBe(true);
   });
 
-  it('keeps the nonlinear scheme on one thread and says so, starting no worker', async () => {
-    const cfg = basin(32, 16, 'free', 2);
-    cfg.physics = { ...cfg.physics, mode: 'nonlinear' };
-    const m = new Model(cfg, { threads: 2 });
-    const counter = countingHost();
-    const choice = await m.startThreads(counter.host);
-    expect(choice.threads).toBe(1);
-    expect(choice.notice).toMatch(/nonlinear scheme runs on one thread/);
-    expect(counter.started()).toBe(0);
-    expect(m.threads).toBe(1);
-  });
-
   it('refuses a thread count that is not a whole number from 1 to 64', () => {
     const cfg = basin(20, 8, 'free', 1);
     for (const bad of [0, -1, 1.5, 65, Number.NaN, 'two']) {
@@ -178,13 +166,12 @@ describe('strip team on worker threads', () => {
   });
 
   it("'auto' takes one thread per core while a strip keeps 40,000 cells, and over WebAssembly only from 4 cores", () => {
-    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm').threads).toBe(1);
-    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm').notice).toMatch(/WebAssembly step is faster than 2 TypeScript strips/);
-    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 'linear', 4, 'wasm').threads).toBe(4);
-    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2).threads).toBe(2);
-    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 8).threads).toBe(3);
-    expect(chooseThreads('auto', { nx: 160, ny: 60 }, 'linear', 8).threads).toBe(1);
-    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 'linear', 1).threads).toBe(1);
-    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 'nonlinear', 8).threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 2, 'wasm').threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 2, 'wasm').notice).toMatch(/WebAssembly step is faster than 2 TypeScript strips/);
+    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 4, 'wasm').threads).toBe(4);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 2).threads).toBe(2);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 8).threads).toBe(3);
+    expect(chooseThreads('auto', { nx: 160, ny: 60 }, 8).threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 1).threads).toBe(1);
   });
 });

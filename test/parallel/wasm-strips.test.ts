@@ -103,14 +103,14 @@ describe('WebAssembly strip team on worker threads', () => {
   });
 
   it("'auto' over the WebAssembly strips takes one thread per core while a strip keeps 40,000 cells", () => {
-    const two = chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm', 'wasm');
+    const two = chooseThreads('auto', { nx: 640, ny: 240 }, 2, 'wasm', 'wasm');
     expect(two.threads).toBe(2);
     expect(two.notice).toMatch(/threads auto: 2 \(2 cores for strips, 640 x 240 cells/);
     // only TypeScript strips at hand: the one-thread WebAssembly step is kept below 4 cores
-    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 2, 'wasm', 'ts').threads).toBe(1);
-    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 8, 'wasm', 'wasm').threads).toBe(3);
-    expect(chooseThreads('auto', { nx: 160, ny: 60 }, 'linear', 8, 'wasm', 'wasm').threads).toBe(1);
-    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 'linear', 1, 'wasm', 'wasm').threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 2, 'wasm', 'ts').threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 8, 'wasm', 'wasm').threads).toBe(3);
+    expect(chooseThreads('auto', { nx: 160, ny: 60 }, 8, 'wasm', 'wasm').threads).toBe(1);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 1, 'wasm', 'wasm').threads).toBe(1);
   });
 
 });

@@ -115,7 +115,7 @@ describe('the schema describes exactly the WindSpec shapes of model/forcing/spec
     if (!r.ok) throw new Error(r.errors.map(formatIssue).join('\n'));
     expect(r.scenario).toEqual(filled);
     expect(Object.keys(filled).sort()).toEqual(
-      ['basin', 'description', 'format', 'hovmoller', 'initial', 'name', 'output', 'physics', 'probes', 'seed', 'time', 'wind'].sort(),
+      ['basin', 'description', 'format', 'hovmoller', 'initial', 'name', 'numerics', 'output', 'physics', 'probes', 'seed', 'time', 'wind'].sort(),
     );
   });
 });

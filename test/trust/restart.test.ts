@@ -9,7 +9,7 @@ import { buildPrepared, loadInputs, mapReader, parseScenario } from '../../model
 import type { State } from '../../model/state.ts';
 import { withBursts } from '../support/trust-kit.ts';
 
-const bitsEqual = (a: Float64Array, b: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).equals(Buffer.from(b.buffer, b.byteOffset, b.byteLength));
+const bitsEqual = (a: Float64Array | Float32Array, b: Float64Array | Float32Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).equals(Buffer.from(b.buffer, b.byteOffset, b.byteLength));
 
 function sameState(a: State, b: State): string[] {
   const bad: string[] = [];

@@ -15,6 +15,8 @@ export interface ParamSpec {
   /** What an empty box means, if anything. */
   empty?: null | 'auto';
   emptyText?: string;
+  /** A choice of words instead of a text box (the first is the default). */
+  choices?: readonly string[];
 }
 
 export const PARAMS: ParamSpec[] = [
@@ -25,6 +27,7 @@ export const PARAMS: ParamSpec[] = [
   { path: 'time.days', label: 'Run length', units: 'days' },
   { path: 'time.outputEveryDays', label: 'Output interval', units: 'days' },
   { path: 'time.dtSeconds', label: 'Time step dt', units: 's', empty: 'auto', emptyText: 'empty or "auto": from the stability limit' },
+  { path: 'numerics.precision', label: 'Precision', units: '', choices: ['float64', 'float32'], emptyText: 'float32: half the memory traffic, about 1e-7 relative round-off' },
 ];
 
 type Json = Record<string, unknown>;
@@ -68,6 +71,7 @@ export function setPath(obj: Json, path: string, value: unknown): void {
 
 /** What a text box means: a number when it reads as one, else the text (the validator says why). */
 export function readBox(text: string, spec: ParamSpec): unknown {
+  if (spec.choices) return text;
   const t = text.trim();
   if (t === '' || (spec.empty === 'auto' && t === 'auto')) return spec.empty === undefined ? '' : spec.empty;
   const n = Number(t);
@@ -100,7 +104,7 @@ export class ScenarioPanel {
   /** The scenario as it was opened (a shipped file, a file, a saved run's copy), before any edit. */
   opened: Json = {};
   fileName = 'scenario.json';
-  private boxes = new Map<string, HTMLInputElement>();
+  private boxes = new Map<string, HTMLInputElement | HTMLSelectElement>();
   private msgs = new Map<string, HTMLElement>();
   lastCheck: PanelResult = { valid: false, issues: [], derived: null };
 
@@ -118,11 +122,8 @@ export class ScenarioPanel {
       const label = document.createElement('label');
       const name = document.createElement('span');
       name.textContent = spec.label;
-      const box = document.createElement('input');
-      box.type = 'text';
-      box.inputMode = 'decimal';
+      const box = spec.choices ? choiceBox(spec.choices) : textBox();
       box.name = spec.path;
-      box.autocomplete = 'off';
       const unit = document.createElement('span');
       unit.className = 'unit';
       unit.textContent = spec.units;
@@ -139,6 +140,7 @@ export class ScenarioPanel {
       this.boxes.set(spec.path, box);
       this.msgs.set(spec.path, msg);
       box.addEventListener('input', () => this.onEdit());
+      if (spec.choices) box.addEventListener('change', () => this.onEdit());
     }
     this.form.addEventListener('submit', (e) => e.preventDefault());
   }
@@ -152,8 +154,12 @@ export class ScenarioPanel {
     for (const spec of PARAMS) {
       const v = getPath(json, spec.path);
       const box = this.boxes.get(spec.path)!;
+      if (spec.choices) {
+        box.value = typeof v === 'string' && spec.choices.includes(v) ? v : spec.choices[0];
+        continue;
+      }
       box.value = v === undefined || v === null ? (spec.empty === 'auto' ? 'auto' : '') : String(v);
-      if (v === undefined && spec.empty === undefined) box.placeholder = 'default';
+      if (v === undefined && spec.empty === undefined && box instanceof HTMLInputElement) box.placeholder = 'default';
     }
     this.onEdit();
   }
@@ -178,7 +184,7 @@ export class ScenarioPanel {
   /** Whether the boxes' values differ from a scenario's (the run's base, or the file as opened). */
   changedFrom(other: Json): boolean {
     // A value absent from the file reads as what its empty box means ("auto", no friction).
-    const norm = (v: unknown, s: ParamSpec) => JSON.stringify(v === undefined ? (s.empty === undefined ? null : s.empty) : v);
+    const norm = (v: unknown, s: ParamSpec) => JSON.stringify(v === undefined ? (s.choices ? s.choices[0] : s.empty === undefined ? null : s.empty) : v);
     return PARAMS.some((s) => norm(getPath(other, s.path), s) !== norm(getPath(this.edited, s.path), s));
   }
 
@@ -186,8 +192,8 @@ export class ScenarioPanel {
     for (const spec of PARAMS) {
       const raw = this.boxes.get(spec.path)!.value;
       const v = readBox(raw, spec);
-      // Leaving an optional box empty falls back to the file's own value or the default.
-      if (v === '' && getPath(this.base, spec.path) === undefined) setPath(this.edited, spec.path, undefined);
+      // Leaving an optional box empty (or a choice at its default) falls back to the file's own value or the default.
+      if ((v === '' || (spec.choices && v === spec.choices[0])) && getPath(this.base, spec.path) === undefined) setPath(this.edited, spec.path, undefined);
       else setPath(this.edited, spec.path, v);
     }
     const check = checkEdited(this.edited);
@@ -292,6 +298,20 @@ export class ScenarioPanel {
 }
 
 const COUPLED_MODE_ROW = 'Coupled mode (period, growth)';
+
+function textBox(): HTMLInputElement {
+  const box = document.createElement('input');
+  box.type = 'text';
+  box.inputMode = 'decimal';
+  box.autocomplete = 'off';
+  return box;
+}
+
+function choiceBox(choices: readonly string[]): HTMLSelectElement {
+  const box = document.createElement('select');
+  for (const c of choices) box.add(new Option(c, c));
+  return box;
+}
 
 /** Munk and Stommel widths against dx (the wider one sets the layer), as the derived list shows them. */
 function boundaryLayerText(d: DerivedNumbers): string {

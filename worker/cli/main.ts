@@ -49,7 +49,7 @@ ${RERUN_USAGE}  ${SWEEP_USAGE}  ${BATCH_USAGE}  ${COMPARE_USAGE}
   --days N               run length in days (the same as --set time.days=N); a decimal number, as in JSON
   --set path=value       change one scenario value, e.g. --set physics.reducedGravity=0.05
   --restart-out FILE.nc  also write a restart file of the end state (exact continuation)
-  --threads N|auto       split the linear step into N latitude strips on N threads (same results bit
+  --threads N|auto       split the step (either mode) into N latitude strips on N threads (same results
                          for bit; auto: one per core on grids large enough to gain); default 1
   --keep-partial         keep the unfinished FILE.nc.part-PID when the run fails (blow-up, full disk)
   --allow-long-run       run (or check, sweep, rerun) beyond 10,000,000 time steps, which is refused otherwise

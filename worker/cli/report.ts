@@ -31,7 +31,7 @@ export function checkReport(name: string, file: string, d: DerivedNumbers, field
     ['boundary layer', boundaryLayerLine(d)],
     ['steps', `${d.steps} for ${days} days`],
     ['output', `${d.outputs} records every ${everyDays} days${d.outputs > Math.floor(days / everyDays + 1e-9) + 1 ? ', the last at the end of the run (a shorter interval),' : ''} of ${fields.join(', ')}: about ${formatBytes(d.outputBytes)}`],
-    ['memory', `about ${formatBytes(d.memoryBytes)}`],
+    ['memory', `about ${formatBytes(d.memoryBytes)}${d.precision === 'float32' ? ' (state and step in float32)' : ''}`],
   ];
   if (d.answering) list.push(...answeringLines(d.answering));
   for (const n of notes) list.push(['input', n]);
