@@ -18,7 +18,9 @@ export { pagePolicy };
 const policyInPage: Plugin = {
   name: 'pycno-page-policy',
   apply: 'build',
-  transformIndexHtml: () => [{ tag: 'meta', attrs: { 'http-equiv': 'Content-Security-Policy', content: metaPolicy }, injectTo: 'head-prepend' }],
+  transformIndexHtml: () => [
+    { tag: 'meta', attrs: { 'http-equiv': 'Content-Security-Policy', content: metaPolicy }, injectTo: 'head-prepend' },
+  ],
 };
 
 export default defineConfig({

@@ -8,7 +8,10 @@ export default defineConfig({
     hookTimeout: 180_000,
     projects: [
       { extends: true, test: { name: 'all', include: ['test/**/*.test.ts'] } },
-      { extends: true, test: { name: 'physics-float32', include: ['test/physics/**/*.test.ts'], env: { PYCNO_PRECISION: 'float32' } } },
+      {
+        extends: true,
+        test: { name: 'physics-float32', include: ['test/physics/**/*.test.ts'], env: { PYCNO_PRECISION: 'float32' } },
+      },
     ],
   },
 });

@@ -38,9 +38,17 @@ export class Clock {
   }
 
   /** A clock of this step length that continues `from` (a restart's clock) or starts at (steps, time). */
-  static continuing(dt: number, intervalSeconds: number, stepsPerInterval: number, steps: number, time: number, from: ClockSpec | null): Clock {
+  static continuing(
+    dt: number,
+    intervalSeconds: number,
+    stepsPerInterval: number,
+    steps: number,
+    time: number,
+    from: ClockSpec | null,
+  ): Clock {
     const own = { dt, intervalSeconds, stepsPerInterval };
-    if (from && sameStepLength(own, from)) return new Clock({ ...own, originSteps: from.originSteps, originTime: from.originTime });
+    if (from && sameStepLength(own, from))
+      return new Clock({ ...own, originSteps: from.originSteps, originTime: from.originTime });
     return new Clock({ ...own, originSteps: steps, originTime: time });
   }
 
@@ -71,7 +79,10 @@ export class Clock {
 }
 
 /** True when two clocks count steps of the same length, so that one's origin serves the other. */
-export function sameStepLength(a: Pick<ClockSpec, 'dt' | 'intervalSeconds' | 'stepsPerInterval'>, b: Pick<ClockSpec, 'dt' | 'intervalSeconds' | 'stepsPerInterval'>): boolean {
+export function sameStepLength(
+  a: Pick<ClockSpec, 'dt' | 'intervalSeconds' | 'stepsPerInterval'>,
+  b: Pick<ClockSpec, 'dt' | 'intervalSeconds' | 'stepsPerInterval'>,
+): boolean {
   if (a.stepsPerInterval > 0 && b.stepsPerInterval > 0) {
     // I_a / N_a = I_b / N_b, compared as products: exact for whole seconds up to 2^53.
     return a.intervalSeconds * b.stepsPerInterval === b.intervalSeconds * a.stepsPerInterval;

@@ -51,10 +51,14 @@ export class Grid {
     for (const [name, v] of Object.entries({ lonWest, lonEast, latSouth, latNorth, dLon, dLat })) {
       if (!Number.isFinite(v)) throw new GridError(`basin.${name} must be a finite number (got ${v})`);
     }
-    if (!(dLon > 0) || !(dLat > 0)) throw new GridError(`the resolution must be positive (got ${dLon} x ${dLat} degrees)`);
-    if (!(lonEast > lonWest)) throw new GridError(`the eastern edge (${lonEast}) must lie east of the western edge (${lonWest})`);
-    if (!(latNorth > latSouth)) throw new GridError(`the northern edge (${latNorth}) must lie north of the southern edge (${latSouth})`);
-    if (latSouth < -90 || latNorth > 90) throw new GridError(`latitudes must lie within -90..90 (got ${latSouth}..${latNorth})`);
+    if (!(dLon > 0) || !(dLat > 0))
+      throw new GridError(`the resolution must be positive (got ${dLon} x ${dLat} degrees)`);
+    if (!(lonEast > lonWest))
+      throw new GridError(`the eastern edge (${lonEast}) must lie east of the western edge (${lonWest})`);
+    if (!(latNorth > latSouth))
+      throw new GridError(`the northern edge (${latNorth}) must lie north of the southern edge (${latSouth})`);
+    if (latSouth < -90 || latNorth > 90)
+      throw new GridError(`latitudes must lie within -90..90 (got ${latSouth}..${latNorth})`);
     const nxReal = (lonEast - lonWest) / dLon;
     const nyReal = (latNorth - latSouth) / dLat;
     const nx = Math.round(nxReal);

@@ -37,7 +37,8 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
     case 'rest':
       break;
     case 'bump': {
-      if (!(spec.radiusDeg > 0)) throw new InputError(`bump radius must be > 0 degrees (got ${spec.radiusDeg})`, 'initial.radiusDeg');
+      if (!(spec.radiusDeg > 0))
+        throw new InputError(`bump radius must be > 0 degrees (got ${spec.radiusDeg})`, 'initial.radiusDeg');
       fillCentres(grid, s.h, (lon, lat) => {
         const dLon = lon - spec.lon;
         const dLat = lat - spec.lat;
@@ -46,7 +47,8 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
       break;
     }
     case 'kelvin': {
-      if (!(spec.zonalWidthDeg > 0)) throw new InputError(`zonal width must be > 0 degrees (got ${spec.zonalWidthDeg})`, 'initial.zonalWidthDeg');
+      if (!(spec.zonalWidthDeg > 0))
+        throw new InputError(`zonal width must be > 0 degrees (got ${spec.zonalWidthDeg})`, 'initial.zonalWidthDeg');
       const shape = (lon: number, y: number) =>
         spec.amplitude * pm.exp(-(y * y) / (2 * L * L)) * pm.exp(-square((lon - spec.lon) / spec.zonalWidthDeg));
       fillCentres(grid, s.h, (lon, _lat, y) => shape(lon, y));
@@ -55,7 +57,8 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
       break;
     }
     case 'rossby': {
-      if (!(spec.zonalWidthDeg > 0)) throw new InputError(`zonal width must be > 0 degrees (got ${spec.zonalWidthDeg})`, 'initial.zonalWidthDeg');
+      if (!(spec.zonalWidthDeg > 0))
+        throw new InputError(`zonal width must be > 0 degrees (got ${spec.zonalWidthDeg})`, 'initial.zonalWidthDeg');
       // Long-wave limit (v_t neglected) of the n = 1 mode, in units of L and c:
       //   h'/H = F (2 y^2 + 1) e^{-y^2/2},  u/c = F (2 y^2 - 3) e^{-y^2/2},
       //   v/c = (4/3) dF/dx 2 y e^{-y^2/2};  F moves west at c/3.
@@ -64,7 +67,7 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
       const w = spec.zonalWidthDeg * mPerDeg;
       const x0 = spec.lon * mPerDeg;
       const F = (lon: number) => pm.exp(-square((lon * mPerDeg - x0) / w));
-      const dFdx = (lon: number) => (-2 * (lon * mPerDeg - x0)) / (w * w) * F(lon);
+      const dFdx = (lon: number) => ((-2 * (lon * mPerDeg - x0)) / (w * w)) * F(lon);
       fillCentres(grid, s.h, (lon, _lat, y) => {
         const Y = y / L;
         return a * F(lon) * (2 * Y * Y + 1) * pm.exp(-0.5 * Y * Y);
@@ -93,26 +96,55 @@ export function initialState(grid: Grid, physics: PhysicsConfig, spec: InitialSp
 export function checkInitial(grid: Grid, physics: PhysicsConfig, s: State, dt?: number): void {
   const H = physics.layerThickness;
   const refuse = (name: "h'" | 'u' | 'v', a: ArrayLike<number>, k: number, what: string): never => {
-    throw new InputError(`the initial state has ${name} = ${a[k]} at ${placeOfIndex(grid, k, name === "h'" ? 'centre' : staggeringOf(name))}: ${what}`, 'initial');
+    throw new InputError(
+      `the initial state has ${name} = ${a[k]} at ${placeOfIndex(grid, k, name === "h'" ? 'centre' : staggeringOf(name))}: ${what}`,
+      'initial',
+    );
   };
-  for (const [name, a] of [["h'", s.h], ['u', s.u], ['v', s.v]] as const) {
+  for (const [name, a] of [
+    ["h'", s.h],
+    ['u', s.u],
+    ['v', s.v],
+  ] as const) {
     for (let k = 0; k < a.length; k++) if (!Number.isFinite(a[k])) refuse(name, a, k, 'a start must be finite');
   }
-  for (const [name, a] of [['u', s.u], ['v', s.v]] as const) {
+  for (const [name, a] of [
+    ['u', s.u],
+    ['v', s.v],
+  ] as const) {
     for (let k = 0; k < a.length; k++) {
-      if (Math.abs(a[k]) > RUNAWAY_SPEED) refuse(name, a, k, `a start must be slower than ${RUNAWAY_SPEED} m/s, the speed at which a run is stopped as blown up`);
+      if (Math.abs(a[k]) > RUNAWAY_SPEED)
+        refuse(
+          name,
+          a,
+          k,
+          `a start must be slower than ${RUNAWAY_SPEED} m/s, the speed at which a run is stopped as blown up`,
+        );
     }
   }
   for (let k = 0; k < s.h.length; k++) {
-    if (H + s.h[k] > MAX_LAYER_THICKNESS) refuse("h'", s.h, k, `a layer of ${H} m plus this anomaly is thicker than any ocean is deep (at most ${MAX_LAYER_THICKNESS} m)`);
+    if (H + s.h[k] > MAX_LAYER_THICKNESS)
+      refuse(
+        "h'",
+        s.h,
+        k,
+        `a layer of ${H} m plus this anomaly is thicker than any ocean is deep (at most ${MAX_LAYER_THICKNESS} m)`,
+      );
     const thick = H + s.h[k];
     if (grid.ocean[k] && thick <= 0) {
-      throw new InputError(`the initial state leaves no upper layer (thickness ${thick.toFixed(1)} m) at ${placeOfIndex(grid, k, 'centre')}; h' must stay above -H = -${H} m`, 'initial');
+      throw new InputError(
+        `the initial state leaves no upper layer (thickness ${thick.toFixed(1)} m) at ${placeOfIndex(grid, k, 'centre')}; h' must stay above -H = -${H} m`,
+        'initial',
+      );
     }
   }
   if (dt === undefined || !(dt > 0)) return;
   for (let n = 0; n < s.historyCount; n++) {
-    for (const [key, name, bound, unit] of [['du', 'du', RUNAWAY_SPEED, 'm/s'], ['dv', 'dv', RUNAWAY_SPEED, 'm/s'], ['dh', 'dh', MAX_LAYER_THICKNESS, 'm']] as const) {
+    for (const [key, name, bound, unit] of [
+      ['du', 'du', RUNAWAY_SPEED, 'm/s'],
+      ['dv', 'dv', RUNAWAY_SPEED, 'm/s'],
+      ['dh', 'dh', MAX_LAYER_THICKNESS, 'm'],
+    ] as const) {
       const a = s.history[key][n];
       for (let k = 0; k < a.length; k++) {
         if (!(Math.abs(a[k]) * dt <= bound)) {

@@ -3,7 +3,12 @@
 
 import type { ModelConfig, PhysicsConfig } from './config.ts';
 import { DAY } from './config.ts';
-import { buildCoefficients, largestCoriolis, type KernelVariant, type StepCoefficients } from './dynamics/coefficients.ts';
+import {
+  buildCoefficients,
+  largestCoriolis,
+  type KernelVariant,
+  type StepCoefficients,
+} from './dynamics/coefficients.ts';
 import { wasmAvailable } from './dynamics/linear-wasm.ts';
 import { createStepper, type KernelName, type Stepper } from './dynamics/stepper.ts';
 import { PRECISIONS, type Precision } from './precision.ts';
@@ -90,7 +95,10 @@ export class Model {
   constructor(config: ModelConfig, options: ModelOptions = {}) {
     checkPhysics(config.physics);
     if (config.precision !== undefined && !PRECISIONS.includes(config.precision)) {
-      throw new InputError(`must be one of ${PRECISIONS.join(', ')} (got ${JSON.stringify(config.precision)})`, 'numerics.precision');
+      throw new InputError(
+        `must be one of ${PRECISIONS.join(', ')} (got ${JSON.stringify(config.precision)})`,
+        'numerics.precision',
+      );
     }
     this.config = config;
     this.physics = config.physics;
@@ -115,7 +123,10 @@ export class Model {
     const init = options.initial ?? { kind: 'rest' };
     if (init instanceof State) {
       if (init.grid.nx !== this.grid.nx || init.grid.ny !== this.grid.ny) {
-        throw new InputError(`the restart state is on a ${init.grid.nx} x ${init.grid.ny} grid, the scenario on ${this.grid.nx} x ${this.grid.ny}`, 'initial');
+        throw new InputError(
+          `the restart state is on a ${init.grid.nx} x ${init.grid.ny} grid, the scenario on ${this.grid.nx} x ${this.grid.ny}`,
+          'initial',
+        );
       }
       checkInitial(this.grid, p, init, this.dt);
       this.state = new State(this.grid);
@@ -125,13 +136,22 @@ export class Model {
     }
     // The clock counts in whole steps of the output interval when there is one (the dt was chosen
     // or checked to divide it); a restart's clock goes on when its step is this one's.
-    const interval = config.time.alignTo && config.time.alignTo > 0 && Number.isFinite(config.time.alignTo) ? config.time.alignTo : 0;
+    const interval =
+      config.time.alignTo && config.time.alignTo > 0 && Number.isFinite(config.time.alignTo) ? config.time.alignTo : 0;
     const perInterval = interval > 0 ? stepsInInterval(this.dt, interval) : 0;
     const given = this.state.clock;
-    this.clock = Clock.continuing(this.dt, perInterval > 0 ? interval : 0, perInterval, this.state.steps, this.state.time, given);
+    this.clock = Clock.continuing(
+      this.dt,
+      perInterval > 0 ? interval : 0,
+      perInterval,
+      this.state.steps,
+      this.state.time,
+      given,
+    );
     // The stress a state shows is the one in force over the step that ended at it: for a state
     // some run has stepped, read on that run's clock; for a fresh start, the first step's.
-    const previous = this.state.steps > 0 ? (given ? new Clock(given) : this.clock).timeAt(this.state.steps - 1) : this.state.time;
+    const previous =
+      this.state.steps > 0 ? (given ? new Clock(given) : this.clock).timeAt(this.state.steps - 1) : this.state.time;
     this.state.clock = { ...this.clock.spec };
 
     this.wind = options.wind ?? calm;
@@ -144,7 +164,10 @@ export class Model {
     this.stepper = createStepper(this.grid, this.coefficients, p, this.stepKernel, this.precision);
     this.stepper.adopt(this.state);
     this.nonlinear = p.mode === 'nonlinear';
-    this.keeper = p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.grid, this.coefficients) : null;
+    this.keeper =
+      p.sponge.conserveVolume && this.coefficients.spongeRowsH.length > 0
+        ? new VolumeKeepingSponge(this.grid, this.coefficients)
+        : null;
     // A state some model has run carries its experiment's budget; a fresh one starts it here.
     this.state.volumeBudget ??= { anomalyAtStart: anomalySum(this.grid, this.state.h), spongeMeasured: 0 };
     // A coupled wind answers the state's SST before the first fill: a restart recomputes the very
@@ -231,7 +254,11 @@ export class Model {
     const stripKernel = options.kernel ?? (wasm && wasmStripsAvailable() ? 'wasm' : 'ts');
     const choice = chooseThreads(asked, this.grid, host.cores, this.stepKernel, stripKernel);
     if (choice.threads < 2) return choice;
-    const team = await StripTeam.start(this.grid, this.coefficients, this.physics, choice.threads, host.spawn, { ...options, kernel: stripKernel, precision: this.precision });
+    const team = await StripTeam.start(this.grid, this.coefficients, this.physics, choice.threads, host.spawn, {
+      ...options,
+      kernel: stripKernel,
+      precision: this.precision,
+    });
     // The state moves into the team's shared buffers (the one-thread step takes it back on close).
     team.adopt(this.state);
     team.setStress(this.taux, this.tauy);
@@ -309,11 +336,22 @@ export class Model {
   }
 
   fieldContext(): FieldContext {
-    return { grid: this.grid, physics: this.physics, state: this.state, taux: this.taux, tauy: this.tauy, fCentre: this.fCentre, atmosphere: this.coupling?.centredWind() ?? null };
+    return {
+      grid: this.grid,
+      physics: this.physics,
+      state: this.state,
+      taux: this.taux,
+      tauy: this.tauy,
+      fCentre: this.fCentre,
+      atmosphere: this.coupling?.centredWind() ?? null,
+    };
   }
 
   /** One output field at cell centres (nx * ny, south-west first); land is NaN. */
-  field(name: FieldName, out: Float32Array | Float64Array = new Float64Array(this.grid.nx * this.grid.ny)): Float32Array | Float64Array {
+  field(
+    name: FieldName,
+    out: Float32Array | Float64Array = new Float64Array(this.grid.nx * this.grid.ny),
+  ): Float32Array | Float64Array {
     centredField(name, this.fieldContext(), out);
     return out;
   }
@@ -373,7 +411,8 @@ export class Model {
       this.blowUp('not-a-number', i, j, 'the solution became NaN', this.stabilityHint());
     }
     // An infinite thickness is no layer either (a thickness of +Infinity passes "<= 0").
-    if (thick === Infinity) this.blowUp('not-a-number', i, j, 'the layer thickness became infinite', this.stabilityHint());
+    if (thick === Infinity)
+      this.blowUp('not-a-number', i, j, 'the layer thickness became infinite', this.stabilityHint());
     if (thick <= 0) {
       this.blowUp(
         'layer-vanished',
@@ -388,7 +427,13 @@ export class Model {
       );
     }
     if (speed > RUNAWAY_SPEED) {
-      this.blowUp('runaway-speed', i, j, `the current reached ${speed.toFixed(1)} m/s (limit ${RUNAWAY_SPEED} m/s)`, this.stabilityHint());
+      this.blowUp(
+        'runaway-speed',
+        i,
+        j,
+        `the current reached ${speed.toFixed(1)} m/s (limit ${RUNAWAY_SPEED} m/s)`,
+        this.stabilityHint(),
+      );
     }
   }
 
@@ -400,7 +445,8 @@ export class Model {
     const { h } = this.state;
     const { ocean, W } = this.grid;
     let opposite = 0;
-    for (const n of [k - 1, k + 1, k - W, k + W]) if (ocean[n] && h[n] * h[k] < 0 && Math.abs(h[n]) > 0.3 * Math.abs(h[k])) opposite++;
+    for (const n of [k - 1, k + 1, k - W, k + W])
+      if (ocean[n] && h[n] * h[k] < 0 && Math.abs(h[n]) > 0.3 * Math.abs(h[k])) opposite++;
     return opposite >= 3;
   }
 
@@ -432,13 +478,18 @@ function checkPhysics(p: PhysicsConfig): void {
     if (!(v > 0) || !Number.isFinite(v)) throw new InputError(`${msg} (got ${v})`, `physics.${key}`);
   }
   for (const key of ['friction', 'viscosity', 'beta'] as const) {
-    if (!(p[key] >= 0) || !Number.isFinite(p[key])) throw new InputError(`must be >= 0 (got ${p[key]})`, `physics.${key}`);
+    if (!(p[key] >= 0) || !Number.isFinite(p[key]))
+      throw new InputError(`must be >= 0 (got ${p[key]})`, `physics.${key}`);
   }
   const sl = p.surfaceLayer;
   if (!(sl.depth > 0 && sl.depth < p.layerThickness)) {
-    throw new InputError(`surface layer depth must lie between 0 and the layer thickness ${p.layerThickness} m (got ${sl.depth})`, 'physics.surfaceLayer.depth');
+    throw new InputError(
+      `surface layer depth must lie between 0 and the layer thickness ${p.layerThickness} m (got ${sl.depth})`,
+      'physics.surfaceLayer.depth',
+    );
   }
-  if (!(sl.damping > 0)) throw new InputError(`surface layer damping must be > 0 (got ${sl.damping})`, 'physics.surfaceLayer.damping');
+  if (!(sl.damping > 0))
+    throw new InputError(`surface layer damping must be > 0 (got ${sl.damping})`, 'physics.surfaceLayer.damping');
 }
 
 function checkSponge(grid: Grid, p: PhysicsConfig): void {

@@ -6,7 +6,6 @@
 // they are computed, the clock, every diagnostic and sum (the volume and energy in compensated
 // float64 sums), the sponge volume of the budget, and the output.
 
-
 export type Precision = 'float64' | 'float32';
 
 /** A field of the state: double, or float32 for a run in that precision. */
@@ -36,6 +35,7 @@ export function roundTable(precision: Precision, a: Float64Array): Float64Array 
 
 /** A field read as double, for code that only steps double states (the plain reference steps). */
 export function doubleField(a: FieldArray, what: string): Float64Array {
-  if (!(a instanceof Float64Array)) throw new TypeError(`${what} must be a double field (the plain step is written for float64 runs)`);
+  if (!(a instanceof Float64Array))
+    throw new TypeError(`${what} must be a double field (the plain step is written for float64 runs)`);
   return a;
 }

@@ -73,7 +73,12 @@ export function referenceStress(grid: Grid): WindStress {
   };
 }
 
-export function referenceModel(nx: number, ny: number, kernel: LinearKernelName = 'ts', precision: Precision = 'float64'): Model {
+export function referenceModel(
+  nx: number,
+  ny: number,
+  kernel: LinearKernelName = 'ts',
+  precision: Precision = 'float64',
+): Model {
   const config = { ...referenceConfig(nx, ny), precision };
   const grid = new Grid(config.basin, config.physics.earthRadius);
   return new Model(config, { variant: { ghost: 0, coriolis: 'collocated' }, wind: referenceStress(grid), kernel });
@@ -96,6 +101,11 @@ export function referenceChecksum(model: Model): { sumEta: number; energy: numbe
   };
   return {
     sumEta: sum(state.h, false),
-    energy: 0.5 * p.density * grid.dx * grid.dy * (p.layerThickness * (sum(state.u, true) + sum(state.v, true)) + p.reducedGravity * sum(state.h, true)),
+    energy:
+      0.5 *
+      p.density *
+      grid.dx *
+      grid.dy *
+      (p.layerThickness * (sum(state.u, true) + sum(state.v, true)) + p.reducedGravity * sum(state.h, true)),
   };
 }

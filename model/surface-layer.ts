@@ -10,7 +10,15 @@ export interface SurfaceShear {
 }
 
 /** Solve the 2x2 balance at one point (taux, tauy in N m-2, f in s-1), into `out` (no allocation: it runs per cell). */
-export function surfaceShear(taux: number, tauy: number, f: number, rho0: number, depth: number, damping: number, out: SurfaceShear = { us: 0, vs: 0 }): SurfaceShear {
+export function surfaceShear(
+  taux: number,
+  tauy: number,
+  f: number,
+  rho0: number,
+  depth: number,
+  damping: number,
+  out: SurfaceShear = { us: 0, vs: 0 },
+): SurfaceShear {
   const X = taux / (rho0 * depth);
   const Y = tauy / (rho0 * depth);
   const det = damping * damping + f * f;

@@ -24,12 +24,16 @@ export interface CoriolisPhysics {
 
 /** f at a latitude (deg) and beta-plane distance y (m) from the equator: beta y, or 2 Omega sin(lat). */
 export function coriolisParameter(physics: CoriolisPhysics, latDeg: number, yMetres: number): number {
-  return physics.coriolis === 'spherical' ? 2 * physics.earthRotation * pm.sin((latDeg * Math.PI) / 180) : physics.beta * yMetres;
+  return physics.coriolis === 'spherical'
+    ? 2 * physics.earthRotation * pm.sin((latDeg * Math.PI) / 180)
+    : physics.beta * yMetres;
 }
 
 /** df/dy at a latitude: beta on the beta plane, 2 Omega cos(lat) / R on the sphere, m-1 s-1. */
 export function betaAt(physics: CoriolisPhysics, latDeg: number): number {
-  return physics.coriolis === 'spherical' ? (2 * physics.earthRotation * pm.cos((latDeg * Math.PI) / 180)) / physics.earthRadius : physics.beta;
+  return physics.coriolis === 'spherical'
+    ? (2 * physics.earthRotation * pm.cos((latDeg * Math.PI) / 180)) / physics.earthRadius
+    : physics.beta;
 }
 
 /** beta at the equator, which sets the equatorial scales (for the spherical option 2 Omega / R). */

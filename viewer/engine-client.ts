@@ -78,15 +78,30 @@ export function connectEngine(handlers: EngineHandlers): EngineClient {
   const open = (): Connection => {
     let worker: Worker;
     try {
-      worker = new Worker(new URL('../worker/browser-entry.ts', import.meta.url), { type: 'module', name: 'pycno-engine' });
+      worker = new Worker(new URL('../worker/browser-entry.ts', import.meta.url), {
+        type: 'module',
+        name: 'pycno-engine',
+      });
     } catch (e) {
       throw new NoWorkerError(e instanceof Error ? e.message : String(e));
     }
     let markGone: (e: Error) => void = () => {};
     const gone = new Promise<never>((_, reject) => (markGone = reject));
     gone.catch(() => {}); // only ever raced against calls
-    const c: Connection = { worker, api: Comlink.wrap<PageEngineApi>(worker), lost: false, retired: false, gone, stopWatch: () => {} };
-    worker.addEventListener('error', (ev) => handlers.error({ kind: 'internal', message: `the engine stopped: ${ev.message || 'the worker failed to start'}` }));
+    const c: Connection = {
+      worker,
+      api: Comlink.wrap<PageEngineApi>(worker),
+      lost: false,
+      retired: false,
+      gone,
+      stopWatch: () => {},
+    };
+    worker.addEventListener('error', (ev) =>
+      handlers.error({
+        kind: 'internal',
+        message: `the engine stopped: ${ev.message || 'the worker failed to start'}`,
+      }),
+    );
     const onStatus = (r: EngineReport) => {
       handlers.status(r.status, r);
       // Report a failure once, when the run enters it; a failed load answers through load() instead.
@@ -150,13 +165,15 @@ export function connectEngine(handlers: EngineHandlers): EngineClient {
     setSpeed: (s) => quiet((api) => api.setSpeed(s)),
     stop: async () => {
       await quiet((api) => api.stop());
-      if (!conn.lost) await sendCurrent().catch((e: unknown) => {
-        if (!(e instanceof EngineLostError)) throw e;
-      });
+      if (!conn.lost)
+        await sendCurrent().catch((e: unknown) => {
+          if (!(e instanceof EngineLostError)) throw e;
+        });
     },
     addSection: (lat) =>
       call<AddSectionResult>((api) => api.addSection(lat)).catch((e: unknown) => {
-        if (e instanceof EngineLostError) return { ok: false as const, message: 'the model engine has stopped; restart it first' };
+        if (e instanceof EngineLostError)
+          return { ok: false as const, message: 'the model engine has stopped; restart it first' };
         throw e;
       }),
     setSampleFields: (every) => quiet((api) => api.setSampleFields(every)),

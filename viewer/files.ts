@@ -2,7 +2,10 @@
 // (picked and dropped files are read by viewer/picked-file.ts, under the command line's limits).
 
 export function download(data: Uint8Array | string | Blob, fileName: string, type: string): void {
-  const blob = data instanceof Blob ? data : new Blob([typeof data === 'string' ? data : (data as Uint8Array<ArrayBuffer>)], { type });
+  const blob =
+    data instanceof Blob
+      ? data
+      : new Blob([typeof data === 'string' ? data : (data as Uint8Array<ArrayBuffer>)], { type });
   const a = document.createElement('a');
   a.href = URL.createObjectURL(blob);
   a.download = fileName;
@@ -15,6 +18,9 @@ export function download(data: Uint8Array | string | Blob, fileName: string, typ
 
 /** A name safe for a file: letters, digits, dot, dash and underscore. */
 export function fileSafe(name: string): string {
-  const s = name.trim().replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '');
+  const s = name
+    .trim()
+    .replace(/[^A-Za-z0-9._-]+/g, '-')
+    .replace(/^-+|-+$/g, '');
   return s || 'run';
 }

@@ -38,14 +38,19 @@ const state = newPageState();
 
 function startMap(): MapView {
   try {
-    const map = new MapView($<HTMLCanvasElement>('map-gl'), $<HTMLCanvasElement>('map-overlay'), { forceBytes: new URLSearchParams(location.search).has('bytes') });
+    const map = new MapView($<HTMLCanvasElement>('map-gl'), $<HTMLCanvasElement>('map-overlay'), {
+      forceBytes: new URLSearchParams(location.search).has('bytes'),
+    });
     info.floatTextures = map.gl.floatTextures;
     info.gpu = map.counts;
     info.arrows = () => map.referenceArrows();
     return map;
   } catch (e) {
     if (e instanceof NoWebGLError) {
-      notices.noGo('This browser gives the page no WebGL', 'Pycno draws the ocean with WebGL. Turn on hardware acceleration (or WebGL) in the browser settings, or use another browser, then reload. Nothing was run.');
+      notices.noGo(
+        'This browser gives the page no WebGL',
+        'Pycno draws the ocean with WebGL. Turn on hardware acceleration (or WebGL) in the browser settings, or use another browser, then reload. Nothing was run.',
+      );
     } else if (e instanceof EvalError) {
       notices.noGo(
         "The page's security policy stops its drawing library",
@@ -58,12 +63,23 @@ function startMap(): MapView {
 const map = startMap();
 
 const history = new FrameHistory(128e6);
-info.kept = () => ({ frames: history.length, bytes: history.bytes, budget: history.budgetBytes, oldestDay: history.at(0)?.day ?? null });
+info.kept = () => ({
+  frames: history.length,
+  bytes: history.bytes,
+  budget: history.budgetBytes,
+  oldestDay: history.at(0)?.day ?? null,
+});
 const hov = new HovmollerStore();
 const probes = new ProbeStore();
 const totals = new RunTotals($('totals'));
 const coupledPanel = new CoupledPanel($('coupled-panel'));
-const panel = new ScenarioPanel($<HTMLFormElement>('params'), $('derived'), $<HTMLUListElement>('other-issues'), $('restart-note'), $<HTMLButtonElement>('btn-apply'));
+const panel = new ScenarioPanel(
+  $<HTMLFormElement>('params'),
+  $('derived'),
+  $<HTMLUListElement>('other-issues'),
+  $('restart-note'),
+  $<HTMLButtonElement>('btn-apply'),
+);
 const hovPanel = new HovmollerPanel($<HTMLCanvasElement>('hovmoller'), hov, (s) => {
   $('hov-start').textContent = `from ${lonLabel(s.lon)}, day ${s.day.toFixed(1)}`;
 });
@@ -101,9 +117,18 @@ const probePanel = new ProbePanel($('probe-chart'), $<HTMLUListElement>('probe-l
 
 function startEngine() {
   try {
-    return connectEngine({ frame: (f) => runs.onFrame(f), status: (s) => runs.onStatus(s), error: (e) => runs.onEngineError(e), lost: () => runs.onEngineLost() });
+    return connectEngine({
+      frame: (f) => runs.onFrame(f),
+      status: (s) => runs.onStatus(s),
+      error: (e) => runs.onEngineError(e),
+      lost: () => runs.onEngineLost(),
+    });
   } catch (e) {
-    if (e instanceof NoWorkerError) notices.noGo('This browser cannot run the model', `Pycno runs the model in a Web Worker (a module worker), which this browser did not start: ${e.message}. Use a current Chromium, Firefox or Safari.`);
+    if (e instanceof NoWorkerError)
+      notices.noGo(
+        'This browser cannot run the model',
+        `Pycno runs the model in a Web Worker (a module worker), which this browser did not start: ${e.message}. Use a current Chromium, Firefox or Safari.`,
+      );
     throw e;
   }
 }
@@ -119,7 +144,23 @@ const library = new LibraryPage($('library-panel'), $('compare-panel'), {
   outputEveryDays: () => state.run?.outputEveryDays ?? 1,
 });
 
-const page: Page = { state, info, notices, map, history, hov, probes, totals, coupledPanel, panel, hovPanel, probePanel, windPanel, library, engine };
+const page: Page = {
+  state,
+  info,
+  notices,
+  map,
+  history,
+  hov,
+  probes,
+  totals,
+  coupledPanel,
+  panel,
+  hovPanel,
+  probePanel,
+  windPanel,
+  library,
+  engine,
+};
 const drawing = new DrawLoop(page);
 /** The map and the Hovmoller diagram fill their columns; the map's height follows the basin. */
 function layoutMap(): void {

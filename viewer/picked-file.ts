@@ -20,7 +20,9 @@ export async function pickedBytes(file: Blob, kind: ReadKind): Promise<Uint8Arra
 }
 
 /** The text of a picked scenario file, or the reason it is refused. */
-export async function pickedScenarioText(file: Blob): Promise<{ ok: true; text: string } | { ok: false; message: string }> {
+export async function pickedScenarioText(
+  file: Blob,
+): Promise<{ ok: true; text: string } | { ok: false; message: string }> {
   try {
     return { ok: true, text: decodeUtf8Text(await pickedBytes(file, 'scenario')) };
   } catch (e) {

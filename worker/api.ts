@@ -29,7 +29,11 @@ export interface EngineApi {
 }
 
 /** Wrap an engine; `send` marks a value's buffers for transfer (Comlink.transfer). */
-export function engineApi(engine: Engine, send: <T>(value: T, transfer: ArrayBuffer[]) => T, readerFor?: LoadOptions['reader']): EngineApi {
+export function engineApi(
+  engine: Engine,
+  send: <T>(value: T, transfer: ArrayBuffer[]) => T,
+  readerFor?: LoadOptions['reader'],
+): EngineApi {
   let unsubscribe: Array<() => void> = [];
   return {
     load: (text, fileName, options = {}) => engine.load(text, fileName, { ...options, reader: readerFor }),
@@ -41,7 +45,12 @@ export function engineApi(engine: Engine, send: <T>(value: T, transfer: ArrayBuf
     status: () => engine.status(),
     currentFrame: () => {
       const f = engine.currentFrame();
-      return f ? send(f, Object.values(f.fields).map((a) => a!.buffer as ArrayBuffer)) : null;
+      return f
+        ? send(
+            f,
+            Object.values(f.fields).map((a) => a!.buffer as ArrayBuffer),
+          )
+        : null;
     },
     subscribe(onFrame, onStatus) {
       for (const u of unsubscribe) u();

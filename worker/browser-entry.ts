@@ -11,9 +11,9 @@ import { holdLifeLock, type PageEngineApi } from './life-lock.ts';
 // A page cannot open paths, but the shipped scenarios travel with it: a scenario that starts
 // from another one's spin-up (trade relaxation from trade spin-up) finds it here by file name.
 const shipped = new Map(
-  Object.entries(import.meta.glob('../configs/*.json', { eager: true, query: '?raw', import: 'default' }) as Record<string, string>).map(
-    ([path, text]) => [path.split('/').pop()!, text],
-  ),
+  Object.entries(
+    import.meta.glob('../configs/*.json', { eager: true, query: '?raw', import: 'default' }) as Record<string, string>,
+  ).map(([path, text]) => [path.split('/').pop()!, text]),
 );
 
 // The linear step in latitude strips on nested workers where the page is cross-origin isolated
@@ -22,7 +22,12 @@ const shipped = new Map(
 function pageEngine(): Engine {
   const host = browserStripHost();
   return new Engine({
-    strips: { host, threads: 'auto', hostMissing: 'the page is not cross-origin isolated (no COOP/COEP headers), so it has no shared memory for strip workers' },
+    strips: {
+      host,
+      threads: 'auto',
+      hostMissing:
+        'the page is not cross-origin isolated (no COOP/COEP headers), so it has no shared memory for strip workers',
+    },
   });
 }
 
@@ -38,5 +43,8 @@ async function readShipped(path: string): Promise<Uint8Array> {
 
 // Held from the first moment, so the page can tell when this worker is gone (worker/life-lock.ts).
 const alive = holdLifeLock();
-const api: PageEngineApi = { ...engineApi(pageEngine(), (value, transfer) => Comlink.transfer(value, transfer), readShipped), lifeLock: () => alive };
+const api: PageEngineApi = {
+  ...engineApi(pageEngine(), (value, transfer) => Comlink.transfer(value, transfer), readShipped),
+  lifeLock: () => alive,
+};
 Comlink.expose(api);

@@ -96,7 +96,8 @@ export class Engine {
    * fields at exact output records, which frames do not promise. Kept across loads and resets.
    */
   setSampleFields(every: number): void {
-    if (!Number.isInteger(every) || every < 0) throw new InputError(`'every' must be a whole number >= 0 (got ${every})`, 'setSampleFields');
+    if (!Number.isInteger(every) || every < 0)
+      throw new InputError(`'every' must be a whole number >= 0 (got ${every})`, 'setSampleFields');
     this.sampleFieldsEvery = every;
   }
 
@@ -202,7 +203,10 @@ export class Engine {
     if (!run) return { ok: false, message: 'no scenario is loaded' };
     const g = run.model.grid;
     if (!Number.isFinite(lat) || lat < g.basin.latSouth || lat > g.basin.latNorth) {
-      return { ok: false, message: `latitude ${lat} lies outside the basin (${g.basin.latSouth} to ${g.basin.latNorth})` };
+      return {
+        ok: false,
+        message: `latitude ${lat} lies outside the basin (${g.basin.latSouth} to ${g.basin.latNorth})`,
+      };
     }
     const j = g.nearestRow(lat);
     const existing = run.hovRows.indexOf(j);
@@ -323,7 +327,8 @@ export class Engine {
   private async sample(): Promise<void> {
     const run = this.run!;
     const sample = takeSample(run);
-    const withFields = this.sampleFieldsEvery > 0 && this.samplesTaken % this.sampleFieldsEvery === 0 && this.frames.listening;
+    const withFields =
+      this.sampleFieldsEvery > 0 && this.samplesTaken % this.sampleFieldsEvery === 0 && this.frames.listening;
     this.samplesTaken++;
     if (this.recorder) await this.recorder(outputRecord(sample, fullFields(run)));
     // Own arrays for the sample: the recorder may keep its record's.

@@ -79,12 +79,18 @@ export function readBounded(path: string, limit: ReadLimit): Uint8Array {
     for (;;) {
       const probe = new Uint8Array(1);
       if (readInto(probe, 0) === 0) return buf; // the usual case: exactly the size fstat gave
-      if (got + 1 > limit.maxBytes) throw new ReadRefused(`the file grew while it was read, past ${limit.what}'s limit of ${sizeText(limit.maxBytes)}`);
+      if (got + 1 > limit.maxBytes)
+        throw new ReadRefused(
+          `the file grew while it was read, past ${limit.what}'s limit of ${sizeText(limit.maxBytes)}`,
+        );
       const bigger = new Uint8Array(Math.min(Math.max(2 * (got + 1), 65536), limit.maxBytes + 1));
       bigger.set(buf.subarray(0, got));
       bigger[got] = probe[0];
       got = readInto(bigger, got + 1);
-      if (got > limit.maxBytes) throw new ReadRefused(`the file grew while it was read, past ${limit.what}'s limit of ${sizeText(limit.maxBytes)}`);
+      if (got > limit.maxBytes)
+        throw new ReadRefused(
+          `the file grew while it was read, past ${limit.what}'s limit of ${sizeText(limit.maxBytes)}`,
+        );
       if (got < bigger.length) return bigger.slice(0, got);
       buf = bigger;
     }

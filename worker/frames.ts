@@ -108,7 +108,9 @@ function cloneFrame(f: Frame): Frame {
       integrals: { ...s.integrals },
       hovmoller: s.hovmoller.map((a) => a.slice()),
       probeValues: s.probeValues.map((a) => a.slice()),
-      ...(s.fields ? { fields: Object.fromEntries(Object.entries(s.fields).map(([k, a]) => [k, a!.slice()])) as Frame['fields'] } : {}),
+      ...(s.fields
+        ? { fields: Object.fromEntries(Object.entries(s.fields).map(([k, a]) => [k, a!.slice()])) as Frame['fields'] }
+        : {}),
     })),
   };
 }

@@ -14,7 +14,11 @@ export interface PageEngineApi extends EngineApi {
 }
 
 interface LockManagerLike {
-  request(name: string, options: { signal?: AbortSignal }, callback: () => Promise<unknown> | unknown): Promise<unknown>;
+  request(
+    name: string,
+    options: { signal?: AbortSignal },
+    callback: () => Promise<unknown> | unknown,
+  ): Promise<unknown>;
 }
 
 function lockManager(): LockManagerLike | null {
@@ -28,10 +32,12 @@ export function holdLifeLock(): Promise<string | null> {
   if (!locks) return Promise.resolve(null);
   const name = `pycno-engine-alive-${crypto.randomUUID()}`;
   return new Promise((resolve) => {
-    locks.request(name, {}, () => {
-      resolve(name);
-      return new Promise(() => {});
-    }).catch(() => resolve(null));
+    locks
+      .request(name, {}, () => {
+        resolve(name);
+        return new Promise(() => {});
+      })
+      .catch(() => resolve(null));
   });
 }
 

@@ -69,7 +69,10 @@ export class PacedLoop {
         if (ahead < 1) {
           // Ahead of the speed cap: wait (a frame may still be due) instead of spinning.
           engine.maybePublish();
-          const waitMs = Math.min(50, ((model.day - allowedDay) / this.speed) * 1000 + (model.dt / DAY / this.speed) * 1000);
+          const waitMs = Math.min(
+            50,
+            ((model.day - allowedDay) / this.speed) * 1000 + (model.dt / DAY / this.speed) * 1000,
+          );
           await this.host.sleep(Math.max(1, waitMs));
           continue;
         }

@@ -11,7 +11,14 @@ import type { ThreadsOption } from '../model/parallel/threads.ts';
 import { runPhysics } from '../model/run-physics.ts';
 import type { RunAllowance } from '../model/scenario/run-size.ts';
 import { derivedNumbers } from '../model/scenario/derived.ts';
-import { buildPrepared, loadInputs, mapReader, type InputReader, type ParsedScenario, type PreparedInputs } from '../model/scenario/load-inputs.ts';
+import {
+  buildPrepared,
+  loadInputs,
+  mapReader,
+  type InputReader,
+  type ParsedScenario,
+  type PreparedInputs,
+} from '../model/scenario/load-inputs.ts';
 import type { State } from '../model/state.ts';
 import type { GridInfo, LoadedScenario } from './protocol.ts';
 
@@ -60,8 +67,15 @@ export function readerFor(options: LoadOptions): InputReader {
 /** Read (or run) what the scenario's start needs: its wind files, a restart file or a spin-up; or take the state given. */
 export async function prepareInputs(parsed: ParsedScenario, options: LoadOptions): Promise<PreparedInputs> {
   if (options.startState) {
-    const inputs: PreparedInputs = { files: new Map(), startState: options.startState, notes: ['start from a given state'] };
-    const files = await loadInputs({ ...parsed, resolved: { ...parsed.resolved, initial: { kind: 'rest' } } }, readerFor(options));
+    const inputs: PreparedInputs = {
+      files: new Map(),
+      startState: options.startState,
+      notes: ['start from a given state'],
+    };
+    const files = await loadInputs(
+      { ...parsed, resolved: { ...parsed.resolved, initial: { kind: 'rest' } } },
+      readerFor(options),
+    );
     inputs.files = files.files;
     return inputs;
   }
@@ -81,11 +95,16 @@ export function planRun(parsed: ParsedScenario, inputs: PreparedInputs, extraLat
   const hovRows = lats.map((lat) => grid.nearestRow(lat));
   const probeCells = r.probes.map((p) => {
     const c = grid.cellAt(p.lon, p.lat);
-    if (!c) throw new InputError(`probe '${p.name}' at ${p.lon}, ${p.lat} lies outside the basin`, `${parsed.fileName}: probes`);
+    if (!c)
+      throw new InputError(
+        `probe '${p.name}' at ${p.lon}, ${p.lat} lies outside the basin`,
+        `${parsed.fileName}: probes`,
+      );
     return c;
   });
   const ocean = new Uint8Array(grid.nx * grid.ny);
-  for (let j = 0; j < grid.ny; j++) for (let i = 0; i < grid.nx; i++) ocean[j * grid.nx + i] = grid.ocean[grid.idx(i, j)];
+  for (let j = 0; j < grid.ny; j++)
+    for (let i = 0; i < grid.nx; i++) ocean[j * grid.nx + i] = grid.ocean[grid.idx(i, j)];
   const gridInfo: GridInfo = {
     nx: grid.nx,
     ny: grid.ny,

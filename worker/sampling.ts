@@ -47,5 +47,12 @@ export function fullFields(run: RunPlan): Partial<Record<FieldName, Float32Array
 
 /** The record of a sample: its series and the full fields. */
 export function outputRecord(sample: OutputSample, fields: Partial<Record<FieldName, Float32Array>>): OutputRecord {
-  return { day: sample.day, step: sample.step!, fields, integrals: sample.integrals, hovmoller: sample.hovmoller, probeValues: sample.probeValues };
+  return {
+    day: sample.day,
+    step: sample.step!,
+    fields,
+    integrals: sample.integrals,
+    hovmoller: sample.hovmoller,
+    probeValues: sample.probeValues,
+  };
 }

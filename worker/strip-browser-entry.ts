@@ -3,7 +3,11 @@
 
 import { startStrip } from '../model/parallel/strip-worker.ts';
 
-const scope = globalThis as unknown as { onmessage: ((e: MessageEvent) => void) | null; postMessage(m: unknown): void; close(): void };
+const scope = globalThis as unknown as {
+  onmessage: ((e: MessageEvent) => void) | null;
+  postMessage(m: unknown): void;
+  close(): void;
+};
 scope.onmessage = (e) => {
   scope.onmessage = null;
   startStrip(e.data, (r) => scope.postMessage(r));

@@ -11,11 +11,15 @@ export function browserStripHost(): StripHost | null {
     // otherwise take every core while the page draws.
     cores: Math.max(1, (globalThis.navigator?.hardwareConcurrency ?? 1) - 1),
     spawn() {
-      const w = new Worker(new URL('./strip-browser-entry.ts', import.meta.url), { type: 'module', name: 'pycno-strip' });
+      const w = new Worker(new URL('./strip-browser-entry.ts', import.meta.url), {
+        type: 'module',
+        name: 'pycno-strip',
+      });
       return {
         postMessage: (m) => w.postMessage(m),
         onMessage: (l) => w.addEventListener('message', (e) => l(e.data)),
-        onError: (l) => w.addEventListener('error', (e) => l(new Error(e.message || 'the strip worker script failed to load'))),
+        onError: (l) =>
+          w.addEventListener('error', (e) => l(new Error(e.message || 'the strip worker script failed to load'))),
         terminate: () => w.terminate(),
       };
     },

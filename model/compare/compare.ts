@@ -121,7 +121,10 @@ export function matchTimes(a: RunData, b: RunData): { times: CommonTime[]; toler
     while (m + 1 < b.days.length && Math.abs(b.days[m + 1] - d) <= Math.abs(b.days[m] - d)) m++;
     if (m >= b.days.length) break;
     // Strictly less than half an interval plus round-off, so one record never matches two.
-    if (Math.abs(b.days[m] - d) <= tolerance * (1 + 1e-9) && (times.length === 0 || times[times.length - 1].indexB < m)) {
+    if (
+      Math.abs(b.days[m] - d) <= tolerance * (1 + 1e-9) &&
+      (times.length === 0 || times[times.length - 1].indexB < m)
+    ) {
       times.push({ day: d, dayA: d, dayB: b.days[m], indexA: n, indexB: m, hasFields: snapsA.has(n) && snapsB.has(m) });
     }
   }
@@ -160,7 +163,13 @@ interface GridPlan {
 function planGrid(a: RunData, b: RunData): GridPlan | null {
   const ga = a.grid;
   const gb = b.grid;
-  const row = (g: LonLatGrid): LonLatGrid => ({ nx: g.nx, ny: 1, lon: g.lon, lat: [0], ocean: new Uint8Array(g.nx).fill(1) });
+  const row = (g: LonLatGrid): LonLatGrid => ({
+    nx: g.nx,
+    ny: 1,
+    lon: g.lon,
+    lat: [0],
+    ocean: new Uint8Array(g.nx).fill(1),
+  });
   if (sameAxis(ga.lon, gb.lon) && sameAxis(ga.lat, gb.lat)) {
     const ocean = new Uint8Array(ga.nx * ga.ny);
     for (let k = 0; k < ocean.length; k++) ocean[k] = ga.ocean[k] && gb.ocean[k] ? 1 : 0;
@@ -175,11 +184,19 @@ function planGrid(a: RunData, b: RunData): GridPlan | null {
       note: `both runs on one ${resolutionText(ga)} grid (${ga.nx} x ${ga.ny}): compared cell by cell`,
     };
     if (!ocean.includes(1)) return null;
-    return { grid, toCommonA: Interpolator.crop(ga, 0, 0, ga.nx, ga.ny), toCommonB: Interpolator.crop(gb, 0, 0, gb.nx, gb.ny), rowA: Interpolator.crop(row(ga), 0, 0, ga.nx, 1), rowB: Interpolator.crop(row(gb), 0, 0, gb.nx, 1) };
+    return {
+      grid,
+      toCommonA: Interpolator.crop(ga, 0, 0, ga.nx, ga.ny),
+      toCommonB: Interpolator.crop(gb, 0, 0, gb.nx, gb.ny),
+      rowA: Interpolator.crop(row(ga), 0, 0, ga.nx, 1),
+      rowB: Interpolator.crop(row(gb), 0, 0, gb.nx, 1),
+    };
   }
   // The coarser grid has the larger cells; on a tie, the wider cells in longitude, then A's.
   const area = (g: LonLatGrid) => Math.abs(spacing(g.lon) * spacing(g.lat));
-  const aCoarse = area(ga) > area(gb) * (1 + 1e-9) || (Math.abs(area(ga) - area(gb)) <= area(gb) * 1e-9 && Math.abs(spacing(ga.lon)) >= Math.abs(spacing(gb.lon)));
+  const aCoarse =
+    area(ga) > area(gb) * (1 + 1e-9) ||
+    (Math.abs(area(ga) - area(gb)) <= area(gb) * 1e-9 && Math.abs(spacing(ga.lon)) >= Math.abs(spacing(gb.lon)));
   const coarse = aCoarse ? ga : gb;
   const fine = aCoarse ? gb : ga;
   // The area both cover: the coarse centres inside the span of the fine centres.
@@ -200,7 +217,9 @@ function planGrid(a: RunData, b: RunData): GridPlan | null {
   const fromFine = Interpolator.bilinear(fine, lon, lat);
   const covered = fromFine.covered();
   const ocean = new Uint8Array(nx * ny);
-  for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) ocean[j * nx + i] = coarse.ocean[(j0 + j) * coarse.nx + i0 + i] && covered[j * nx + i] ? 1 : 0;
+  for (let j = 0; j < ny; j++)
+    for (let i = 0; i < nx; i++)
+      ocean[j * nx + i] = coarse.ocean[(j0 + j) * coarse.nx + i0 + i] && covered[j * nx + i] ? 1 : 0;
   if (!ocean.includes(1)) return null;
   const whose = aCoarse ? 'A' : 'B';
   const other = aCoarse ? 'B' : 'A';
@@ -264,7 +283,8 @@ export class RunComparison implements CompareSummary {
     this.plan = planGrid(a, b);
     if (!this.plan) {
       this.status = 'no-common-area';
-      const box = (r: RunData) => `${r.grid.lon[0]}..${r.grid.lon[r.grid.nx - 1]}°E, ${r.grid.lat[0]}..${r.grid.lat[r.grid.ny - 1]}°N`;
+      const box = (r: RunData) =>
+        `${r.grid.lon[0]}..${r.grid.lon[r.grid.nx - 1]}°E, ${r.grid.lat[0]}..${r.grid.lat[r.grid.ny - 1]}°N`;
       this.message = `no common area: A covers ${box(a)}, B covers ${box(b)} (cell centres), with no ocean cell in both`;
       return;
     }
@@ -341,7 +361,16 @@ export class RunComparison implements CompareSummary {
         ra.set(ta, n * nx);
         rb.set(tb, n * nx);
       });
-      this.hovmoller.push({ requestedLat: ha.requestedLat, rowLatA: ha.rowLat, rowLatB: hb.rowLat, lon: plan.grid.lon, days, a: ra, b: rb, diff: subtract(ra, rb) });
+      this.hovmoller.push({
+        requestedLat: ha.requestedLat,
+        rowLatA: ha.rowLat,
+        rowLatB: hb.rowLat,
+        lon: plan.grid.lon,
+        days,
+        a: ra,
+        b: rb,
+        diff: subtract(ra, rb),
+      });
     }
     for (const pa of a.probes) {
       const pb = b.probes.find((p) => p.name === pa.name);

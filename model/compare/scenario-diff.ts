@@ -71,6 +71,6 @@ export function diffScenarios(a: unknown, b: unknown): ScenarioDifference[] {
 /** A value as the table shows it: JSON, with "(none)" for a missing key. */
 export function showValue(x: unknown, maxLength = 60): string {
   if (x === undefined) return '(none)';
-  const s = typeof x === 'string' ? JSON.stringify(x) : JSON.stringify(x) ?? String(x);
+  const s = typeof x === 'string' ? JSON.stringify(x) : (JSON.stringify(x) ?? String(x));
   return s.length > maxLength ? `${s.slice(0, maxLength - 3)}...` : s;
 }

@@ -38,7 +38,8 @@ export interface AnsweringOptions {
 }
 
 function finite(name: string, v: unknown): number {
-  if (!(typeof v === 'number' && Number.isFinite(v))) throw new ForcingError(`${name} must be a finite number (got ${String(v)})`);
+  if (!(typeof v === 'number' && Number.isFinite(v)))
+    throw new ForcingError(`${name} must be a finite number (got ${String(v)})`);
   return v;
 }
 
@@ -61,7 +62,7 @@ export class AnsweringWind {
   private readonly bulk: BulkFormula;
   private readonly faces: { u: FaceList; v: FaceList };
   private readonly layout: IndexLayout;
-  private run: SstContext & { dt: number } | null = null;
+  private run: (SstContext & { dt: number }) | null = null;
   /** Called after every new answer, so that the wind's next fill() sums it in. */
   private changed: () => void = () => {};
 
@@ -73,9 +74,11 @@ export class AnsweringWind {
     this.part = part;
     this.strength = finite('strength', part.strength);
     if (this.strength < 0) throw new ForcingError(`strength must be >= 0 (got ${this.strength})`);
-    if (!(Number.isInteger(part.everySteps) && part.everySteps >= 1)) throw new ForcingError(`everySteps must be a whole number >= 1 (got ${String(part.everySteps)})`);
+    if (!(Number.isInteger(part.everySteps) && part.everySteps >= 1))
+      throw new ForcingError(`everySteps must be a whole number >= 1 (got ${String(part.everySteps)})`);
     this.everySteps = part.everySteps;
-    if (part.drag !== 'linear' && part.drag !== 'bulk') throw new ForcingError(`drag must be 'linear' or 'bulk' (got ${String(part.drag)})`);
+    if (part.drag !== 'linear' && part.drag !== 'bulk')
+      throw new ForcingError(`drag must be 'linear' or 'bulk' (got ${String(part.drag)})`);
     finite('background.x', part.background?.x);
     finite('background.y', part.background?.y);
     const a = part.atmosphere;
@@ -93,9 +96,20 @@ export class AnsweringWind {
     this.windU = grid.field();
     this.windV = grid.field();
     this.heating = grid.field();
-    this.scratch = { uOnU: new Float64Array(options.u.n), vOnU: new Float64Array(options.u.n), uOnV: new Float64Array(options.v.n), vOnV: new Float64Array(options.v.n) };
+    this.scratch = {
+      uOnU: new Float64Array(options.u.n),
+      vOnU: new Float64Array(options.u.n),
+      uOnV: new Float64Array(options.v.n),
+      vOnV: new Float64Array(options.v.n),
+    };
     const W = grid.W;
-    this.layout = { nx: grid.nx, ny: grid.ny, lat: grid.latCentre, index: (i, j) => (j + 1) * W + i + 1, ocean: grid.ocean };
+    this.layout = {
+      nx: grid.nx,
+      ny: grid.ny,
+      lat: grid.latCentre,
+      index: (i, j) => (j + 1) * W + i + 1,
+      ocean: grid.ocean,
+    };
   }
 
   /** Add the answer's stress (a zero strength adds nothing, as an envelope at zero does). */

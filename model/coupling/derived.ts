@@ -26,12 +26,20 @@ export interface AnsweringNumbers {
 }
 
 /** The first enabled answering part of a wind section, with its index, or null. */
-export function answeringPartOf(parts: readonly { kind: string; enabled?: boolean }[]): { part: AnsweringPart; index: number } | null {
+export function answeringPartOf(
+  parts: readonly { kind: string; enabled?: boolean }[],
+): { part: AnsweringPart; index: number } | null {
   const index = parts.findIndex((p) => p.kind === 'answering' && p.enabled !== false);
   return index >= 0 ? { part: parts[index] as unknown as AnsweringPart, index } : null;
 }
 
-export function answeringNumbers(part: AnsweringPart, index: number, dt: number, beta: number, bulk: BulkSpec): AnsweringNumbers {
+export function answeringNumbers(
+  part: AnsweringPart,
+  index: number,
+  dt: number,
+  beta: number,
+  bulk: BulkSpec,
+): AnsweringNumbers {
   const a = part.atmosphere;
   const eps = 1 / (a.dampingDays * DAY);
   const w = 1 / (part.sst.upwellingDays * DAY);

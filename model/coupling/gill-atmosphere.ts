@@ -69,17 +69,25 @@ export class GillAtmosphere {
     readonly grid: Grid,
     p: AtmosphereParams,
   ) {
-    for (const [name, v] of [['atmosphere.speed', p.speed], ['atmosphere damping', p.damping], ['beta of the beta plane (physics.coriolis.beta)', p.beta]] as const) {
+    for (const [name, v] of [
+      ['atmosphere.speed', p.speed],
+      ['atmosphere damping', p.damping],
+      ['beta of the beta plane (physics.coriolis.beta)', p.beta],
+    ] as const) {
       if (!(v > 0 && Number.isFinite(v))) throw new ForcingError(`${name} must be a positive number (got ${v})`);
     }
     if (!(Number.isInteger(p.heatingModes) && p.heatingModes >= 1 && p.heatingModes <= MAX_HEATING_MODES)) {
-      throw new ForcingError(`atmosphere.heatingModes must be a whole number from 1 to ${MAX_HEATING_MODES} (got ${p.heatingModes})`);
+      throw new ForcingError(
+        `atmosphere.heatingModes must be a whole number from 1 to ${MAX_HEATING_MODES} (got ${p.heatingModes})`,
+      );
     }
     this.radius = Math.sqrt(p.speed / p.beta);
     this.timeUnit = 1 / Math.sqrt(p.beta * p.speed);
     this.eps = p.damping * this.timeUnit;
-    const K = (this.modes = p.heatingModes);
-    const N = (this.N = K + 2);
+    this.modes = p.heatingModes;
+    this.N = this.modes + 2;
+    const K = this.modes;
+    const N = this.N;
     const { nx, ny } = grid;
     const L = this.radius;
     // Hermite functions by their recurrence H_{n+1} = 2 y H_n - 2 n H_{n-1}, times exp(-y^2/2).
@@ -122,7 +130,12 @@ export class GillAtmosphere {
     this.decay = [];
     for (let m = 0; m <= K; m++) {
       const a = m === 0 ? this.eps : (2 * m + 1) * this.eps;
-      this.decay.push({ E: pm.exp(-a * dxN), Eh: pm.exp(-0.5 * a * dxN), g: -pm.expm1(-a * dxN) / a, gh: -pm.expm1(-0.5 * a * dxN) / a });
+      this.decay.push({
+        E: pm.exp(-a * dxN),
+        Eh: pm.exp(-0.5 * a * dxN),
+        g: -pm.expm1(-a * dxN) / a,
+        gh: -pm.expm1(-0.5 * a * dxN) / a,
+      });
     }
   }
 
@@ -238,7 +251,14 @@ export class GillAtmosphere {
    * u and v on a list of faces: u faces (column i of faces, centre row j) or v faces (centre column
    * i, face row j), into outU and outV (either may be null). One loop: it runs at every coupling.
    */
-  sampleFaces(kind: 'u' | 'v', iList: Int32Array, jList: Int32Array, n: number, outU: Float64Array | null, outV: Float64Array | null): void {
+  sampleFaces(
+    kind: 'u' | 'v',
+    iList: Int32Array,
+    jList: Int32Array,
+    n: number,
+    outU: Float64Array | null,
+    outV: Float64Array | null,
+  ): void {
     const N = this.N;
     const coef = kind === 'u' ? this.coefF : this.coefC;
     const phi = kind === 'u' ? this.phiC : this.phiF;

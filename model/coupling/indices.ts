@@ -21,7 +21,12 @@ export interface IndexLayout {
   ocean: ArrayLike<number>;
 }
 
-export function coupledIndices(layout: IndexLayout, region: ArrayLike<number>, sst: ArrayLike<number>, h: ArrayLike<number>): CoupledIndices {
+export function coupledIndices(
+  layout: IndexLayout,
+  region: ArrayLike<number>,
+  sst: ArrayLike<number>,
+  h: ArrayLike<number>,
+): CoupledIndices {
   let sw = 0;
   let st = 0;
   let n = 0;

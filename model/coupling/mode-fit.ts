@@ -103,10 +103,12 @@ export function fitOscillation(days: ArrayLike<number>, x: ArrayLike<number>, fr
     crossDays.push(crossings[c + 1].day);
   }
   if (extremes.length < 3) return null;
-  const period = 2 * slope(
-    crossDays.map((_, n) => n),
-    crossDays,
-  );
+  const period =
+    2 *
+    slope(
+      crossDays.map((_, n) => n),
+      crossDays,
+    );
   const growth = slope(
     extremes.map((e) => e.day),
     extremes.map((e) => pm.log(Math.abs(e.value))),
@@ -169,7 +171,12 @@ function phaseOf(t: number[], y: number[], w: number, sigma: number, t0: number)
  * with the oscillation's own period and growth over [fromDay, toDay]: in (-0.5, 0.5], positive when
  * `lead` peaks first.
  */
-export function phaseLead(days: ArrayLike<number>, lead: ArrayLike<number>, follow: ArrayLike<number>, fit: Pick<ModeFit, 'periodDays' | 'growthPerDay' | 'fromDay' | 'toDay'>): number {
+export function phaseLead(
+  days: ArrayLike<number>,
+  lead: ArrayLike<number>,
+  follow: ArrayLike<number>,
+  fit: Pick<ModeFit, 'periodDays' | 'growthPerDay' | 'fromDay' | 'toDay'>,
+): number {
   const t: number[] = [];
   const a: number[] = [];
   const b: number[] = [];
@@ -199,7 +206,11 @@ export interface CoupledMode {
 export const FIT_SKIP = 0.1;
 
 /** Fit the eastern SST of a run (skipping the first FIT_SKIP of its days) and measure the warm-water lead; null when it does not oscillate enough to tell. */
-export function coupledMode(days: ArrayLike<number>, eastSst: ArrayLike<number>, warmWater: ArrayLike<number>): CoupledMode | null {
+export function coupledMode(
+  days: ArrayLike<number>,
+  eastSst: ArrayLike<number>,
+  warmWater: ArrayLike<number>,
+): CoupledMode | null {
   if (days.length < 4) return null;
   const from = days[0] + FIT_SKIP * (days[days.length - 1] - days[0]);
   const fit = fitOscillation(days, eastSst, from);

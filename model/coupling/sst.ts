@@ -33,12 +33,14 @@ export function subsurfaceTemperature(h: number, s: SstSpec['subsurface']): numb
 }
 
 function positive(name: string, v: unknown): number {
-  if (!(typeof v === 'number' && v > 0 && Number.isFinite(v))) throw new ForcingError(`${name} must be a positive number (got ${String(v)})`);
+  if (!(typeof v === 'number' && v > 0 && Number.isFinite(v)))
+    throw new ForcingError(`${name} must be a positive number (got ${String(v)})`);
   return v;
 }
 
 function finite(name: string, v: unknown): number {
-  if (!(typeof v === 'number' && Number.isFinite(v))) throw new ForcingError(`${name} must be a finite number (got ${String(v)})`);
+  if (!(typeof v === 'number' && Number.isFinite(v)))
+    throw new ForcingError(`${name} must be a finite number (got ${String(v)})`);
   return v;
 }
 
@@ -66,7 +68,8 @@ export class SstAnomaly {
   ) {
     this.spec = spec;
     const shape = compileShape(spec.region);
-    if (shape.timeDependent) throw new ForcingError(`sst.region: ${shape.label} reads t; the region of upwelling must not change in time`);
+    if (shape.timeDependent)
+      throw new ForcingError(`sst.region: ${shape.label} reads t; the region of upwelling must not change in time`);
     this.upwelling = 1 / (positive('sst.upwellingDays', spec.upwellingDays) * DAY);
     this.damping = 1 / (positive('sst.dampingDays', spec.dampingDays) * DAY);
     this.gradient = finite('sst.meanGradient', spec.meanGradient) / 1e6;
@@ -85,13 +88,18 @@ export class SstAnomaly {
         const k = (j + 1) * W + i + 1;
         if (!ocean[k]) continue;
         const s = shape.at(grid.lonCentre[i], grid.latCentre[j], 0);
-        if (!Number.isFinite(s)) throw new ForcingError(`sst.region: ${shape.label} gives ${s} at lon ${grid.lonCentre[i]}, lat ${grid.latCentre[j]}`);
+        if (!Number.isFinite(s))
+          throw new ForcingError(
+            `sst.region: ${shape.label} gives ${s} at lon ${grid.lonCentre[i]}, lat ${grid.latCentre[j]}`,
+          );
         // Far tails of a patch count as outside: the update there is damping alone, and cheap.
         this.region[k] = Math.abs(s) < REGION_FLOOR ? 0 : s;
       }
     }
     if (this.region.every((s) => s === 0)) {
-      throw new ForcingError(`sst.region: ${shape.label} is 0 on every ocean cell, so the SST would never feel the thermocline; put the region over the ocean`);
+      throw new ForcingError(
+        `sst.region: ${shape.label} is 0 on every ocean cell, so the SST would never feel the thermocline; put the region over the ocean`,
+      );
     }
   }
 
@@ -106,7 +114,15 @@ export class SstAnomaly {
    * Advance T' (padded, in place) over `seconds` with the thermocline h' and layer-mean u of the
    * state and the stress in force (for the surface current, only when there is a mean gradient).
    */
-  step(sst: Float64Array, h: ArrayLike<number>, u: ArrayLike<number>, taux: Float64Array, tauy: Float64Array, seconds: number, ctx: SstContext): void {
+  step(
+    sst: Float64Array,
+    h: ArrayLike<number>,
+    u: ArrayLike<number>,
+    taux: Float64Array,
+    tauy: Float64Array,
+    seconds: number,
+    ctx: SstContext,
+  ): void {
     const { nx, ny, W, ocean } = this.grid;
     const w = this.upwelling;
     const eps = this.damping;
@@ -127,7 +143,15 @@ export class SstAnomaly {
           source = w * S * subsurfaceTemperature(h[k], sub);
           if (G !== 0) {
             // The surface current at the centre: layer mean plus the surface layer's share of the shear.
-            const { us } = surfaceShear(0.5 * (taux[k] + taux[k + 1]), 0.5 * (tauy[k] + tauy[k + W]), f, p.density, H1, p.surfaceLayer.damping, this.shear);
+            const { us } = surfaceShear(
+              0.5 * (taux[k] + taux[k + 1]),
+              0.5 * (tauy[k] + tauy[k + W]),
+              f,
+              p.density,
+              H1,
+              p.surfaceLayer.damping,
+              this.shear,
+            );
             const uSurf = 0.5 * (u[k] + u[k + 1]) + toSurface * us;
             source -= S * G * uSurf;
           }

@@ -32,11 +32,23 @@ export interface FieldInfo {
 
 export const FIELD_INFO: Record<FieldName, FieldInfo> = {
   h_anom: { units: 'm', longName: 'thermocline depth anomaly (upper-layer thickness anomaly, positive down)' },
-  ssh: { units: 'm', longName: 'sea surface height from the thermocline, (g\'/g) h\'', standardName: 'sea_surface_height_above_geoid' },
+  ssh: {
+    units: 'm',
+    longName: "sea surface height from the thermocline, (g'/g) h'",
+    standardName: 'sea_surface_height_above_geoid',
+  },
   u: { units: 'm s-1', longName: 'layer-mean eastward velocity', standardName: 'eastward_sea_water_velocity' },
   v: { units: 'm s-1', longName: 'layer-mean northward velocity', standardName: 'northward_sea_water_velocity' },
-  u_surf: { units: 'm s-1', longName: 'eastward velocity of the surface layer', standardName: 'surface_eastward_sea_water_velocity' },
-  v_surf: { units: 'm s-1', longName: 'northward velocity of the surface layer', standardName: 'surface_northward_sea_water_velocity' },
+  u_surf: {
+    units: 'm s-1',
+    longName: 'eastward velocity of the surface layer',
+    standardName: 'surface_eastward_sea_water_velocity',
+  },
+  v_surf: {
+    units: 'm s-1',
+    longName: 'northward velocity of the surface layer',
+    standardName: 'surface_northward_sea_water_velocity',
+  },
   u_below: { units: 'm s-1', longName: 'eastward velocity beneath the surface layer' },
   v_below: { units: 'm s-1', longName: 'northward velocity beneath the surface layer' },
   taux: { units: 'N m-2', longName: 'eastward wind stress', standardName: 'surface_downward_eastward_stress' },
@@ -123,7 +135,15 @@ export function centredField(
           value = ctx.atmosphere ? ctx.atmosphere.v[k] : 0;
           break;
         default: {
-          const { us, vs } = surfaceShear(0.5 * (taux[k] + taux[k + 1]), 0.5 * (tauy[k] + tauy[k + W]), f, rho0, H1, rs, shear);
+          const { us, vs } = surfaceShear(
+            0.5 * (taux[k] + taux[k + 1]),
+            0.5 * (tauy[k] + tauy[k + W]),
+            f,
+            rho0,
+            H1,
+            rs,
+            shear,
+          );
           const um = 0.5 * (u[k] + u[k + 1]);
           const vm = 0.5 * (v[k] + v[k + W]);
           if (name === 'u_surf') value = um + ((H - H1) / H) * us;

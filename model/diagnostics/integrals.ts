@@ -73,7 +73,13 @@ export function anomalySum(grid: Grid, h: FieldArray): number {
   return sum.value;
 }
 
-export function integrals(grid: Grid, physics: PhysicsConfig, state: State, dt: number, budget: VolumeBudget = { anomalyAtStart: 0, spongeMeasured: null }): Integrals {
+export function integrals(
+  grid: Grid,
+  physics: PhysicsConfig,
+  state: State,
+  dt: number,
+  budget: VolumeBudget = { anomalyAtStart: 0, spongeMeasured: null },
+): Integrals {
   const { nx, ny, W, ocean, maskU, maskV, dx, dy } = grid;
   const { u, v, h } = state;
   const H = physics.layerThickness;
@@ -120,7 +126,9 @@ export function integrals(grid: Grid, physics: PhysicsConfig, state: State, dt: 
   const kinetic = 0.5 * rho0 * ke.value * dA;
   const potential = 0.5 * rho0 * physics.reducedGravity * pe.value * dA;
   const maxSpeed = Math.sqrt(maxSpeed2);
-  const signal = nonlinear ? waveSpeed(physics.reducedGravity, Math.max(maxThick, 0)) + maxSpeed : waveSpeed(physics.reducedGravity, H);
+  const signal = nonlinear
+    ? waveSpeed(physics.reducedGravity, Math.max(maxThick, 0)) + maxSpeed
+    : waveSpeed(physics.reducedGravity, H);
   const change = (anomaly.value - budget.anomalyAtStart) * dA;
   const spongeVolume = budget.spongeMeasured === null ? change : budget.spongeMeasured * dA;
   return {

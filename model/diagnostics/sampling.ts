@@ -4,7 +4,12 @@ import type { Grid } from '../grid.ts';
 import { centredField, type FieldContext, type FieldName } from './fields.ts';
 
 /** One field along the row of cell centres nearest to a latitude (nx values, NaN on land). */
-export function sectionAlong(ctx: FieldContext, name: FieldName, lat: number, out: Float32Array | Float64Array): number {
+export function sectionAlong(
+  ctx: FieldContext,
+  name: FieldName,
+  lat: number,
+  out: Float32Array | Float64Array,
+): number {
   const j = ctx.grid.nearestRow(lat);
   centredField(name, ctx, out, { from: j, to: j + 1 });
   return ctx.grid.latCentre[j];

@@ -24,7 +24,15 @@ export interface SverdrupGrid {
 }
 
 /** Centred derivative along a row or column, one-sided next to land or the edge, NaN alone. */
-function derivative(f: ArrayLike<number>, nx: number, ny: number, i: number, j: number, alongX: boolean, step: number): number {
+function derivative(
+  f: ArrayLike<number>,
+  nx: number,
+  ny: number,
+  i: number,
+  j: number,
+  alongX: boolean,
+  step: number,
+): number {
   const at = (ii: number, jj: number) => (ii < 0 || jj < 0 || ii >= nx || jj >= ny ? NaN : f[jj * nx + ii]);
   const [di, dj] = alongX ? [1, 0] : [0, 1];
   const a = at(i - di, j - dj);
@@ -43,14 +51,20 @@ export function stressCurl(taux: ArrayLike<number>, tauy: ArrayLike<number>, g: 
   for (let j = 0; j < ny; j++) {
     for (let i = 0; i < nx; i++) {
       const k = j * nx + i;
-      curl[k] = Number.isNaN(taux[k]) ? NaN : derivative(tauy, nx, ny, i, j, true, g.dx) - derivative(taux, nx, ny, i, j, false, g.dy);
+      curl[k] = Number.isNaN(taux[k])
+        ? NaN
+        : derivative(tauy, nx, ny, i, j, true, g.dx) - derivative(taux, nx, ny, i, j, false, g.dy);
     }
   }
   return curl;
 }
 
 /** Sverdrup's V = curl(tau) / (rho0 beta), with beta of each row, m2 s-1. */
-export function sverdrupV(curl: ArrayLike<number>, g: SverdrupGrid, physics: CoriolisPhysics & { density: number }): Float64Array {
+export function sverdrupV(
+  curl: ArrayLike<number>,
+  g: SverdrupGrid,
+  physics: CoriolisPhysics & { density: number },
+): Float64Array {
   const { nx, ny } = g;
   const V = new Float64Array(nx * ny);
   for (let j = 0; j < ny; j++) {

@@ -71,10 +71,11 @@ export function fitSpeed(h: HovmollerData, o: FrontOptions): SpeedFit {
   for (let n = 0; n < h.days.length; n++) if (h.days[n] >= d0 && h.days[n] <= d1) times.push(n);
 
   let amplitude = 0;
-  for (const n of times) for (const i of cols) {
-    const x = sign * h.rows[n][i];
-    if (x > amplitude) amplitude = x;
-  }
+  for (const n of times)
+    for (const i of cols) {
+      const x = sign * h.rows[n][i];
+      if (x > amplitude) amplitude = x;
+    }
   if (!(amplitude > 0)) throw new WaveFitError(`no ${sign > 0 ? 'positive' : 'negative'} signal in the diagram`);
   const fraction = o.threshold ?? 0.5;
   const floor = (o.floor ?? 0.1) * amplitude;
@@ -120,13 +121,15 @@ export function fitSpeed(h: HovmollerData, o: FrontOptions): SpeedFit {
           const b = value(m);
           const c = value(cols[q + 1]);
           const den = a - 2 * b + c;
-          if (Number.isFinite(den) && den < 0) at = h.lon[m] + (0.5 * (a - c) / den) * (h.lon[cols[q + 1]] - h.lon[m]);
+          if (Number.isFinite(den) && den < 0)
+            at = h.lon[m] + ((0.5 * (a - c)) / den) * (h.lon[cols[q + 1]] - h.lon[m]);
         }
       }
     }
     if (at !== null) points.push([h.days[n], at]);
   }
-  if (points.length < 2) throw new WaveFitError(`the signal was found at ${points.length} time(s); at least 2 are needed`);
+  if (points.length < 2)
+    throw new WaveFitError(`the signal was found at ${points.length} time(s); at least 2 are needed`);
   const { slope, slopeError } = regress(points);
   const toMs = o.metresPerDegree / 86400;
   const dir = o.direction === 'east' ? 1 : -1;
@@ -160,7 +163,12 @@ export function regress(points: Array<[number, number]>): { slope: number; inter
  * The first day a time series reaches `fraction` of its largest value of the given sign,
  * interpolated linearly between samples; null if it never does.
  */
-export function arrivalDay(days: ArrayLike<number>, values: ArrayLike<number>, fraction = 0.5, sign: 1 | -1 = 1): number | null {
+export function arrivalDay(
+  days: ArrayLike<number>,
+  values: ArrayLike<number>,
+  fraction = 0.5,
+  sign: 1 | -1 = 1,
+): number | null {
   let peak = 0;
   for (let n = 0; n < values.length; n++) if (sign * values[n] > peak) peak = sign * values[n];
   if (!(peak > 0)) return null;

@@ -44,7 +44,11 @@ const PATHS: Record<MapName, Path> = {
     return [L, C, h];
   },
   depth: (t) => [lerp(0.94, 0.27, t), 0.03 + 0.1 * pm.sin(Math.PI * Math.min(1, t * 1.1)), lerp(175, 282, t)],
-  strength: (t) => [lerp(0.97, 0.3, t), 0.035 + 0.14 * pm.sin(Math.PI * Math.min(1, 0.15 + t * 0.8)), lerp(100, -15, t)],
+  strength: (t) => [
+    lerp(0.97, 0.3, t),
+    0.035 + 0.14 * pm.sin(Math.PI * Math.min(1, 0.15 + t * 0.8)),
+    lerp(100, -15, t),
+  ],
 };
 
 /** The colour of a map at t in 0..1, 8-bit sRGB. */

@@ -50,7 +50,7 @@ export function symmetricRange(arrays: ReadonlyArray<ArrayLike<number>>): number
   for (const a of arrays) {
     for (let k = 0; k < a.length; k++) {
       const v = a[k];
-      if (v === v && Number.isFinite(v)) abs[m++] = Math.abs(v);
+      if (Number.isFinite(v)) abs[m++] = Math.abs(v);
     }
   }
   if (m === 0) return 1;

@@ -70,14 +70,30 @@ export function tickLabel(v: number, exponent: number, decimals: number): string
 /** "×10⁻⁴" for the units beside a scaled bar, '' for a plain one. */
 export function exponentText(exponent: number): string {
   if (exponent === 0) return '';
-  const sup: Record<string, string> = { '-': '\u207b', '0': '\u2070', '1': '\u00b9', '2': '\u00b2', '3': '\u00b3', '4': '\u2074', '5': '\u2075', '6': '\u2076', '7': '\u2077', '8': '\u2078', '9': '\u2079' };
-  return `\u00d710${String(exponent).split('').map((c) => sup[c]).join('')}`;
+  const sup: Record<string, string> = {
+    '-': '\u207b',
+    '0': '\u2070',
+    '1': '\u00b9',
+    '2': '\u00b2',
+    '3': '\u00b3',
+    '4': '\u2074',
+    '5': '\u2075',
+    '6': '\u2076',
+    '7': '\u2077',
+    '8': '\u2078',
+    '9': '\u2079',
+  };
+  return `\u00d710${String(exponent)
+    .split('')
+    .map((c) => sup[c])
+    .join('')}`;
 }
 
 /** Ticks of a given count's step, labelled. */
 export function ticksFor(r: Range, count: number): TickSet {
   const span = r.max - r.min;
-  if (!(span > 0) || !Number.isFinite(span)) return { values: [r.min], labels: [tickLabel(r.min, 0, 2)], exponent: 0, decimals: 2 };
+  if (!(span > 0) || !Number.isFinite(span))
+    return { values: [r.min], labels: [tickLabel(r.min, 0, 2)], exponent: 0, decimals: 2 };
   const { step, decimals } = niceStep(span, count);
   const exponent = labelExponent(r, step);
   const values = stepValues(r, step);
@@ -90,7 +106,12 @@ export function ticksFor(r: Range, count: number): TickSet {
  * `measure` gives a label's width in pixels, `gap` the least space between two labels. Labels
  * are centred on their ticks and kept inside the bar. At least the two ends' ticks, or one.
  */
-export function fittingTicks(r: Range, length: number, measure: (label: string) => number, options: { most?: number; gap?: number } = {}): TickSet {
+export function fittingTicks(
+  r: Range,
+  length: number,
+  measure: (label: string) => number,
+  options: { most?: number; gap?: number } = {},
+): TickSet {
   const most = options.most ?? 8;
   const gap = options.gap ?? 8;
   for (let count = most; count >= 1; count--) {
@@ -101,7 +122,12 @@ export function fittingTicks(r: Range, length: number, measure: (label: string) 
 }
 
 /** Left and right edge (pixels) of each label as the bar draws it. */
-export function labelBoxes(t: TickSet, r: Range, length: number, measure: (label: string) => number): Array<[number, number]> {
+export function labelBoxes(
+  t: TickSet,
+  r: Range,
+  length: number,
+  measure: (label: string) => number,
+): Array<[number, number]> {
   const span = r.max - r.min;
   return t.values.map((v, k) => {
     const w = measure(t.labels[k]);

@@ -80,7 +80,8 @@ export function ghostFactor(slip: PhysicsConfig['slip']): number {
 
 export function largestCoriolis(grid: Grid, physics: PhysicsConfig): number {
   let m = 0;
-  for (let j = 0; j <= grid.ny; j++) m = Math.max(m, Math.abs(coriolisParameter(physics, grid.latFace[j], grid.yFace[j])));
+  for (let j = 0; j <= grid.ny; j++)
+    m = Math.max(m, Math.abs(coriolisParameter(physics, grid.latFace[j], grid.yFace[j])));
   return m;
 }
 
@@ -92,7 +93,12 @@ export interface KernelVariant {
   coriolis?: 'energy-conserving' | 'collocated';
 }
 
-export function buildCoefficients(grid: Grid, physics: PhysicsConfig, dt: number, variant: KernelVariant = {}): StepCoefficients {
+export function buildCoefficients(
+  grid: Grid,
+  physics: PhysicsConfig,
+  dt: number,
+  variant: KernelVariant = {},
+): StepCoefficients {
   const ghost = variant.ghost ?? ghostFactor(physics.slip);
   const { nx, ny, dx, dy } = grid;
   const fU = Float64Array.from(grid.latCentre, (lat, j) => coriolisParameter(physics, lat, grid.yCentre[j]));

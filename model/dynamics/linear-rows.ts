@@ -24,7 +24,13 @@ export interface StepFields<F extends FieldArray = Float64Array> {
 
 /** Fresh zeroed fields of a grid (the one-thread TypeScript step). */
 export function stepFields(grid: Pick<Grid, 'field'>): StepFields {
-  return { u: [grid.field(), grid.field()], v: [grid.field(), grid.field()], h: grid.field(), accelX: grid.field(), accelY: grid.field() };
+  return {
+    u: [grid.field(), grid.field()],
+    v: [grid.field(), grid.field()],
+    h: grid.field(),
+    accelX: grid.field(),
+    accelY: grid.field(),
+  };
 }
 
 /** Fresh zeroed float32 fields of a grid. */
@@ -70,7 +76,10 @@ export class TsRows implements LinearRows {
     private readonly f: StepFields,
   ) {
     this.ny = g.ny;
-    this.sets = [0, 1].map((cur) => ({ u: f.u[cur], v: f.v[cur], un: f.u[1 - cur], vn: f.v[1 - cur] })) as [RowSet, RowSet];
+    this.sets = [0, 1].map((cur) => ({ u: f.u[cur], v: f.v[cur], un: f.u[1 - cur], vn: f.v[1 - cur] })) as [
+      RowSet,
+      RowSet,
+    ];
   }
 
   params(friction: number, viscosity: number): void {
@@ -104,7 +113,11 @@ export class TsRows implements LinearRows {
 }
 
 /** The linear fields and the State: u, v double-buffered, h in place, the stress as accelerations. */
-export function linearBinding(grid: Pick<Grid, 'maskU' | 'maskV'>, f: StepFields<FieldArray>, rhoH: number): FieldBinding {
+export function linearBinding(
+  grid: Pick<Grid, 'maskU' | 'maskV'>,
+  f: StepFields<FieldArray>,
+  rhoH: number,
+): FieldBinding {
   const bind = (state: State, cur: number) => {
     state.u = f.u[cur];
     state.v = f.v[cur];

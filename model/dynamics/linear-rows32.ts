@@ -55,7 +55,12 @@ export class TsRows32 implements LinearRows {
     private readonly fields: StepFields<Float32Array>,
   ) {
     this.ny = g.ny;
-    this.sets = [0, 1].map((cur) => ({ u: fields.u[cur], v: fields.v[cur], un: fields.u[1 - cur], vn: fields.v[1 - cur] })) as [RowSet, RowSet];
+    this.sets = [0, 1].map((cur) => ({
+      u: fields.u[cur],
+      v: fields.v[cur],
+      un: fields.u[1 - cur],
+      vn: fields.v[1 - cur],
+    })) as [RowSet, RowSet];
   }
 
   params(friction: number, viscosity: number): void {

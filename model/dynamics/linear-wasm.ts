@@ -12,13 +12,38 @@ import type { RowCoefficients } from './linear.ts';
 import type { LinearRows, StepFields } from './linear-rows.ts';
 import type { FieldArray } from '../state.ts';
 import { bytesOf, type Precision } from '../precision.ts';
-import { ROWS32_SHARED_WASM_BASE64, ROWS32_WASM_BASE64, ROWS_SHARED_WASM_BASE64, ROWS_WASM_BASE64 } from './wasm/rows-wasm.ts';
+import {
+  ROWS32_SHARED_WASM_BASE64,
+  ROWS32_WASM_BASE64,
+  ROWS_SHARED_WASM_BASE64,
+  ROWS_WASM_BASE64,
+} from './wasm/rows-wasm.ts';
 
 interface RowExports {
   heapBase(): number;
   setGrid(nx: number, ny: number, W: number): void;
-  setScalars(dt: number, gpdx: number, gpdy: number, idx2: number, idy2: number, dtHdx: number, dtHdy: number, r: number, A: number): void;
-  setTables(fS: number, fN: number, fV: number, sH: number, sV: number, ax: number, ay: number, mu: number, mv: number): void;
+  setScalars(
+    dt: number,
+    gpdx: number,
+    gpdy: number,
+    idx2: number,
+    idy2: number,
+    dtHdx: number,
+    dtHdy: number,
+    r: number,
+    A: number,
+  ): void;
+  setTables(
+    fS: number,
+    fN: number,
+    fV: number,
+    sH: number,
+    sV: number,
+    ax: number,
+    ay: number,
+    mu: number,
+    mv: number,
+  ): void;
   setCoast(uStart: number, uIndex: number, uCoef: number, vStart: number, vIndex: number, vCoef: number): void;
   uRow(u: number, v: number, h: number, un: number, j: number): void;
   vRow(v: number, h: number, un: number, vn: number, j: number): void;
@@ -87,7 +112,12 @@ export interface WasmLayout {
 const align = (p: number) => (p + 63) & ~63;
 
 /** Lay a step out above the module's heap base, values of `value` bytes; returns the layout and the bytes it needs. */
-export function layOut(heapBase: number, grid: { ny: number; size: number }, c: Pick<StepCoefficients, 'coastU' | 'coastV'>, value: 4 | 8 = 8): { layout: WasmLayout; bytes: number } {
+export function layOut(
+  heapBase: number,
+  grid: { ny: number; size: number },
+  c: Pick<StepCoefficients, 'coastU' | 'coastV'>,
+  value: 4 | 8 = 8,
+): { layout: WasmLayout; bytes: number } {
   let at = align(heapBase);
   const take = (bytes: number) => {
     const p = at;
@@ -108,16 +138,31 @@ export function layOut(heapBase: number, grid: { ny: number; size: number }, c: 
     maskU: f(),
     maskV: f(),
     tables: [take(b * ny), take(b * ny), take(b * (ny + 1)), take(b * ny), take(b * (ny + 1))],
-    coast: [take(4 * cu.rowStart.length), take(4 * cu.index.length), take(b * cu.coef.length), take(4 * cv.rowStart.length), take(4 * cv.index.length), take(b * cv.coef.length)],
+    coast: [
+      take(4 * cu.rowStart.length),
+      take(4 * cu.index.length),
+      take(b * cu.coef.length),
+      take(4 * cv.rowStart.length),
+      take(4 * cv.index.length),
+      take(b * cv.coef.length),
+    ],
   };
-  if (at > 65536 * 65536) throw new RangeError(`the grid needs ${at} bytes, more than a 32-bit WebAssembly memory holds`);
+  if (at > 65536 * 65536)
+    throw new RangeError(`the grid needs ${at} bytes, more than a 32-bit WebAssembly memory holds`);
   return { layout, bytes: at };
 }
 
 /** Copy the masks, row tables and coast lists into a module's memory at the layout's places (float32: c already rounded). */
-export function fillTables(buf: ArrayBufferLike, grid: { ny: number; size: number; maskU: Float64Array; maskV: Float64Array }, c: RowCoefficients, at: WasmLayout, precision: Precision = 'float64'): void {
+export function fillTables(
+  buf: ArrayBufferLike,
+  grid: { ny: number; size: number; maskU: Float64Array; maskV: Float64Array },
+  c: RowCoefficients,
+  at: WasmLayout,
+  precision: Precision = 'float64',
+): void {
   const { ny, size } = grid;
-  const f64 = (p: number, n: number) => (precision === 'float32' ? new Float32Array(buf, p, n) : new Float64Array(buf, p, n));
+  const f64 = (p: number, n: number) =>
+    precision === 'float32' ? new Float32Array(buf, p, n) : new Float64Array(buf, p, n);
   const i32 = (p: number, n: number) => new Int32Array(buf, p, n);
   f64(at.maskU, size).set(grid.maskU);
   f64(at.maskV, size).set(grid.maskV);
@@ -140,10 +185,26 @@ export function fillTables(buf: ArrayBufferLike, grid: { ny: number; size: numbe
 
 /** The step's fields as views of the module's memory. */
 export function fieldViews(buf: ArrayBufferLike, at: WasmLayout, size: number): StepFields;
-export function fieldViews(buf: ArrayBufferLike, at: WasmLayout, size: number, precision: Precision): StepFields<FieldArray>;
-export function fieldViews(buf: ArrayBufferLike, at: WasmLayout, size: number, precision: Precision = 'float64'): StepFields<FieldArray> {
+export function fieldViews(
+  buf: ArrayBufferLike,
+  at: WasmLayout,
+  size: number,
+  precision: Precision,
+): StepFields<FieldArray>;
+export function fieldViews(
+  buf: ArrayBufferLike,
+  at: WasmLayout,
+  size: number,
+  precision: Precision = 'float64',
+): StepFields<FieldArray> {
   const v = (p: number) => (precision === 'float32' ? new Float32Array(buf, p, size) : new Float64Array(buf, p, size));
-  return { u: [v(at.u[0]), v(at.u[1])], v: [v(at.v[0]), v(at.v[1])], h: v(at.h), accelX: v(at.accelX), accelY: v(at.accelY) };
+  return {
+    u: [v(at.u[0]), v(at.u[1])],
+    v: [v(at.v[0]), v(at.v[1])],
+    h: v(at.h),
+    accelX: v(at.accelX),
+    accelY: v(at.accelY),
+  };
 }
 
 /** The heap base of a module (where its own data ends), from a throw-away instance. */
@@ -175,10 +236,26 @@ export class WasmRows implements LinearRows {
   ) {
     this.ny = g.ny;
     this.x = new WebAssembly.Instance(module, { env: { memory } }).exports as unknown as RowExports;
-    this.sets = [0, 1].map((cur) => ({ u: at.u[cur], v: at.v[cur], un: at.u[1 - cur], vn: at.v[1 - cur], h: at.h })) as [PointerSet, PointerSet];
+    this.sets = [0, 1].map((cur) => ({
+      u: at.u[cur],
+      v: at.v[cur],
+      un: at.u[1 - cur],
+      vn: at.v[1 - cur],
+      h: at.h,
+    })) as [PointerSet, PointerSet];
     const x = this.x;
     x.setGrid(g.nx, g.ny, g.W);
-    x.setTables(at.tables[0], at.tables[1], at.tables[2], at.tables[3], at.tables[4], at.accelX, at.accelY, at.maskU, at.maskV);
+    x.setTables(
+      at.tables[0],
+      at.tables[1],
+      at.tables[2],
+      at.tables[3],
+      at.tables[4],
+      at.accelX,
+      at.accelY,
+      at.maskU,
+      at.maskV,
+    );
     x.setCoast(at.coast[0], at.coast[1], at.coast[2], at.coast[3], at.coast[4], at.coast[5]);
   }
 
@@ -213,10 +290,22 @@ export class WasmRows implements LinearRows {
 }
 
 /** The one-thread WebAssembly rows on a memory of their own, and the step's fields (views of it); float32: c already rounded. */
-export function wasmLinearParts(grid: Grid, c: RowCoefficients, precision: Precision = 'float64'): { rows: WasmRows; fields: StepFields<FieldArray> } {
+export function wasmLinearParts(
+  grid: Grid,
+  c: RowCoefficients,
+  precision: Precision = 'float64',
+): { rows: WasmRows; fields: StepFields<FieldArray> } {
   const module = rowsWasmModule(false, precision);
-  const { layout, bytes } = layOut(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), grid, c, bytesOf(precision));
+  const { layout, bytes } = layOut(
+    heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })),
+    grid,
+    c,
+    bytesOf(precision),
+  );
   const memory = new WebAssembly.Memory({ initial: Math.ceil(bytes / 65536) + 1 });
   fillTables(memory.buffer, grid, c, layout, precision);
-  return { rows: new WasmRows(module, memory, layout, grid, c), fields: fieldViews(memory.buffer, layout, grid.size, precision) };
+  return {
+    rows: new WasmRows(module, memory, layout, grid, c),
+    fields: fieldViews(memory.buffer, layout, grid.size, precision),
+  };
 }

@@ -16,7 +16,20 @@ import type { CoastTerms, StepCoefficients } from './coefficients.ts';
 export type RowGrid = Pick<Grid, 'nx' | 'ny' | 'W' | 'maskU' | 'maskV'>;
 export type RowCoefficients = Pick<
   StepCoefficients,
-  'dt' | 'gpdx' | 'gpdy' | 'idx2' | 'idy2' | 'dtHdx' | 'dtHdy' | 'coriolisSouth' | 'coriolisNorth' | 'fV' | 'spongeH' | 'spongeV' | 'coastU' | 'coastV'
+  | 'dt'
+  | 'gpdx'
+  | 'gpdy'
+  | 'idx2'
+  | 'idy2'
+  | 'dtHdx'
+  | 'dtHdy'
+  | 'coriolisSouth'
+  | 'coriolisNorth'
+  | 'fV'
+  | 'spongeH'
+  | 'spongeV'
+  | 'coastU'
+  | 'coastV'
 >;
 
 export interface LinearWork {
@@ -238,7 +251,14 @@ export function vRow(
 }
 
 /** h' of row j from the new velocities, times the row's sponge factor (1 outside the bands). */
-export function hRow(grid: RowGrid, c: RowCoefficients, h: Float64Array, un: Float64Array, vn: Float64Array, j: number): void {
+export function hRow(
+  grid: RowGrid,
+  c: RowCoefficients,
+  h: Float64Array,
+  un: Float64Array,
+  vn: Float64Array,
+  j: number,
+): void {
   const { nx, W } = grid;
   const { dtHdx, dtHdy } = c;
   const s = c.spongeH[j];

@@ -46,14 +46,34 @@ export interface NonlinearFields<F extends FieldArray = Float64Array> {
 
 export function nonlinearFields(grid: Pick<Grid, 'field' | 'ny'>): NonlinearFields {
   const two = (): [Float64Array, Float64Array] => [grid.field(), grid.field()];
-  return { u: two(), v: two(), h: two(), du: two(), dv: two(), dh: two(), taux: grid.field(), tauy: grid.field(), spongeSums: [new Float64Array(grid.ny + 1), new Float64Array(grid.ny + 1)] };
+  return {
+    u: two(),
+    v: two(),
+    h: two(),
+    du: two(),
+    dv: two(),
+    dh: two(),
+    taux: grid.field(),
+    tauy: grid.field(),
+    spongeSums: [new Float64Array(grid.ny + 1), new Float64Array(grid.ny + 1)],
+  };
 }
 
 /** The same in float32 (the sponge sums stay double: they are the budget's). */
 export function nonlinearFields32(grid: Pick<Grid, 'size' | 'ny'>): NonlinearFields<Float32Array> {
   const f = () => new Float32Array(grid.size);
   const two = (): [Float32Array, Float32Array] => [f(), f()];
-  return { u: two(), v: two(), h: two(), du: two(), dv: two(), dh: two(), taux: f(), tauy: f(), spongeSums: [new Float64Array(grid.ny + 1), new Float64Array(grid.ny + 1)] };
+  return {
+    u: two(),
+    v: two(),
+    h: two(),
+    du: two(),
+    dv: two(),
+    dh: two(),
+    taux: f(),
+    tauy: f(),
+    spongeSums: [new Float64Array(grid.ny + 1), new Float64Array(grid.ny + 1)],
+  };
 }
 
 /** What the nonlinear rows read of the grid (a strip worker holds only these). */
@@ -92,10 +112,21 @@ export interface NonlinearRowCoefficients {
 }
 
 export function nonlinearRowGrid(grid: Grid): NonlinearRowGrid {
-  return { nx: grid.nx, ny: grid.ny, W: grid.W, maskU: grid.maskU, maskV: grid.maskV, oceanF: Float64Array.from(grid.ocean) };
+  return {
+    nx: grid.nx,
+    ny: grid.ny,
+    W: grid.W,
+    maskU: grid.maskU,
+    maskV: grid.maskV,
+    oceanF: Float64Array.from(grid.ocean),
+  };
 }
 
-export function nonlinearRowCoefficients(grid: Grid, c: StepCoefficients, physics: PhysicsConfig): NonlinearRowCoefficients {
+export function nonlinearRowCoefficients(
+  grid: Grid,
+  c: StepCoefficients,
+  physics: PhysicsConfig,
+): NonlinearRowCoefficients {
   return {
     dt: c.dt,
     H: physics.layerThickness,
@@ -210,7 +241,9 @@ export class TsNonlinearRows implements NonlinearRows {
         continue;
       }
       const zeta = freeSlip && wet < 4 ? 0 : (v[k] - v[k - 1]) * idx - (u[k] - u[k - W]) * idy;
-      const hq = (ocean[k] * h[k] + ocean[k - 1] * h[k - 1] + ocean[k - W] * h[k - W] + ocean[k - W - 1] * h[k - W - 1]) / wet + H;
+      const hq =
+        (ocean[k] * h[k] + ocean[k - 1] * h[k - 1] + ocean[k - W] * h[k - W] + ocean[k - W - 1] * h[k - W - 1]) / wet +
+        H;
       q[o + k] = (f + zeta) / Math.max(hq, STRESS_DEPTH_FLOOR);
     }
   }
@@ -301,7 +334,11 @@ export class TsNonlinearRows implements NonlinearRows {
 }
 
 /** The nonlinear fields and the State: u, v, h double-buffered, the history in two slots, the stress as given. */
-export function nonlinearBinding(f: NonlinearFields<FieldArray>, spongeH: Float64Array, spongeRowsH: Int32Array): FieldBinding {
+export function nonlinearBinding(
+  f: NonlinearFields<FieldArray>,
+  spongeH: Float64Array,
+  spongeRowsH: Int32Array,
+): FieldBinding {
   const bind = (state: State, cur: number) => {
     state.u = f.u[cur];
     state.v = f.v[cur];

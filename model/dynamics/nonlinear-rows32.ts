@@ -77,7 +77,8 @@ export class TsNonlinearRows32 implements NonlinearRows {
     const { U, V, q, B } = this;
     const twoH = f(2 * H);
     if (j < ny) {
-      for (let k = row + 1; k <= row + nx + 1; k++) U[o + k] = f(f(maskU[k] * 0.5) * f(f(twoH + h[k - 1]) + h[k])) * u[k];
+      for (let k = row + 1; k <= row + nx + 1; k++)
+        U[o + k] = f(f(maskU[k] * 0.5) * f(f(twoH + h[k - 1]) + h[k])) * u[k];
       for (let k = row + 1; k <= row + nx; k++) {
         if (!ocean[k]) {
           B[o + k] = 0;
@@ -96,7 +97,10 @@ export class TsNonlinearRows32 implements NonlinearRows {
         continue;
       }
       const zeta = freeSlip && wet < 4 ? 0 : f(f(f(v[k] - v[k - 1]) * idx) - f(f(u[k] - u[k - W]) * idy));
-      const hsum = f(f(f(f(ocean[k] * h[k]) + f(ocean[k - 1] * h[k - 1])) + f(ocean[k - W] * h[k - W])) + f(ocean[k - W - 1] * h[k - W - 1]));
+      const hsum = f(
+        f(f(f(ocean[k] * h[k]) + f(ocean[k - 1] * h[k - 1])) + f(ocean[k - W] * h[k - W])) +
+          f(ocean[k - W - 1] * h[k - W - 1]),
+      );
       const hq = f(f(hsum / wet) + H);
       q[o + k] = f(fc + zeta) / Math.max(hq, 1);
     }
@@ -125,11 +129,18 @@ export class TsNonlinearRows32 implements NonlinearRows {
         let du = 0;
         const uc = u[k];
         if (maskU[k]) {
-          const pv = f(0.25 * f(f(q[oN + k] * f(V[oN + k - 1] + V[oN + k])) + f(q[oC + k] * f(V[oC + k - 1] + V[oC + k]))));
+          const pv = f(
+            0.25 * f(f(q[oN + k] * f(V[oN + k - 1] + V[oN + k])) + f(q[oC + k] * f(V[oC + k - 1] + V[oC + k]))),
+          );
           const hu = Math.max(f(H + f(0.5 * f(h[k - 1] + h[k]))), 1);
           const twoU = f(2 * uc);
-          const lap = f(f(f(f(f(u[k + 1] + u[k - 1]) - twoU) * idx2) + f(f(f(u[k + W] + u[k - W]) - twoU) * idy2)) + f(coast[k] * uc));
-          du = f(f(f(f(pv - f(f(B[oC + k] - B[oC + k - 1]) * idx)) + f(taux[k] / f(rho0 * hu))) - f(r * uc)) + f(A * lap));
+          const lap = f(
+            f(f(f(f(u[k + 1] + u[k - 1]) - twoU) * idx2) + f(f(f(u[k + W] + u[k - W]) - twoU) * idy2)) +
+              f(coast[k] * uc),
+          );
+          du = f(
+            f(f(f(pv - f(f(B[oC + k] - B[oC + k - 1]) * idx)) + f(taux[k] / f(rho0 * hu))) - f(r * uc)) + f(A * lap),
+          );
         }
         un[k] = uc + f(dt * f(f(f(a0 * du) + f(a1 * t1[k])) + f(a2 * t2[k])));
         t2[k] = du;
@@ -145,10 +156,15 @@ export class TsNonlinearRows32 implements NonlinearRows {
         let dv = 0;
         const vc = v[k];
         if (maskV[k]) {
-          const pv = f(0.25 * f(f(q[oC + k + 1] * f(U[oS + k + 1] + U[oC + k + 1])) + f(q[oC + k] * f(U[oS + k] + U[oC + k]))));
+          const pv = f(
+            0.25 * f(f(q[oC + k + 1] * f(U[oS + k + 1] + U[oC + k + 1])) + f(q[oC + k] * f(U[oS + k] + U[oC + k]))),
+          );
           const hv = Math.max(f(H + f(0.5 * f(h[k - W] + h[k]))), 1);
           const twoV = f(2 * vc);
-          const lap = f(f(f(f(f(v[k + 1] + v[k - 1]) - twoV) * idx2) + f(f(f(v[k + W] + v[k - W]) - twoV) * idy2)) + f(coast[k] * vc));
+          const lap = f(
+            f(f(f(f(v[k + 1] + v[k - 1]) - twoV) * idx2) + f(f(f(v[k + W] + v[k - W]) - twoV) * idy2)) +
+              f(coast[k] * vc),
+          );
           dv = f(f(f(f(-pv - f(f(B[oC + k] - B[oS + k]) * idy)) + f(tauy[k] / f(rho0 * hv))) - f(r * vc)) + f(A * lap));
         }
         vn[k] = vc + f(dt * f(f(f(a0 * dv) + f(a1 * t1[k])) + f(a2 * t2[k])));

@@ -12,8 +12,27 @@ import type { NonlinearFields, NonlinearRowCoefficients, NonlinearRowGrid, Nonli
 
 interface NonlinearExports {
   nlSetGrid(nx: number, ny: number, W: number): void;
-  nlSetScalars(dt: number, H: number, gp: number, rho0: number, hMin: number, entrainRate: number, freeSlip: number, idx: number, idy: number, idx2: number, idy2: number): void;
-  nlSetTables(fCorner: number, spongeH: number, spongeV: number, oceanBits: number, coastU: number, coastV: number): void;
+  nlSetScalars(
+    dt: number,
+    H: number,
+    gp: number,
+    rho0: number,
+    hMin: number,
+    entrainRate: number,
+    freeSlip: number,
+    idx: number,
+    idy: number,
+    idx2: number,
+    idy2: number,
+  ): void;
+  nlSetTables(
+    fCorner: number,
+    spongeH: number,
+    spongeV: number,
+    oceanBits: number,
+    coastU: number,
+    coastV: number,
+  ): void;
   nlSetRing(U: number, V: number, q: number, B: number): void;
   nlSetFields(...pointers: number[]): void;
   nlParams(r: number, A: number, a0: number, a1: number, a2: number): void;
@@ -47,7 +66,12 @@ export interface NonlinearWasmLayout {
 const align = (p: number) => (p + 63) & ~63;
 
 /** Lay a nonlinear step out above the module's heap base, with `threads` rings, values of `value` bytes; returns the layout and the bytes it needs. */
-export function layOutNonlinear(heapBase: number, grid: { ny: number; W: number; size: number }, threads: number, value: 4 | 8 = 8): { layout: NonlinearWasmLayout; bytes: number } {
+export function layOutNonlinear(
+  heapBase: number,
+  grid: { ny: number; W: number; size: number },
+  threads: number,
+  value: 4 | 8 = 8,
+): { layout: NonlinearWasmLayout; bytes: number } {
   let at = align(heapBase);
   const take = (bytes: number) => {
     const p = at;
@@ -74,14 +98,22 @@ export function layOutNonlinear(heapBase: number, grid: { ny: number; W: number;
     tables: [take(value * (ny + 1)), take(value * ny), take(value * (ny + 1))],
     rings: Array.from({ length: threads }, () => [ring(), ring(), ring(), ring()] as [number, number, number, number]),
   };
-  if (at > 65536 * 65536) throw new RangeError(`the grid needs ${at} bytes, more than a 32-bit WebAssembly memory holds`);
+  if (at > 65536 * 65536)
+    throw new RangeError(`the grid needs ${at} bytes, more than a 32-bit WebAssembly memory holds`);
   return { layout, bytes: at };
 }
 
 /** Copy the ocean masks, coast terms and row tables into a module's memory at the layout's places (float32: c already rounded). */
-export function fillNonlinearTables(buf: ArrayBufferLike, g: NonlinearRowGrid, c: NonlinearRowCoefficients, at: NonlinearWasmLayout, precision: Precision = 'float64'): void {
+export function fillNonlinearTables(
+  buf: ArrayBufferLike,
+  g: NonlinearRowGrid,
+  c: NonlinearRowCoefficients,
+  at: NonlinearWasmLayout,
+  precision: Precision = 'float64',
+): void {
   const size = g.maskU.length;
-  const f64 = (p: number, n: number) => (precision === 'float32' ? new Float32Array(buf, p, n) : new Float64Array(buf, p, n));
+  const f64 = (p: number, n: number) =>
+    precision === 'float32' ? new Float32Array(buf, p, n) : new Float64Array(buf, p, n);
   // a mask as wide as a value: one 32-bit word per cell in float32, two in double
   const words = bytesOf(precision) / 4;
   const bits = new Int32Array(buf, at.oceanBits, words * size);
@@ -94,8 +126,15 @@ export function fillNonlinearTables(buf: ArrayBufferLike, g: NonlinearRowGrid, c
 }
 
 /** The step's fields as views of the module's memory (the sponge sums stay double). */
-export function nonlinearFieldViews(buf: ArrayBufferLike, at: NonlinearWasmLayout, size: number, ny: number, precision: Precision = 'float64'): NonlinearFields<FieldArray> {
-  const f64 = (p: number): FieldArray => (precision === 'float32' ? new Float32Array(buf, p, size) : new Float64Array(buf, p, size));
+export function nonlinearFieldViews(
+  buf: ArrayBufferLike,
+  at: NonlinearWasmLayout,
+  size: number,
+  ny: number,
+  precision: Precision = 'float64',
+): NonlinearFields<FieldArray> {
+  const f64 = (p: number): FieldArray =>
+    precision === 'float32' ? new Float32Array(buf, p, size) : new Float64Array(buf, p, size);
   const pair = (p: Pair): [FieldArray, FieldArray] => [f64(p[0]), f64(p[1])];
   return {
     u: pair(at.u),
@@ -115,9 +154,17 @@ export class WasmNonlinearRows implements NonlinearRows {
   readonly ny: number;
   private readonly x: NonlinearExports;
 
-  constructor(module: WebAssembly.Module, memory: WebAssembly.Memory, at: NonlinearWasmLayout, ring: number, g: { nx: number; ny: number; W: number }, c: NonlinearRowCoefficients) {
+  constructor(
+    module: WebAssembly.Module,
+    memory: WebAssembly.Memory,
+    at: NonlinearWasmLayout,
+    ring: number,
+    g: { nx: number; ny: number; W: number },
+    c: NonlinearRowCoefficients,
+  ) {
     this.ny = g.ny;
-    const x = (this.x = new WebAssembly.Instance(module, { env: { memory } }).exports as unknown as NonlinearExports);
+    this.x = new WebAssembly.Instance(module, { env: { memory } }).exports as unknown as NonlinearExports;
+    const x = this.x;
     x.nlSetGrid(g.nx, g.ny, g.W);
     x.nlSetScalars(c.dt, c.H, c.gp, c.rho0, c.hMin, c.entrainRate, c.freeSlip, c.idx, c.idy, c.idx2, c.idy2);
     x.nlSetTables(at.tables[0], at.tables[1], at.tables[2], at.oceanBits, at.coastU, at.coastV);
@@ -140,11 +187,23 @@ export class WasmNonlinearRows implements NonlinearRows {
 }
 
 /** The one-thread WebAssembly nonlinear rows on a memory of their own, and the fields (views of it); float32: c already rounded. */
-export function wasmNonlinearParts(g: NonlinearRowGrid, c: NonlinearRowCoefficients, precision: Precision = 'float64'): { rows: WasmNonlinearRows; fields: NonlinearFields<FieldArray> } {
+export function wasmNonlinearParts(
+  g: NonlinearRowGrid,
+  c: NonlinearRowCoefficients,
+  precision: Precision = 'float64',
+): { rows: WasmNonlinearRows; fields: NonlinearFields<FieldArray> } {
   const module = rowsWasmModule(false, precision);
   const size = g.maskU.length;
-  const { layout, bytes } = layOutNonlinear(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), { ny: g.ny, W: g.W, size }, 1, bytesOf(precision));
+  const { layout, bytes } = layOutNonlinear(
+    heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })),
+    { ny: g.ny, W: g.W, size },
+    1,
+    bytesOf(precision),
+  );
   const memory = new WebAssembly.Memory({ initial: Math.ceil(bytes / 65536) + 1 });
   fillNonlinearTables(memory.buffer, g, c, layout, precision);
-  return { rows: new WasmNonlinearRows(module, memory, layout, 0, g, c), fields: nonlinearFieldViews(memory.buffer, layout, size, g.ny, precision) };
+  return {
+    rows: new WasmNonlinearRows(module, memory, layout, 0, g, c),
+    fields: nonlinearFieldViews(memory.buffer, layout, size, g.ny, precision),
+  };
 }

@@ -97,7 +97,9 @@ export function nonlinearTendencies(
       }
       // Free slip: no shear at a corner that touches land. No slip: land velocities are 0.
       const zeta = freeSlip && wet < 4 ? 0 : (v[k] - v[k - 1]) * idx - (u[k] - u[k - W]) * idy;
-      const hq = (ocean[k] * h[k] + ocean[k - 1] * h[k - 1] + ocean[k - W] * h[k - W] + ocean[k - W - 1] * h[k - W - 1]) / wet + H;
+      const hq =
+        (ocean[k] * h[k] + ocean[k - 1] * h[k - 1] + ocean[k - W] * h[k - W] + ocean[k - W - 1] * h[k - W - 1]) / wet +
+        H;
       q[k] = (f + zeta) / Math.max(hq, STRESS_DEPTH_FLOOR);
     }
   }
@@ -167,7 +169,8 @@ export function nonlinearStep(
   const [a0, a1, a2] = AB[order];
   const dt = c.dt;
   const hist = state.history as { du: Float64Array[]; dv: Float64Array[]; dh: Float64Array[] };
-  for (const key of ['du', 'dv', 'dh'] as const) for (const n of [0, 1]) doubleField(hist[key][n], `state.history.${key}[${n}]`);
+  for (const key of ['du', 'dv', 'dh'] as const)
+    for (const n of [0, 1]) doubleField(hist[key][n], `state.history.${key}[${n}]`);
   advance(doubleField(state.u, 'state.u'), dt, a0, a1, a2, w.du, hist.du[0], hist.du[1]);
   advance(doubleField(state.v, 'state.v'), dt, a0, a1, a2, w.dv, hist.dv[0], hist.dv[1]);
   advance(doubleField(state.h, 'state.h'), dt, a0, a1, a2, w.dh, hist.dh[0], hist.dh[1]);

@@ -110,7 +110,8 @@ export function stabilityLimit(p: StabilityInput): StabilityLimit {
     };
   }
   let limitingTerm: LimitingTerm = 'gravity-wave';
-  for (const t of ['coriolis', 'viscosity', 'friction', 'sponge'] as const) if (terms[t] < terms[limitingTerm]) limitingTerm = t;
+  for (const t of ['coriolis', 'viscosity', 'friction', 'sponge'] as const)
+    if (terms[t] < terms[limitingTerm]) limitingTerm = t;
   const dtMax = terms[limitingTerm];
   return { dtMax, limitingTerm, explanation: `dt <= ${Math.floor(dtMax)} s, set by ${why[limitingTerm]}`, terms };
 }
@@ -125,7 +126,12 @@ export class StabilityError extends InputError {
  * interval, when it does not divide the interval into whole steps (records could not fall on
  * whole intervals; the message gives the nearest steps that do).
  */
-export function chooseTimeStep(limit: StabilityLimit, requested: number | null, safety: number, alignTo?: number): number {
+export function chooseTimeStep(
+  limit: StabilityLimit,
+  requested: number | null,
+  safety: number,
+  alignTo?: number,
+): number {
   const interval = alignTo && alignTo > 0 && Number.isFinite(alignTo) ? alignTo : 0;
   if (requested === null) {
     const dt = safety * limit.dtMax;
@@ -170,7 +176,8 @@ export function notDividing(dt: number, interval: number, dtMax: number): string
   const below = Math.ceil(interval / dt - 1e-9);
   const above = Math.floor(interval / dt + 1e-9);
   const exact: string[] = [`${num(interval / below)} s (${below} steps per interval)`];
-  if (above >= 1 && above !== below && fits(interval / above)) exact.push(`${num(interval / above)} s (${above} steps)`);
+  if (above >= 1 && above !== below && fits(interval / above))
+    exact.push(`${num(interval / above)} s (${above} steps)`);
   lines.push(`the nearest steps that do are ${exact.join(' and ')}`);
   if (Number.isInteger(interval)) {
     // Whole seconds are easier to write down; the nearest whole divisors of the interval.

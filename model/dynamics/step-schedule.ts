@@ -34,8 +34,12 @@ export interface StripRows {
 
 /** Contiguous strips of rows, as even as whole rows allow (the lower strips get the extra rows). */
 export function stripBounds(ny: number, strips: number): StripRows[] {
-  if (!Number.isInteger(strips) || strips < 1 || strips > ny) throw new RangeError(`cannot cut ${ny} rows into ${strips} strips`);
-  return Array.from({ length: strips }, (_, s) => ({ j0: Math.round((s * ny) / strips), j1: Math.round(((s + 1) * ny) / strips) }));
+  if (!Number.isInteger(strips) || strips < 1 || strips > ny)
+    throw new RangeError(`cannot cut ${ny} rows into ${strips} strips`);
+  return Array.from({ length: strips }, (_, s) => ({
+    j0: Math.round((s * ny) / strips),
+    j1: Math.round(((s + 1) * ny) / strips),
+  }));
 }
 
 export function stripFront(k: LinearRows, cur: number, s: StripRows): void {

@@ -16,7 +16,14 @@ import type { RowCoefficients } from './linear.ts';
 import { linearBinding, stepFields, stepFields32, TsRows, type StepFields } from './linear-rows.ts';
 import { roundRowCoefficients, TsRows32 } from './linear-rows32.ts';
 import { wasmLinearParts } from './linear-wasm.ts';
-import { nonlinearBinding, nonlinearFields, nonlinearFields32, nonlinearRowCoefficients, nonlinearRowGrid, TsNonlinearRows } from './nonlinear-rows.ts';
+import {
+  nonlinearBinding,
+  nonlinearFields,
+  nonlinearFields32,
+  nonlinearRowCoefficients,
+  nonlinearRowGrid,
+  TsNonlinearRows,
+} from './nonlinear-rows.ts';
 import { roundNonlinearCoefficients, TsNonlinearRows32 } from './nonlinear-rows32.ts';
 import { wasmNonlinearParts } from './nonlinear-wasm.ts';
 import { linearStripStep, nonlinearStripStep, runWholeStep, type StripRows, type StripStep } from './step-schedule.ts';
@@ -62,7 +69,13 @@ export class Stepper {
 }
 
 /** The one-thread step of a run's mode on the kernel asked for, in the run's precision. */
-export function createStepper(grid: Grid, c: StepCoefficients, physics: PhysicsConfig, kernel: KernelName, precision: Precision = 'float64'): Stepper {
+export function createStepper(
+  grid: Grid,
+  c: StepCoefficients,
+  physics: PhysicsConfig,
+  kernel: KernelName,
+  precision: Precision = 'float64',
+): Stepper {
   const f32 = precision === 'float32';
   if (physics.mode === 'linear') {
     // The linear mode applies the stress over the resting depth H.
@@ -74,10 +87,20 @@ export function createStepper(grid: Grid, c: StepCoefficients, physics: PhysicsC
     }
     if (f32) {
       const fields = stepFields32(grid);
-      return new Stepper('ts', linearStripStep(new TsRows32(grid, rc, fields), rc), linearBinding(grid, fields, rhoH), fields);
+      return new Stepper(
+        'ts',
+        linearStripStep(new TsRows32(grid, rc, fields), rc),
+        linearBinding(grid, fields, rhoH),
+        fields,
+      );
     }
     const fields = stepFields(grid);
-    return new Stepper('ts', linearStripStep(new TsRows(grid, c, fields), c), linearBinding(grid, fields, rhoH), fields);
+    return new Stepper(
+      'ts',
+      linearStripStep(new TsRows(grid, c, fields), c),
+      linearBinding(grid, fields, rhoH),
+      fields,
+    );
   }
   const g = nonlinearRowGrid(grid);
   const exact = nonlinearRowCoefficients(grid, c, physics);
@@ -88,8 +111,16 @@ export function createStepper(grid: Grid, c: StepCoefficients, physics: PhysicsC
   }
   if (f32) {
     const fields = nonlinearFields32(grid);
-    return new Stepper('ts', nonlinearStripStep(new TsNonlinearRows32(g, nc, fields)), nonlinearBinding(fields, nc.spongeH, c.spongeRowsH));
+    return new Stepper(
+      'ts',
+      nonlinearStripStep(new TsNonlinearRows32(g, nc, fields)),
+      nonlinearBinding(fields, nc.spongeH, c.spongeRowsH),
+    );
   }
   const fields = nonlinearFields(grid);
-  return new Stepper('ts', nonlinearStripStep(new TsNonlinearRows(g, nc, fields)), nonlinearBinding(fields, nc.spongeH, c.spongeRowsH));
+  return new Stepper(
+    'ts',
+    nonlinearStripStep(new TsNonlinearRows(g, nc, fields)),
+    nonlinearBinding(fields, nc.spongeH, c.spongeRowsH),
+  );
 }

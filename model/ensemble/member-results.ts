@@ -36,7 +36,9 @@ export function memberResults(run: RunData): MemberResults {
   // The speed of the signal from the probe it reached first: distance along the beta plane
   // (R times the angle, as the model measures it) over the time between the two arrivals.
   let first = -1;
-  arrivalDay.forEach((d, k) => Number.isFinite(d) && (first < 0 || d < arrivalDay[first]) && (first = k));
+  arrivalDay.forEach((d, k) => {
+    if (Number.isFinite(d) && (first < 0 || d < arrivalDay[first])) first = k;
+  });
   const arrivalSpeed = w.arrivals.map((a, k) => {
     if (first < 0 || k === first || !Number.isFinite(arrivalDay[k])) return NaN;
     const p = w.arrivals[first];

@@ -44,7 +44,15 @@ export class EnsembleStatistics {
   ) {}
 
   /** Bytes the accumulators take for members of this shape, before any is added. */
-  static bytesFor(groups: number, nt: number, cells: number, fields: number, hovmoller: number, nx: number, probes: number): number {
+  static bytesFor(
+    groups: number,
+    nt: number,
+    cells: number,
+    fields: number,
+    hovmoller: number,
+    nx: number,
+    probes: number,
+  ): number {
     return 16 * groups * nt * (fields * cells + hovmoller * nx + fields * probes + 1);
   }
 
@@ -70,15 +78,26 @@ export class EnsembleStatistics {
 
   /** Why a member cannot join (another grid, other times...), or null. */
   private mismatch(a: EnsembleShape, run: RunData): string | null {
-    const same = (x: ArrayLike<number>, y: ArrayLike<number>) => x.length === y.length && Array.prototype.every.call(x, (v: number, k: number) => v === y[k]);
-    if (run.grid.nx !== a.nx || run.grid.ny !== a.ny || !same(run.grid.lon, a.lon) || !same(run.grid.lat, a.lat)) return `its grid (${run.grid.nx} x ${run.grid.ny}) is not the first member's (${a.nx} x ${a.ny})`;
-    if (!same(run.grid.ocean, a.ocean)) return 'its land mask is not the first member\'s';
-    if (!same(run.days, a.days)) return `its ${run.days.length} record times are not the first member's ${a.days.length}`;
+    const same = (x: ArrayLike<number>, y: ArrayLike<number>) =>
+      x.length === y.length && Array.prototype.every.call(x, (v: number, k: number) => v === y[k]);
+    if (run.grid.nx !== a.nx || run.grid.ny !== a.ny || !same(run.grid.lon, a.lon) || !same(run.grid.lat, a.lat))
+      return `its grid (${run.grid.nx} x ${run.grid.ny}) is not the first member's (${a.nx} x ${a.ny})`;
+    if (!same(run.grid.ocean, a.ocean)) return "its land mask is not the first member's";
+    if (!same(run.days, a.days))
+      return `its ${run.days.length} record times are not the first member's ${a.days.length}`;
     const missing = a.fields.find((f) => !run.fields.includes(f));
     if (missing) return `it has no field ${missing}`;
-    if (!same(run.hovmoller.map((h) => h.rowLat), a.hovmollerRowLats)) return 'its Hovmoller rows are not the first member\'s';
-    if (run.probes.length !== a.probes.length || run.probes.some((p, k) => p.name !== a.probes[k].name)) return 'its probes are not the first member\'s';
-    if (run.snapshots.length !== run.days.length) return `it kept fields for ${run.snapshots.length} of its ${run.days.length} records`;
+    if (
+      !same(
+        run.hovmoller.map((h) => h.rowLat),
+        a.hovmollerRowLats,
+      )
+    )
+      return "its Hovmoller rows are not the first member's";
+    if (run.probes.length !== a.probes.length || run.probes.some((p, k) => p.name !== a.probes[k].name))
+      return "its probes are not the first member's";
+    if (run.snapshots.length !== run.days.length)
+      return `it kept fields for ${run.snapshots.length} of its ${run.days.length} records`;
     return null;
   }
 
@@ -113,7 +132,8 @@ export class EnsembleStatistics {
     g.hovmoller.startMember();
     const nh = s.hovmollerRowLats.length;
     for (let n = 0; n < nt; n++) {
-      for (let q = 0; q < nh; q++) g.hovmoller.addSlice((n * nh + q) * s.nx, run.hovmoller[q].values.subarray(n * s.nx, (n + 1) * s.nx));
+      for (let q = 0; q < nh; q++)
+        g.hovmoller.addSlice((n * nh + q) * s.nx, run.hovmoller[q].values.subarray(n * s.nx, (n + 1) * s.nx));
     }
     g.hovmoller.endMember();
     g.probes.startMember();

@@ -7,9 +7,28 @@
 // text). docs/ensembles.md shows the layout as ncdump prints it.
 
 import { FIELD_INFO, type FieldName } from '../diagnostics/fields.ts';
-import { NC_BYTE, NC_CHAR, NC_DOUBLE, NC_FILL_DOUBLE, NC_FLOAT, NC_INT, utf8Bytes, type NcAttributesInput, type NcFileInput, type NcVariableInput } from '../io/netcdf-format.ts';
+import {
+  NC_BYTE,
+  NC_CHAR,
+  NC_DOUBLE,
+  NC_FILL_DOUBLE,
+  NC_FLOAT,
+  NC_INT,
+  utf8Bytes,
+  type NcAttributesInput,
+  type NcFileInput,
+  type NcVariableInput,
+} from '../io/netcdf-format.ts';
 import { NetcdfWriter, type ByteSink } from '../io/netcdf-writer.ts';
-import { CELL_AREA_COMMENT, cellAreaSquareMetres, IDEALISED_NOTE, OUTPUT_FILL, PYCNO_VERSION, TIME_CALENDAR, TIME_UNITS } from '../io/run-output.ts';
+import {
+  CELL_AREA_COMMENT,
+  cellAreaSquareMetres,
+  IDEALISED_NOTE,
+  OUTPUT_FILL,
+  PYCNO_VERSION,
+  TIME_CALENDAR,
+  TIME_UNITS,
+} from '../io/run-output.ts';
 import type { MemberResults } from './member-results.ts';
 import type { EnsembleStatistics } from './statistics.ts';
 
@@ -87,17 +106,63 @@ function columnValues(c: Pick<Column, 'numeric' | 'values'>, values: readonly st
 }
 
 /** The scalar results per member: name, units, long name, and how to read it from the results. */
-export const MEMBER_SCALARS: ReadonlyArray<{ name: string; units: string; longName: string; key: keyof MemberResults; standardName?: string }> = [
-  { name: 'kelvin_speed', units: 'm s-1', longName: 'Kelvin wave speed measured on the equatorial Hovmoller row (front of the leading wave, robust line fit)', key: 'kelvinSpeed' },
-  { name: 'kelvin_speed_error', units: 'm s-1', longName: 'standard error of the measured Kelvin wave speed', key: 'kelvinSpeedError' },
-  { name: 'kelvin_speed_theory', units: 'm s-1', longName: "Kelvin wave speed in theory, c = sqrt(g' H)", key: 'kelvinSpeedTheory' },
-  { name: 'ssh_peak', units: 'm', longName: 'peak sea-level anomaly: the largest |ssh| over the ocean and every record, with its sign', key: 'sshPeak' },
+export const MEMBER_SCALARS: ReadonlyArray<{
+  name: string;
+  units: string;
+  longName: string;
+  key: keyof MemberResults;
+  standardName?: string;
+}> = [
+  {
+    name: 'kelvin_speed',
+    units: 'm s-1',
+    longName: 'Kelvin wave speed measured on the equatorial Hovmoller row (front of the leading wave, robust line fit)',
+    key: 'kelvinSpeed',
+  },
+  {
+    name: 'kelvin_speed_error',
+    units: 'm s-1',
+    longName: 'standard error of the measured Kelvin wave speed',
+    key: 'kelvinSpeedError',
+  },
+  {
+    name: 'kelvin_speed_theory',
+    units: 'm s-1',
+    longName: "Kelvin wave speed in theory, c = sqrt(g' H)",
+    key: 'kelvinSpeedTheory',
+  },
+  {
+    name: 'ssh_peak',
+    units: 'm',
+    longName: 'peak sea-level anomaly: the largest |ssh| over the ocean and every record, with its sign',
+    key: 'sshPeak',
+  },
   { name: 'ssh_peak_day', units: 'day', longName: 'model day of the peak sea-level anomaly', key: 'sshPeakDay' },
-  { name: 'ssh_peak_lon', units: 'degrees_east', longName: 'longitude of the peak sea-level anomaly', key: 'sshPeakLon' },
-  { name: 'ssh_peak_lat', units: 'degrees_north', longName: 'latitude of the peak sea-level anomaly', key: 'sshPeakLat' },
-  { name: 'energy_end', units: 'J', longName: 'total energy (kinetic + available potential) at the last record', key: 'energyEnd' },
+  {
+    name: 'ssh_peak_lon',
+    units: 'degrees_east',
+    longName: 'longitude of the peak sea-level anomaly',
+    key: 'sshPeakLon',
+  },
+  {
+    name: 'ssh_peak_lat',
+    units: 'degrees_north',
+    longName: 'latitude of the peak sea-level anomaly',
+    key: 'sshPeakLat',
+  },
+  {
+    name: 'energy_end',
+    units: 'J',
+    longName: 'total energy (kinetic + available potential) at the last record',
+    key: 'energyEnd',
+  },
   { name: 'energy_peak', units: 'J', longName: 'largest total energy of the records', key: 'energyPeak' },
-  { name: 'volume_change', units: '1', longName: 'relative change of the upper-layer volume from the first record to the last', key: 'volumeChange' },
+  {
+    name: 'volume_change',
+    units: '1',
+    longName: 'relative change of the upper-layer volume from the first record to the last',
+    key: 'volumeChange',
+  },
   { name: 'final_day', units: 'day', longName: 'model day of the last record', key: 'finalDay' },
 ];
 
@@ -114,10 +179,22 @@ export function summaryFile(s: SummaryInput): NcFileInput {
       name: 'time',
       type: NC_DOUBLE,
       dimensions: ['time'],
-      attributes: { standard_name: 'time', long_name: 'model time', units: TIME_UNITS, calendar: TIME_CALENDAR, axis: 'T', comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date' },
+      attributes: {
+        standard_name: 'time',
+        long_name: 'model time',
+        units: TIME_UNITS,
+        calendar: TIME_CALENDAR,
+        axis: 'T',
+        comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date',
+      },
     });
   }
-  vars.push({ name: 'member', type: NC_INT, dimensions: ['member'], attributes: { long_name: 'member number (the row of members.tsv in the batch folder)' } });
+  vars.push({
+    name: 'member',
+    type: NC_INT,
+    dimensions: ['member'],
+    attributes: { long_name: 'member number (the row of members.tsv in the batch folder)' },
+  });
   const taken = new Set<string>();
   const columns: Column[] = s.vary.map((v) => {
     const name = variedName(v.path, taken);
@@ -125,7 +202,10 @@ export function summaryFile(s: SummaryInput): NcFileInput {
     return { name, path: v.path, numeric: numericValues(v.values), values: v.values };
   });
   for (const c of columns) {
-    const atts: Record<string, string> = { long_name: `${c.path} of the member (--vary ${c.path})`, pycno_path: c.path };
+    const atts: Record<string, string> = {
+      long_name: `${c.path} of the member (--vary ${c.path})`,
+      pycno_path: c.path,
+    };
     if (!c.numeric) {
       atts.long_name = `${c.path} of the member (--vary ${c.path}), as its index (from 0) in the list pycno_values`;
       atts.pycno_values = JSON.stringify(c.values);
@@ -143,13 +223,21 @@ export function summaryFile(s: SummaryInput): NcFileInput {
     name: 'member_state',
     type: NC_BYTE,
     dimensions: ['member'],
-    attributes: withCoords({ long_name: 'state of the member run', flag_values: { type: NC_BYTE, values: [0, 1, 2] }, flag_meanings: MEMBER_STATES.join(' ') }),
+    attributes: withCoords({
+      long_name: 'state of the member run',
+      flag_values: { type: NC_BYTE, values: [0, 1, 2] },
+      flag_meanings: MEMBER_STATES.join(' '),
+    }),
   });
   vars.push({
     name: 'member_exit_code',
     type: NC_INT,
     dimensions: ['member'],
-    attributes: withCoords({ long_name: 'exit code of the last pycno run of the member (0 done, 1 blow-up or failure, 2 bad input; missing: never ran)', _FillValue: { type: NC_INT, values: -2147483647 } }),
+    attributes: withCoords({
+      long_name:
+        'exit code of the last pycno run of the member (0 done, 1 blow-up or failure, 2 bad input; missing: never ran)',
+      _FillValue: { type: NC_INT, values: -2147483647 },
+    }),
   });
   for (const m of MEMBER_SCALARS) {
     const a: Record<string, unknown> = { long_name: m.longName, units: m.units, _FillValue: NC_FILL_DOUBLE };
@@ -164,28 +252,76 @@ export function summaryFile(s: SummaryInput): NcFileInput {
     const strlen = Math.max(1, ...s.probes.map((p) => utf8Bytes(p.name).length));
     dims.push({ name: 'probe', length: s.probes.length }, { name: 'probe_name_length', length: strlen });
     vars.push(
-      { name: 'probe_name', type: NC_CHAR, dimensions: ['probe', 'probe_name_length'], attributes: { long_name: 'probe name', _Encoding: 'utf-8' } },
-      { name: 'probe_lon', type: NC_DOUBLE, dimensions: ['probe'], attributes: { standard_name: 'longitude', long_name: 'probe longitude as given', units: 'degrees_east' } },
-      { name: 'probe_lat', type: NC_DOUBLE, dimensions: ['probe'], attributes: { standard_name: 'latitude', long_name: 'probe latitude as given', units: 'degrees_north' } },
+      {
+        name: 'probe_name',
+        type: NC_CHAR,
+        dimensions: ['probe', 'probe_name_length'],
+        attributes: { long_name: 'probe name', _Encoding: 'utf-8' },
+      },
+      {
+        name: 'probe_lon',
+        type: NC_DOUBLE,
+        dimensions: ['probe'],
+        attributes: { standard_name: 'longitude', long_name: 'probe longitude as given', units: 'degrees_east' },
+      },
+      {
+        name: 'probe_lat',
+        type: NC_DOUBLE,
+        dimensions: ['probe'],
+        attributes: { standard_name: 'latitude', long_name: 'probe latitude as given', units: 'degrees_north' },
+      },
       {
         name: 'kelvin_arrival_day',
         type: NC_DOUBLE,
         dimensions: ['member', 'probe'],
-        attributes: withCoords({ long_name: "model day the signal arrives at the probe: h' first reaches half its largest value there", units: 'day', _FillValue: NC_FILL_DOUBLE }, arrivalCoords),
+        attributes: withCoords(
+          {
+            long_name: "model day the signal arrives at the probe: h' first reaches half its largest value there",
+            units: 'day',
+            _FillValue: NC_FILL_DOUBLE,
+          },
+          arrivalCoords,
+        ),
       },
       {
         name: 'kelvin_arrival_speed',
         type: NC_DOUBLE,
         dimensions: ['member', 'probe'],
-        attributes: withCoords({ long_name: 'mean speed of the signal from the probe it reached first to this probe (beta-plane distance over the time between the arrivals)', units: 'm s-1', _FillValue: NC_FILL_DOUBLE }, arrivalCoords),
+        attributes: withCoords(
+          {
+            long_name:
+              'mean speed of the signal from the probe it reached first to this probe (beta-plane distance over the time between the arrivals)',
+            units: 'm s-1',
+            _FillValue: NC_FILL_DOUBLE,
+          },
+          arrivalCoords,
+        ),
       },
     );
   }
   if (s.groups.length > 0) {
     dims.push({ name: 'ensemble', length: s.groups.length });
-    vars.push({ name: 'ensemble', type: NC_INT, dimensions: ['ensemble'], attributes: { long_name: 'seed ensemble: the members that share every varied value but the seed', units: '1' } });
-    vars.push({ name: 'member_ensemble', type: NC_INT, dimensions: ['member'], attributes: withCoords({ long_name: 'the seed ensemble of the member', units: '1' }) });
-    vars.push({ name: 'ensemble_members', type: NC_INT, dimensions: ['ensemble'], attributes: { long_name: 'complete members of the seed ensemble: the sample size of its mean and standard deviation', units: '1' } });
+    vars.push({
+      name: 'ensemble',
+      type: NC_INT,
+      dimensions: ['ensemble'],
+      attributes: { long_name: 'seed ensemble: the members that share every varied value but the seed', units: '1' },
+    });
+    vars.push({
+      name: 'member_ensemble',
+      type: NC_INT,
+      dimensions: ['member'],
+      attributes: withCoords({ long_name: 'the seed ensemble of the member', units: '1' }),
+    });
+    vars.push({
+      name: 'ensemble_members',
+      type: NC_INT,
+      dimensions: ['ensemble'],
+      attributes: {
+        long_name: 'complete members of the seed ensemble: the sample size of its mean and standard deviation',
+        units: '1',
+      },
+    });
     for (const c of columns) {
       if (c.path === SEED_PATH) continue;
       const atts: Record<string, string> = { long_name: `${c.path} of the seed ensemble`, pycno_path: c.path };
@@ -193,18 +329,70 @@ export function summaryFile(s: SummaryInput): NcFileInput {
         atts.long_name = `${c.path} of the seed ensemble, as its index (from 0) in the list pycno_values`;
         atts.pycno_values = JSON.stringify(c.values);
       }
-      vars.push({ name: `ensemble_${c.name}`, type: c.numeric ? NC_DOUBLE : NC_INT, dimensions: ['ensemble'], attributes: atts });
+      vars.push({
+        name: `ensemble_${c.name}`,
+        type: c.numeric ? NC_DOUBLE : NC_INT,
+        dimensions: ['ensemble'],
+        attributes: atts,
+      });
     }
   }
   if (shape) {
     dims.push({ name: 'lat', length: shape.ny }, { name: 'lon', length: shape.nx });
     vars.push(
-      { name: 'lat', type: NC_DOUBLE, dimensions: ['lat'], attributes: { standard_name: 'latitude', long_name: 'latitude of cell centres', units: 'degrees_north', axis: 'Y' } },
-      { name: 'lon', type: NC_DOUBLE, dimensions: ['lon'], attributes: { standard_name: 'longitude', long_name: 'longitude of cell centres', units: 'degrees_east', axis: 'X' } },
-      { name: 'ocean', type: NC_BYTE, dimensions: ['lat', 'lon'], attributes: { long_name: 'ocean (1) or land (0)', flag_values: { type: NC_BYTE, values: [0, 1] }, flag_meanings: 'land ocean' } },
-      { name: 'cell_area', type: NC_DOUBLE, dimensions: ['lat', 'lon'], attributes: { standard_name: 'cell_area', long_name: 'area of the grid cell', units: 'm2', comment: CELL_AREA_COMMENT } },
+      {
+        name: 'lat',
+        type: NC_DOUBLE,
+        dimensions: ['lat'],
+        attributes: {
+          standard_name: 'latitude',
+          long_name: 'latitude of cell centres',
+          units: 'degrees_north',
+          axis: 'Y',
+        },
+      },
+      {
+        name: 'lon',
+        type: NC_DOUBLE,
+        dimensions: ['lon'],
+        attributes: {
+          standard_name: 'longitude',
+          long_name: 'longitude of cell centres',
+          units: 'degrees_east',
+          axis: 'X',
+        },
+      },
+      {
+        name: 'ocean',
+        type: NC_BYTE,
+        dimensions: ['lat', 'lon'],
+        attributes: {
+          long_name: 'ocean (1) or land (0)',
+          flag_values: { type: NC_BYTE, values: [0, 1] },
+          flag_meanings: 'land ocean',
+        },
+      },
+      {
+        name: 'cell_area',
+        type: NC_DOUBLE,
+        dimensions: ['lat', 'lon'],
+        attributes: {
+          standard_name: 'cell_area',
+          long_name: 'area of the grid cell',
+          units: 'm2',
+          comment: CELL_AREA_COMMENT,
+        },
+      },
     );
-    const stat = (name: string, dimsOf: string[], units: string, longName: string, which: 'mean' | 'std', extra: Record<string, string> = {}, standardName?: string) => {
+    const stat = (
+      name: string,
+      dimsOf: string[],
+      units: string,
+      longName: string,
+      which: 'mean' | 'std',
+      extra: Record<string, string> = {},
+      standardName?: string,
+    ) => {
       const a: Record<string, unknown> = {
         long_name: `${which === 'mean' ? 'ensemble mean' : 'ensemble standard deviation (n - 1 in the denominator)'} of the ${longName}`,
         units,
@@ -216,18 +404,52 @@ export function summaryFile(s: SummaryInput): NcFileInput {
     };
     for (const f of shape.fields) {
       const info = FIELD_INFO[f];
-      for (const w of ['mean', 'std'] as const) stat(f, ['time', 'ensemble', 'lat', 'lon'], info.units, info.longName, w, { cell_measures: 'area: cell_area' }, info.standardName);
+      for (const w of ['mean', 'std'] as const)
+        stat(
+          f,
+          ['time', 'ensemble', 'lat', 'lon'],
+          info.units,
+          info.longName,
+          w,
+          { cell_measures: 'area: cell_area' },
+          info.standardName,
+        );
     }
     if (shape.hovmollerRowLats.length > 0) {
       dims.push({ name: 'hovmoller', length: shape.hovmollerRowLats.length });
-      vars.push({ name: 'hovmoller_lat', type: NC_DOUBLE, dimensions: ['hovmoller'], attributes: { standard_name: 'latitude', long_name: 'centre latitude of the model row of each Hovmoller section', units: 'degrees_north' } });
-      for (const w of ['mean', 'std'] as const) stat('hovmoller_h_anom', ['time', 'ensemble', 'hovmoller', 'lon'], 'm', `${FIELD_INFO.h_anom.longName} along the Hovmoller rows`, w, { coordinates: 'hovmoller_lat' });
+      vars.push({
+        name: 'hovmoller_lat',
+        type: NC_DOUBLE,
+        dimensions: ['hovmoller'],
+        attributes: {
+          standard_name: 'latitude',
+          long_name: 'centre latitude of the model row of each Hovmoller section',
+          units: 'degrees_north',
+        },
+      });
+      for (const w of ['mean', 'std'] as const)
+        stat(
+          'hovmoller_h_anom',
+          ['time', 'ensemble', 'hovmoller', 'lon'],
+          'm',
+          `${FIELD_INFO.h_anom.longName} along the Hovmoller rows`,
+          w,
+          { coordinates: 'hovmoller_lat' },
+        );
     }
     if (s.probes.length > 0) {
       for (const f of shape.fields) {
         const info = FIELD_INFO[f];
         // Not probe_name: CDO cannot give a text label to a (time, ensemble, probe) variable and warns.
-        for (const w of ['mean', 'std'] as const) stat(`probe_${f}`, ['time', 'ensemble', 'probe'], info.units, `${info.longName} in the model cell holding the probe`, w, { coordinates: 'probe_lat probe_lon' });
+        for (const w of ['mean', 'std'] as const)
+          stat(
+            `probe_${f}`,
+            ['time', 'ensemble', 'probe'],
+            info.units,
+            `${info.longName} in the model cell holding the probe`,
+            w,
+            { coordinates: 'probe_lat probe_lon' },
+          );
       }
     }
     for (const w of ['mean', 'std'] as const) {
@@ -235,7 +457,11 @@ export function summaryFile(s: SummaryInput): NcFileInput {
         name: `energy_${w}`,
         type: NC_DOUBLE,
         dimensions: ['time', 'ensemble'],
-        attributes: { long_name: `${w === 'mean' ? 'ensemble mean' : 'ensemble standard deviation (n - 1 in the denominator)'} of the total energy (kinetic + available potential)`, units: 'J', _FillValue: NC_FILL_DOUBLE },
+        attributes: {
+          long_name: `${w === 'mean' ? 'ensemble mean' : 'ensemble standard deviation (n - 1 in the denominator)'} of the total energy (kinetic + available potential)`,
+          units: 'J',
+          _FillValue: NC_FILL_DOUBLE,
+        },
       });
     }
   }
@@ -256,8 +482,20 @@ export function summaryFile(s: SummaryInput): NcFileInput {
       pycno_scenario: s.scenarioJson,
       pycno_scenario_canonical_sha256: s.scenarioHash,
       pycno_vary: JSON.stringify(s.vary),
-      pycno_members: JSON.stringify(s.members.map((m) => ({ member: m.id, values: m.values, file: m.file, state: m.state, exit: m.exit, message: m.message, kelvin_note: m.results?.kelvinNote ?? null }))),
-      pycno_statistics: shape ? `mean and standard deviation over the seeds of each seed ensemble, fields ${shape.fields.join(', ')}` : 'none (no seed among the varied values)',
+      pycno_members: JSON.stringify(
+        s.members.map((m) => ({
+          member: m.id,
+          values: m.values,
+          file: m.file,
+          state: m.state,
+          exit: m.exit,
+          message: m.message,
+          kelvin_note: m.results?.kelvinNote ?? null,
+        })),
+      ),
+      pycno_statistics: shape
+        ? `mean and standard deviation over the seeds of each seed ensemble, fields ${shape.fields.join(', ')}`
+        : 'none (no seed among the varied values)',
     },
   };
 }
@@ -274,22 +512,54 @@ export async function writeSummary(s: SummaryInput, sink: ByteSink): Promise<num
   const w = new NetcdfWriter(file, sink, { headerLast: true });
   await w.writeHeader();
   const byName = new Set(file.variables.map((v) => v.name));
-  await w.writeFixed('member', s.members.map((m) => m.id));
+  await w.writeFixed(
+    'member',
+    s.members.map((m) => m.id),
+  );
   const taken = new Set<string>();
   for (const v of s.vary) {
     const name = variedName(v.path, taken);
     taken.add(name);
     const c = { numeric: numericValues(v.values), values: v.values };
-    await w.writeFixed(name, columnValues(c, s.members.map((m) => m.values[v.path] ?? '')));
-    if (byName.has(`ensemble_${name}`)) await w.writeFixed(`ensemble_${name}`, columnValues(c, s.groups.map((g) => g[v.path] ?? '')));
+    await w.writeFixed(
+      name,
+      columnValues(
+        c,
+        s.members.map((m) => m.values[v.path] ?? ''),
+      ),
+    );
+    if (byName.has(`ensemble_${name}`))
+      await w.writeFixed(
+        `ensemble_${name}`,
+        columnValues(
+          c,
+          s.groups.map((g) => g[v.path] ?? ''),
+        ),
+      );
   }
-  await w.writeFixed('member_state', s.members.map((m) => MEMBER_STATES.indexOf(m.state)));
-  await w.writeFixed('member_exit_code', s.members.map((m) => (m.exit === null ? -2147483647 : m.exit)));
-  for (const m of MEMBER_SCALARS) await w.writeFixed(m.name, s.members.map((x) => fillDouble(x.results ? (x.results[m.key] as number) : NaN)));
+  await w.writeFixed(
+    'member_state',
+    s.members.map((m) => MEMBER_STATES.indexOf(m.state)),
+  );
+  await w.writeFixed(
+    'member_exit_code',
+    s.members.map((m) => (m.exit === null ? -2147483647 : m.exit)),
+  );
+  for (const m of MEMBER_SCALARS)
+    await w.writeFixed(
+      m.name,
+      s.members.map((x) => fillDouble(x.results ? (x.results[m.key] as number) : NaN)),
+    );
   if (s.probes.length > 0) {
     await w.writeFixed('probe_name', textColumn(s.probes.map((p) => p.name)).bytes);
-    await w.writeFixed('probe_lon', s.probes.map((p) => p.lon));
-    await w.writeFixed('probe_lat', s.probes.map((p) => p.lat));
+    await w.writeFixed(
+      'probe_lon',
+      s.probes.map((p) => p.lon),
+    );
+    await w.writeFixed(
+      'probe_lat',
+      s.probes.map((p) => p.lat),
+    );
     const np = s.probes.length;
     const grid = (key: 'arrivalDay' | 'arrivalSpeed') => {
       const out = new Float64Array(s.members.length * np).fill(NC_FILL_DOUBLE);
@@ -300,10 +570,19 @@ export async function writeSummary(s: SummaryInput, sink: ByteSink): Promise<num
     await w.writeFixed('kelvin_arrival_speed', grid('arrivalSpeed'));
   }
   if (s.groups.length > 0) {
-    await w.writeFixed('ensemble', s.groups.map((_, g) => g + 1));
-    await w.writeFixed('member_ensemble', s.members.map((m) => m.group + 1));
+    await w.writeFixed(
+      'ensemble',
+      s.groups.map((_, g) => g + 1),
+    );
+    await w.writeFixed(
+      'member_ensemble',
+      s.members.map((m) => m.group + 1),
+    );
     const stats = s.statistics;
-    await w.writeFixed('ensemble_members', s.groups.map((_, g) => stats?.groups[g]?.energy.count ?? 0));
+    await w.writeFixed(
+      'ensemble_members',
+      s.groups.map((_, g) => stats?.groups[g]?.energy.count ?? 0),
+    );
   }
   const shape = s.statistics?.shape;
   if (shape && s.statistics) {
@@ -311,7 +590,10 @@ export async function writeSummary(s: SummaryInput, sink: ByteSink): Promise<num
     await w.writeFixed('lat', shape.lat);
     await w.writeFixed('lon', shape.lon);
     await w.writeFixed('ocean', shape.ocean);
-    await w.writeFixed('cell_area', new Float64Array(shape.nx * shape.ny).fill(cellAreaSquareMetres({ grid: shape, scenarioJson: s.scenarioJson })));
+    await w.writeFixed(
+      'cell_area',
+      new Float64Array(shape.nx * shape.ny).fill(cellAreaSquareMetres({ grid: shape, scenarioJson: s.scenarioJson })),
+    );
     const nh = shape.hovmollerRowLats.length;
     if (nh > 0) await w.writeFixed('hovmoller_lat', shape.hovmollerRowLats);
     const G = st.groups.length;

@@ -74,7 +74,10 @@ export function readSummary(bytes: Uint8Array, label = 'the file'): SummaryData 
     const a = f.attributes[name];
     return a && typeof a.value === 'string' ? a.value : undefined;
   };
-  if (text('pycno_file') !== SUMMARY_FILE_KIND) throw new SummaryFileError(`${label}: not a Pycno sweep summary (its pycno_file is ${JSON.stringify(text('pycno_file') ?? null)})`);
+  if (text('pycno_file') !== SUMMARY_FILE_KIND)
+    throw new SummaryFileError(
+      `${label}: not a Pycno sweep summary (its pycno_file is ${JSON.stringify(text('pycno_file') ?? null)})`,
+    );
   const has = (n: string) => f.variables.some((v) => v.name === n);
   const nums = (n: string): Float64Array => {
     if (!has(n)) throw new SummaryFileError(`${label}: damaged sweep summary: variable '${n}' is missing`);
@@ -83,7 +86,14 @@ export function readSummary(bytes: Uint8Array, label = 'the file'): SummaryData 
     return v;
   };
   let vary: SummaryData['vary'];
-  let listed: Array<{ member: number; values: Record<string, string>; file: string; state: string; exit: number | null; message: string | null }>;
+  let listed: Array<{
+    member: number;
+    values: Record<string, string>;
+    file: string;
+    state: string;
+    exit: number | null;
+    message: string | null;
+  }>;
   try {
     vary = JSON.parse(text('pycno_vary') ?? 'null');
     listed = JSON.parse(text('pycno_members') ?? 'null');
@@ -92,14 +102,23 @@ export function readSummary(bytes: Uint8Array, label = 'the file'): SummaryData 
     throw new SummaryFileError(`${label}: damaged sweep summary: ${(e as Error).message}`);
   }
   const ids = nums('member');
-  if (listed.length !== ids.length) throw new SummaryFileError(`${label}: damaged sweep summary: pycno_members lists ${listed.length} members, the file has ${ids.length}`);
+  if (listed.length !== ids.length)
+    throw new SummaryFileError(
+      `${label}: damaged sweep summary: pycno_members lists ${listed.length} members, the file has ${ids.length}`,
+    );
   const state = nums('member_state');
-  const scalars = Object.fromEntries(MEMBER_SCALARS.filter((m) => has(m.name)).map((m) => [m.name, clean(nums(m.name))]));
+  const scalars = Object.fromEntries(
+    MEMBER_SCALARS.filter((m) => has(m.name)).map((m) => [m.name, clean(nums(m.name))]),
+  );
   const probeNames = has('probe_name') ? (f.variable('probe_name').values as string) : '';
   const np = has('probe_lon') ? nums('probe_lon').length : 0;
   const width = f.dimensions.find((d) => d.name === 'probe_name_length')?.length ?? 1;
   const names = np ? splitNames(probeNames, np, width) : [];
-  const probes = Array.from({ length: np }, (_, p) => ({ name: names[p], lon: nums('probe_lon')[p], lat: nums('probe_lat')[p] }));
+  const probes = Array.from({ length: np }, (_, p) => ({
+    name: names[p],
+    lon: nums('probe_lon')[p],
+    lat: nums('probe_lat')[p],
+  }));
   const arrivals = np ? clean(nums('kelvin_arrival_day')) : new Float64Array(0);
   const memberGroup = has('member_ensemble') ? nums('member_ensemble') : null;
   const members: SummaryMemberRead[] = listed.map((m, k) => ({
@@ -138,7 +157,8 @@ export function readSummary(bytes: Uint8Array, label = 'the file'): SummaryData 
       // (time, ensemble, inner, width) -> the rows of group g, inner index q: nt x width values.
       const v = nums(name);
       const out = new Float64Array(nt * width);
-      for (let n = 0; n < nt; n++) for (let i = 0; i < width; i++) out[n * width + i] = v[((n * G + g) * inner + q) * width + i];
+      for (let n = 0; n < nt; n++)
+        for (let i = 0; i < width; i++) out[n * width + i] = v[((n * G + g) * inner + q) * width + i];
       return clean(out);
     };
     for (let g = 0; g < G; g++) {
@@ -170,7 +190,17 @@ export function readSummary(bytes: Uint8Array, label = 'the file'): SummaryData 
       });
     }
   }
-  return { title: (text('title') ?? '').replace(/^Sweep summary: /, ''), scenarioJson: text('pycno_scenario') ?? '', vary, members, probes, days, lon, hovmollerLat, groups };
+  return {
+    title: (text('title') ?? '').replace(/^Sweep summary: /, ''),
+    scenarioJson: text('pycno_scenario') ?? '',
+    vary,
+    members,
+    probes,
+    days,
+    lon,
+    hovmollerLat,
+    groups,
+  };
 }
 
 /** The probe names of a char (probe, width) variable, read as one text: re-encoded, cut by bytes. */

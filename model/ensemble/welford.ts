@@ -34,7 +34,8 @@ export class WelfordAccumulator {
   /** Values [offset, offset + values.length) of the member being added. */
   addSlice(offset: number, values: ArrayLike<number>): void {
     if (!this.open) throw new Error('WelfordAccumulator: startMember() first');
-    if (offset < 0 || offset + values.length > this.length) throw new RangeError(`WelfordAccumulator: slice ${offset}..${offset + values.length} outside 0..${this.length}`);
+    if (offset < 0 || offset + values.length > this.length)
+      throw new RangeError(`WelfordAccumulator: slice ${offset}..${offset + values.length} outside 0..${this.length}`);
     const n = this.count + 1;
     const mean = this.mean;
     const m2 = this.m2;
@@ -50,7 +51,8 @@ export class WelfordAccumulator {
 
   endMember(): void {
     if (!this.open) throw new Error('WelfordAccumulator: no member was started');
-    if (this.given !== this.length) throw new Error(`WelfordAccumulator: the member gave ${this.given} values, expected ${this.length}`);
+    if (this.given !== this.length)
+      throw new Error(`WelfordAccumulator: the member gave ${this.given} values, expected ${this.length}`);
     this.open = false;
     this.count++;
   }

@@ -21,7 +21,7 @@ export const LP81_HIGH = 25;
  */
 export function largePondDrag(speed: number): number {
   if (speed < LP81_KNEE) return 1.2e-3;
-  const u = Math.min(speed , LP81_HIGH);
+  const u = Math.min(speed, LP81_HIGH);
   return (0.49 + 0.065 * u) * 1e-3;
 }
 

@@ -63,10 +63,13 @@ export function drawBursts(part: BurstsPart, seed: string, index = 0): DrawnBurs
   const latWidth = range('latWidth', part.latWidth, true);
   const duration = range('duration', part.duration, true);
   const ramp = part.ramp;
-  if (!(typeof ramp === 'number' && ramp >= 0 && Number.isFinite(ramp))) throw new ForcingError(`bursts ramp must be a number >= 0 (got ${String(ramp)})`);
+  if (!(typeof ramp === 'number' && ramp >= 0 && Number.isFinite(ramp)))
+    throw new ForcingError(`bursts ramp must be a number >= 0 (got ${String(ramp)})`);
   const expected = (rate * (w1 - w0)) / 365;
   if (expected > MAX_BURSTS / 2) {
-    throw new ForcingError(`bursts: ${expected.toFixed(0)} bursts expected in the window; at most ${MAX_BURSTS / 2} are supported`);
+    throw new ForcingError(
+      `bursts: ${expected.toFixed(0)} bursts expected in the window; at most ${MAX_BURSTS / 2} are supported`,
+    );
   }
   const out: DrawnBurst[] = [];
   if (rate === 0) return out;

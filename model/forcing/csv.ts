@@ -73,20 +73,30 @@ export function parseWindCsv(content: string | Uint8Array): GriddedSeries {
       headerLine = lineNo;
       header.forEach((name, k) => {
         if (!COLUMNS.has(name)) {
-          throw new ForcingError(`CSV line ${lineNo}, column ${k + 1}: the header names a column other than lon, lat, x, y and day (the first line that is not blank or a # comment must be the header lon,lat,x,y or lon,lat,day,x,y)`);
+          throw new ForcingError(
+            `CSV line ${lineNo}, column ${k + 1}: the header names a column other than lon, lat, x, y and day (the first line that is not blank or a # comment must be the header lon,lat,x,y or lon,lat,day,x,y)`,
+          );
         }
-        if (name in col) throw new ForcingError(`CSV line ${lineNo}, column ${k + 1}: column '${name}' appears twice in the header`);
+        if (name in col)
+          throw new ForcingError(`CSV line ${lineNo}, column ${k + 1}: column '${name}' appears twice in the header`);
         col[name] = k;
       });
-      for (const r of REQUIRED) if (!(r in col)) throw new ForcingError(`CSV line ${lineNo}: the header has no '${r}' column (expected lon, lat, x, y and optionally day)`);
+      for (const r of REQUIRED)
+        if (!(r in col))
+          throw new ForcingError(
+            `CSV line ${lineNo}: the header has no '${r}' column (expected lon, lat, x, y and optionally day)`,
+          );
       continue;
     }
     if (fields.length !== header.length) {
-      throw new ForcingError(`CSV line ${lineNo}: ${fields.length} values, but the header (line ${headerLine}) names ${header.length} columns`);
+      throw new ForcingError(
+        `CSV line ${lineNo}: ${fields.length} values, but the header (line ${headerLine}) names ${header.length} columns`,
+      );
     }
     const row = fields.map((f, k) => {
       const v = f === '' ? NaN : Number(f);
-      if (!Number.isFinite(v)) throw new ForcingError(`CSV line ${lineNo}, column ${k + 1} ('${header![k]}'): the value ${notNumber(f, v)}`);
+      if (!Number.isFinite(v))
+        throw new ForcingError(`CSV line ${lineNo}, column ${k + 1} ('${header![k]}'): the value ${notNumber(f, v)}`);
       return v;
     });
     rows.push(row);

@@ -12,7 +12,8 @@ export interface Envelope {
 }
 
 function finite(name: string, v: unknown): number {
-  if (typeof v !== 'number' || !Number.isFinite(v)) throw new ForcingError(`envelope ${name} must be a finite number (got ${String(v)})`);
+  if (typeof v !== 'number' || !Number.isFinite(v))
+    throw new ForcingError(`envelope ${name} must be a finite number (got ${String(v)})`);
   return v;
 }
 
@@ -33,16 +34,20 @@ export function compileEnvelope(spec: EnvelopeSpec): Envelope {
       if (duration < 0) throw new ForcingError(`ramp duration must not be negative (got ${duration})`);
       const end = start + duration;
       if (spec.direction === 'down') return { constant: false, at: (t) => 1 - rise(t, start, end) };
-      if (spec.direction !== 'up') throw new ForcingError(`ramp direction must be 'up' or 'down' (got ${String(spec.direction)})`);
+      if (spec.direction !== 'up')
+        throw new ForcingError(`ramp direction must be 'up' or 'down' (got ${String(spec.direction)})`);
       return { constant: false, at: (t) => rise(t, start, end) };
     }
     case 'pulse': {
       const start = finite('pulse start', spec.start);
       const duration = finite('pulse duration', spec.duration);
       const ramp = finite('pulse ramp', spec.ramp);
-      if (duration < 0 || ramp < 0) throw new ForcingError(`pulse duration and ramp must not be negative (got ${duration}, ${ramp})`);
+      if (duration < 0 || ramp < 0)
+        throw new ForcingError(`pulse duration and ramp must not be negative (got ${duration}, ${ramp})`);
       if (ramp > duration / 2) {
-        throw new ForcingError(`pulse ramp (${ramp} days) must be at most half the duration (${duration} days): both ramps lie inside it`);
+        throw new ForcingError(
+          `pulse ramp (${ramp} days) must be at most half the duration (${duration} days): both ramps lie inside it`,
+        );
       }
       return { constant: false, at: (t) => pulseFactor(t, start, duration, ramp) };
     }
@@ -69,7 +74,8 @@ export function compileEnvelope(spec: EnvelopeSpec): Envelope {
     }
     case 'table': {
       const pts = spec.points;
-      if (!Array.isArray(pts) || pts.length === 0) throw new ForcingError('an envelope table needs at least one [day, factor] point');
+      if (!Array.isArray(pts) || pts.length === 0)
+        throw new ForcingError('an envelope table needs at least one [day, factor] point');
       const days = new Float64Array(pts.length);
       const vals = new Float64Array(pts.length);
       pts.forEach(([d, v], k) => {
@@ -77,7 +83,9 @@ export function compileEnvelope(spec: EnvelopeSpec): Envelope {
         vals[k] = finite(`table point ${k} factor`, v);
         // Equal days are allowed: they make a jump (the later point wins from that day on).
         if (k > 0 && days[k] < days[k - 1]) {
-          throw new ForcingError(`envelope table days must not decrease (point ${k}: day ${days[k]} after day ${days[k - 1]})`);
+          throw new ForcingError(
+            `envelope table days must not decrease (point ${k}: day ${days[k]} after day ${days[k - 1]})`,
+          );
         }
       });
       if (vals.every((v) => v === vals[0])) {

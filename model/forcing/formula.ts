@@ -98,10 +98,22 @@ interface FunctionEntry {
 }
 
 function fixed1(f: (a: number) => number): FunctionEntry {
-  return { arity: [1, 1], make: ([a]) => (x, y, t) => f(a(x, y, t)) };
+  return {
+    arity: [1, 1],
+    make:
+      ([a]) =>
+      (x, y, t) =>
+        f(a(x, y, t)),
+  };
 }
 function fixed2(f: (a: number, b: number) => number): FunctionEntry {
-  return { arity: [2, 2], make: ([a, b]) => (x, y, t) => f(a(x, y, t), b(x, y, t)) };
+  return {
+    arity: [2, 2],
+    make:
+      ([a, b]) =>
+      (x, y, t) =>
+        f(a(x, y, t), b(x, y, t)),
+  };
 }
 
 const FUNCTIONS = new Map<string, FunctionEntry>([
@@ -225,7 +237,30 @@ const CHAIN_CLASS = new Map<string, number>([
 ]);
 
 /** Words of JavaScript that a formula might borrow; none is part of the formula language. */
-const JS_WORDS = new Set(['new', 'typeof', 'instanceof', 'in', 'return', 'delete', 'void', 'function', 'var', 'let', 'const', 'class', 'import', 'export', 'await', 'async', 'yield', 'throw', 'super', 'with', 'eval', 'Function']);
+const JS_WORDS = new Set([
+  'new',
+  'typeof',
+  'instanceof',
+  'in',
+  'return',
+  'delete',
+  'void',
+  'function',
+  'var',
+  'let',
+  'const',
+  'class',
+  'import',
+  'export',
+  'await',
+  'async',
+  'yield',
+  'throw',
+  'super',
+  'with',
+  'eval',
+  'Function',
+]);
 
 /** Operators jsep knows that we refuse, with a hint where there is an obvious alternative. */
 const BINARY_HINTS = new Map<string, string>([
@@ -256,10 +291,11 @@ function arithmetic(op: string, a: Closure, b: Closure): Closure | null {
     if (op === '-') return (x, y, t) => a(x, y, t) - cb;
     if (op === '*') return (x, y, t) => a(x, y, t) * cb;
     if (op === '/') return (x, y, t) => a(x, y, t) / cb;
-    if (op === '**' && cb === 2) return (x, y, t) => {
-      const v = a(x, y, t);
-      return v * v;
-    };
+    if (op === '**' && cb === 2)
+      return (x, y, t) => {
+        const v = a(x, y, t);
+        return v * v;
+      };
     if (op === '**') return (x, y, t) => pm.pow(a(x, y, t), cb);
   } else if (ca !== undefined) {
     if (op === '+') return (x, y, t) => ca + b(x, y, t);
@@ -316,7 +352,8 @@ export function compileFormula(source: string): CompiledFormula {
     if (typeof e.index === 'number') {
       let what = typeof e.description === 'string' ? e.description : String(e.message);
       // jsep names the power it was handed; the formula wrote '^' (e.g. "lat^^2").
-      if (parser.lastWritten === '^' && what === 'Expected expression after **') what = "'^' must be followed by a number, a name or a bracket";
+      if (parser.lastWritten === '^' && what === 'Expected expression after **')
+        what = "'^' must be followed by a number, a name or a bracket";
       throw new FormulaError(`syntax error at character ${e.index}: ${what}`, e.index);
     }
     throw new FormulaError(`syntax error: ${String(e.message ?? err)}`, -1);
@@ -357,7 +394,11 @@ export function compileFormula(source: string): CompiledFormula {
         const c = CONSTANTS.get(name);
         if (c !== undefined) return constant(c);
         if (FUNCTIONS.has(name)) return fail(`'${name}' is a function: write ${name}( ... )`, node);
-        if (JS_WORDS.has(name)) return fail(`unknown name '${name}' (a word of JavaScript; formulas know only numbers, lon, lat, t, pi, e, operators and the functions of docs/wind.md)`, node);
+        if (JS_WORDS.has(name))
+          return fail(
+            `unknown name '${name}' (a word of JavaScript; formulas know only numbers, lon, lat, t, pi, e, operators and the functions of docs/wind.md)`,
+            node,
+          );
         return fail(`unknown name '${name}'`, node);
       }
       case 'UnaryExpression': {
@@ -385,7 +426,10 @@ export function compileFormula(source: string): CompiledFormula {
         const make = BINARY.get(op);
         if (!make) return fail(`operator '${op}' is not allowed`, left);
         // Along a chain of one precedence (a + b - c + ...) the left operand is no deeper.
-        const chained = left.type === 'BinaryExpression' && CHAIN_CLASS.get(op) !== undefined && CHAIN_CLASS.get(left.operator as string) === CHAIN_CLASS.get(op);
+        const chained =
+          left.type === 'BinaryExpression' &&
+          CHAIN_CLASS.get(op) !== undefined &&
+          CHAIN_CLASS.get(left.operator as string) === CHAIN_CLASS.get(op);
         const a = build(left, chained ? level : level + 1);
         const b = build(right, level + 1);
         const general = make(a, b);
@@ -415,10 +459,7 @@ export function compileFormula(source: string): CompiledFormula {
         const [lo, hi] = entry.arity;
         if (args.length < lo || args.length > hi) {
           const want = lo === hi ? `${lo}` : hi === Infinity ? `at least ${lo}` : `${lo} to ${hi}`;
-          return fail(
-            `${name}() takes ${want} argument${lo === 1 && hi === 1 ? '' : 's'}, got ${args.length}`,
-            node,
-          );
+          return fail(`${name}() takes ${want} argument${lo === 1 && hi === 1 ? '' : 's'}, got ${args.length}`, node);
         }
         const built = args.map((a) => build(a, level + 1));
         return folded(entry.make(built), built);
@@ -431,10 +472,16 @@ export function compileFormula(source: string): CompiledFormula {
         let before = second - 1;
         while (before >= 0 && /\s/.test(source[before])) before--;
         if (before >= 0 && (source[before] === ',' || source[before] === ';')) {
-          throw new FormulaError(`a formula must be a single expression (found several separated by commas or semicolons) at character ${before}`, before);
+          throw new FormulaError(
+            `a formula must be a single expression (found several separated by commas or semicolons) at character ${before}`,
+            before,
+          );
         }
         build(body[0], level + 1); // an unknown name or word first is the mistake
-        throw new FormulaError(`an operator is missing before character ${second} (a formula is one expression: two values side by side need + - * / or ^ between them)`, second);
+        throw new FormulaError(
+          `an operator is missing before character ${second} (a formula is one expression: two values side by side need + - * / or ^ between them)`,
+          second,
+        );
       }
       default:
         return fail(describe(node), node);

@@ -29,20 +29,28 @@ function shown(v: unknown): string {
 }
 
 function checkAxis(what: string, start: number, step: number, n: number): void {
-  if (!Number.isInteger(n) || n < 1) throw new ForcingError(`${what}: the number of points must be a positive whole number (got ${shown(n)})`);
-  if (typeof start !== 'number' || !Number.isFinite(start)) throw new ForcingError(`${what}: the first coordinate must be a finite number (got ${shown(start)})`);
-  if (n > 1 && !(typeof step === 'number' && step > 0 && Number.isFinite(step))) throw new ForcingError(`${what}: the spacing must be positive (got ${shown(step)})`);
+  if (!Number.isInteger(n) || n < 1)
+    throw new ForcingError(`${what}: the number of points must be a positive whole number (got ${shown(n)})`);
+  if (typeof start !== 'number' || !Number.isFinite(start))
+    throw new ForcingError(`${what}: the first coordinate must be a finite number (got ${shown(start)})`);
+  if (n > 1 && !(typeof step === 'number' && step > 0 && Number.isFinite(step)))
+    throw new ForcingError(`${what}: the spacing must be positive (got ${shown(step)})`);
 }
 
 /** Check a painted grid and turn it into a one-slice series. */
 export function seriesFromGrid(g: GriddedVectors, what = 'painted grid'): GriddedSeries {
-  if (g === null || typeof g !== 'object' || Array.isArray(g)) throw new ForcingError(`${what}: expected an object { lon0, lat0, dLon, dLat, nLon, nLat, x, y } (got ${shown(g)})`);
+  if (g === null || typeof g !== 'object' || Array.isArray(g))
+    throw new ForcingError(
+      `${what}: expected an object { lon0, lat0, dLon, dLat, nLon, nLat, x, y } (got ${shown(g)})`,
+    );
   checkAxis(`${what} longitude`, g.lon0, g.dLon, g.nLon);
   checkAxis(`${what} latitude`, g.lat0, g.dLat, g.nLat);
   const n = g.nLon * g.nLat;
   if (!Array.isArray(g.x) || !Array.isArray(g.y) || g.x.length !== n || g.y.length !== n) {
     const len = (a: unknown) => (Array.isArray(a) ? String(a.length) : `no list but ${shown(a)}`);
-    throw new ForcingError(`${what}: x and y must hold nLat * nLon = ${n} values each (got ${len(g.x)} and ${len(g.y)})`);
+    throw new ForcingError(
+      `${what}: x and y must hold nLat * nLon = ${n} values each (got ${len(g.x)} and ${len(g.y)})`,
+    );
   }
   const x = Float64Array.from(g.x);
   const y = Float64Array.from(g.y);
@@ -50,10 +58,23 @@ export function seriesFromGrid(g: GriddedVectors, what = 'painted grid'): Gridde
     if (!Number.isFinite(x[k]) || !Number.isFinite(y[k])) {
       const i = k % g.nLon;
       const j = Math.floor(k / g.nLon);
-      throw new ForcingError(`${what}: value ${k} (lon ${g.lon0 + i * g.dLon}, lat ${g.lat0 + j * g.dLat}) is not a finite number`);
+      throw new ForcingError(
+        `${what}: value ${k} (lon ${g.lon0 + i * g.dLon}, lat ${g.lat0 + j * g.dLat}) is not a finite number`,
+      );
     }
   }
-  return { lon0: g.lon0, lat0: g.lat0, dLon: g.dLon, dLat: g.dLat, nLon: g.nLon, nLat: g.nLat, days: null, x: [x], y: [y], missing: 0 };
+  return {
+    lon0: g.lon0,
+    lat0: g.lat0,
+    dLon: g.dLon,
+    dLat: g.dLat,
+    nLon: g.nLon,
+    nLat: g.nLat,
+    days: null,
+    x: [x],
+    y: [y],
+    missing: 0,
+  };
 }
 
 /** Precomputed bilinear weights of a set of points in a data grid: 4 corners per point. */
@@ -94,7 +115,13 @@ export function bilinearWeights(s: GriddedSeries, lons: ArrayLike<number>, lats:
 }
 
 /** out[p] (+)= scale * (data interpolated at point p). */
-export function applyWeights(w: Weights, data: Float64Array, out: Float64Array, scale: number, accumulate: boolean): void {
+export function applyWeights(
+  w: Weights,
+  data: Float64Array,
+  out: Float64Array,
+  scale: number,
+  accumulate: boolean,
+): void {
   const { corner: c, weight: wt } = w;
   for (let p = 0, q = 0; p < w.n; p++, q += 4) {
     const v = wt[q] * data[c[q]] + wt[q + 1] * data[c[q + 1]] + wt[q + 2] * data[c[q + 2]] + wt[q + 3] * data[c[q + 3]];
@@ -177,18 +204,31 @@ export function readNetcdfVectors(bytes: Uint8Array, opts: NetcdfVectorOptions =
   const dims = reader.dimensions;
   const vars = reader.variables as unknown as NcVariable[];
   const coord = (v: NcVariable) => v.dimensions.length === 1 && dims[v.dimensions[0]].name === v.name;
-  const units = (v: NcVariable) => String(attr(v, 'units') ?? '').trim().toLowerCase();
+  const units = (v: NcVariable) =>
+    String(attr(v, 'units') ?? '')
+      .trim()
+      .toLowerCase();
   const findCoord = (unitNames: string[], names: string[]) =>
-    vars.find((v) => coord(v) && unitNames.includes(units(v))) ?? vars.find((v) => coord(v) && names.includes(v.name.toLowerCase()));
+    vars.find((v) => coord(v) && unitNames.includes(units(v))) ??
+    vars.find((v) => coord(v) && names.includes(v.name.toLowerCase()));
   const lonVar = findCoord(['degrees_east', 'degree_east', 'degree_e', 'degrees_e'], ['lon', 'longitude']);
   const latVar = findCoord(['degrees_north', 'degree_north', 'degree_n', 'degrees_n'], ['lat', 'latitude']);
-  if (!lonVar || !latVar) throw new ForcingError('NetCDF file: no longitude or latitude coordinate variable (units degrees_east / degrees_north)');
+  if (!lonVar || !latVar)
+    throw new ForcingError(
+      'NetCDF file: no longitude or latitude coordinate variable (units degrees_east / degrees_north)',
+    );
   const pick = (given: string | undefined, defaults: string[], what: string): NcVariable => {
     const names = given ? [given] : defaults;
     const v = vars.find((c) => names.includes(c.name));
     if (!v) {
-      const have = vars.filter((c) => !coord(c)).map((c) => c.name).join(', ') || 'none';
-      throw new ForcingError(`NetCDF file: no ${what} variable named ${names.map((s) => `'${s}'`).join(' or ')} (data variables: ${have})`);
+      const have =
+        vars
+          .filter((c) => !coord(c))
+          .map((c) => c.name)
+          .join(', ') || 'none';
+      throw new ForcingError(
+        `NetCDF file: no ${what} variable named ${names.map((s) => `'${s}'`).join(' or ')} (data variables: ${have})`,
+      );
     }
     return v;
   };
@@ -224,7 +264,9 @@ export function readNetcdfVectors(bytes: Uint8Array, opts: NetcdfVectorOptions =
     for (let k = 1; k < n; k++) {
       // Coordinates are often float32: allow a relative slack well above its precision.
       if (!(Math.abs(v[k] - v[k - 1] - step) <= 1e-3 * Math.abs(step))) {
-        throw new ForcingError(`NetCDF file: the ${what} axis is not evenly spaced (${v[k - 1]} to ${v[k]}; expected steps of ${step})`);
+        throw new ForcingError(
+          `NetCDF file: the ${what} axis is not evenly spaced (${v[k - 1]} to ${v[k]}; expected steps of ${step})`,
+        );
       }
     }
     return { start: v[0], step, reversed };
@@ -240,11 +282,14 @@ export function readNetcdfVectors(bytes: Uint8Array, opts: NetcdfVectorOptions =
     if (d.length === 2 && d[0] === latDim && d[1] === lonDim) return null;
     if (d.length === 3 && d[1] === latDim && d[2] === lonDim) return d[0];
     const names = d.map((k) => dims[k].name).join(', ');
-    throw new ForcingError(`NetCDF file: variable '${v.name}' has dimensions (${names}); expected (${dims[latDim].name}, ${dims[lonDim].name}) or (time, ${dims[latDim].name}, ${dims[lonDim].name})`);
+    throw new ForcingError(
+      `NetCDF file: variable '${v.name}' has dimensions (${names}); expected (${dims[latDim].name}, ${dims[lonDim].name}) or (time, ${dims[latDim].name}, ${dims[lonDim].name})`,
+    );
   };
   const tDimX = layout(xVar);
   const tDimY = layout(yVar);
-  if (tDimX !== tDimY) throw new ForcingError(`NetCDF file: '${xVar.name}' and '${yVar.name}' do not share the same dimensions`);
+  if (tDimX !== tDimY)
+    throw new ForcingError(`NetCDF file: '${xVar.name}' and '${yVar.name}' do not share the same dimensions`);
   let days: Float64Array | null = null;
   let nT = 1;
   if (tDimX !== null) {
@@ -253,12 +298,14 @@ export function readNetcdfVectors(bytes: Uint8Array, opts: NetcdfVectorOptions =
     if (!tVar) throw new ForcingError(`NetCDF file: the time dimension '${tName}' has no coordinate variable`);
     const u = String(attr(tVar, 'units') ?? '');
     const factor = DAY_FACTORS.find(([re]) => re.test(u))?.[1];
-    if (factor === undefined) throw new ForcingError(`NetCDF file: time units '${u}' are not '<days|hours|minutes|seconds> since <date>'`);
+    if (factor === undefined)
+      throw new ForcingError(`NetCDF file: time units '${u}' are not '<days|hours|minutes|seconds> since <date>'`);
     const t = numbers(tVar).map((x) => x * factor);
     nT = t.length;
     if (nT === 0) throw new ForcingError('NetCDF file: the time axis is empty');
     for (let k = 1; k < nT; k++) {
-      if (!(t[k] > t[k - 1])) throw new ForcingError(`NetCDF file: times must increase (step ${k}: ${t[k - 1]} then ${t[k]} days)`);
+      if (!(t[k] > t[k - 1]))
+        throw new ForcingError(`NetCDF file: times must increase (step ${k}: ${t[k - 1]} then ${t[k]} days)`);
     }
     days = Float64Array.from(t);
   }

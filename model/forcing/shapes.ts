@@ -15,7 +15,8 @@ export interface Shape {
 }
 
 function num(name: string, v: unknown): number {
-  if (typeof v !== 'number' || !Number.isFinite(v)) throw new ForcingError(`${name} must be a finite number (got ${String(v)})`);
+  if (typeof v !== 'number' || !Number.isFinite(v))
+    throw new ForcingError(`${name} must be a finite number (got ${String(v)})`);
   return v;
 }
 function positive(name: string, v: unknown): number {

@@ -16,7 +16,15 @@ import { ForcingError } from './errors.ts';
 import { compileEnvelope, pulseFactor, type Envelope } from './envelopes.ts';
 import { compileShape, type Shape } from './shapes.ts';
 import { makeBulkFormula } from './bulk.ts';
-import { applyWeights, bilinearWeights, readNetcdfVectors, seriesFromGrid, timeBracket, type GriddedSeries, type Weights } from './gridded.ts';
+import {
+  applyWeights,
+  bilinearWeights,
+  readNetcdfVectors,
+  seriesFromGrid,
+  timeBracket,
+  type GriddedSeries,
+  type Weights,
+} from './gridded.ts';
 import { parseWindCsv } from './csv.ts';
 import { drawBursts, type DrawnBurst } from './bursts.ts';
 import { AnsweringWind } from '../coupling/answering-wind.ts';
@@ -145,7 +153,8 @@ function shapedTerm(
   const shape = compileShape(src.shape);
   const x = src.x;
   const y = src.y;
-  if (!Number.isFinite(x) || !Number.isFinite(y)) throw new ForcingError(`the direction (x, y) must be finite numbers (got ${x}, ${y})`);
+  if (!Number.isFinite(x) || !Number.isFinite(y))
+    throw new ForcingError(`the direction (x, y) must be finite numbers (got ${x}, ${y})`);
   const su = new Float64Array(u.n);
   const sv = new Float64Array(v.n);
   // Static shapes are evaluated here, once; a formula in t is re-evaluated at each update (this
@@ -278,9 +287,9 @@ export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptio
         if (e instanceof ForcingError) throw new ForcingError(`the wind file ${src.path}: ${e.message}`);
         throw e;
       }
-    }
-    else if (src.format === 'netcdf') {
-      if (typeof content === 'string') throw new ForcingError(`the NetCDF file '${src.path}' must be given as bytes, not text`);
+    } else if (src.format === 'netcdf') {
+      if (typeof content === 'string')
+        throw new ForcingError(`the NetCDF file '${src.path}' must be given as bytes, not text`);
       series = readNetcdfVectors(content, { xVariable: src.xVariable, yVariable: src.yVariable });
     } else throw new ForcingError(`unknown file format '${String((src as { format: unknown }).format)}'`);
     parsedFiles.set(key, series);
@@ -319,7 +328,8 @@ export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptio
         const env = compileEnvelope(fixed.envelope);
         const src = fixed.source;
         if (src.kind === 'shaped') term = shapedTerm(src, fixed.quantity, env, u, v);
-        else if (src.kind === 'painted' || src.kind === 'file') term = griddedTerm(loadSeries(src), fixed.quantity, env, u, v);
+        else if (src.kind === 'painted' || src.kind === 'file')
+          term = griddedTerm(loadSeries(src), fixed.quantity, env, u, v);
         else throw new ForcingError(`unknown source kind '${String((src as { kind: unknown }).kind)}'`);
       } else {
         throw new ForcingError(`unknown part kind '${String((part as { kind: unknown }).kind)}'`);
@@ -387,7 +397,9 @@ export function buildWindStress(grid: Grid, wind: WindSpec, opts: WindBuildOptio
     ...(interval > 0 ? { updateSeconds: interval } : {}),
     fill(timeSeconds, taux, tauy) {
       if (taux.length !== size || tauy.length !== size) {
-        throw new ForcingError(`fill(): the arrays must have the grid's padded size ${size} (got ${taux.length}, ${tauy.length})`);
+        throw new ForcingError(
+          `fill(): the arrays must have the grid's padded size ${size} (got ${taux.length}, ${tauy.length})`,
+        );
       }
       if (steady) {
         if (answered) evaluate(0);

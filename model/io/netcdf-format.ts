@@ -215,7 +215,9 @@ export function normaliseAttributes(
         );
       }
       if (fill.values.length !== 1) {
-        throw new NetcdfFormatError(`${where}, attribute '_FillValue': must hold exactly one value, got ${fill.values.length}`);
+        throw new NetcdfFormatError(
+          `${where}, attribute '_FillValue': must hold exactly one value, got ${fill.values.length}`,
+        );
       }
     }
   }
@@ -359,7 +361,12 @@ export function computeLayout(file: NcFileInput): NcLayout {
       }
       recordDimId = k;
       length = 0;
-    } else if (typeof d.length === 'number' && Number.isInteger(d.length) && d.length >= 1 && d.length <= NC_MAX_DIM_LENGTH) {
+    } else if (
+      typeof d.length === 'number' &&
+      Number.isInteger(d.length) &&
+      d.length >= 1 &&
+      d.length <= NC_MAX_DIM_LENGTH
+    ) {
       length = d.length;
     } else {
       throw new NetcdfFormatError(
@@ -372,7 +379,10 @@ export function computeLayout(file: NcFileInput): NcLayout {
   });
 
   const gatts = normaliseAttributes(file.attributes, 'global attributes');
-  checkUnique(gatts.map((a) => a.name), 'global attributes');
+  checkUnique(
+    gatts.map((a) => a.name),
+    'global attributes',
+  );
 
   const varNames = new Set<string>();
   const vars: NcVariableLayout[] = file.variables.map((v, k) => {
@@ -380,7 +390,8 @@ export function computeLayout(file: NcFileInput): NcLayout {
     checkName(v?.name, at);
     if (varNames.has(v.name)) throw new NetcdfFormatError(`${at}: duplicate variable name`);
     varNames.add(v.name);
-    if (!isNcType(v.type)) throw new NetcdfFormatError(`${at}: unknown type ${String(v.type)} (use NC_BYTE..NC_DOUBLE)`);
+    if (!isNcType(v.type))
+      throw new NetcdfFormatError(`${at}: unknown type ${String(v.type)} (use NC_BYTE..NC_DOUBLE)`);
     if (!Array.isArray(v.dimensions)) throw new NetcdfFormatError(`${at}: dimensions must be an array of names`);
     const dimIds = (v.dimensions as readonly string[]).map((dn: string, j: number): number => {
       const id = dimIndex.get(dn);
@@ -404,10 +415,25 @@ export function computeLayout(file: NcFileInput): NcLayout {
     const dataBytes = count * typeSize(v.type);
     if (!Number.isSafeInteger(dataBytes)) throw new NetcdfFormatError(`${at}: too large (${dataBytes} bytes)`);
     const attributes = normaliseAttributes(v.attributes, at, v.type);
-    checkUnique(attributes.map((a) => a.name), at);
+    checkUnique(
+      attributes.map((a) => a.name),
+      at,
+    );
     const fillAtt = attributes.find((a) => a.name === '_FillValue');
     const fill = fillAtt ? fillAtt.values[0] : defaultFill(v.type);
-    return { name: v.name, type: v.type, dimIds, shape, isRecord, count, dataBytes, vsize: pad4(dataBytes), begin: 0, attributes, fill };
+    return {
+      name: v.name,
+      type: v.type,
+      dimIds,
+      shape,
+      isRecord,
+      count,
+      dataBytes,
+      vsize: pad4(dataBytes),
+      begin: 0,
+      attributes,
+      fill,
+    };
   });
 
   // Only the last fixed and the last record variable may exceed the 32-bit vsize (spec, vsize).
@@ -623,8 +649,23 @@ const words64 = new Uint32Array(scratch64.buffer);
 const swapped = new Uint32Array(2 * BLOCK);
 const swappedBytes = new Uint8Array(swapped.buffer);
 
-function isNumericArray(values: ArrayLike<number>): values is Float32Array | Float64Array | Int32Array | Int16Array | Uint8Array | Int8Array | Uint16Array | Uint32Array {
-  return ArrayBuffer.isView(values) && !(values instanceof DataView) && !(values instanceof BigInt64Array) && !(values instanceof BigUint64Array);
+function isNumericArray(
+  values: ArrayLike<number>,
+): values is
+  | Float32Array
+  | Float64Array
+  | Int32Array
+  | Int16Array
+  | Uint8Array
+  | Int8Array
+  | Uint16Array
+  | Uint32Array {
+  return (
+    ArrayBuffer.isView(values) &&
+    !(values instanceof DataView) &&
+    !(values instanceof BigInt64Array) &&
+    !(values instanceof BigUint64Array)
+  );
 }
 
 const swap32 = (x: number) => ((x >>> 24) | ((x >>> 8) & 0xff00) | ((x << 8) & 0xff0000) | (x << 24)) >>> 0;
@@ -634,7 +675,14 @@ const swap32 = (x: number) => ((x >>> 24) | ((x >>> 8) & 0xff00) | ((x << 8) & 0
  * the typed-array copy, then whole 32-bit words are byte-swapped and copied into the output.
  * Much faster than a DataView call per value, with the same bytes.
  */
-function encodeFloatBlock(type: NcType, values: ArrayLike<number> & { subarray(a: number, b: number): ArrayLike<number> }, from: number, to: number, view: DataView, at: number): void {
+function encodeFloatBlock(
+  type: NcType,
+  values: ArrayLike<number> & { subarray(a: number, b: number): ArrayLike<number> },
+  from: number,
+  to: number,
+  view: DataView,
+  at: number,
+): void {
   const out = new Uint8Array(view.buffer, view.byteOffset, view.byteLength);
   const size = type === NC_FLOAT ? 4 : 8;
   for (let k = from; k < to; k += BLOCK) {

@@ -119,7 +119,10 @@ class Cursor {
     const n = this.u32(`length of ${what}`);
     if (n === 0) throw new NetcdfReadError(`corrupt header: ${what} at byte ${at} is empty`);
     // a longer name is a corrupt length (and would flood the message with the bytes after it)
-    if (n > NC_MAX_NAME) throw new NetcdfReadError(`corrupt header: ${what} at byte ${at} claims ${n} bytes (a NetCDF name holds at most ${NC_MAX_NAME})`);
+    if (n > NC_MAX_NAME)
+      throw new NetcdfReadError(
+        `corrupt header: ${what} at byte ${at} claims ${n} bytes (a NetCDF name holds at most ${NC_MAX_NAME})`,
+      );
     this.need(pad4(n), `${what} (${n} bytes)`);
     const s = utf8.decode(this.b.subarray(this.pos, this.pos + n));
     this.pos += pad4(n);
@@ -135,9 +138,7 @@ class Cursor {
       return 0;
     }
     if (t !== tag) {
-      throw new NetcdfReadError(
-        `corrupt header: expected ${what} tag ${tag} (or ABSENT) at byte ${at}, found ${t}`,
-      );
+      throw new NetcdfReadError(`corrupt header: expected ${what} tag ${tag} (or ABSENT) at byte ${at}, found ${t}`);
     }
     const left = this.b.length - this.pos;
     if (n * minEntryBytes > left) {
@@ -183,7 +184,9 @@ function scanHeader(b: Uint8Array): Scanned {
     throw new NetcdfReadError('unsupported version: CDF-5 (64-bit data) files are not read; only CDF-1 and CDF-2');
   }
   if (v !== 1 && v !== 2) {
-    throw new NetcdfReadError(`unsupported version: byte 3 is ${v}; known classic versions are 1 (CDF-1) and 2 (CDF-2)`);
+    throw new NetcdfReadError(
+      `unsupported version: byte 3 is ${v}; known classic versions are 1 (CDF-1) and 2 (CDF-2)`,
+    );
   }
   const c = new Cursor(b);
   c.pos = 4;
@@ -213,10 +216,14 @@ function scanHeader(b: Uint8Array): Scanned {
     for (let j = 0; j < nd; j++) {
       const id = c.u32(`dimension id ${j} of variable '${name}'`);
       if (id >= dims.length) {
-        throw new NetcdfReadError(`corrupt header: variable '${name}' uses dimension id ${id}, but there are ${dims.length} dimensions`);
+        throw new NetcdfReadError(
+          `corrupt header: variable '${name}' uses dimension id ${id}, but there are ${dims.length} dimensions`,
+        );
       }
       if (dims[id].length === 0 && j !== 0) {
-        throw new NetcdfReadError(`corrupt header: variable '${name}' has the record dimension in position ${j}, not first`);
+        throw new NetcdfReadError(
+          `corrupt header: variable '${name}' has the record dimension in position ${j}, not first`,
+        );
       }
       dimIds.push(id);
     }
@@ -224,7 +231,9 @@ function scanHeader(b: Uint8Array): Scanned {
     const tAt = c.pos;
     const type = c.u32(`type of variable '${name}'`);
     if (!isNcType(type)) {
-      throw new NetcdfReadError(`unsupported or corrupt header: variable '${name}' at byte ${tAt} has type code ${type} (classic types are 1..6)`);
+      throw new NetcdfReadError(
+        `unsupported or corrupt header: variable '${name}' at byte ${tAt} has type code ${type} (classic types are 1..6)`,
+      );
     }
     const vsize = c.u32(`vsize of variable '${name}'`);
     const begin = v === 1 ? c.u32(`begin of variable '${name}'`) : c.i64(`begin of variable '${name}'`);
@@ -252,7 +261,8 @@ function convertAttribute(a: { name: string; type: string; value: unknown }, whe
   const name = decodeText(charsToBytes(a.name));
   const type = a.type as NcTypeName;
   if (type === 'char') {
-    if (typeof a.value !== 'string') throw new NetcdfReadError(`${where}: attribute '${name}': netcdfjs returned no text`);
+    if (typeof a.value !== 'string')
+      throw new NetcdfReadError(`${where}: attribute '${name}': netcdfjs returned no text`);
     return [name, { type, value: decodeText(charsToBytes(a.value)) }];
   }
   const raw = Array.isArray(a.value) ? (a.value as number[]) : [a.value as number];
@@ -306,13 +316,21 @@ export function readNetcdf(bytes: Uint8Array, options: ReadOptions = {}): NcFile
 
   s.vars.forEach((v, k) => {
     const { isRecord, count, dataBytes } = info[k];
-    const shape = v.dimIds.map((id) => (id === recordDimId ? 'records' : String(s.dims[id].length))).join(' x ') || 'scalar';
+    const shape =
+      v.dimIds.map((id) => (id === recordDimId ? 'records' : String(s.dims[id].length))).join(' x ') || 'scalar';
     if (v.begin < s.headerEnd) {
-      throw new NetcdfReadError(`corrupt header: variable '${v.name}' begins at byte ${v.begin}, inside the header (which ends at ${s.headerEnd})`);
+      throw new NetcdfReadError(
+        `corrupt header: variable '${v.name}' begins at byte ${v.begin}, inside the header (which ends at ${s.headerEnd})`,
+      );
     }
-    const end = isRecord ? (numRecords === 0 ? 0 : v.begin + (numRecords - 1) * recordSize + dataBytes) : v.begin + dataBytes;
+    const end = isRecord
+      ? numRecords === 0
+        ? 0
+        : v.begin + (numRecords - 1) * recordSize + dataBytes
+      : v.begin + dataBytes;
     if (end > len) {
-      const held = isRecord && recordSize > 0 ? Math.max(0, Math.floor((len - v.begin - dataBytes) / recordSize) + 1) : 0;
+      const held =
+        isRecord && recordSize > 0 ? Math.max(0, Math.floor((len - v.begin - dataBytes) / recordSize) + 1) : 0;
       throw new NetcdfReadError(
         isRecord
           ? `truncated file: the header counts ${numRecords} records, but variable '${v.name}' (${NC_TYPE_NAMES[v.type]}, ${shape}) ` +
@@ -331,7 +349,9 @@ export function readNetcdf(bytes: Uint8Array, options: ReadOptions = {}): NcFile
   }
   const jsVars = reader.header.variables ?? [];
   if (jsVars.length !== s.vars.length) {
-    throw new NetcdfReadError(`header disagreement: netcdfjs found ${jsVars.length} variables, the header walk ${s.vars.length}`);
+    throw new NetcdfReadError(
+      `header disagreement: netcdfjs found ${jsVars.length} variables, the header walk ${s.vars.length}`,
+    );
   }
   // Give netcdfjs the true record count and record step (see the note at the top).
   reader.header.recordDimension.length = numRecords;
@@ -342,7 +362,9 @@ export function readNetcdf(bytes: Uint8Array, options: ReadOptions = {}): NcFile
     length: d.length === 0 ? numRecords : d.length,
     unlimited: d.length === 0,
   }));
-  const attributes = Object.fromEntries((reader.header.globalAttributes ?? []).map((a) => convertAttribute(a, 'global attributes')));
+  const attributes = Object.fromEntries(
+    (reader.header.globalAttributes ?? []).map((a) => convertAttribute(a, 'global attributes')),
+  );
   const only = options.only ? new Set(options.only) : null;
 
   const variables: NcReadVariable[] = s.vars.map((v, k) => {
@@ -363,7 +385,9 @@ export function readNetcdf(bytes: Uint8Array, options: ReadOptions = {}): NcFile
     };
     if (only && !only.has(v.name)) return { ...base, values: v.type === 2 ? '' : new Float64Array(0) };
     if (jv.offset !== v.begin) {
-      throw new NetcdfReadError(`header disagreement on variable '${v.name}': netcdfjs offset ${jv.offset}, header walk ${v.begin}`);
+      throw new NetcdfReadError(
+        `header disagreement on variable '${v.name}': netcdfjs offset ${jv.offset}, header walk ${v.begin}`,
+      );
     }
     let data: unknown[];
     try {
@@ -374,7 +398,9 @@ export function readNetcdf(bytes: Uint8Array, options: ReadOptions = {}): NcFile
     }
     const slabs = isRecord ? numRecords : 1;
     if (data.length !== (isRecord ? numRecords : count)) {
-      throw new NetcdfReadError(`reading variable '${v.name}': netcdfjs returned ${data.length} items, expected ${isRecord ? numRecords : count}`);
+      throw new NetcdfReadError(
+        `reading variable '${v.name}': netcdfjs returned ${data.length} items, expected ${isRecord ? numRecords : count}`,
+      );
     }
     if (v.type === 2) {
       const bytesOut = new Uint8Array(slabs * count);
@@ -405,7 +431,8 @@ export function readNetcdf(bytes: Uint8Array, options: ReadOptions = {}): NcFile
     variables,
     variable(name: string): NcReadVariable {
       const found = variables.find((x) => x.name === name);
-      if (!found) throw new NetcdfReadError(`no variable '${name}' (have: ${variables.map((x) => x.name).join(', ') || 'none'})`);
+      if (!found)
+        throw new NetcdfReadError(`no variable '${name}' (have: ${variables.map((x) => x.name).join(', ') || 'none'})`);
       return found;
     },
   };

@@ -132,10 +132,13 @@ export class NetcdfWriter {
       const where = `writeFixed('${name}')`;
       this.requireHeader(where);
       if (this.fixedClosed) {
-        throw new NetcdfFormatError(`${where}: non-record data must be written before the first record and before close()`);
+        throw new NetcdfFormatError(
+          `${where}: non-record data must be written before the first record and before close()`,
+        );
       }
       const v = this.byName.get(name);
-      if (!v) throw new NetcdfFormatError(`${where}: no variable '${name}' (known: ${[...this.byName.keys()].join(', ')})`);
+      if (!v)
+        throw new NetcdfFormatError(`${where}: no variable '${name}' (known: ${[...this.byName.keys()].join(', ')})`);
       if (v.isRecord) throw new NetcdfFormatError(`${where}: '${name}' is a record variable; use appendRecord()`);
       if (this.fixedWritten.has(name)) throw new NetcdfFormatError(`${where}: '${name}' is already written`);
       const vals = prepareValues(v, values, where);
@@ -150,8 +153,10 @@ export class NetcdfWriter {
       const where = `appendRecord (record ${this.numrecs})`;
       this.requireHeader(where);
       if (this.recordVars.length === 0) throw new NetcdfFormatError(`${where}: the file has no record variables`);
-      if (typeof values !== 'object' || values === null) throw new NetcdfFormatError(`${where}: values must be an object`);
-      if (this.numrecs >= NC_MAX_NUMRECS) throw new NetcdfFormatError(`${where}: the record count would exceed ${NC_MAX_NUMRECS}`);
+      if (typeof values !== 'object' || values === null)
+        throw new NetcdfFormatError(`${where}: values must be an object`);
+      if (this.numrecs >= NC_MAX_NUMRECS)
+        throw new NetcdfFormatError(`${where}: the record count would exceed ${NC_MAX_NUMRECS}`);
       for (const k of Object.keys(values)) {
         const v = this.byName.get(k);
         if (!v) throw new NetcdfFormatError(`${where}: no variable '${k}'`);

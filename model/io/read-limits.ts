@@ -19,11 +19,24 @@ export const READ_LIMITS = {
   /** The scenario reader's own limit is 16 M characters (model/scenario/parse.ts); UTF-8 has at least one byte per character. */
   scenario: { maxBytes: 16 * MiB, what: 'a scenario file', advice: 'put large wind data in a CSV or NetCDF wind file' },
   /** A 1-degree global grid of daily winds for a year as text is about 60 MB. */
-  csvWind: { maxBytes: 64 * MiB, what: 'a CSV wind file', advice: 'use NetCDF for larger wind data, or cut the file to the basin and the run' },
+  csvWind: {
+    maxBytes: 64 * MiB,
+    what: 'a CSV wind file',
+    advice: 'use NetCDF for larger wind data, or cut the file to the basin and the run',
+  },
   /** Gridded NetCDF winds and restart (or run output) starts. */
-  netcdfInput: { maxBytes: 1 * GiB, what: 'a NetCDF input file', advice: 'cut the file to the basin and the days of the run (e.g. with cdo or ncks)' },
+  netcdfInput: {
+    maxBytes: 1 * GiB,
+    what: 'a NetCDF input file',
+    advice: 'cut the file to the basin and the days of the run (e.g. with cdo or ncks)',
+  },
   /** Run outputs read back: rerun, compare, report, and the page's run import. */
-  runFile: { maxBytes: 2 * GiB, what: 'a run file', advice: 'compare or report a shorter run, or save fewer fields (output.fields) or fewer records (time.outputEveryDays)' },
+  runFile: {
+    maxBytes: 2 * GiB,
+    what: 'a run file',
+    advice:
+      'compare or report a shorter run, or save fewer fields (output.fields) or fewer records (time.outputEveryDays)',
+  },
 } as const satisfies Record<string, ReadLimit>;
 
 export type ReadKind = keyof typeof READ_LIMITS;

@@ -40,7 +40,8 @@ export class RunCollector {
 
   constructor(setup: RunSetup, options: { snapshotEvery?: number; createdAt?: Date; command?: string } = {}) {
     const every = options.snapshotEvery ?? 1;
-    if (!Number.isInteger(every) || every < 1) throw new RunFileError(`snapshotEvery must be a whole number >= 1 (got ${every})`);
+    if (!Number.isInteger(every) || every < 1)
+      throw new RunFileError(`snapshotEvery must be a whole number >= 1 (got ${every})`);
     this.setup = setup;
     this.every = every;
     this.createdAt = (options.createdAt ?? new Date()).toISOString();
@@ -59,14 +60,18 @@ export class RunCollector {
   add(r: OutputRecord): void {
     const n = this.days.length;
     const { nx } = this.setup.grid;
-    if (n > 0 && !(r.day > this.days[n - 1])) throw new RunFileError(`record ${n}: day ${r.day} does not follow day ${this.days[n - 1]}`);
-    if (r.hovmoller.length !== this.hov.length) throw new RunFileError(`record ${n}: ${r.hovmoller.length} Hovmoller rows, expected ${this.hov.length}`);
-    if (r.probeValues.length !== this.probe.length) throw new RunFileError(`record ${n}: ${r.probeValues.length} probes, expected ${this.probe.length}`);
+    if (n > 0 && !(r.day > this.days[n - 1]))
+      throw new RunFileError(`record ${n}: day ${r.day} does not follow day ${this.days[n - 1]}`);
+    if (r.hovmoller.length !== this.hov.length)
+      throw new RunFileError(`record ${n}: ${r.hovmoller.length} Hovmoller rows, expected ${this.hov.length}`);
+    if (r.probeValues.length !== this.probe.length)
+      throw new RunFileError(`record ${n}: ${r.probeValues.length} probes, expected ${this.probe.length}`);
     this.days.push(r.day);
     this.steps.push(r.step);
     INTEGRAL_KEYS.forEach((k, q) => this.integrals[q].push(r.integrals[k]));
     r.hovmoller.forEach((row, h) => {
-      if (row.length !== nx) throw new RunFileError(`record ${n}: Hovmoller row ${h} has ${row.length} values, expected ${nx}`);
+      if (row.length !== nx)
+        throw new RunFileError(`record ${n}: Hovmoller row ${h} has ${row.length} values, expected ${nx}`);
       this.hov[h].push(Array.from(row));
     });
     r.probeValues.forEach((vals, p) => this.setup.fields.forEach((_, k) => this.probe[p][k].push(vals[k])));
@@ -94,7 +99,13 @@ export class RunCollector {
       command: this.command,
       dt: s.dt,
       physics: structuredClone(s.physics),
-      grid: { nx: s.grid.nx, ny: s.grid.ny, lon: Float64Array.from(s.grid.lon), lat: Float64Array.from(s.grid.lat), ocean: Uint8Array.from(s.grid.ocean) },
+      grid: {
+        nx: s.grid.nx,
+        ny: s.grid.ny,
+        lon: Float64Array.from(s.grid.lon),
+        lat: Float64Array.from(s.grid.lat),
+        ocean: Uint8Array.from(s.grid.ocean),
+      },
       fields: [...s.fields],
       days: Float64Array.from(this.days),
       steps: Float64Array.from(this.steps),

@@ -84,7 +84,10 @@ export const INTEGRAL_KEYS = INTEGRAL_VARIABLES.map((v) => v.key as IntegralKey)
 // --- helpers for readers of a RunData ----------------------------------------------------------
 
 /** A Hovmoller section in the shape the wave fit takes (rows are views, not copies). */
-export function hovmollerData(run: RunData, section: number): { lon: Float64Array; days: Float64Array; rows: Float32Array[] } {
+export function hovmollerData(
+  run: RunData,
+  section: number,
+): { lon: Float64Array; days: Float64Array; rows: Float32Array[] } {
   const h = run.hovmoller[section];
   if (!h) throw new RunFileError(`the run has no Hovmoller section ${section} (it has ${run.hovmoller.length})`);
   const nx = run.grid.nx;
@@ -99,7 +102,8 @@ export function snapshotAt(run: RunData, index: number): RunSnapshot | undefined
 
 /** Keep every k-th snapshot (by record index, the first included): what the library saves. */
 export function thinSnapshots(run: RunData, every: number): RunSnapshot[] {
-  if (!Number.isInteger(every) || every < 1) throw new RunFileError(`snapshotEvery must be a whole number >= 1 (got ${every})`);
+  if (!Number.isInteger(every) || every < 1)
+    throw new RunFileError(`snapshotEvery must be a whole number >= 1 (got ${every})`);
   return run.snapshots.filter((s) => s.index % every === 0);
 }
 
@@ -120,16 +124,26 @@ export function checkRun(run: RunData): void {
     throw new RunFileError(`run '${run.name}': ${what}`);
   };
   if (nt === 0) bad('no output records');
-  if (!run.physics || !(run.physics.reducedGravity > 0 && run.physics.layerThickness > 0)) bad("no run-physics record (g', H, beta, ...)");
-  if (run.grid.lon.length !== nx || run.grid.lat.length !== ny || run.grid.ocean.length !== nx * ny) bad('grid arrays do not match nx, ny');
+  if (!run.physics || !(run.physics.reducedGravity > 0 && run.physics.layerThickness > 0))
+    bad("no run-physics record (g', H, beta, ...)");
+  if (run.grid.lon.length !== nx || run.grid.lat.length !== ny || run.grid.ocean.length !== nx * ny)
+    bad('grid arrays do not match nx, ny');
   if (run.steps.length !== nt) bad(`steps has ${run.steps.length} values for ${nt} records`);
-  for (const k of INTEGRAL_KEYS) if (run.integrals[k].length !== nt) bad(`integral ${k} has ${run.integrals[k].length} values for ${nt} records`);
-  run.hovmoller.forEach((h, q) => h.values.length !== nt * nx && bad(`Hovmoller section ${q} has ${h.values.length} values, expected ${nt * nx}`));
-  for (const p of run.probes) for (const f of run.fields) if (p.series[f]?.length !== nt) bad(`probe '${p.name}' series ${f} does not have ${nt} values`);
+  for (const k of INTEGRAL_KEYS)
+    if (run.integrals[k].length !== nt) bad(`integral ${k} has ${run.integrals[k].length} values for ${nt} records`);
+  run.hovmoller.forEach(
+    (h, q) =>
+      h.values.length !== nt * nx && bad(`Hovmoller section ${q} has ${h.values.length} values, expected ${nt * nx}`),
+  );
+  for (const p of run.probes)
+    for (const f of run.fields)
+      if (p.series[f]?.length !== nt) bad(`probe '${p.name}' series ${f} does not have ${nt} values`);
   let last = -1;
   for (const s of run.snapshots) {
-    if (!(s.index > last) || s.index >= nt) bad(`snapshot indices must increase within 0..${nt - 1} (found ${s.index} after ${last})`);
+    if (!(s.index > last) || s.index >= nt)
+      bad(`snapshot indices must increase within 0..${nt - 1} (found ${s.index} after ${last})`);
     last = s.index;
-    for (const f of run.fields) if (s.fields[f]?.length !== nx * ny) bad(`snapshot of record ${s.index} lacks field ${f} of ${nx * ny} values`);
+    for (const f of run.fields)
+      if (s.fields[f]?.length !== nx * ny) bad(`snapshot of record ${s.index} lacks field ${f} of ${nx * ny} values`);
   }
 }

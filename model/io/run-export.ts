@@ -31,7 +31,12 @@ export function runDescription(run: RunData): RunDescription {
 }
 
 /** Record n of a run as the writer takes it; fields all missing where there is no snapshot. */
-export function runRecord(run: RunData, n: number, snapshot: RunSnapshot | undefined, missing: Float32Array): OutputRecord {
+export function runRecord(
+  run: RunData,
+  n: number,
+  snapshot: RunSnapshot | undefined,
+  missing: Float32Array,
+): OutputRecord {
   const nx = run.grid.nx;
   const fields: Partial<Record<FieldName, ArrayLike<number>>> = {};
   for (const f of run.fields) fields[f] = snapshot?.fields[f] ?? missing;
@@ -76,9 +81,14 @@ export async function toNetcdf(run: RunData, options: ExportOptions = {}): Promi
   const step = async () => {
     done++;
     // Every record would be too often for a callback that yields: about a hundred calls in all.
-    if (options.progress && (done === total || done % Math.max(1, Math.floor(total / 100)) === 0)) await options.progress(done, total);
+    if (options.progress && (done === total || done % Math.max(1, Math.floor(total / 100)) === 0))
+      await options.progress(done, total);
   };
-  await writer.begin(every ? undefined : { days: run.snapshots.map((s) => s.day), fields: run.snapshots.map((s) => s.fields), progress: step });
+  await writer.begin(
+    every
+      ? undefined
+      : { days: run.snapshots.map((s) => s.day), fields: run.snapshots.map((s) => s.fields), progress: step },
+  );
   const missing = new Float32Array(run.grid.nx * run.grid.ny).fill(NaN);
   const byIndex = new Map(run.snapshots.map((s) => [s.index, s]));
   for (let n = 0; n < run.days.length; n++) {

@@ -8,19 +8,42 @@ import { FIELD_NAMES, type FieldName } from '../diagnostics/fields.ts';
 import type { DrawnBurst } from '../forcing/bursts.ts';
 import type { RunPhysics } from '../run-physics.ts';
 import { readNetcdf, NetcdfReadError, type NcFile, type NcReadVariable } from './netcdf-read.ts';
-import { RunFileError, type HovmollerSection, type IntegralKey, type ProbeSeries, type RunData, type RunSnapshot } from './run-data.ts';
+import {
+  RunFileError,
+  type HovmollerSection,
+  type IntegralKey,
+  type ProbeSeries,
+  type RunData,
+  type RunSnapshot,
+} from './run-data.ts';
 import { INTEGRAL_VARIABLES, MAP_TIME, OUTPUT_FILL, probeVariableName } from './run-output.ts';
-import { hasRunPhysics, legacyRunPhysics, readRunPhysics, RunPhysicsError, type KeptPhysics } from './run-physics-file.ts';
+import {
+  hasRunPhysics,
+  legacyRunPhysics,
+  readRunPhysics,
+  RunPhysicsError,
+  type KeptPhysics,
+} from './run-physics-file.ts';
 import { sha256Hex } from './sha256.ts';
 
 /** The history line runOutputFile writes: "<ISO date>: <command> (Pycno <version>)". */
 const HISTORY = /^(\d{4}-\d\d-\d\dT[0-9:.]+Z): (.*) \(Pycno ([^()]*)\)$/s;
 
 /** The variable, if it has the type and dimensions given; RunFileError naming it otherwise. */
-function typed(v: NcReadVariable, type: NcReadVariable['type'], dims: readonly string[], where: string): NcReadVariable {
-  if (v.type !== type) throw new RunFileError(`${where}: damaged Pycno run file: variable '${v.name}' is ${v.type}; a run file has it as ${type}`);
+function typed(
+  v: NcReadVariable,
+  type: NcReadVariable['type'],
+  dims: readonly string[],
+  where: string,
+): NcReadVariable {
+  if (v.type !== type)
+    throw new RunFileError(
+      `${where}: damaged Pycno run file: variable '${v.name}' is ${v.type}; a run file has it as ${type}`,
+    );
   if (v.dimensions.join(',') !== dims.join(',')) {
-    throw new RunFileError(`${where}: damaged Pycno run file: variable '${v.name}' has dimensions (${v.dimensions.join(', ')}); a run file has it on (${dims.join(', ')})`);
+    throw new RunFileError(
+      `${where}: damaged Pycno run file: variable '${v.name}' has dimensions (${v.dimensions.join(', ')}); a run file has it on (${dims.join(', ')})`,
+    );
   }
   return v;
 }
@@ -29,7 +52,9 @@ function typed(v: NcReadVariable, type: NcReadVariable['type'], dims: readonly s
 function declaredFields(scenarioJson: string): FieldName[] {
   try {
     const fields = (JSON.parse(scenarioJson) as { output?: { fields?: unknown } }).output?.fields;
-    return Array.isArray(fields) ? fields.filter((x): x is FieldName => typeof x === 'string' && (FIELD_NAMES as readonly string[]).includes(x)) : [];
+    return Array.isArray(fields)
+      ? fields.filter((x): x is FieldName => typeof x === 'string' && (FIELD_NAMES as readonly string[]).includes(x))
+      : [];
   } catch {
     return [];
   }
@@ -58,7 +83,8 @@ function textAttribute(f: NcFile, name: string): string | undefined {
 
 function numberAttribute(f: NcFile, name: string, where: string): number {
   const a = f.attributes[name];
-  if (!a || typeof a.value === 'string' || a.value.length !== 1) throw new RunFileError(`${where}: the global attribute ${name} is missing or not one number`);
+  if (!a || typeof a.value === 'string' || a.value.length !== 1)
+    throw new RunFileError(`${where}: the global attribute ${name} is missing or not one number`);
   return a.value[0];
 }
 
@@ -93,34 +119,48 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
   const kind = textAttribute(header, 'pycno_file');
   const scenarioJson = textAttribute(header, 'pycno_scenario');
   if (kind === undefined && scenarioJson === undefined) {
-    throw new RunFileError(`${label}: not a Pycno run file: it has no pycno_scenario attribute (a NetCDF file written by another program?)`);
+    throw new RunFileError(
+      `${label}: not a Pycno run file: it has no pycno_scenario attribute (a NetCDF file written by another program?)`,
+    );
   }
   if (kind !== 'run-output') {
-    const what = kind === 'restart' ? 'a Pycno restart file' : kind === 'run-difference' ? 'a Pycno difference file (B minus A)' : `a Pycno file of kind '${kind ?? 'unknown'}'`;
+    const what =
+      kind === 'restart'
+        ? 'a Pycno restart file'
+        : kind === 'run-difference'
+          ? 'a Pycno difference file (B minus A)'
+          : `a Pycno file of kind '${kind ?? 'unknown'}'`;
     throw new RunFileError(`${label}: this is ${what}, not a run file`);
   }
-  if (scenarioJson === undefined) throw new RunFileError(`${label}: damaged Pycno run file: the pycno_scenario attribute is missing`);
+  if (scenarioJson === undefined)
+    throw new RunFileError(`${label}: damaged Pycno run file: the pycno_scenario attribute is missing`);
   const isField = (n: string): n is FieldName => (FIELD_NAMES as readonly string[]).includes(n);
   const f = read(header.variables.map((v) => v.name).filter((n) => !isField(n)));
   const where = `${label}`;
   const hash = textAttribute(f, 'pycno_scenario_sha256') ?? '';
   const actual = sha256Hex(scenarioJson);
   if (hash !== actual) {
-    throw new RunFileError(`${label}: damaged Pycno run file: the scenario's SHA-256 is ${actual.slice(0, 12)}..., the file says ${hash.slice(0, 12) || '(none)'}...; the scenario text was changed after the run`);
+    throw new RunFileError(
+      `${label}: damaged Pycno run file: the scenario's SHA-256 is ${actual.slice(0, 12)}..., the file says ${hash.slice(0, 12) || '(none)'}...; the scenario text was changed after the run`,
+    );
   }
   // The file keeps its name, description and seed only in the scenario it carries.
   let s: { name?: unknown; description?: unknown; seed?: unknown };
   try {
     s = JSON.parse(scenarioJson);
   } catch (e) {
-    throw new RunFileError(`${label}: damaged Pycno run file: the scenario JSON does not parse: ${(e as Error).message}`);
+    throw new RunFileError(
+      `${label}: damaged Pycno run file: the scenario JSON does not parse: ${(e as Error).message}`,
+    );
   }
   const name = typeof s?.name === 'string' ? s.name : '';
   const description = typeof s?.description === 'string' ? s.description : '';
   const seed = typeof s?.seed === 'string' || typeof s?.seed === 'number' ? s.seed : '';
   let physics: RunPhysics;
   try {
-    physics = hasRunPhysics(f.attributes) ? readRunPhysics(f.attributes) : legacyRunPhysics(legacyAttributes(f, label), scenarioJson);
+    physics = hasRunPhysics(f.attributes)
+      ? readRunPhysics(f.attributes)
+      : legacyRunPhysics(legacyAttributes(f, label), scenarioJson);
   } catch (e) {
     if (e instanceof RunPhysicsError) throw new RunFileError(`${label}: damaged Pycno run file: ${e.message}`);
     throw e;
@@ -130,7 +170,9 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     bursts = JSON.parse(textAttribute(f, 'pycno_bursts') ?? '[]');
     if (!Array.isArray(bursts)) throw new Error('not a list');
   } catch (e) {
-    throw new RunFileError(`${label}: damaged Pycno run file: the pycno_bursts attribute is not a JSON list: ${(e as Error).message}`);
+    throw new RunFileError(
+      `${label}: damaged Pycno run file: the pycno_bursts attribute is not a JSON list: ${(e as Error).message}`,
+    );
   }
 
   const has = (n: string) => f.variables.some((v) => v.name === n);
@@ -145,19 +187,32 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
   const nx = lon.length;
   const ny = lat.length;
   const ocean = Uint8Array.from(numbers(need('ocean', 'byte', ['lat', 'lon']), where));
-  if (ocean.length !== nx * ny) throw new RunFileError(`${where}: damaged Pycno run file: 'ocean' has ${ocean.length} values for a ${nx} x ${ny} grid`);
+  if (ocean.length !== nx * ny)
+    throw new RunFileError(
+      `${where}: damaged Pycno run file: 'ocean' has ${ocean.length} values for a ${nx} x ${ny} grid`,
+    );
   const days = numbers(need('time', 'double', ['time']), where).slice();
   const nt = days.length;
   if (nt === 0) throw new RunFileError(`${where}: the run file holds no output records`);
-  for (let n = 0; n < nt; n++) if (!Number.isFinite(days[n])) throw new RunFileError(`${where}: damaged Pycno run file: variable 'time' has ${days[n]} at record ${n}`);
-  for (let n = 1; n < nt; n++) if (!(days[n] > days[n - 1])) throw new RunFileError(`${where}: damaged Pycno run file: variable 'time' does not increase: time ${n} (${days[n]}) does not follow time ${n - 1} (${days[n - 1]})`);
+  for (let n = 0; n < nt; n++)
+    if (!Number.isFinite(days[n]))
+      throw new RunFileError(`${where}: damaged Pycno run file: variable 'time' has ${days[n]} at record ${n}`);
+  for (let n = 1; n < nt; n++)
+    if (!(days[n] > days[n - 1]))
+      throw new RunFileError(
+        `${where}: damaged Pycno run file: variable 'time' does not increase: time ${n} (${days[n]}) does not follow time ${n - 1} (${days[n - 1]})`,
+      );
   const steps = numbers(need('step', 'double', ['time']), where).slice();
 
   const fields = f.variables.map((v) => v.name).filter(isField);
-  if (fields.length === 0) throw new RunFileError(`${where}: damaged Pycno run file: no field variables (${FIELD_NAMES.join(', ')})`);
+  if (fields.length === 0)
+    throw new RunFileError(`${where}: damaged Pycno run file: no field variables (${FIELD_NAMES.join(', ')})`);
   // The fields the run's own scenario says it wrote must all be there.
   for (const name of declaredFields(scenarioJson)) {
-    if (!fields.includes(name)) throw new RunFileError(`${where}: damaged Pycno run file: variable '${name}' is missing (the run's scenario lists it in output.fields)`);
+    if (!fields.includes(name))
+      throw new RunFileError(
+        `${where}: damaged Pycno run file: variable '${name}' is missing (the run's scenario lists it in output.fields)`,
+      );
   }
   if (!ocean.includes(1)) throw new RunFileError(`${where}: damaged Pycno run file: the ocean mask has no ocean cell`);
   const cells = nx * ny;
@@ -170,7 +225,9 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     const v = typed(read([name]).variable(name), 'float', [mapDim, 'lat', 'lon'], where);
     const vals = numbers(v, where);
     if (vals.length !== nm * cells) {
-      throw new RunFileError(`${where}: damaged Pycno run file: '${name}' has shape (${v.dimensions.join(', ')}) = ${v.shape.join(' x ')}, expected (${mapDim}, lat, lon)`);
+      throw new RunFileError(
+        `${where}: damaged Pycno run file: '${name}' has shape (${v.dimensions.join(', ')}) = ${v.shape.join(' x ')}, expected (${mapDim}, lat, lon)`,
+      );
     }
     return floats(vals);
   });
@@ -180,7 +237,10 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     let n = 0;
     for (let q = 0; q < nm; q++) {
       while (n < nt && days[n] < mapDays[q]) n++;
-      if (n >= nt || days[n] !== mapDays[q]) throw new RunFileError(`${where}: damaged Pycno run file: map_time ${q} (${mapDays[q]}) is not a time of the run's records (or map_time does not increase)`);
+      if (n >= nt || days[n] !== mapDays[q])
+        throw new RunFileError(
+          `${where}: damaged Pycno run file: map_time ${q} (${mapDays[q]}) is not a time of the run's records (or map_time does not increase)`,
+        );
       const fl: Partial<Record<FieldName, Float32Array>> = {};
       fields.forEach((name, f) => (fl[name] = fieldValues[f].slice(q * cells, (q + 1) * cells)));
       snapshots.push({ index: n, day: days[n], fields: fl });
@@ -196,7 +256,10 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     if (present.every((p) => !p)) continue;
     const fl: Partial<Record<FieldName, Float32Array>> = {};
     fields.forEach((name, q) => {
-      if (!present[q]) throw new RunFileError(`${where}: damaged Pycno run file: record ${n} (day ${days[n]}) has some fields but not '${name}'`);
+      if (!present[q])
+        throw new RunFileError(
+          `${where}: damaged Pycno run file: record ${n} (day ${days[n]}) has some fields but not '${name}'`,
+        );
       fl[name] = fieldValues[q].slice(n * cells, (n + 1) * cells);
     });
     snapshots.push({ index: n, day: days[n], fields: fl });
@@ -209,7 +272,10 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
       continue;
     }
     const vals = numbers(need(iv.name, 'double', ['time']), where);
-    if (vals.length !== nt) throw new RunFileError(`${where}: damaged Pycno run file: '${iv.name}' has ${vals.length} values for ${nt} times`);
+    if (vals.length !== nt)
+      throw new RunFileError(
+        `${where}: damaged Pycno run file: '${iv.name}' has ${vals.length} values for ${nt} times`,
+      );
     integrals[iv.key as IntegralKey] = vals.slice();
   }
 
@@ -220,7 +286,10 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     const req = requested && typeof requested.value !== 'string' ? requested.value : rowLats;
     const hv = numbers(need('hovmoller_h_anom', 'float', ['time', 'hovmoller', 'lon']), where);
     const nh = rowLats.length;
-    if (hv.length !== nt * nh * nx || req.length !== nh) throw new RunFileError(`${where}: damaged Pycno run file: 'hovmoller_h_anom' does not match ${nt} times x ${nh} sections x ${nx} longitudes`);
+    if (hv.length !== nt * nh * nx || req.length !== nh)
+      throw new RunFileError(
+        `${where}: damaged Pycno run file: 'hovmoller_h_anom' does not match ${nt} times x ${nh} sections x ${nx} longitudes`,
+      );
     for (let h = 0; h < nh; h++) {
       const values = new Float32Array(nt * nx);
       for (let n = 0; n < nt; n++) values.set(floats(hv, (n * nh + h) * nx, (n * nh + h + 1) * nx), n * nx);
@@ -235,11 +304,15 @@ export function readRun(bytes: Uint8Array, label = 'the file'): RunData {
     const width = pv.shape[1];
     const plon = numbers(need('probe_lon', 'double', ['probe']), where);
     const plat = numbers(need('probe_lat', 'double', ['probe']), where);
-    if (plon.length !== np || plat.length !== np) throw new RunFileError(`${where}: damaged Pycno run file: 'probe_lon' and 'probe_lat' do not have ${np} values`);
+    if (plon.length !== np || plat.length !== np)
+      throw new RunFileError(`${where}: damaged Pycno run file: 'probe_lon' and 'probe_lat' do not have ${np} values`);
     const names = probeNames(pv, np, width);
     const series = fields.map((name) => {
       const vals = numbers(need(probeVariableName(name), 'float', ['time', 'probe']), where);
-      if (vals.length !== nt * np) throw new RunFileError(`${where}: damaged Pycno run file: '${probeVariableName(name)}' has ${vals.length} values for ${nt} times x ${np} probes`);
+      if (vals.length !== nt * np)
+        throw new RunFileError(
+          `${where}: damaged Pycno run file: '${probeVariableName(name)}' has ${vals.length} values for ${nt} times x ${np} probes`,
+        );
       return vals;
     });
     for (let p = 0; p < np; p++) {

@@ -10,7 +10,16 @@ import { FIELD_INFO } from '../diagnostics/fields.ts';
 import type { Integrals } from '../diagnostics/integrals.ts';
 import type { DrawnBurst } from '../forcing/bursts.ts';
 import { EARTH } from '../config.ts';
-import { NC_BYTE, NC_CHAR, NC_DOUBLE, NC_FILL_FLOAT, NC_FLOAT, utf8Bytes, type NcFileInput, type NcVariableInput } from './netcdf-format.ts';
+import {
+  NC_BYTE,
+  NC_CHAR,
+  NC_DOUBLE,
+  NC_FILL_FLOAT,
+  NC_FLOAT,
+  utf8Bytes,
+  type NcFileInput,
+  type NcVariableInput,
+} from './netcdf-format.ts';
 import { NetcdfWriter, type ByteSink, type NcRecordInput } from './netcdf-writer.ts';
 import type { RunPhysics } from '../run-physics.ts';
 import { runPhysicsAttributes } from './run-physics-file.ts';
@@ -37,7 +46,13 @@ export const IDEALISED_NOTE =
  * The integrals written per record, with their units and descriptions. `since` marks variables
  * newer than the first files (optional): a reader fills NaN where an older file lacks them.
  */
-export const INTEGRAL_VARIABLES: ReadonlyArray<{ name: string; key: keyof Integrals; units: string; longName: string; optional?: true }> = [
+export const INTEGRAL_VARIABLES: ReadonlyArray<{
+  name: string;
+  key: keyof Integrals;
+  units: string;
+  longName: string;
+  optional?: true;
+}> = [
   { name: 'volume', key: 'volume', units: 'm3', longName: 'upper-layer volume' },
   { name: 'volume_anomaly', key: 'volumeAnomaly', units: 'm3', longName: 'volume of the thickness anomaly' },
   {
@@ -47,13 +62,25 @@ export const INTEGRAL_VARIABLES: ReadonlyArray<{ name: string; key: keyof Integr
     longName: 'layer volume the sponge bands added (positive) or took out (negative) since the experiment started',
     optional: true,
   },
-  { name: 'entrained_volume', key: 'entrainedVolume', units: 'm3', longName: 'layer volume entrainment added since the experiment started (nonlinear mode)', optional: true },
+  {
+    name: 'entrained_volume',
+    key: 'entrainedVolume',
+    units: 'm3',
+    longName: 'layer volume entrainment added since the experiment started (nonlinear mode)',
+    optional: true,
+  },
   { name: 'kinetic_energy', key: 'kinetic', units: 'J', longName: 'kinetic energy of the layer' },
   { name: 'potential_energy', key: 'potential', units: 'J', longName: 'available potential energy' },
   { name: 'energy', key: 'energy', units: 'J', longName: 'total energy (kinetic + available potential)' },
   { name: 'min_thickness', key: 'minThickness', units: 'm', longName: 'thinnest upper layer' },
   { name: 'max_speed', key: 'maxSpeed', units: 'm s-1', longName: 'largest layer-mean speed at cell centres' },
-  { name: 'courant', key: 'courant', units: '1', longName: 'Courant number of the scheme: gravity waves at rest depth (linear mode), gravity waves plus flow (nonlinear mode)' },
+  {
+    name: 'courant',
+    key: 'courant',
+    units: '1',
+    longName:
+      'Courant number of the scheme: gravity waves at rest depth (linear mode), gravity waves plus flow (nonlinear mode)',
+  },
 ];
 
 /** What the file describes; a subset of what the engine knows after loading a scenario. */
@@ -121,12 +148,17 @@ export function cellSizeDegrees(d: Pick<RunDescription, 'grid' | 'scenarioJson'>
     const n = centres.length;
     if (n > 1) return (centres[n - 1] - centres[0]) / (n - 1);
     const b = basin();
-    const extent = typeof b[high] === 'number' && typeof b[low] === 'number' ? (b[high] as number) - (b[low] as number) : NaN;
-    if (!(extent > 0)) throw new Error(`run file: the ${what} of a one-cell grid is unknown (no basin.${low}/${high} in the scenario)`);
+    const extent =
+      typeof b[high] === 'number' && typeof b[low] === 'number' ? (b[high] as number) - (b[low] as number) : NaN;
+    if (!(extent > 0))
+      throw new Error(`run file: the ${what} of a one-cell grid is unknown (no basin.${low}/${high} in the scenario)`);
     return extent;
   };
   const g = d.grid;
-  return { dLon: axis(g.lon, 'lonWest', 'lonEast', 'cell width'), dLat: axis(g.lat, 'latSouth', 'latNorth', 'cell height') };
+  return {
+    dLon: axis(g.lon, 'lonWest', 'lonEast', 'cell width'),
+    dLat: axis(g.lat, 'latSouth', 'latNorth', 'cell height'),
+  };
 }
 
 /**
@@ -139,8 +171,7 @@ export function cellAreaSquareMetres(d: Pick<RunDescription, 'grid' | 'scenarioJ
   return dLon * mPerDeg * (dLat * mPerDeg);
 }
 
-export const CELL_AREA_COMMENT =
-  `beta-plane cell area dx dy: distances are the Earth radius times radians (dx = R dlon, dy = R dlat, no cos(lat) factor), so every cell has the same area; R = ${EARTH.radius} m (IUGG mean radius R1)`;
+export const CELL_AREA_COMMENT = `beta-plane cell area dx dy: distances are the Earth radius times radians (dx = R dlon, dy = R dlat, no cos(lat) factor), so every cell has the same area; R = ${EARTH.radius} m (IUGG mean radius R1)`;
 
 /** The NetCDF layout (dimensions, variables, attributes) of a run's file. */
 export function runOutputFile(d: RunDescription): NcFileInput {
@@ -172,21 +203,55 @@ export function runOutputFile(d: RunDescription): NcFileInput {
         comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date',
       },
     },
-    { name: 'lat', type: NC_DOUBLE, dimensions: ['lat'], attributes: { standard_name: 'latitude', long_name: 'latitude of cell centres', units: 'degrees_north', axis: 'Y' } },
-    { name: 'lon', type: NC_DOUBLE, dimensions: ['lon'], attributes: { standard_name: 'longitude', long_name: 'longitude of cell centres', units: 'degrees_east', axis: 'X' } },
+    {
+      name: 'lat',
+      type: NC_DOUBLE,
+      dimensions: ['lat'],
+      attributes: {
+        standard_name: 'latitude',
+        long_name: 'latitude of cell centres',
+        units: 'degrees_north',
+        axis: 'Y',
+      },
+    },
+    {
+      name: 'lon',
+      type: NC_DOUBLE,
+      dimensions: ['lon'],
+      attributes: {
+        standard_name: 'longitude',
+        long_name: 'longitude of cell centres',
+        units: 'degrees_east',
+        axis: 'X',
+      },
+    },
     {
       name: 'ocean',
       type: NC_BYTE,
       dimensions: ['lat', 'lon'],
-      attributes: { long_name: 'ocean (1) or land (0)', flag_values: { type: NC_BYTE, values: [0, 1] }, flag_meanings: 'land ocean' },
+      attributes: {
+        long_name: 'ocean (1) or land (0)',
+        flag_values: { type: NC_BYTE, values: [0, 1] },
+        flag_meanings: 'land ocean',
+      },
     },
     {
       name: 'cell_area',
       type: NC_DOUBLE,
       dimensions: ['lat', 'lon'],
-      attributes: { standard_name: 'cell_area', long_name: 'area of the grid cell', units: 'm2', comment: CELL_AREA_COMMENT },
+      attributes: {
+        standard_name: 'cell_area',
+        long_name: 'area of the grid cell',
+        units: 'm2',
+        comment: CELL_AREA_COMMENT,
+      },
     },
-    { name: 'step', type: NC_DOUBLE, dimensions: ['time'], attributes: { long_name: 'model time steps taken', units: '1' } },
+    {
+      name: 'step',
+      type: NC_DOUBLE,
+      dimensions: ['time'],
+      attributes: { long_name: 'model time steps taken', units: '1' },
+    },
   ];
   if (ownMapAxis) {
     variables.push({
@@ -198,7 +263,8 @@ export function runOutputFile(d: RunDescription): NcFileInput {
         long_name: 'model time of the kept maps',
         units: TIME_UNITS,
         calendar: TIME_CALENDAR,
-        comment: 'the maps (fields on lat and lon) were kept for these output times only; the series on time are complete',
+        comment:
+          'the maps (fields on lat and lon) were kept for these output times only; the series on time are complete',
       },
     });
   }
@@ -212,7 +278,12 @@ export function runOutputFile(d: RunDescription): NcFileInput {
     });
   }
   for (const iv of INTEGRAL_VARIABLES) {
-    variables.push({ name: iv.name, type: NC_DOUBLE, dimensions: ['time'], attributes: { long_name: iv.longName, units: iv.units } });
+    variables.push({
+      name: iv.name,
+      type: NC_DOUBLE,
+      dimensions: ['time'],
+      attributes: { long_name: iv.longName, units: iv.units },
+    });
   }
   if (d.hovmollerLats.length > 0) {
     dimensions.push({ name: 'hovmoller', length: d.hovmollerLats.length });
@@ -220,13 +291,20 @@ export function runOutputFile(d: RunDescription): NcFileInput {
       name: 'hovmoller_lat',
       type: NC_DOUBLE,
       dimensions: ['hovmoller'],
-      attributes: { standard_name: 'latitude', long_name: 'centre latitude of the model row of each Hovmoller section', units: 'degrees_north' },
+      attributes: {
+        standard_name: 'latitude',
+        long_name: 'centre latitude of the model row of each Hovmoller section',
+        units: 'degrees_north',
+      },
     });
     variables.push({
       name: 'hovmoller_h_anom',
       type: NC_FLOAT,
       dimensions: ['time', 'hovmoller', 'lon'],
-      attributes: { ...floatAtts('m', `${FIELD_INFO.h_anom.longName} along the Hovmoller rows`), coordinates: 'hovmoller_lat' },
+      attributes: {
+        ...floatAtts('m', `${FIELD_INFO.h_anom.longName} along the Hovmoller rows`),
+        coordinates: 'hovmoller_lat',
+      },
     });
   }
   if (d.probes.length > 0) {
@@ -243,8 +321,18 @@ export function runOutputFile(d: RunDescription): NcFileInput {
         dimensions: ['probe', 'probe_name_length'],
         attributes: { long_name: 'probe name', cf_role: 'timeseries_id', _Encoding: 'utf-8' },
       },
-      { name: 'probe_lon', type: NC_DOUBLE, dimensions: ['probe'], attributes: { standard_name: 'longitude', long_name: 'probe longitude as given', units: 'degrees_east' } },
-      { name: 'probe_lat', type: NC_DOUBLE, dimensions: ['probe'], attributes: { standard_name: 'latitude', long_name: 'probe latitude as given', units: 'degrees_north' } },
+      {
+        name: 'probe_lon',
+        type: NC_DOUBLE,
+        dimensions: ['probe'],
+        attributes: { standard_name: 'longitude', long_name: 'probe longitude as given', units: 'degrees_east' },
+      },
+      {
+        name: 'probe_lat',
+        type: NC_DOUBLE,
+        dimensions: ['probe'],
+        attributes: { standard_name: 'latitude', long_name: 'probe latitude as given', units: 'degrees_north' },
+      },
     );
     for (const f of d.fields) {
       const info = FIELD_INFO[f];
@@ -252,7 +340,10 @@ export function runOutputFile(d: RunDescription): NcFileInput {
         name: probeVariableName(f),
         type: NC_FLOAT,
         dimensions: ['time', 'probe'],
-        attributes: { ...floatAtts(info.units, `${info.longName} in the model cell holding the probe`, info.standardName), coordinates: 'probe_lat probe_lon probe_name' },
+        attributes: {
+          ...floatAtts(info.units, `${info.longName} in the model cell holding the probe`, info.standardName),
+          coordinates: 'probe_lat probe_lon probe_name',
+        },
       });
     }
   }
@@ -308,8 +399,14 @@ export async function writeRunFixed(writer: NetcdfWriter, d: RunDescription): Pr
     const names = new Uint8Array(d.probes.length * strlen);
     d.probes.forEach((p, k) => names.set(utf8Bytes(p.name), k * strlen));
     await writer.writeFixed('probe_name', names);
-    await writer.writeFixed('probe_lon', d.probes.map((p) => p.lon));
-    await writer.writeFixed('probe_lat', d.probes.map((p) => p.lat));
+    await writer.writeFixed(
+      'probe_lon',
+      d.probes.map((p) => p.lon),
+    );
+    await writer.writeFixed(
+      'probe_lat',
+      d.probes.map((p) => p.lat),
+    );
   }
 }
 
@@ -343,7 +440,11 @@ export class RunOutputWriter {
    * Header and the fixed variables (coordinates, mask, cell areas, probe table, and the kept maps
    * of a file with its own map axis); the header goes in last.
    */
-  async begin(maps?: { days: ArrayLike<number>; fields: ReadonlyArray<Partial<Record<FieldName, ArrayLike<number>>>>; progress?: () => Promise<void> | void }): Promise<void> {
+  async begin(maps?: {
+    days: ArrayLike<number>;
+    fields: ReadonlyArray<Partial<Record<FieldName, ArrayLike<number>>>>;
+    progress?: () => Promise<void> | void;
+  }): Promise<void> {
     await this.writer.writeHeader();
     await writeRunFixed(this.writer, this.d);
     if (maps) await this.writeMaps(maps.days, maps.fields, maps.progress);
@@ -351,9 +452,14 @@ export class RunOutputWriter {
   }
 
   /** The kept maps of a file with its own map axis (d.mapRecords): their days and fields, in order. */
-  async writeMaps(days: ArrayLike<number>, maps: ReadonlyArray<Partial<Record<FieldName, ArrayLike<number>>>>, progress?: () => Promise<void> | void): Promise<void> {
+  async writeMaps(
+    days: ArrayLike<number>,
+    maps: ReadonlyArray<Partial<Record<FieldName, ArrayLike<number>>>>,
+    progress?: () => Promise<void> | void,
+  ): Promise<void> {
     const { d } = this;
-    if (d.mapRecords === undefined || maps.length !== d.mapRecords) throw new Error(`run file: ${maps.length} maps for a layout of ${d.mapRecords ?? 'no'} map records`);
+    if (d.mapRecords === undefined || maps.length !== d.mapRecords)
+      throw new Error(`run file: ${maps.length} maps for a layout of ${d.mapRecords ?? 'no'} map records`);
     await this.writer.writeFixed(MAP_TIME, days);
     const cells = d.grid.nx * d.grid.ny;
     for (const f of d.fields) {

@@ -58,15 +58,22 @@ export function hasRunPhysics(attributes: Record<string, NcReadAttribute>): bool
 export function readRunPhysics(attributes: Record<string, NcReadAttribute>): RunPhysics {
   const num = (name: string, positive: boolean): number => {
     const a = attributes[name];
-    if (!a || typeof a.value === 'string' || a.value.length !== 1) throw new RunPhysicsError(`the global attribute ${name} is missing or not one number`);
+    if (!a || typeof a.value === 'string' || a.value.length !== 1)
+      throw new RunPhysicsError(`the global attribute ${name} is missing or not one number`);
     const v = a.value[0];
-    if (!Number.isFinite(v) || (positive ? !(v > 0) : v < 0)) throw new RunPhysicsError(`the global attribute ${name} is ${v}; it must be a ${positive ? 'positive' : 'non-negative'} number`);
+    if (!Number.isFinite(v) || (positive ? !(v > 0) : v < 0))
+      throw new RunPhysicsError(
+        `the global attribute ${name} is ${v}; it must be a ${positive ? 'positive' : 'non-negative'} number`,
+      );
     return v;
   };
   const text = <T extends string>(name: string, allowed: readonly T[]): T => {
     const a = attributes[name];
     const v = a && typeof a.value === 'string' ? a.value : undefined;
-    if (v === undefined || !(allowed as readonly string[]).includes(v)) throw new RunPhysicsError(`the global attribute ${name} is ${v === undefined ? 'missing or not text' : `'${v}'`}; it must be one of ${allowed.join(', ')}`);
+    if (v === undefined || !(allowed as readonly string[]).includes(v))
+      throw new RunPhysicsError(
+        `the global attribute ${name} is ${v === undefined ? 'missing or not text' : `'${v}'`}; it must be one of ${allowed.join(', ')}`,
+      );
     return v as T;
   };
   const friction = `${PREFIX}friction_days`;
@@ -81,9 +88,15 @@ export function readRunPhysics(attributes: Record<string, NcReadAttribute>): Run
     frictionDays: attributes[friction] === undefined ? null : num(friction, true),
     viscosity: num(`${PREFIX}viscosity`, false),
   });
-  for (const [name, key] of [[`${PREFIX}wave_speed`, 'waveSpeed'], [`${PREFIX}equatorial_radius`, 'equatorialRadius']] as const) {
+  for (const [name, key] of [
+    [`${PREFIX}wave_speed`, 'waveSpeed'],
+    [`${PREFIX}equatorial_radius`, 'equatorialRadius'],
+  ] as const) {
     const stored = num(name, true);
-    if (!Object.is(stored, p[key])) throw new RunPhysicsError(`the global attribute ${name} is ${stored}, but the record's g', H and beta give ${p[key]}`);
+    if (!Object.is(stored, p[key]))
+      throw new RunPhysicsError(
+        `the global attribute ${name} is ${stored}, but the record's g', H and beta give ${p[key]}`,
+      );
   }
   return p;
 }
@@ -103,7 +116,15 @@ export interface KeptPhysics {
  * when the scenario does not parse.
  */
 export function legacyRunPhysics(kept: KeptPhysics, scenarioJson: string): RunPhysics {
-  let s: { physics?: { density?: unknown; dynamics?: unknown; frictionDays?: unknown; viscosity?: unknown; coriolis?: { kind?: unknown; beta?: unknown } } };
+  let s: {
+    physics?: {
+      density?: unknown;
+      dynamics?: unknown;
+      frictionDays?: unknown;
+      viscosity?: unknown;
+      coriolis?: { kind?: unknown; beta?: unknown };
+    };
+  };
   try {
     s = JSON.parse(scenarioJson);
   } catch (e) {
@@ -119,7 +140,11 @@ export function legacyRunPhysics(kept: KeptPhysics, scenarioJson: string): RunPh
     density: typeof p.density === 'number' ? p.density : defaultPhysics().density,
     coriolis,
     // As the scenario resolver sets it: the beta plane's own beta, else 2 Omega / R.
-    beta: kept.beta ?? (coriolis === 'beta-plane' && typeof p.coriolis?.beta === 'number' ? p.coriolis.beta : earthBeta(EARTH.omega, EARTH.radius)),
+    beta:
+      kept.beta ??
+      (coriolis === 'beta-plane' && typeof p.coriolis?.beta === 'number'
+        ? p.coriolis.beta
+        : earthBeta(EARTH.omega, EARTH.radius)),
     earthRadius,
     dynamics: dynamics === 'nonlinear' ? 'nonlinear' : 'linear',
     frictionDays: typeof p.frictionDays === 'number' && p.frictionDays > 0 ? p.frictionDays : null,

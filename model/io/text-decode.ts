@@ -24,7 +24,9 @@ export function decodeUtf8Text(bytes: Uint8Array): string {
     const at = firstBadByte(bytes);
     const { line, column } = placeOf(bytes, at);
     const b = bytes[at];
-    throw new TextEncodingError(`the file is not UTF-8 text: byte ${at} (line ${line}, column ${column}) is 0x${b.toString(16).toUpperCase().padStart(2, '0')}, which does not begin a valid UTF-8 character; save it as UTF-8`);
+    throw new TextEncodingError(
+      `the file is not UTF-8 text: byte ${at} (line ${line}, column ${column}) is 0x${b.toString(16).toUpperCase().padStart(2, '0')}, which does not begin a valid UTF-8 character; save it as UTF-8`,
+    );
   }
 }
 
@@ -34,8 +36,10 @@ function isContinuation(b: number): boolean {
 
 /** "UTF-16 text (little-endian, by its byte-order mark)" and the like, or null for anything else. */
 function otherEncoding(b: Uint8Array): string | null {
-  if (b.length >= 4 && b[0] === 0xff && b[1] === 0xfe && b[2] === 0 && b[3] === 0) return 'UTF-32 text (little-endian, by its byte-order mark)';
-  if (b.length >= 4 && b[0] === 0 && b[1] === 0 && b[2] === 0xfe && b[3] === 0xff) return 'UTF-32 text (big-endian, by its byte-order mark)';
+  if (b.length >= 4 && b[0] === 0xff && b[1] === 0xfe && b[2] === 0 && b[3] === 0)
+    return 'UTF-32 text (little-endian, by its byte-order mark)';
+  if (b.length >= 4 && b[0] === 0 && b[1] === 0 && b[2] === 0xfe && b[3] === 0xff)
+    return 'UTF-32 text (big-endian, by its byte-order mark)';
   if (b.length >= 2 && b[0] === 0xff && b[1] === 0xfe) return 'UTF-16 text (little-endian, by its byte-order mark)';
   if (b.length >= 2 && b[0] === 0xfe && b[1] === 0xff) return 'UTF-16 text (big-endian, by its byte-order mark)';
   // Without a mark: ASCII characters in UTF-16 come with a zero byte beside each one.

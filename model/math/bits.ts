@@ -71,7 +71,7 @@ export function twoProd(a: number, b: number): number {
   t = SPLIT * b;
   const bh = t - (t - b);
   const bl = b - bh;
-  low[0] = al * bl - (((p - ah * bh) - al * bh) - ah * bl);
+  low[0] = al * bl - (p - ah * bh - al * bh - ah * bl);
   return p;
 }
 
@@ -79,6 +79,6 @@ export function twoProd(a: number, b: number): number {
 export function twoSum(a: number, b: number): number {
   const s = a + b;
   const bb = s - a;
-  low[0] = (a - (s - bb)) + (b - bb);
+  low[0] = a - (s - bb) + (b - bb);
   return s;
 }

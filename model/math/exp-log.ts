@@ -8,18 +8,18 @@ import * as bits from './bits.ts';
 // Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
 const { clearLowWord, highWord, pow2, scalePow2 } = bits;
 
-export const LN2_HI = 6.93147180369123816490e-1; // 32 significant bits: k * LN2_HI is exact
+export const LN2_HI = 6.9314718036912381649e-1; // 32 significant bits: k * LN2_HI is exact
 export const LN2_LO = 1.90821492927058770002e-10;
-const INV_LN2 = 1.44269504088896338700e0;
+const INV_LN2 = 1.442695040888963387;
 /** Above this exp overflows; below EXP_UNDERFLOW it is 0 (ln of the largest double, of 2^-1075). */
 export const EXP_OVERFLOW = 7.09782712893383973096e2;
-export const EXP_UNDERFLOW = -7.45133219101941108420e2;
+export const EXP_UNDERFLOW = -7.4513321910194110842e2;
 
 // Remez coefficients of R(r^2) ~ r (e^r + 1)/(e^r - 1) on [0, 0.347^2] (fdlibm e_exp.c).
 const P1 = 1.66666666666666019037e-1;
 const P2 = -2.77777777770155933842e-3;
 const P3 = 6.61375632143793436117e-5;
-const P4 = -1.65339022054652515390e-6;
+const P4 = -1.6533902205465251539e-6;
 const P5 = 4.13813679705723846039e-8;
 
 /** Nearest integer to x / ln 2, halves away from zero (symmetric in x). */
@@ -45,7 +45,7 @@ export function expWithTail(xh: number, xl: number): number {
   const r = hi - lo;
   const t = r * r;
   const c = r - t * (P1 + t * (P2 + t * (P3 + t * (P4 + t * P5))));
-  const y = 1 - ((lo - (r * c) / (2 - c)) - hi);
+  const y = 1 - (lo - (r * c) / (2 - c) - hi);
   return k === 0 ? y : scalePow2(y, k);
 }
 
@@ -75,7 +75,7 @@ export function expm1(x: number): number {
     const hi = x - k * LN2_HI;
     const lo = k * LN2_LO;
     x = hi - lo;
-    c = (hi - x) - lo;
+    c = hi - x - lo;
   } else if (ax < 5.551115123125783e-17) {
     return x; // |x| < 2^-54
   }
@@ -90,12 +90,12 @@ export function expm1(x: number): number {
   if (k === -1) return 0.5 * (x - e) - 0.5;
   if (k === 1) return x < -0.25 ? -2 * (e - (x + 0.5)) : 1 + 2 * (x - e);
   if (k <= -2 || k > 56) return scalePow2(1 - (e - x), k) - 1;
-  if (k < 20) return scalePow2((1 - scalePow2(1, -k)) - (e - x), k); // 1 - 2^-k is exact here
+  if (k < 20) return scalePow2(1 - scalePow2(1, -k) - (e - x), k); // 1 - 2^-k is exact here
   return scalePow2(x - (e + scalePow2(1, -k)) + 1, k);
 }
 
 // Remez coefficients of log(1+f) = f - f^2/2 + s(f^2/2 + R(s^2)), s = f/(2+f) (fdlibm e_log.c).
-const LG1 = 6.666666666666735130e-1;
+const LG1 = 6.66666666666673513e-1;
 const LG2 = 3.999999999940941908e-1;
 const LG3 = 2.857142874366239149e-1;
 const LG4 = 2.222219843214978396e-1;
@@ -150,7 +150,7 @@ export function log(x: number): number {
     // -2^-20 <= f < 2^-20: a short series
     if (f === 0) return k === 0 ? 0 : k * LN2_HI + k * LN2_LO;
     const R = f * f * (0.5 - 0.33333333333333333 * f);
-    return k === 0 ? f - R : k * LN2_HI - ((R - k * LN2_LO) - f);
+    return k === 0 ? f - R : k * LN2_HI - (R - k * LN2_LO - f);
   }
   const s = f / (2 + f);
   const z = s * s;
@@ -161,10 +161,10 @@ export function log(x: number): number {
   if (((hx - 0x6147a) | (0x6b851 - hx)) > 0) {
     const hfsq = 0.5 * f * f;
     if (k === 0) return f - (hfsq - s * (hfsq + R));
-    return k * LN2_HI - ((hfsq - (s * (hfsq + R) + k * LN2_LO)) - f);
+    return k * LN2_HI - (hfsq - (s * (hfsq + R) + k * LN2_LO) - f);
   }
   if (k === 0) return f - s * (f - R);
-  return k * LN2_HI - ((s * (f - R) - k * LN2_LO) - f);
+  return k * LN2_HI - (s * (f - R) - k * LN2_LO - f);
 }
 
 // log10 as FreeBSD's e_log10.c: log(1+f) split into a short head and a tail so the products by the
@@ -185,12 +185,12 @@ export function log10(x: number): number {
   const hfsq = 0.5 * f * f;
   const r = logRemainder(f);
   const hi = clearLowWord(f - hfsq);
-  const lo = (f - hi) - hfsq + r;
+  const lo = f - hi - hfsq + r;
   let valHi = hi * IVLN10_HI;
   const y2 = y * LOG10_2HI;
   let valLo = y * LOG10_2LO + (lo + hi) * IVLN10_LO + lo * IVLN10_HI;
   const w = y2 + valHi;
-  valLo += (y2 - w) + valHi;
+  valLo += y2 - w + valHi;
   valHi = w;
   return valLo + valHi;
 }

@@ -42,7 +42,7 @@ export function hypot(x: number, y: number): number {
   const sLow = low[0] + aaLow + bbLow;
   const hh = twoProd(h, h);
   const hhLow = low[0];
-  const residual = (hh - s) + (hhLow - sLow);
+  const residual = hh - s + (hhLow - sLow);
   h -= residual / (2 * h);
   return h * scale;
 }

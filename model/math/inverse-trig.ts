@@ -7,12 +7,14 @@ import * as bits from './bits.ts';
 // Local copies: some loaders (tsx) turn imported bindings into getter calls, costly in these hot paths.
 const { clearLowWord, highWord } = bits;
 
-const ATAN_HI = [4.63647609000806093515e-1, 7.85398163397448278999e-1, 9.82793723247329054082e-1, 1.57079632679489655800e0];
-const ATAN_LO = [2.26987774529616870924e-17, 3.06161699786838301793e-17, 1.39033110312309984516e-17, 6.12323399573676603587e-17];
+const ATAN_HI = [4.63647609000806093515e-1, 7.85398163397448278999e-1, 9.82793723247329054082e-1, 1.570796326794896558];
+const ATAN_LO = [
+  2.26987774529616870924e-17, 3.06161699786838301793e-17, 1.39033110312309984516e-17, 6.12323399573676603587e-17,
+];
 const AT = [
-  3.33333333333329318027e-1, -1.99999999998764832476e-1, 1.42857142725034663711e-1, -1.11111104054623557880e-1,
+  3.33333333333329318027e-1, -1.99999999998764832476e-1, 1.42857142725034663711e-1, -1.1111110405462355788e-1,
   9.09088713343650656196e-2, -7.69187620504482999495e-2, 6.66107313738753120669e-2, -5.83357013379057348645e-2,
-  4.97687799461593236017e-2, -3.65315727442169155270e-2, 1.62858201153657823623e-2,
+  4.97687799461593236017e-2, -3.6531572744216915527e-2, 1.62858201153657823623e-2,
 ];
 
 export function atan(x: number): number {
@@ -41,13 +43,13 @@ export function atan(x: number): number {
   const s1 = z * (AT[0] + w * (AT[2] + w * (AT[4] + w * (AT[6] + w * (AT[8] + w * AT[10])))));
   const s2 = w * (AT[1] + w * (AT[3] + w * (AT[5] + w * (AT[7] + w * AT[9]))));
   if (id < 0) return x - x * (s1 + s2);
-  const r = ATAN_HI[id] - ((t * (s1 + s2) - ATAN_LO[id]) - t);
+  const r = ATAN_HI[id] - (t * (s1 + s2) - ATAN_LO[id] - t);
   return x < 0 ? -r : r;
 }
 
-const PI = 3.1415926535897931160e0;
+const PI = 3.141592653589793116;
 const PI_LO = 1.2246467991473531772e-16; // pi - PI
-const PIO2 = 1.57079632679489655800e0;
+const PIO2 = 1.570796326794896558;
 const PIO4 = 7.85398163397448278999e-1;
 
 /** The angle of (x, y), signs and zeros as ECMAScript's Math.atan2 (and C99's atan2). */
@@ -64,13 +66,14 @@ export function atan2(y: number, x: number): number {
   const k = ((highWord(y) >> 20) & 0x7ff) - ((highWord(x) >> 20) & 0x7ff);
   if (k > 60) return sign(PIO2 + 0.5 * PI_LO); // |y/x| > 2^60: pi/2 whatever x's sign
   let z: number;
-  if (xNeg && k < -60) z = 0; // |y/x| < 2^-60 and x < 0
+  if (xNeg && k < -60)
+    z = 0; // |y/x| < 2^-60 and x < 0
   else z = atan(Math.abs(y / x));
   if (!xNeg) return sign(z);
   return sign(PI - (z - PI_LO));
 }
 
-const PIO2_HI = 1.57079632679489655800e0;
+const PIO2_HI = 1.570796326794896558;
 const PIO2_LO = 6.12323399573676603587e-17;
 const PIO4_HI = 7.85398163397448278999e-1;
 const PS0 = 1.66666666666666657415e-1;
@@ -78,10 +81,10 @@ const PS1 = -3.25565818622400915405e-1;
 const PS2 = 2.01212532134862925881e-1;
 const PS3 = -4.00555345006794114027e-2;
 const PS4 = 7.91534994289814532176e-4;
-const PS5 = 3.47933107596021167570e-5;
-const QS1 = -2.40339491173441421878e0;
-const QS2 = 2.02094576023350569471e0;
-const QS3 = -6.88283971605453293030e-1;
+const PS5 = 3.4793310759602116757e-5;
+const QS1 = -2.40339491173441421878;
+const QS2 = 2.02094576023350569471;
+const QS3 = -6.8828397160545329303e-1;
 const QS4 = 7.70381505559019352791e-2;
 
 /** R(t) = (asin(sqrt t) - sqrt t) / sqrt t ~ t P(t)/Q(t). */

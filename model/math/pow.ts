@@ -16,10 +16,20 @@ const { expWithTail } = expLog;
 const LN2_HI = 6.93147180559945286227e-1; // ln 2 = LN2_HI + LN2_LO to ~107 bits
 const LN2_LO = 2.319046813846299558e-17;
 const TWO_THIRDS_HI = 2 / 3;
-const TWO_THIRDS_LO = ((2 - twoProd(3, TWO_THIRDS_HI)) - low[0]) / 3; // 2/3 - TWO_THIRDS_HI
+const TWO_THIRDS_LO = (2 - twoProd(3, TWO_THIRDS_HI) - low[0]) / 3; // 2/3 - TWO_THIRDS_HI
 // 2/(2n+1) for n = 2 .. 13: the atanh series beyond its s^3 term (IEEE divisions, the same everywhere).
-const A5 = 2 / 5, A7 = 2 / 7, A9 = 2 / 9, A11 = 2 / 11, A13 = 2 / 13, A15 = 2 / 15;
-const A17 = 2 / 17, A19 = 2 / 19, A21 = 2 / 21, A23 = 2 / 23, A25 = 2 / 25, A27 = 2 / 27;
+const A5 = 2 / 5,
+  A7 = 2 / 7,
+  A9 = 2 / 9,
+  A11 = 2 / 11,
+  A13 = 2 / 13,
+  A15 = 2 / 15;
+const A17 = 2 / 17,
+  A19 = 2 / 19,
+  A21 = 2 / 21,
+  A23 = 2 / 23,
+  A25 = 2 / 25,
+  A27 = 2 / 27;
 
 let lnHi = 0;
 let lnLo = 0;
@@ -44,7 +54,7 @@ function lnDoubleDouble(x: number): void {
   const denLow = f - (den - 2); // exact rounding error of 2 + f
   const sh = f / den;
   const p = twoProd(sh, den);
-  const sl = ((f - p) - low[0] - sh * denLow) / den;
+  const sl = (f - p - low[0] - sh * denLow) / den;
   // s^2 and s^3 in double-double
   const z = twoProd(sh, sh);
   const zl = low[0] + 2 * sh * sl;
@@ -54,7 +64,13 @@ function lnDoubleDouble(x: number): void {
   const d = twoProd(c, TWO_THIRDS_HI);
   const dl = low[0] + (cl * TWO_THIRDS_HI + c * TWO_THIRDS_LO);
   // s^5 (2/5 + 2 s^2/7 + ...)
-  const q = A5 + z * (A7 + z * (A9 + z * (A11 + z * (A13 + z * (A15 + z * (A17 + z * (A19 + z * (A21 + z * (A23 + z * (A25 + z * A27))))))))));
+  const q =
+    A5 +
+    z *
+      (A7 +
+        z *
+          (A9 +
+            z * (A11 + z * (A13 + z * (A15 + z * (A17 + z * (A19 + z * (A21 + z * (A23 + z * (A25 + z * A27))))))))));
   const tail = c * z * q;
   const a = twoSum(2 * sh, d);
   const al = low[0] + (dl + tail + 2 * sl);
@@ -80,7 +96,7 @@ export function pow(x: number, y: number): number {
   if (y === Infinity || y === -Infinity) {
     const ax = Math.abs(x);
     if (ax === 1) return NaN;
-    return (ax > 1) === (y > 0) ? Infinity : 0;
+    return ax > 1 === y > 0 ? Infinity : 0;
   }
   if (x === Infinity) return y > 0 ? Infinity : 0;
   if (x === -Infinity) {
@@ -104,7 +120,8 @@ export function pow(x: number, y: number): number {
   const ph = twoProd(y, lnHi);
   const pl = low[0] + y * lnLo;
   let r: number;
-  if (ph !== ph || ph > 1000) r = Infinity; // also y ln x overflowing as a product
+  if (ph !== ph || ph > 1000)
+    r = Infinity; // also y ln x overflowing as a product
   else if (ph < -1000) r = 0;
   else {
     const zh = ph + pl;

@@ -11,11 +11,11 @@ import * as bits from './bits.ts';
 const { highWord, scalePow2, twoProd, low, lowWord } = bits;
 
 const INV_PIO2 = 6.36619772367581382433e-1;
-const PIO2_1 = 1.57079632673412561417e0; // first 33 bits of pi/2
+const PIO2_1 = 1.57079632673412561417; // first 33 bits of pi/2
 const PIO2_1T = 6.07710050650619224932e-11; // pi/2 - PIO2_1
-const PIO2_2 = 6.07710050630396597660e-11; // next 33 bits
+const PIO2_2 = 6.0771005063039659766e-11; // next 33 bits
 const PIO2_2T = 2.02226624879595063154e-21;
-const PIO2_3 = 2.02226624871116645580e-21; // next 33 bits
+const PIO2_3 = 2.0222662487111664558e-21; // next 33 bits
 const PIO2_3T = 8.47842766036889956997e-32;
 export const PIO2_HI = 1.5707963267948966; // pi/2 = PIO2_HI + PIO2_LO to ~107 bits
 export const PIO2_LO = 6.123233995736766e-17;
@@ -44,18 +44,18 @@ function codyWaite(ax: number): number {
     let t = r;
     w = fn * PIO2_2;
     r = t - w;
-    w = fn * PIO2_2T - ((t - r) - w);
+    w = fn * PIO2_2T - (t - r - w);
     y0 = r - w;
     if (j - exponentOf(y0) > 49) {
       t = r;
       w = fn * PIO2_3;
       r = t - w;
-      w = fn * PIO2_3T - ((t - r) - w);
+      w = fn * PIO2_3T - (t - r - w);
       y0 = r - w;
     }
   }
   reduced[0] = y0;
-  reduced[1] = (r - y0) - w;
+  reduced[1] = r - y0 - w;
   return fn & 3; // fn < 2^20: an exact int32
 }
 

@@ -68,12 +68,45 @@ function sharedField(size: number, precision: Precision): FieldArray {
   const buf = new SharedArrayBuffer(size * bytesOf(precision));
   return precision === 'float32' ? new Float32Array(buf) : new Float64Array(buf);
 }
-const sharedPair = (size: number, p: Precision): [FieldArray, FieldArray] => [sharedField(size, p), sharedField(size, p)];
+const sharedPair = (size: number, p: Precision): [FieldArray, FieldArray] => [
+  sharedField(size, p),
+  sharedField(size, p),
+];
 
 /** The linear step's row constants (without the dense coast fields of the nonlinear step). */
 function rowCoefficients(c: StepCoefficients): RowCoefficients {
-  const { dt, gpdx, gpdy, idx2, idy2, dtHdx, dtHdy, coriolisSouth, coriolisNorth, fV, spongeH, spongeV, coastU, coastV } = c;
-  return { dt, gpdx, gpdy, idx2, idy2, dtHdx, dtHdy, coriolisSouth, coriolisNorth, fV, spongeH, spongeV, coastU, coastV };
+  const {
+    dt,
+    gpdx,
+    gpdy,
+    idx2,
+    idy2,
+    dtHdx,
+    dtHdy,
+    coriolisSouth,
+    coriolisNorth,
+    fV,
+    spongeH,
+    spongeV,
+    coastU,
+    coastV,
+  } = c;
+  return {
+    dt,
+    gpdx,
+    gpdy,
+    idx2,
+    idy2,
+    dtHdx,
+    dtHdy,
+    coriolisSouth,
+    coriolisNorth,
+    fV,
+    spongeH,
+    spongeV,
+    coastU,
+    coastV,
+  };
 }
 
 /** The shared fields of a team of `threads` and the leader's binding of them to the State. */
@@ -98,15 +131,34 @@ export function createStripSetup(
       fields = made.fields;
       wasm = made.shared;
     } else {
-      fields = { u: sharedPair(size, p), v: sharedPair(size, p), h: sharedField(size, p), accelX: sharedField(size, p), accelY: sharedField(size, p) };
+      fields = {
+        u: sharedPair(size, p),
+        v: sharedPair(size, p),
+        h: sharedField(size, p),
+        accelX: sharedField(size, p),
+        accelY: sharedField(size, p),
+      };
     }
-    const setup: StripSetup = { mode: 'linear', kernel, precision, grid: g, coefficients, fields, ...(wasm ? { wasm } : {}) };
+    const setup: StripSetup = {
+      mode: 'linear',
+      kernel,
+      precision,
+      grid: g,
+      coefficients,
+      fields,
+      ...(wasm ? { wasm } : {}),
+    };
     return { setup, binding: linearBinding(grid, fields, physics.density * physics.layerThickness) };
   }
   const base = nonlinearRowGrid(grid);
   const exact = nonlinearRowCoefficients(grid, c, physics);
   const nc = f32 ? roundNonlinearCoefficients(exact) : exact;
-  const g: NonlinearRowGrid = { ...base, maskU: shared(base.maskU), maskV: shared(base.maskV), oceanF: shared(base.oceanF) };
+  const g: NonlinearRowGrid = {
+    ...base,
+    maskU: shared(base.maskU),
+    maskV: shared(base.maskV),
+    oceanF: shared(base.oceanF),
+  };
   const coefficients: NonlinearRowCoefficients = { ...nc, coastU: shared(nc.coastU), coastV: shared(nc.coastV) };
   let fields: NonlinearFields<FieldArray>;
   let wasm: WasmNonlinearStripMemory | undefined;
@@ -128,7 +180,15 @@ export function createStripSetup(
       spongeSums: [sums(), sums()],
     };
   }
-  const setup: StripSetup = { mode: 'nonlinear', kernel, precision, grid: g, coefficients, fields, ...(wasm ? { wasm } : {}) };
+  const setup: StripSetup = {
+    mode: 'nonlinear',
+    kernel,
+    precision,
+    grid: g,
+    coefficients,
+    fields,
+    ...(wasm ? { wasm } : {}),
+  };
   return { setup, binding: nonlinearBinding(fields, nc.spongeH, c.spongeRowsH) };
 }
 

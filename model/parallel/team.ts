@@ -85,9 +85,18 @@ export class StripTeam {
   }
 
   /** Start threads - 1 workers (the caller is the last thread); resolves when all are ready. */
-  static async start(grid: Grid, c: StepCoefficients, physics: PhysicsConfig, threads: number, spawn: StripSpawner, options: TeamOptions = {}): Promise<StripTeam> {
+  static async start(
+    grid: Grid,
+    c: StepCoefficients,
+    physics: PhysicsConfig,
+    threads: number,
+    spawn: StripSpawner,
+    options: TeamOptions = {},
+  ): Promise<StripTeam> {
     if (typeof SharedArrayBuffer === 'undefined') {
-      throw new StripTeamError('strip workers need SharedArrayBuffer, which a page has only when it is cross-origin isolated');
+      throw new StripTeamError(
+        'strip workers need SharedArrayBuffer, which a page has only when it is cross-origin isolated',
+      );
     }
     const strips = stripBounds(grid.ny, threads);
     const kernelName = options.kernel ?? 'ts';
@@ -96,7 +105,14 @@ export class StripTeam {
     const spins = options.spins ?? 4000;
     // The TypeScript strips keep each field in a SharedArrayBuffer of its own; the WebAssembly
     // strips keep them all in one shared WebAssembly.Memory (with masks and tables).
-    const { setup, binding } = createStripSetup(grid, c, physics, kernelName, strips.length, options.precision ?? 'float64');
+    const { setup, binding } = createStripSetup(
+      grid,
+      c,
+      physics,
+      kernelName,
+      strips.length,
+      options.precision ?? 'float64',
+    );
     const workers: StripWorkerPort[] = [];
     const terminateAll = () => {
       for (const w of workers) w.terminate();
@@ -109,17 +125,36 @@ export class StripTeam {
           w.onMessage((m) => {
             const r = m as StripReply;
             if (r.kind === 'strip-ready') resolve();
-            else if (r.kind === 'strip-failed') reject(new StripTeamError(`strip worker for rows ${rows.j0}..${rows.j1 - 1} failed: ${r.message}`));
+            else if (r.kind === 'strip-failed')
+              reject(new StripTeamError(`strip worker for rows ${rows.j0}..${rows.j1 - 1} failed: ${r.message}`));
           });
-          w.onError((e) => reject(new StripTeamError(`strip worker for rows ${rows.j0}..${rows.j1 - 1} failed to start: ${e instanceof Error ? e.message : String(e)}`)));
-          const init: StripInit = { kind: 'strip-init', strip: n + 1, strips, parties: strips.length, spins, setup, control, params };
+          w.onError((e) =>
+            reject(
+              new StripTeamError(
+                `strip worker for rows ${rows.j0}..${rows.j1 - 1} failed to start: ${e instanceof Error ? e.message : String(e)}`,
+              ),
+            ),
+          );
+          const init: StripInit = {
+            kind: 'strip-init',
+            strip: n + 1,
+            strips,
+            parties: strips.length,
+            spins,
+            setup,
+            control,
+            params,
+          };
           w.postMessage(init);
         });
       });
       const startMs = options.startMs ?? 30_000;
       let timer: ReturnType<typeof setTimeout> | undefined;
       const timeout = new Promise<never>((_, reject) => {
-        timer = setTimeout(() => reject(new StripTeamError(`the strip workers did not start within ${startMs / 1000} s`)), startMs);
+        timer = setTimeout(
+          () => reject(new StripTeamError(`the strip workers did not start within ${startMs / 1000} s`)),
+          startMs,
+        );
       });
       try {
         await Promise.race([Promise.all(ready), timeout]);
@@ -132,7 +167,17 @@ export class StripTeam {
     }
     for (const w of workers) w.unref?.();
     const rows = stripStep(setup, 0);
-    return new StripTeam(kernelName, rows, binding, strips, workers, control, params, new Barrier(control, 0, strips.length, spins), options.timeoutMs ?? 20_000);
+    return new StripTeam(
+      kernelName,
+      rows,
+      binding,
+      strips,
+      workers,
+      control,
+      params,
+      new Barrier(control, 0, strips.length, spins),
+      options.timeoutMs ?? 20_000,
+    );
   }
 
   /** Copy a state's fields into the shared buffers; from then on the state's arrays are the shared views. */
@@ -172,7 +217,9 @@ export class StripTeam {
       this.barrier.arrive(this.timeoutMs);
     } catch (e) {
       this.broken = true;
-      throw new StripTeamError(`a strip worker stopped answering (${e instanceof Error ? e.message : String(e)}); the run cannot go on in parallel`);
+      throw new StripTeamError(
+        `a strip worker stopped answering (${e instanceof Error ? e.message : String(e)}); the run cannot go on in parallel`,
+      );
     }
   }
 

@@ -28,7 +28,10 @@ export interface ThreadChoice {
 export function checkThreadsOption(t: unknown, where = 'threads'): ThreadsOption {
   if (t === 'auto') return t;
   if (typeof t !== 'number' || !Number.isInteger(t) || t < 1 || t > MAX_THREADS) {
-    throw new InputError(`must be a whole number from 1 to ${MAX_THREADS}, or 'auto' (got ${JSON.stringify(t)})`, where);
+    throw new InputError(
+      `must be a whole number from 1 to ${MAX_THREADS}, or 'auto' (got ${JSON.stringify(t)})`,
+      where,
+    );
   }
   return t;
 }
@@ -49,14 +52,23 @@ export function chooseThreads(
   if (requested === 'auto') {
     const coreWord = `${cores} core${cores === 1 ? '' : 's'} for strips`;
     if (singleKernel === 'wasm' && stripKernel === 'ts' && cores < AUTO_MIN_CORES_OVER_WASM) {
-      return { threads: 1, notice: `threads auto: 1 (${coreWord}: the one-thread WebAssembly step is faster than ${cores} TypeScript strips)` };
+      return {
+        threads: 1,
+        notice: `threads auto: 1 (${coreWord}: the one-thread WebAssembly step is faster than ${cores} TypeScript strips)`,
+      };
     }
     const byWork = Math.floor((grid.nx * grid.ny) / AUTO_MIN_CELLS_PER_STRIP);
     const threads = Math.max(1, Math.min(cores, grid.ny, byWork, MAX_THREADS));
-    return { threads, notice: `threads auto: ${threads} (${coreWord}, ${grid.nx} x ${grid.ny} cells, at least ${AUTO_MIN_CELLS_PER_STRIP} cells a strip)` };
+    return {
+      threads,
+      notice: `threads auto: ${threads} (${coreWord}, ${grid.nx} x ${grid.ny} cells, at least ${AUTO_MIN_CELLS_PER_STRIP} cells a strip)`,
+    };
   }
   if (requested > grid.ny) {
-    return { threads: grid.ny, notice: `threads ${requested} clamped to ${grid.ny}: the grid has ${grid.ny} rows and a strip needs at least one` };
+    return {
+      threads: grid.ny,
+      notice: `threads ${requested} clamped to ${grid.ny}: the grid has ${grid.ny} rows and a strip needs at least one`,
+    };
   }
   return { threads: requested, notice: null };
 }

@@ -6,12 +6,27 @@
 // of each one's strip. Needs WebAssembly SIMD and threads (shared memory): in a page, cross-origin
 // isolation.
 
-import { fieldViews, fillTables, heapBaseOf, layOut, rowsWasmModule, sharedMemory, WasmRows, type WasmLayout } from '../dynamics/linear-wasm.ts';
+import {
+  fieldViews,
+  fillTables,
+  heapBaseOf,
+  layOut,
+  rowsWasmModule,
+  sharedMemory,
+  WasmRows,
+  type WasmLayout,
+} from '../dynamics/linear-wasm.ts';
 import type { RowCoefficients } from '../dynamics/linear.ts';
 import type { StepFields } from '../dynamics/linear-rows.ts';
 import { bytesOf, type Precision } from '../precision.ts';
 import type { FieldArray } from '../state.ts';
-import { fillNonlinearTables, layOutNonlinear, nonlinearFieldViews, WasmNonlinearRows, type NonlinearWasmLayout } from '../dynamics/nonlinear-wasm.ts';
+import {
+  fillNonlinearTables,
+  layOutNonlinear,
+  nonlinearFieldViews,
+  WasmNonlinearRows,
+  type NonlinearWasmLayout,
+} from '../dynamics/nonlinear-wasm.ts';
 import type { NonlinearFields, NonlinearRowCoefficients, NonlinearRowGrid } from '../dynamics/nonlinear-rows.ts';
 
 /** What a worker is sent to run the linear WebAssembly strips (a shared Memory posts as itself). */
@@ -58,14 +73,24 @@ export function createWasmNonlinearStripMemory(
 ): { shared: WasmNonlinearStripMemory; fields: NonlinearFields<FieldArray> } {
   const module = rowsWasmModule(true, precision);
   const size = g.maskU.length;
-  const { layout, bytes } = layOutNonlinear(heapBaseOf(module, sharedMemory(1)), { ny: g.ny, W: g.W, size }, threads, bytesOf(precision));
+  const { layout, bytes } = layOutNonlinear(
+    heapBaseOf(module, sharedMemory(1)),
+    { ny: g.ny, W: g.W, size },
+    threads,
+    bytesOf(precision),
+  );
   const memory = sharedMemory(Math.ceil(bytes / 65536));
   fillNonlinearTables(memory.buffer, g, c, layout, precision);
   return { shared: { memory, layout }, fields: nonlinearFieldViews(memory.buffer, layout, size, g.ny, precision) };
 }
 
 /** This thread's linear rows on the team's memory. */
-export function wasmStripRows(shared: WasmStripMemory, g: { nx: number; ny: number; W: number }, c: RowCoefficients, precision: Precision = 'float64'): WasmRows {
+export function wasmStripRows(
+  shared: WasmStripMemory,
+  g: { nx: number; ny: number; W: number },
+  c: RowCoefficients,
+  precision: Precision = 'float64',
+): WasmRows {
   return new WasmRows(rowsWasmModule(true, precision), shared.memory, shared.layout, g, c);
 }
 

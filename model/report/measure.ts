@@ -5,7 +5,14 @@
 
 import { latLabel } from '../display/coordinates.ts';
 import { EARTH } from '../config.ts';
-import { fitSpeed, regress, arrivalDay, WaveFitError, type FrontOptions, type SpeedFit } from '../diagnostics/wave-fit.ts';
+import {
+  fitSpeed,
+  regress,
+  arrivalDay,
+  WaveFitError,
+  type FrontOptions,
+  type SpeedFit,
+} from '../diagnostics/wave-fit.ts';
 import { hovmollerData, type RunData } from '../io/run-data.ts';
 import { longRossbySpeed } from '../theory.ts';
 
@@ -47,19 +54,27 @@ export function isMeasured(m: SpeedMeasure | NotMeasured | null): m is SpeedMeas
 function oceanSpan(rows: Float32Array[], lon: Float64Array): [number, number] | null {
   let lo = Infinity;
   let hi = -Infinity;
-  for (let i = 0; i < lon.length; i++) if (rows.some((r) => Number.isFinite(r[i]))) {
-    lo = Math.min(lo, lon[i]);
-    hi = Math.max(hi, lon[i]);
-  }
+  for (let i = 0; i < lon.length; i++)
+    if (rows.some((r) => Number.isFinite(r[i]))) {
+      lo = Math.min(lo, lon[i]);
+      hi = Math.max(hi, lon[i]);
+    }
   return lo <= hi ? [lo, hi] : null;
 }
 
 /** Sign of the largest |value| inside the ranges. */
-function dominantSign(rows: Float32Array[], lon: Float64Array, days: Float64Array, lr: [number, number], dr: [number, number]): 1 | -1 {
+function dominantSign(
+  rows: Float32Array[],
+  lon: Float64Array,
+  days: Float64Array,
+  lr: [number, number],
+  dr: [number, number],
+): 1 | -1 {
   let best = 0;
   for (let n = 0; n < rows.length; n++) {
     if (days[n] < dr[0] || days[n] > dr[1]) continue;
-    for (let i = 0; i < lon.length; i++) if (lon[i] >= lr[0] && lon[i] <= lr[1] && Math.abs(rows[n][i]) > Math.abs(best)) best = rows[n][i];
+    for (let i = 0; i < lon.length; i++)
+      if (lon[i] >= lr[0] && lon[i] <= lr[1] && Math.abs(rows[n][i]) > Math.abs(best)) best = rows[n][i];
   }
   return best < 0 ? -1 : 1;
 }
@@ -69,7 +84,11 @@ function dominantSign(rows: Float32Array[], lon: Float64Array, days: Float64Arra
  * one grid cell) from the line are dropped, twice at most. A stray patch of another signal that
  * crosses the threshold then does not pull the line.
  */
-function robust(fit: SpeedFit, cell: number, direction: 'east' | 'west'): { speed: number; standardError: number; points: Array<[number, number]> } {
+function robust(
+  fit: SpeedFit,
+  cell: number,
+  direction: 'east' | 'west',
+): { speed: number; standardError: number; points: Array<[number, number]> } {
   let points = fit.points;
   for (let pass = 0; pass < 2 && points.length >= 4; pass++) {
     const { slope, intercept } = regress(points);
@@ -111,12 +130,17 @@ function refitCrossing(
     const d = h.days[n];
     if (d < first.points[0][0] || d > end) continue;
     let p = 0;
-    for (let i = 0; i < h.lon.length; i++) if (h.lon[i] >= base.lonRange![0] && h.lon[i] <= base.lonRange![1]) p = Math.max(p, (base.sign ?? 1) * h.rows[n][i] || 0);
+    for (let i = 0; i < h.lon.length; i++)
+      if (h.lon[i] >= base.lonRange![0] && h.lon[i] <= base.lonRange![1])
+        p = Math.max(p, (base.sign ?? 1) * h.rows[n][i] || 0);
     peaks.push([d, p]);
   }
   const largest = Math.max(0, ...peaks.map((q) => q[1]));
   const start = peaks.find((q) => q[1] >= 0.9 * largest)?.[0] ?? first.points[0][0];
-  const crossing: [number, number] = [start, Number.isFinite(exit) && exit > start ? Math.min(dayRange[1], exit) : dayRange[1]];
+  const crossing: [number, number] = [
+    start,
+    Number.isFinite(exit) && exit > start ? Math.min(dayRange[1], exit) : dayRange[1],
+  ];
   try {
     const second = robust(fitSpeed(h, { ...base, dayRange: crossing, levelFrom: 'each-time' }), cell, base.direction);
     return second.points.length >= 4 ? second : null;
@@ -131,7 +155,15 @@ function refitCrossing(
  * for the Kelvin wave, which keeps its shape while friction shrinks it. A Rossby packet disperses
  * (its long waves run ahead), so there one level for the diagram is kept.
  */
-function measure(run: RunData, section: number, direction: 'east' | 'west', theory: number, dayFrom: number, levelFrom: 'diagram' | 'each-time', forceSign?: 1 | -1): SpeedMeasure | NotMeasured {
+function measure(
+  run: RunData,
+  section: number,
+  direction: 'east' | 'west',
+  theory: number,
+  dayFrom: number,
+  levelFrom: 'diagram' | 'each-time',
+  forceSign?: 1 | -1,
+): SpeedMeasure | NotMeasured {
   const h = hovmollerData(run, section);
   const span = oceanSpan(h.rows, h.lon);
   const lat = run.hovmoller[section].rowLat;
@@ -146,9 +178,20 @@ function measure(run: RunData, section: number, direction: 'east' | 'west', theo
     // First one level for the whole diagram: it sees only the strong leading wave.
     const base = { direction, method: 'front', sign, lonRange, metresPerDegree: METRES_PER_DEGREE } as const;
     const first = robust(fitSpeed(h, { ...base, dayRange }), cell, direction);
-    if (first.points.length < 4) return { reason: `the front was found at only ${first.points.length} times at ${latLabel(lat)}` };
+    if (first.points.length < 4)
+      return { reason: `the front was found at only ${first.points.length} times at ${latLabel(lat)}` };
     const r = levelFrom === 'each-time' ? (refitCrossing(h, base, first, dayRange, cell) ?? first) : first;
-    return { lat, direction, sign, speed: r.speed, standardError: r.standardError, theory, points: r.points, dayRange, lonRange };
+    return {
+      lat,
+      direction,
+      sign,
+      speed: r.speed,
+      standardError: r.standardError,
+      theory,
+      points: r.points,
+      dayRange,
+      lonRange,
+    };
   } catch (e) {
     if (e instanceof WaveFitError) return { reason: `${e.message} (section at ${latLabel(lat)})` };
     throw e;
@@ -160,7 +203,9 @@ export function measureWaves(run: RunData): WaveMeasures {
   const rossbyTheory = longRossbySpeed(c);
   const byLat = run.hovmoller.map((s, k) => ({ k, lat: Math.abs(s.rowLat) }));
   const eq = byLat.filter((s) => s.lat <= 1).sort((p, q) => p.lat - q.lat)[0];
-  const kelvin: SpeedMeasure | NotMeasured = eq ? measure(run, eq.k, 'east', c, run.days[0], 'each-time') : { reason: 'the run has no Hovmoller section within 1° of the equator' };
+  const kelvin: SpeedMeasure | NotMeasured = eq
+    ? measure(run, eq.k, 'east', c, run.days[0], 'each-time')
+    : { reason: 'the run has no Hovmoller section within 1° of the equator' };
 
   // Long Rossby: off-equatorial sections (1° to 3 L from the equator), after the Kelvin wave has
   // crossed the measured range (before that, its own off-equatorial flank moves east there).
@@ -175,10 +220,15 @@ export function measureWaves(run: RunData): WaveMeasures {
   let rossby: SpeedMeasure | NotMeasured | null = null;
   if (off.length > 0) {
     // Both signs on every such section; the longest westward track wins (then the tighter fit).
-    const tries = off.flatMap((s) => [measure(run, s.k, 'west', rossbyTheory, from, 'diagram', 1), measure(run, s.k, 'west', rossbyTheory, from, 'diagram', -1)]);
+    const tries = off.flatMap((s) => [
+      measure(run, s.k, 'west', rossbyTheory, from, 'diagram', 1),
+      measure(run, s.k, 'west', rossbyTheory, from, 'diagram', -1),
+    ]);
     const good = tries.filter(isMeasured).filter((m) => m.speed > 0);
     good.sort((p, q) => q.points.length - p.points.length || p.standardError / p.speed - q.standardError / q.speed);
-    rossby = good[0] ?? { reason: `no westward front on the section${off.length > 1 ? 's' : ''} at ${off.map((s) => latLabel(run.hovmoller[s.k].rowLat)).join(', ')} after day ${Number(from.toPrecision(3))}` };
+    rossby = good[0] ?? {
+      reason: `no westward front on the section${off.length > 1 ? 's' : ''} at ${off.map((s) => latLabel(run.hovmoller[s.k].rowLat)).join(', ')} after day ${Number(from.toPrecision(3))}`,
+    };
   }
 
   const arrivals = run.probes.map((p) => {

@@ -73,8 +73,12 @@ function chunk(type: string, data: Uint8Array): Uint8Array {
 
 /** PNG bytes of an RGB image, `rgb` width * height * 3 bytes, top row first. */
 export function encodePng(width: number, height: number, rgb: Uint8Array): Uint8Array {
-  if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) throw new RangeError(`PNG size must be whole and positive (got ${width} x ${height})`);
-  if (rgb.length !== width * height * 3) throw new RangeError(`PNG data: expected ${width * height * 3} bytes for ${width} x ${height} RGB, got ${rgb.length}`);
+  if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1)
+    throw new RangeError(`PNG size must be whole and positive (got ${width} x ${height})`);
+  if (rgb.length !== width * height * 3)
+    throw new RangeError(
+      `PNG data: expected ${width * height * 3} bytes for ${width} x ${height} RGB, got ${rgb.length}`,
+    );
   const ihdr = new Uint8Array(13);
   const v = new DataView(ihdr.buffer);
   v.setUint32(0, width);
@@ -83,7 +87,12 @@ export function encodePng(width: number, height: number, rgb: Uint8Array): Uint8
   ihdr[9] = 2; // colour type RGB
   const raw = new Uint8Array(height * (1 + width * 3));
   for (let y = 0; y < height; y++) raw.set(rgb.subarray(y * width * 3, (y + 1) * width * 3), y * (1 + width * 3) + 1);
-  const parts = [new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), chunk('IDAT', zlibStored(raw)), chunk('IEND', new Uint8Array(0))];
+  const parts = [
+    new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk('IHDR', ihdr),
+    chunk('IDAT', zlibStored(raw)),
+    chunk('IEND', new Uint8Array(0)),
+  ];
   const out = new Uint8Array(parts.reduce((s, p) => s + p.length, 0));
   let o = 0;
   for (const p of parts) {

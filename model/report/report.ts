@@ -27,7 +27,11 @@ export function escapeHtml(s: string): string {
 
 /** 256 colours of the anomaly map (Pycno Split): blue below zero, pale at zero, copper above. */
 const ANOMALY_LUT = lookupTable('anomaly');
-const DIVERGING: Array<[number, number, number]> = Array.from({ length: 256 }, (_, k) => [ANOMALY_LUT[4 * k], ANOMALY_LUT[4 * k + 1], ANOMALY_LUT[4 * k + 2]]);
+const DIVERGING: Array<[number, number, number]> = Array.from({ length: 256 }, (_, k) => [
+  ANOMALY_LUT[4 * k],
+  ANOMALY_LUT[4 * k + 1],
+  ANOMALY_LUT[4 * k + 2],
+]);
 
 export function colourOf(v: number, range: number): [number, number, number] {
   if (!Number.isFinite(v)) return LAND;
@@ -78,7 +82,8 @@ function equatorialWidthKm(run: RunData): number {
 }
 
 function speedText(m: SpeedMeasure | { reason: string } | null, theoryName: string, theory: number): string {
-  if (m === null) return `not measured: the run has no off-equatorial Hovmoller section (theory ${theoryName} = ${fmt(theory)} m/s)`;
+  if (m === null)
+    return `not measured: the run has no off-equatorial Hovmoller section (theory ${theoryName} = ${fmt(theory)} m/s)`;
   if (!isMeasured(m)) return `not measured: ${escapeHtml(m.reason)} (theory ${theoryName} = ${fmt(theory)} m/s)`;
   const dev = (100 * (m.speed - theory)) / theory;
   return (
@@ -117,16 +122,27 @@ function hovmollerFigure(run: RunData, section: number, waves: WaveMeasures): st
   const sK = degPerDay(waves.c);
   const tEast = start[0] + (lon1 - start[1]) / sK;
   const kEnd = Math.min(d1, tEast);
-  lines.push(`<line class="kelvin" x1="${X(start[1]).toFixed(1)}" y1="${Y(start[0]).toFixed(1)}" x2="${X(start[1] + sK * (kEnd - start[0])).toFixed(1)}" y2="${Y(kEnd).toFixed(1)}"/>`);
+  lines.push(
+    `<line class="kelvin" x1="${X(start[1]).toFixed(1)}" y1="${Y(start[0]).toFixed(1)}" x2="${X(start[1] + sK * (kEnd - start[0])).toFixed(1)}" y2="${Y(kEnd).toFixed(1)}"/>`,
+  );
   if (tEast < d1) {
     // Long Rossby line from the east coast where the Kelvin line arrives (the reflection).
     const sR = degPerDay(waves.rossbyTheory);
     const rEnd = Math.min(d1, tEast + (lon1 - lon0) / sR);
-    lines.push(`<line class="rossby" x1="${X(lon1).toFixed(1)}" y1="${Y(tEast).toFixed(1)}" x2="${X(lon1 - sR * (rEnd - tEast)).toFixed(1)}" y2="${Y(rEnd).toFixed(1)}"/>`);
+    lines.push(
+      `<line class="rossby" x1="${X(lon1).toFixed(1)}" y1="${Y(tEast).toFixed(1)}" x2="${X(lon1 - sR * (rEnd - tEast)).toFixed(1)}" y2="${Y(rEnd).toFixed(1)}"/>`,
+    );
   }
-  const dots = isMeasured(kelvin) && kelvin.lat === run.hovmoller[section].rowLat ? kelvin.points.map(([t, x]) => `<circle cx="${X(x).toFixed(1)}" cy="${Y(t).toFixed(1)}" r="1.6"/>`).join('') : '';
-  const ticksX = niceTicks(lon0, lon1, 6).map((v) => `<text x="${X(v).toFixed(1)}" y="${H - m.b + 14}" text-anchor="middle">${lonLabel(v)}</text>`);
-  const ticksY = niceTicks(d0, d1, 6).map((v) => `<text x="${m.l - 4}" y="${(Y(v) + 4).toFixed(1)}" text-anchor="end">${fmt(v)}</text>`);
+  const dots =
+    isMeasured(kelvin) && kelvin.lat === run.hovmoller[section].rowLat
+      ? kelvin.points.map(([t, x]) => `<circle cx="${X(x).toFixed(1)}" cy="${Y(t).toFixed(1)}" r="1.6"/>`).join('')
+      : '';
+  const ticksX = niceTicks(lon0, lon1, 6).map(
+    (v) => `<text x="${X(v).toFixed(1)}" y="${H - m.b + 14}" text-anchor="middle">${lonLabel(v)}</text>`,
+  );
+  const ticksY = niceTicks(d0, d1, 6).map(
+    (v) => `<text x="${m.l - 4}" y="${(Y(v) + 4).toFixed(1)}" text-anchor="end">${fmt(v)}</text>`,
+  );
   return (
     `<svg class="hov" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="Hovmoller diagram">` +
     `<image x="${m.l}" y="${m.t}" width="${W - m.l - m.r}" height="${H - m.t - m.b}" preserveAspectRatio="none" href="${pngDataUrl(nx, nt, rgb)}"/>` +
@@ -153,7 +169,8 @@ function probePlot(days: Float64Array, values: Float32Array, title: string): str
   const H = 120;
   const m = { l: 38, r: 6, t: 16, b: 20 };
   const finite = Array.from(values).filter(Number.isFinite);
-  if (finite.length === 0) return `<figure class="probe"><figcaption>${escapeHtml(title)}: land (no values)</figcaption></figure>`;
+  if (finite.length === 0)
+    return `<figure class="probe"><figcaption>${escapeHtml(title)}: land (no values)</figcaption></figure>`;
   let lo = Math.min(0, ...finite);
   let hi = Math.max(0, ...finite);
   if (hi - lo < 1e-12) {
@@ -165,7 +182,8 @@ function probePlot(days: Float64Array, values: Float32Array, title: string): str
   const X = (d: number) => m.l + ((d - d0) / (d1 - d0 || 1)) * (W - m.l - m.r);
   const Y = (v: number) => H - m.b - ((v - lo) / (hi - lo)) * (H - m.t - m.b);
   const pts: string[] = [];
-  for (let n = 0; n < days.length; n++) if (Number.isFinite(values[n])) pts.push(`${X(days[n]).toFixed(1)},${Y(values[n]).toFixed(1)}`);
+  for (let n = 0; n < days.length; n++)
+    if (Number.isFinite(values[n])) pts.push(`${X(days[n]).toFixed(1)},${Y(values[n]).toFixed(1)}`);
   return (
     `<figure class="probe"><svg viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="${escapeHtml(title)}">` +
     `<text x="${m.l}" y="11" class="t">${escapeHtml(title)}</text>` +
@@ -189,7 +207,9 @@ function indexPlot(c: CoupledSeries): string {
   const line = (v: number[], cls: string) => {
     const s = scaleOf(v);
     const Y = (y: number) => m.t + (0.5 - y / (2 * s)) * (H - m.t - m.b);
-    const pts = v.map((y, n) => (Number.isFinite(y) ? `${X(c.days[n]).toFixed(1)},${Y(y).toFixed(1)}` : '')).filter(Boolean);
+    const pts = v
+      .map((y, n) => (Number.isFinite(y) ? `${X(c.days[n]).toFixed(1)},${Y(y).toFixed(1)}` : ''))
+      .filter(Boolean);
     return { poly: `<polyline class="${cls}" points="${pts.join(' ')}"/>`, s };
   };
   const sst = line(c.eastSst, 'sst');
@@ -245,8 +265,25 @@ export interface ReportOptions {
 
 /** What the report shows of the scenario as written: its basin and wind parts (a run file may hold an older scenario, so all optional). */
 interface WrittenScenario {
-  basin?: { lonWest?: number; lonEast?: number; latSouth?: number; latNorth?: number; resolution?: number | { lon?: number; lat?: number } };
-  wind?: { parts?: Array<{ kind?: string; name?: string; quantity?: string; enabled?: boolean; strength?: number; drag?: string; source?: { kind?: string; shape?: { kind?: string } }; envelope?: { kind?: string } }> };
+  basin?: {
+    lonWest?: number;
+    lonEast?: number;
+    latSouth?: number;
+    latNorth?: number;
+    resolution?: number | { lon?: number; lat?: number };
+  };
+  wind?: {
+    parts?: Array<{
+      kind?: string;
+      name?: string;
+      quantity?: string;
+      enabled?: boolean;
+      strength?: number;
+      drag?: string;
+      source?: { kind?: string; shape?: { kind?: string } };
+      envelope?: { kind?: string };
+    }>;
+  };
 }
 
 /** The report of one run, as the text of an HTML page. */
@@ -260,19 +297,30 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   const b = scenario.basin ?? {};
   const res = typeof b.resolution === 'number' ? `${b.resolution}°` : `${b.resolution?.lon}° x ${b.resolution?.lat}°`;
   const parts: string[] = (scenario.wind?.parts ?? []).map((w, k) => {
-    const what = w.kind === 'fixed' ? `${w.source?.kind === 'shaped' ? w.source.shape?.kind : w.source?.kind} x ${w.envelope?.kind}` : w.kind;
+    const what =
+      w.kind === 'fixed'
+        ? `${w.source?.kind === 'shaped' ? w.source.shape?.kind : w.source?.kind} x ${w.envelope?.kind}`
+        : w.kind;
     const how = w.kind === 'answering' ? `strength ${w.strength} m/s per K, ${w.drag} drag` : w.quantity;
     return `${k + 1}. ${w.name ? `'${w.name}' ` : ''}${w.kind} (${what}), ${how}${w.enabled === false ? ', off' : ''}`;
   });
 
   const params = table([
-    ['basin', escapeHtml(`${lonLabel(Number(b.lonWest))} to ${lonLabel(Number(b.lonEast))}, ${latLabel(Number(b.latSouth))} to ${latLabel(Number(b.latNorth))}, cells ${res} (${run.grid.nx} x ${run.grid.ny})`)],
+    [
+      'basin',
+      escapeHtml(
+        `${lonLabel(Number(b.lonWest))} to ${lonLabel(Number(b.lonEast))}, ${latLabel(Number(b.latSouth))} to ${latLabel(Number(b.latNorth))}, cells ${res} (${run.grid.nx} x ${run.grid.ny})`,
+      ),
+    ],
     ["reduced gravity g'", `${fmt(run.physics.reducedGravity)} m s⁻²`],
     ['layer thickness H', `${fmt(run.physics.layerThickness)} m`],
     ['dynamics', escapeHtml(run.physics.dynamics)],
     ['friction', run.physics.frictionDays === null ? 'none' : `1 / (${fmt(run.physics.frictionDays)} days)`],
     ['wind parts', parts.length ? parts.map(escapeHtml).join('<br>') : 'none'],
-    ['length', `${fmt(run.days[run.days.length - 1] - run.days[0])} days, ${run.days.length} output records, ${run.snapshots.length} with maps`],
+    [
+      'length',
+      `${fmt(run.days[run.days.length - 1] - run.days[0])} days, ${run.days.length} output records, ${run.snapshots.length} with maps`,
+    ],
     ['seed', escapeHtml(String(run.seed))],
   ]);
   const L = run.physics.equatorialRadius / 1000;
@@ -280,7 +328,10 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
     ["Kelvin speed c = √(g'H)", `${fmt(c)} m/s`],
     ['equatorial radius L = √(c/β)', `${fmt(L)} km (β = ${fmt(beta)} m⁻¹ s⁻¹)`],
     ['Kelvin crossing', `${fmt(widthKm / c / 86.4)} days over ${fmt(widthKm, 4)} km of ocean on the equator`],
-    ['long Rossby speed c/3', `${fmt(longRossbySpeed(c))} m/s, crossing in ${fmt(widthKm / longRossbySpeed(c) / 86.4)} days`],
+    [
+      'long Rossby speed c/3',
+      `${fmt(longRossbySpeed(c))} m/s, crossing in ${fmt(widthKm / longRossbySpeed(c) / 86.4)} days`,
+    ],
     ['time step', `dt = ${fmt(run.dt, 4)} s${d ? ` (stability limit ${fmt(d.stability.dtMax, 4)} s)` : ''}`],
   ]);
   const measured = table([
@@ -289,7 +340,10 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   ]);
   const arrivals = waves.arrivals.length
     ? `<table><tr><th>probe</th><th>where</th><th>arrival (half the largest ${'h′'})</th></tr>${waves.arrivals
-        .map((a) => `<tr><td>${escapeHtml(a.probe)}</td><td>${placeLabel(a.lon, a.lat)}</td><td>${a.day === null ? 'no signal' : `day ${fmt(a.day)} (${a.sign > 0 ? 'h′ > 0' : 'h′ < 0'})`}</td></tr>`)
+        .map(
+          (a) =>
+            `<tr><td>${escapeHtml(a.probe)}</td><td>${placeLabel(a.lon, a.lat)}</td><td>${a.day === null ? 'no signal' : `day ${fmt(a.day)} (${a.sign > 0 ? 'h′ > 0' : 'h′ < 0'})`}</td></tr>`,
+        )
         .join('')}</table>`
     : '<p>No probes in this run.</p>';
 
@@ -298,7 +352,10 @@ export function runReport(run: RunData, options: ReportOptions = {}): string {
   const snaps = run.snapshots.filter((s) => s.fields.h_anom);
   if (snaps.length > 0) {
     const count = Math.min(options.maps ?? 4, snaps.length);
-    const chosen = Array.from({ length: count }, (_, k) => snaps[Math.round(((k + 1) * (snaps.length - 1)) / count)] ?? snaps[snaps.length - 1]);
+    const chosen = Array.from(
+      { length: count },
+      (_, k) => snaps[Math.round(((k + 1) * (snaps.length - 1)) / count)] ?? snaps[snaps.length - 1],
+    );
     const unique = chosen.filter((s, k) => chosen.indexOf(s) === k);
     const range = symmetricRange(unique.map((s) => s.fields.h_anom!));
     maps =

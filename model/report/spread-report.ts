@@ -16,7 +16,9 @@ const fmt = (x: number, digits = 3) => {
   if (!Number.isFinite(x)) return '–';
   // Energies (1e15 J) and volume changes (1e-16) in powers of ten, the rest as plain numbers.
   const a = Math.abs(x);
-  return a >= 1e5 || (a > 0 && a < 1e-3) ? x.toExponential(Math.max(0, digits - 2)) : Number(x.toPrecision(digits)).toString();
+  return a >= 1e5 || (a > 0 && a < 1e-3)
+    ? x.toExponential(Math.max(0, digits - 2))
+    : Number(x.toPrecision(digits)).toString();
 };
 
 /** Tick labels with as many digits as the spacing of the ticks needs. */
@@ -43,7 +45,9 @@ interface Axis {
 
 /** The x axis of the scalar plots: the one numeric varied value but the seed, else the member number. */
 function memberAxis(s: SummaryData): Axis {
-  const candidates = s.vary.filter((v) => v.path !== SEED_PATH && v.values.every((x) => x.trim() !== '' && Number.isFinite(Number(x))));
+  const candidates = s.vary.filter(
+    (v) => v.path !== SEED_PATH && v.values.every((x) => x.trim() !== '' && Number.isFinite(Number(x))),
+  );
   if (candidates.length === 1 && s.vary.filter((v) => v.path !== SEED_PATH).length === 1) {
     const p = candidates[0].path;
     return { label: p, of: (m) => Number(m.values[p]) };
@@ -52,14 +56,25 @@ function memberAxis(s: SummaryData): Axis {
 }
 
 /** One scalar against the axis: a dot per member with a result, a red cross on the axis per member without. */
-function scalarPlot(s: SummaryData, axis: Axis, title: string, units: string, value: (m: SummaryMemberRead) => number, theory?: (m: SummaryMemberRead) => number): string {
+function scalarPlot(
+  s: SummaryData,
+  axis: Axis,
+  title: string,
+  units: string,
+  value: (m: SummaryMemberRead) => number,
+  theory?: (m: SummaryMemberRead) => number,
+): string {
   const W = 260;
   const H = 170;
   const m = { l: 56, r: 8, t: 18, b: 30 };
   const pts = s.members.map((x) => ({ m: x, x: axis.of(x), y: value(x) }));
   const xs = pts.map((p) => p.x).filter(Number.isFinite);
   const ys = pts.map((p) => p.y).filter(Number.isFinite);
-  const th = theory ? s.members.map((x) => ({ x: axis.of(x), y: theory(x) })).filter((p) => Number.isFinite(p.x) && Number.isFinite(p.y)) : [];
+  const th = theory
+    ? s.members
+        .map((x) => ({ x: axis.of(x), y: theory(x) }))
+        .filter((p) => Number.isFinite(p.x) && Number.isFinite(p.y))
+    : [];
   ys.push(...th.map((p) => p.y));
   if (xs.length === 0) return '';
   let [x0, x1] = [Math.min(...xs), Math.max(...xs)];
@@ -78,9 +93,18 @@ function scalarPlot(s: SummaryData, axis: Axis, title: string, units: string, va
         : `<path class="bad" d="M${(X(p.x) - 3).toFixed(1)},${(H - m.b - 3).toFixed(1)}l6,6m0,-6l-6,6"><title>member ${p.m.id}: ${p.m.state}</title></path>`,
     )
     .join('');
-  const theoryLine = th.length ? `<polyline class="theory" fill="none" points="${th.sort((a, b) => a.x - b.x).map((p) => `${X(p.x).toFixed(1)},${Y(p.y).toFixed(1)}`).join(' ')}"/>` : '';
-  const ticks = tickLabels(x0, x1, 4).map(([v, t]) => `<text x="${X(v).toFixed(1)}" y="${H - m.b + 12}" text-anchor="middle">${t}</text>`).join('');
-  const yt = tickLabels(y0, y1, 4).map(([v, t]) => `<text x="${m.l - 3}" y="${(Y(v) + 3).toFixed(1)}" text-anchor="end">${t}</text>`).join('');
+  const theoryLine = th.length
+    ? `<polyline class="theory" fill="none" points="${th
+        .sort((a, b) => a.x - b.x)
+        .map((p) => `${X(p.x).toFixed(1)},${Y(p.y).toFixed(1)}`)
+        .join(' ')}"/>`
+    : '';
+  const ticks = tickLabels(x0, x1, 4)
+    .map(([v, t]) => `<text x="${X(v).toFixed(1)}" y="${H - m.b + 12}" text-anchor="middle">${t}</text>`)
+    .join('');
+  const yt = tickLabels(y0, y1, 4)
+    .map(([v, t]) => `<text x="${m.l - 3}" y="${(Y(v) + 3).toFixed(1)}" text-anchor="end">${t}</text>`)
+    .join('');
   return (
     `<figure class="plot"><svg viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="${escapeHtml(title)}">` +
     `<text class="t" x="${m.l}" y="12">${escapeHtml(title)} (${escapeHtml(units)})</text>` +
@@ -90,7 +114,13 @@ function scalarPlot(s: SummaryData, axis: Axis, title: string, units: string, va
 }
 
 /** Mean with a band of plus and minus one standard deviation against time. */
-export function bandPlot(days: Float64Array, mean: Float64Array, std: Float64Array, title: string, units: string): string {
+export function bandPlot(
+  days: Float64Array,
+  mean: Float64Array,
+  std: Float64Array,
+  title: string,
+  units: string,
+): string {
   const W = 260;
   const H = 150;
   const m = { l: 48, r: 8, t: 18, b: 22 };
@@ -125,12 +155,15 @@ function hovmollerImage(days: Float64Array, lon: Float64Array, rows: Float64Arra
   const range = symmetricRange([rows]);
   const rgb = new Uint8Array(nx * nt * 3);
   // One diverging scale for both: a standard deviation (>= 0) runs from white to red.
-  for (let y = 0; y < nt; y++) for (let i = 0; i < nx; i++) rgb.set(colourOf(rows[(nt - 1 - y) * nx + i], range), 3 * (y * nx + i));
+  for (let y = 0; y < nt; y++)
+    for (let i = 0; i < nx; i++) rgb.set(colourOf(rows[(nt - 1 - y) * nx + i], range), 3 * (y * nx + i));
   return `<figure class="plot"><img src="${pngDataUrl(nx, nt, rgb)}" alt="${escapeHtml(caption)}" width="260" height="200" style="image-rendering:pixelated;border:1px solid #888"><figcaption>${escapeHtml(caption)}; ${fmt(lon[0])}°E to ${fmt(lon[nx - 1])}°E, days ${fmt(days[0])}–${fmt(days[nt - 1])} upward</figcaption>${colourBar(range, 'm')}</figure>`;
 }
 
 function groupLabel(g: SummaryGroupRead, k: number): string {
-  const v = Object.entries(g.values).map(([p, x]) => `${p} = ${x}`).join(', ');
+  const v = Object.entries(g.values)
+    .map(([p, x]) => `${p} = ${x}`)
+    .join(', ');
   return `seed ensemble ${k + 1}${v ? ` (${v})` : ''}: ${g.members} member${g.members === 1 ? '' : 's'}`;
 }
 
@@ -140,14 +173,23 @@ export function spreadReport(s: SummaryData, options: { source?: string } = {}):
   const bad = s.members.filter((m) => m.state !== 'complete');
   const memberRows = s.members
     .map((m) => {
-      const values = Object.entries(m.values).map(([p, v]) => `${p} = ${v}`).join(', ');
+      const values = Object.entries(m.values)
+        .map(([p, v]) => `${p} = ${v}`)
+        .join(', ');
       return `<tr><td>${m.id}</td><td>${escapeHtml(values)}</td><td class="${m.state}">${m.state}</td><td>${fmt(m.scalars.kelvin_speed ?? NaN)}</td><td>${fmt(m.scalars.ssh_peak ?? NaN)}</td><td>${fmt(m.scalars.energy_end ?? NaN)}</td><td>${escapeHtml((m.message ?? '').split('\n')[0])}</td></tr>`;
     })
     .join('');
   const table = `<table><tr><th>member</th><th>varied values</th><th>state</th><th>Kelvin speed (m/s)</th><th>peak sea level (m)</th><th>energy at the end (J)</th><th>note</th></tr>${memberRows}</table>`;
   const unit = (name: string) => MEMBER_SCALARS.find((x) => x.name === name)?.units ?? '';
   const scalars = [
-    scalarPlot(s, axis, 'Kelvin speed (dashed: c)', unit('kelvin_speed'), (m) => m.scalars.kelvin_speed, (m) => m.scalars.kelvin_speed_theory),
+    scalarPlot(
+      s,
+      axis,
+      'Kelvin speed (dashed: c)',
+      unit('kelvin_speed'),
+      (m) => m.scalars.kelvin_speed,
+      (m) => m.scalars.kelvin_speed_theory,
+    ),
     scalarPlot(s, axis, 'peak sea-level anomaly', unit('ssh_peak'), (m) => m.scalars.ssh_peak),
     scalarPlot(s, axis, 'energy at the end', unit('energy_end'), (m) => m.scalars.energy_end),
     scalarPlot(s, axis, 'relative volume change', unit('volume_change'), (m) => m.scalars.volume_change),
@@ -158,13 +200,20 @@ export function spreadReport(s: SummaryData, options: { source?: string } = {}):
     const days = s.days;
     const lon = s.lon;
     let eq = 0;
-    s.hovmollerLat.forEach((l, k) => Math.abs(l) < Math.abs(s.hovmollerLat[eq]) && (eq = k));
+    s.hovmollerLat.forEach((l, k) => {
+      if (Math.abs(l) < Math.abs(s.hovmollerLat[eq])) eq = k;
+    });
     spread = s.groups
       .map((g, k) => {
-        const probes = s.probes.map((p, q) => (g.probeMean[q] ? bandPlot(days, g.probeMean[q], g.probeStd[q], `${p.name}: h′ mean ± std`, 'm') : '')).join('');
+        const probes = s.probes
+          .map((p, q) =>
+            g.probeMean[q] ? bandPlot(days, g.probeMean[q], g.probeStd[q], `${p.name}: h′ mean ± std`, 'm') : '',
+          )
+          .join('');
         const energy = bandPlot(days, g.energyMean, g.energyStd, 'energy mean ± std', 'J');
         const hov = g.hovmollerMean[eq]
-          ? hovmollerImage(days, lon, g.hovmollerMean[eq], `h′ mean along ${fmt(s.hovmollerLat[eq])}°N`) + hovmollerImage(days, lon, g.hovmollerStd[eq], `h′ standard deviation along ${fmt(s.hovmollerLat[eq])}°N`)
+          ? hovmollerImage(days, lon, g.hovmollerMean[eq], `h′ mean along ${fmt(s.hovmollerLat[eq])}°N`) +
+            hovmollerImage(days, lon, g.hovmollerStd[eq], `h′ standard deviation along ${fmt(s.hovmollerLat[eq])}°N`)
           : '';
         return `<h3>${escapeHtml(groupLabel(g, k))}</h3><div class="plots">${probes}${energy}${hov}</div>`;
       })

@@ -46,7 +46,15 @@ export function westernBoundaryLayer(beta: number, viscosity: number, friction: 
     : `the western boundary layer is narrower than one grid interval: Munk width (A/beta)^(1/3) = ${km(munk)} and Stommel width r/beta = ${km(stommel)} ` +
       `against dx = ${km(dx)}, so a grid-scale current of alternating sign builds up along western coasts; ` +
       `raise physics.viscosity to at least ${roundUp(viscosityForOne)} m2/s (Munk width = dx; ${roundUp(viscosityForComfort)} m2/s gives 1.5 dx), or refine basin.resolution`;
-  return { munkKm: munk / 1000, stommelKm: stommel / 1000, intervals, resolved, viscosityForOne, viscosityForComfort, advice };
+  return {
+    munkKm: munk / 1000,
+    stommelKm: stommel / 1000,
+    intervals,
+    resolved,
+    viscosityForOne,
+    viscosityForComfort,
+    advice,
+  };
 }
 
 /** Up to two significant digits, rounded up, so the advised value really resolves the layer. */

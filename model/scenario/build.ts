@@ -28,7 +28,11 @@ export interface BuiltRun {
 
 export function buildModel(r: ResolvedScenario, options: BuildOptions = {}): BuiltRun {
   const grid = new Grid(r.model.basin, r.model.physics.earthRadius);
-  const { stress, bursts } = buildWindStress(grid, r.wind, { seed: String(r.seed), files: options.files, beta: equatorialBeta(r.model.physics) });
+  const { stress, bursts } = buildWindStress(grid, r.wind, {
+    seed: String(r.seed),
+    files: options.files,
+    beta: equatorialBeta(r.model.physics),
+  });
   const init = r.initial;
   if (init.kind === 'restart' || init.kind === 'spinup') {
     if (!options.startState) {

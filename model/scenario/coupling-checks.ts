@@ -20,12 +20,18 @@ export function couplingIssues(sc: Scenario, add: (path: PathSegment[], message:
   const parts: any[] = Array.isArray(sc.wind?.parts) ? sc.wind.parts : [];
   const on = parts.map((p, i) => ({ p, i })).filter(({ p }) => p?.kind === 'answering' && p.enabled !== false);
   for (const { i } of on.slice(1)) {
-    add(['wind', 'parts', i], `a run has one SST anomaly, so at most one answering part can be on (wind.parts[${on[0].i}] is); switch one off with "enabled": false`);
+    add(
+      ['wind', 'parts', i],
+      `a run has one SST anomaly, so at most one answering part can be on (wind.parts[${on[0].i}] is); switch one off with "enabled": false`,
+    );
   }
   const fields: unknown[] = Array.isArray(sc.output?.fields) ? sc.output.fields : [];
   fields.forEach((f, k) => {
     if (on.length === 0 && (COUPLED_FIELDS as readonly unknown[]).includes(f)) {
-      add(['output', 'fields', k], `${String(f)} comes from an answering wind part, and this scenario has none switched on; leave it out of output.fields or switch the part on`);
+      add(
+        ['output', 'fields', k],
+        `${String(f)} comes from an answering wind part, and this scenario has none switched on; leave it out of output.fields or switch the part on`,
+      );
     }
   });
   if (on.length === 0) return;
@@ -33,14 +39,30 @@ export function couplingIssues(sc: Scenario, add: (path: PathSegment[], message:
   const at = (...rest: PathSegment[]) => ['wind', 'parts', i, ...rest];
   const b: any = sc.basin ?? {};
   if (num(b.latSouth) && num(b.latNorth) && !(b.latSouth < 0 && b.latNorth > 0)) {
-    add(at(), `the answering wind's atmosphere lives on the equatorial beta plane: the basin must reach across the equator (it spans ${b.latSouth}..${b.latNorth} N)`);
+    add(
+      at(),
+      `the answering wind's atmosphere lives on the equatorial beta plane: the basin must reach across the equator (it spans ${b.latSouth}..${b.latNorth} N)`,
+    );
   }
   const bg = p.background;
   if (p.drag === 'linear' && num(bg?.x) && num(bg?.y) && bg.x === 0 && bg.y === 0) {
-    add(at('background'), 'a linear drag about a background wind of 0 m/s gives no stress at all; give the background wind (trades are about x = -6) or use drag "bulk"');
+    add(
+      at('background'),
+      'a linear drag about a background wind of 0 m/s gives no stress at all; give the background wind (trades are about x = -6) or use drag "bulk"',
+    );
   }
   const sst = p.sst;
-  if (!(num(p.everySteps) && p.everySteps >= 1 && num(sst?.upwellingDays) && sst.upwellingDays > 0 && num(sst?.dampingDays) && sst.dampingDays > 0)) return;
+  if (
+    !(
+      num(p.everySteps) &&
+      p.everySteps >= 1 &&
+      num(sst?.upwellingDays) &&
+      sst.upwellingDays > 0 &&
+      num(sst?.dampingDays) &&
+      sst.dampingDays > 0
+    )
+  )
+    return;
   let dt: number | null = null;
   try {
     const r = resolveScenario(sc);

@@ -7,7 +7,10 @@ import { chooseBranch, deref, hasOwn, isPlainObject, scenarioSchema, type Schema
 /** A copy of the scenario with every missing key that has a default filled in. The input is not changed. */
 export function withDefaults(file: ScenarioFile): Scenario {
   const copy = structuredClone(file) as unknown;
-  const latGiven = isPlainObject(file) && isPlainObject((file as { hovmoller?: unknown }).hovmoller) && hasOwn((file as { hovmoller: Record<string, unknown> }).hovmoller, 'lat');
+  const latGiven =
+    isPlainObject(file) &&
+    isPlainObject((file as { hovmoller?: unknown }).hovmoller) &&
+    hasOwn((file as { hovmoller: Record<string, unknown> }).hovmoller, 'lat');
   fillDefaults(scenarioSchema, copy);
   if (!latGiven) insideBasin(copy as Scenario);
   return copy as Scenario;
@@ -21,7 +24,15 @@ export function withDefaults(file: ScenarioFile): Scenario {
 function insideBasin(sc: Scenario): void {
   const b = sc.basin as Partial<Scenario['basin']> | undefined;
   const lat = sc.hovmoller?.lat;
-  if (!b || typeof b.latSouth !== 'number' || typeof b.latNorth !== 'number' || !Array.isArray(lat) || lat.length !== 1 || lat[0] !== 0) return;
+  if (
+    !b ||
+    typeof b.latSouth !== 'number' ||
+    typeof b.latNorth !== 'number' ||
+    !Array.isArray(lat) ||
+    lat.length !== 1 ||
+    lat[0] !== 0
+  )
+    return;
   if (b.latSouth <= 0 && b.latNorth >= 0) return;
   const res = b.resolution as unknown;
   const dLat = typeof res === 'number' ? res : isPlainObject(res) && typeof res.lat === 'number' ? res.lat : 0;

@@ -42,7 +42,13 @@ const SOLVER_ARRAYS: Record<DynamicsMode, number> = { linear: 12, nonlinear: 25 
 const STEP_ARRAYS: Record<DynamicsMode, number> = { linear: 7, nonlinear: 14 };
 
 /** Bytes a run of nx x ny cells holds while it runs: the solver's arrays and one output frame. */
-export function memoryEstimate(nx: number, ny: number, mode: DynamicsMode, fields: number, precision: Precision = 'float64'): number {
+export function memoryEstimate(
+  nx: number,
+  ny: number,
+  mode: DynamicsMode,
+  fields: number,
+  precision: Precision = 'float64',
+): number {
   const padded = (nx + 3) * (ny + 3);
   const stepBytes = bytesOf(precision) * STEP_ARRAYS[mode] + 8 * (SOLVER_ARRAYS[mode] - STEP_ARRAYS[mode]);
   return padded * stepBytes + padded + nx * ny * 4 * fields;
@@ -110,7 +116,13 @@ export function derivedNumbers(r: ResolvedScenario, grid?: Grid): DerivedNumbers
   const dt = time.dt ?? chooseTimeStep(stability, null, time.safety, time.alignTo);
   const interval = r.outputEverySeconds;
   const perInterval = stepsInInterval(dt, interval);
-  const clock = new Clock({ dt, intervalSeconds: perInterval > 0 ? interval : 0, stepsPerInterval: perInterval, originSteps: 0, originTime: 0 });
+  const clock = new Clock({
+    dt,
+    intervalSeconds: perInterval > 0 ? interval : 0,
+    stepsPerInterval: perInterval,
+    originSteps: 0,
+    originTime: 0,
+  });
   const steps = clock.stepsFor(r.runSeconds);
   // One record at the start, one per whole interval, and one at the end when the run is not a
   // whole number of intervals (the last interval is then shorter).

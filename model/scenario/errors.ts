@@ -33,7 +33,8 @@ export function pathToString(segments: readonly PathSegment[]): string {
 export function formatIssue(issue: ScenarioIssue): string {
   const parts: string[] = [];
   if (issue.file) parts.push(issue.file);
-  if (issue.line !== undefined) parts.push(issue.column !== undefined ? `line ${issue.line}, column ${issue.column}` : `line ${issue.line}`);
+  if (issue.line !== undefined)
+    parts.push(issue.column !== undefined ? `line ${issue.line}, column ${issue.column}` : `line ${issue.line}`);
   if (issue.path) parts.push(shortText(issue.path, 200));
   parts.push(issue.message);
   return clipLine(parts.join(': '));
@@ -66,7 +67,10 @@ export function clipLine(line: string): string {
 export function issueListLines(all: readonly ScenarioIssue[]): string[] {
   const issues = all.filter((i) => !i.summary);
   const lines = issues.slice(0, MAX_ISSUE_LINES).map(formatIssue);
-  if (issues.length > MAX_ISSUE_LINES) lines.push(`... and ${(issues.length - MAX_ISSUE_LINES).toLocaleString('en-US')} more problems (${issues.length.toLocaleString('en-US')} in all); fix the first ones and check again`);
+  if (issues.length > MAX_ISSUE_LINES)
+    lines.push(
+      `... and ${(issues.length - MAX_ISSUE_LINES).toLocaleString('en-US')} more problems (${issues.length.toLocaleString('en-US')} in all); fix the first ones and check again`,
+    );
   for (const i of all) if (i.summary) lines.push(clipLine(i.message));
   return lines;
 }

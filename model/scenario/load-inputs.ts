@@ -52,7 +52,12 @@ export interface ParseOptions {
   allow?: RunAllowance;
 }
 
-export function parseScenario(text: string, fileName: string, sets: readonly string[] = [], options: ParseOptions = {}): ParsedScenario {
+export function parseScenario(
+  text: string,
+  fileName: string,
+  sets: readonly string[] = [],
+  options: ParseOptions = {},
+): ParsedScenario {
   const parsed = parseScenarioText(text, fileName);
   if (!parsed.ok) throw lineError(parsed.errors);
   let scenario: Scenario;
@@ -146,7 +151,13 @@ export interface LoadInputsOptions {
   allow?: RunAllowance;
 }
 
-async function readInput(reader: InputReader, path: string, what: string, where: string, limit: ReadLimit): Promise<Uint8Array> {
+async function readInput(
+  reader: InputReader,
+  path: string,
+  what: string,
+  where: string,
+  limit: ReadLimit,
+): Promise<Uint8Array> {
   try {
     return await reader(path, limit);
   } catch (e) {
@@ -156,18 +167,29 @@ async function readInput(reader: InputReader, path: string, what: string, where:
 }
 
 /** Read the wind files and the starting state the scenario asks for. */
-export async function loadInputs(p: ParsedScenario, reader: InputReader, options: LoadInputsOptions = {}): Promise<PreparedInputs> {
+export async function loadInputs(
+  p: ParsedScenario,
+  reader: InputReader,
+  options: LoadInputsOptions = {},
+): Promise<PreparedInputs> {
   const chain = [...(options.chain ?? []), p.fileName];
   const notes: string[] = [];
   const files = new Map<string, string | Uint8Array>();
   const parts = p.resolved.wind.parts;
   for (let k = 0; k < parts.length; k++) {
     const part = parts[k];
-    if (part.kind !== 'fixed' || part.enabled === false || part.source.kind !== 'file' || files.has(part.source.path)) continue;
+    if (part.kind !== 'fixed' || part.enabled === false || part.source.kind !== 'file' || files.has(part.source.path))
+      continue;
     const src = part.source;
     const path = resolveRelative(p.fileName, src.path);
     const where = `${p.fileName}: wind.parts[${k}].source.path`;
-    const bytes = await readInput(reader, path, 'the wind file', where, src.format === 'csv' ? READ_LIMITS.csvWind : READ_LIMITS.netcdfInput);
+    const bytes = await readInput(
+      reader,
+      path,
+      'the wind file',
+      where,
+      src.format === 'csv' ? READ_LIMITS.csvWind : READ_LIMITS.netcdfInput,
+    );
     files.set(src.path, src.format === 'csv' ? textOf(bytes, `the wind file ${path}`, where) : bytes);
     notes.push(`wind file ${src.path} (${bytes.length} bytes)`);
   }
@@ -175,7 +197,13 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
   const grid = () => new Grid(p.resolved.model.basin, p.resolved.model.physics.earthRadius);
   if (init.kind === 'restart') {
     const path = resolveRelative(p.fileName, init.path);
-    const bytes = await readInput(reader, path, 'the restart file', `${p.fileName}: initial.path`, READ_LIMITS.netcdfInput);
+    const bytes = await readInput(
+      reader,
+      path,
+      'the restart file',
+      `${p.fileName}: initial.path`,
+      READ_LIMITS.netcdfInput,
+    );
     let start: StartFile;
     try {
       start = readStartFile(bytes, grid(), path);
@@ -185,7 +213,10 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
     }
     notes.push(start.note);
     const differs = start.exact ? forcingDifference(start.scenarioJson, p.scenario) : null;
-    if (differs) notes.push(`${path} was written by a run with other wind or seed (${differs}): the random bursts and the forcing are this scenario's, so the continuation is not the same run`);
+    if (differs)
+      notes.push(
+        `${path} was written by a run with other wind or seed (${differs}): the random bursts and the forcing are this scenario's, so the continuation is not the same run`,
+      );
     return { files, startState: start.state, startDt: start.dt, notes };
   }
   if (init.kind === 'spinup') {
@@ -194,11 +225,16 @@ export async function loadInputs(p: ParsedScenario, reader: InputReader, options
       throw new InputError(`spin-up cycle: ${[...chain, path].join(' -> ')}`, `${p.fileName}: initial.scenario`);
     }
     if (chain.length > MAX_SPINUP_DEPTH) {
-      throw new InputError(`spin-ups nest more than ${MAX_SPINUP_DEPTH} deep: ${chain.join(' -> ')}`, `${p.fileName}: initial.scenario`);
+      throw new InputError(
+        `spin-ups nest more than ${MAX_SPINUP_DEPTH} deep: ${chain.join(' -> ')}`,
+        `${p.fileName}: initial.scenario`,
+      );
     }
     const where = `${p.fileName}: initial.scenario`;
     const bytes = await readInput(reader, path, 'the spin-up scenario', where, READ_LIMITS.scenario);
-    const spin = parseScenario(textOf(bytes, `the spin-up scenario ${path}`, where), path, [], { allow: options.allow });
+    const spin = parseScenario(textOf(bytes, `the spin-up scenario ${path}`, where), path, [], {
+      allow: options.allow,
+    });
     sameBasin(p, spin);
     const inner = await loadInputs(spin, reader, { ...options, chain });
     const days = init.days ?? spin.resolved.days;
@@ -248,11 +284,17 @@ function sameBasin(p: ParsedScenario, spin: ParsedScenario): void {
   const b = spin.resolved.model.basin;
   for (const k of ['lonWest', 'lonEast', 'latSouth', 'latNorth', 'dLon', 'dLat'] as const) {
     if (a[k] !== b[k]) {
-      throw new InputError(`the spin-up scenario ${spin.fileName} has basin ${k} = ${b[k]}, this scenario ${a[k]}; both must use the same basin and resolution`, `${p.fileName}: initial.scenario`);
+      throw new InputError(
+        `the spin-up scenario ${spin.fileName} has basin ${k} = ${b[k]}, this scenario ${a[k]}; both must use the same basin and resolution`,
+        `${p.fileName}: initial.scenario`,
+      );
     }
   }
   if (JSON.stringify(a.land) !== JSON.stringify(b.land)) {
-    throw new InputError(`the spin-up scenario ${spin.fileName} has different land; both must use the same basin`, `${p.fileName}: initial.scenario`);
+    throw new InputError(
+      `the spin-up scenario ${spin.fileName} has different land; both must use the same basin`,
+      `${p.fileName}: initial.scenario`,
+    );
   }
 }
 
@@ -261,11 +303,15 @@ export function buildPrepared(p: ParsedScenario, inputs: PreparedInputs): BuiltR
   let built: BuiltRun;
   // buildModel takes a start state only for the kinds that need one; a given state wins.
   const kind = p.resolved.initial.kind;
-  const resolved = inputs.startState && kind !== 'restart' && kind !== 'spinup' ? { ...p.resolved, initial: { kind: 'restart' as const, path: '(given state)' } } : p.resolved;
+  const resolved =
+    inputs.startState && kind !== 'restart' && kind !== 'spinup'
+      ? { ...p.resolved, initial: { kind: 'restart' as const, path: '(given state)' } }
+      : p.resolved;
   try {
     built = buildModel(resolved, { files: inputs.files, startState: inputs.startState });
   } catch (e) {
-    if (e instanceof InputError && !e.message.startsWith(p.fileName)) throw new InputError(`${p.fileName}: ${e.message}`);
+    if (e instanceof InputError && !e.message.startsWith(p.fileName))
+      throw new InputError(`${p.fileName}: ${e.message}`);
     // ForcingError and its kin (FormulaError): all bad input, not a failure of the program.
     if (e instanceof ForcingError) throw new InputError(`${p.fileName}: ${e.message}`);
     throw e;

@@ -22,7 +22,19 @@ import { didYouMean } from './suggest.ts';
 import { MAX_SUGGESTIONS, unknownKeyIssue, type SuggestionBudget } from './unknown-keys.ts';
 
 /** Keywords that only summarise failures reported elsewhere. */
-const SUMMARY_KEYWORDS = new Set(['properties', 'items', 'prefixItems', '$ref', 'allOf', 'anyOf', 'false', 'if', 'then', 'else', 'contains']);
+const SUMMARY_KEYWORDS = new Set([
+  'properties',
+  'items',
+  'prefixItems',
+  '$ref',
+  'allOf',
+  'anyOf',
+  'false',
+  'if',
+  'then',
+  'else',
+  'contains',
+]);
 
 export { MAX_SUGGESTIONS } from './unknown-keys.ts';
 
@@ -31,13 +43,16 @@ export function issuesFromValidator(errors: readonly OutputUnit[], instance: unk
   // of its ancestors is in the set (a walk up its own segments, not a scan of the set).
   const dropped = new Set<string>();
   const isDropped = (loc: string) => {
-    for (let cut = loc.length; cut > 0; cut = loc.lastIndexOf('/', cut - 1)) if (dropped.has(loc.slice(0, cut))) return true;
+    for (let cut = loc.length; cut > 0; cut = loc.lastIndexOf('/', cut - 1))
+      if (dropped.has(loc.slice(0, cut))) return true;
     return false;
   };
   const issues: ScenarioIssue[] = [];
 
   // oneOf first, outermost first, so that an inner oneOf of a dropped branch is ignored.
-  const oneOfs = errors.filter((e) => e.keyword === 'oneOf').sort((a, b) => a.keywordLocation.length - b.keywordLocation.length);
+  const oneOfs = errors
+    .filter((e) => e.keyword === 'oneOf')
+    .sort((a, b) => a.keywordLocation.length - b.keywordLocation.length);
   for (const e of oneOfs) {
     if (isDropped(e.keywordLocation)) continue;
     const branches = nodeAtKeywordLocation(e.keywordLocation) as unknown as SchemaNode[] | undefined;
@@ -83,15 +98,24 @@ function unknownKeys(e: OutputUnit, instance: unknown, budget: SuggestionBudget)
     .map((k) => unknownKeyIssue(segments, k, allowedList, allowedText, budget));
 }
 
-function noBranchIssue(branches: SchemaNode[], parent: SchemaNode, segments: PathSegment[], value: unknown): ScenarioIssue {
+function noBranchIssue(
+  branches: SchemaNode[],
+  parent: SchemaNode,
+  segments: PathSegment[],
+  value: unknown,
+): ScenarioIssue {
   const kinds = discriminatorKinds(branches);
   const path = pathToString(segments);
   if (kinds) {
     const list = kinds.map((k) => `'${k}'`).join(', ');
     if (!isPlainObject(value)) {
-      return { path, message: `must be an object with a "kind": one of ${list} (got ${jsonType(value)} ${show(value)})` };
+      return {
+        path,
+        message: `must be an object with a "kind": one of ${list} (got ${jsonType(value)} ${show(value)})`,
+      };
     }
-    if (!hasOwn(value, 'kind')) return { path: pathToString([...segments, 'kind']), message: `is missing; say which kind: one of ${list}` };
+    if (!hasOwn(value, 'kind'))
+      return { path: pathToString([...segments, 'kind']), message: `is missing; say which kind: one of ${list}` };
     const k = value.kind;
     const near = typeof k === 'string' ? didYouMean(k, kinds) : '';
     return { path: pathToString([...segments, 'kind']), message: `unknown kind ${show(k)}; allowed: ${list}${near}` };
@@ -112,7 +136,17 @@ function phrase(e: OutputUnit, instance: unknown): ScenarioIssue[] {
   switch (e.keyword) {
     case 'type': {
       const types: string[] = Array.isArray(node.type) ? node.type : [node.type];
-      const words = types.map((t) => (t === 'integer' ? 'a whole number' : t === 'null' ? 'null' : t === 'array' ? 'a list' : t === 'object' ? 'an object' : `a ${t}`));
+      const words = types.map((t) =>
+        t === 'integer'
+          ? 'a whole number'
+          : t === 'null'
+            ? 'null'
+            : t === 'array'
+              ? 'a list'
+              : t === 'object'
+                ? 'an object'
+                : `a ${t}`,
+      );
       const exp = words.join(' or ');
       if (types.includes('integer') && typeof value === 'number') return [withHint(`must be a whole number ${got}`)];
       return [withHint(`must be ${exp} (got ${jsonType(value)} ${show(value)})`)];
@@ -132,7 +166,13 @@ function phrase(e: OutputUnit, instance: unknown): ScenarioIssue[] {
       return [{ path, message: `must be ${show(node.const)} ${got}` }];
     case 'enum': {
       const options: unknown[] = node.enum ?? [];
-      const near = typeof value === 'string' ? didYouMean(value, options.filter((o): o is string => typeof o === 'string')) : '';
+      const near =
+        typeof value === 'string'
+          ? didYouMean(
+              value,
+              options.filter((o): o is string => typeof o === 'string'),
+            )
+          : '';
       return [{ path, message: `must be one of ${options.map(show).join(', ')} ${got}${near}` }];
     }
     case 'minimum':
@@ -156,7 +196,11 @@ function phrase(e: OutputUnit, instance: unknown): ScenarioIssue[] {
     case 'minLength':
       return [withHint(node.minLength === 1 ? 'must not be empty' : `must have at least ${node.minLength} characters`)];
     case 'maxLength':
-      return [withHint(`must have at most ${node.maxLength} characters (got ${typeof value === 'string' ? value.length : '?'})`)];
+      return [
+        withHint(
+          `must have at most ${node.maxLength} characters (got ${typeof value === 'string' ? value.length : '?'})`,
+        ),
+      ];
     case 'uniqueItems': {
       const list = Array.isArray(value) ? value.map((v) => JSON.stringify(v)) : [];
       const seen = new Set<string>();

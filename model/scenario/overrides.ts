@@ -5,7 +5,15 @@
 // is validated like a file.
 
 import { pathToString, shortText, show, type PathSegment, type ScenarioIssue } from './errors.ts';
-import { chooseBranch, deref, discriminatorKinds, hasOwn, isPlainObject, scenarioSchema, type SchemaNode } from './schema.ts';
+import {
+  chooseBranch,
+  deref,
+  discriminatorKinds,
+  hasOwn,
+  isPlainObject,
+  scenarioSchema,
+  type SchemaNode,
+} from './schema.ts';
 import { closest } from './suggest.ts';
 import type { Scenario } from './types.ts';
 import { collectIssues } from './validate.ts';
@@ -56,13 +64,21 @@ export function applyOverrides(json: unknown, sets: readonly string[]): Override
 /** "a.b[2].c=value" -> path segments and a typed value. */
 export function parseOverride(text: string): Override | { issue: ScenarioIssue } {
   const eq = text.indexOf('=');
-  if (eq < 0) return { issue: { path: '', message: `--set ${show(text)}: expected path=value, e.g. physics.reducedGravity=0.05` } };
+  if (eq < 0)
+    return {
+      issue: { path: '', message: `--set ${show(text)}: expected path=value, e.g. physics.reducedGravity=0.05` },
+    };
   const pathText = text.slice(0, eq).trim();
   const raw = text.slice(eq + 1);
   const path = parsePath(pathText);
   if (typeof path === 'string') return { issue: { path: pathText, message: `--set ${show(text)}: ${path}` } };
   if (raw.trim() === '') {
-    return { issue: { path: pathText, message: `--set ${show(text)}: no value after =; write a number, true, false, null, a word, or "" for an empty string` } };
+    return {
+      issue: {
+        path: pathText,
+        message: `--set ${show(text)}: no value after =; write a number, true, false, null, a word, or "" for an empty string`,
+      },
+    };
   }
   const value = parseValue(raw.trim());
   if (typeof value === 'object' && value !== null && 'bad' in value) {
@@ -91,7 +107,8 @@ function parsePath(text: string): PathSegment[] | string {
     }
     last = re.lastIndex;
   }
-  if (last !== text.length) return `bad path ${show(text)} near '${text.slice(last)}'; write keys with dots and list indices in brackets, e.g. wind.parts[0].enabled`;
+  if (last !== text.length)
+    return `bad path ${show(text)} near '${text.slice(last)}'; write keys with dots and list indices in brackets, e.g. wind.parts[0].enabled`;
   if (expectKey) return `the path ${show(text)} ends with "."`;
   return segs;
 }
@@ -102,7 +119,9 @@ function parseValue(raw: string): { ok: unknown } | { bad: string } {
   } catch (e) {
     // A value that looks like JSON but is not is a mistake, not a string.
     if (/^[[{"]/.test(raw) || /^[-+.]?\d/.test(raw)) {
-      return { bad: `the value ${show(raw)} is not valid JSON (${(e as Error).message}); numbers like 0.05 or 1e-3, strings in double quotes` };
+      return {
+        bad: `the value ${show(raw)} is not valid JSON (${(e as Error).message}); numbers like 0.05 or 1e-3, strings in double quotes`,
+      };
     }
     return { ok: raw };
   }
@@ -113,7 +132,10 @@ function setAtPath(root: unknown, o: Override): ScenarioIssue | null {
   let node: SchemaNode = scenarioSchema;
   let container: any = root;
   const done: PathSegment[] = [];
-  const fail = (message: string): ScenarioIssue => ({ path: pathToString(o.path), message: `--set ${show(o.text)}: ${message}` });
+  const fail = (message: string): ScenarioIssue => ({
+    path: pathToString(o.path),
+    message: `--set ${show(o.text)}: ${message}`,
+  });
   for (let k = 0; k < o.path.length; k++) {
     const seg = o.path[k];
     const last = k === o.path.length - 1;
@@ -122,19 +144,25 @@ function setAtPath(root: unknown, o: Override): ScenarioIssue | null {
     if (typeof seg === 'string') {
       const props = allProperties(node);
       if (!props || !isPlainObject(container)) {
-        return fail(`${pathToString(done) || 'the top level'} holds ${props ? 'no object' : 'a single value'}, so it has no key '${seg}'`);
+        return fail(
+          `${pathToString(done) || 'the top level'} holds ${props ? 'no object' : 'a single value'}, so it has no key '${seg}'`,
+        );
       }
       if (!hasOwn(props, seg)) {
         const keys = Object.keys(props);
         const near = seg.length <= 200 ? closest(seg, keys) : [];
         const where = done.length ? `in ${shortText(pathToString(done), 200)}` : 'at the top level';
-        return fail(`unknown key '${shortText(seg)}' ${where}${near.length ? `; did you mean ${near.map((n) => `'${n}'`).join(' or ')}?` : ''} (keys: ${keys.join(', ')})`);
+        return fail(
+          `unknown key '${shortText(seg)}' ${where}${near.length ? `; did you mean ${near.map((n) => `'${n}'`).join(' or ')}?` : ''} (keys: ${keys.join(', ')})`,
+        );
       }
       child = props[seg];
     } else {
       if (!Array.isArray(container)) return fail(`${pathToString(done)} is not a list, so [${seg}] does not apply`);
       if (seg >= container.length) {
-        return fail(`${pathToString(done)} has ${container.length} entr${container.length === 1 ? 'y' : 'ies'}; index ${seg} is out of range (0..${container.length - 1})`);
+        return fail(
+          `${pathToString(done)} has ${container.length} entr${container.length === 1 ? 'y' : 'ies'}; index ${seg} is out of range (0..${container.length - 1})`,
+        );
       }
       child = Array.isArray(node.prefixItems) ? node.prefixItems[seg] : node.items;
     }
@@ -174,7 +202,10 @@ function emptyFor(node: SchemaNode, nextSeg: PathSegment): unknown {
   if (Array.isArray(node.oneOf)) {
     const kinds = discriminatorKinds(node.oneOf);
     if (kinds && typeof nextSeg === 'string' && nextSeg !== 'kind') {
-      const having = node.oneOf.map(deref).map((b: SchemaNode, i: number) => (hasOwn(b.properties ?? {}, nextSeg) ? kinds[i] : null)).filter(Boolean);
+      const having = node.oneOf
+        .map(deref)
+        .map((b: SchemaNode, i: number) => (hasOwn(b.properties ?? {}, nextSeg) ? kinds[i] : null))
+        .filter(Boolean);
       if (having.length === 1) return { kind: having[0] };
     }
     return {};

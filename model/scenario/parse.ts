@@ -100,10 +100,12 @@ class Reader {
 
   document(): unknown {
     this.space();
-    if (this.i >= this.s.length) throw new JsonSyntaxError('the file is empty; a scenario is a JSON object { ... }', this.i);
+    if (this.i >= this.s.length)
+      throw new JsonSyntaxError('the file is empty; a scenario is a JSON object { ... }', this.i);
     const v = this.value([], 0);
     this.space();
-    if (this.i < this.s.length) throw new JsonSyntaxError(`unexpected ${this.describe()} after the end of the JSON value`, this.i);
+    if (this.i < this.s.length)
+      throw new JsonSyntaxError(`unexpected ${this.describe()} after the end of the JSON value`, this.i);
     return v;
   }
 
@@ -136,22 +138,33 @@ class Reader {
     }
     const ch = this.s[this.i];
     if ((ch === '{' || ch === '[') && depth >= MAX_NESTING) {
-      throw new JsonSyntaxError(`nesting deeper than ${MAX_NESTING} levels of { and [; a scenario needs only a few`, this.i);
+      throw new JsonSyntaxError(
+        `nesting deeper than ${MAX_NESTING} levels of { and [; a scenario needs only a few`,
+        this.i,
+      );
     }
     if (ch === '{') return this.object(path, depth + 1);
     if (ch === '[') return this.array(path, depth + 1);
     if (ch === '"') return this.string();
     if (ch === '-' || (ch >= '0' && ch <= '9')) return this.number();
-    for (const [word, v] of [['true', true], ['false', false], ['null', null]] as const) {
+    for (const [word, v] of [
+      ['true', true],
+      ['false', false],
+      ['null', null],
+    ] as const) {
       if (this.s.startsWith(word, this.i)) {
         this.i += word.length;
         return v;
       }
     }
-    if (ch === "'") throw new JsonSyntaxError("strings must use double quotes \" in JSON, not single quotes '", this.i);
+    if (ch === "'") throw new JsonSyntaxError('strings must use double quotes " in JSON, not single quotes \'', this.i);
     if (this.i >= this.s.length) throw new JsonSyntaxError('unexpected end of file: a value is missing', this.i);
     const word = /^[A-Za-z_][A-Za-z0-9_]*/.exec(this.s.slice(this.i, this.i + 40));
-    if (word) throw new JsonSyntaxError(`unexpected word '${word[0]}': expected a value (a number, a "string", true, false, null, { or [)`, this.i);
+    if (word)
+      throw new JsonSyntaxError(
+        `unexpected word '${word[0]}': expected a value (a number, a "string", true, false, null, { or [)`,
+        this.i,
+      );
     throw new JsonSyntaxError(`unexpected ${this.describe()}: expected a value`, this.i);
   }
 
@@ -168,7 +181,11 @@ class Reader {
     for (;;) {
       this.space();
       if (this.s[this.i] !== '"') {
-        if (this.i >= this.s.length) throw new JsonSyntaxError(`unexpected end of file: the object opened at line ${this.position(open).line} is not closed with }`, this.i);
+        if (this.i >= this.s.length)
+          throw new JsonSyntaxError(
+            `unexpected end of file: the object opened at line ${this.position(open).line} is not closed with }`,
+            this.i,
+          );
         if (this.s[this.i] === '}') throw new JsonSyntaxError('trailing comma before }: remove the last comma', this.i);
         throw new JsonSyntaxError(`unexpected ${this.describe()}: expected a key in double quotes`, this.i);
       }
@@ -181,10 +198,16 @@ class Reader {
       const child = located ? [...path!, key] : null;
       if (child && this.locations.size < MAX_LOCATIONS) this.locations.set(pathToString(child), this.position(keyAt));
       this.space();
-      if (this.s[this.i] !== ':') throw new JsonSyntaxError(`unexpected ${this.describe()}: expected : after the key "${key}"`, this.i);
+      if (this.s[this.i] !== ':')
+        throw new JsonSyntaxError(`unexpected ${this.describe()}: expected : after the key "${key}"`, this.i);
       this.i++;
       // Keys such as "__proto__" must become plain properties, not change the prototype.
-      Object.defineProperty(out, key, { value: this.value(child, depth), enumerable: true, writable: true, configurable: true });
+      Object.defineProperty(out, key, {
+        value: this.value(child, depth),
+        enumerable: true,
+        writable: true,
+        configurable: true,
+      });
       this.space();
       const ch = this.s[this.i];
       if (ch === ',') {
@@ -195,7 +218,11 @@ class Reader {
         this.i++;
         return out;
       }
-      if (this.i >= this.s.length) throw new JsonSyntaxError(`unexpected end of file: the object opened at line ${this.position(open).line} is not closed with }`, this.i);
+      if (this.i >= this.s.length)
+        throw new JsonSyntaxError(
+          `unexpected end of file: the object opened at line ${this.position(open).line} is not closed with }`,
+          this.i,
+        );
       throw new JsonSyntaxError(`unexpected ${this.describe()}: expected , or } after the value of "${key}"`, this.i);
     }
   }
@@ -224,7 +251,11 @@ class Reader {
         this.i++;
         return out;
       }
-      if (this.i >= this.s.length) throw new JsonSyntaxError(`unexpected end of file: the list opened at line ${this.position(open).line} is not closed with ]`, this.i);
+      if (this.i >= this.s.length)
+        throw new JsonSyntaxError(
+          `unexpected end of file: the list opened at line ${this.position(open).line} is not closed with ]`,
+          this.i,
+        );
       throw new JsonSyntaxError(`unexpected ${this.describe()}: expected , or ] in the list`, this.i);
     }
   }
@@ -243,15 +274,26 @@ class Reader {
       }
       if (this.i > run) out += this.s.slice(run, this.i);
       const ch = this.s[this.i];
-      if (ch === undefined || ch === '\n') throw new JsonSyntaxError('unterminated string: a closing " is missing', open);
+      if (ch === undefined || ch === '\n')
+        throw new JsonSyntaxError('unterminated string: a closing " is missing', open);
       if (ch === '"') {
         this.i++;
         return out;
       }
-      if (ch < ' ') throw new JsonSyntaxError('control character inside a string; write it as an escape such as \\t', this.i);
+      if (ch < ' ')
+        throw new JsonSyntaxError('control character inside a string; write it as an escape such as \\t', this.i);
       if (ch === '\\') {
         const e = this.s[this.i + 1];
-        const simple: Record<string, string> = { '"': '"', '\\': '\\', '/': '/', b: '\b', f: '\f', n: '\n', r: '\r', t: '\t' };
+        const simple: Record<string, string> = {
+          '"': '"',
+          '\\': '\\',
+          '/': '/',
+          b: '\b',
+          f: '\f',
+          n: '\n',
+          r: '\r',
+          t: '\t',
+        };
         if (e !== undefined && e in simple) {
           out += simple[e];
           this.i += 2;
@@ -274,7 +316,10 @@ class Reader {
     if (!m) throw new JsonSyntaxError(`bad number: ${this.describe()} cannot start a number here`, this.i);
     const after = this.s[this.i + m[0].length];
     if (after !== undefined && /[0-9.eE+\-A-Za-z]/.test(after)) {
-      throw new JsonSyntaxError(`bad number '${this.s.slice(this.i, this.i + m[0].length + 1)}' (JSON numbers have no leading zeros, hex, or trailing dots)`, this.i);
+      throw new JsonSyntaxError(
+        `bad number '${this.s.slice(this.i, this.i + m[0].length + 1)}' (JSON numbers have no leading zeros, hex, or trailing dots)`,
+        this.i,
+      );
     }
     this.i += m[0].length;
     const v = Number(m[0]);

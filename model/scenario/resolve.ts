@@ -32,7 +32,9 @@ export interface ResolvedScenario {
 export const EQUATORIAL_BETA = earthBeta(EARTH.omega, EARTH.radius);
 
 export function cellSize(resolution: Scenario['basin']['resolution']): { dLon: number; dLat: number } {
-  return typeof resolution === 'number' ? { dLon: resolution, dLat: resolution } : { dLon: resolution.lon, dLat: resolution.lat };
+  return typeof resolution === 'number'
+    ? { dLon: resolution, dLat: resolution }
+    : { dLon: resolution.lon, dLat: resolution.lat };
 }
 
 /** A time in days as a rate in s-1 (1 / time). */
@@ -58,7 +60,10 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
       layerThickness: physics.layerThickness,
       density: physics.density,
       coriolis: physics.coriolis.kind,
-      beta: physics.coriolis.kind === 'beta-plane' && physics.coriolis.beta !== undefined ? physics.coriolis.beta : EQUATORIAL_BETA,
+      beta:
+        physics.coriolis.kind === 'beta-plane' && physics.coriolis.beta !== undefined
+          ? physics.coriolis.beta
+          : EQUATORIAL_BETA,
       earthRotation: EARTH.omega,
       earthRadius: EARTH.radius,
       mode: physics.dynamics,
@@ -68,9 +73,17 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
       gravity: EARTH.gravity,
       surfaceLayer: { depth: physics.surfaceLayer.depth, damping: rate(physics.surfaceLayer.dampingDays) },
       entrainment: { minThickness: physics.entrainment.minThickness, time: physics.entrainment.timeDays * DAY },
-      sponge: { widthDeg: basin.sponge.widthDeg, rateAtWall: rate(basin.sponge.dampingDays), conserveVolume: basin.sponge.conserveVolume },
+      sponge: {
+        widthDeg: basin.sponge.widthDeg,
+        rateAtWall: rate(basin.sponge.dampingDays),
+        conserveVolume: basin.sponge.conserveVolume,
+      },
     },
-    time: { dt: time.dtSeconds === 'auto' ? null : time.dtSeconds, safety: time.safety, alignTo: secondsOfDays(time.outputEveryDays) },
+    time: {
+      dt: time.dtSeconds === 'auto' ? null : time.dtSeconds,
+      safety: time.safety,
+      alignTo: secondsOfDays(time.outputEveryDays),
+    },
     precision: scenario.numerics.precision,
   };
   return {

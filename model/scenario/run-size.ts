@@ -28,7 +28,8 @@ export interface RunAllowance {
   largeOutput?: boolean;
 }
 
-const count = (n: number) => (Number.isFinite(n) && n < 1e21 ? Math.round(n).toLocaleString('en-US') : n.toPrecision(3));
+const count = (n: number) =>
+  Number.isFinite(n) && n < 1e21 ? Math.round(n).toLocaleString('en-US') : n.toPrecision(3);
 const gib = (n: number) => `${(n / 1024 ** 3).toFixed(2)} GiB`;
 /** 0.001, 28800, 1.234e-7: four digits, no trailing zeros. */
 const short = (x: number) => String(Number(x.toPrecision(4)));
@@ -37,9 +38,16 @@ const short = (x: number) => String(Number(x.toPrecision(4)));
  * Why a run of these numbers is not started, or null when it is. `days` is the run length,
  * `autoDt` the step "auto" would give when the scenario gives its own (for the advice).
  */
-export function runSizeRefusal(d: Pick<DerivedNumbers, 'dt' | 'steps' | 'outputs' | 'outputBytes' | 'nx' | 'ny'>, days: number, fields: number, allow: RunAllowance = {}, autoDt?: number): string | null {
+export function runSizeRefusal(
+  d: Pick<DerivedNumbers, 'dt' | 'steps' | 'outputs' | 'outputBytes' | 'nx' | 'ny'>,
+  days: number,
+  fields: number,
+  allow: RunAllowance = {},
+  autoDt?: number,
+): string | null {
   const dt = `dt = ${short(d.dt)} s`;
-  if (!(d.dt > 0) || !Number.isFinite(d.dt)) return `the time step comes out as ${d.dt} s; the run cannot start (check time.dtSeconds and time.outputEveryDays)`;
+  if (!(d.dt > 0) || !Number.isFinite(d.dt))
+    return `the time step comes out as ${d.dt} s; the run cannot start (check time.dtSeconds and time.outputEveryDays)`;
   if (!Number.isSafeInteger(d.steps)) {
     // The step count itself may have overflowed to Infinity (or NaN): say the run length over dt.
     const steps = Number.isFinite(d.steps) ? d.steps : (days * 86400) / d.dt;
@@ -60,19 +68,31 @@ export function runSizeRefusal(d: Pick<DerivedNumbers, 'dt' | 'steps' | 'outputs
 
 /** How to take fewer steps: a longer given step (with what "auto" would give), or coarser cells. */
 function advice(autoDt: number | undefined): string {
-  if (autoDt !== undefined && Number.isFinite(autoDt) && autoDt > 0) return `use a longer time step (time.dtSeconds "auto" gives ${short(autoDt)} s here) or fewer days`;
+  if (autoDt !== undefined && Number.isFinite(autoDt) && autoDt > 0)
+    return `use a longer time step (time.dtSeconds "auto" gives ${short(autoDt)} s here) or fewer days`;
   return 'use coarser cells (basin.resolution) or fewer days';
 }
 
 /** The refusal of a resolved scenario's run (its derived numbers), or null: what parseScenario and the page's panel check. */
-export function scenarioRunRefusal(r: ResolvedScenario, allow: RunAllowance = {}, d: DerivedNumbers = derivedNumbers(r)): string | null {
+export function scenarioRunRefusal(
+  r: ResolvedScenario,
+  allow: RunAllowance = {},
+  d: DerivedNumbers = derivedNumbers(r),
+): string | null {
   const t = r.model.time;
-  return runSizeRefusal(d, r.days, r.outputFields.length, allow, d.dtIsAuto ? undefined : chooseTimeStep(d.stability, null, t.safety, t.alignTo));
+  return runSizeRefusal(
+    d,
+    r.days,
+    r.outputFields.length,
+    allow,
+    d.dtIsAuto ? undefined : chooseTimeStep(d.stability, null, t.safety, t.alignTo),
+  );
 }
 
 /** The refusal for a spin-up run of `steps` steps of dt seconds over `days` days, or null. */
 export function spinupSizeRefusal(steps: number, dt: number, days: number, allow: RunAllowance = {}): string | null {
-  if (!Number.isSafeInteger(steps)) return `the spin-up would take ${count(Number.isFinite(steps) ? steps : (days * 86400) / dt)} time steps (dt = ${short(dt)} s for ${days} days); it cannot run`;
+  if (!Number.isSafeInteger(steps))
+    return `the spin-up would take ${count(Number.isFinite(steps) ? steps : (days * 86400) / dt)} time steps (dt = ${short(dt)} s for ${days} days); it cannot run`;
   if (steps > MAX_STEPS && !allow.longRun) {
     return `the spin-up takes ${count(steps)} time steps (dt = ${short(dt)} s for ${days} days), above the cap of ${count(MAX_STEPS)} steps: shorten initial.days, or ask for it with ${ALLOW_LONG_RUN}`;
   }

@@ -9,7 +9,7 @@ export type SchemaNode = { [keyword: string]: any };
 export const scenarioSchema: SchemaNode = schemaJson as SchemaNode;
 
 export function hasOwn(o: object, key: string): boolean {
-  return  Object.hasOwn(o, key);
+  return Object.hasOwn(o, key);
 }
 
 export function isPlainObject(v: unknown): v is Record<string, unknown> {
@@ -119,7 +119,8 @@ export function chooseBranch(branches: SchemaNode[], value: unknown): number | n
 /** A few words for what a node accepts: "a number", "the string \"auto\"", "an object {lon, lat}". */
 export function describeAccepted(node: SchemaNode): string {
   const n = deref(node);
-  if (hasOwn(n, 'const')) return typeof n.const === 'string' ? `the string ${JSON.stringify(n.const)}` : JSON.stringify(n.const);
+  if (hasOwn(n, 'const'))
+    return typeof n.const === 'string' ? `the string ${JSON.stringify(n.const)}` : JSON.stringify(n.const);
   if (Array.isArray(n.enum)) return `one of ${n.enum.map((v: unknown) => JSON.stringify(v)).join(', ')}`;
   const types = acceptedTypes(n);
   return types
@@ -135,7 +136,17 @@ export function describeAccepted(node: SchemaNode): string {
 }
 
 /** Words that keep their capital when a description is quoted inside a message. */
-const PROPER_WORDS = new Set(['Gaussian', 'Kelvin', 'Rossby', 'Coriolis', 'Rayleigh', 'Laplacian', 'Hovmoller', 'Poisson', 'Large']);
+const PROPER_WORDS = new Set([
+  'Gaussian',
+  'Kelvin',
+  'Rossby',
+  'Coriolis',
+  'Rayleigh',
+  'Laplacian',
+  'Hovmoller',
+  'Poisson',
+  'Large',
+]);
 
 /** The first clause of a description, made to follow a "; " in a message. */
 export function hintOf(description: unknown): string {
@@ -146,7 +157,11 @@ export function hintOf(description: unknown): string {
     const ch = description[k];
     if (ch === '(') depth++;
     else if (ch === ')') depth = Math.max(0, depth - 1);
-    else if (depth === 0 && (ch === ';' || ch === '.') && (description[k + 1] === ' ' || k === description.length - 1)) {
+    else if (
+      depth === 0 &&
+      (ch === ';' || ch === '.') &&
+      (description[k + 1] === ' ' || k === description.length - 1)
+    ) {
       end = k;
       break;
     }

@@ -41,10 +41,17 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
   if (num(b.lonWest) && num(b.lonEast) && num(b.latSouth) && num(b.latNorth)) {
     const okLon = b.lonEast > b.lonWest;
     const okLat = b.latNorth > b.latSouth;
-    if (!okLon) add(['basin', 'lonEast'], `must be east of lonWest (lonWest = ${b.lonWest}, lonEast = ${b.lonEast}); longitudes increase eastward, e.g. 80W east of the dateline is 280`);
-    else if (b.lonEast - b.lonWest > 360) add(['basin', 'lonEast'], `the basin is ${b.lonEast - b.lonWest} degrees wide; at most 360`);
-    if (!okLat) add(['basin', 'latNorth'], `must be north of latSouth (latSouth = ${b.latSouth}, latNorth = ${b.latNorth})`);
-    if (okLon && okLat && b.lonEast - b.lonWest <= 360) box = { w: b.lonWest, e: b.lonEast, s: b.latSouth, n: b.latNorth };
+    if (!okLon)
+      add(
+        ['basin', 'lonEast'],
+        `must be east of lonWest (lonWest = ${b.lonWest}, lonEast = ${b.lonEast}); longitudes increase eastward, e.g. 80W east of the dateline is 280`,
+      );
+    else if (b.lonEast - b.lonWest > 360)
+      add(['basin', 'lonEast'], `the basin is ${b.lonEast - b.lonWest} degrees wide; at most 360`);
+    if (!okLat)
+      add(['basin', 'latNorth'], `must be north of latSouth (latSouth = ${b.latSouth}, latNorth = ${b.latNorth})`);
+    if (okLon && okLat && b.lonEast - b.lonWest <= 360)
+      box = { w: b.lonWest, e: b.lonEast, s: b.latSouth, n: b.latNorth };
   }
   const res = b.resolution;
   const dLon = num(res) ? res : num(res?.lon) ? res.lon : null;
@@ -76,9 +83,15 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
   if (box && num(sp.widthDeg) && sp.widthDeg > 0) {
     const tall = box.n - box.s;
     if (2 * sp.widthDeg >= tall) {
-      add(['basin', 'sponge', 'widthDeg'], `two sponge bands of ${sp.widthDeg} degrees do not fit in a basin ${tall} degrees tall; use less than ${tall / 2}`);
+      add(
+        ['basin', 'sponge', 'widthDeg'],
+        `two sponge bands of ${sp.widthDeg} degrees do not fit in a basin ${tall} degrees tall; use less than ${tall / 2}`,
+      );
     } else if (dLat !== null && sp.widthDeg < dLat) {
-      add(['basin', 'sponge', 'widthDeg'], `a sponge band of ${sp.widthDeg} degrees is narrower than one cell (${dLat} degrees) and would do nothing; use 0 for none or at least ${dLat}`);
+      add(
+        ['basin', 'sponge', 'widthDeg'],
+        `a sponge band of ${sp.widthDeg} degrees is narrower than one cell (${dLat} degrees) and would do nothing; use 0 for none or at least ${dLat}`,
+      );
     }
   }
 
@@ -97,13 +110,19 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
       }
       if (box && !(inBox(box, shape.lonWest, shape.latSouth) && inBox(box, shape.lonEast, shape.latNorth))) {
         landOk = false;
-        add(['basin', 'land', i], `the rectangle ${shape.lonWest}..${shape.lonEast} E, ${shape.latSouth}..${shape.latNorth} N reaches outside the basin ${boxText(box)}`);
+        add(
+          ['basin', 'land', i],
+          `the rectangle ${shape.lonWest}..${shape.lonEast} E, ${shape.latSouth}..${shape.latNorth} N reaches outside the basin ${boxText(box)}`,
+        );
       }
     } else if (shape?.kind === 'polygon' && Array.isArray(shape.points)) {
       shape.points.forEach((pt: unknown, k: number) => {
         if (box && Array.isArray(pt) && num(pt[0]) && num(pt[1]) && !inBox(box, pt[0], pt[1])) {
           landOk = false;
-          add(['basin', 'land', i, 'points', k], `the corner [${pt[0]}, ${pt[1]}] lies outside the basin ${boxText(box)}`);
+          add(
+            ['basin', 'land', i, 'points', k],
+            `the corner [${pt[0]}, ${pt[1]}] lies outside the basin ${boxText(box)}`,
+          );
         }
       });
     } else landOk = false;
@@ -112,7 +131,10 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
   // A grid (for land cells) when the basin is sound.
   let grid: Grid | null = null;
   if (box && cellsOk && landOk && dLon !== null && dLat !== null) {
-    grid = new Grid({ lonWest: box.w, lonEast: box.e, latSouth: box.s, latNorth: box.n, dLon, dLat, land: land as LandShape[] }, EARTH.radius);
+    grid = new Grid(
+      { lonWest: box.w, lonEast: box.e, latSouth: box.s, latNorth: box.n, dLon, dLat, land: land as LandShape[] },
+      EARTH.radius,
+    );
     if (grid.oceanCells === 0) add(['basin', 'land'], 'covers every cell of the basin: no ocean is left');
   }
 
@@ -120,34 +142,63 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
   if (num(p.layerThickness) && p.layerThickness > 0) {
     const H = p.layerThickness;
     if (num(p.surfaceLayer?.depth) && !(p.surfaceLayer.depth < H)) {
-      add(['physics', 'surfaceLayer', 'depth'], `must be less than the layer thickness (${H} m) (got ${p.surfaceLayer.depth})`);
+      add(
+        ['physics', 'surfaceLayer', 'depth'],
+        `must be less than the layer thickness (${H} m) (got ${p.surfaceLayer.depth})`,
+      );
     }
     if (num(p.entrainment?.minThickness) && !(p.entrainment.minThickness < H)) {
-      add(['physics', 'entrainment', 'minThickness'], `must be less than the layer thickness (${H} m) (got ${p.entrainment.minThickness}); the resting layer would entrain`);
+      add(
+        ['physics', 'entrainment', 'minThickness'],
+        `must be less than the layer thickness (${H} m) (got ${p.entrainment.minThickness}); the resting layer would entrain`,
+      );
     }
   }
 
   // Time.
   if (num(t.outputEveryDays) && t.outputEveryDays > 0 && secondsOfDays(t.outputEveryDays) < 1) {
-    add(['time', 'outputEveryDays'], `${t.outputEveryDays} days is ${(t.outputEveryDays * 86400).toPrecision(3)} s; records are at least 1 s apart (${(1 / 86400).toPrecision(3)} days)`);
+    add(
+      ['time', 'outputEveryDays'],
+      `${t.outputEveryDays} days is ${(t.outputEveryDays * 86400).toPrecision(3)} s; records are at least 1 s apart (${(1 / 86400).toPrecision(3)} days)`,
+    );
   } else if (num(t.days) && t.days > 0 && num(t.outputEveryDays) && t.outputEveryDays > t.days + EPS) {
-    add(['time', 'outputEveryDays'], `must be at most the run length (${t.days} days) (got ${t.outputEveryDays}); no frame would be saved`);
+    add(
+      ['time', 'outputEveryDays'],
+      `must be at most the run length (${t.days} days) (got ${t.outputEveryDays}); no frame would be saved`,
+    );
   }
 
   // Initial state.
   const ini: any = sc.initial;
   if (ini && typeof ini === 'object') {
-    if (['bump', 'kelvin', 'rossby'].includes(ini.kind) && num(ini.amplitude) && num(p.layerThickness) && p.layerThickness > 0 && !(ini.amplitude > -p.layerThickness)) {
-      add(['initial', 'amplitude'], `a thermocline rise of ${-ini.amplitude} m would empty the ${p.layerThickness} m layer; use an amplitude above -${p.layerThickness}`);
+    if (
+      ['bump', 'kelvin', 'rossby'].includes(ini.kind) &&
+      num(ini.amplitude) &&
+      num(p.layerThickness) &&
+      p.layerThickness > 0 &&
+      !(ini.amplitude > -p.layerThickness)
+    ) {
+      add(
+        ['initial', 'amplitude'],
+        `a thermocline rise of ${-ini.amplitude} m would empty the ${p.layerThickness} m layer; use an amplitude above -${p.layerThickness}`,
+      );
     }
-    if (box && num(ini.lon) && ['bump', 'kelvin', 'rossby'].includes(ini.kind) && !(ini.lon >= box.w && ini.lon <= box.e)) {
+    if (
+      box &&
+      num(ini.lon) &&
+      ['bump', 'kelvin', 'rossby'].includes(ini.kind) &&
+      !(ini.lon >= box.w && ini.lon <= box.e)
+    ) {
       add(['initial', 'lon'], `${ini.lon} lies outside the basin's longitudes ${box.w}..${box.e}`);
     }
     if (box && ini.kind === 'bump' && num(ini.lat) && !(ini.lat >= box.s && ini.lat <= box.n)) {
       add(['initial', 'lat'], `${ini.lat} lies outside the basin's latitudes ${box.s}..${box.n}`);
     }
     if (box && (ini.kind === 'kelvin' || ini.kind === 'rossby') && !(box.s < 0 && box.n > 0)) {
-      add(['initial', 'kind'], `an equatorial ${ini.kind === 'kelvin' ? 'Kelvin' : 'Rossby'} wave needs the equator inside the basin (latitudes ${box.s}..${box.n})`);
+      add(
+        ['initial', 'kind'],
+        `an equatorial ${ini.kind === 'kelvin' ? 'Kelvin' : 'Rossby'} wave needs the equator inside the basin (latitudes ${box.s}..${box.n})`,
+      );
     }
   }
 
@@ -156,7 +207,11 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
   const names = new Map<string, number>();
   probes.forEach((pr: any, i) => {
     if (typeof pr?.name === 'string') {
-      if (names.has(pr.name)) add(['probes', i, 'name'], `"${pr.name}" is already the name of probes[${names.get(pr.name)}]; names must be unique`);
+      if (names.has(pr.name))
+        add(
+          ['probes', i, 'name'],
+          `"${pr.name}" is already the name of probes[${names.get(pr.name)}]; names must be unique`,
+        );
       else names.set(pr.name, i);
     }
     if (!box || !num(pr?.lon) || !num(pr?.lat)) return;
@@ -165,24 +220,39 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
     } else if (grid) {
       const cell = grid.cellAt(Math.min(pr.lon, box.e - EPS), Math.min(pr.lat, box.n - EPS));
       if (cell && !grid.ocean[grid.idx(cell.i, cell.j)]) {
-        const which = land.findIndex((s) => insideShape(s as LandShape, grid!.lonCentre[cell.i], grid!.latCentre[cell.j]));
-        add(['probes', i], `(${pr.lon}, ${pr.lat}) lies on land${which >= 0 ? ` (basin.land[${which}])` : ''}; move it into the ocean`);
+        const which = land.findIndex((s) =>
+          insideShape(s as LandShape, grid!.lonCentre[cell.i], grid!.latCentre[cell.j]),
+        );
+        add(
+          ['probes', i],
+          `(${pr.lon}, ${pr.lat}) lies on land${which >= 0 ? ` (basin.land[${which}])` : ''}; move it into the ocean`,
+        );
       }
     }
   });
   const lats: unknown[] = Array.isArray(sc.hovmoller?.lat) ? sc.hovmoller.lat : [];
   lats.forEach((lat, i) => {
-    if (box && num(lat) && !(lat >= box.s && lat <= box.n)) add(['hovmoller', 'lat', i], `${lat} lies outside the basin's latitudes ${box.s}..${box.n}`);
+    if (box && num(lat) && !(lat >= box.s && lat <= box.n))
+      add(['hovmoller', 'lat', i], `${lat} lies outside the basin's latitudes ${box.s}..${box.n}`);
   });
 
   // Wind parts.
   const parts: unknown[] = Array.isArray(sc.wind?.parts) ? sc.wind.parts : [];
-  parts.forEach((part: any, i) => windPartIssues(part, ['wind', 'parts', i], num(t.days) && t.days > 0 ? t.days : null, add));
+  parts.forEach((part: any, i) =>
+    windPartIssues(part, ['wind', 'parts', i], num(t.days) && t.days > 0 ? t.days : null, add),
+  );
   couplingIssues(sc, add);
 
   // A user time step above the stability limit (only when the numbers it needs are sound), or
   // one that does not divide the output interval into whole steps (records on whole intervals).
-  if (num(t.dtSeconds) && t.dtSeconds > 0 && cellsOk && num(p.reducedGravity) && num(p.layerThickness) && num(p.viscosity)) {
+  if (
+    num(t.dtSeconds) &&
+    t.dtSeconds > 0 &&
+    cellsOk &&
+    num(p.reducedGravity) &&
+    num(p.layerThickness) &&
+    num(p.viscosity)
+  ) {
     let lim: ReturnType<typeof scenarioStability> | null = null;
     try {
       lim = scenarioStability(resolveScenario(sc));
@@ -190,23 +260,35 @@ export function semanticIssues(sc: Scenario): ScenarioIssue[] {
       lim = null; // a section of the wrong type, already reported by the schema
     }
     if (lim && Number.isFinite(lim.dtMax) && t.dtSeconds > lim.dtMax) {
-      add(['time', 'dtSeconds'], `${t.dtSeconds} s is above the stability limit: ${lim.explanation}; use at most ${Math.floor(lim.dtMax)} s or "auto"`);
+      add(
+        ['time', 'dtSeconds'],
+        `${t.dtSeconds} s is above the stability limit: ${lim.explanation}; use at most ${Math.floor(lim.dtMax)} s or "auto"`,
+      );
     } else if (num(t.outputEveryDays) && t.outputEveryDays > 0) {
       const interval = secondsOfDays(t.outputEveryDays);
-      if (stepsInInterval(t.dtSeconds, interval) === 0) add(['time', 'dtSeconds'], notDividing(t.dtSeconds, interval, lim ? lim.dtMax : Infinity));
+      if (stepsInInterval(t.dtSeconds, interval) === 0)
+        add(['time', 'dtSeconds'], notDividing(t.dtSeconds, interval, lim ? lim.dtMax : Infinity));
     }
   }
   return out;
 }
 
-function windPartIssues(part: any, at: PathSegment[], days: number | null, add: (p: PathSegment[], m: string) => void): void {
+function windPartIssues(
+  part: any,
+  at: PathSegment[],
+  days: number | null,
+  add: (p: PathSegment[], m: string) => void,
+): void {
   if (!part || typeof part !== 'object') return;
   if (part.kind === 'fixed') {
     const src = part.source;
     if (src?.kind === 'shaped' && part.quantity === 'stress') {
       for (const c of ['x', 'y'] as const) {
         if (num(src[c]) && Math.abs(src[c]) > 5) {
-          add([...at, 'source', c], `${src[c]} N m-2 is far beyond any wind stress (trades are about 0.05); for a wind speed in m s-1 set quantity to "wind"`);
+          add(
+            [...at, 'source', c],
+            `${src[c]} N m-2 is far beyond any wind stress (trades are about 0.05); for a wind speed in m s-1 set quantity to "wind"`,
+          );
         }
       }
     }
@@ -218,20 +300,35 @@ function windPartIssues(part: any, at: PathSegment[], days: number | null, add: 
       const n = src.grid.nLon * src.grid.nLat;
       for (const c of ['x', 'y'] as const) {
         if (Array.isArray(src.grid[c]) && src.grid[c].length !== n) {
-          add([...at, 'source', 'grid', c], `must hold nLat x nLon = ${src.grid.nLat} x ${src.grid.nLon} = ${n} values (got ${src.grid[c].length})`);
+          add(
+            [...at, 'source', 'grid', c],
+            `must hold nLat x nLon = ${src.grid.nLat} x ${src.grid.nLon} = ${n} values (got ${src.grid[c].length})`,
+          );
         }
       }
     }
     const env = part.envelope;
-    if (env?.kind === 'pulse' && num(env.ramp) && num(env.duration) && env.duration > 0 && env.ramp > env.duration / 2 + EPS) {
-      add([...at, 'envelope', 'ramp'], `a ramp of ${env.ramp} days is longer than half the pulse duration (${env.duration} days); use at most ${env.duration / 2}`);
+    if (
+      env?.kind === 'pulse' &&
+      num(env.ramp) &&
+      num(env.duration) &&
+      env.duration > 0 &&
+      env.ramp > env.duration / 2 + EPS
+    ) {
+      add(
+        [...at, 'envelope', 'ramp'],
+        `a ramp of ${env.ramp} days is longer than half the pulse duration (${env.duration} days); use at most ${env.duration / 2}`,
+      );
     }
     if (env?.kind === 'table' && Array.isArray(env.points)) {
       for (let k = 1; k < env.points.length; k++) {
         const d0 = env.points[k - 1]?.[0];
         const d1 = env.points[k]?.[0];
         if (num(d0) && num(d1) && !(d1 > d0)) {
-          add([...at, 'envelope', 'points', k], `day ${d1} does not come after day ${d0} of the point before; the days of a table must increase`);
+          add(
+            [...at, 'envelope', 'points', k],
+            `day ${d1} does not come after day ${d0} of the point before; the days of a table must increase`,
+          );
         }
       }
     }
@@ -248,7 +345,10 @@ function windPartIssues(part: any, at: PathSegment[], days: number | null, add: 
     }
     const dur = part.duration;
     if (num(part.ramp) && Array.isArray(dur) && num(dur[0]) && dur[0] > 0 && part.ramp > dur[0] / 2 + EPS) {
-      add([...at, 'ramp'], `a ramp of ${part.ramp} days is longer than half the shortest burst (${dur[0]} days); use at most ${dur[0] / 2}`);
+      add(
+        [...at, 'ramp'],
+        `a ramp of ${part.ramp} days is longer than half the shortest burst (${dur[0]} days); use at most ${dur[0] / 2}`,
+      );
     }
     const win = part.window;
     if (days !== null && Array.isArray(win) && num(win[0]) && win[0] >= days) {
@@ -257,7 +357,13 @@ function windPartIssues(part: any, at: PathSegment[], days: number | null, add: 
   }
 }
 
-function wholeCells(extent: number, d: number, word: string, path: PathSegment[], add: (p: PathSegment[], m: string) => void): boolean {
+function wholeCells(
+  extent: number,
+  d: number,
+  word: string,
+  path: PathSegment[],
+  add: (p: PathSegment[], m: string) => void,
+): boolean {
   const n = extent / d;
   const whole = Math.round(n);
   if (whole < 1) {
@@ -265,9 +371,14 @@ function wholeCells(extent: number, d: number, word: string, path: PathSegment[]
     return false;
   }
   if (Math.abs(n - whole) > 1e-6 * Math.max(1, whole)) {
-    const nice = [0.05, 0.1, 0.125, 0.2, 0.25, 0.5, 1, 2, 2.5, 5].filter((c) => Math.abs(extent / c - Math.round(extent / c)) < 1e-9);
+    const nice = [0.05, 0.1, 0.125, 0.2, 0.25, 0.5, 1, 2, 2.5, 5].filter(
+      (c) => Math.abs(extent / c - Math.round(extent / c)) < 1e-9,
+    );
     const near = nice.sort((a, c) => Math.abs(a - d) - Math.abs(c - d)).slice(0, 2);
-    add(path, `the basin is ${extent} degrees ${word}, not a whole number of ${d}-degree cells (${n.toFixed(2)})${near.length ? `; ${near.join(' or ')} would fit` : ''}`);
+    add(
+      path,
+      `the basin is ${extent} degrees ${word}, not a whole number of ${d}-degree cells (${n.toFixed(2)})${near.length ? `; ${near.join(' or ')} would fit` : ''}`,
+    );
     return false;
   }
   return true;

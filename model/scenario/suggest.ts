@@ -20,7 +20,12 @@ export function closest(word: string, candidates: readonly string[], max = 3): s
   const limit = Math.max(2, Math.floor(word.length / 3));
   return candidates
     .map((c) => ({ c, d: editDistance(word, c) }))
-    .filter(({ c, d }) => d <= limit || (word.length > 2 && (c.toLowerCase().startsWith(word.toLowerCase()) || word.toLowerCase().startsWith(c.toLowerCase()))))
+    .filter(
+      ({ c, d }) =>
+        d <= limit ||
+        (word.length > 2 &&
+          (c.toLowerCase().startsWith(word.toLowerCase()) || word.toLowerCase().startsWith(c.toLowerCase()))),
+    )
     .sort((x, y) => x.d - y.d)
     .slice(0, max)
     .map(({ c }) => c);

@@ -26,13 +26,23 @@ export interface SuggestionBudget {
  * lasts, also say which key was probably meant and list the allowed keys; the rest (a hostile
  * file's thousands, of which only a count is shown) just name the key.
  */
-export function unknownKeyIssue(segments: readonly PathSegment[], key: string, allowed: readonly string[], allowedText: string, budget: SuggestionBudget, parent = pathToString(segments)): ScenarioIssue {
+export function unknownKeyIssue(
+  segments: readonly PathSegment[],
+  key: string,
+  allowed: readonly string[],
+  allowedText: string,
+  budget: SuggestionBudget,
+  parent = pathToString(segments),
+): ScenarioIssue {
   const where = parent === '' ? 'at the top level' : `in ${shortText(parent, 200)}`;
   const path = parent === '' ? key : `${parent}.${key}`;
   const name = shortText(key);
   if (budget.left <= 0) return { path, message: `unknown key '${name}' ${where}` };
   budget.left--;
-  return { path, message: `unknown key '${name}' ${where}${key.length <= 200 ? didYouMean(key, allowed) : ''} (allowed: ${allowedText})` };
+  return {
+    path,
+    message: `unknown key '${name}' ${where}${key.length <= 200 ? didYouMean(key, allowed) : ''} (allowed: ${allowedText})`,
+  };
 }
 
 /** The schema node that applies to a value: $refs followed, the oneOf branch chosen; null when none applies. */
@@ -51,7 +61,10 @@ function nodeFor(node: SchemaNode, value: unknown): SchemaNode | null {
  * changed; objects and lists are copied on the way (the walk is as deep as the nesting, which
  * the shape check has bounded).
  */
-export function pruneUnknownKeys(json: unknown, budget: SuggestionBudget = { left: MAX_SUGGESTIONS }): { pruned: unknown; issues: ScenarioIssue[] } {
+export function pruneUnknownKeys(
+  json: unknown,
+  budget: SuggestionBudget = { left: MAX_SUGGESTIONS },
+): { pruned: unknown; issues: ScenarioIssue[] } {
   const issues: ScenarioIssue[] = [];
   const allowedOf = new Map<SchemaNode, { list: string[]; set: Set<string>; text: string }>();
   const walk = (value: unknown, node: SchemaNode | undefined, segments: PathSegment[]): unknown => {
@@ -62,7 +75,9 @@ export function pruneUnknownKeys(json: unknown, budget: SuggestionBudget = { lef
       if (!value.some((v) => v !== null && typeof v === 'object')) return value;
       const items = n?.items;
       const prefix: SchemaNode[] | undefined = Array.isArray(n?.prefixItems) ? n!.prefixItems : undefined;
-      return value.map((v, k) => walk(v, prefix ? prefix[k] : isPlainObject(items) ? items : undefined, [...segments, k]));
+      return value.map((v, k) =>
+        walk(v, prefix ? prefix[k] : isPlainObject(items) ? items : undefined, [...segments, k]),
+      );
     }
     const obj = value as Record<string, unknown>;
     const props = n && isPlainObject(n.properties) ? (n.properties as Record<string, SchemaNode>) : null;
@@ -83,7 +98,12 @@ export function pruneUnknownKeys(json: unknown, budget: SuggestionBudget = { lef
       }
       const child = props && hasOwn(props, key) ? props[key] : undefined;
       // Keys such as "__proto__" stay plain properties of the copy.
-      Object.defineProperty(out, key, { value: walk(obj[key], child, [...segments, key]), enumerable: true, writable: true, configurable: true });
+      Object.defineProperty(out, key, {
+        value: walk(obj[key], child, [...segments, key]),
+        enumerable: true,
+        writable: true,
+        configurable: true,
+      });
     }
     return out;
   };

@@ -67,15 +67,31 @@ export function loadScenario(text: string, fileName?: string): Scenario {
 /** Issues without file decoration; an empty list means valid. */
 export function collectIssues(json: unknown): ScenarioIssue[] {
   if (!isPlainObject(json)) {
-    return [{ path: '', message: `a scenario is a JSON object { "format": "${SCENARIO_FORMAT}", ... } (got ${jsonType(json)} ${show(json)})` }];
+    return [
+      {
+        path: '',
+        message: `a scenario is a JSON object { "format": "${SCENARIO_FORMAT}", ... } (got ${jsonType(json)} ${show(json)})`,
+      },
+    ];
   }
   const issues: ScenarioIssue[] = [];
   if (!('format' in json)) {
-    issues.push({ path: 'format', message: `is required but missing: start the file with "format": "${SCENARIO_FORMAT}"` });
+    issues.push({
+      path: 'format',
+      message: `is required but missing: start the file with "format": "${SCENARIO_FORMAT}"`,
+    });
   } else if (json.format !== SCENARIO_FORMAT) {
     // Another version's keys may mean other things: do not guess, stop here.
-    const hint = typeof json.format === 'string' && json.format.startsWith('pycno-scenario/') ? 'written for another version of the program' : 'not a scenario format';
-    return [{ path: 'format', message: `unknown format ${show(json.format)} (${hint}); this program reads "${SCENARIO_FORMAT}"` }];
+    const hint =
+      typeof json.format === 'string' && json.format.startsWith('pycno-scenario/')
+        ? 'written for another version of the program'
+        : 'not a scenario format';
+    return [
+      {
+        path: 'format',
+        message: `unknown format ${show(json.format)} (${hint}); this program reads "${SCENARIO_FORMAT}"`,
+      },
+    ];
   }
   // The schema validator and the walks after it recurse and collect one error per bad item: sizes
   // they cannot take (deep nesting, a hundred thousand wrong items) are refused first.
@@ -90,7 +106,12 @@ export function collectIssues(json: unknown): ScenarioIssue[] {
     for (const i of issuesFromValidator(result.errors, pruned)) if (i.path !== 'format') issues.push(i);
   }
   if (!result.complete) {
-    issues.push({ path: '', summary: true, message: '... and more: so many values are wrong that the schema check stopped at the first problem in each part; fix these and check again' });
+    issues.push({
+      path: '',
+      summary: true,
+      message:
+        '... and more: so many values are wrong that the schema check stopped at the first problem in each part; fix these and check again',
+    });
     return issues;
   }
   // Semantic checks on top, skipping values the schema already found at fault: a path is covered
@@ -106,7 +127,8 @@ export function collectIssues(json: unknown): ScenarioIssue[] {
     for (const a of ancestors(i.path)) aboveFault.add(a);
   };
   issues.forEach(mark);
-  const covered = (path: string) => atFault.has(path) || aboveFault.has(path) || ancestors(path).some((a) => atFault.has(a));
+  const covered = (path: string) =>
+    atFault.has(path) || aboveFault.has(path) || ancestors(path).some((a) => atFault.has(a));
   for (const s of semanticIssues(sc)) {
     if (covered(s.path)) continue;
     issues.push(s);
@@ -144,26 +166,52 @@ function shapeIssues(json: unknown): ScenarioIssue[] {
     const { v, path } = stack.pop()!;
     if (v === null || typeof v !== 'object') continue;
     if (path.length >= MAX_NESTING) {
-      return [{ path: pathToString(path), message: `nested deeper than ${MAX_NESTING} levels; a scenario needs only a few` }];
+      return [
+        { path: pathToString(path), message: `nested deeper than ${MAX_NESTING} levels; a scenario needs only a few` },
+      ];
     }
     if (Array.isArray(v)) {
-      const gridData = path.length >= 2 && path[path.length - 2] === 'grid' && (path[path.length - 1] === 'x' || path[path.length - 1] === 'y');
+      const gridData =
+        path.length >= 2 &&
+        path[path.length - 2] === 'grid' &&
+        (path[path.length - 1] === 'x' || path[path.length - 1] === 'y');
       if (gridData) {
         const bad = v.findIndex((x) => typeof x !== 'number');
-        if (bad >= 0) return [{ path: pathToString([...path, bad]), message: `must be a number (got ${jsonType(v[bad])} ${show(v[bad])}); a painted grid holds numbers only` }];
+        if (bad >= 0)
+          return [
+            {
+              path: pathToString([...path, bad]),
+              message: `must be a number (got ${jsonType(v[bad])} ${show(v[bad])}); a painted grid holds numbers only`,
+            },
+          ];
         continue;
       }
       if (v.length > MAX_LIST_ITEMS) {
-        return [{ path: pathToString(path), message: `holds ${v.length} items; at most ${MAX_LIST_ITEMS} (only a painted grid's x and y may be longer)` }];
+        return [
+          {
+            path: pathToString(path),
+            message: `holds ${v.length} items; at most ${MAX_LIST_ITEMS} (only a painted grid's x and y may be longer)`,
+          },
+        ];
       }
       if (v.length > MAX_OBJECT_ITEMS && v.some(isPlainObject)) {
-        return [{ path: pathToString(path), message: `holds ${v.length} items with objects among them; a list of objects (wind parts, land shapes, probes) holds at most ${MAX_OBJECT_ITEMS}` }];
+        return [
+          {
+            path: pathToString(path),
+            message: `holds ${v.length} items with objects among them; a list of objects (wind parts, land shapes, probes) holds at most ${MAX_OBJECT_ITEMS}`,
+          },
+        ];
       }
       for (let k = 0; k < v.length; k++) stack.push({ v: v[k], path: [...path, k] });
     } else {
       const keys = Object.keys(v);
       if (keys.length > MAX_KEYS) {
-        return [{ path: pathToString(path), message: `${path.length ? 'the object' : 'the top level'} holds ${keys.length.toLocaleString('en-US')} keys; at most ${MAX_KEYS.toLocaleString('en-US')} (a scenario's objects have a few dozen)` }];
+        return [
+          {
+            path: pathToString(path),
+            message: `${path.length ? 'the object' : 'the top level'} holds ${keys.length.toLocaleString('en-US')} keys; at most ${MAX_KEYS.toLocaleString('en-US')} (a scenario's objects have a few dozen)`,
+          },
+        ];
       }
       for (const key of keys) stack.push({ v: (v as Record<string, unknown>)[key], path: [...path, key] });
     }
@@ -179,7 +227,8 @@ function decorate(issues: ScenarioIssue[], options: ValidateOptions): ScenarioIs
     if (where) d.line = where.line;
     return d;
   });
-  if (options.locations) out.sort((a, b) => Number(a.summary ?? false) - Number(b.summary ?? false) || (a.line ?? 0) - (b.line ?? 0));
+  if (options.locations)
+    out.sort((a, b) => Number(a.summary ?? false) - Number(b.summary ?? false) || (a.line ?? 0) - (b.line ?? 0));
   return out;
 }
 

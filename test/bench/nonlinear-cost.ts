@@ -6,7 +6,11 @@ import { Grid } from '../../model/grid.ts';
 import { Model, type ModelOptions } from '../../model/model.ts';
 import { referenceConfig, referenceStress } from '../../model/reference-kernel.ts';
 
-const [nx, ny, repeats] = [Number(process.argv[2] ?? 640), Number(process.argv[3] ?? 240), Number(process.argv[4] ?? 5)];
+const [nx, ny, repeats] = [
+  Number(process.argv[2] ?? 640),
+  Number(process.argv[3] ?? 240),
+  Number(process.argv[4] ?? 5),
+];
 
 function make(mode: 'linear' | 'nonlinear', kernel: ModelOptions['kernel']): Model {
   const cfg = referenceConfig(nx, ny);

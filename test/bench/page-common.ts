@@ -12,7 +12,12 @@ import { buildPage, chromiumMissing, launch, ROOT, servePage, type Served } from
 async function buildFor(minify: boolean): Promise<string> {
   if (minify) return buildPage();
   const outDir = mkdtempSync(join(tmpdir(), 'pycno-page-'));
-  await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'error', build: { outDir, emptyOutDir: true, minify: false } });
+  await build({
+    root: join(ROOT, 'viewer'),
+    configFile: join(ROOT, 'vite.config.ts'),
+    logLevel: 'error',
+    build: { outDir, emptyOutDir: true, minify: false },
+  });
   return outDir;
 }
 
@@ -35,7 +40,10 @@ export interface BenchPage {
   close(): Promise<void>;
 }
 
-export async function openPage(extraArgs: string[] = [], options: { minify?: boolean; width?: number } = {}): Promise<BenchPage> {
+export async function openPage(
+  extraArgs: string[] = [],
+  options: { minify?: boolean; width?: number } = {},
+): Promise<BenchPage> {
   const missing = chromiumMissing();
   if (missing) throw new Error(`cannot run the page benchmark: ${missing}`);
   const served = await servePage(await buildFor(options.minify ?? true));
@@ -54,7 +62,9 @@ export async function openPage(extraArgs: string[] = [], options: { minify?: boo
     (globalThis as unknown as { __name: (f: unknown) => unknown }).__name = (f: unknown) => f;
   });
   await page.goto(served.url);
-  await page.waitForFunction(() => (window as unknown as { __pycno: PageInfo }).__pycno.ready, null, { timeout: 60_000 });
+  await page.waitForFunction(() => (window as unknown as { __pycno: PageInfo }).__pycno.ready, null, {
+    timeout: 60_000,
+  });
   return {
     page,
     browser,
@@ -67,13 +77,27 @@ export async function openPage(extraArgs: string[] = [], options: { minify?: boo
 }
 
 /** Load a scenario through the page's "Open file…" input and wait until it is ready to run. */
-export async function loadScenario(page: Page, scenario: Record<string, unknown>, speed: '5' | '20' | '60' | 'max'): Promise<void> {
+export async function loadScenario(
+  page: Page,
+  scenario: Record<string, unknown>,
+  speed: '5' | '20' | '60' | 'max',
+): Promise<void> {
   await page.selectOption('#speed', speed);
   const name = String(scenario.name);
-  await page.setInputFiles('#scenario-file', { name: 'bench.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(scenario)) });
-  await page.waitForFunction((n) => document.getElementById('run-name')?.textContent === n && (window as unknown as { __pycno: PageInfo }).__pycno.status === 'ready', name, {
-    timeout: 120_000,
+  await page.setInputFiles('#scenario-file', {
+    name: 'bench.json',
+    mimeType: 'application/json',
+    buffer: Buffer.from(JSON.stringify(scenario)),
   });
+  await page.waitForFunction(
+    (n) =>
+      document.getElementById('run-name')?.textContent === n &&
+      (window as unknown as { __pycno: PageInfo }).__pycno.status === 'ready',
+    name,
+    {
+      timeout: 120_000,
+    },
+  );
   const errors = (await pageInfo(page)).errors;
   if (errors.length) throw new Error(`the page refused the benchmark scenario: ${errors.join('; ')}`);
 }

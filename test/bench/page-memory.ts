@@ -52,14 +52,24 @@ function treeRss(root: number): Map<string, number> {
   const kinds = new Map<string, number>();
   for (const p of procs) {
     if (!inTree.has(p.pid) || !/chrom/i.test(p.args)) continue;
-    const kind = /--type=renderer/.test(p.args) ? 'renderer' : /--type=gpu-process/.test(p.args) ? 'gpu-process' : /--type=/.test(p.args) ? 'other helpers' : 'browser';
+    const kind = /--type=renderer/.test(p.args)
+      ? 'renderer'
+      : /--type=gpu-process/.test(p.args)
+        ? 'gpu-process'
+        : /--type=/.test(p.args)
+          ? 'other helpers'
+          : 'browser';
     kinds.set(kind, (kinds.get(kind) ?? 0) + p.rss);
   }
   return kinds;
 }
 
 try {
-  console.log(`one-year run: ${BENCH_NX} x ${BENCH_NY}, ${DAYS} days, a snapshot every ${EVERY} days, all 10 fields; load average ${loadavg().map((x) => x.toFixed(2)).join(' ')}`);
+  console.log(
+    `one-year run: ${BENCH_NX} x ${BENCH_NY}, ${DAYS} days, a snapshot every ${EVERY} days, all 10 fields; load average ${loadavg()
+      .map((x) => x.toFixed(2))
+      .join(' ')}`,
+  );
   // ---- (a) the command line ----
   if (process.env.BENCH_MEMORY_SKIP_CLI !== '1') {
     const file = join(dir, 'year.json');
@@ -68,7 +78,9 @@ try {
     const cmd = [process.execPath, join(ROOT, 'bin/pycno.js'), 'run', file, '--out', out, '--quiet'];
     const t0 = Date.now();
     const timed = existsSync('/usr/bin/time');
-    const r = timed ? spawnSync('/usr/bin/time', ['-v', ...cmd], { encoding: 'utf8' }) : spawnSync(cmd[0], cmd.slice(1), { encoding: 'utf8' });
+    const r = timed
+      ? spawnSync('/usr/bin/time', ['-v', ...cmd], { encoding: 'utf8' })
+      : spawnSync(cmd[0], cmd.slice(1), { encoding: 'utf8' });
     const wall = (Date.now() - t0) / 1000;
     if (r.status !== 0) throw new Error(`pycno run failed (exit ${r.status}): ${r.stderr}`);
     const rss = /Maximum resident set size \(kbytes\): (\d+)/.exec(r.stderr ?? '');
@@ -87,7 +99,11 @@ try {
     await loadScenario(page, scenario, 'max');
     const t0 = Date.now();
     await page.click('#btn-run');
-    await page.waitForFunction(() => (window as unknown as { __pycno: { status: string } }).__pycno.status === 'finished', null, { timeout: 1_800_000, polling: 1000 });
+    await page.waitForFunction(
+      () => (window as unknown as { __pycno: { status: string } }).__pycno.status === 'finished',
+      null,
+      { timeout: 1_800_000, polling: 1000 },
+    );
     const wall = (Date.now() - t0) / 1000;
     // Let the last frame draw and the page settle before measuring.
     await page.waitForTimeout(1500);
@@ -96,28 +112,46 @@ try {
     await cdp.send('HeapProfiler.collectGarbage');
     const heap = (await cdp.send('Runtime.getHeapUsage')) as { usedSize: number; totalSize: number };
     const ua = await page.evaluate(async () => {
-      const p = performance as unknown as { measureUserAgentSpecificMemory?: () => Promise<{ bytes: number; breakdown: Array<{ bytes: number; types: string[]; attribution: Array<{ scope: string }> }> }> };
+      const p = performance as unknown as {
+        measureUserAgentSpecificMemory?: () => Promise<{
+          bytes: number;
+          breakdown: Array<{ bytes: number; types: string[]; attribution: Array<{ scope: string }> }>;
+        }>;
+      };
       if (!crossOriginIsolated || !p.measureUserAgentSpecificMemory) return null;
       const r = await p.measureUserAgentSpecificMemory();
       const by = new Map<string, number>();
       for (const b of r.breakdown) {
-        const key = `${b.attribution.map((a) => a.scope).join('+') || 'unattributed'} ${b.types.join('+') || ''}`.trim();
+        const key =
+          `${b.attribution.map((a) => a.scope).join('+') || 'unattributed'} ${b.types.join('+') || ''}`.trim();
         by.set(key, (by.get(key) ?? 0) + b.bytes);
       }
       return { bytes: r.bytes, breakdown: [...by.entries()] };
     });
-    const kept = await page.evaluate(() => (window as unknown as { __pycno: { kept: () => { frames: number; bytes: number; budget: number; oldestDay: number | null } } }).__pycno.kept());
+    const kept = await page.evaluate(() =>
+      (
+        window as unknown as {
+          __pycno: { kept: () => { frames: number; bytes: number; budget: number; oldestDay: number | null } };
+        }
+      ).__pycno.kept(),
+    );
     const notes = await page.evaluate(() => ({
       budget: document.getElementById('budget-note')?.textContent ?? '',
       live: document.getElementById('lib-live-note')?.textContent ?? '',
     }));
     const procs = treeRss(process.pid);
-    row('page run', `${end.lastDay.toFixed(0)} days in ${wall.toFixed(0)} s (${(end.lastDay / wall).toFixed(1)} model days/s), ${end.framesReceived} frames received`);
+    row(
+      'page run',
+      `${end.lastDay.toFixed(0)} days in ${wall.toFixed(0)} s (${(end.lastDay / wall).toFixed(1)} model days/s), ${end.framesReceived} frames received`,
+    );
     row('page measureUserAgentSpecificMemory', ua ? `${mb(ua.bytes)} in all (page and worker)` : 'not available');
     if (ua) for (const [k, v] of ua.breakdown) row(`  ${k}`, mb(v));
     row('page main-thread V8 heap after GC', `${mb(heap.usedSize)} used of ${mb(heap.totalSize)}`);
     for (const [k, v] of procs) row(`chromium ${k} resident size`, mb(v));
-    row('time slider keeps', `${kept.frames} frames, ${mb(kept.bytes)} of a ${mb(kept.budget)} budget, oldest day ${kept.oldestDay?.toFixed(1) ?? '-'}`);
+    row(
+      'time slider keeps',
+      `${kept.frames} frames, ${mb(kept.bytes)} of a ${mb(kept.budget)} budget, oldest day ${kept.oldestDay?.toFixed(1) ?? '-'}`,
+    );
     row('time slider note', notes.budget);
     row('run record note', notes.live || '(none: every snapshot fits its limit)');
   } finally {

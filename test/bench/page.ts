@@ -55,7 +55,11 @@ interface ProfileNode {
 }
 
 /** Self time per function from a CPU profile, largest first. */
-function selfTimes(p: { nodes: ProfileNode[]; samples: number[]; timeDeltas: number[] }): Array<{ name: string; ms: number }> {
+function selfTimes(p: {
+  nodes: ProfileNode[];
+  samples: number[];
+  timeDeltas: number[];
+}): Array<{ name: string; ms: number }> {
   const byId = new Map(p.nodes.map((n) => [n.id, n]));
   const ms = new Map<string, number>();
   p.samples.forEach((id, k) => {
@@ -80,7 +84,9 @@ interface TraceEvent {
 
 /** Complete events on the page's renderer main thread, summed by name. */
 function traceSummary(t: { traceEvents: TraceEvent[] }): Array<{ name: string; ms: number; count: number }> {
-  const main = t.traceEvents.filter((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain').map((e) => `${e.pid}:${e.tid}`);
+  const main = t.traceEvents
+    .filter((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain')
+    .map((e) => `${e.pid}:${e.tid}`);
   const on = new Set(main);
   const sum = new Map<string, { ms: number; count: number }>();
   for (const e of t.traceEvents) {
@@ -116,7 +122,18 @@ try {
     await cdp.send('Profiler.setSamplingInterval', { interval: 250 });
     await cdp.send('Profiler.start');
   }
-  if (trace) await bench.browser.startTracing(page, { categories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'v8', 'blink', 'cc', 'gpu', 'toplevel'] });
+  if (trace)
+    await bench.browser.startTracing(page, {
+      categories: [
+        'devtools.timeline',
+        'disabled-by-default-devtools.timeline',
+        'v8',
+        'blink',
+        'cc',
+        'gpu',
+        'toplevel',
+      ],
+    });
   const gpu = () => page.evaluate(() => ({ ...(window as unknown as { __pycno: { gpu: GpuCounts } }).__pycno.gpu }));
   const g0 = await gpu();
   const before = await pageInfo(page);
@@ -150,7 +167,15 @@ try {
   const after = await pageInfo(page);
   const g1 = await gpu();
   const gd = (k: keyof GpuCounts) => g1[k] - g0[k];
-  const hot = profile ? selfTimes(((await cdp.send('Profiler.stop')) as { profile: { nodes: ProfileNode[]; samples: number[]; timeDeltas: number[] } }).profile) : [];
+  const hot = profile
+    ? selfTimes(
+        (
+          (await cdp.send('Profiler.stop')) as {
+            profile: { nodes: ProfileNode[]; samples: number[]; timeDeltas: number[] };
+          }
+        ).profile,
+      )
+    : [];
 
   const intervals = probe.raf.slice(1).map((t, k) => t - probe.raf[k]);
   const fpsOf = (ms: number) => 1000 / ms;
@@ -169,10 +194,22 @@ try {
   const perDrawn = (ms: number) => (drawn > 0 ? ms / drawn : NaN);
 
   const rows: Array<[string, string]> = [
-    ['grid', `${BENCH_NX} x ${BENCH_NY}, output every ${outputEveryDays} day(s), speed ${speed}, surface-current arrows on`],
-    ['window width', `${width} CSS px, map canvas ${await page.evaluate(() => { const c = document.getElementById('map-gl') as HTMLCanvasElement; return `${c.width} x ${c.height}`; })} px`],
+    [
+      'grid',
+      `${BENCH_NX} x ${BENCH_NY}, output every ${outputEveryDays} day(s), speed ${speed}, surface-current arrows on`,
+    ],
+    [
+      'window width',
+      `${width} CSS px, map canvas ${await page.evaluate(() => {
+        const c = document.getElementById('map-gl') as HTMLCanvasElement;
+        return `${c.width} x ${c.height}`;
+      })} px`,
+    ],
     ['chromium flags added', extraArgs.join(' ') || 'none'],
-    ['measured', `${wall.toFixed(1)} s after ${warmup} s of warm-up; load average ${load.map((x) => x.toFixed(2)).join(' ')}`],
+    [
+      'measured',
+      `${wall.toFixed(1)} s after ${warmup} s of warm-up; load average ${load.map((x) => x.toFixed(2)).join(' ')}`,
+    ],
     ['fps mean', meanFps.toFixed(1)],
     ['fps median', medianFps.toFixed(1)],
     ['fps 5th percentile', p5Fps.toFixed(1)],
@@ -186,7 +223,10 @@ try {
     ['script ms per drawn frame', perDrawn(d('ScriptDuration')).toFixed(2)],
     ['task ms per drawn frame', perDrawn(d('TaskDuration')).toFixed(2)],
     ['layout + style ms per drawn frame', perDrawn(d('LayoutDuration') + d('RecalcStyleDuration')).toFixed(2)],
-    ['field uploads / arrow uploads / WebGL draws / overlay draws', `${gd('fieldUploads')} / ${gd('arrowUploads')} / ${gd('glDraws')} / ${gd('overlayDraws')} for ${drawn} new frames drawn`],
+    [
+      'field uploads / arrow uploads / WebGL draws / overlay draws',
+      `${gd('fieldUploads')} / ${gd('arrowUploads')} / ${gd('glDraws')} / ${gd('overlayDraws')} for ${drawn} new frames drawn`,
+    ],
     ['JS heap used (main thread)', `${(m1.JSHeapUsedSize / 1e6).toFixed(0)} MB`],
   ];
   const w = Math.max(...rows.map(([k]) => k.length));
@@ -194,12 +234,16 @@ try {
   if (after.status === 'finished') console.log('note: the run finished inside the measured window');
   if (profile) {
     const total = hot.reduce((s, h) => s + h.ms, 0);
-    console.log(`\nmain-thread self time by function (CDP Profiler, ${total.toFixed(0)} ms sampled in ${wall.toFixed(1)} s):`);
-    for (const h of hot.slice(0, 15)) console.log(`  ${h.ms.toFixed(0).padStart(6)} ms  ${((100 * h.ms) / total).toFixed(1).padStart(5)} %  ${h.name}`);
+    console.log(
+      `\nmain-thread self time by function (CDP Profiler, ${total.toFixed(0)} ms sampled in ${wall.toFixed(1)} s):`,
+    );
+    for (const h of hot.slice(0, 15))
+      console.log(`  ${h.ms.toFixed(0).padStart(6)} ms  ${((100 * h.ms) / total).toFixed(1).padStart(5)} %  ${h.name}`);
   }
   if (trace) {
     console.log(`\nrenderer main thread, trace events by total duration (inclusive, nested events counted in each):`);
-    for (const t of traced.slice(0, 25)) console.log(`  ${t.ms.toFixed(0).padStart(6)} ms  ${String(t.count).padStart(6)} x  ${t.name}`);
+    for (const t of traced.slice(0, 25))
+      console.log(`  ${t.ms.toFixed(0).padStart(6)} ms  ${String(t.count).padStart(6)} x  ${t.name}`);
   }
   console.log(`page fps ${medianFps.toFixed(1)}`);
 } finally {

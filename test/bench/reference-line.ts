@@ -20,7 +20,9 @@ const [nx, ny, steps] = process.argv.slice(2, 5).map(Number);
 const label = process.argv[5] ?? 'ts-double';
 const m = /^(nl-)?(ts|wasm)(?:-(?:double|simd))?(-float32)?(?:-strips-(\d+))?$/.exec(label);
 if (!m || !(nx >= 8 && ny >= 24 && steps >= 0)) {
-  console.error('usage: reference-line NX NY STEPS [LABEL]   (LABEL: [nl-](ts|wasm)[-float32][-strips-N], or ts-double / wasm-simd)');
+  console.error(
+    'usage: reference-line NX NY STEPS [LABEL]   (LABEL: [nl-](ts|wasm)[-float32][-strips-N], or ts-double / wasm-simd)',
+  );
   process.exit(2);
 }
 const mode = m[1] ? 'nonlinear' : 'linear';
@@ -38,9 +40,11 @@ const model = new Model(config, { variant: { ghost: 0, coriolis: 'collocated' },
 if (strips > 1) {
   const choice = await model.startThreads(nodeStripHost());
   if (choice.threads !== strips) console.error(`(${label}: ${choice.notice})`);
-  if (model.stripKernel !== kernel) throw new Error(`${label}: the strips ran the ${model.stripKernel ?? 'one-thread'} kernel`);
+  if (model.stripKernel !== kernel)
+    throw new Error(`${label}: the strips ran the ${model.stripKernel ?? 'one-thread'} kernel`);
 }
-if (model.kernel !== kernel || model.precision !== precision) throw new Error(`${label}: the model runs ${model.kernel} in ${model.precision}`);
+if (model.kernel !== kernel || model.precision !== precision)
+  throw new Error(`${label}: the model runs ${model.kernel} in ${model.precision}`);
 // Warm the JIT (and each worker's) on the timed model itself, about 4e7 cell updates, then put it
 // back to rest like the reference's start (the steady wind stays filled; the new-velocity buffers
 // and the history are overwritten or weighted 0 before they are read). A separate warm-up model

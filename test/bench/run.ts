@@ -21,10 +21,15 @@ import { fileURLToPath } from 'node:url';
 const here = dirname(fileURLToPath(import.meta.url));
 const root = resolve(here, '../..');
 // ../shared/refbench beside the project (a git worktree sits one level deeper), or BENCH_REFBENCH.
-const refDir = process.env.BENCH_REFBENCH ?? [resolve(root, '../shared/refbench'), resolve(root, '../../shared/refbench')].find((d) => existsSync(d)) ?? resolve(root, '../shared/refbench');
+const refDir =
+  process.env.BENCH_REFBENCH ??
+  [resolve(root, '../shared/refbench'), resolve(root, '../../shared/refbench')].find((d) => existsSync(d)) ??
+  resolve(root, '../shared/refbench');
 const repeats = Number(process.env.BENCH_REPEATS ?? 5);
 const targetSeconds = Number(process.env.BENCH_SECONDS ?? 1);
-const sizes = (process.env.BENCH_SIZES ?? '640x240').split(',').map((s) => s.split('x').map(Number) as [number, number]);
+const sizes = (process.env.BENCH_SIZES ?? '640x240')
+  .split(',')
+  .map((s) => s.split('x').map(Number) as [number, number]);
 const only = new RegExp(process.env.BENCH_ONLY ?? '.');
 const AT = '640x240';
 
@@ -57,7 +62,10 @@ function run(impl: Impl, nx: number, ny: number, steps: number): Line {
   const strips = /strips-(\d+)$/.exec(impl.label);
   const cores = strips ? `0-${Number(strips[1]) - 1}` : '1';
   const [exe, ...args] = process.env.BENCH_PIN ? ['taskset', '-c', cores, ...impl.cmd] : impl.cmd;
-  const r = spawnSync(exe, [...args, String(nx), String(ny), String(steps), impl.label, ...(impl.tail ?? [])], { encoding: 'utf8', cwd: root });
+  const r = spawnSync(exe, [...args, String(nx), String(ny), String(steps), impl.label, ...(impl.tail ?? [])], {
+    encoding: 'utf8',
+    cwd: root,
+  });
   if (r.status !== 0) throw new Error(`${impl.label} failed: ${r.stderr}`);
   return parse(r.stdout);
 }
@@ -76,11 +84,19 @@ function has(cmd: string, args: string[]): boolean {
 // precision: plain TypeScript, WebAssembly SIMD, latitude strips on worker threads, float32, and
 // the nonlinear step.
 const line = [process.execPath, '--import', 'tsx', join(here, 'reference-line.ts')];
-const stripCounts = (process.env.BENCH_STRIPS ?? '2').split(',').map(Number).filter((n) => n >= 2);
+const stripCounts = (process.env.BENCH_STRIPS ?? '2')
+  .split(',')
+  .map(Number)
+  .filter((n) => n >= 2);
 const ours: Array<[string, string]> = [
   ['ts-double', 'c-double-O2'],
   ['wasm-simd', 'c-double-O2'],
-  ...stripCounts.flatMap((n): Array<[string, string]> => [[`ts-strips-${n}`, 'c-double-O2'], [`wasm-strips-${n}`, 'c-double-O2']]),
+  ...stripCounts.flatMap(
+    (n): Array<[string, string]> => [
+      [`ts-strips-${n}`, 'c-double-O2'],
+      [`wasm-strips-${n}`, 'c-double-O2'],
+    ],
+  ),
   ['ts-float32', 'c-float-O2'],
   ['wasm-float32', 'c-float-O2'],
   ...stripCounts.map((n): [string, string] => [`wasm-float32-strips-${n}`, 'c-float-O2']),
@@ -94,7 +110,8 @@ let bandwidth: number | null = null;
 let build: string | null = null;
 if (existsSync(join(refDir, 'kernel.c')) && has('gcc', ['--version'])) {
   build = mkdtempSync(join(tmpdir(), 'pycno-refbench-'));
-  const cc = (out: string, flags: string[], src = 'kernel.c') => execFileSync('gcc', [...flags, join(refDir, src), '-o', join(build!, out), '-lm'], { stdio: 'inherit' });
+  const cc = (out: string, flags: string[], src = 'kernel.c') =>
+    execFileSync('gcc', [...flags, join(refDir, src), '-o', join(build!, out), '-lm'], { stdio: 'inherit' });
   cc('kernel_O3n', ['-O3', '-march=native']);
   cc('kernel_O2', ['-O2']);
   cc('kernel_f_O3n', ['-O3', '-march=native', '-DUSE_FLOAT']);
@@ -114,12 +131,19 @@ if (existsSync(join(refDir, 'kernel.c')) && has('gcc', ['--version'])) {
 }
 if (existsSync(join(refDir, 'kernel.py')) && has('python3', ['-c', 'import numpy'])) {
   impls.push({ label: 'numpy-double', cmd: ['python3', join(refDir, 'kernel.py')], ref: 'c-double-O2' });
-  impls.push({ label: 'numpy-float', cmd: ['python3', join(refDir, 'kernel.py')], tail: ['--float32'], ref: 'c-float-O2' });
+  impls.push({
+    label: 'numpy-float',
+    cmd: ['python3', join(refDir, 'kernel.py')],
+    tail: ['--float32'],
+    ref: 'c-float-O2',
+  });
 }
 const chosen = impls.filter((i) => only.test(i.label));
 
 const load0 = loadavg();
-console.log(`== Pycno against the references: ${repeats} interleaved repetitions of ~${targetSeconds} s, medians; load average ${load0.map((x) => x.toFixed(2)).join(' ')}`);
+console.log(
+  `== Pycno against the references: ${repeats} interleaved repetitions of ~${targetSeconds} s, medians; load average ${load0.map((x) => x.toFixed(2)).join(' ')}`,
+);
 /** cups of each repetition, by label@size. */
 const reps = new Map<string, number[]>();
 for (const [nx, ny] of sizes) {
@@ -132,7 +156,8 @@ for (const [nx, ny] of sizes) {
   }
   for (const impl of chosen) reps.set(`${impl.label}@${nx}x${ny}`, []);
   for (let r = 0; r < repeats; r++) {
-    for (const impl of chosen) reps.get(`${impl.label}@${nx}x${ny}`)!.push(run(impl, nx, ny, steps.get(impl.label)!).cups);
+    for (const impl of chosen)
+      reps.get(`${impl.label}@${nx}x${ny}`)!.push(run(impl, nx, ny, steps.get(impl.label)!).cups);
   }
   // Checksums after the same 200 steps, so that the comparison is of the same computation.
   const sums = new Map<string, Line>();
@@ -149,25 +174,29 @@ for (const [nx, ny] of sizes) {
   }
   if (bandwidth) {
     // 16 arrays of 8 bytes per cell update for the three-pass kernel (refbench README), 4 in float32.
-    console.log(`  bandwidth ceiling (triad ${bandwidth} GB/s / 128 B, float32 / 64 B): ${((bandwidth * 1e9) / 128).toExponential(3)}, ${((bandwidth * 1e9) / 64).toExponential(3)} cups`);
+    console.log(
+      `  bandwidth ceiling (triad ${bandwidth} GB/s / 128 B, float32 / 64 B): ${((bandwidth * 1e9) / 128).toExponential(3)}, ${((bandwidth * 1e9) / 64).toExponential(3)} cups`,
+    );
   }
 }
 const load1 = loadavg();
 
 // The targets, each as one ratio of the same repetitions at 640 x 240.
 const at = (label: string): number[] | undefined => reps.get(`${label}@${AT}`);
-const perRep = (f: (r: number) => number | undefined): number[] => Array.from({ length: repeats }, (_, r) => f(r)).filter((x): x is number => x !== undefined && Number.isFinite(x));
+const perRep = (f: (r: number) => number | undefined): number[] =>
+  Array.from({ length: repeats }, (_, r) => f(r)).filter((x): x is number => x !== undefined && Number.isFinite(x));
 /** The faster of several paths in each repetition. */
 const best = (labels: string[]) => (r: number) => {
   const xs = labels.map((l) => at(l)?.[r]).filter((x): x is number => x !== undefined);
   return xs.length ? Math.max(...xs) : undefined;
 };
 const one = (label: string) => (r: number) => at(label)?.[r];
-const ratio = (a: (r: number) => number | undefined, b: (r: number) => number | undefined) => perRep((r) => {
-  const x = a(r);
-  const y = b(r);
-  return x !== undefined && y !== undefined ? x / y : undefined;
-});
+const ratio = (a: (r: number) => number | undefined, b: (r: number) => number | undefined) =>
+  perRep((r) => {
+    const x = a(r);
+    const y = b(r);
+    return x !== undefined && y !== undefined ? x / y : undefined;
+  });
 const stripsOf = (prefix: string) => stripCounts.map((n) => `${prefix}strips-${n}`);
 const doubleBrowser = ['wasm-simd', ...stripsOf('wasm-'), 'ts-double', ...stripsOf('ts-')];
 const floatBrowser = ['wasm-float32', ...stripsOf('wasm-float32-'), 'ts-float32'];
@@ -175,21 +204,50 @@ const n2 = stripCounts[0];
 const targets: Array<{ name: string; xs: number[]; op: '>=' | '<='; goal: number }> = [
   { name: 'ts/c-O2', xs: ratio(one('ts-double'), one('c-double-O2')), op: '>=', goal: 0.8 },
   { name: 'ts/numpy', xs: ratio(one('ts-double'), one('numpy-double')), op: '>=', goal: 5 },
-  { name: 'best/c-O3 (double, one core per thread)', xs: ratio(best(doubleBrowser), one('c-double-O3-native')), op: '>=', goal: 0.8 },
+  {
+    name: 'best/c-O3 (double, one core per thread)',
+    xs: ratio(best(doubleBrowser), one('c-double-O3-native')),
+    op: '>=',
+    goal: 0.8,
+  },
   // a cost per cell: linear cups over nonlinear cups
-  { name: 'nonlinear-wasm/linear-wasm (cost per cell)', xs: ratio(one('wasm-simd'), one('nl-wasm')), op: '<=', goal: 1.6 },
-  { name: `strips speed-up linear (wasm-strips-${n2}/wasm-simd)`, xs: ratio(one(`wasm-strips-${n2}`), one('wasm-simd')), op: '>=', goal: 1.7 },
-  { name: `strips speed-up nonlinear (nl-wasm-strips-${n2}/nl-wasm)`, xs: ratio(one(`nl-wasm-strips-${n2}`), one('nl-wasm')), op: '>=', goal: 1.7 },
+  {
+    name: 'nonlinear-wasm/linear-wasm (cost per cell)',
+    xs: ratio(one('wasm-simd'), one('nl-wasm')),
+    op: '<=',
+    goal: 1.6,
+  },
+  {
+    name: `strips speed-up linear (wasm-strips-${n2}/wasm-simd)`,
+    xs: ratio(one(`wasm-strips-${n2}`), one('wasm-simd')),
+    op: '>=',
+    goal: 1.7,
+  },
+  {
+    name: `strips speed-up nonlinear (nl-wasm-strips-${n2}/nl-wasm)`,
+    xs: ratio(one(`nl-wasm-strips-${n2}`), one('nl-wasm')),
+    op: '>=',
+    goal: 1.7,
+  },
   { name: 'float32 wasm/c-float-O3', xs: ratio(one('wasm-float32'), one('c-float-O3-native')), op: '>=', goal: 0.8 },
   { name: 'float32 wasm/c-float-O2', xs: ratio(one('wasm-float32'), one('c-float-O2')), op: '>=', goal: 0.8 },
-  { name: 'float32 best/c-O3 (float32 counted separately)', xs: ratio(best(floatBrowser), one('c-double-O3-native')), op: '>=', goal: 0.8 },
+  {
+    name: 'float32 best/c-O3 (float32 counted separately)',
+    xs: ratio(best(floatBrowser), one('c-double-O3-native')),
+    op: '>=',
+    goal: 0.8,
+  },
   { name: 'float32 wasm/double wasm', xs: ratio(one('wasm-float32'), one('wasm-simd')), op: '>=', goal: 1 },
 ];
-console.log(`\nRatios at ${AT} (median of the ratios of each repetition, their range, and the target); load average at the end ${load1.map((x) => x.toFixed(2)).join(' ')}:`);
+console.log(
+  `\nRatios at ${AT} (median of the ratios of each repetition, their range, and the target); load average at the end ${load1.map((x) => x.toFixed(2)).join(' ')}:`,
+);
 for (const t of targets) {
   if (t.xs.length === 0) continue;
   const m = median(t.xs);
   const met = t.op === '>=' ? m >= t.goal : m <= t.goal;
-  console.log(`ratio ${t.name} ${m.toFixed(3)}  (repetitions ${Math.min(...t.xs).toFixed(3)}-${Math.max(...t.xs).toFixed(3)}, n=${t.xs.length}; target ${t.op} ${t.goal}: ${met ? 'met' : 'not met'})`);
+  console.log(
+    `ratio ${t.name} ${m.toFixed(3)}  (repetitions ${Math.min(...t.xs).toFixed(3)}-${Math.max(...t.xs).toFixed(3)}, n=${t.xs.length}; target ${t.op} ${t.goal}: ${met ? 'met' : 'not met'})`,
+  );
 }
 if (build) rmSync(build, { recursive: true, force: true });

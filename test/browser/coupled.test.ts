@@ -7,7 +7,15 @@
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, servePage, type Served } from '../support/browser-harness.ts';
+import {
+  ARTIFACTS,
+  buildPage,
+  chromiumMissing,
+  isNoise,
+  launch,
+  servePage,
+  type Served,
+} from '../support/browser-harness.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);
@@ -30,7 +38,8 @@ describe.skipIf(missing !== null)('a coupled run in the page', () => {
     page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     page.on('pageerror', (e) => errors.push(e.message));
     page.on('console', (m) => {
-      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
+      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text()))
+        errors.push(m.text());
     });
   });
 
@@ -41,17 +50,29 @@ describe.skipIf(missing !== null)('a coupled run in the page', () => {
 
   it('runs the coupled scenario: SST beside the thermocline, the indices, the measured mode in the derived numbers', async () => {
     await page.goto(served.url);
-    await page.waitForFunction(() => (window as unknown as { __pycno?: Info }).__pycno?.framesDrawn! > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: Info }).__pycno?.framesDrawn ?? 0) > 0, null, {
+      timeout: 30_000,
+    });
     await page.selectOption('#scenario-pick', 'coupled-oscillation.json');
-    await page.waitForFunction(() => document.getElementById('run-name')!.textContent === 'Coupled oscillation' && (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, { timeout: 30_000 });
+    await page.waitForFunction(
+      () =>
+        document.getElementById('run-name')!.textContent === 'Coupled oscillation' &&
+        (window as unknown as { __pycno: Info }).__pycno.status === 'ready',
+      null,
+      { timeout: 30_000 },
+    );
     expect(await page.isVisible('#coupled-panel')).toBe(true);
     expect(await page.textContent('#derived')).toMatch(/Answering wind20(\.0)? m\/s per K, every 8 steps/);
     await page.selectOption('#speed', 'max');
     await page.click('#btn-run');
     // Three complete half cycles need about four years of the 2.6-year mode.
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 1700, null, { timeout: 170_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 1700, null, {
+      timeout: 170_000,
+    });
     await page.click('#btn-pause');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'paused', null, { timeout: 20_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'paused', null, {
+      timeout: 20_000,
+    });
     const mode = await page.textContent('#coupled-mode');
     expect(mode).toMatch(/Coupled mode: period \d+ days .* growth rate -?\d/);
     const period = Number(/period (\d+) days/.exec(mode!)![1]);
@@ -68,7 +89,9 @@ describe.skipIf(missing !== null)('a coupled run in the page', () => {
       return n;
     });
     expect(tinted).toBeGreaterThan(20);
-    expect(await page.textContent('#coupled-scale')).toMatch(/SST anomaly, ±[\d.e-]+ K .* answering wind up to [\d.e-]+ m\/s/);
+    expect(await page.textContent('#coupled-scale')).toMatch(
+      /SST anomaly, ±[\d.e-]+ K .* answering wind up to [\d.e-]+ m\/s/,
+    );
     // The map shows the SST anomaly with the answering wind's arrows on request.
     const options = await page.$$eval('#field-pick option', (o) => o.map((x) => (x as HTMLOptionElement).value));
     expect(options).toContain('sst_anom');
@@ -86,17 +109,46 @@ describe.skipIf(missing !== null)('a coupled run in the page', () => {
     expect(await page.isVisible('input[name="strength"]')).toBe(true);
     expect(await page.isVisible('input[name="sst.region.lon"]')).toBe(true);
     // Two answering parts are one too many: the validator says so at the new part.
-    await page.waitForFunction(() => (window as unknown as { __pycnoWind: { issues(): string[] } }).__pycnoWind.issues().some((t) => /at most one answering part/.test(t)), null, { timeout: 10_000 });
+    await page.waitForFunction(
+      () =>
+        (window as unknown as { __pycnoWind: { issues(): string[] } }).__pycnoWind
+          .issues()
+          .some((t) => /at most one answering part/.test(t)),
+      null,
+      { timeout: 10_000 },
+    );
     // A negative strength is refused at its field too; undo takes both edits back.
     await page.fill('input[name="strength"]', '-1');
-    await page.waitForFunction(() => (window as unknown as { __pycnoWind: { issues(): string[] } }).__pycnoWind.issues().some((t) => /strength/.test(t)), null, { timeout: 10_000 });
+    await page.waitForFunction(
+      () =>
+        (window as unknown as { __pycnoWind: { issues(): string[] } }).__pycnoWind
+          .issues()
+          .some((t) => /strength/.test(t)),
+      null,
+      { timeout: 10_000 },
+    );
     await page.click('#wd-undo');
     await page.click('#wd-undo');
-    await page.waitForFunction(() => !(window as unknown as { __pycnoWind: { issues(): string[] } }).__pycnoWind.issues().length, null, { timeout: 10_000 });
+    await page.waitForFunction(
+      () => !(window as unknown as { __pycnoWind: { issues(): string[] } }).__pycnoWind.issues().length,
+      null,
+      { timeout: 10_000 },
+    );
     await page.fill('#wd-preview-day', '0');
     await page.check('#wd-preview-on');
-    await page.waitForFunction(() => (window as unknown as { __pycnoWind: { preview(): { peak: { value: number } } | null } }).__pycnoWind.preview() !== null, null, { timeout: 10_000 });
-    const preview = await page.evaluate(() => (window as unknown as { __pycnoWind: { preview(): { peak: { value: number; lon: number } } } }).__pycnoWind.preview());
+    await page.waitForFunction(
+      () =>
+        (
+          window as unknown as { __pycnoWind: { preview(): { peak: { value: number } } | null } }
+        ).__pycnoWind.preview() !== null,
+      null,
+      { timeout: 10_000 },
+    );
+    const preview = await page.evaluate(() =>
+      (
+        window as unknown as { __pycnoWind: { preview(): { peak: { value: number; lon: number } } } }
+      ).__pycnoWind.preview(),
+    );
     // At day 0 the burst is off; what shows is the answer to 1 K over the region at 85E: tens of mN m-2.
     expect(preview.peak.value).toBeGreaterThan(0.005);
     expect(preview.peak.value).toBeLessThan(0.5);

@@ -50,7 +50,12 @@ function scenario(dir: string): string {
     kind: 'fixed',
     name: 'formula breeze',
     quantity: 'stress',
-    source: { kind: 'shaped', shape: { kind: 'formula', expression: '0.01 * exp(-(lat / 5)^2) * cos(lon / 20)' }, x: 1, y: 0 },
+    source: {
+      kind: 'shaped',
+      shape: { kind: 'formula', expression: '0.01 * exp(-(lat / 5)^2) * cos(lon / 20)' },
+      x: 1,
+      y: 0,
+    },
     envelope: { kind: 'constant' },
   });
   const path = join(dir, 'csp-check.json');
@@ -64,11 +69,21 @@ async function listen(page: Page): Promise<void> {
     const w = window as unknown as { __violations: unknown[] };
     w.__violations = [];
     document.addEventListener('securitypolicyviolation', (e) =>
-      w.__violations.push({ where: 'page', directive: e.effectiveDirective, blocked: e.blockedURI, sourceFile: e.sourceFile, line: e.lineNumber, column: e.columnNumber, sample: e.sample, disposition: e.disposition }),
+      w.__violations.push({
+        where: 'page',
+        directive: e.effectiveDirective,
+        blocked: e.blockedURI,
+        sourceFile: e.sourceFile,
+        line: e.lineNumber,
+        column: e.columnNumber,
+        sample: e.sample,
+        disposition: e.disposition,
+      }),
     );
   });
 }
-const pageViolations = (page: Page) => page.evaluate(() => (window as unknown as { __violations: Violation[] }).__violations);
+const pageViolations = (page: Page) =>
+  page.evaluate(() => (window as unknown as { __violations: Violation[] }).__violations);
 
 /** Console lines of the page and its workers that speak of the policy. */
 function cspConsole(page: Page, into: string[]): void {
@@ -81,19 +96,33 @@ function cspConsole(page: Page, into: string[]): void {
 
 /** Load the scenario, run it to the end, save it in the library and open it there. */
 async function exercise(page: Page, path: string): Promise<void> {
-  await page.waitForFunction(() => ((window as unknown as { __pycno?: Pycno }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 60_000 });
+  await page.waitForFunction(() => ((window as unknown as { __pycno?: Pycno }).__pycno?.framesDrawn ?? 0) > 0, null, {
+    timeout: 60_000,
+  });
   await page.setInputFiles('#scenario-file', path);
-  await page.waitForFunction(() => document.getElementById('run-name')!.textContent === 'CSP check' && (window as unknown as { __pycno: Pycno }).__pycno.status === 'ready');
+  await page.waitForFunction(
+    () =>
+      document.getElementById('run-name')!.textContent === 'CSP check' &&
+      (window as unknown as { __pycno: Pycno }).__pycno.status === 'ready',
+  );
   await page.selectOption('#speed', 'max');
   await page.click('#btn-run');
-  await page.waitForFunction(() => (window as unknown as { __pycno: Pycno }).__pycno.status === 'finished', null, { timeout: 120_000 });
-  await page.waitForFunction(() => (window as unknown as { __pycnoLibrary: { ready(): boolean } }).__pycnoLibrary.ready());
+  await page.waitForFunction(() => (window as unknown as { __pycno: Pycno }).__pycno.status === 'finished', null, {
+    timeout: 120_000,
+  });
+  await page.waitForFunction(() =>
+    (window as unknown as { __pycnoLibrary: { ready(): boolean } }).__pycnoLibrary.ready(),
+  );
   await page.click('#lib-save-open');
   await page.fill('#lib-save-name', 'under the policy');
   await page.click('#lib-save');
   await page.waitForSelector('.lib-item[data-name="under the policy"]');
   await page.click('.lib-item[data-name="under the policy"] .lib-open');
-  await page.waitForFunction(() => (window as unknown as { __pycnoLibrary: { viewShown(): string | null } }).__pycnoLibrary.viewShown() === 'under the policy');
+  await page.waitForFunction(
+    () =>
+      (window as unknown as { __pycnoLibrary: { viewShown(): string | null } }).__pycnoLibrary.viewShown() ===
+      'under the policy',
+  );
 }
 
 /** The worker compiles a WebAssembly module (the linear kernel needs it). */
@@ -127,7 +156,12 @@ describe.skipIf(missing !== null)('Content-Security-Policy in Chromium', () => {
     let served: Served;
     beforeAll(async () => {
       const outDir = mkdtempSync(join(tmpdir(), 'pycno-page-'));
-      await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'error', build: { outDir, emptyOutDir: true } });
+      await build({
+        root: join(ROOT, 'viewer'),
+        configFile: join(ROOT, 'vite.config.ts'),
+        logLevel: 'error',
+        build: { outDir, emptyOutDir: true },
+      });
       served = await servePage(outDir);
     }, 120_000);
     afterAll(async () => served?.stop());
@@ -158,7 +192,9 @@ describe.skipIf(missing !== null)('Content-Security-Policy in Chromium', () => {
     let maps: Map<string, SourceMapV3>;
 
     /** Serve the build with these headers; reports to /__csp-report are collected. */
-    async function serveWith(headers: Record<string, string>): Promise<{ url: string; reports: Violation[]; close(): Promise<void> }> {
+    async function serveWith(
+      headers: Record<string, string>,
+    ): Promise<{ url: string; reports: Violation[]; close(): Promise<void> }> {
       const reports: Violation[] = [];
       const server: PreviewServer = await preview({
         root: join(ROOT, 'viewer'),
@@ -176,9 +212,27 @@ describe.skipIf(missing !== null)('Content-Security-Policy in Chromium', () => {
                 req.on('end', () => {
                   try {
                     const r = JSON.parse(body)['csp-report'];
-                    reports.push({ where: 'report', directive: r['effective-directive'], blocked: r['blocked-uri'], sourceFile: r['source-file'] ?? '', line: r['line-number'] ?? 0, column: r['column-number'] ?? 0, sample: r['script-sample'] ?? '', disposition: r.disposition });
+                    reports.push({
+                      where: 'report',
+                      directive: r['effective-directive'],
+                      blocked: r['blocked-uri'],
+                      sourceFile: r['source-file'] ?? '',
+                      line: r['line-number'] ?? 0,
+                      column: r['column-number'] ?? 0,
+                      sample: r['script-sample'] ?? '',
+                      disposition: r.disposition,
+                    });
                   } catch {
-                    reports.push({ where: 'report', directive: 'unreadable report', blocked: body.slice(0, 200), sourceFile: '', line: 0, column: 0, sample: '', disposition: '' });
+                    reports.push({
+                      where: 'report',
+                      directive: 'unreadable report',
+                      blocked: body.slice(0, 200),
+                      sourceFile: '',
+                      line: 0,
+                      column: 0,
+                      sample: '',
+                      disposition: '',
+                    });
                   }
                   res.statusCode = 204;
                   res.end();
@@ -203,13 +257,19 @@ describe.skipIf(missing !== null)('Content-Security-Policy in Chromium', () => {
 
     beforeAll(async () => {
       outDir = mkdtempSync(join(tmpdir(), 'pycno-page-'));
-      await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'error', build: { outDir, emptyOutDir: true, sourcemap: true } });
+      await build({
+        root: join(ROOT, 'viewer'),
+        configFile: join(ROOT, 'vite.config.ts'),
+        logLevel: 'error',
+        build: { outDir, emptyOutDir: true, sourcemap: true },
+      });
       maps = new Map(builtScripts(outDir).map((s) => [s.name, s.map!]));
     }, 120_000);
     afterAll(() => rmSync(outDir, { recursive: true, force: true }));
 
     const isolation = { 'Cross-Origin-Opener-Policy': 'same-origin', 'Cross-Origin-Embedder-Policy': 'require-corp' };
-    const reporting = (p: string) => p.replace("script-src 'self'", "script-src 'self' 'report-sample'") + '; report-uri /__csp-report';
+    const reporting = (p: string) =>
+      p.replace("script-src 'self'", "script-src 'self' 'report-sample'") + '; report-uri /__csp-report';
 
     it("enforced: the page cannot draw, and every violation is regl's code generation", async () => {
       const s = await serveWith({ ...isolation, 'Content-Security-Policy': reporting(withoutEval) });
@@ -217,7 +277,11 @@ describe.skipIf(missing !== null)('Content-Security-Policy in Chromium', () => {
       try {
         await listen(page);
         await page.goto(s.url);
-        await page.waitForFunction(() => (window as unknown as { __violations: unknown[] }).__violations.length > 0, null, { timeout: 30_000 });
+        await page.waitForFunction(
+          () => (window as unknown as { __violations: unknown[] }).__violations.length > 0,
+          null,
+          { timeout: 30_000 },
+        );
         // The page does not go blank: it says that the policy stops its drawing library (the
         // refused Function surfaces as an EvalError), not that WebGL is missing.
         await page.waitForFunction(() => !document.getElementById('no-go')!.hidden);
@@ -238,7 +302,11 @@ describe.skipIf(missing !== null)('Content-Security-Policy in Chromium', () => {
     });
 
     it("report-only: the whole page and its engine run; every eval the program attempts is regl's", async () => {
-      const s = await serveWith({ ...isolation, 'Content-Security-Policy': pagePolicy, 'Content-Security-Policy-Report-Only': reporting(withoutEval) });
+      const s = await serveWith({
+        ...isolation,
+        'Content-Security-Policy': pagePolicy,
+        'Content-Security-Policy-Report-Only': reporting(withoutEval),
+      });
       const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
       try {
         await listen(page);
@@ -249,8 +317,12 @@ describe.skipIf(missing !== null)('Content-Security-Policy in Chromium', () => {
         // A control: a string timer started in the engine worker is reported to the collector,
         // so a worker that needed eval could not go unseen.
         const w = page.workers().find((x) => x.url().includes('browser-entry'))!;
-        await w.evaluate(() => (setTimeout as unknown as (code: string, ms: number) => void)('self.pycnoCspControl = 1', 0));
-        await expect.poll(() => s.reports.filter((r) => /pycnoCspControl/.test(r.sample)).length, { timeout: 10_000 }).toBe(1);
+        await w.evaluate(() =>
+          (setTimeout as unknown as (code: string, ms: number) => void)('self.pycnoCspControl = 1', 0),
+        );
+        await expect
+          .poll(() => s.reports.filter((r) => /pycnoCspControl/.test(r.sample)).length, { timeout: 10_000 })
+          .toBe(1);
         expect(s.reports.find((r) => /pycnoCspControl/.test(r.sample))!.disposition).toBe('report');
         const seen = programs;
         // regl compiles its commands as the page starts and draws, so there are some...

@@ -11,7 +11,15 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { ARTIFACTS, buildPage, CHROMIUM, chromiumMissing, isNoise, servePage, type Served } from '../support/browser-harness.ts';
+import {
+  ARTIFACTS,
+  buildPage,
+  CHROMIUM,
+  chromiumMissing,
+  isNoise,
+  servePage,
+  type Served,
+} from '../support/browser-harness.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);
@@ -52,10 +60,19 @@ type Lib = {
   compare(): CompareState | null;
   viewWaves(): WaveRow[];
   viewShown(): string | null;
-  summary(): { file: string; members: number; complete: number; failed: number; missing: number; ensembles: number; rows: string[][] } | null;
+  summary(): {
+    file: string;
+    members: number;
+    complete: number;
+    failed: number;
+    missing: number;
+    ensembles: number;
+    rows: string[][];
+  } | null;
 };
 
-const lib = <T>(page: Page, f: (l: Lib) => T) => page.evaluate(`(${f.toString()})(window.__pycnoLibrary)`) as Promise<T>;
+const lib = <T>(page: Page, f: (l: Lib) => T) =>
+  page.evaluate(`(${f.toString()})(window.__pycnoLibrary)`) as Promise<T>;
 const runs = (page: Page) => lib(page, (l) => l.runs());
 
 async function launchOn(profile: string): Promise<BrowserContext> {
@@ -64,7 +81,15 @@ async function launchOn(profile: string): Promise<BrowserContext> {
     headless: true,
     viewport: { width: 1280, height: 900 },
     acceptDownloads: true,
-    args: ['--no-sandbox', '--enable-unsafe-swiftshader', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    args: [
+      '--no-sandbox',
+      '--enable-unsafe-swiftshader',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
   });
 }
 
@@ -72,13 +97,18 @@ async function openPage(ctx: BrowserContext, url: string, errors: string[]): Pro
   const page = ctx.pages()[0] ?? (await ctx.newPage());
   page.on('pageerror', (e) => errors.push(e.message));
   page.on('console', (m) => {
-    if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
+    if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text()))
+      errors.push(m.text());
   });
   await page.goto(url);
-  await page.waitForFunction(() => {
-    const w = window as unknown as { __pycno?: { framesDrawn: number }; __pycnoLibrary?: { ready(): boolean } };
-    return (w.__pycno?.framesDrawn ?? 0) > 0 && w.__pycnoLibrary?.ready() === true;
-  }, null, { timeout: 60_000 });
+  await page.waitForFunction(
+    () => {
+      const w = window as unknown as { __pycno?: { framesDrawn: number }; __pycnoLibrary?: { ready(): boolean } };
+      return (w.__pycno?.framesDrawn ?? 0) > 0 && w.__pycnoLibrary?.ready() === true;
+    },
+    null,
+    { timeout: 60_000 },
+  );
   return page;
 }
 
@@ -87,7 +117,9 @@ async function runAndSave(page: Page, friction: string, name: string, every: str
   await page.fill('input[name="time.days"]', '40');
   await page.fill('input[name="physics.frictionDays"]', friction);
   await page.selectOption('#speed', 'max');
-  const framesBefore = await page.evaluate(() => (window as unknown as { __pycno: { framesReceived: number } }).__pycno.framesReceived);
+  const framesBefore = await page.evaluate(
+    () => (window as unknown as { __pycno: { framesReceived: number } }).__pycno.framesReceived,
+  );
   // "Apply and run" starts the run by itself; wait for this run's frames, not the last run's end.
   await page.click('#btn-apply');
   await page.waitForFunction(
@@ -108,9 +140,14 @@ async function runAndSave(page: Page, friction: string, name: string, every: str
   await page.fill('#lib-save-notes', `friction ${friction} days`);
   await page.selectOption('#lib-save-every', every);
   // The size is shown before saving, for the interval picked.
-  expect(await page.textContent('#lib-save-what')).toMatch(/41 output records .* maps every \d+ records; about [\d.]+ MB in this browser/);
+  expect(await page.textContent('#lib-save-what')).toMatch(
+    /41 output records .* maps every \d+ records; about [\d.]+ MB in this browser/,
+  );
   await page.click('#lib-save');
-  await page.waitForFunction((n) => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.runs().length === n, before + 1);
+  await page.waitForFunction(
+    (n) => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.runs().length === n,
+    before + 1,
+  );
 }
 
 /** Pixels of a canvas's plot area (the canvas keeps its drawing buffer). */
@@ -124,14 +161,23 @@ async function plotPixels(page: Page, id: string): Promise<Array<[number, number
     c.height = gl.height;
     const ctx = c.getContext('2d')!;
     ctx.drawImage(gl, 0, 0);
-    const d = ctx.getImageData(Math.round(left * scale) + 2, Math.round(top * scale) + 2, Math.round(width * scale) - 4, Math.round(height * scale) - 4).data;
+    const d = ctx.getImageData(
+      Math.round(left * scale) + 2,
+      Math.round(top * scale) + 2,
+      Math.round(width * scale) - 4,
+      Math.round(height * scale) - 4,
+    ).data;
     const out: Array<[number, number, number]> = [];
     for (let k = 0; k < d.length; k += 4) out.push([d[k], d[k + 1], d[k + 2]]);
     return out;
   }, id);
 }
 
-async function downloadOf(page: Page, click: () => Promise<void>, dir: string): Promise<{ name: string; path: string; bytes: Buffer }> {
+async function downloadOf(
+  page: Page,
+  click: () => Promise<void>,
+  dir: string,
+): Promise<{ name: string; path: string; bytes: Buffer }> {
   const [dl] = await Promise.all([page.waitForEvent('download'), click()]);
   // Under its own name, so the file picker hands the page the name a user would see.
   const path = join(dir, `${Date.now()}-${dl.suggestedFilename()}`);
@@ -170,7 +216,12 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     await runAndSave(page, '20', B, '2');
     const saved = await runs(page);
     expect(saved.map((r) => r.name).sort()).toEqual([A, B].sort());
-    expect(saved.find((r) => r.name === A)).toMatchObject({ records: 41, snapshots: 41, frictionDays: 730, notes: 'friction 730 days' });
+    expect(saved.find((r) => r.name === A)).toMatchObject({
+      records: 41,
+      snapshots: 41,
+      frictionDays: 730,
+      notes: 'friction 730 days',
+    });
     expect(saved.find((r) => r.name === B)).toMatchObject({ records: 41, snapshots: 21, frictionDays: 20 });
     await ctx.close();
     ctx = null;
@@ -182,13 +233,17 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     const saved = await runs(page);
     expect(saved.map((r) => r.name).sort()).toEqual([A, B].sort());
     await page.waitForSelector(`.lib-item[data-name="${A}"]`);
-    expect(await page.textContent(`.lib-item[data-name="${A}"] .lib-summary`)).toMatch(/Westerly burst .*friction 730 days.*days 0–40, 41 records, 41 maps/);
+    expect(await page.textContent(`.lib-item[data-name="${A}"] .lib-summary`)).toMatch(
+      /Westerly burst .*friction 730 days.*days 0–40, 41 records, 41 maps/,
+    );
     const idA = saved.find((r) => r.name === A)!.id;
     const idB = saved.find((r) => r.name === B)!.id;
     await page.selectOption('#cmp-a', idA);
     await page.selectOption('#cmp-b', idB);
     await page.click('#cmp-go');
-    await page.waitForFunction(() => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.compare()?.shownDay != null);
+    await page.waitForFunction(
+      () => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.compare()?.shownDay != null,
+    );
     const st = (await lib(page, (l) => l.compare()))!;
     expect(st.status).toBe('ok');
     expect(st.commonTimes).toBe(41);
@@ -201,16 +256,26 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     expect(st.table).toEqual([{ path: 'physics.frictionDays', part: '', a: '730', b: '20' }]);
     expect(await page.textContent('#cmp-scenario-table')).toContain('physics.frictionDays');
     // Variables by the page's own labels, not the file's names.
-    expect(await page.$eval('#cmp-field', (s) => (s as HTMLSelectElement).selectedOptions[0].textContent)).toBe('Thermocline depth anomaly (positive down) (m)');
-    expect(await page.$$eval('#cmp-field option', (os) => os.map((o) => o.textContent ?? '').filter((t) => /^[a-z_]+:/.test(t)))).toEqual([]);
+    expect(await page.$eval('#cmp-field', (s) => (s as HTMLSelectElement).selectedOptions[0].textContent)).toBe(
+      'Thermocline depth anomaly (positive down) (m)',
+    );
+    expect(
+      await page.$$eval('#cmp-field option', (os) =>
+        os.map((o) => o.textContent ?? '').filter((t) => /^[a-z_]+:/.test(t)),
+      ),
+    ).toEqual([]);
     // The comparison's Hovmollers: A and B on one scale by the rule every view uses.
-    expect(await page.getAttribute('#cmp-hov-a', 'data-scale')).toBe(await page.getAttribute('#cmp-hov-b', 'data-scale'));
+    expect(await page.getAttribute('#cmp-hov-a', 'data-scale')).toBe(
+      await page.getAttribute('#cmp-hov-b', 'data-scale'),
+    );
     // The difference map: white where the runs agree, coloured where friction damped B.
     const px = await plotPixels(page, 'cmp-map-diff-gl');
     const coloured = px.filter(([r, g, b]) => Math.max(r, g, b) - Math.min(r, g, b) > 40).length;
     expect(coloured / px.length).toBeGreaterThan(0.02);
     // A and B share one colour range.
-    expect(await page.getAttribute('#cmp-map-a-gl', 'data-range')).toBe(await page.getAttribute('#cmp-map-b-gl', 'data-range'));
+    expect(await page.getAttribute('#cmp-map-a-gl', 'data-range')).toBe(
+      await page.getAttribute('#cmp-map-b-gl', 'data-range'),
+    );
     expect(await page.getAttribute('#cmp-hov-diff', 'width')).toBe('300');
 
     // Measured Kelvin speeds of both runs beside c = sqrt(g' H) = 2.74 m/s (Matsuno 1966). Both
@@ -232,7 +297,10 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
 
     // Opening a run shows its map, Hovmoller, probes and the same box.
     await itemButton(page, A, 'lib-open').click();
-    await page.waitForFunction((n) => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.viewShown() === n, A);
+    await page.waitForFunction(
+      (n) => (window as unknown as { __pycnoLibrary: Lib }).__pycnoLibrary.viewShown() === n,
+      A,
+    );
     const vw = await lib(page, (l) => l.viewWaves());
     expect(vw[0].speed).toBeCloseTo(st.waves.a[0].speed!, 10);
     expect(await page.getAttribute('#lib-view-hov', 'data-rows')).toBe('41');
@@ -259,13 +327,21 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     const metaB = (await runs(page)).find((r) => r.name === B)!;
     const fileB = await downloadOf(page, () => itemButton(page, B, 'lib-export').click(), files);
     expect(Math.abs(fileB.bytes.length - metaB.sizeBytes) / fileB.bytes.length).toBeLessThan(0.1);
-    expect(await page.textContent('#lib-msg')).toMatch(new RegExp(`^Exported '${B}': .*21 kept maps on their own time axis map_time; the series of all 41 records`));
+    expect(await page.textContent('#lib-msg')).toMatch(
+      new RegExp(`^Exported '${B}': .*21 kept maps on their own time axis map_time; the series of all 41 records`),
+    );
     expect(await page.getAttribute('#lib-msg', 'data-progress')).toBe('1');
     // The library says what the saved runs take and what is left.
-    expect(await page.textContent('#lib-storage')).toMatch(/^Storage: 3 saved runs, about [\d.]+ MB; this page uses [\d.]+ [kMG]?B of the browser's storage, about [\d.]+ [kMG]?B left\.$/);
+    expect(await page.textContent('#lib-storage')).toMatch(
+      /^Storage: 3 saved runs, about [\d.]+ MB; this page uses [\d.]+ [kMG]?B of the browser's storage, about [\d.]+ [kMG]?B left\.$/,
+    );
 
     // A file that is not a Pycno run is refused with the reader's message, and nothing is added.
-    await page.setInputFiles('#lib-import', { name: 'notes.nc', mimeType: 'application/x-netcdf', buffer: Buffer.from('{"just": "json"}') });
+    await page.setInputFiles('#lib-import', {
+      name: 'notes.nc',
+      mimeType: 'application/x-netcdf',
+      buffer: Buffer.from('{"just": "json"}'),
+    });
     await page.waitForFunction(() => /not imported/.test(document.getElementById('lib-msg')!.textContent ?? ''));
     expect(await page.textContent('#lib-msg')).toMatch(/^not imported: notes\.nc: /);
     expect((await runs(page)).length).toBe(3);
@@ -284,8 +360,11 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     const bin = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
     const work = mkdtempSync(join(tmpdir(), 'pycno-page-summary-'));
     copyFileSync(fileURLToPath(new URL('../fixtures/engine-tiny.json', import.meta.url)), join(work, 'tiny.json'));
-    const cli = (args: string[]) => spawnSync(process.execPath, [bin, ...args], { cwd: work, encoding: 'utf8', timeout: 120_000 }).status;
-    expect(cli(['sweep', 'tiny.json', '--vary', 'wind.parts[0].source.x=0.05,5', '--batch', 'b', '--per-task', '2'])).toBe(0);
+    const cli = (args: string[]) =>
+      spawnSync(process.execPath, [bin, ...args], { cwd: work, encoding: 'utf8', timeout: 120_000 }).status;
+    expect(
+      cli(['sweep', 'tiny.json', '--vary', 'wind.parts[0].source.x=0.05,5', '--batch', 'b', '--per-task', '2']),
+    ).toBe(0);
     expect(cli(['sweep', '--task', 'b', '1'])).toBe(1);
     expect(cli(['sweep', '--gather', 'b'])).toBe(1);
     const before = (await runs(page)).length;
@@ -296,7 +375,9 @@ describe.skipIf(missing !== null)('saved runs and comparison in Chromium (persis
     expect(shown.rows[0].slice(0, 3)).toEqual(['1', '0.05', 'complete']);
     expect(shown.rows[1].slice(0, 3)).toEqual(['2', '5', 'failed']);
     expect(shown.rows[1][6]).toMatch(/^the run blew up on day/);
-    expect(await page.textContent('#lib-summary-line')).toBe('2 members over wind.parts[0].source.x: 1 complete, 1 failed, 0 missing');
+    expect(await page.textContent('#lib-summary-line')).toBe(
+      '2 members over wind.parts[0].source.x: 1 complete, 1 failed, 0 missing',
+    );
     expect((await runs(page)).length).toBe(before); // shown, not saved as a run
     const report = await downloadOf(page, () => page.click('#lib-summary-report'), files);
     expect(report.name).toBe('summary-report.html');

@@ -31,7 +31,8 @@ const read = (page: Page) =>
     return { framesReceived: p.framesReceived, lastDay: p.lastDay, shownDay: p.shownDay, gpu: { ...p.gpu } };
   });
 /** Two animation frames: any queued draw has run. */
-const settle = (page: Page) => page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
+const settle = (page: Page) =>
+  page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
 
 async function stepAndWait(page: Page): Promise<void> {
   const before = (await read(page)).framesReceived;
@@ -57,7 +58,13 @@ describe.skipIf(missing !== null)('map uploads in Chromium', () => {
     browser = await launch();
     page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     await page.goto(served.url);
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.ready && (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, { timeout: 60_000 });
+    await page.waitForFunction(
+      () =>
+        (window as unknown as { __pycno: Info }).__pycno.ready &&
+        (window as unknown as { __pycno: Info }).__pycno.status === 'ready',
+      null,
+      { timeout: 60_000 },
+    );
     expect(await page.isChecked('#show-currents')).toBe(true);
     // The first step from day 0 is the initial output; the second one moves the model.
     await stepAndWait(page);
@@ -121,7 +128,11 @@ describe.skipIf(missing !== null)('map uploads in Chromium', () => {
       const p = await browser.newPage({ viewport: { width: 1280, height: 900 } });
       try {
         await p.goto(`${served.url}${query}`);
-        await p.waitForFunction(() => (window as unknown as { __pycno: { framesDrawn: number } }).__pycno.framesDrawn > 0, null, { timeout: 60_000 });
+        await p.waitForFunction(
+          () => (window as unknown as { __pycno: { framesDrawn: number } }).__pycno.framesDrawn > 0,
+          null,
+          { timeout: 60_000 },
+        );
         await settle(p);
         return await p.evaluate(() => {
           const gl = document.getElementById('map-gl') as HTMLCanvasElement;
@@ -132,10 +143,18 @@ describe.skipIf(missing !== null)('map uploads in Chromium', () => {
           const ctx = c.getContext('2d')!;
           ctx.drawImage(gl, 0, 0);
           const s = gl.width / gl.clientWidth;
-          const d = ctx.getImageData(Math.round(left * s), Math.round(top * s), Math.round(width * s), Math.round(height * s)).data;
+          const d = ctx.getImageData(
+            Math.round(left * s),
+            Math.round(top * s),
+            Math.round(width * s),
+            Math.round(height * s),
+          ).data;
           const sum = [0, 0, 0];
           for (let k = 0; k < d.length; k += 4) for (let c = 0; c < 3; c++) sum[c] += d[k + c];
-          return { float: (window as unknown as { __pycno: { floatTextures: boolean } }).__pycno.floatTextures, rgb: sum.map((v) => v / (d.length / 4)) };
+          return {
+            float: (window as unknown as { __pycno: { floatTextures: boolean } }).__pycno.floatTextures,
+            rgb: sum.map((v) => v / (d.length / 4)),
+          };
         });
       } finally {
         await p.close();
@@ -150,19 +169,25 @@ describe.skipIf(missing !== null)('map uploads in Chromium', () => {
     for (let c = 0; c < 3; c++) expect(Math.abs(b.rgb[c] - f.rgb[c])).toBeLessThan(2);
   });
 
-  it('once the time slider\'s budget is full, the frames are thinned back to the start and the note says so', async () => {
+  it("once the time slider's budget is full, the frames are thinned back to the start and the note says so", async () => {
     await page.selectOption('#budget', '32');
     expect(await page.textContent('#budget-note')).not.toMatch(/thinned/);
     await page.selectOption('#speed', 'max');
     await page.click('#btn-run');
     // A frame of the default basin is 10 fields of 280 x 100 Float32 cells: 1.12 MB, so 32 MB
     // holds 28 of them, 31.36 MB.
-    await page.waitForFunction(() => /thinned/.test(document.getElementById('budget-note')?.textContent ?? ''), null, { timeout: 120_000 });
+    await page.waitForFunction(() => /thinned/.test(document.getElementById('budget-note')?.textContent ?? ''), null, {
+      timeout: 120_000,
+    });
     await page.click('#btn-pause');
-    await page.waitForFunction(() => {
-      const p = (window as unknown as { __pycno: Info }).__pycno;
-      return p.status === 'paused' && p.shownDay === p.lastDay;
-    }, null, { timeout: 30_000 });
+    await page.waitForFunction(
+      () => {
+        const p = (window as unknown as { __pycno: Info }).__pycno;
+        return p.status === 'paused' && p.shownDay === p.lastDay;
+      },
+      null,
+      { timeout: 30_000 },
+    );
     await settle(page);
     const note = (await page.textContent('#budget-note'))!;
     expect(note).toMatch(/^keeping 28 frames = 31 MB, thinned to one every [\d.]+ days? to reach back to the start$/);
@@ -171,7 +196,9 @@ describe.skipIf(missing !== null)('map uploads in Chromium', () => {
     expect(Number(kept![1])).toBe(0);
     const shown = await page.evaluate(() => (window as unknown as { __pycno: Info }).__pycno.shownDay);
     expect(Number(kept![2])).toBeCloseTo(shown, 1);
-    const frames = await page.evaluate(() => (window as unknown as { __pycno: { kept(): { frames: number } } }).__pycno.kept().frames);
+    const frames = await page.evaluate(
+      () => (window as unknown as { __pycno: { kept(): { frames: number } } }).__pycno.kept().frames,
+    );
     expect(frames).toBeLessThanOrEqual(28);
   });
 });

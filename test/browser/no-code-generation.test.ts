@@ -23,21 +23,29 @@ describe('run-time code generation', () => {
 
   beforeAll(async () => {
     outDir = mkdtempSync(join(tmpdir(), 'pycno-scan-'));
-    await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'error', build: { outDir, emptyOutDir: true, sourcemap: true } });
+    await build({
+      root: join(ROOT, 'viewer'),
+      configFile: join(ROOT, 'vite.config.ts'),
+      logLevel: 'error',
+      build: { outDir, emptyOutDir: true, sourcemap: true },
+    });
   }, 120_000);
 
   afterAll(() => rmSync(outDir, { recursive: true, force: true }));
 
   it('the pattern finds what it must and not what it must not', () => {
     const found = (s: string) => findCodeGeneration('x', s).map((h) => h.text);
-    expect(found('eval("1"); new Function("a", "b"); Function("x")(); Function.apply(null, s); setTimeout("go()", 1)')).toHaveLength(5);
+    expect(
+      found('eval("1"); new Function("a", "b"); Function("x")(); Function.apply(null, s); setTimeout("go()", 1)'),
+    ).toHaveLength(5);
     expect(found('evaluate(x); x.Function(1); isFunction(y); setTimeout(() => go(), 1); myFunction(2)')).toEqual([]);
   });
 
   it('our own code (model, worker, viewer, bin) has none', () => {
     const hits: Hit[] = [];
     for (const d of ['model', 'worker', 'viewer', 'bin']) {
-      for (const f of sourceFiles(join(ROOT, d))) hits.push(...findCodeGeneration(relative(ROOT, f), readFileSync(f, 'utf8')));
+      for (const f of sourceFiles(join(ROOT, d)))
+        hits.push(...findCodeGeneration(relative(ROOT, f), readFileSync(f, 'utf8')));
     }
     expect(hits).toEqual([]);
   });
@@ -48,13 +56,19 @@ describe('run-time code generation', () => {
     const places: Array<{ chunk: string; source: string | null; text: string }> = [];
     for (const s of scripts) {
       expect(s.map, `${s.name} has a source map`).not.toBeNull();
-      for (const h of findCodeGeneration(s.name, s.text)) places.push({ chunk: s.name, source: originalSource(s.map!, h.line, h.column), text: h.text });
+      for (const h of findCodeGeneration(s.name, s.text))
+        places.push({ chunk: s.name, source: originalSource(s.map!, h.line, h.column), text: h.text });
     }
     // regl is there (the page cannot draw without it) and it is the only one.
     expect(places.length).toBeGreaterThan(0);
-    for (const p of places) expect(p, `${p.text} in ${p.chunk}`).toMatchObject({ source: expect.stringMatching(/node_modules\/regl\/dist\/regl\.js$/) });
+    for (const p of places)
+      expect(p, `${p.text} in ${p.chunk}`).toMatchObject({
+        source: expect.stringMatching(/node_modules\/regl\/dist\/regl\.js$/),
+      });
     // And it is the Function.apply of regl's code generator, in the page's main chunk, not the worker's.
     expect(places.every((p) => p.chunk.startsWith('index-'))).toBe(true);
-    expect(readFileSync(join(ROOT, 'node_modules/regl/dist/regl.js'), 'utf8')).toContain('var proc = Function.apply(null, linkedNames.concat(src))');
+    expect(readFileSync(join(ROOT, 'node_modules/regl/dist/regl.js'), 'utf8')).toContain(
+      'var proc = Function.apply(null, linkedNames.concat(src))',
+    );
   });
 });

@@ -12,7 +12,16 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
-import { buildPage, CHROMIUM, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
+import {
+  buildPage,
+  CHROMIUM,
+  chromiumMissing,
+  isNoise,
+  launch,
+  ROOT,
+  servePage,
+  type Served,
+} from '../support/browser-harness.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);
@@ -46,13 +55,19 @@ function scenarioFile(dir: string, name: string, days: number, seed: number): st
 async function load(page: Page, path: string): Promise<void> {
   const name = JSON.parse(readFileSync(path, 'utf8')).name;
   await page.setInputFiles('#scenario-file', path);
-  await page.waitForFunction((n) => document.getElementById('run-name')!.textContent === n && (window as unknown as Win).__pycno.status === 'ready', name);
+  await page.waitForFunction(
+    (n) =>
+      document.getElementById('run-name')!.textContent === n && (window as unknown as Win).__pycno.status === 'ready',
+    name,
+  );
 }
 
 async function runToEnd(page: Page): Promise<void> {
   await page.selectOption('#speed', 'max');
   await page.click('#btn-run');
-  await page.waitForFunction(() => (window as unknown as Win).__pycno.status === 'finished', null, { timeout: 120_000 });
+  await page.waitForFunction(() => (window as unknown as Win).__pycno.status === 'finished', null, {
+    timeout: 120_000,
+  });
 }
 
 /** Open the save form, name the run and press Save (returns at once). */
@@ -96,7 +111,12 @@ async function armHold(page: Page): Promise<void> {
     if (!first) return; // instruments already in place on this page
     const transaction = IDBDatabase.prototype.transaction;
     const put = IDBObjectStore.prototype.put;
-    IDBDatabase.prototype.transaction = function (this: IDBDatabase, names: string | string[], mode?: IDBTransactionMode, options?: IDBTransactionOptions) {
+    IDBDatabase.prototype.transaction = function (
+      this: IDBDatabase,
+      names: string | string[],
+      mode?: IDBTransactionMode,
+      options?: IDBTransactionOptions,
+    ) {
       const tx = transaction.call(this, names, mode, options);
       const list = typeof names === 'string' ? [names] : [...names];
       if (mode === 'readwrite' && list.includes('payloads') && w.__hold.state === 'armed') {
@@ -117,130 +137,160 @@ async function armHold(page: Page): Promise<void> {
   });
 }
 
-describe.skipIf(missing !== null)('nothing lost when the engine worker dies, the page crashes or storage is full', () => {
-  let served: Served;
-  let ctx: BrowserContext;
-  let page: Page;
-  const errors: string[] = [];
-  const profile = mkdtempSync(join(tmpdir(), 'pycno-lost-profile-'));
-  const dir = mkdtempSync(join(tmpdir(), 'pycno-lost-'));
-  let short: string;
+describe.skipIf(missing !== null)(
+  'nothing lost when the engine worker dies, the page crashes or storage is full',
+  () => {
+    let served: Served;
+    let ctx: BrowserContext;
+    let page: Page;
+    const errors: string[] = [];
+    const profile = mkdtempSync(join(tmpdir(), 'pycno-lost-profile-'));
+    const dir = mkdtempSync(join(tmpdir(), 'pycno-lost-'));
+    let short: string;
 
-  const watch = (p: Page) => {
-    p.on('pageerror', (e) => errors.push(e.message));
-    p.on('console', (m) => {
-      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
+    const watch = (p: Page) => {
+      p.on('pageerror', (e) => errors.push(e.message));
+      p.on('console', (m) => {
+        if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text()))
+          errors.push(m.text());
+      });
+    };
+    const openPage = async (p: Page) => {
+      watch(p);
+      await p.goto(served.url);
+      await p.waitForFunction(
+        () => {
+          const w = window as unknown as Partial<Win>;
+          return (w.__pycno?.framesDrawn ?? 0) > 0 && w.__pycnoLibrary?.ready() === true;
+        },
+        null,
+        { timeout: 60_000 },
+      );
+      return p;
+    };
+
+    beforeAll(async () => {
+      served = await servePage(await buildPage());
+      ctx = await chromium.launchPersistentContext(profile, {
+        executablePath: CHROMIUM,
+        headless: true,
+        viewport: { width: 1280, height: 900 },
+        args: [
+          '--no-sandbox',
+          '--enable-unsafe-swiftshader',
+          '--disable-quic',
+          '--no-first-run',
+          '--disable-background-networking',
+          '--disable-component-update',
+          '--disable-sync',
+        ],
+      });
+      page = await openPage(ctx.pages()[0] ?? (await ctx.newPage()));
+      short = scenarioFile(dir, 'short bursts', 20, 7);
+      await load(page, short);
+      await runToEnd(page);
+      await save(page, 'earlier A');
+      await load(page, scenarioFile(dir, 'short bursts seed 8', 20, 8));
+      await runToEnd(page);
+      await save(page, 'earlier B');
+    }, 240_000);
+
+    afterAll(async () => {
+      await ctx?.close();
+      await served?.stop();
+      rmSync(profile, { recursive: true, force: true });
+      rmSync(dir, { recursive: true, force: true });
     });
-  };
-  const openPage = async (p: Page) => {
-    watch(p);
-    await p.goto(served.url);
-    await p.waitForFunction(() => {
-      const w = window as unknown as Partial<Win>;
-      return (w.__pycno?.framesDrawn ?? 0) > 0 && w.__pycnoLibrary?.ready() === true;
-    }, null, { timeout: 60_000 });
-    return p;
-  };
 
-  beforeAll(async () => {
-    served = await servePage(await buildPage());
-    ctx = await chromium.launchPersistentContext(profile, {
-      executablePath: CHROMIUM,
-      headless: true,
-      viewport: { width: 1280, height: 900 },
-      args: ['--no-sandbox', '--enable-unsafe-swiftshader', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    it('the worker killed in the middle of a run: the page says so, the run so far can be saved, saved runs open, the engine restarts', async () => {
+      const before = await ids(page);
+      expect(before.length).toBe(2);
+      await load(page, scenarioFile(dir, 'long bursts', 365, 9));
+      await page.selectOption('#speed', '5');
+      await page.click('#btn-run');
+      await page.waitForFunction(
+        () =>
+          (window as unknown as Win).__pycno.lastDay >= 2 && (window as unknown as Win).__pycno.status === 'running',
+      );
+      await killEngine(page);
+      await page.waitForSelector('#engine-lost', { timeout: 15_000 });
+      const notice = (await page.textContent('#engine-lost span'))!;
+      expect(notice).toMatch(/^The model engine has stopped: the browser ended its worker/);
+      expect(notice).toMatch(
+        /The run on screen had reached day [\d.]+; what it shows can still be saved in the library below\. Your saved runs are not affected\./,
+      );
+      expect(await page.textContent('#status')).toBe('engine stopped');
+      expect(await page.isDisabled('#btn-run')).toBe(true);
+      expect(await page.isDisabled('#btn-reset')).toBe(true);
+      // No more frames come.
+      const day = await page.evaluate(() => (window as unknown as Win).__pycno.lastDay);
+      await page.waitForTimeout(800);
+      expect(await page.evaluate(() => (window as unknown as Win).__pycno.lastDay)).toBe(day);
+
+      expect(await ids(page)).toEqual(before);
+      expect((await openEach(page)).sort()).toEqual(['earlier A', 'earlier B']);
+      // What the page recorded before the loss is saved whole and opens.
+      const records = await page.evaluate(() => (window as unknown as Win).__pycnoLibrary.live().records);
+      expect(records).toBeGreaterThanOrEqual(3);
+      await save(page, 'up to the loss');
+      expect((await runs(page)).find((r) => r.name === 'up to the loss')!.records).toBe(records);
+      expect(await openEach(page)).toHaveLength(3);
+
+      await page.click('#btn-engine-restart');
+      await page.waitForFunction(
+        () => !document.getElementById('engine-lost') && (window as unknown as Win).__pycno.status === 'ready',
+        null,
+        { timeout: 30_000 },
+      );
+      expect(await page.evaluate(() => (window as unknown as Win).__pycno.lastDay)).toBe(0);
+      await load(page, short);
+      await runToEnd(page);
+      expect(errors).toEqual([]);
     });
-    page = await openPage(ctx.pages()[0] ?? (await ctx.newPage()));
-    short = scenarioFile(dir, 'short bursts', 20, 7);
-    await load(page, short);
-    await runToEnd(page);
-    await save(page, 'earlier A');
-    await load(page, scenarioFile(dir, 'short bursts seed 8', 20, 8));
-    await runToEnd(page);
-    await save(page, 'earlier B');
-  }, 240_000);
 
-  afterAll(async () => {
-    await ctx?.close();
-    await served?.stop();
-    rmSync(profile, { recursive: true, force: true });
-    rmSync(dir, { recursive: true, force: true });
-  });
+    it('the worker killed in the middle of a save: the save completes whole (the page holds the data), earlier runs open', async () => {
+      const before = await ids(page);
+      await armHold(page);
+      await pressSave(page, 'saved while the worker died');
+      await page.waitForFunction(() => (window as unknown as Win).__hold.putsDone === 2);
+      // Both records written, not committed: nothing shows yet.
+      expect(await ids(page)).toEqual(before);
+      await killEngine(page);
+      await page.waitForSelector('#engine-lost', { timeout: 15_000 });
+      await page.evaluate(() => ((window as unknown as Win).__hold.state = 'released'));
+      await page.waitForFunction(
+        (n) => (window as unknown as Win).__pycnoLibrary.runs().length === n,
+        before.length + 1,
+      );
+      const after = await runs(page);
+      expect(after.filter((r) => !before.includes(r.id)).map((r) => r.name)).toEqual(['saved while the worker died']);
+      expect(await openEach(page)).toHaveLength(before.length + 1);
+      expect(errors).toEqual([]);
+    });
 
-  it('the worker killed in the middle of a run: the page says so, the run so far can be saved, saved runs open, the engine restarts', async () => {
-    const before = await ids(page);
-    expect(before.length).toBe(2);
-    await load(page, scenarioFile(dir, 'long bursts', 365, 9));
-    await page.selectOption('#speed', '5');
-    await page.click('#btn-run');
-    await page.waitForFunction(() => (window as unknown as Win).__pycno.lastDay >= 2 && (window as unknown as Win).__pycno.status === 'running');
-    await killEngine(page);
-    await page.waitForSelector('#engine-lost', { timeout: 15_000 });
-    const notice = (await page.textContent('#engine-lost span'))!;
-    expect(notice).toMatch(/^The model engine has stopped: the browser ended its worker/);
-    expect(notice).toMatch(/The run on screen had reached day [\d.]+; what it shows can still be saved in the library below\. Your saved runs are not affected\./);
-    expect(await page.textContent('#status')).toBe('engine stopped');
-    expect(await page.isDisabled('#btn-run')).toBe(true);
-    expect(await page.isDisabled('#btn-reset')).toBe(true);
-    // No more frames come.
-    const day = await page.evaluate(() => (window as unknown as Win).__pycno.lastDay);
-    await page.waitForTimeout(800);
-    expect(await page.evaluate(() => (window as unknown as Win).__pycno.lastDay)).toBe(day);
-
-    expect(await ids(page)).toEqual(before);
-    expect((await openEach(page)).sort()).toEqual(['earlier A', 'earlier B']);
-    // What the page recorded before the loss is saved whole and opens.
-    const records = await page.evaluate(() => (window as unknown as Win).__pycnoLibrary.live().records);
-    expect(records).toBeGreaterThanOrEqual(3);
-    await save(page, 'up to the loss');
-    expect((await runs(page)).find((r) => r.name === 'up to the loss')!.records).toBe(records);
-    expect(await openEach(page)).toHaveLength(3);
-
-    await page.click('#btn-engine-restart');
-    await page.waitForFunction(() => !document.getElementById('engine-lost') && (window as unknown as Win).__pycno.status === 'ready', null, { timeout: 30_000 });
-    expect(await page.evaluate(() => (window as unknown as Win).__pycno.lastDay)).toBe(0);
-    await load(page, short);
-    await runToEnd(page);
-    expect(errors).toEqual([]);
-  });
-
-  it('the worker killed in the middle of a save: the save completes whole (the page holds the data), earlier runs open', async () => {
-    const before = await ids(page);
-    await armHold(page);
-    await pressSave(page, 'saved while the worker died');
-    await page.waitForFunction(() => (window as unknown as Win).__hold.putsDone === 2);
-    // Both records written, not committed: nothing shows yet.
-    expect(await ids(page)).toEqual(before);
-    await killEngine(page);
-    await page.waitForSelector('#engine-lost', { timeout: 15_000 });
-    await page.evaluate(() => ((window as unknown as Win).__hold.state = 'released'));
-    await page.waitForFunction((n) => (window as unknown as Win).__pycnoLibrary.runs().length === n, before.length + 1);
-    const after = await runs(page);
-    expect(after.filter((r) => !before.includes(r.id)).map((r) => r.name)).toEqual(['saved while the worker died']);
-    expect(await openEach(page)).toHaveLength(before.length + 1);
-    expect(errors).toEqual([]);
-  });
-
-  it('the page crashes in the middle of a save: the library is exactly as before, every run opens', async () => {
-    await page.click('#btn-engine-restart');
-    await page.waitForFunction(() => (window as unknown as Win).__pycno.status === 'ready', null, { timeout: 30_000 });
-    await load(page, short);
-    await runToEnd(page);
-    const before = await ids(page);
-    await armHold(page);
-    await pressSave(page, 'never committed');
-    await page.waitForFunction(() => (window as unknown as Win).__hold.putsDone === 2);
-    const cdp = await page.context().newCDPSession(page);
-    const crashed = new Promise((r) => page.once('crash', r));
-    // The renderer dies at once; the command itself never answers.
-    void cdp.send('Page.crash').catch(() => {});
-    await crashed;
-    page = await openPage(await ctx.newPage());
-    expect(await ids(page)).toEqual(before);
-    expect((await runs(page)).some((r) => r.name === 'never committed')).toBe(false);
-    expect(await openEach(page)).toHaveLength(before.length);
-  });
-});
+    it('the page crashes in the middle of a save: the library is exactly as before, every run opens', async () => {
+      await page.click('#btn-engine-restart');
+      await page.waitForFunction(() => (window as unknown as Win).__pycno.status === 'ready', null, {
+        timeout: 30_000,
+      });
+      await load(page, short);
+      await runToEnd(page);
+      const before = await ids(page);
+      await armHold(page);
+      await pressSave(page, 'never committed');
+      await page.waitForFunction(() => (window as unknown as Win).__hold.putsDone === 2);
+      const cdp = await page.context().newCDPSession(page);
+      const crashed = new Promise((r) => page.once('crash', r));
+      // The renderer dies at once; the command itself never answers.
+      void cdp.send('Page.crash').catch(() => {});
+      await crashed;
+      page = await openPage(await ctx.newPage());
+      expect(await ids(page)).toEqual(before);
+      expect((await runs(page)).some((r) => r.name === 'never committed')).toBe(false);
+      expect(await openEach(page)).toHaveLength(before.length);
+    });
+  },
+);
 
 // Chromium 156 applies CDP Storage.overrideQuotaForOrigin to IndexedDB only when it is set before
 // the origin first uses its storage in the browser session (set later, on a persistent profile or
@@ -266,13 +316,18 @@ describe.skipIf(missing !== null)('a storage quota error while saving, in Chromi
     await cdp.send('Storage.overrideQuotaForOrigin', { origin, quotaSize: QUOTA });
     page.on('pageerror', (e) => errors.push(e.message));
     page.on('console', (m) => {
-      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
+      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text()))
+        errors.push(m.text());
     });
     await page.goto(served.url);
-    await page.waitForFunction(() => {
-      const w = window as unknown as Partial<Win>;
-      return (w.__pycno?.framesDrawn ?? 0) > 0 && w.__pycnoLibrary?.ready() === true;
-    }, null, { timeout: 60_000 });
+    await page.waitForFunction(
+      () => {
+        const w = window as unknown as Partial<Win>;
+        return (w.__pycno?.framesDrawn ?? 0) > 0 && w.__pycnoLibrary?.ready() === true;
+      },
+      null,
+      { timeout: 60_000 },
+    );
   }, 120_000);
 
   afterAll(async () => {
@@ -287,19 +342,26 @@ describe.skipIf(missing !== null)('a storage quota error while saving, in Chromi
     // About 2.9 MB (the save form's estimate), inside the quota.
     await save(page, 'saved before the quota');
     const before = await ids(page);
-    const { usage, quota } = (await cdp.send('Storage.getUsageAndQuota', { origin })) as { usage: number; quota: number };
+    const { usage, quota } = (await cdp.send('Storage.getUsageAndQuota', { origin })) as {
+      usage: number;
+      quota: number;
+    };
     expect(quota).toBe(QUOTA);
     // A long run (about 13 MB) needs more than is left.
     await load(page, scenarioFile(dir, 'quota long', 60, 12));
     await runToEnd(page);
     await pressSave(page, 'too big for the quota');
     await page.waitForFunction(
-      (n) => !['', 'saving…'].includes(document.getElementById('lib-save-msg')!.textContent ?? '') || (window as unknown as Win).__pycnoLibrary.runs().length !== n,
+      (n) =>
+        !['', 'saving…'].includes(document.getElementById('lib-save-msg')!.textContent ?? '') ||
+        (window as unknown as Win).__pycnoLibrary.runs().length !== n,
       before.length,
       { timeout: 30_000 },
     );
     const msg = (await page.textContent('#lib-save-msg'))!;
-    expect(msg, `usage before ${usage} of ${quota}`).toMatch(/^not saved: the browser's storage is full \(needs [\d.]+ [kMG]?B, about [\d.]+ [kMG]?B free\); delete old runs or save fewer snapshots$/);
+    expect(msg, `usage before ${usage} of ${quota}`).toMatch(
+      /^not saved: the browser's storage is full \(needs [\d.]+ [kMG]?B, about [\d.]+ [kMG]?B free\); delete old runs or save fewer snapshots$/,
+    );
     expect(await page.textContent('#messages')).toContain("the browser's storage is full");
     expect(await ids(page)).toEqual(before);
     expect(await openEach(page)).toEqual(['saved before the quota']);

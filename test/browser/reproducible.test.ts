@@ -18,7 +18,15 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
+import {
+  buildPage,
+  chromiumMissing,
+  isNoise,
+  launch,
+  ROOT,
+  servePage,
+  type Served,
+} from '../support/browser-harness.ts';
 import { Engine } from '../../worker/engine.ts';
 import { stateChecksum, type StateChecksum } from '../../worker/state-checksum.ts';
 import { readRestart } from '../../model/io/restart.ts';
@@ -93,124 +101,152 @@ type Pycno = { framesDrawn: number; status: string; stateChecksum(): Promise<Sta
 
 async function runInPage(page: Page, path: string, name: string): Promise<StateChecksum> {
   await page.setInputFiles('#scenario-file', path);
-  await page.waitForFunction((n) => document.getElementById('run-name')!.textContent === n && (window as unknown as { __pycno: Pycno }).__pycno.status === 'ready', name);
+  await page.waitForFunction(
+    (n) =>
+      document.getElementById('run-name')!.textContent === n &&
+      (window as unknown as { __pycno: Pycno }).__pycno.status === 'ready',
+    name,
+  );
   await page.selectOption('#speed', 'max');
   await page.click('#btn-run');
-  await page.waitForFunction(() => (window as unknown as { __pycno: Pycno }).__pycno.status === 'finished', null, { timeout: 120_000 });
+  await page.waitForFunction(() => (window as unknown as { __pycno: Pycno }).__pycno.status === 'finished', null, {
+    timeout: 120_000,
+  });
   return (await page.evaluate(() => (window as unknown as { __pycno: Pycno }).__pycno.stateChecksum()))!;
 }
 
-describe.skipIf(missing !== null)('the same state bits in the page worker, the Node engine and the command line', () => {
-  let served: Served;
-  let browser: Browser;
-  let page: Page;
-  const errors: string[] = [];
-  const dir = mkdtempSync(join(tmpdir(), 'pycno-repro-'));
+describe.skipIf(missing !== null)(
+  'the same state bits in the page worker, the Node engine and the command line',
+  () => {
+    let served: Served;
+    let browser: Browser;
+    let page: Page;
+    const errors: string[] = [];
+    const dir = mkdtempSync(join(tmpdir(), 'pycno-repro-'));
 
-  beforeAll(async () => {
-    served = await servePage(await buildPage());
-    browser = await launch();
-    page = await browser.newPage();
-    page.on('pageerror', (e) => errors.push(e.message));
-    page.on('console', (m) => {
-      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
-    });
-    await page.goto(served.url);
-    await page.waitForFunction(() => ((window as unknown as { __pycno?: Pycno }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 60_000 });
-  });
-
-  afterAll(async () => {
-    await browser?.close();
-    await served?.stop();
-    rmSync(dir, { recursive: true, force: true });
-  });
-
-  interface Three {
-    page: StateChecksum;
-    node: StateChecksum;
-    cli: StateChecksum;
-    atRest: string;
-    bursts: number;
-  }
-  const results = new Map<string, Three>();
-
-  /** The scenario through all three hosts (each once per test file). */
-  async function three(dynamics: 'linear' | 'nonlinear', wind: Wind): Promise<Three> {
-    const key = `${wind}-${dynamics}`;
-    const known = results.get(key);
-    if (known) return known;
-    const text = scenario(dynamics, wind);
-    const file = `${key}.json`;
-    const path = join(dir, file);
-    writeFileSync(path, text);
-    const page = await runInPage(pageOf(), path, JSON.parse(text).name);
-
-    const engine = new Engine({ host: fakeHost(3) });
-    const loaded = await engine.load(text, path);
-    expect(loaded.ok).toBe(true);
-    engine.start();
-    expect((await engine.idle()).status).toBe('finished');
-    const node = stateChecksum(engine.model!.state);
-
-    const out = spawnSync(process.execPath, [BIN, 'run', file, '--out', `${key}.nc`, '--restart-out', `${key}-end.nc`, '--quiet'], { cwd: dir, encoding: 'utf8', timeout: 120_000 });
-    expect(out.stderr).toBe('');
-    expect(out.status).toBe(0);
-    const cli = stateChecksum(readRestart(new Uint8Array(readFileSync(join(dir, `${key}-end.nc`))), engine.model!.grid));
-
-    const rest = new Engine({ host: fakeHost(3) });
-    await rest.load(text, path);
-    const r: Three = { page, node, cli, atRest: stateChecksum(rest.model!.state).sha256, bursts: loaded.ok ? loaded.scenario.bursts.length : 0 };
-    expect(page.values).toBe(3 * engine.model!.grid.size);
-    expect(page.step).toBeGreaterThan(100);
-    // The run moved: its state is not the state at rest.
-    expect(page.sha256).not.toBe(r.atRest);
-    expect(errors).toEqual([]);
-    results.set(key, r);
-    return r;
-  }
-  const pageOf = () => page;
-
-  for (const dynamics of ['linear', 'nonlinear'] as const) {
-    it(`${dynamics}, a wind of arithmetic only: the page's checksum equals the Node engine's and the command line's`, async () => {
-      const r = await three(dynamics, 'arithmetic');
-      expect(r.node).toEqual(r.page);
-      expect(r.cli).toEqual(r.page);
+    beforeAll(async () => {
+      served = await servePage(await buildPage());
+      browser = await launch();
+      page = await browser.newPage();
+      page.on('pageerror', (e) => errors.push(e.message));
+      page.on('console', (m) => {
+        if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text()))
+          errors.push(m.text());
+      });
+      await page.goto(served.url);
+      await page.waitForFunction(
+        () => ((window as unknown as { __pycno?: Pycno }).__pycno?.framesDrawn ?? 0) > 0,
+        null,
+        { timeout: 60_000 },
+      );
     });
 
-    it(`${dynamics}, seeded random bursts: the Node engine and the command line agree bit for bit`, async () => {
-      const r = await three(dynamics, 'bursts');
-      // The bursts really fall inside the run, so the checksum covers the random forcing.
-      expect(r.bursts).toBeGreaterThan(2);
-      expect(r.cli).toEqual(r.node);
-      expect(r.page.step).toBe(r.node.step);
+    afterAll(async () => {
+      await browser?.close();
+      await served?.stop();
+      rmSync(dir, { recursive: true, force: true });
     });
 
-    // Failed (a known defect) while the model called the host's Math.log / Math.exp.
-    it(`${dynamics}, seeded random bursts: the page's checksum equals the Node engine's`, async () => {
-      const r = await three(dynamics, 'bursts');
-      expect(r.page).toEqual(r.node);
-    });
+    interface Three {
+      page: StateChecksum;
+      node: StateChecksum;
+      cli: StateChecksum;
+      atRest: string;
+      bursts: number;
+    }
+    const results = new Map<string, Three>();
 
-    it(`${dynamics}, a formula wind through the elementary functions: the page, the Node engine and the command line agree`, async () => {
-      const r = await three(dynamics, 'formula');
-      expect(r.node).toEqual(r.page);
-      expect(r.cli).toEqual(r.page);
-    });
-  }
+    /** The scenario through all three hosts (each once per test file). */
+    async function three(dynamics: 'linear' | 'nonlinear', wind: Wind): Promise<Three> {
+      const key = `${wind}-${dynamics}`;
+      const known = results.get(key);
+      if (known) return known;
+      const text = scenario(dynamics, wind);
+      const file = `${key}.json`;
+      const path = join(dir, file);
+      writeFileSync(path, text);
+      const page = await runInPage(pageOf(), path, JSON.parse(text).name);
 
-  for (const dynamics of ['linear', 'nonlinear'] as const) {
-    it(`${dynamics}, bursts and an answering wind (the SST, Gill's atmosphere, the bulk drag): the page, the Node engine and the command line agree`, async () => {
-      const r = await three(dynamics, 'answering');
-      expect(r.node).toEqual(r.page);
-      expect(r.cli).toEqual(r.page);
-      // The answer changed the run: not the bursts-only state.
-      expect(r.node.sha256).not.toBe((await three(dynamics, 'bursts')).node.sha256);
-    });
-  }
+      const engine = new Engine({ host: fakeHost(3) });
+      const loaded = await engine.load(text, path);
+      expect(loaded.ok).toBe(true);
+      engine.start();
+      expect((await engine.idle()).status).toBe('finished');
+      const node = stateChecksum(engine.model!.state);
 
-  it('the checksum tells runs apart: the two schemes and the three winds end in six different states', async () => {
-    const all = [];
-    for (const wind of ['arithmetic', 'bursts', 'formula'] as const) for (const dynamics of ['linear', 'nonlinear'] as const) all.push(await three(dynamics, wind));
-    expect(new Set(all.map((r) => r.node.sha256)).size).toBe(6);
-  });
-});
+      const out = spawnSync(
+        process.execPath,
+        [BIN, 'run', file, '--out', `${key}.nc`, '--restart-out', `${key}-end.nc`, '--quiet'],
+        { cwd: dir, encoding: 'utf8', timeout: 120_000 },
+      );
+      expect(out.stderr).toBe('');
+      expect(out.status).toBe(0);
+      const cli = stateChecksum(
+        readRestart(new Uint8Array(readFileSync(join(dir, `${key}-end.nc`))), engine.model!.grid),
+      );
+
+      const rest = new Engine({ host: fakeHost(3) });
+      await rest.load(text, path);
+      const r: Three = {
+        page,
+        node,
+        cli,
+        atRest: stateChecksum(rest.model!.state).sha256,
+        bursts: loaded.ok ? loaded.scenario.bursts.length : 0,
+      };
+      expect(page.values).toBe(3 * engine.model!.grid.size);
+      expect(page.step).toBeGreaterThan(100);
+      // The run moved: its state is not the state at rest.
+      expect(page.sha256).not.toBe(r.atRest);
+      expect(errors).toEqual([]);
+      results.set(key, r);
+      return r;
+    }
+    const pageOf = () => page;
+
+    for (const dynamics of ['linear', 'nonlinear'] as const) {
+      it(`${dynamics}, a wind of arithmetic only: the page's checksum equals the Node engine's and the command line's`, async () => {
+        const r = await three(dynamics, 'arithmetic');
+        expect(r.node).toEqual(r.page);
+        expect(r.cli).toEqual(r.page);
+      });
+
+      it(`${dynamics}, seeded random bursts: the Node engine and the command line agree bit for bit`, async () => {
+        const r = await three(dynamics, 'bursts');
+        // The bursts really fall inside the run, so the checksum covers the random forcing.
+        expect(r.bursts).toBeGreaterThan(2);
+        expect(r.cli).toEqual(r.node);
+        expect(r.page.step).toBe(r.node.step);
+      });
+
+      // Failed (a known defect) while the model called the host's Math.log / Math.exp.
+      it(`${dynamics}, seeded random bursts: the page's checksum equals the Node engine's`, async () => {
+        const r = await three(dynamics, 'bursts');
+        expect(r.page).toEqual(r.node);
+      });
+
+      it(`${dynamics}, a formula wind through the elementary functions: the page, the Node engine and the command line agree`, async () => {
+        const r = await three(dynamics, 'formula');
+        expect(r.node).toEqual(r.page);
+        expect(r.cli).toEqual(r.page);
+      });
+    }
+
+    for (const dynamics of ['linear', 'nonlinear'] as const) {
+      it(`${dynamics}, bursts and an answering wind (the SST, Gill's atmosphere, the bulk drag): the page, the Node engine and the command line agree`, async () => {
+        const r = await three(dynamics, 'answering');
+        expect(r.node).toEqual(r.page);
+        expect(r.cli).toEqual(r.page);
+        // The answer changed the run: not the bursts-only state.
+        expect(r.node.sha256).not.toBe((await three(dynamics, 'bursts')).node.sha256);
+      });
+    }
+
+    it('the checksum tells runs apart: the two schemes and the three winds end in six different states', async () => {
+      const all = [];
+      for (const wind of ['arithmetic', 'bursts', 'formula'] as const)
+        for (const dynamics of ['linear', 'nonlinear'] as const) all.push(await three(dynamics, wind));
+      expect(new Set(all.map((r) => r.node.sha256)).size).toBe(6);
+    });
+  },
+);

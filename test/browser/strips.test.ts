@@ -26,7 +26,12 @@ interface EngineRun {
 }
 
 /** In the page: start the built engine worker, load, run to the end, return the h anomaly field. */
-async function runEngine(page: Page, workerPath: string, scenario: string, threads: number | 'auto'): Promise<EngineRun> {
+async function runEngine(
+  page: Page,
+  workerPath: string,
+  scenario: string,
+  threads: number | 'auto',
+): Promise<EngineRun> {
   return page.evaluate(
     async ({ workerPath, scenario, sets, threads }) => {
       const w = new Worker(workerPath, { type: 'module' });
@@ -41,7 +46,12 @@ async function runEngine(page: Page, workerPath: string, scenario: string, threa
             else resolve(e.data.value);
           };
           w.addEventListener('message', on);
-          w.postMessage({ id, type: 'APPLY', path: [name], argumentList: args.map((value) => ({ type: 'RAW', value })) });
+          w.postMessage({
+            id,
+            type: 'APPLY',
+            path: [name],
+            argumentList: args.map((value) => ({ type: 'RAW', value })),
+          });
         });
       try {
         const loaded = await call('load', scenario, 'kelvin-pulse.json', { sets, threads });
@@ -50,7 +60,13 @@ async function runEngine(page: Page, workerPath: string, scenario: string, threa
         await call('start');
         const end = await call('idle');
         const frame = await call('currentFrame');
-        return { ok: true, notes: loaded.scenario.notes ?? [], step: end.step, status: end.status, h: frame?.fields?.h_anom ? Array.from(frame.fields.h_anom as Float32Array) : null };
+        return {
+          ok: true,
+          notes: loaded.scenario.notes ?? [],
+          step: end.step,
+          status: end.status,
+          h: frame?.fields?.h_anom ? Array.from(frame.fields.h_anom as Float32Array) : null,
+        };
       } finally {
         w.terminate();
       }
@@ -61,7 +77,12 @@ async function runEngine(page: Page, workerPath: string, scenario: string, threa
 
 /** The built folder served without COOP/COEP: the page is not cross-origin isolated. */
 function servePlain(dir: string): Promise<{ url: string; server: Server }> {
-  const types: Record<string, string> = { '.html': 'text/html', '.js': 'text/javascript', '.css': 'text/css', '.json': 'application/json' };
+  const types: Record<string, string> = {
+    '.html': 'text/html',
+    '.js': 'text/javascript',
+    '.css': 'text/css',
+    '.json': 'application/json',
+  };
   const server = createServer((req, res) => {
     const path = new URL(req.url ?? '/', 'http://x').pathname;
     try {
@@ -71,7 +92,11 @@ function servePlain(dir: string): Promise<{ url: string; server: Server }> {
       res.writeHead(404).end();
     }
   });
-  return new Promise((resolve) => server.listen(0, '127.0.0.1', () => resolve({ url: `http://127.0.0.1:${(server.address() as { port: number }).port}/`, server })));
+  return new Promise((resolve) =>
+    server.listen(0, '127.0.0.1', () =>
+      resolve({ url: `http://127.0.0.1:${(server.address() as { port: number }).port}/`, server }),
+    ),
+  );
 }
 
 describe.skipIf(missing !== null)('the page engine with strip workers', () => {
@@ -95,7 +120,8 @@ describe.skipIf(missing !== null)('the page engine with strip workers', () => {
     page.on('pageerror', (e) => errors.push(e.message));
     page.on('console', (m) => {
       // (a 404 is the page's missing favicon)
-      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
+      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text()))
+        errors.push(m.text());
     });
   }, 180_000);
 
@@ -134,6 +160,8 @@ describe.skipIf(missing !== null)('the page engine with strip workers', () => {
     const run = await runEngine(page, workerPath, scenario, 2);
     expect(run.ok).toBe(true);
     expect(run.status).toBe('finished');
-    expect(run.notes.join('\n')).toMatch(/threads 2: the page is not cross-origin isolated .*the step runs on one thread/);
+    expect(run.notes.join('\n')).toMatch(
+      /threads 2: the page is not cross-origin isolated .*the step runs on one thread/,
+    );
   }, 240_000);
 });

@@ -5,7 +5,16 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
+import {
+  ARTIFACTS,
+  buildPage,
+  chromiumMissing,
+  isNoise,
+  launch,
+  ROOT,
+  servePage,
+  type Served,
+} from '../support/browser-harness.ts';
 import { EARTH } from '../../model/config.ts';
 
 const missing = chromiumMissing();
@@ -24,7 +33,11 @@ interface Info {
 const info = (page: Page) => page.evaluate(() => (window as unknown as { __pycno: Info }).__pycno);
 
 /** Pixels of the WebGL canvas inside a lon/lat box (the canvas keeps its drawing buffer). */
-async function pixelsIn(page: Page, box: { lonW: number; lonE: number; latS: number; latN: number }, basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number }) {
+async function pixelsIn(
+  page: Page,
+  box: { lonW: number; lonE: number; latS: number; latN: number },
+  basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number },
+) {
   return page.evaluate(
     ({ box, basin }) => {
       const gl = document.getElementById('map-gl') as HTMLCanvasElement;
@@ -50,10 +63,18 @@ async function pixelsIn(page: Page, box: { lonW: number; lonE: number; latS: num
   );
 }
 
-async function mapPoint(page: Page, lon: number, lat: number, basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number }) {
+async function mapPoint(
+  page: Page,
+  lon: number,
+  lat: number,
+  basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number },
+) {
   const plot = await page.getAttribute('#map-gl', 'data-plot');
   const [left, top, width, height] = plot!.split(',').map(Number);
-  return { x: left + ((lon - basin.lonWest) / (basin.lonEast - basin.lonWest)) * width, y: top + ((basin.latNorth - lat) / (basin.latNorth - basin.latSouth)) * height };
+  return {
+    x: left + ((lon - basin.lonWest) / (basin.lonEast - basin.lonWest)) * width,
+    y: top + ((basin.latNorth - lat) / (basin.latNorth - basin.latSouth)) * height,
+  };
 }
 
 const shot = (page: Page, name: string) => page.screenshot({ path: join(ARTIFACTS, name), fullPage: true });
@@ -73,7 +94,8 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     page.on('pageerror', (e) => pageErrors.push(e.message));
     page.on('console', (m) => {
-      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) consoleErrors.push(m.text());
+      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text()))
+        consoleErrors.push(m.text());
     });
   });
 
@@ -84,7 +106,9 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
 
   it('loads with the default scenario ready, the map white at rest', async () => {
     await page.goto(served.url);
-    await page.waitForFunction(() => ((window as unknown as { __pycno?: Info }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: Info }).__pycno?.framesDrawn ?? 0) > 0, null, {
+      timeout: 30_000,
+    });
     const i = await info(page);
     expect(i.status).toBe('ready');
     expect(await page.textContent('#run-name')).toBe(burst.name);
@@ -106,7 +130,9 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
       (self as unknown as { __sent: typeof s }).__sent = s;
       const orig = MessagePort.prototype.postMessage;
       MessagePort.prototype.postMessage = function (this: MessagePort, msg: unknown, transfer?: unknown) {
-        const list = (Array.isArray(transfer) ? transfer : ((transfer as { transfer?: unknown[] })?.transfer ?? [])) as unknown[];
+        const list = (
+          Array.isArray(transfer) ? transfer : ((transfer as { transfer?: unknown[] })?.transfer ?? [])
+        ) as unknown[];
         const bufs = list.filter((b): b is ArrayBuffer => b instanceof ArrayBuffer);
         const sizes = bufs.reduce((a, b) => a + b.byteLength, 0);
         orig.call(this, msg, transfer as StructuredSerializeOptions);
@@ -130,37 +156,53 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
         last = now;
       }, 20);
       try {
-        new PerformanceObserver((l) => (w.__jitter.longTasks += l.getEntries().length)).observe({ type: 'longtask', buffered: false });
+        new PerformanceObserver((l) => (w.__jitter.longTasks += l.getEntries().length)).observe({
+          type: 'longtask',
+          buffered: false,
+        });
       } catch {
         /* long-task timing is optional */
       }
     });
     await page.selectOption('#speed', '20');
     await page.click('#btn-run');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 42, null, { timeout: 60_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 42, null, {
+      timeout: 60_000,
+    });
     // Pause first: a full-page screenshot is slow on a loaded machine, and the wave must not have
     // reached the coast (about day 68) by the time the map is read.
     await page.click('#btn-pause');
     await shot(page, '02-running.png');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'paused', null, { timeout: 10_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'paused', null, {
+      timeout: 10_000,
+    });
     // Let the last frame reach the canvas before reading it: on a loaded machine the draw can lag.
-    await page.waitForFunction(() => {
-      const p = (window as unknown as { __pycno: Info }).__pycno;
-      return p.shownDay === p.lastDay;
-    }, null, { timeout: 10_000 });
+    await page.waitForFunction(
+      () => {
+        const p = (window as unknown as { __pycno: Info }).__pycno;
+        return p.shownDay === p.lastDay;
+      },
+      null,
+      { timeout: 10_000 },
+    );
     await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
     const i = await info(page);
     expect(i.framesReceived).toBeGreaterThan(5);
     expect(i.framesDrawn).toBeGreaterThan(2);
 
-    const sent = await worker.evaluate(() => (self as unknown as { __sent: { posts: number; buffers: number; bytes: number; detached: number } }).__sent);
+    const sent = await worker.evaluate(
+      () => (self as unknown as { __sent: { posts: number; buffers: number; bytes: number; detached: number } }).__sent,
+    );
     expect(sent.posts).toBeGreaterThan(3);
     expect(sent.detached).toBe(sent.buffers);
-    const nxny = ((basin.lonEast - basin.lonWest) / basin.resolution) * ((basin.latNorth - basin.latSouth) / basin.resolution);
+    const nxny =
+      ((basin.lonEast - basin.lonWest) / basin.resolution) * ((basin.latNorth - basin.latSouth) / basin.resolution);
     expect(sent.bytes).toBeGreaterThanOrEqual(sent.posts * nxny * 4);
 
     // Generous on purpose: a behaviour check that the page never blocks, not a speed target.
-    const jitter = await page.evaluate(() => (window as unknown as { __jitter: { worst: number; ticks: number } }).__jitter);
+    const jitter = await page.evaluate(
+      () => (window as unknown as { __jitter: { worst: number; ticks: number } }).__jitter,
+    );
     expect(jitter.ticks).toBeGreaterThan(20);
     expect(jitter.worst).toBeLessThan(1500);
 
@@ -186,10 +228,16 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
 
   it('the derived numbers show the western boundary layer, and say what to raise when it is unresolved', async () => {
     const derived = page.locator('#derived');
-    await expect.poll(() => derived.textContent()).toMatch(/Western boundary layer[\d.]+ km \(Munk\), 1\.\d\d \u00d7 dx/);
+    await expect
+      .poll(() => derived.textContent())
+      .toMatch(/Western boundary layer[\d.]+ km \(Munk\), 1\.\d\d \u00d7 dx/);
     const box = page.locator('input[name="physics.viscosity"]');
     await box.fill('0');
-    await expect.poll(() => derived.textContent()).toMatch(/Unresolved: the western boundary layer is narrower than one grid interval.*raise physics\.viscosity to at least 4000 m2\/s/);
+    await expect
+      .poll(() => derived.textContent())
+      .toMatch(
+        /Unresolved: the western boundary layer is narrower than one grid interval.*raise physics\.viscosity to at least 4000 m2\/s/,
+      );
     await page.click('#btn-revert');
     await expect.poll(() => derived.textContent()).not.toMatch(/Unresolved/);
   });
@@ -199,7 +247,9 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     const memory = async () => Number(/Solver memory([\d.]+) MB/.exec((await derived.textContent()) ?? '')?.[1]);
     const before = await memory();
     expect(before).toBeGreaterThan(0);
-    expect(await page.$eval('select[name="numerics.precision"]', (s) => (s as HTMLSelectElement).value)).toBe('float64');
+    expect(await page.$eval('select[name="numerics.precision"]', (s) => (s as HTMLSelectElement).value)).toBe(
+      'float64',
+    );
     await page.selectOption('select[name="numerics.precision"]', 'float32');
     await expect.poll(memory).toBeLessThan(before);
     await page.click('#btn-revert');
@@ -213,18 +263,24 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     // a step still runs asks for the same pause, not another step).
     for (const k of [1, 2]) {
       await page.click('#btn-step');
-      await page.waitForFunction((n) => Number(document.getElementById('hovmoller')!.dataset.rows) >= n, before + k, { timeout: 20_000 });
+      await page.waitForFunction((n) => Number(document.getElementById('hovmoller')!.dataset.rows) >= n, before + k, {
+        timeout: 20_000,
+      });
     }
   });
 
   it('any latitude can get its own Hovmoller diagram: earlier days from the kept frames, later ones as the run goes', async () => {
     await page.fill('#hov-lat-other', '4');
     await page.click('#btn-hov-lat');
-    await expect.poll(async () => page.$eval('#hov-lat', (s) => (s as HTMLSelectElement).selectedOptions[0]?.textContent ?? '')).toMatch(/^4(\.\d+)?°N$/);
+    await expect
+      .poll(async () => page.$eval('#hov-lat', (s) => (s as HTMLSelectElement).selectedOptions[0]?.textContent ?? ''))
+      .toMatch(/^4(\.\d+)?°N$/);
     const rows = Number(await page.getAttribute('#hovmoller', 'data-rows'));
     expect(rows).toBeGreaterThan(10);
     await page.click('#btn-step');
-    await page.waitForFunction((n) => Number(document.getElementById('hovmoller')!.dataset.rows) >= n + 1, rows, { timeout: 20_000 });
+    await page.waitForFunction((n) => Number(document.getElementById('hovmoller')!.dataset.rows) >= n + 1, rows, {
+      timeout: 20_000,
+    });
     // A latitude outside the basin is refused with a message, and the page goes on.
     await page.fill('#hov-lat-other', '80');
     await page.click('#btn-hov-lat');
@@ -237,12 +293,18 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     const series = Number(await page.getAttribute('#probe-chart', 'data-series'));
     const p = await mapPoint(page, 100, 0.2, basin);
     await page.click('#map-gl', { position: p });
-    await page.waitForFunction((n) => Number(document.getElementById('probe-chart')!.dataset.series) === n + 1, series, { timeout: 10_000 });
+    await page.waitForFunction(
+      (n) => Number(document.getElementById('probe-chart')!.dataset.series) === n + 1,
+      series,
+      { timeout: 10_000 },
+    );
     const item = page.locator('#probe-list li', { hasText: 'P1' });
     await expect.poll(async () => Number(await item.getAttribute('data-points'))).toBeGreaterThan(0);
     const n0 = Number(await item.getAttribute('data-points'));
     await page.click('#btn-step');
-    await expect.poll(async () => Number(await item.getAttribute('data-points')), { timeout: 20_000 }).toBeGreaterThan(n0);
+    await expect
+      .poll(async () => Number(await item.getAttribute('data-points')), { timeout: 20_000 })
+      .toBeGreaterThan(n0);
     // The read-out follows the click: longitude and every field's value.
     const readout = await page.textContent('#readout');
     expect(readout).toMatch(/(99|100)(\.\d+)?°E/);
@@ -288,35 +350,47 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     const file = join(ARTIFACTS, 'layer-runs-dry.json');
     writeFileSync(file, JSON.stringify(bad, null, 2));
     await page.setInputFiles('#scenario-file', file);
-    await page.waitForFunction(() => document.getElementById('run-name')!.textContent === 'Layer runs dry', null, { timeout: 20_000 });
+    await page.waitForFunction(() => document.getElementById('run-name')!.textContent === 'Layer runs dry', null, {
+      timeout: 20_000,
+    });
     await page.selectOption('#speed', 'max');
     await page.click('#btn-run');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'failed', null, { timeout: 60_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'failed', null, {
+      timeout: 60_000,
+    });
     const text = await page.textContent('#messages');
     expect(text).toMatch(/blew up on day [\d.]+ at .*upper layer vanished/);
     await shot(page, '06-blow-up.png');
     // Still usable: pick the default scenario again and run it.
     await page.selectOption('#scenario-pick', 'westerly-burst.json');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, { timeout: 20_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, {
+      timeout: 20_000,
+    });
     const before = (await info(page)).framesReceived;
     await page.click('#btn-run');
-    await page.waitForFunction((n) => (window as unknown as { __pycno: Info }).__pycno.framesReceived > n + 3, before, { timeout: 30_000 });
+    await page.waitForFunction((n) => (window as unknown as { __pycno: Info }).__pycno.framesReceived > n + 3, before, {
+      timeout: 30_000,
+    });
     await page.click('#btn-pause');
     expect(pageErrors).toEqual([]);
     expect(consoleErrors).toEqual([]);
   });
 
-  it('a shipped scenario that starts from another one\'s spin-up loads: the worker runs the spin-up first', async () => {
+  it("a shipped scenario that starts from another one's spin-up loads: the worker runs the spin-up first", async () => {
     const errorsBefore = (await info(page)).errors.length;
     await page.selectOption('#scenario-pick', 'trade-relaxation.json');
     // Loaded (its name shows) or refused (a message): whichever comes first.
     await page.waitForFunction(
-      (n) => /relax/i.test(document.getElementById('run-name')!.textContent ?? '') || (window as unknown as { __pycno: Info }).__pycno.errors.length > n,
+      (n) =>
+        /relax/i.test(document.getElementById('run-name')!.textContent ?? '') ||
+        (window as unknown as { __pycno: Info }).__pycno.errors.length > n,
       errorsBefore,
       { timeout: 120_000 },
     );
     expect((await info(page)).errors.slice(errorsBefore)).toEqual([]);
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, { timeout: 30_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status === 'ready', null, {
+      timeout: 30_000,
+    });
     // The spun-up trades tilt the thermocline: deep (red) in the west, shallow (blue) in the east.
     const tradeBasin = { lonWest: 0, lonEast: 140, latSouth: -25, latNorth: 25 };
     await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
@@ -327,7 +401,9 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     await shot(page, '06a-spun-up.png');
     await page.selectOption('#scenario-pick', 'westerly-burst.json');
     await page.waitForFunction(
-      (name) => document.getElementById('run-name')!.textContent === name && (window as unknown as { __pycno: Info }).__pycno.status === 'ready',
+      (name) =>
+        document.getElementById('run-name')!.textContent === name &&
+        (window as unknown as { __pycno: Info }).__pycno.status === 'ready',
       burst.name,
       { timeout: 30_000 },
     );
@@ -339,7 +415,9 @@ describe.skipIf(missing !== null)('the page in Chromium', () => {
     bad.physics.reducedGravity = -1;
     writeFileSync(file, JSON.stringify(bad, null, 2));
     await page.setInputFiles('#scenario-file', file);
-    await expect.poll(() => page.textContent('#messages')).toMatch(/bad-gravity\.json: line \d+: physics\.reducedGravity: must be > 0/);
+    await expect
+      .poll(() => page.textContent('#messages'))
+      .toMatch(/bad-gravity\.json: line \d+: physics\.reducedGravity: must be > 0/);
     expect(await page.textContent('#run-name')).toBe(burst.name);
   });
 

@@ -11,7 +11,16 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { mapColour } from '../../model/display/colour-maps.ts';
-import { ARTIFACTS, buildPage, chromiumMissing, isNoise, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
+import {
+  ARTIFACTS,
+  buildPage,
+  chromiumMissing,
+  isNoise,
+  launch,
+  ROOT,
+  servePage,
+  type Served,
+} from '../support/browser-harness.ts';
 import { Engine } from '../../worker/engine.ts';
 import type { Frame } from '../../worker/protocol.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
@@ -30,7 +39,10 @@ async function mapPoint(page: Page, lon: number, lat: number) {
   const plot = (await page.getAttribute('#map-gl', 'data-plot'))!.split(',').map(Number);
   const box = (await page.locator('#map-gl').boundingBox())!;
   const [left, top, width, height] = plot;
-  return { x: box.x + left + ((lon - basin.lonWest) / (basin.lonEast - basin.lonWest)) * width, y: box.y + top + ((basin.latNorth - lat) / (basin.latNorth - basin.latSouth)) * height };
+  return {
+    x: box.x + left + ((lon - basin.lonWest) / (basin.lonEast - basin.lonWest)) * width,
+    y: box.y + top + ((basin.latNorth - lat) / (basin.latNorth - basin.latSouth)) * height,
+  };
 }
 
 /** The WebGL canvas's colour at a lon/lat (the canvas keeps its drawing buffer). */
@@ -54,7 +66,8 @@ async function colourAt(page: Page, lon: number, lat: number): Promise<[number, 
   );
 }
 
-const design = (page: Page) => page.evaluate(() => JSON.parse((window as unknown as { __pycnoWind: { json(): string } }).__pycnoWind.json()));
+const design = (page: Page) =>
+  page.evaluate(() => JSON.parse((window as unknown as { __pycnoWind: { json(): string } }).__pycnoWind.json()));
 const partAt = async (page: Page, k: number) => (await design(page)).wind.parts[k];
 
 async function drag(page: Page, from: [number, number], to: [number, number]) {
@@ -83,10 +96,15 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
     page = await browser.newPage({ viewport: { width: 1280, height: 1000 }, acceptDownloads: true });
     page.on('pageerror', (e) => errors.push(e.message));
     page.on('console', (m) => {
-      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text())) errors.push(m.text());
+      if (m.type() === 'error' && !isNoise(m.text()) && !/Failed to load resource.*404/.test(m.text()))
+        errors.push(m.text());
     });
     await page.goto(served.url);
-    await page.waitForFunction(() => ((window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(
+      () => ((window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn ?? 0) > 0,
+      null,
+      { timeout: 30_000 },
+    );
   });
 
   afterAll(async () => {
@@ -153,8 +171,15 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
     await page.click('input[name="wd-tool"][value="off"]');
     await page.check('#wd-preview-on');
     await page.fill('#wd-preview-day', '15');
-    await page.waitForFunction(() => (window as unknown as { __pycnoWind: { preview(): { day: number } | null } }).__pycnoWind.preview()?.day === 15);
-    const pv = await page.evaluate(() => (window as unknown as { __pycnoWind: { preview(): { peak: { value: number; lon: number; lat: number } } } }).__pycnoWind.preview());
+    await page.waitForFunction(
+      () =>
+        (window as unknown as { __pycnoWind: { preview(): { day: number } | null } }).__pycnoWind.preview()?.day === 15,
+    );
+    const pv = await page.evaluate(() =>
+      (
+        window as unknown as { __pycnoWind: { preview(): { peak: { value: number; lon: number; lat: number } } } }
+      ).__pycnoWind.preview(),
+    );
     expect(pv.peak.value).toBeCloseTo(0.05, 3);
     expect(pv.peak.lon).toBeCloseTo(30, 0);
     // The map is redrawn after the preview was computed: ask for a redraw and let two animation
@@ -180,28 +205,56 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
     // "Apply and run": the design from day 0, and the run goes at once.
     await page.click('#wd-apply');
     await expect.poll(() => page.textContent('#wd-note')).toBe('');
-    await page.waitForFunction(() => (window as unknown as { __pycno: { status: string } }).__pycno.status === 'finished', null, { timeout: 120_000 });
-    await page.waitForFunction(() => (window as unknown as { __pycno: { hAnomChecksum(): { day: number } | null } }).__pycno.hAnomChecksum()?.day === 12);
-    pageRun = await page.evaluate(() => (window as unknown as { __pycno: { hAnomChecksum(): { day: number; step: number; checksum: string } } }).__pycno.hAnomChecksum());
+    await page.waitForFunction(
+      () => (window as unknown as { __pycno: { status: string } }).__pycno.status === 'finished',
+      null,
+      { timeout: 120_000 },
+    );
+    await page.waitForFunction(
+      () =>
+        (window as unknown as { __pycno: { hAnomChecksum(): { day: number } | null } }).__pycno.hAnomChecksum()?.day ===
+        12,
+    );
+    pageRun = await page.evaluate(() =>
+      (
+        window as unknown as { __pycno: { hAnomChecksum(): { day: number; step: number; checksum: string } } }
+      ).__pycno.hAnomChecksum(),
+    );
 
     const [download] = await Promise.all([page.waitForEvent('download'), page.click('#wd-save')]);
     const path = join(dir, 'saved.json');
     await download.saveAs(path);
     savedText = readFileSync(path, 'utf8');
     // The design, under a name of its own: the wind was edited, so the file is named after the edit.
-    const composed = JSON.parse(await page.evaluate(() => (window as unknown as { __pycnoWind: { json(): string } }).__pycnoWind.json()));
+    const composed = JSON.parse(
+      await page.evaluate(() => (window as unknown as { __pycnoWind: { json(): string } }).__pycnoWind.json()),
+    );
     const saved = JSON.parse(savedText);
     expect(download.suggestedFilename()).toMatch(/-edited\.json$/);
     expect(saved).toEqual({ ...composed, name: `${composed.name} (edited)` });
     expect(saved.time.days).toBe(12);
-    expect(saved.wind.parts.map((p: { source: { kind: string; shape?: { kind: string } } }) => p.source.shape?.kind ?? p.source.kind)).toEqual(['patch', 'painted', 'band']);
+    expect(
+      saved.wind.parts.map(
+        (p: { source: { kind: string; shape?: { kind: string } } }) => p.source.shape?.kind ?? p.source.kind,
+      ),
+    ).toEqual(['patch', 'painted', 'band']);
 
     // Load the saved file as a user would: the panel shows it, and composes the same text.
     await page.reload();
-    await page.waitForFunction(() => ((window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 30_000 });
+    await page.waitForFunction(
+      () => ((window as unknown as { __pycno?: { framesDrawn: number } }).__pycno?.framesDrawn ?? 0) > 0,
+      null,
+      { timeout: 30_000 },
+    );
     await page.setInputFiles('#scenario-file', path);
-    await page.waitForFunction(() => (document.getElementById('scenario-pick') as HTMLSelectElement).value === 'opened:saved.json' || (window as unknown as { __pycno: { errors: string[] } }).__pycno.errors.length > 0);
-    await expect.poll(() => page.evaluate(() => (window as unknown as { __pycnoWind: { json(): string } }).__pycnoWind.json())).toBe(savedText);
+    await page.waitForFunction(
+      () =>
+        (document.getElementById('scenario-pick') as HTMLSelectElement).value === 'opened:saved.json' ||
+        (window as unknown as { __pycno: { errors: string[] } }).__pycno.errors.length > 0,
+    );
+    await expect
+      .poll(() => page.evaluate(() => (window as unknown as { __pycnoWind: { json(): string } }).__pycnoWind.json()))
+      .toBe(savedText);
     expect(errors).toEqual([]);
   });
 
@@ -220,7 +273,11 @@ describe.skipIf(missing !== null)('designing the wind in the page', () => {
     expect({ day: final.day, step: final.step, checksum: fieldChecksum(final.fields.h_anom!) }).toEqual(pageRun);
 
     // The command line writes the same final h_anom (float32, land as the fill value).
-    const out = spawnSync(process.execPath, [BIN, 'run', 'saved.json', '--out', 'x.nc', '--quiet'], { cwd: dir, encoding: 'utf8', timeout: 120_000 });
+    const out = spawnSync(process.execPath, [BIN, 'run', 'saved.json', '--out', 'x.nc', '--quiet'], {
+      cwd: dir,
+      encoding: 'utf8',
+      timeout: 120_000,
+    });
     expect(out.stderr).toBe('');
     expect(out.status).toBe(0);
     const nc = readNetcdf(new Uint8Array(readFileSync(join(dir, 'x.nc'))));

@@ -12,7 +12,15 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { roundUp } from '../../model/display/conventions.ts';
-import { ARTIFACTS, buildPage, chromiumMissing, launch, ROOT, servePage, type Served } from '../support/browser-harness.ts';
+import {
+  ARTIFACTS,
+  buildPage,
+  chromiumMissing,
+  launch,
+  ROOT,
+  servePage,
+  type Served,
+} from '../support/browser-harness.ts';
 
 const missing = chromiumMissing();
 if (missing) console.warn(`browser tests skipped: ${missing}`);
@@ -30,7 +38,11 @@ const arrows = (page: Page) => page.evaluate(() => (window as unknown as { __pyc
 const status = (page: Page) => page.evaluate(() => (window as unknown as { __pycno: Info }).__pycno.status);
 
 /** The element's box in the viewport. */
-const box = (page: Page, sel: string) => page.$eval(sel, (e) => { const r = e.getBoundingClientRect(); return { top: r.top, bottom: r.bottom, left: r.left, right: r.right, width: r.width, height: r.height }; });
+const box = (page: Page, sel: string) =>
+  page.$eval(sel, (e) => {
+    const r = e.getBoundingClientRect();
+    return { top: r.top, bottom: r.bottom, left: r.left, right: r.right, width: r.width, height: r.height };
+  });
 
 function inViewport(b: { top: number; bottom: number; left: number; right: number }, w: number, h: number): boolean {
   return b.top >= 0 && b.left >= 0 && b.bottom <= h + 0.5 && b.right <= w + 0.5;
@@ -56,10 +68,13 @@ describe.skipIf(missing !== null)('the workbench in Chromium', () => {
     page.on('pageerror', (e) => errors.push(e.message));
     page.on('console', (m) => {
       // Every console error counts here, a favicon 404 or a CSP refusal included.
-      if (m.type() === 'error' && !/GPU stall|GroupMarkerNotSet|Automatic fallback/.test(m.text())) errors.push(m.text());
+      if (m.type() === 'error' && !/GPU stall|GroupMarkerNotSet|Automatic fallback/.test(m.text()))
+        errors.push(m.text());
     });
     await page.goto(served.url);
-    await page.waitForFunction(() => ((window as unknown as { __pycno?: Info }).__pycno?.framesDrawn ?? 0) > 0, null, { timeout: 60_000 });
+    await page.waitForFunction(() => ((window as unknown as { __pycno?: Info }).__pycno?.framesDrawn ?? 0) > 0, null, {
+      timeout: 60_000,
+    });
     return page;
   }
 
@@ -67,9 +82,18 @@ describe.skipIf(missing !== null)('the workbench in Chromium', () => {
     const page = await open(1440, 900);
     await page.selectOption('#speed', '20');
     await page.click('#btn-run');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 25, null, { timeout: 60_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 25, null, {
+      timeout: 60_000,
+    });
     expect(await status(page)).toBe('running');
-    for (const sel of ['#map-gl', '#colour-bar', '#hovmoller', '#probe-chart canvas', '#probe-panel .probe-legend', '.hov-panel .legend']) {
+    for (const sel of [
+      '#map-gl',
+      '#colour-bar',
+      '#hovmoller',
+      '#probe-chart canvas',
+      '#probe-panel .probe-legend',
+      '.hov-panel .legend',
+    ]) {
       expect(inViewport(await box(page, sel), 1440, 900), `${sel} in the first viewport`).toBe(true);
     }
     expect(await page.$eval('#hovmoller', (c) => Number((c as HTMLCanvasElement).dataset.rows))).toBeGreaterThan(20);
@@ -93,10 +117,17 @@ describe.skipIf(missing !== null)('the workbench in Chromium', () => {
     const day = Math.floor((await info(page)).lastDay);
     const plot = (await page.getAttribute('#map-gl', 'data-plot'))!.split(',').map(Number);
     const b = burst.basin;
-    await page.click('#map-gl', { position: { x: plot[0] + ((100 - b.lonWest) / (b.lonEast - b.lonWest)) * plot[2], y: plot[1] + ((b.latNorth - 0.2) / (b.latNorth - b.latSouth)) * plot[3] } });
+    await page.click('#map-gl', {
+      position: {
+        x: plot[0] + ((100 - b.lonWest) / (b.lonEast - b.lonWest)) * plot[2],
+        y: plot[1] + ((b.latNorth - 0.2) / (b.latNorth - b.latSouth)) * plot[3],
+      },
+    });
     const item = page.locator('#probe-list li', { hasText: 'P1' });
     await expect.poll(async () => Number(await item.getAttribute('data-points'))).toBe(day + 1);
-    expect(await item.textContent()).toMatch(/P1 \(\d+(\.\d+)?°E, 0\.25°N\), days 0 to \d+ from the page’s maps of every output/);
+    expect(await item.textContent()).toMatch(
+      /P1 \(\d+(\.\d+)?°E, 0\.25°N\), days 0 to \d+ from the page’s maps of every output/,
+    );
     // Pointing at an early day of the chart: the late probe has a value there, not a blank.
     const chart = await box(page, '#probe-chart .u-over');
     await page.mouse.move(chart.left + chart.width * 0.1, chart.top + chart.height / 2);
@@ -122,10 +153,19 @@ describe.skipIf(missing !== null)('the workbench in Chromium', () => {
 
   it('help, favicon, full description, long names in their boxes, a value typed at "ready to run" kept', async () => {
     const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
-    page.on('console', (m) => m.type() === 'error' && !/GPU stall|GroupMarkerNotSet|Automatic fallback/.test(m.text()) && errors.push(m.text()));
+    page.on(
+      'console',
+      (m) =>
+        m.type() === 'error' &&
+        !/GPU stall|GroupMarkerNotSet|Automatic fallback/.test(m.text()) &&
+        errors.push(m.text()),
+    );
     await page.goto(served.url);
     // Type the moment the page says it is ready: the value must stay in its box.
-    await page.waitForFunction(() => document.getElementById('status')!.textContent === 'ready to run', null, { timeout: 60_000, polling: 5 });
+    await page.waitForFunction(() => document.getElementById('status')!.textContent === 'ready to run', null, {
+      timeout: 60_000,
+      polling: 5,
+    });
     await page.fill('input[name="physics.reducedGravity"]', '0.04');
     await page.waitForFunction(() => ((window as unknown as { __pycno: Info }).__pycno.framesDrawn ?? 0) > 0);
     await page.waitForTimeout(500);
@@ -133,14 +173,23 @@ describe.skipIf(missing !== null)('the workbench in Chromium', () => {
     expect(await page.isVisible('#restart-note')).toBe(true);
     await page.click('#btn-revert');
 
-    expect(await page.evaluate(async () => (await fetch((document.querySelector('link[rel="icon"]') as HTMLLinkElement).href)).ok)).toBe(true);
-    const desc = await page.$eval('#scenario-description', (e) => ({ text: e.textContent, cut: e.scrollHeight > e.clientHeight + 1 }));
+    expect(
+      await page.evaluate(
+        async () => (await fetch((document.querySelector('link[rel="icon"]') as HTMLLinkElement).href)).ok,
+      ),
+    ).toBe(true);
+    const desc = await page.$eval('#scenario-description', (e) => ({
+      text: e.textContent,
+      cut: e.scrollHeight > e.clientHeight + 1,
+    }));
     expect(desc.text).toBe(burst.description);
     expect(desc.cut).toBe(false);
     // The wind part's name box shows the whole name.
     const name = page.locator('#wind-panel .wd-field[data-path="name"] input');
     expect(await name.inputValue()).toBe('westerly burst');
-    expect(await name.evaluate((e) => (e as HTMLInputElement).scrollWidth <= (e as HTMLInputElement).clientWidth)).toBe(true);
+    expect(await name.evaluate((e) => (e as HTMLInputElement).scrollWidth <= (e as HTMLInputElement).clientWidth)).toBe(
+      true,
+    );
 
     // Help from the page: the docs, and a formula hint that opens the formula section.
     await page.click('#btn-help');
@@ -166,11 +215,15 @@ describe.skipIf(missing !== null)('the workbench in Chromium', () => {
     await expect.poll(() => page.isDisabled('#wd-apply')).toBe(true);
     expect(await f.inputValue()).toBe('lat^^2');
     expect(await page.locator('#wind-panel .wd-formula.invalid').count()).toBe(1);
-    expect(await page.textContent('#wind-panel .wd-formula')).toMatch(/'\^' must be followed by a number, a name or a bracket/);
+    expect(await page.textContent('#wind-panel .wd-formula')).toMatch(
+      /'\^' must be followed by a number, a name or a bracket/,
+    );
     expect(await page.textContent('#wind-panel .wd-formula')).not.toMatch(/\*\*/);
     expect(await page.locator('#wd-parts li.wd-part').nth(1).getAttribute('class')).toMatch(/invalid/);
     expect(await page.textContent('#wd-parts li.wd-part:nth-child(2) .wd-pick')).toMatch(/^2\. /);
-    await page.evaluate(() => (window as unknown as { __pycnoWind: { issues(): string[] } }).__pycnoWind.issues()).then((issues) => expect(issues.join('\n')).toMatch(/wind part 2 \('formula'\)/));
+    await page
+      .evaluate(() => (window as unknown as { __pycnoWind: { issues(): string[] } }).__pycnoWind.issues())
+      .then((issues) => expect(issues.join('\n')).toMatch(/wind part 2 \('formula'\)/));
     // A formula that compiles but gives NaN is not runnable either.
     await f.fill('sqrt(lat)');
     await expect.poll(() => page.textContent('#wind-panel .wd-formula')).toMatch(/gives NaN/);
@@ -186,7 +239,9 @@ describe.skipIf(missing !== null)('the workbench in Chromium', () => {
     await page.selectOption('#speed', '60');
     await page.fill('input[name="time.days"]', '60');
     await page.click('#btn-apply');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 10, null, { timeout: 60_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 10, null, {
+      timeout: 60_000,
+    });
     expect(['running', 'finished']).toContain(await status(page));
     await page.click('#btn-pause');
     await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.status !== 'running');
@@ -218,22 +273,44 @@ describe.skipIf(missing !== null)('the workbench in Chromium', () => {
     const page = await open(1440, 900);
     await page.selectOption('#speed', 'max');
     await page.click('#btn-run');
-    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 30, null, { timeout: 60_000 });
+    await page.waitForFunction(() => (window as unknown as { __pycno: Info }).__pycno.lastDay >= 30, null, {
+      timeout: 60_000,
+    });
     await page.click('#btn-pause');
     const check = async (what: string) => {
-      const ticks = JSON.parse((await page.getAttribute('#colour-bar', 'data-ticks'))!) as Array<{ label: string; left: number; right: number }>;
+      const ticks = JSON.parse((await page.getAttribute('#colour-bar', 'data-ticks'))!) as Array<{
+        label: string;
+        left: number;
+        right: number;
+      }>;
       expect(ticks.length, what).toBeGreaterThanOrEqual(2);
-      for (let k = 1; k < ticks.length; k++) expect(ticks[k].left - ticks[k - 1].right, `${what}: ${ticks[k - 1].label} | ${ticks[k].label}`).toBeGreaterThanOrEqual(6);
-      expect(new Set(ticks.map((t) => (t.label.split('.')[1] ?? '').length)).size, `${what}: ${ticks.map((t) => t.label).join(' ')}`).toBe(1);
+      for (let k = 1; k < ticks.length; k++)
+        expect(
+          ticks[k].left - ticks[k - 1].right,
+          `${what}: ${ticks[k - 1].label} | ${ticks[k].label}`,
+        ).toBeGreaterThanOrEqual(6);
+      expect(
+        new Set(ticks.map((t) => (t.label.split('.')[1] ?? '').length)).size,
+        `${what}: ${ticks.map((t) => t.label).join(' ')}`,
+      ).toBe(1);
     };
-    for (const field of await page.$$eval('#field-pick option', (os) => os.map((o) => (o as HTMLOptionElement).value))) {
+    for (const field of await page.$$eval('#field-pick option', (os) =>
+      os.map((o) => (o as HTMLOptionElement).value),
+    )) {
       await page.selectOption('#field-pick', field);
       await page.waitForTimeout(150);
       await check(field);
     }
     await page.selectOption('#field-pick', 'h_anom');
     await page.check('input[name="range-mode"][value="fixed"]');
-    for (const [lo, hi] of [['-10', '10'], ['-8', '10'], ['0', '8'], ['-0.003', '0.003'], ['150', '163.2'], ['-2.5e-7', '2.5e-7']]) {
+    for (const [lo, hi] of [
+      ['-10', '10'],
+      ['-8', '10'],
+      ['0', '8'],
+      ['-0.003', '0.003'],
+      ['150', '163.2'],
+      ['-2.5e-7', '2.5e-7'],
+    ]) {
       await page.fill('#range-min', lo);
       await page.fill('#range-max', hi);
       await page.waitForTimeout(150);

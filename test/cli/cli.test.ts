@@ -41,7 +41,10 @@ describe('pycno check', () => {
   });
 
   it('bad input: exit 2, one line naming file, line and path first', () => {
-    writeFileSync(join(dir, 'bad.json'), FIXTURE_TEXT.replace('"reducedGravity": 0.03', '"reducedGravity": -0.03').replace('"days": 6', '"days": "six"'));
+    writeFileSync(
+      join(dir, 'bad.json'),
+      FIXTURE_TEXT.replace('"reducedGravity": 0.03', '"reducedGravity": -0.03').replace('"days": 6', '"days": "six"'),
+    );
     const r = pycno(['check', 'bad.json']);
     expect(r.code).toBe(2);
     const lines = r.stderr.trimEnd().split('\n');
@@ -57,8 +60,14 @@ describe('pycno check', () => {
       [['run', 'tiny.json', '--dayz', '3'], /^pycno: unknown option --dayz/],
       [['run', 'tiny.json', '--days', 'x'], /^pycno: --days: expected a number of days > 0 \(got 'x'\)/],
       [['run', 'nothere.json'], /^pycno: nothere\.json: cannot read the scenario file: no such file/],
-      [['check', 'tiny.json', '--set', 'physics.reducedGravity=0'], /^pycno: tiny\.json: line \d+: physics\.reducedGravity: must be > 0 \(got 0\).*\(from --set physics\.reducedGravity=0\)/],
-      [['run', 'tiny.json', '--out', join(dir, 'no', 'such', 'dir.nc')], /^pycno: --out .*: cannot write there: the folder .*no\/such does not exist$/m],
+      [
+        ['check', 'tiny.json', '--set', 'physics.reducedGravity=0'],
+        /^pycno: tiny\.json: line \d+: physics\.reducedGravity: must be > 0 \(got 0\).*\(from --set physics\.reducedGravity=0\)/,
+      ],
+      [
+        ['run', 'tiny.json', '--out', join(dir, 'no', 'such', 'dir.nc')],
+        /^pycno: --out .*: cannot write there: the folder .*no\/such does not exist$/m,
+      ],
     ] as const) {
       const r = pycno([...args]);
       expect(r.code, args.join(' ')).toBe(2);
@@ -96,7 +105,9 @@ describe('pycno run', () => {
     writeFileSync(join(dir, 'same.json'), FIXTURE_TEXT);
     const r = pycno(['run', 'same.json', '--out', 'same.json', '--quiet']);
     expect(r.code).toBe(2);
-    expect(r.stderr.trimEnd()).toBe('pycno: --out same.json: that is the scenario file same.json; an output never replaces an input: write it under another name');
+    expect(r.stderr.trimEnd()).toBe(
+      'pycno: --out same.json: that is the scenario file same.json; an output never replaces an input: write it under another name',
+    );
     expect(readFileSync(join(dir, 'same.json'), 'utf8')).toBe(FIXTURE_TEXT);
   });
 
@@ -104,15 +115,22 @@ describe('pycno run', () => {
     const r = pycno(['run', 'tiny.json', '--out', 'blow.nc', '--quiet', '--keep-partial', ...sets(BLOW_UP_SETS)]);
     expect(r.code).toBe(1);
     const lines = r.stderr.trimEnd().split('\n');
-    expect(lines[0]).toMatch(/^pycno: the run blew up on day \d+\.\d\d at [\d.]+°E, [\d.]+°[NS]: the upper layer vanished/);
-    const m = /^pycno: the (\d+) records? written before the failure (?:is|are) in (blow\.nc\.part-\d+); blow\.nc was not written$/.exec(lines[1]);
+    expect(lines[0]).toMatch(
+      /^pycno: the run blew up on day \d+\.\d\d at [\d.]+°E, [\d.]+°[NS]: the upper layer vanished/,
+    );
+    const m =
+      /^pycno: the (\d+) records? written before the failure (?:is|are) in (blow\.nc\.part-\d+); blow\.nc was not written$/.exec(
+        lines[1],
+      );
     expect(m, lines[1]).not.toBeNull();
     expect(Number(m![1])).toBeGreaterThanOrEqual(1);
     expect(readNetcdf(new Uint8Array(readFileSync(join(dir, m![2])))).numRecords).toBe(Number(m![1]));
     expect(existsSync(join(dir, 'blow.nc'))).toBe(false);
     const plain = pycno(['run', 'tiny.json', '--out', 'blow2.nc', '--quiet', ...sets(BLOW_UP_SETS)]);
     expect(plain.code).toBe(1);
-    expect(plain.stderr.trimEnd().split('\n')[1]).toMatch(/^pycno: the \d+ records? written before the failure (was|were) not kept \(--keep-partial keeps (it|them)\); blow2\.nc was not written$/);
+    expect(plain.stderr.trimEnd().split('\n')[1]).toMatch(
+      /^pycno: the \d+ records? written before the failure (was|were) not kept \(--keep-partial keeps (it|them)\); blow2\.nc was not written$/,
+    );
     expect(readdirSync(dir).filter((f) => f.startsWith('blow2.nc'))).toEqual([]);
   });
 
@@ -159,11 +177,37 @@ describe('pycno run', () => {
   });
 
   it('restart: a run continued from its restart file ends where one long run ends', () => {
-    const long = pycno(['run', 'tiny.json', '--out', 'long.nc', '--days', '8', '--quiet', '--restart-out', 'long-restart.nc']);
+    const long = pycno([
+      'run',
+      'tiny.json',
+      '--out',
+      'long.nc',
+      '--days',
+      '8',
+      '--quiet',
+      '--restart-out',
+      'long-restart.nc',
+    ]);
     expect(long.code).toBe(0);
-    const half = pycno(['run', 'tiny.json', '--out', 'half.nc', '--days', '4', '--quiet', '--restart-out', 'half-restart.nc']);
+    const half = pycno([
+      'run',
+      'tiny.json',
+      '--out',
+      'half.nc',
+      '--days',
+      '4',
+      '--quiet',
+      '--restart-out',
+      'half-restart.nc',
+    ]);
     expect(half.code).toBe(0);
-    writeFileSync(join(dir, 'cont.json'), FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "restart", "path": "half-restart.nc" }').replace('"days": 6', '"days": 4'));
+    writeFileSync(
+      join(dir, 'cont.json'),
+      FIXTURE_TEXT.replace(
+        '"seed": 11',
+        '"seed": 11,\n  "initial": { "kind": "restart", "path": "half-restart.nc" }',
+      ).replace('"days": 6', '"days": 4'),
+    );
     const cont = pycno(['run', 'cont.json', '--out', 'cont.nc', '--quiet', '--restart-out', 'cont-restart.nc']);
     expect(cont.stderr).toBe('');
     expect(cont.code).toBe(0);
@@ -171,21 +215,45 @@ describe('pycno run', () => {
     const a = readNetcdf(new Uint8Array(readFileSync(join(dir, 'long-restart.nc'))));
     const b = readNetcdf(new Uint8Array(readFileSync(join(dir, 'cont-restart.nc'))));
     for (const v of ['u', 'v', 'h', 'time', 'steps']) {
-      expect(Array.from(b.variable(v).values as Float64Array), v).toEqual(Array.from(a.variable(v).values as Float64Array));
+      expect(Array.from(b.variable(v).values as Float64Array), v).toEqual(
+        Array.from(a.variable(v).values as Float64Array),
+      );
     }
     // A restart from another grid is bad input.
     const bad = pycno(['run', 'cont.json', '--quiet', '--set', 'basin.resolution=0.5']);
     expect(bad.code).toBe(2);
-    expect(bad.stderr.split('\n')[0]).toMatch(/^pycno: cont\.json: initial\.path: .*half-restart\.nc: is on a 40 x 20 grid, the scenario on 80 x 40/);
+    expect(bad.stderr.split('\n')[0]).toMatch(
+      /^pycno: cont\.json: initial\.path: .*half-restart\.nc: is on a 40 x 20 grid, the scenario on 80 x 40/,
+    );
   });
 
-  it('restart join: the continued run\'s records, its first included, are the straight run\'s, bit for bit', () => {
+  it("restart join: the continued run's records, its first included, are the straight run's, bit for bit", () => {
     // The patch ramps up across day 10, the join; g' = 0.037 makes dt a fraction of a second.
-    const wind = ['physics.reducedGravity=0.037', 'time.outputEveryDays=2.5', 'wind.parts[0].envelope={"kind":"pulse","start":9.5,"duration":5,"ramp":1}'];
-    expect(pycno(['run', 'tiny.json', '--out', 'j-straight.nc', '--days', '20', '--quiet', ...sets(wind)]).code).toBe(0);
-    const first = pycno(['run', 'tiny.json', '--out', 'j-first.nc', '--days', '10', '--quiet', ...sets(wind), '--restart-out', 'j-end.nc']);
+    const wind = [
+      'physics.reducedGravity=0.037',
+      'time.outputEveryDays=2.5',
+      'wind.parts[0].envelope={"kind":"pulse","start":9.5,"duration":5,"ramp":1}',
+    ];
+    expect(pycno(['run', 'tiny.json', '--out', 'j-straight.nc', '--days', '20', '--quiet', ...sets(wind)]).code).toBe(
+      0,
+    );
+    const first = pycno([
+      'run',
+      'tiny.json',
+      '--out',
+      'j-first.nc',
+      '--days',
+      '10',
+      '--quiet',
+      ...sets(wind),
+      '--restart-out',
+      'j-end.nc',
+    ]);
     expect(first.code).toBe(0);
-    writeFileSync(join(dir, 'j-cont.json'), FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "restart", "path": "j-end.nc" }'));
+    writeFileSync(
+      join(dir, 'j-cont.json'),
+      FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "restart", "path": "j-end.nc" }'),
+    );
     const cont = pycno(['run', 'j-cont.json', '--out', 'j-cont.nc', '--days', '10', '--quiet', ...sets(wind)]);
     expect(cont.stderr).toBe('');
     expect(cont.code).toBe(0);
@@ -212,7 +280,13 @@ describe('pycno run', () => {
   });
 
   it('spin-up: runs the other scenario first, and refuses cycles', () => {
-    writeFileSync(join(dir, 'after.json'), FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "spinup", "scenario": "tiny.json", "days": 3 }').replace('"x": 0.1', '"x": 0'));
+    writeFileSync(
+      join(dir, 'after.json'),
+      FIXTURE_TEXT.replace(
+        '"seed": 11',
+        '"seed": 11,\n  "initial": { "kind": "spinup", "scenario": "tiny.json", "days": 3 }',
+      ).replace('"x": 0.1', '"x": 0'),
+    );
     const r = pycno(['run', 'after.json', '--out', 'after.nc', '--quiet']);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
@@ -226,10 +300,18 @@ describe('pycno run', () => {
     // Unforced afterwards (x = 0) with weak friction: the energy does not grow.
     expect(e[e.length - 1]).toBeLessThanOrEqual(e[0] * 1.0001);
 
-    writeFileSync(join(dir, 'loop-a.json'), FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "spinup", "scenario": "loop-b.json" }'));
-    writeFileSync(join(dir, 'loop-b.json'), FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "spinup", "scenario": "./loop-a.json" }'));
+    writeFileSync(
+      join(dir, 'loop-a.json'),
+      FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "spinup", "scenario": "loop-b.json" }'),
+    );
+    writeFileSync(
+      join(dir, 'loop-b.json'),
+      FIXTURE_TEXT.replace('"seed": 11', '"seed": 11,\n  "initial": { "kind": "spinup", "scenario": "./loop-a.json" }'),
+    );
     const loop = pycno(['run', 'loop-a.json', '--quiet']);
     expect(loop.code).toBe(2);
-    expect(loop.stderr.split('\n')[0]).toMatch(/^pycno: .*initial\.scenario: spin-up cycle: loop-a\.json -> .*loop-b\.json -> .*loop-a\.json/);
+    expect(loop.stderr.split('\n')[0]).toMatch(
+      /^pycno: .*initial\.scenario: spin-up cycle: loop-a\.json -> .*loop-b\.json -> .*loop-a\.json/,
+    );
   });
 });

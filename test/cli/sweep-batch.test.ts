@@ -4,7 +4,17 @@
 // The same against a real Slurm is test/cli/slurm.test.ts.
 
 import { spawnSync } from 'node:child_process';
-import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import {
+  copyFileSync,
+  existsSync,
+  mkdirSync,
+  mkdtempSync,
+  readdirSync,
+  readFileSync,
+  rmSync,
+  statSync,
+  writeFileSync,
+} from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -37,9 +47,27 @@ describe('pycno sweep --batch DIR', () => {
     expect(r.stdout).toMatch(/members +6 \(members\.tsv\), 3 array tasks of up to 2/);
     expect(r.stdout).toMatch(/next +sbatch b1\/sweep\.sbatch/);
     const b = join(dir, 'b1');
-    expect(readdirSync(b).sort()).toEqual(['batch.json', 'logs', 'members.tsv', 'runs', 'scenario.json', 'status', 'sweep.sbatch']);
-    const table = readFileSync(join(b, 'members.tsv'), 'utf8').trimEnd().split('\n').map((l) => l.split('\t'));
-    expect(table[0]).toEqual(['member', 'wind.parts[0].source.x', 'physics.layerThickness', 'run_file', 'array_task', 'scenario_sha256']);
+    expect(readdirSync(b).sort()).toEqual([
+      'batch.json',
+      'logs',
+      'members.tsv',
+      'runs',
+      'scenario.json',
+      'status',
+      'sweep.sbatch',
+    ]);
+    const table = readFileSync(join(b, 'members.tsv'), 'utf8')
+      .trimEnd()
+      .split('\n')
+      .map((l) => l.split('\t'));
+    expect(table[0]).toEqual([
+      'member',
+      'wind.parts[0].source.x',
+      'physics.layerThickness',
+      'run_file',
+      'array_task',
+      'scenario_sha256',
+    ]);
     expect(table.slice(1).map((row) => row.slice(0, 5))).toEqual([
       ['1', '0.05', '120', 'runs/run-001.nc', '1'],
       ['2', '0.05', '150', 'runs/run-002.nc', '1'],
@@ -59,20 +87,57 @@ describe('pycno sweep --batch DIR', () => {
     expect(new Set(plan.members.map((m: { scenarioHash: string }) => m.scenarioHash)).size).toBe(6);
     expect(plan.members[5].scenarioHash).toBe(scenarioHash(readFileSync(join(b, 'scenario.json'), 'utf8')));
     const script = readFileSync(join(b, 'sweep.sbatch'), 'utf8');
-    for (const line of ['#SBATCH --array=1-3', '#SBATCH --ntasks=1', '#SBATCH --cpus-per-task=1', '#SBATCH --mem=256M', '#SBATCH --time=0:10:00', `#SBATCH --chdir=${b}`, `#SBATCH --output=${join(b, 'logs', 'task-%a-job-%A.out')}`]) {
+    for (const line of [
+      '#SBATCH --array=1-3',
+      '#SBATCH --ntasks=1',
+      '#SBATCH --cpus-per-task=1',
+      '#SBATCH --mem=256M',
+      '#SBATCH --time=0:10:00',
+      `#SBATCH --chdir=${b}`,
+      `#SBATCH --output=${join(b, 'logs', 'task-%a-job-%A.out')}`,
+    ]) {
       expect(script.split('\n')).toContain(line);
     }
-    expect(script).toMatch(/^# +grid 40 x 20 = 800 cells, 15 steps, 6 records of 10 fields, linear dynamics, 1 thread per member$/m);
+    expect(script).toMatch(
+      /^# +grid 40 x 20 = 800 cells, 15 steps, 6 records of 10 fields, linear dynamics, 1 thread per member$/m,
+    );
     expect(script).toMatch(/sweep --task .*b1 "\$\{SLURM_ARRAY_TASK_ID:\?/);
     expect(script.startsWith('#!/bin/bash\n')).toBe(true);
     expect(spawnSync('bash', ['-n', join(b, 'sweep.sbatch')]).status).toBe(0);
   });
 
   it('takes the resources given instead of the estimate, and more #SBATCH lines', () => {
-    const r = pycno(['sweep', 'tiny.json', ...VARY, '--batch', 'b2', '--task-time', '1:30:00', '--task-memory', '2g', '--task-cpus', '3', '--threads', '2', '--at-once', '2', '--sbatch-option', '--partition=short', '--sbatch-option', '--account=ocean']);
+    const r = pycno([
+      'sweep',
+      'tiny.json',
+      ...VARY,
+      '--batch',
+      'b2',
+      '--task-time',
+      '1:30:00',
+      '--task-memory',
+      '2g',
+      '--task-cpus',
+      '3',
+      '--threads',
+      '2',
+      '--at-once',
+      '2',
+      '--sbatch-option',
+      '--partition=short',
+      '--sbatch-option',
+      '--account=ocean',
+    ]);
     expect(r.code, r.stderr).toBe(0);
     const script = readFileSync(join(dir, 'b2', 'sweep.sbatch'), 'utf8').split('\n');
-    for (const line of ['#SBATCH --time=1:30:00', '#SBATCH --mem=2G', '#SBATCH --cpus-per-task=3', '#SBATCH --partition=short', '#SBATCH --account=ocean']) expect(script).toContain(line);
+    for (const line of [
+      '#SBATCH --time=1:30:00',
+      '#SBATCH --mem=2G',
+      '#SBATCH --cpus-per-task=3',
+      '#SBATCH --partition=short',
+      '#SBATCH --account=ocean',
+    ])
+      expect(script).toContain(line);
     expect(script.find((l) => l.startsWith('#SBATCH --array='))).toMatch(/^#SBATCH --array=1-\d+%2$/);
     expect(JSON.parse(readFileSync(join(dir, 'b2', 'batch.json'), 'utf8')).threads).toBe(2);
   });
@@ -95,7 +160,9 @@ describe('pycno sweep --batch DIR', () => {
     // A member that is no valid scenario: named, with the scenario's own message.
     const r = pycno(['sweep', 'tiny.json', '--vary', 'physics.reducedGravity=0.03,-1', '--batch', 'never']);
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/^pycno sweep: member 2 \(physics\.reducedGravity=-1\) is not a valid scenario; nothing was written/);
+    expect(r.stderr).toMatch(
+      /^pycno sweep: member 2 \(physics\.reducedGravity=-1\) is not a valid scenario; nothing was written/,
+    );
     expect(r.stderr).toMatch(/physics\.reducedGravity: must be > 0/);
     expect(existsSync(join(dir, 'never'))).toBe(false);
   });
@@ -103,14 +170,30 @@ describe('pycno sweep --batch DIR', () => {
   it('regenerates the same sweep in its folder; refuses another sweep there and a folder with other things in it', () => {
     const runs = join(dir, 'b1', 'runs');
     writeFileSync(join(runs, 'keep.txt'), 'x');
-    const same = pycno(['sweep', 'tiny.json', ...VARY, '--days', '5', '--batch', 'b1', '--per-task', '3', '--task-time', '20']);
+    const same = pycno([
+      'sweep',
+      'tiny.json',
+      ...VARY,
+      '--days',
+      '5',
+      '--batch',
+      'b1',
+      '--per-task',
+      '3',
+      '--task-time',
+      '20',
+    ]);
     expect(same.code, same.stderr).toBe(0);
     expect(same.stdout).toMatch(/the same sweep: script and tables written anew, runs kept/);
-    expect(readFileSync(join(dir, 'b1', 'sweep.sbatch'), 'utf8')).toMatch(/#SBATCH --array=1-2\n[\s\S]*#SBATCH --time=20\n/);
+    expect(readFileSync(join(dir, 'b1', 'sweep.sbatch'), 'utf8')).toMatch(
+      /#SBATCH --array=1-2\n[\s\S]*#SBATCH --time=20\n/,
+    );
     expect(existsSync(join(runs, 'keep.txt'))).toBe(true);
     const other = pycno(['sweep', 'tiny.json', ...VARY, '--days', '6', '--batch', 'b1']);
     expect(other.code).toBe(2);
-    expect(other.stderr).toMatch(/--batch b1: the folder holds another sweep \(6 members of "Tiny westerly patch", made by: pycno sweep tiny\.json/);
+    expect(other.stderr).toMatch(
+      /--batch b1: the folder holds another sweep \(6 members of "Tiny westerly patch", made by: pycno sweep tiny\.json/,
+    );
     mkdirSync(join(dir, 'busy'));
     writeFileSync(join(dir, 'busy', 'notes.txt'), 'mine');
     const busy = pycno(['sweep', 'tiny.json', ...VARY, '--batch', 'busy']);
@@ -120,9 +203,15 @@ describe('pycno sweep --batch DIR', () => {
   });
 
   it('--submit where there is no sbatch: the folder is made and the message says how to submit', () => {
-    const r = spawnSync(process.execPath, [BIN, 'sweep', 'tiny.json', ...VARY, '--batch', 'b3', '--submit'], { cwd: dir, encoding: 'utf8', env: { ...process.env, PATH: '/nonexistent' } });
+    const r = spawnSync(process.execPath, [BIN, 'sweep', 'tiny.json', ...VARY, '--batch', 'b3', '--submit'], {
+      cwd: dir,
+      encoding: 'utf8',
+      env: { ...process.env, PATH: '/nonexistent' },
+    });
     expect(r.status).toBe(1);
-    expect(r.stderr).toMatch(/could not submit: sbatch was not found: is this a machine of a Slurm cluster \(a login node\)\?; the folder is ready, submit it with: sbatch .*b3\/sweep\.sbatch/);
+    expect(r.stderr).toMatch(
+      /could not submit: sbatch was not found: is this a machine of a Slurm cluster \(a login node\)\?; the folder is ready, submit it with: sbatch .*b3\/sweep\.sbatch/,
+    );
     expect(existsSync(join(dir, 'b3', 'batch.json'))).toBe(true);
   });
 });
@@ -152,21 +241,33 @@ describe('pycno sweep --task DIR N and --gather DIR', () => {
     expect(g.code).toBe(1);
     const out = g.stdout;
     expect(out).toMatch(/gathered +b1: 6 members: 2 complete, 2 failed, 2 missing/);
-    expect(out).toMatch(/failed +member 3 \(wind\.parts\[0\]\.source\.x=5 physics\.layerThickness=120\), exit 1: the run blew up/);
-    expect(out).toMatch(/failed +member 5 .*runs\/run-005\.nc holds another scenario than member 5 runs .*: physics\.layerThickness is 150, the member's is 120; wind\.parts\[0\]\.source\.x is 0\.05, the member's is 0\.1/);
+    expect(out).toMatch(
+      /failed +member 3 \(wind\.parts\[0\]\.source\.x=5 physics\.layerThickness=120\), exit 1: the run blew up/,
+    );
+    expect(out).toMatch(
+      /failed +member 5 .*runs\/run-005\.nc holds another scenario than member 5 runs .*: physics\.layerThickness is 150, the member's is 120; wind\.parts\[0\]\.source\.x is 0\.05, the member's is 0\.1/,
+    );
     expect(out).toMatch(/missing +member 4 \(wind\.parts\[0\]\.source\.x=5 physics\.layerThickness=150\): never ran/);
-    expect(out).toContain(`rerun       (cd ${join(dir, 'b1')} && pycno run scenario.json --out runs/run-004.nc --set 'wind.parts[0].source.x=5' --set physics.layerThickness=150)`);
+    expect(out).toContain(
+      `rerun       (cd ${join(dir, 'b1')} && pycno run scenario.json --out runs/run-004.nc --set 'wind.parts[0].source.x=5' --set physics.layerThickness=150)`,
+    );
     expect(out).toMatch(/resubmit +sbatch --array=1,2 .*b1\/sweep\.sbatch/);
     expect(out).toMatch(/summary +b1\/summary\.nc/);
     const f = readNetcdf(readFileSync(join(dir, 'b1', 'summary.nc')));
     expect(Array.from(f.variable('member_state').values as Float64Array)).toEqual([0, 0, 1, 2, 1, 2]);
-    expect(Array.from(f.variable('vary_physics_layerThickness').values as Float64Array)).toEqual([120, 150, 120, 150, 120, 150]);
+    expect(Array.from(f.variable('vary_physics_layerThickness').values as Float64Array)).toEqual([
+      120, 150, 120, 150, 120, 150,
+    ]);
     const speed = f.variable('kelvin_speed_theory').values as Float64Array;
     expect(speed[0]).toBeCloseTo(Math.sqrt(0.03 * 120), 12);
     expect(speed[2]).toBeGreaterThan(9e36); // fill: no result
 
     // The exact rerun command works: member 6 by hand, then gathered as complete.
-    const rerun = spawnSync('bash', ['-c', out.match(/rerun +(\(cd .*run-006\.nc.*\))/)![1].replace(/&& pycno /, `&& ${process.execPath} ${BIN} `)], { encoding: 'utf8', timeout: 170_000 });
+    const rerun = spawnSync(
+      'bash',
+      ['-c', out.match(/rerun +(\(cd .*run-006\.nc.*\))/)![1].replace(/&& pycno /, `&& ${process.execPath} ${BIN} `)],
+      { encoding: 'utf8', timeout: 170_000 },
+    );
     expect(rerun.status, rerun.stderr).toBe(0);
     rmSync(join(dir, 'b1', 'runs', 'run-005.nc'));
     const g2 = pycno(['sweep', '--gather', 'b1', '--out', 'other-summary.nc']);
@@ -180,8 +281,14 @@ describe('pycno sweep --task DIR N and --gather DIR', () => {
       [['sweep', '--gather', 'empty'], /^pycno sweep: empty: not a Pycno batch folder \(no batch\.json/],
       [['sweep', '--task', 'b1', '9'], /^pycno sweep: --task b1 9: the array task must be a whole number from 1 to 2/],
       [['sweep', '--task', 'b1'], /^pycno sweep: --task needs the batch folder and the array task number/],
-      [['sweep', '--gather', 'b1', '--out', 'b1/runs/run-001.nc'], /that is the run file of member 1; an output never replaces an input/],
-      [['sweep', '--gather', 'b1', '--spread-fields', 'h_anom,temperature'], /--spread-fields: unknown field temperature; the fields are h_anom, ssh/],
+      [
+        ['sweep', '--gather', 'b1', '--out', 'b1/runs/run-001.nc'],
+        /that is the run file of member 1; an output never replaces an input/,
+      ],
+      [
+        ['sweep', '--gather', 'b1', '--spread-fields', 'h_anom,temperature'],
+        /--spread-fields: unknown field temperature; the fields are h_anom, ssh/,
+      ],
     ] as const) {
       const r = pycno([...args]);
       expect(r.code, args.join(' ')).toBe(2);
@@ -202,7 +309,20 @@ describe('pycno sweep --help', () => {
     const r = pycno(['sweep', '--help']);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/^usage: pycno sweep SCENARIO\.json --vary .* --out DIR/);
-    for (const o of ['--batch DIR', '--submit', '--per-task N', '--task-time T', '--task-memory M', '--task-cpus N', '--at-once N', '--sbatch-option OPT', 'sweep --task DIR N', 'sweep --gather DIR', '--list']) expect(r.stdout).toContain(o);
+    for (const o of [
+      '--batch DIR',
+      '--submit',
+      '--per-task N',
+      '--task-time T',
+      '--task-memory M',
+      '--task-cpus N',
+      '--at-once N',
+      '--sbatch-option OPT',
+      'sweep --task DIR N',
+      'sweep --gather DIR',
+      '--list',
+    ])
+      expect(r.stdout).toContain(o);
     const doc = readFileSync(fileURLToPath(new URL('../../docs/ensembles.md', import.meta.url)), 'utf8');
     const block = /## `pycno sweep --help`\n\n```\n([\s\S]*?)\n```/.exec(doc);
     expect(block, 'the --help block of docs/ensembles.md').not.toBeNull();
@@ -214,7 +334,17 @@ describe('the resource estimate', () => {
   it('adds up as the script says, and formats Slurm times', () => {
     // 1120 x 400 cells, 186 steps, 7 records of 10 fields, 59 MiB of model arrays (the 0.125 degree
     // westerly-burst measured in worker/cli/batch-estimate.ts).
-    const e = estimateTask({ nx: 1120, ny: 400, steps: 186, outputs: 7, fields: 10, memoryBytes: 59 * 2 ** 20, mode: 'linear', perTask: 3, threads: null });
+    const e = estimateTask({
+      nx: 1120,
+      ny: 400,
+      steps: 186,
+      outputs: 7,
+      fields: 10,
+      memoryBytes: 59 * 2 ** 20,
+      mode: 'linear',
+      perTask: 3,
+      threads: null,
+    });
     expect(e.threads).toBe(4); // 448000 cells: 11 strips of 40000 could run; at most 4
     const step = (186 * 448000 * 25e-9) / (4 * 0.7);
     const out = 7 * 448000 * 10 * 150e-9;
@@ -223,7 +353,17 @@ describe('the resource estimate', () => {
     expect(e.memMiB).toBe(Math.ceil(((160 + 4 * 59 + 3 * 40) * 1.5) / 64) * 64);
     expect(e.cpus).toBe(4);
     expect(e.explain.join('\n')).toContain(`${e.timeMinutes} min`);
-    const nl = estimateTask({ nx: 1120, ny: 400, steps: 186, outputs: 7, fields: 10, memoryBytes: 59 * 2 ** 20, mode: 'nonlinear', perTask: 1, threads: null });
+    const nl = estimateTask({
+      nx: 1120,
+      ny: 400,
+      steps: 186,
+      outputs: 7,
+      fields: 10,
+      memoryBytes: 59 * 2 ** 20,
+      mode: 'nonlinear',
+      perTask: 1,
+      threads: null,
+    });
     expect(nl.threads).toBe(1);
     expect(slurmTime(10)).toBe('0:10:00');
     expect(slurmTime(125)).toBe('2:05:00');

@@ -50,7 +50,19 @@ describe('pycno sweep', () => {
     const heights = new Set<string>();
     combos.forEach(([gp, H], n) => {
       const name = `single-${n}.nc`;
-      const one = pycno(['run', 'tiny.json', '--out', name, '--quiet', '--set', 'time.days=4', '--set', `physics.reducedGravity=${gp}`, '--set', `physics.layerThickness=${H}`]);
+      const one = pycno([
+        'run',
+        'tiny.json',
+        '--out',
+        name,
+        '--quiet',
+        '--set',
+        'time.days=4',
+        '--set',
+        `physics.reducedGravity=${gp}`,
+        '--set',
+        `physics.layerThickness=${H}`,
+      ]);
       expect(one.code).toBe(0);
       const a = readNetcdf(readFileSync(join(dir, 'out', `run-00${n + 1}.nc`)));
       const b = readNetcdf(readFileSync(join(dir, name)));

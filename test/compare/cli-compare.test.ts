@@ -20,7 +20,11 @@ let b: RunData;
 async function pycno(args: string[]) {
   let stdout = '';
   let stderr = '';
-  const code = await main(args, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s), isTTY: false }, cwd: dir });
+  const code = await main(args, {
+    stdout: { write: (s: string) => (stdout += s) },
+    stderr: { write: (s: string) => (stderr += s), isTTY: false },
+    cwd: dir,
+  });
   return { code, stdout, stderr };
 }
 
@@ -42,7 +46,9 @@ describe('pycno compare', () => {
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const c = compareRuns(a, b);
-    expect(r.stdout).toMatch(/scenario +2 values differ \(A -> B\):\n +basin\.resolution +1 -> 0\.5\n +physics\.frictionDays +365 -> 5\n/);
+    expect(r.stdout).toMatch(
+      /scenario +2 values differ \(A -> B\):\n +basin\.resolution +1 -> 0\.5\n +physics\.frictionDays +365 -> 5\n/,
+    );
     expect(r.stdout).toContain("grid                B (0.5°) interpolated bilinearly onto A's coarser 1° grid");
     expect(r.stdout).toMatch(/common times +7 \(days 0 to 6, matched within 0\.5 days\); 4 with fields in both/);
     expect(r.stdout).toContain(`max |B - A|         h_anom   ${Number(c.maxAbsDifference.h_anom!.toPrecision(3))} m`);
@@ -55,7 +61,10 @@ describe('pycno compare', () => {
     expect(text('pycno_file')).toBe('run-difference');
     expect(text('pycno_difference')).toBe('B minus A');
     expect([text('pycno_run_a_file'), text('pycno_run_b_file')]).toEqual(['a.nc', 'b.nc']);
-    expect([text('pycno_run_a_scenario_sha256'), text('pycno_run_b_scenario_sha256')]).toEqual([a.scenarioSha256, b.scenarioSha256]);
+    expect([text('pycno_run_a_scenario_sha256'), text('pycno_run_b_scenario_sha256')]).toEqual([
+      a.scenarioSha256,
+      b.scenarioSha256,
+    ]);
     expect(text('pycno_run_b_scenario')).toBe(b.scenarioJson);
     expect(f.numRecords).toBe(7);
     const h = f.variable('h_anom');
@@ -63,11 +72,15 @@ describe('pycno compare', () => {
     const vals = h.values as Float64Array;
     const cells = 800;
     const d2 = c.difference(2, 'h_anom')!;
-    expect(Array.from(vals.subarray(2 * cells, 3 * cells), (x) => (x === OUTPUT_FILL ? NaN : x))).toEqual(Array.from(d2));
+    expect(Array.from(vals.subarray(2 * cells, 3 * cells), (x) => (x === OUTPUT_FILL ? NaN : x))).toEqual(
+      Array.from(d2),
+    );
     // Record 1: B kept no fields there (every 2nd), so the fields are missing, as in a run.
     expect(vals.subarray(cells, 2 * cells).every((x) => x === OUTPUT_FILL)).toBe(true);
     expect(Array.from(f.variable('energy').values as Float64Array)).toEqual(Array.from(c.integrals.energy!.diff));
-    expect(() => readRun(new Uint8Array(readFileSync(join(dir, 'diff.nc'))), 'diff.nc')).toThrow(/diff\.nc: this is a Pycno difference file \(B minus A\), not a run file/);
+    expect(() => readRun(new Uint8Array(readFileSync(join(dir, 'diff.nc'))), 'diff.nc')).toThrow(
+      /diff\.nc: this is a Pycno difference file \(B minus A\), not a run file/,
+    );
   });
 
   it('refuses files that are not runs, and runs with no common times, with exit 2', async () => {
@@ -81,7 +94,9 @@ describe('pycno compare', () => {
     r = await pycno(['compare', 'a.nc', 'later.nc', '--out', 'never.nc']);
     expect(r.code).toBe(2);
     expect(r.stdout).toMatch(/common times +none/);
-    expect(r.stderr).toBe('pycno: no common times: A has days 0..6, B has days 50..56 (times match within 0.5 days); never.nc not written\n');
+    expect(r.stderr).toBe(
+      'pycno: no common times: A has days 0..6, B has days 50..56 (times match within 0.5 days); never.nc not written\n',
+    );
     expect(readdirSync(dir)).not.toContain('never.nc');
     r = await pycno(['compare', 'a.nc', 'b.nc', '--out', 'no-such-dir/d.nc']);
     expect(r.code).toBe(2);

@@ -16,14 +16,23 @@ function linearised(run: RunData, scale = 1): RunData {
   for (const s of r.snapshots)
     for (const f of r.fields) {
       const v = s.fields[f]!;
-      for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) v[j * nx + i] = ocean[j * nx + i] ? scale * linear(lon[i], lat[j]) : NaN;
+      for (let j = 0; j < ny; j++)
+        for (let i = 0; i < nx; i++) v[j * nx + i] = ocean[j * nx + i] ? scale * linear(lon[i], lat[j]) : NaN;
     }
-  for (const h of r.hovmoller) for (let n = 0; n < r.days.length; n++) for (let i = 0; i < nx; i++) h.values[n * nx + i] = scale * linear(lon[i], 0);
+  for (const h of r.hovmoller)
+    for (let n = 0; n < r.days.length; n++)
+      for (let i = 0; i < nx; i++) h.values[n * nx + i] = scale * linear(lon[i], 0);
   return r;
 }
 
 describe('interpolation', () => {
-  const fine = { nx: 41, ny: 21, lon: Float64Array.from({ length: 41 }, (_, i) => 150.25 + 0.5 * i), lat: Float64Array.from({ length: 21 }, (_, j) => -9.75 + 0.5 * j), ocean: new Uint8Array(41 * 21).fill(1) };
+  const fine = {
+    nx: 41,
+    ny: 21,
+    lon: Float64Array.from({ length: 41 }, (_, i) => 150.25 + 0.5 * i),
+    lat: Float64Array.from({ length: 21 }, (_, j) => -9.75 + 0.5 * j),
+    ocean: new Uint8Array(41 * 21).fill(1),
+  };
   const values = new Float64Array(41 * 21);
   for (let j = 0; j < 21; j++) for (let i = 0; i < 41; i++) values[j * 41 + i] = linear(fine.lon[i], fine.lat[j]);
 
@@ -31,7 +40,9 @@ describe('interpolation', () => {
     const lon = [150.3, 155.5, 160.123, 169.9, 170.25];
     const lat = [-9.7, -3.3, -0.01, 0.25, 0.2];
     const out = Interpolator.bilinear(fine, lon, lat).apply(values);
-    lat.forEach((y, j) => lon.forEach((x, i) => expect(out[j * lon.length + i]).toBeCloseTo(Math.fround(linear(x, y)), 5)));
+    lat.forEach((y, j) =>
+      lon.forEach((x, i) => expect(out[j * lon.length + i]).toBeCloseTo(Math.fround(linear(x, y)), 5)),
+    );
   });
 
   it('land corners get no weight, and points outside have no value', () => {
@@ -88,7 +99,10 @@ describe('compareRuns', () => {
   it('different grids go to the coarser one, whichever is A', async () => {
     const fine = await tinyRun(['basin.resolution=0.5', 'time.dtSeconds=auto']);
     const coarse = await tinyRun();
-    for (const [a, b, whose] of [[fine, coarse, 'B'], [coarse, fine, 'A']] as const) {
+    for (const [a, b, whose] of [
+      [fine, coarse, 'B'],
+      [coarse, fine, 'A'],
+    ] as const) {
       const c = compareRuns(a, b);
       expect(c.status).toBe('ok');
       expect(c.grid!.from).toBe(whose);
@@ -104,7 +118,8 @@ describe('compareRuns', () => {
     const finite = Array.from(d).filter(Number.isFinite);
     expect(finite.length).toBeGreaterThan(600);
     expect(Math.max(...finite.map(Math.abs))).toBeLessThan(1e-5);
-    for (const h of c.hovmoller) expect(Math.max(...Array.from(h.diff).filter(Number.isFinite).map(Math.abs))).toBeLessThan(1e-5);
+    for (const h of c.hovmoller)
+      expect(Math.max(...Array.from(h.diff).filter(Number.isFinite).map(Math.abs))).toBeLessThan(1e-5);
     // And a known difference is found as such: B = 2 x the field, so B - A = the field.
     const c2 = compareRuns(linearised(fine), linearised(coarse, 2));
     const g = c2.grid!;
@@ -120,7 +135,12 @@ describe('compareRuns', () => {
     shifted.days = a.days.map((d) => d + 0.3);
     expect(matchTimes(a, shifted).times.map((t) => t.dayB)).toEqual(Array.from(a.days, (d) => d + 0.3));
     const sparse = await tinyRun(['time.outputEveryDays=2']);
-    expect(matchTimes(a, sparse).times.map((t) => [t.dayA, t.dayB])).toEqual([[0, 0], [2, 2], [4, 4], [6, 6]]);
+    expect(matchTimes(a, sparse).times.map((t) => [t.dayA, t.dayB])).toEqual([
+      [0, 0],
+      [2, 2],
+      [4, 4],
+      [6, 6],
+    ]);
     const later = structuredClone(a);
     later.days = a.days.map((d) => d + 100);
     const c = compareRuns(a, later);
@@ -149,14 +169,27 @@ describe('compareRuns', () => {
 
 describe('diffScenarios', () => {
   it('wind parts by index and kind, added and removed keys', () => {
-    const a = { $schema: 'x', physics: { reducedGravity: 0.05 }, wind: { parts: [{ kind: 'fixed', name: 'w', envelope: { kind: 'pulse', start: 10 } }] } };
-    const b = { $schema: 'y', physics: { reducedGravity: 0.03, slip: 'free' }, wind: { parts: [{ kind: 'bursts', ratePerYear: 4 }, { kind: 'fixed' }] } };
+    const a = {
+      $schema: 'x',
+      physics: { reducedGravity: 0.05 },
+      wind: { parts: [{ kind: 'fixed', name: 'w', envelope: { kind: 'pulse', start: 10 } }] },
+    };
+    const b = {
+      $schema: 'y',
+      physics: { reducedGravity: 0.03, slip: 'free' },
+      wind: { parts: [{ kind: 'bursts', ratePerYear: 4 }, { kind: 'fixed' }] },
+    };
     expect(diffScenarios(a, b)).toEqual([
       { path: 'physics.reducedGravity', a: 0.05, b: 0.03 },
       { path: 'physics.slip', a: undefined, b: 'free' },
       { path: 'wind.parts[0].kind', a: 'fixed', b: 'bursts', part: "wind part 1 (fixed 'w' / bursts)" },
       { path: 'wind.parts[0].name', a: 'w', b: undefined, part: "wind part 1 (fixed 'w' / bursts)" },
-      { path: 'wind.parts[0].envelope', a: { kind: 'pulse', start: 10 }, b: undefined, part: "wind part 1 (fixed 'w' / bursts)" },
+      {
+        path: 'wind.parts[0].envelope',
+        a: { kind: 'pulse', start: 10 },
+        b: undefined,
+        part: "wind part 1 (fixed 'w' / bursts)",
+      },
       { path: 'wind.parts[0].ratePerYear', a: undefined, b: 4, part: "wind part 1 (fixed 'w' / bursts)" },
       { path: 'wind.parts[1]', a: undefined, b: { kind: 'fixed' }, part: 'wind part 2 (none / fixed)' },
     ]);

@@ -45,10 +45,20 @@ describe('the subsurface temperature relation', () => {
 });
 
 describe('the SST update', () => {
-  const grid = new Grid({ lonWest: 0, lonEast: 20, latSouth: -5, latNorth: 5, dLon: 1, dLat: 1, land: [] }, EARTH.radius);
+  const grid = new Grid(
+    { lonWest: 0, lonEast: 20, latSouth: -5, latNorth: 5, dLon: 1, dLat: 1, land: [] },
+    EARTH.radius,
+  );
   const physics = defaultPhysics();
   const ctx = { physics, fCentre: new Float64Array(grid.ny).map((_, j) => physics.beta * grid.yCentre[j]) };
-  const spec = { region: { kind: 'uniform' as const }, upwellingDays: 30, dampingDays: 120, subsurface: SUB, meanGradient: 0, initial: 0 };
+  const spec = {
+    region: { kind: 'uniform' as const },
+    upwellingDays: 30,
+    dampingDays: 120,
+    subsurface: SUB,
+    meanGradient: 0,
+    initial: 0,
+  };
 
   it('relaxes to w T_sub / (w + eps_T) under a fixed thermocline, whatever the interval', () => {
     const sst = new SstAnomaly(grid, spec);
@@ -75,7 +85,10 @@ describe('the SST update', () => {
     const e = 1 / (120 * 86400);
     const rate = (t[grid.idx(2, 2)] - before) / dt;
     // The semi-implicit form differs by the factor 1 / (1 + dt (w + eps_T)), here 3e-4.
-    expect(rate / (w * (subsurfaceTemperature(-20, SUB) - before) - e * before)).toBeCloseTo(1 / (1 + dt * (w + e)), 12);
+    expect(rate / (w * (subsurfaceTemperature(-20, SUB) - before) - e * before)).toBeCloseTo(
+      1 / (1 + dt * (w + e)),
+      12,
+    );
   });
 
   it('eastward surface flow carries warm water east against a mean gradient cooling eastward', () => {
@@ -90,17 +103,27 @@ describe('the SST update', () => {
   });
 
   it('refuses a region that changes in time, with the reason', () => {
-    expect(() => new SstAnomaly(grid, { ...spec, region: { kind: 'formula', expression: 'cos(t)' } })).toThrow(/must not change in time/);
+    expect(() => new SstAnomaly(grid, { ...spec, region: { kind: 'formula', expression: 'cos(t)' } })).toThrow(
+      /must not change in time/,
+    );
   });
 });
 
 describe('the answering stress', () => {
-  const grid = new Grid({ lonWest: 0, lonEast: 60, latSouth: -15, latNorth: 15, dLon: 1, dLat: 1, land: [] }, EARTH.radius);
+  const grid = new Grid(
+    { lonWest: 0, lonEast: 60, latSouth: -15, latNorth: 15, dLon: 1, dLat: 1, land: [] },
+    EARTH.radius,
+  );
   const part = (over: Partial<AnsweringPart>): AnsweringPart => ({ ...answeringOf(scenario()), ...over });
-  const spec = (p: AnsweringPart): WindSpec => ({ parts: [p], bulk: { airDensity: 1.2, drag: 'large-pond', dragCoefficient: 1.2e-3 }, updateHours: 3 });
+  const spec = (p: AnsweringPart): WindSpec => ({
+    parts: [p],
+    bulk: { airDensity: 1.2, drag: 'large-pond', dragCoefficient: 1.2e-3 },
+    updateHours: 3,
+  });
 
   it('linear drag: rho_air C_D |U_b| mu u, on the faces; bulk: B(U_b + u) - B(U_b), the same for small winds to within the curvature', () => {
-    const lin = buildWindStress(grid, spec(part({ strength: 1, drag: 'linear' })), { seed: 's', beta: BETA }).answering!;
+    const lin = buildWindStress(grid, spec(part({ strength: 1, drag: 'linear' })), { seed: 's', beta: BETA })
+      .answering!;
     const blk = buildWindStress(grid, spec(part({ strength: 1, drag: 'bulk' })), { seed: 's', beta: BETA }).answering!;
     lin.answerTestAnomaly(0.01);
     blk.answerTestAnomaly(0.01);
@@ -108,7 +131,12 @@ describe('the answering stress', () => {
     expect(c).toBeCloseTo(1.2 * 1.2e-3 * 6, 12);
     let big = 0;
     let k0 = 0;
-    lin.stressU.forEach((v, k) => Math.abs(v) > big && ((big = Math.abs(v)), (k0 = k)));
+    lin.stressU.forEach((v, k) => {
+      if (Math.abs(v) > big) {
+        big = Math.abs(v);
+        k0 = k;
+      }
+    });
     expect(big).toBeGreaterThan(0);
     // Bulk about a zonal background: the zonal stress anomaly is 2 rho C_D |U| u for small u (C_D constant below 11 m/s).
     expect(blk.stressU[k0] / lin.stressU[k0]).toBeCloseTo(2, 2);
@@ -118,7 +146,11 @@ describe('the answering stress', () => {
   });
 
   it('a warm east gives westerlies to its west on the equator (the Bjerknes feedback), easterlies to its east', () => {
-    const a = buildWindStress(grid, spec(part({ sst: { ...part({}).sst, region: { kind: 'patch', lon: 30, lat: 0, lonWidth: 5, latWidth: 3 } } })), { seed: 's', beta: BETA }).answering!;
+    const a = buildWindStress(
+      grid,
+      spec(part({ sst: { ...part({}).sst, region: { kind: 'patch', lon: 30, lat: 0, lonWidth: 5, latWidth: 3 } } })),
+      { seed: 's', beta: BETA },
+    ).answering!;
     a.answerTestAnomaly(1);
     const w = a.centredWind();
     const j = grid.nearestRow(0.5);
@@ -141,11 +173,17 @@ describe('the answering stress', () => {
 
   it('refuses a second answering part', () => {
     const p = part({});
-    expect(() => buildWindStress(grid, { ...spec(p), parts: [p, p] }, { seed: 's', beta: BETA })).toThrow(/at most one answering part/);
+    expect(() => buildWindStress(grid, { ...spec(p), parts: [p, p] }, { seed: 's', beta: BETA })).toThrow(
+      /at most one answering part/,
+    );
   });
 
   it('keeps the SST in the state: a fresh start gets initial x S', () => {
-    const built = buildWindStress(grid, spec(part({ sst: { ...part({}).sst, initial: 0.7, region: { kind: 'uniform' } } })), { seed: 's', beta: BETA });
+    const built = buildWindStress(
+      grid,
+      spec(part({ sst: { ...part({}).sst, initial: 0.7, region: { kind: 'uniform' } } })),
+      { seed: 's', beta: BETA },
+    );
     const state = new State(grid);
     built.stress.coupling!.start(state, { physics: defaultPhysics(), dt: 3600, fCentre: new Float64Array(grid.ny) });
     expect(state.sst![grid.idx(10, 10)]).toBe(0.7);
@@ -156,7 +194,13 @@ describe('the answering stress', () => {
 
 describe('indices and the mode fit', () => {
   it('the eastern index is the S-weighted mean of T; the warm water the mean h between 5S and 5N', () => {
-    const layout = { nx: 3, ny: 3, lat: [-10, 0, 4], ocean: [1, 1, 1, 1, 1, 1, 1, 0, 1], index: (i: number, j: number) => j * 3 + i };
+    const layout = {
+      nx: 3,
+      ny: 3,
+      lat: [-10, 0, 4],
+      ocean: [1, 1, 1, 1, 1, 1, 1, 0, 1],
+      index: (i: number, j: number) => j * 3 + i,
+    };
     const region = [0, 0, 0, 1, 0.5, 0, 0, 0, 0];
     const sst = [9, 9, 9, 1, 4, 9, 9, 9, 9];
     const h = [100, 100, 100, 1, 2, 3, 4, 50, 6];
@@ -184,8 +228,19 @@ describe('indices and the mode fit', () => {
 
   it('says when there is no oscillation to measure', () => {
     const days = Array.from({ length: 100 }, (_, k) => k);
-    expect(fitOscillation(days, days.map((d) => Math.exp(-d / 30)))).toBeNull();
-    expect(coupledMode(days, days.map(() => 0), days.map(() => 0))).toBeNull();
+    expect(
+      fitOscillation(
+        days,
+        days.map((d) => Math.exp(-d / 30)),
+      ),
+    ).toBeNull();
+    expect(
+      coupledMode(
+        days,
+        days.map(() => 0),
+        days.map(() => 0),
+      ),
+    ).toBeNull();
     expect(coupledModeLine(null)).toMatch(/no oscillation to measure/);
   });
 });
@@ -218,20 +273,28 @@ describe('the answering part in a scenario', () => {
     Object.assign(d.basin, { latSouth: 2, latNorth: 20 });
     d.probes = [];
     d.hovmoller = { lat: [10] };
-    expect(issuesOf(d).some((i) => i.path === 'wind.parts[1]' && /reach across the equator/.test(i.message))).toBe(true);
+    expect(issuesOf(d).some((i) => i.path === 'wind.parts[1]' && /reach across the equator/.test(i.message))).toBe(
+      true,
+    );
     const e = scenario();
     e.wind.parts[1].background = { x: 0, y: 0 };
     expect(issueAt(issuesOf(e), 'wind.parts[1].background').message).toMatch(/no stress at all/);
     const f = scenario();
     f.wind.parts[1].everySteps = 200;
-    expect(issueAt(issuesOf(f), 'wind.parts[1].everySteps').message).toMatch(/more than a quarter of the SST's relaxation time .* use at most 41/);
+    expect(issueAt(issuesOf(f), 'wind.parts[1].everySteps').message).toMatch(
+      /more than a quarter of the SST's relaxation time .* use at most 41/,
+    );
     const g = scenario();
     delete g.wind.parts[1].sst.region;
     expect(issuesOf(g).some((i) => i.path.startsWith('wind.parts[1].sst'))).toBe(true);
   });
 
   it('takes --set on its paths, and names the keys it has', () => {
-    const r = applyOverrides(SHIPPED, ['wind.parts[1].strength=25', 'wind.parts[1].atmosphere.speed=40', 'wind.parts[1].sst.subsurface.warm=3']);
+    const r = applyOverrides(SHIPPED, [
+      'wind.parts[1].strength=25',
+      'wind.parts[1].atmosphere.speed=40',
+      'wind.parts[1].sst.subsurface.warm=3',
+    ]);
     if (!r.ok) throw new Error(JSON.stringify(r.errors));
     const p = r.scenario.wind.parts[1] as AnsweringPart;
     expect([p.strength, p.atmosphere.speed, p.sst.subsurface.warm]).toEqual([25, 40, 3]);
@@ -248,7 +311,7 @@ describe('the answering part in a scenario', () => {
     const a = d.answering!;
     expect(a.part).toBe(1);
     expect(a.atmosphereRadiusKm).toBeCloseTo(Math.sqrt(30 / d.beta) / 1000, 9);
-    expect(a.kelvinDecayKm).toBeCloseTo(30 * 2 * 86400 / 1000, 9);
+    expect(a.kelvinDecayKm).toBeCloseTo((30 * 2 * 86400) / 1000, 9);
     expect(a.rossbyDecayKm).toBeCloseTo(a.kelvinDecayKm / 3, 9);
     expect(a.couplingDays).toBeCloseTo((8 * d.dt) / 86400, 12);
     expect(a.sstRelaxationDays).toBeCloseTo(1 / (1 / 30 + 1 / 125), 12);
@@ -268,6 +331,8 @@ describe('a region that misses the ocean', () => {
     const r = validateScenario(sc);
     if (!r.ok) throw new Error('invalid');
     const grid = new Grid(resolveScenario(r.scenario).model.basin, EARTH.radius);
-    expect(() => buildWindStress(grid, r.scenario.wind, { seed: 's', beta: BETA })).toThrow(/wind part 2 \('answering wind'\): sst.region: patch is 0 on every ocean cell/);
+    expect(() => buildWindStress(grid, r.scenario.wind, { seed: 's', beta: BETA })).toThrow(
+      /wind part 2 \('answering wind'\): sst.region: patch is 0 on every ocean cell/,
+    );
   });
 });

@@ -211,9 +211,17 @@ describe('engine controls', () => {
     expect(r.ok).toBe(false);
     if (r.ok) return;
     expect(r.error.kind).toBe('input');
-    expect(r.error.message.split('\n')[0]).toMatch(/^tiny\.json: line 13: physics\.reducedGravity: must be > 0 \(got -0\.03\)/);
+    expect(r.error.message.split('\n')[0]).toMatch(
+      /^tiny\.json: line 13: physics\.reducedGravity: must be > 0 \(got -0\.03\)/,
+    );
     expect(engine.status().status).toBe('empty');
-    const missing = await engine.load(FIXTURE_TEXT.replace('"kind": "shaped", "shape": { "kind": "patch", "lon": 160, "lat": 0, "lonWidth": 5, "latWidth": 3 }, "x": 0.1, "y": 0', '"kind": "file", "path": "winds.csv", "format": "csv"'), 'dir/tiny.json');
+    const missing = await engine.load(
+      FIXTURE_TEXT.replace(
+        '"kind": "shaped", "shape": { "kind": "patch", "lon": 160, "lat": 0, "lonWidth": 5, "latWidth": 3 }, "x": 0.1, "y": 0',
+        '"kind": "file", "path": "winds.csv", "format": "csv"',
+      ),
+      'dir/tiny.json',
+    );
     expect(missing.ok).toBe(false);
     if (!missing.ok) expect(missing.error.message).toContain('cannot read the wind file dir/winds.csv');
   });
@@ -257,7 +265,9 @@ describe('Hovmoller latitudes added during a run', () => {
     const j = model.grid.nearestRow(2.2);
     expect(added.rowLat).toBe(model.grid.latCentre[j]);
     const h = model.field('h_anom', new Float32Array(model.grid.nx * model.grid.ny));
-    expect(Array.from(sample.hovmoller[before])).toEqual(Array.from(h.subarray(j * model.grid.nx, (j + 1) * model.grid.nx)));
+    expect(Array.from(sample.hovmoller[before])).toEqual(
+      Array.from(h.subarray(j * model.grid.nx, (j + 1) * model.grid.nx)),
+    );
     // The same latitude again answers with the same index; outside the basin is refused.
     expect(engine.addSection(model.grid.latCentre[j])).toEqual({ ok: true, index: before, rowLat: added.rowLat });
     const outside = engine.addSection(95);
@@ -273,6 +283,9 @@ describe('errors as the user sees them', () => {
   it('a wind-design mistake (a formula error) is bad input, not an internal error', async () => {
     const { FormulaError } = await import('../../model/forcing/formula.ts');
     const { toEngineError } = await import('../../worker/engine.ts');
-    expect(toEngineError(new FormulaError("unknown name 'lonn' at character 1", 0))).toEqual({ kind: 'input', message: "unknown name 'lonn' at character 1" });
+    expect(toEngineError(new FormulaError("unknown name 'lonn' at character 1", 0))).toEqual({
+      kind: 'input',
+      message: "unknown name 'lonn' at character 1",
+    });
   });
 });

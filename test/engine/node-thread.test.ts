@@ -20,7 +20,10 @@ describe('engine in a worker thread', () => {
       frames.push(f);
       if (f.finished) lastFrame(f);
     };
-    await thread.api.subscribe(Comlink.proxy(onFrame), Comlink.proxy((r: EngineReport) => void reports.push(r)));
+    await thread.api.subscribe(
+      Comlink.proxy(onFrame),
+      Comlink.proxy((r: EngineReport) => void reports.push(r)),
+    );
     const r = await thread.api.load(FIXTURE_TEXT, FIXTURE);
     expect(r.ok).toBe(true);
     await thread.api.start();

@@ -31,7 +31,9 @@ function accumulatedDays(dt: number, stepsPerRecord: number, records: number): n
 
 describe('record times', () => {
   it('1460 days with 5-day output: every record is 5 k days to the bit', async () => {
-    const run = await runInMemory(FIXTURE_TEXT, '/runs/tiny.json', { sets: [ODD_DT, 'time.days=1460', 'time.outputEveryDays=5'] });
+    const run = await runInMemory(FIXTURE_TEXT, '/runs/tiny.json', {
+      sets: [ODD_DT, 'time.days=1460', 'time.outputEveryDays=5'],
+    });
     const days = recordDays(run.file);
     expect(days).toHaveLength(293);
     expect(Number.isInteger(run.model.dt)).toBe(false);
@@ -47,7 +49,9 @@ describe('record times', () => {
     [0.7, 7, 10],
   ] as const) {
     it(`a fractional interval of ${every} days: record k is the double nearest ${num} k / ${den} days`, async () => {
-      const run = await runInMemory(FIXTURE_TEXT, '/runs/tiny.json', { sets: [ODD_DT, 'time.days=70', `time.outputEveryDays=${every}`] });
+      const run = await runInMemory(FIXTURE_TEXT, '/runs/tiny.json', {
+        sets: [ODD_DT, 'time.days=70', `time.outputEveryDays=${every}`],
+      });
       const days = recordDays(run.file);
       expect(days).toHaveLength(Math.round(70 / every) + 1);
       // (num k) / den: integers divided once, the double nearest the nominal day.
@@ -72,17 +76,22 @@ describe('record times', () => {
     const PY = '/usr/bin/python3';
     const has = spawnSync(PY, ['-c', 'import netCDF4'], { encoding: 'utf8' }).status === 0;
     ctx.skip(!has, `${PY} cannot import netCDF4 (Debian: apt-get install python3-netcdf4)`);
-    const run = await runInMemory(FIXTURE_TEXT, '/runs/tiny.json', { sets: [ODD_DT, 'time.days=1460', 'time.outputEveryDays=5'] });
+    const run = await runInMemory(FIXTURE_TEXT, '/runs/tiny.json', {
+      sets: [ODD_DT, 'time.days=1460', 'time.outputEveryDays=5'],
+    });
     const dir = mkdtempSync(join(tmpdir(), 'pycno-dates-'));
     const path = join(dir, 'long.nc');
     writeFileSync(path, run.bytes);
     // netCDF4.num2date (Unidata netcdf4-python, with cftime) decodes CF "days since" axes.
-    const script = 'import sys, netCDF4\nt = netCDF4.Dataset(sys.argv[1])["time"]\nprint("\\n".join(d.isoformat() for d in netCDF4.num2date(t[:], t.units, t.calendar)))';
+    const script =
+      'import sys, netCDF4\nt = netCDF4.Dataset(sys.argv[1])["time"]\nprint("\\n".join(d.isoformat() for d in netCDF4.num2date(t[:], t.units, t.calendar)))';
     const r = spawnSync(PY, ['-c', script, path], { encoding: 'utf8' });
     expect(r.stderr).toBe('');
     const dates = r.stdout.trim().split('\n');
     // Day 5 k after 2000-01-01 (the file's time units) in the proleptic Gregorian calendar, by Date.UTC.
-    const expected = Array.from({ length: 293 }, (_, k) => new Date(Date.UTC(2000, 0, 1 + 5 * k)).toISOString().slice(0, 19));
+    const expected = Array.from({ length: 293 }, (_, k) =>
+      new Date(Date.UTC(2000, 0, 1 + 5 * k)).toISOString().slice(0, 19),
+    );
     expect(dates).toEqual(expected);
     expect(dates.at(-1)).toBe('2003-12-31T00:00:00');
   });
@@ -106,11 +115,18 @@ describe('a run that is not a whole number of output intervals', () => {
     const h = run.file.variable('h_anom').values as Float64Array;
     const cells = m.grid.nx * m.grid.ny;
     const last = Array.from(h.subarray(3 * cells));
-    const now = Array.from(m.field('h_anom', new Float32Array(cells)), (x) => (Number.isNaN(x) ? 9.969209968386869e36 : x));
+    const now = Array.from(m.field('h_anom', new Float32Array(cells)), (x) =>
+      Number.isNaN(x) ? 9.969209968386869e36 : x,
+    );
     expect(last).toEqual(now);
     // `pycno check` counts it.
     const p = parseScenario(FIXTURE_TEXT, 'tiny.json', sets);
     expect(derivedNumbers(p.resolved, m.grid).outputs).toBe(4);
-    expect(derivedNumbers(parseScenario(FIXTURE_TEXT, 'tiny.json', [ODD_DT, 'time.days=10', 'time.outputEveryDays=5']).resolved, m.grid).outputs).toBe(3);
+    expect(
+      derivedNumbers(
+        parseScenario(FIXTURE_TEXT, 'tiny.json', [ODD_DT, 'time.days=10', 'time.outputEveryDays=5']).resolved,
+        m.grid,
+      ).outputs,
+    ).toBe(3);
   });
 });

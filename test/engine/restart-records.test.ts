@@ -18,7 +18,17 @@ function windy(kind: string, join: number): string {
   if (kind === 'pulse ramp at the join') {
     sc.wind.parts = [part({ kind: 'pulse', start: join - 0.5, duration: 4, ramp: 1 })];
   } else if (kind === 'table, updated every step') {
-    sc.wind.parts = [part({ kind: 'table', points: [[0, 0], [join - 1, 0.3], [join + 1, 1], [30, -0.5]] })];
+    sc.wind.parts = [
+      part({
+        kind: 'table',
+        points: [
+          [0, 0],
+          [join - 1, 0.3],
+          [join + 1, 1],
+          [30, -0.5],
+        ],
+      }),
+    ];
     sc.wind.updateHours = 0;
   } else if (kind === 'bursts') {
     sc.wind.parts = [{ ...BURSTS_PART, window: [join - 3, join + 3], ratePerYear: 300, duration: [1, 4] }];
@@ -36,7 +46,10 @@ async function legs(text: string, sets: string[], join: number, total: number) {
   const sc = JSON.parse(text);
   sc.initial = { kind: 'restart', path: 'first-end.nc' };
   const files = new Map([['/runs/first-end.nc', await writeRestart(first.model)]]);
-  const second = await runInMemory(JSON.stringify(sc), '/runs/second.json', { sets: [...sets, `time.days=${total - join}`], files });
+  const second = await runInMemory(JSON.stringify(sc), '/runs/second.json', {
+    sets: [...sets, `time.days=${total - join}`],
+    files,
+  });
   return { straight, first, second };
 }
 
@@ -47,7 +60,9 @@ function common(a: RunInMemory, b: RunInMemory): Array<[number, number]> {
 }
 
 function differences(a: RunInMemory, b: RunInMemory, pairs: Array<[number, number]>): string[] {
-  return pairs.flatMap(([i, j]) => recordDifferences(a.file, i, b.file, j).map((v) => `${v} at day ${recordDays(b.file)[j]}`));
+  return pairs.flatMap(([i, j]) =>
+    recordDifferences(a.file, i, b.file, j).map((v) => `${v} at day ${recordDays(b.file)[j]}`),
+  );
 }
 
 describe('records across a restart', () => {
@@ -55,14 +70,22 @@ describe('records across a restart', () => {
     for (const mode of kind === 'bursts' ? (['linear', 'nonlinear'] as const) : (['linear'] as const)) {
       it(`${kind} (${mode}): the restarted run's records, the first included, are the straight run's`, async () => {
         const join = 10;
-        const { straight, first, second } = await legs(windy(kind, join), ['physics.reducedGravity=0.037', `physics.dynamics=${mode}`, 'time.outputEveryDays=2.5'], join, 20);
+        const { straight, first, second } = await legs(
+          windy(kind, join),
+          ['physics.reducedGravity=0.037', `physics.dynamics=${mode}`, 'time.outputEveryDays=2.5'],
+          join,
+          20,
+        );
         expect(recordDays(second.file)).toEqual([10, 12.5, 15, 17.5, 20]);
         const pairs = common(straight, second);
         expect(pairs.map(([, j]) => j)).toEqual([0, 1, 2, 3, 4]);
         expect(differences(straight, second, pairs)).toEqual([]);
         expect(differences(straight, first, common(straight, first))).toEqual([]);
         // Something to compare: the stress in the patch changes across the join.
-        const taux = (r: RunInMemory, k: number) => (r.file.variable('taux').values as Float64Array)[k * r.model.grid.nx * r.model.grid.ny + 10 * r.model.grid.nx + 15];
+        const taux = (r: RunInMemory, k: number) =>
+          (r.file.variable('taux').values as Float64Array)[
+            k * r.model.grid.nx * r.model.grid.ny + 10 * r.model.grid.nx + 15
+          ];
         const i = recordDays(straight.file).indexOf(join);
         expect(taux(straight, i)).not.toBe(taux(straight, i + 1));
       });
@@ -73,7 +96,13 @@ describe('records across a restart', () => {
     // The envelope falls from 1 at day 0 to 0 at day 1, evaluated at every step: the first step
     // uses the full stress, the same as a constant envelope's.
     const sc = JSON.parse(windy('table, updated every step', 10));
-    sc.wind.parts[0].envelope = { kind: 'table', points: [[0, 1], [1, 0]] };
+    sc.wind.parts[0].envelope = {
+      kind: 'table',
+      points: [
+        [0, 1],
+        [1, 0],
+      ],
+    };
     const falling = await runInMemory(JSON.stringify(sc), '/runs/falling.json', { sets: ['time.days=2'] });
     sc.wind.parts[0].envelope = { kind: 'constant' };
     const steady = await runInMemory(JSON.stringify(sc), '/runs/steady.json', { sets: ['time.days=2'] });
@@ -86,9 +115,14 @@ describe('records across a restart', () => {
     }
   });
 
-  it('a restart between whole intervals: the first record repeats the last of the first leg, later ones are the straight run\'s', async () => {
+  it("a restart between whole intervals: the first record repeats the last of the first leg, later ones are the straight run's", async () => {
     const join = 8.5; // not a whole number of 2.5-day intervals: the first leg ends with a shorter one
-    const { straight, first, second } = await legs(windy('pulse ramp at the join', join), ['physics.reducedGravity=0.037', 'time.outputEveryDays=2.5'], join, 20);
+    const { straight, first, second } = await legs(
+      windy('pulse ramp at the join', join),
+      ['physics.reducedGravity=0.037', 'time.outputEveryDays=2.5'],
+      join,
+      20,
+    );
     const d1 = recordDays(first.file);
     const d2 = recordDays(second.file);
     expect(d1.slice(0, 4)).toEqual([0, 2.5, 5, 7.5]);

@@ -21,10 +21,12 @@ function expectIdentical(a: State, b: State): void {
   expect(a.time).toBe(b.time);
   expect(a.steps).toBe(b.steps);
   expect(a.historyCount).toBe(b.historyCount);
-  for (const k of ['du', 'dv', 'dh'] as const) for (const n of [0, 1]) expect(same(a.history[k][n], b.history[k][n])).toBe(true);
+  for (const k of ['du', 'dv', 'dh'] as const)
+    for (const n of [0, 1]) expect(same(a.history[k][n], b.history[k][n])).toBe(true);
 }
 
-const scenario = (sets: string[]) => parseScenario(FIXTURE_TEXT, FIXTURE, ['basin.resolution=0.25', 'time.days=20', ...sets]);
+const scenario = (sets: string[]) =>
+  parseScenario(FIXTURE_TEXT, FIXTURE, ['basin.resolution=0.25', 'time.days=20', ...sets]);
 const parsed = (sets: string[]) => scenario(sets).resolved;
 
 describe('restart files', () => {
@@ -110,16 +112,25 @@ describe('restart files', () => {
     m.advance(3);
     const bytes = await writeRestart(m);
     const other = new Grid({ ...m.grid.basin, lonEast: 200 }, m.grid.earthRadius);
-    expect(() => readRestart(bytes, other, 'old.nc')).toThrow(/old\.nc: is on a 160 x 80 grid, the scenario on 200 x 80/);
+    expect(() => readRestart(bytes, other, 'old.nc')).toThrow(
+      /old\.nc: is on a 160 x 80 grid, the scenario on 200 x 80/,
+    );
     const shifted = new Grid({ ...m.grid.basin, lonWest: 151, lonEast: 191 }, m.grid.earthRadius);
     expect(() => readRestart(bytes, shifted, 'old.nc')).toThrow(/basin\.lonWest = 150, the scenario 151/);
     const noLand = new Grid({ ...m.grid.basin, land: [] }, m.grid.earthRadius);
     expect(() => readRestart(bytes, noLand, 'old.nc')).toThrow(/different land: \d+ cells/);
-    const plain = await writeNetcdfToMemory({ dimensions: [{ name: 'x', length: 2 }], variables: [{ name: 'a', type: NC_DOUBLE, dimensions: ['x'] }] }, { a: [1, 2] });
+    const plain = await writeNetcdfToMemory(
+      { dimensions: [{ name: 'x', length: 2 }], variables: [{ name: 'a', type: NC_DOUBLE, dimensions: ['x'] }] },
+      { a: [1, 2] },
+    );
     expect(() => readRestart(plain, m.grid, 'plain.nc')).toThrow(/plain\.nc: is not a Pycno restart file/);
-    expect(() => readRestart(new TextEncoder().encode('{"format": 1}'), m.grid, 'x.json')).toThrow(/x\.json: cannot be read as NetCDF: not a NetCDF file/);
+    expect(() => readRestart(new TextEncoder().encode('{"format": 1}'), m.grid, 'x.json')).toThrow(
+      /x\.json: cannot be read as NetCDF: not a NetCDF file/,
+    );
     // Truncated: the header promises variables the bytes do not hold.
-    expect(() => readRestart(bytes.subarray(0, bytes.length - 100), m.grid, 'cut.nc')).toThrow(/cut\.nc: cannot be read as NetCDF: truncated/);
+    expect(() => readRestart(bytes.subarray(0, bytes.length - 100), m.grid, 'cut.nc')).toThrow(
+      /cut\.nc: cannot be read as NetCDF: truncated/,
+    );
     try {
       readRestart(plain, m.grid, 'plain.nc');
     } catch (e) {
@@ -131,7 +142,9 @@ describe('restart files', () => {
     const r = parsed([]);
     const m = buildModel(r).model;
     const small = new Model({ ...r.model, basin: { ...r.model.basin, lonEast: 170 } });
-    expect(() => new Model(r.model, { initial: small.state })).toThrow(/restart state is on a 80 x 80 grid, the scenario on 160 x 80/);
+    expect(() => new Model(r.model, { initial: small.state })).toThrow(
+      /restart state is on a 80 x 80 grid, the scenario on 160 x 80/,
+    );
     void m;
   });
 

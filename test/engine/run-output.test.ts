@@ -5,7 +5,16 @@ import { describe, expect, it } from 'vitest';
 import { FIELD_INFO } from '../../model/diagnostics/fields.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
 import { MemorySink } from '../../model/io/netcdf-writer.ts';
-import { INTEGRAL_VARIABLES, OUTPUT_FILL, PYCNO_VERSION, RunOutputWriter, TIME_UNITS, cellSizeDegrees, type OutputRecord, type RunDescription } from '../../model/io/run-output.ts';
+import {
+  INTEGRAL_VARIABLES,
+  OUTPUT_FILL,
+  PYCNO_VERSION,
+  RunOutputWriter,
+  TIME_UNITS,
+  cellSizeDegrees,
+  type OutputRecord,
+  type RunDescription,
+} from '../../model/io/run-output.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 import { Engine } from '../../worker/engine.ts';
 import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
@@ -74,10 +83,14 @@ describe('run output file', () => {
     }
     const hov = f.variable('hovmoller_h_anom');
     expect(hov.shape).toEqual([records.length, info.hovmollerLats.length, nx]);
-    expect(Array.from(hov.values as Float64Array)).toEqual(records.flatMap((r) => r.hovmoller.flatMap((row) => Array.from(row, f32))));
+    expect(Array.from(hov.values as Float64Array)).toEqual(
+      records.flatMap((r) => r.hovmoller.flatMap((row) => Array.from(row, f32))),
+    );
     expect(Array.from(f.variable('hovmoller_lat').values as Float64Array)).toEqual(info.hovmollerRowLats);
     const k = info.fields.indexOf('u');
-    expect(Array.from(f.variable('probe_u').values as Float64Array)).toEqual(records.flatMap((r) => r.probeValues.map((p) => f32(p[k]))));
+    expect(Array.from(f.variable('probe_u').values as Float64Array)).toEqual(
+      records.flatMap((r) => r.probeValues.map((p) => f32(p[k]))),
+    );
     // The probe series are the field values in the probe's cell.
     const cell = { i: Math.floor(188.5 - 150), j: Math.floor(0.5 + 10) };
     const last = records.at(-1)!;
@@ -162,7 +175,9 @@ describe('run output file', () => {
     const grid = { nx: 1, ny: 3, lon: [150.25], lat: [-1, 0, 1], ocean: [1, 1, 1] };
     const basin = JSON.stringify({ basin: { lonWest: 150, lonEast: 150.5, latSouth: -1.5, latNorth: 1.5 } });
     expect(cellSizeDegrees({ grid, scenarioJson: basin })).toEqual({ dLon: 0.5, dLat: 1 });
-    expect(cellSizeDegrees({ grid: { ...grid, nx: 4, lon: [0.125, 0.375, 0.625, 0.875] }, scenarioJson: '{}' })).toEqual({ dLon: 0.25, dLat: 1 });
+    expect(
+      cellSizeDegrees({ grid: { ...grid, nx: 4, lon: [0.125, 0.375, 0.625, 0.875] }, scenarioJson: '{}' }),
+    ).toEqual({ dLon: 0.25, dLat: 1 });
     expect(() => cellSizeDegrees({ grid, scenarioJson: '{}' })).toThrow(/cell width of a one-cell grid is unknown/);
   });
 

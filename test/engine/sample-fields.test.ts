@@ -9,7 +9,9 @@ import { transferList } from '../../worker/frames.ts';
 import type { Frame } from '../../worker/protocol.ts';
 import { FIXTURE, FIXTURE_TEXT, fakeHost } from '../support/engine-fixture.ts';
 
-async function run(every: number | null): Promise<{ frames: Array<{ frame: Frame; transfer: ArrayBuffer[] }>; records: OutputRecord[]; fields: string[] }> {
+async function run(
+  every: number | null,
+): Promise<{ frames: Array<{ frame: Frame; transfer: ArrayBuffer[] }>; records: OutputRecord[]; fields: string[] }> {
   const engine = new Engine({ host: fakeHost(5) });
   if (every !== null) engine.setSampleFields(every);
   const r = await engine.load(FIXTURE_TEXT, FIXTURE, { sets: ['time.days=6', 'time.outputEveryDays=0.5'] });
@@ -34,7 +36,10 @@ describe('output samples with full fields', () => {
       expect(s.step).toBe(records[k].step);
       if (k % 3 === 0) {
         expect(Object.keys(s.fields!).sort()).toEqual([...fields].sort());
-        for (const f of fields) expect(Array.from(s.fields![f as keyof typeof s.fields]!)).toEqual(Array.from(records[k].fields[f as keyof OutputRecord['fields']]!));
+        for (const f of fields)
+          expect(Array.from(s.fields![f as keyof typeof s.fields]!)).toEqual(
+            Array.from(records[k].fields[f as keyof OutputRecord['fields']]!),
+          );
       } else expect(s.fields).toBeUndefined();
     });
     // Later samples differ from the first (the wind acts): the fields are the record's own.
@@ -48,7 +53,8 @@ describe('output samples with full fields', () => {
     for (const { frame, transfer } of frames) {
       const listed = new Set(transferList(frame));
       expect(transfer.length).toBe(listed.size);
-      for (const s of frame.samples) for (const a of Object.values(s.fields ?? {})) expect(listed.has(a!.buffer as ArrayBuffer)).toBe(true);
+      for (const s of frame.samples)
+        for (const a of Object.values(s.fields ?? {})) expect(listed.has(a!.buffer as ArrayBuffer)).toBe(true);
     }
     expect(frames.flatMap((f) => f.frame.samples).every((s) => s.fields !== undefined)).toBe(true);
   });
@@ -59,7 +65,9 @@ describe('output samples with full fields', () => {
     const { frames: off } = await run(0);
     expect(off.flatMap((f) => f.frame.samples).some((s) => s.fields !== undefined)).toBe(false);
     const engine = new Engine({ host: fakeHost(5) });
-    expect(() => engine.setSampleFields(1.5)).toThrow(/setSampleFields: 'every' must be a whole number >= 0 \(got 1.5\)/);
+    expect(() => engine.setSampleFields(1.5)).toThrow(
+      /setSampleFields: 'every' must be a whole number >= 0 \(got 1.5\)/,
+    );
     expect(() => engine.setSampleFields(-1)).toThrow(/whole number/);
   });
 });

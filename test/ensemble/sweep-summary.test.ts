@@ -20,7 +20,14 @@ import type { RunData } from '../../model/io/run-data.ts';
 import { readRun } from '../../model/io/run-import.ts';
 import { gather } from '../../worker/cli/sweep-gather.ts';
 import { FIXTURE } from '../support/engine-fixture.ts';
-import { CDO_SINFON, NCDUMP_HEADER, NETCDF4_READER, OUTSIDE_READERS, missingUdunits, udunits } from '../support/outside-readers.ts';
+import {
+  CDO_SINFON,
+  NCDUMP_HEADER,
+  NETCDF4_READER,
+  OUTSIDE_READERS,
+  missingUdunits,
+  udunits,
+} from '../support/outside-readers.ts';
 
 const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
 const BURSTS = fileURLToPath(new URL('../fixtures/tiny-bursts.json', import.meta.url));
@@ -34,7 +41,7 @@ function pycno(args: string[]) {
 
 const SEEDS = ['1', '2', '3'];
 const THICK = ['120', '150'];
-let gatherAlive: number[] = [];
+const gatherAlive: number[] = [];
 let gatherOut = '';
 let seedFile: NcFile;
 let members: RunData[] = [];
@@ -42,7 +49,18 @@ let members: RunData[] = [];
 beforeAll(async () => {
   copyFileSync(BURSTS, join(dir, 'tiny-bursts.json'));
   copyFileSync(FIXTURE, join(dir, 'tiny.json'));
-  const made = pycno(['sweep', 'tiny-bursts.json', '--vary', `physics.layerThickness=${THICK.join(',')}`, '--vary', `seed=${SEEDS.join(',')}`, '--batch', 'seeds', '--per-task', '6']);
+  const made = pycno([
+    'sweep',
+    'tiny-bursts.json',
+    '--vary',
+    `physics.layerThickness=${THICK.join(',')}`,
+    '--vary',
+    `seed=${SEEDS.join(',')}`,
+    '--batch',
+    'seeds',
+    '--per-task',
+    '6',
+  ]);
   expect(made.code, made.stderr).toBe(0);
   const task = pycno(['sweep', '--task', 'seeds', '1']);
   expect(task.code, task.stdout + task.stderr).toBe(0);
@@ -63,10 +81,23 @@ beforeAll(async () => {
   gatherOut = out;
   expect(code, out).toBe(0);
   seedFile = readNetcdf(readFileSync(join(dir, 'seeds', 'summary.nc')));
-  members = Array.from({ length: 6 }, (_, k) => readRun(new Uint8Array(readFileSync(join(dir, 'seeds', 'runs', `run-00${k + 1}.nc`))), `run-00${k + 1}.nc`));
+  members = Array.from({ length: 6 }, (_, k) =>
+    readRun(new Uint8Array(readFileSync(join(dir, 'seeds', 'runs', `run-00${k + 1}.nc`))), `run-00${k + 1}.nc`),
+  );
 
   // The parameter sweep: a text value (physics.slip) and a member that blows up (5 N m-2).
-  const p = pycno(['sweep', 'tiny.json', '--vary', 'wind.parts[0].source.x=0.05,5', '--vary', 'physics.slip=free,no', '--batch', 'params', '--per-task', '4']);
+  const p = pycno([
+    'sweep',
+    'tiny.json',
+    '--vary',
+    'wind.parts[0].source.x=0.05,5',
+    '--vary',
+    'physics.slip=free,no',
+    '--batch',
+    'params',
+    '--per-task',
+    '4',
+  ]);
   expect(p.code, p.stderr).toBe(0);
   expect(pycno(['sweep', '--task', 'params', '1']).code).toBe(1);
   expect(pycno(['sweep', '--gather', 'params']).code).toBe(1);
@@ -86,7 +117,9 @@ const ulp32 = (x: number) => {
 describe('the seed statistics', () => {
   it('groups the members by the values that are not the seed', () => {
     expect(gatherOut).toMatch(/6 members: 6 complete, 0 failed, 0 missing/);
-    expect(gatherOut).toMatch(/mean and standard deviation over the seeds of h_anom, ssh, u, v, u_surf, v_surf, u_below, v_below, taux, tauy in 2 seed ensembles/);
+    expect(gatherOut).toMatch(
+      /mean and standard deviation over the seeds of h_anom, ssh, u, v, u_surf, v_surf, u_below, v_below, taux, tauy in 2 seed ensembles/,
+    );
     expect(Array.from(values(seedFile, 'member_ensemble'))).toEqual([1, 1, 1, 2, 2, 2]);
     expect(Array.from(values(seedFile, 'ensemble_vary_physics_layerThickness'))).toEqual([120, 150]);
     expect(Array.from(values(seedFile, 'ensemble_members'))).toEqual([3, 3]);
@@ -117,10 +150,18 @@ describe('the seed statistics', () => {
               continue;
             }
             const m = (xs[0] + xs[1] + xs[2]) / 3;
-            const sd = Math.sqrt(((xs[0] - m) * (xs[0] - m) + (xs[1] - m) * (xs[1] - m) + (xs[2] - m) * (xs[2] - m)) / 2);
+            const sd = Math.sqrt(
+              ((xs[0] - m) * (xs[0] - m) + (xs[1] - m) * (xs[1] - m) + (xs[2] - m) * (xs[2] - m)) / 2,
+            );
             // Stored as float32: the two computations round to the same float, or to neighbours.
-            expect(Math.abs(mean[at] - Math.fround(m)), `${f} mean, group ${g + 1}, record ${n}, cell ${c}`).toBeLessThanOrEqual(ulp32(m) + 1e-300);
-            expect(Math.abs(std[at] - Math.fround(sd)), `${f} std, group ${g + 1}, record ${n}, cell ${c}`).toBeLessThanOrEqual(ulp32(sd) + 1e-300);
+            expect(
+              Math.abs(mean[at] - Math.fround(m)),
+              `${f} mean, group ${g + 1}, record ${n}, cell ${c}`,
+            ).toBeLessThanOrEqual(ulp32(m) + 1e-300);
+            expect(
+              Math.abs(std[at] - Math.fround(sd)),
+              `${f} std, group ${g + 1}, record ${n}, cell ${c}`,
+            ).toBeLessThanOrEqual(ulp32(sd) + 1e-300);
             compared++;
             if (mean[at] === Math.fround(m) && std[at] === Math.fround(sd)) exact++;
           }
@@ -148,11 +189,15 @@ describe('the seed statistics', () => {
     for (let i = 0; i < nx; i++) {
       const xs = members.slice(0, 3).map((m) => m.hovmoller[0].values[n * nx + i]);
       if (!Number.isFinite(xs[0])) continue;
-      expect(Math.abs(hm[((n * 2 + 0) * 2 + 0) * nx + i] - Math.fround((xs[0] + xs[1] + xs[2]) / 3))).toBeLessThanOrEqual(ulp32(xs[0]) * 2);
+      expect(
+        Math.abs(hm[((n * 2 + 0) * 2 + 0) * nx + i] - Math.fround((xs[0] + xs[1] + xs[2]) / 3)),
+      ).toBeLessThanOrEqual(ulp32(xs[0]) * 2);
     }
     const pm = values(seedFile, 'probe_h_anom_mean');
     const xs = members.slice(3, 6).map((m) => m.probes[1].series.h_anom![n]);
-    expect(Math.abs(pm[(n * 2 + 1) * 2 + 1] - Math.fround((xs[0] + xs[1] + xs[2]) / 3))).toBeLessThanOrEqual(ulp32(xs[0]) * 2);
+    expect(Math.abs(pm[(n * 2 + 1) * 2 + 1] - Math.fround((xs[0] + xs[1] + xs[2]) / 3))).toBeLessThanOrEqual(
+      ulp32(xs[0]) * 2,
+    );
   });
 
   it('are gathered one member at a time: no earlier member is still in memory when the next is read', () => {
@@ -169,23 +214,32 @@ describe('the seed statistics', () => {
 });
 
 describe('the summary file in outside readers', () => {
-  it.for(['seeds', 'params'] as const)('the %s summary opens in netCDF4, xarray, ncdump and CDO without a warning', (kind, ctx) => {
-    const path = join(dir, kind, 'summary.nc');
-    for (const reader of OUTSIDE_READERS) {
-      const missing = reader.missing();
-      if (missing) {
-        ctx.skip(true, `${reader.name}: ${missing}`);
-        return;
+  it.for(['seeds', 'params'] as const)(
+    'the %s summary opens in netCDF4, xarray, ncdump and CDO without a warning',
+    (kind, ctx) => {
+      const path = join(dir, kind, 'summary.nc');
+      for (const reader of OUTSIDE_READERS) {
+        const missing = reader.missing();
+        if (missing) {
+          ctx.skip(true, `${reader.name}: ${missing}`);
+          return;
+        }
+        expect(reader.read(path).problems, reader.name).toEqual([]);
       }
-      expect(reader.read(path).problems, reader.name).toEqual([]);
-    }
-  });
+    },
+  );
 
   it.for(['seeds', 'params'] as const)('every units string of the %s summary is one UDUNITS-2 reads', (kind, ctx) => {
     const missing = NETCDF4_READER.missing() ?? missingUdunits();
     ctx.skip(missing !== null, String(missing));
     const got = JSON.parse(NETCDF4_READER.read(join(dir, kind, 'summary.nc')).stdout);
-    const units = [...new Set(Object.values(got.variables as Record<string, { attributes: Record<string, unknown> }>).flatMap((v) => (typeof v.attributes.units === 'string' ? [v.attributes.units] : [])))];
+    const units = [
+      ...new Set(
+        Object.values(got.variables as Record<string, { attributes: Record<string, unknown> }>).flatMap((v) =>
+          typeof v.attributes.units === 'string' ? [v.attributes.units] : [],
+        ),
+      ),
+    ];
     expect(units.length).toBeGreaterThan(kind === 'seeds' ? 6 : 4);
     const u = udunits([...units, 'no_such_unit']);
     expect(u.problems).toEqual([]);
@@ -209,7 +263,15 @@ describe('the summary file in outside readers', () => {
     ctx.skip(CDO_SINFON.missing() !== null, String(CDO_SINFON.missing()));
     const out = CDO_SINFON.read(join(dir, 'seeds', 'summary.nc')).stdout;
     const names = out.split('\n').flatMap((l) => /^\s*\d+ : .* : (\S+)\s*$/.exec(l)?.[1] ?? []);
-    for (const v of ['h_anom_mean', 'h_anom_std', 'hovmoller_h_anom_mean', 'probe_h_anom_std', 'energy_mean', 'kelvin_speed']) expect(names).toContain(v);
+    for (const v of [
+      'h_anom_mean',
+      'h_anom_std',
+      'hovmoller_h_anom_mean',
+      'probe_h_anom_std',
+      'energy_mean',
+      'kelvin_speed',
+    ])
+      expect(names).toContain(v);
     expect(out).toMatch(/lonlat +: points=800 \(40x20\)/);
     expect(out).toMatch(/generic +: levels=2\n +ensemble : 1 to 2/);
   });
@@ -221,7 +283,10 @@ describe('the summary file in outside readers', () => {
     const block = /```\n(netcdf summary \{[\s\S]*?)\n```/.exec(doc);
     expect(block, 'the summary header listing in docs/ensembles.md').not.toBeNull();
     // Lines cut short ("...") and comments added for the reader ("// ...") are not compared.
-    const lines = block![1].split('\n').map((l) => l.replace(/\s+\/\/ (?!\(\d+ currently\)).*$/, '')).filter((l) => l.trim() !== '' && !l.includes('...'));
+    const lines = block![1]
+      .split('\n')
+      .map((l) => l.replace(/\s+\/\/ (?!\(\d+ currently\)).*$/, ''))
+      .filter((l) => l.trim() !== '' && !l.includes('...'));
     expect(lines.length).toBeGreaterThan(60);
     for (const l of lines) expect(header, `docs/ensembles.md line: ${l.trim()}`).toContain(l);
   });

@@ -23,7 +23,9 @@ describe('WelfordAccumulator', () => {
     // Values about 1e4 with a spread of about 3e-4 (mean / std about 3e7): sum(x^2) - (sum x)^2 / n
     // loses every digit in float64 (eps^-1 is about 5e15 < (3e7)^2), the two-pass and Welford's
     // computations keep about eps times 3e7, some 1e-8 of the standard deviation.
-    const members = Array.from({ length: n }, () => Float64Array.from({ length: len }, (_, k) => 1e4 + k + 1e-3 * (rng() - 0.5)));
+    const members = Array.from({ length: n }, () =>
+      Float64Array.from({ length: len }, (_, k) => 1e4 + k + 1e-3 * (rng() - 0.5)),
+    );
     const acc = new WelfordAccumulator(len);
     for (const m of members) acc.add(m);
     expect(acc.count).toBe(n);

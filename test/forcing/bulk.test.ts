@@ -53,6 +53,8 @@ describe('bulk formula', () => {
 
   it('rejects bad settings', () => {
     expect(() => makeBulkFormula({ airDensity: 0, drag: 'constant', dragCoefficient: 1e-3 })).toThrow(/airDensity/);
-    expect(() => makeBulkFormula({ airDensity: 1.2, drag: 'constant', dragCoefficient: -1 })).toThrow(/dragCoefficient/);
+    expect(() => makeBulkFormula({ airDensity: 1.2, drag: 'constant', dragCoefficient: -1 })).toThrow(
+      /dragCoefficient/,
+    );
   });
 });

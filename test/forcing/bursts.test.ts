@@ -25,7 +25,8 @@ describe('random bursts', () => {
     expect(a.length).toBeGreaterThan(0);
     expect(b).toEqual(a);
     a.forEach((x, k) => {
-      for (const key of ['start', 'amplitude', 'lon', 'lat', 'lonWidth', 'latWidth', 'duration'] as const) expect(Object.is(x[key], b[k][key])).toBe(true);
+      for (const key of ['start', 'amplitude', 'lon', 'lat', 'lonWidth', 'latWidth', 'duration'] as const)
+        expect(Object.is(x[key], b[k][key])).toBe(true);
     });
   });
 

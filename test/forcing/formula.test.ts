@@ -19,16 +19,34 @@ describe('formula: valid expressions', () => {
     ['(-lat)^2', (_x, y) => (-y) ** 2],
     ['2^3^2', () => 2 ** (3 ** 2)],
     ['2 ^ -1', () => 0.5],
-    ['-0.05 * cos(pi * lat / 30) * (1 - 0.6 * exp(-((lat - 6)^2) / 8))', (_x, y) => -0.05 * Math.cos((Math.PI * y) / 30) * (1 - 0.6 * Math.exp(-((y - 6) ** 2) / 8))],
-    ['sin(2*pi*t/365) + tan(0.1) + tanh(lat/5) + sqrt(abs(lat)) + log(lon) + floor(lat/4)', (x, y, t) => Math.sin((2 * Math.PI * t) / 365) + Math.tan(0.1) + Math.tanh(y / 5) + Math.sqrt(Math.abs(y)) + Math.log(x) + Math.floor(y / 4)],
-    ['atan2(lat, lon - 180) + pow(2, lat/10) + min(lat, 0, 3) + max(lat, 1)', (x, y) => Math.atan2(y, x - 180) + 2 ** (y / 10) + Math.min(y, 0, 3) + Math.max(y, 1)],
+    [
+      '-0.05 * cos(pi * lat / 30) * (1 - 0.6 * exp(-((lat - 6)^2) / 8))',
+      (_x, y) => -0.05 * Math.cos((Math.PI * y) / 30) * (1 - 0.6 * Math.exp(-((y - 6) ** 2) / 8)),
+    ],
+    [
+      'sin(2*pi*t/365) + tan(0.1) + tanh(lat/5) + sqrt(abs(lat)) + log(lon) + floor(lat/4)',
+      (x, y, t) =>
+        Math.sin((2 * Math.PI * t) / 365) +
+        Math.tan(0.1) +
+        Math.tanh(y / 5) +
+        Math.sqrt(Math.abs(y)) +
+        Math.log(x) +
+        Math.floor(y / 4),
+    ],
+    [
+      'atan2(lat, lon - 180) + pow(2, lat/10) + min(lat, 0, 3) + max(lat, 1)',
+      (x, y) => Math.atan2(y, x - 180) + 2 ** (y / 10) + Math.min(y, 0, 3) + Math.max(y, 1),
+    ],
     ['clamp(lat / 5, -1, 1)', (_x, y) => Math.min(Math.max(y / 5, -1), 1)],
     ['gauss(lat - 2, 4)', (_x, y) => Math.exp(-((y - 2) ** 2) / (2 * 16))],
     ['if(lat > 0, 1, -1) * (lon >= 180 ? 2 : 3)', (x, y) => (y > 0 ? 1 : -1) * (x >= 180 ? 2 : 3)],
     ['(lat < 0) + (lat <= 0) + (lat == 7) + (lat != 7)', (_x, y) => +(y < 0) + +(y <= 0) + +(y === 7) + +(y !== 7)],
     ['lat > -10 && lat < 5 || t > 300', (_x, y, t) => +((y > -10 && y < 5) || t > 300)],
     ['!(lat > 0)', (_x, y) => +!(y > 0)],
-    ['e^1 + rad(180) + deg(pi) + step(lat) + sign(lat) + hypot(3, 4)', (_x, y) => Math.E + Math.PI + 180 + (y >= 0 ? 1 : 0) + Math.sign(y) + 5],
+    [
+      'e^1 + rad(180) + deg(pi) + step(lat) + sign(lat) + hypot(3, 4)',
+      (_x, y) => Math.E + Math.PI + 180 + (y >= 0 ? 1 : 0) + Math.sign(y) + 5,
+    ],
     ['1.5e-2 * .5', () => 0.0075],
     ['  lat  ', (_x, y) => y],
   ];
@@ -72,7 +90,9 @@ describe('formula: bad input', () => {
     expect(failure('lat + * 2').message).toMatch(/^syntax error at character \d+: Expected expression/);
     expect(failure('1 +').message).toBe('syntax error at character 3: Expected expression after +');
     // The power is written '^' in our syntax, and the message says '^' (jsep reads it as **).
-    expect(failure('lat^^2').message).toBe("syntax error at character 4: '^' must be followed by a number, a name or a bracket");
+    expect(failure('lat^^2').message).toBe(
+      "syntax error at character 4: '^' must be followed by a number, a name or a bracket",
+    );
     expect(failure('lat^^2').message).not.toMatch(/\*\*/);
   });
 
@@ -101,12 +121,18 @@ describe('formula: bad input', () => {
     // deeply"); real nesting, a tower of powers or of signs, still is.
     const chain = Array.from({ length: MAX_FORMULA_DEPTH + 20 }, () => 'lat').join('+');
     expect(compileFormula(chain).evaluate(0, 2, 0)).toBe(2 * (MAX_FORMULA_DEPTH + 20));
-    expect(failure(Array.from({ length: MAX_FORMULA_DEPTH + 20 }, () => '2').join('^')).message).toMatch(/nested too deeply \(more than 100 levels\)/);
-    expect(failure('-'.repeat(MAX_FORMULA_DEPTH + 20) + 'lat').message).toMatch(/nested too deeply \(more than 100 levels\)/);
+    expect(failure(Array.from({ length: MAX_FORMULA_DEPTH + 20 }, () => '2').join('^')).message).toMatch(
+      /nested too deeply \(more than 100 levels\)/,
+    );
+    expect(failure('-'.repeat(MAX_FORMULA_DEPTH + 20) + 'lat').message).toMatch(
+      /nested too deeply \(more than 100 levels\)/,
+    );
   });
 
   it('no property access: constructor.constructor, __proto__, [ ]', () => {
-    expect(failure('constructor.constructor').message).toBe("property access ('.' or '[ ]') is not allowed at character 0");
+    expect(failure('constructor.constructor').message).toBe(
+      "property access ('.' or '[ ]') is not allowed at character 0",
+    );
     expect(failure("lat['constructor']").message).toMatch(/property access/);
     expect(failure('sin.call(1)').message).toMatch(/property access/);
     expect(failure('__proto__').message).toBe("unknown name '__proto__' at character 0");
@@ -134,7 +160,9 @@ describe('formula: bad input', () => {
   });
 
   it('operators outside the language, at the operator', () => {
-    expect(failure('lat % 2').message).toBe("operator '%' is not allowed (there is no remainder operator) at character 4");
+    expect(failure('lat % 2').message).toBe(
+      "operator '%' is not allowed (there is no remainder operator) at character 4",
+    );
     expect(failure('lat === 2').message).toMatch(/operator '===' is not allowed \(use '=='\)/);
     expect(failure('lat << 2').message).toMatch(/operator '<<' is not allowed at character 4/);
     expect(failure('~lat').message).toMatch(/operator '~' is not allowed/);

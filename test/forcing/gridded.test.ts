@@ -1,6 +1,12 @@
 // Gridded vectors: bilinear interpolation, time interpolation, the CSV layout and the NetCDF adapter.
 import { describe, expect, it } from 'vitest';
-import { applyWeights, bilinearWeights, readNetcdfVectors, seriesFromGrid, timeBracket } from '../../model/forcing/gridded.ts';
+import {
+  applyWeights,
+  bilinearWeights,
+  readNetcdfVectors,
+  seriesFromGrid,
+  timeBracket,
+} from '../../model/forcing/gridded.ts';
 import { parseWindCsv } from '../../model/forcing/csv.ts';
 import type { GriddedVectors } from '../../model/forcing/spec.ts';
 
@@ -80,7 +86,9 @@ describe('CSV layout', () => {
 
   it('reads a day column, bytes and CRLF, columns in any order', () => {
     const rows = ['x,y,day,lat,lon'];
-    for (const day of [0, 30]) for (const lat of [-1, 1]) for (const lon of [140, 142, 144]) rows.push(`${day + lon / 100},${lat},${day},${lat},${lon}`);
+    for (const day of [0, 30])
+      for (const lat of [-1, 1])
+        for (const lon of [140, 142, 144]) rows.push(`${day + lon / 100},${lat},${day},${lat},${lon}`);
     const s = parseWindCsv(new TextEncoder().encode(rows.join('\r\n')));
     expect(Array.from(s.days ?? [])).toEqual([0, 30]);
     expect([s.nLon, s.nLat, s.dLon, s.dLat]).toEqual([3, 2, 2, 2]);
@@ -89,14 +97,28 @@ describe('CSV layout', () => {
   });
 
   it('errors name the line', () => {
-    expect(() => parseWindCsv('lon,lat,speed,y\n1,2,3,4')).toThrow('CSV line 1, column 3: the header names a column other than lon, lat, x, y and day');
+    expect(() => parseWindCsv('lon,lat,speed,y\n1,2,3,4')).toThrow(
+      'CSV line 1, column 3: the header names a column other than lon, lat, x, y and day',
+    );
     expect(() => parseWindCsv('lon,lat,x\n')).toThrow(/line 1: the header has no 'y' column/);
-    expect(() => parseWindCsv('#c\n\nlon,lat,x,y\n1,2,3,4\n1,3,abc,4\n')).toThrow("CSV line 5, column 3 ('x'): the value is not a number (a field of 3 characters)");
-    expect(() => parseWindCsv('lon,lat,x,y\n1,2,3\n')).toThrow('CSV line 2: 3 values, but the header (line 1) names 4 columns');
-    expect(() => parseWindCsv('lon,lat,x,y\n1,2,3,4\n2,2,3,4\n1,2,5,5\n')).toThrow('CSV line 4: lon 1, lat 2 was already given on line 2');
-    expect(() => parseWindCsv('lon,lat,x,y\n0,0,1,1\n1,0,1,1\n3,0,1,1\n')).toThrow(/lon values are not evenly spaced: 1 then 3 \(line 4\)/);
-    expect(() => parseWindCsv('lon,lat,x,y\n0,0,1,1\n1,0,1,1\n0,1,1,1\n')).toThrow(/do not form a full grid: 3 rows for 2 longitudes x 2 latitudes; no row for lon 1, lat 1/);
-    expect(() => parseWindCsv('lon,lat,day,x,y\n0,0,0,1,1\n0,0,5,1,1\n1,0,0,1,1\n')).toThrow(/no row for lon 1, lat 0, day 5/);
+    expect(() => parseWindCsv('#c\n\nlon,lat,x,y\n1,2,3,4\n1,3,abc,4\n')).toThrow(
+      "CSV line 5, column 3 ('x'): the value is not a number (a field of 3 characters)",
+    );
+    expect(() => parseWindCsv('lon,lat,x,y\n1,2,3\n')).toThrow(
+      'CSV line 2: 3 values, but the header (line 1) names 4 columns',
+    );
+    expect(() => parseWindCsv('lon,lat,x,y\n1,2,3,4\n2,2,3,4\n1,2,5,5\n')).toThrow(
+      'CSV line 4: lon 1, lat 2 was already given on line 2',
+    );
+    expect(() => parseWindCsv('lon,lat,x,y\n0,0,1,1\n1,0,1,1\n3,0,1,1\n')).toThrow(
+      /lon values are not evenly spaced: 1 then 3 \(line 4\)/,
+    );
+    expect(() => parseWindCsv('lon,lat,x,y\n0,0,1,1\n1,0,1,1\n0,1,1,1\n')).toThrow(
+      /do not form a full grid: 3 rows for 2 longitudes x 2 latitudes; no row for lon 1, lat 1/,
+    );
+    expect(() => parseWindCsv('lon,lat,day,x,y\n0,0,0,1,1\n0,0,5,1,1\n1,0,0,1,1\n')).toThrow(
+      /no row for lon 1, lat 0, day 5/,
+    );
     expect(() => parseWindCsv('# only a comment\n')).toThrow(/empty/);
     expect(() => parseWindCsv('lon,lat,x,y\n')).toThrow(/no data rows/);
   });
@@ -110,7 +132,12 @@ interface NcVar {
   attrs: Record<string, string | number>;
   data: number[];
 }
-function writeClassic(dims: Array<[string, number]>, vars: NcVar[], recordDim: number | null, numrecs: number): Uint8Array {
+function writeClassic(
+  dims: Array<[string, number]>,
+  vars: NcVar[],
+  recordDim: number | null,
+  numrecs: number,
+): Uint8Array {
   const parts: number[] = [];
   const int = (v: number) => parts.push((v >>> 24) & 255, (v >>> 16) & 255, (v >>> 8) & 255, v & 255);
   const name = (s: string) => {
@@ -188,7 +215,9 @@ function writeClassic(dims: Array<[string, number]>, vars: NcVar[], recordDim: n
     const k = vars.indexOf(v);
     const n = sliceLen(v);
     if (!isRec(v)) v.data.forEach((x, q) => out.setFloat64(begins[k] + 8 * q, x));
-    else for (let r = 0; r < numrecs; r++) for (let q = 0; q < n; q++) out.setFloat64(begins[k] + r * recStep + 8 * q, v.data[r * n + q]);
+    else
+      for (let r = 0; r < numrecs; r++)
+        for (let q = 0; q < n; q++) out.setFloat64(begins[k] + r * recStep + 8 * q, v.data[r * n + q]);
   }
   return new Uint8Array(out.buffer);
 }
@@ -202,13 +231,19 @@ describe('NetCDF adapter', () => {
   const build = (fillAt?: number) => {
     const tx: number[] = [];
     const ty: number[] = [];
-    for (const h of hours) for (const lat of latsNS) for (const lon of lons) {
-      tx.push(field(h, lat, lon) / 0.5); // stored packed: value = stored * 0.5 + 1
-      ty.push(-lat);
-    }
+    for (const h of hours)
+      for (const lat of latsNS)
+        for (const lon of lons) {
+          tx.push(field(h, lat, lon) / 0.5); // stored packed: value = stored * 0.5 + 1
+          ty.push(-lat);
+        }
     if (fillAt !== undefined) tx[fillAt] = -999;
     return writeClassic(
-      [['time', 0], ['lat', 4], ['lon', 4]],
+      [
+        ['time', 0],
+        ['lat', 4],
+        ['lon', 4],
+      ],
       [
         { name: 'time', dims: [0], attrs: { units: 'hours since 2000-01-01' }, data: hours },
         { name: 'lat', dims: [1], attrs: { units: 'degrees_north' }, data: latsNS },
@@ -240,7 +275,9 @@ describe('NetCDF adapter', () => {
   });
 
   it('names the variables it can choose from', () => {
-    expect(() => readNetcdfVectors(build(), { xVariable: 'uas' })).toThrow(/no eastward variable named 'uas' \(data variables: taux, tauy\)/);
+    expect(() => readNetcdfVectors(build(), { xVariable: 'uas' })).toThrow(
+      /no eastward variable named 'uas' \(data variables: taux, tauy\)/,
+    );
     expect(() => readNetcdfVectors(new Uint8Array([1, 2, 3, 4]))).toThrow(/not a readable NetCDF/);
   });
 });

@@ -88,7 +88,9 @@ describe('shapes', () => {
   });
 
   it('rejects bad parameters', () => {
-    expect(() => compileShape({ kind: 'patch', lon: 0, lat: 0, lonWidth: 0, latWidth: 1 })).toThrow(/lonWidth must be positive/);
+    expect(() => compileShape({ kind: 'patch', lon: 0, lat: 0, lonWidth: 0, latWidth: 1 })).toThrow(
+      /lonWidth must be positive/,
+    );
     expect(() => compileBand({ kind: 'tanh', south: 5, north: 1, edge: 1 })).toThrow(ForcingError);
     expect(() => compileBand({ kind: 'cosine', centre: Number.NaN, halfWidth: 1 })).toThrow(/finite/);
   });
@@ -113,7 +115,9 @@ describe('envelopes', () => {
 
   it('pulse: ramps inside the duration', () => {
     const p = compileEnvelope({ kind: 'pulse', start: 10, duration: 14, ramp: 2 });
-    expect([p.at(9), p.at(10), p.at(11), p.at(12), p.at(17), p.at(23), p.at(24), p.at(30)]).toEqual([0, 0, 0.5, 1, 1, 0.5, 0, 0]);
+    expect([p.at(9), p.at(10), p.at(11), p.at(12), p.at(17), p.at(23), p.at(24), p.at(30)]).toEqual([
+      0, 0, 0.5, 1, 1, 0.5, 0, 0,
+    ]);
     expect(() => compileEnvelope({ kind: 'pulse', start: 0, duration: 3, ramp: 2 })).toThrow(/at most half/);
     expect(pulseFactor(5, 0, 10, 0)).toBe(1);
   });
@@ -136,9 +140,28 @@ describe('envelopes', () => {
   });
 
   it('table: piecewise linear, held beyond the ends, jumps on repeated days', () => {
-    const t = compileEnvelope({ kind: 'table', points: [[0, 0], [10, 1], [20, 1], [20, -1], [30, 0]] });
-    expect([t.at(-5), t.at(0), t.at(5), t.at(15), t.at(19.5), t.at(20), t.at(25), t.at(30), t.at(99)]).toEqual([0, 0, 0.5, 1, 1, -1, -0.5, 0, 0]);
-    expect(() => compileEnvelope({ kind: 'table', points: [[5, 1], [4, 0]] })).toThrow(/must not decrease/);
+    const t = compileEnvelope({
+      kind: 'table',
+      points: [
+        [0, 0],
+        [10, 1],
+        [20, 1],
+        [20, -1],
+        [30, 0],
+      ],
+    });
+    expect([t.at(-5), t.at(0), t.at(5), t.at(15), t.at(19.5), t.at(20), t.at(25), t.at(30), t.at(99)]).toEqual([
+      0, 0, 0.5, 1, 1, -1, -0.5, 0, 0,
+    ]);
+    expect(() =>
+      compileEnvelope({
+        kind: 'table',
+        points: [
+          [5, 1],
+          [4, 0],
+        ],
+      }),
+    ).toThrow(/must not decrease/);
     expect(() => compileEnvelope({ kind: 'table', points: [] })).toThrow(/at least one/);
   });
 

@@ -27,7 +27,13 @@ const DAY = 86400;
 function spec(parts: WindPart[], updateHours = 0): WindSpec {
   return { parts, bulk: lp, updateHours };
 }
-function shaped(quantity: 'stress' | 'wind', x: number, y: number, envelope: EnvelopeSpec = { kind: 'constant' }, shape: ShapeSpec = { kind: 'uniform' }): FixedPart {
+function shaped(
+  quantity: 'stress' | 'wind',
+  x: number,
+  y: number,
+  envelope: EnvelopeSpec = { kind: 'constant' },
+  shape: ShapeSpec = { kind: 'uniform' },
+): FixedPart {
   return { kind: 'fixed', quantity, source: { kind: 'shaped', shape, x, y }, envelope };
 }
 function fillAt(w: ReturnType<typeof buildWindStress>, days: number): [Float64Array, Float64Array] {
@@ -39,16 +45,18 @@ function fillAt(w: ReturnType<typeof buildWindStress>, days: number): [Float64Ar
 }
 /** Every u face (value, lon, lat, ocean?) and every v face. */
 function* uFaces(tx: Float64Array) {
-  for (let j = 0; j < grid.ny; j++) for (let i = 0; i <= grid.nx; i++) {
-    const k = grid.idx(i, j);
-    yield { value: tx[k], lon: grid.lonFace[i], lat: grid.latCentre[j], ocean: grid.maskU[k] === 1 };
-  }
+  for (let j = 0; j < grid.ny; j++)
+    for (let i = 0; i <= grid.nx; i++) {
+      const k = grid.idx(i, j);
+      yield { value: tx[k], lon: grid.lonFace[i], lat: grid.latCentre[j], ocean: grid.maskU[k] === 1 };
+    }
 }
 function* vFaces(ty: Float64Array) {
-  for (let j = 0; j <= grid.ny; j++) for (let i = 0; i < grid.nx; i++) {
-    const k = grid.idx(i, j);
-    yield { value: ty[k], lon: grid.lonCentre[i], lat: grid.latFace[j], ocean: grid.maskV[k] === 1 };
-  }
+  for (let j = 0; j <= grid.ny; j++)
+    for (let i = 0; i < grid.nx; i++) {
+      const k = grid.idx(i, j);
+      yield { value: ty[k], lon: grid.lonCentre[i], lat: grid.latFace[j], ocean: grid.maskV[k] === 1 };
+    }
 }
 function count(a: Float64Array, m: Float64Array): number {
   let n = 0;
@@ -90,7 +98,9 @@ describe('buildWindStress', () => {
 
   it('wind parts are summed before the bulk formula, stress parts added after', () => {
     // 4 + 3 m/s eastward = 7 m/s: 1.2 * 1.2e-3 * 49 = 0.07056, not 1.2*1.2e-3*(16 + 9) = 0.036.
-    const w = buildWindStress(grid, spec([shaped('wind', 4, 0), shaped('wind', 3, 0), shaped('stress', 0.01, 0)]), { seed: 'a' });
+    const w = buildWindStress(grid, spec([shaped('wind', 4, 0), shaped('wind', 3, 0), shaped('stress', 0.01, 0)]), {
+      seed: 'a',
+    });
     const [tx] = fillAt(w, 0);
     expect(tx[grid.idx(5, 5)]).toBeCloseTo(0.07056 + 0.01, 12);
   });
@@ -98,7 +108,19 @@ describe('buildWindStress', () => {
   it('the cross component of the wind enters |U| on each face', () => {
     // Wind (x, y) = (-6, 8) m/s from a latitude band: |U| = 10 on every face where the shape is 1.
     // taux on u faces: 1.2 * 1.2e-3 * 10 * (-6) = -0.0864; tauy on v faces: 0.1152 (Large & Pond 1981).
-    const w = buildWindStress(grid, spec([shaped('wind', -6, 8, { kind: 'constant' }, { kind: 'band', profile: { kind: 'tanh', south: -40, north: 40, edge: 1 } })]), { seed: 'a' });
+    const w = buildWindStress(
+      grid,
+      spec([
+        shaped(
+          'wind',
+          -6,
+          8,
+          { kind: 'constant' },
+          { kind: 'band', profile: { kind: 'tanh', south: -40, north: 40, edge: 1 } },
+        ),
+      ]),
+      { seed: 'a' },
+    );
     const [tx, ty] = fillAt(w, 0);
     expect(tx[grid.idx(2, 3)]).toBeCloseTo(-0.0864, 12);
     expect(ty[grid.idx(2, 3)]).toBeCloseTo(0.1152, 12);
@@ -129,9 +151,15 @@ describe('buildWindStress', () => {
   it('steady only if nothing varies in time', () => {
     const steady = (parts: WindPart[]) => buildWindStress(grid, spec(parts), { seed: 'a' }).stress.steady;
     expect(steady([])).toBe(true);
-    expect(steady([shaped('wind', 5, 0), shaped('stress', 0, 0.01, { kind: 'harmonics', mean: 1, terms: [] })])).toBe(true);
-    expect(steady([shaped('stress', 0.1, 0, { kind: 'constant' }, { kind: 'formula', expression: 'cos(rad(lat))' })])).toBe(true);
-    expect(steady([shaped('stress', 0.1, 0, { kind: 'constant' }, { kind: 'formula', expression: 'sin(2*pi*t/365)' })])).toBe(false);
+    expect(steady([shaped('wind', 5, 0), shaped('stress', 0, 0.01, { kind: 'harmonics', mean: 1, terms: [] })])).toBe(
+      true,
+    );
+    expect(
+      steady([shaped('stress', 0.1, 0, { kind: 'constant' }, { kind: 'formula', expression: 'cos(rad(lat))' })]),
+    ).toBe(true);
+    expect(
+      steady([shaped('stress', 0.1, 0, { kind: 'constant' }, { kind: 'formula', expression: 'sin(2*pi*t/365)' })]),
+    ).toBe(false);
     expect(steady([shaped('stress', 0.1, 0, { kind: 'switch-off', day: 30, ramp: 0 })])).toBe(false);
     const off = { ...shaped('stress', 0.1, 0, { kind: 'switch-off', day: 30, ramp: 0 }), enabled: false };
     expect(steady([off])).toBe(true);
@@ -182,11 +210,17 @@ describe('buildWindStress', () => {
   it('painted grids: bilinear onto the faces', () => {
     const lin = (lon: number, lat: number) => 0.001 * (lon - 150) + 0.002 * lat;
     const g = { lon0: 139, lat0: -6, dLon: 2, dLat: 1, nLon: 12, nLat: 13, x: [] as number[], y: [] as number[] };
-    for (let j = 0; j < g.nLat; j++) for (let i = 0; i < g.nLon; i++) {
-      g.x.push(lin(g.lon0 + i * g.dLon, g.lat0 + j * g.dLat));
-      g.y.push(-lin(g.lon0 + i * g.dLon, g.lat0 + j * g.dLat));
-    }
-    const part: FixedPart = { kind: 'fixed', quantity: 'stress', source: { kind: 'painted', grid: g }, envelope: { kind: 'constant' } };
+    for (let j = 0; j < g.nLat; j++)
+      for (let i = 0; i < g.nLon; i++) {
+        g.x.push(lin(g.lon0 + i * g.dLon, g.lat0 + j * g.dLat));
+        g.y.push(-lin(g.lon0 + i * g.dLon, g.lat0 + j * g.dLat));
+      }
+    const part: FixedPart = {
+      kind: 'fixed',
+      quantity: 'stress',
+      source: { kind: 'painted', grid: g },
+      envelope: { kind: 'constant' },
+    };
     const [tx, ty] = fillAt(buildWindStress(grid, spec([part]), { seed: 'a' }), 0);
     for (const f of uFaces(tx)) expect(f.value).toBeCloseTo(f.ocean ? lin(f.lon, f.lat) : 0, 13);
     for (const f of vFaces(ty)) expect(f.value).toBeCloseTo(f.ocean ? -lin(f.lon, f.lat) : 0, 13);
@@ -194,14 +228,23 @@ describe('buildWindStress', () => {
 
   it('CSV files with a day column: linear in time; a missing file is named', () => {
     const rows = ['lon,lat,day,x,y'];
-    for (const day of [0, 10]) for (const lat of [-6, 6]) for (const lon of [130, 170]) rows.push(`${lon},${lat},${day},${day === 0 ? -0.02 : -0.06},0`);
-    const part: FixedPart = { kind: 'fixed', quantity: 'stress', source: { kind: 'file', path: 'winds.csv', format: 'csv' }, envelope: { kind: 'constant' } };
+    for (const day of [0, 10])
+      for (const lat of [-6, 6])
+        for (const lon of [130, 170]) rows.push(`${lon},${lat},${day},${day === 0 ? -0.02 : -0.06},0`);
+    const part: FixedPart = {
+      kind: 'fixed',
+      quantity: 'stress',
+      source: { kind: 'file', path: 'winds.csv', format: 'csv' },
+      envelope: { kind: 'constant' },
+    };
     const w = buildWindStress(grid, spec([part]), { seed: 'a', files: new Map([['winds.csv', rows.join('\n')]]) });
     expect(w.stress.steady).toBe(false);
     const k = grid.idx(3, 3);
     expect(fillAt(w, 2.5)[0][k]).toBeCloseTo(-0.03, 14);
     expect(fillAt(w, 50)[0][k]).toBeCloseTo(-0.06, 14);
-    expect(() => buildWindStress(grid, spec([part]), { seed: 'a' })).toThrow("wind part 1: the file 'winds.csv' was not provided");
+    expect(() => buildWindStress(grid, spec([part]), { seed: 'a' })).toThrow(
+      "wind part 1: the file 'winds.csv' was not provided",
+    );
   });
 
   it('bursts: the field is the sum of the drawn patches under their pulses', () => {
@@ -231,7 +274,13 @@ describe('buildWindStress', () => {
       if (!f.ocean) continue;
       let expected = -0.01;
       for (const b of w.bursts) {
-        const patch = compileShape({ kind: 'patch', lon: b.lon, lat: b.lat, lonWidth: b.lonWidth, latWidth: b.latWidth });
+        const patch = compileShape({
+          kind: 'patch',
+          lon: b.lon,
+          lat: b.lat,
+          lonWidth: b.lonWidth,
+          latWidth: b.latWidth,
+        });
         expected += b.amplitude * pulseFactor(day, b.start, b.duration, b.ramp) * patch.at(f.lon, f.lat, 0);
       }
       expect(f.value).toBeCloseTo(expected, 13);
@@ -242,9 +291,13 @@ describe('buildWindStress', () => {
   it('rejects bad settings with the part named', () => {
     expect(() => buildWindStress(grid, { ...spec([]), updateHours: -1 }, { seed: 'a' })).toThrow(/updateHours/);
     const bad = shaped('stress', 1, 0, { kind: 'pulse', start: 0, duration: 1, ramp: 2 });
-    expect(() => buildWindStress(grid, spec([shaped('stress', 1, 0), { ...bad, name: 'burst' }]), { seed: 'a' })).toThrow(/^wind part 2 \('burst'\): pulse ramp/);
+    expect(() =>
+      buildWindStress(grid, spec([shaped('stress', 1, 0), { ...bad, name: 'burst' }]), { seed: 'a' }),
+    ).toThrow(/^wind part 2 \('burst'\): pulse ramp/);
     const f = shaped('stress', 1, 0, { kind: 'constant' }, { kind: 'formula', expression: 'lat + lonn' });
-    expect(() => buildWindStress(grid, spec([f]), { seed: 'a' })).toThrow("wind part 1: unknown name 'lonn' at character 6");
+    expect(() => buildWindStress(grid, spec([f]), { seed: 'a' })).toThrow(
+      "wind part 1: unknown name 'lonn' at character 6",
+    );
     const w = buildWindStress(grid, spec([]), { seed: 'a' });
     expect(() => w.stress.fill(0, new Float64Array(3), grid.field())).toThrow(/padded size/);
   });

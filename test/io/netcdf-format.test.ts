@@ -36,20 +36,42 @@ describe('spec test vectors (NUG Appendix B)', () => {
     );
     // Written out by hand from the spec's annotated dump of tiny.nc.
     const expected = [
-      ...ascii('CDF'), 1,
+      ...ascii('CDF'),
+      1,
       ...be32(0), // numrecs
-      ...be32(0x0a), ...be32(1), // NC_DIMENSION, one dimension
-      ...be32(3), ...ascii('dim'), 0, ...be32(5),
-      ...be32(0), ...be32(0), // gatt_list ABSENT
-      ...be32(0x0b), ...be32(1), // NC_VARIABLE, one variable
-      ...be32(2), ...ascii('vx'), 0, 0,
-      ...be32(1), ...be32(0), // one dimension, id 0
-      ...be32(0), ...be32(0), // vatt_list ABSENT
+      ...be32(0x0a),
+      ...be32(1), // NC_DIMENSION, one dimension
+      ...be32(3),
+      ...ascii('dim'),
+      0,
+      ...be32(5),
+      ...be32(0),
+      ...be32(0), // gatt_list ABSENT
+      ...be32(0x0b),
+      ...be32(1), // NC_VARIABLE, one variable
+      ...be32(2),
+      ...ascii('vx'),
+      0,
+      0,
+      ...be32(1),
+      ...be32(0), // one dimension, id 0
+      ...be32(0),
+      ...be32(0), // vatt_list ABSENT
       ...be32(3), // NC_SHORT
       ...be32(12), // vsize = 5 * 2 rounded up to 4
       ...be32(80), // begin
-      0, 3, 0, 1, 0, 4, 0, 1, 0, 5,
-      0x80, 0x01, // padding with the default short fill -32767
+      0,
+      3,
+      0,
+      1,
+      0,
+      4,
+      0,
+      1,
+      0,
+      5,
+      0x80,
+      0x01, // padding with the default short fill -32767
     ];
     expect(bytes.length).toBe(92);
     expect(Array.from(bytes)).toEqual(expected);
@@ -70,7 +92,10 @@ describe('default fill values (spec, "Note on fill values")', () => {
   ];
   for (const [label, type, fillBytes] of cases) {
     it(`unwritten ${label} data is the default fill ${fillBytes.map((b) => b.toString(16)).join(' ')}`, async () => {
-      const file: NcFileInput = { dimensions: [{ name: 'n', length: 1 }], variables: [{ name: 'x', type, dimensions: ['n'] }] };
+      const file: NcFileInput = {
+        dimensions: [{ name: 'n', length: 1 }],
+        variables: [{ name: 'x', type, dimensions: ['n'] }],
+      };
       const bytes = await writeNetcdfToMemory(file, {});
       const l = computeLayout(file);
       const begin = l.variables[0].begin;
@@ -102,12 +127,38 @@ describe('header structure', () => {
     };
     const h = encodeHeader(computeLayout(file));
     const expected = [
-      ...ascii('CDF'), 1, ...be32(0),
-      ...be32(0), ...be32(0), // no dimensions
-      ...be32(0x0c), ...be32(2),
-      ...be32(2), ...ascii('ab'), 0, 0, ...be32(2 /* NC_CHAR */), ...be32(3), ...ascii('xyz'), 0,
-      ...be32(1), ...ascii('s'), 0, 0, 0, ...be32(3 /* NC_SHORT */), ...be32(3), 0, 1, 0xff, 0xfe, 0, 3, 0, 0,
-      ...be32(0), ...be32(0), // no variables
+      ...ascii('CDF'),
+      1,
+      ...be32(0),
+      ...be32(0),
+      ...be32(0), // no dimensions
+      ...be32(0x0c),
+      ...be32(2),
+      ...be32(2),
+      ...ascii('ab'),
+      0,
+      0,
+      ...be32(2 /* NC_CHAR */),
+      ...be32(3),
+      ...ascii('xyz'),
+      0,
+      ...be32(1),
+      ...ascii('s'),
+      0,
+      0,
+      0,
+      ...be32(3 /* NC_SHORT */),
+      ...be32(3),
+      0,
+      1,
+      0xff,
+      0xfe,
+      0,
+      3,
+      0,
+      0,
+      ...be32(0),
+      ...be32(0), // no variables
     ];
     expect(Array.from(h)).toEqual(expected);
   });
@@ -118,13 +169,19 @@ describe('header structure', () => {
       variables: [{ name: 'v', type: NC_FLOAT, dimensions: ['n'], attributes: { _FillValue: -1, scale: 2 } }],
     });
     const atts = l.variables[0].attributes;
-    expect(atts.map((a) => [a.name, a.type])).toEqual([['_FillValue', NC_FLOAT], ['scale', NC_DOUBLE]]);
+    expect(atts.map((a) => [a.name, a.type])).toEqual([
+      ['_FillValue', NC_FLOAT],
+      ['scale', NC_DOUBLE],
+    ]);
     expect(l.variables[0].fill).toBe(-1);
   });
 
   it('record variables: begin follows the fixed data, record size is the sum of vsizes', () => {
     const l = computeLayout({
-      dimensions: [{ name: 'time', length: 'unlimited' }, { name: 'x', length: 3 }],
+      dimensions: [
+        { name: 'time', length: 'unlimited' },
+        { name: 'x', length: 3 },
+      ],
       variables: [
         { name: 'time', type: NC_DOUBLE, dimensions: ['time'] },
         { name: 'x', type: NC_FLOAT, dimensions: ['x'] },
@@ -144,7 +201,10 @@ describe('header structure', () => {
 
   it('exactly one record variable of type short: records are packed, vsize still rounded (spec, "Note on padding")', async () => {
     const file: NcFileInput = {
-      dimensions: [{ name: 't', length: 'unlimited' }, { name: 'k', length: 3 }],
+      dimensions: [
+        { name: 't', length: 'unlimited' },
+        { name: 'k', length: 3 },
+      ],
       variables: [{ name: 's', type: NC_SHORT, dimensions: ['t', 'k'] }],
     };
     const l = computeLayout(file);
@@ -157,12 +217,18 @@ describe('header structure', () => {
   });
 
   it('picks CDF-1 for small files and CDF-2 when a begin offset passes 2^31 - 1', async () => {
-    const small = computeLayout({ dimensions: [{ name: 'n', length: 4 }], variables: [{ name: 'a', type: NC_FLOAT, dimensions: ['n'] }] });
+    const small = computeLayout({
+      dimensions: [{ name: 'n', length: 4 }],
+      variables: [{ name: 'a', type: NC_FLOAT, dimensions: ['n'] }],
+    });
     expect(small.version).toBe(1);
 
     // 300e6 doubles = 2.4 GB before 'b': its begin needs the 64-bit OFFSET of CDF-2.
     const big: NcFileInput = {
-      dimensions: [{ name: 'n', length: 300_000_000 }, { name: 'm', length: 2 }],
+      dimensions: [
+        { name: 'n', length: 300_000_000 },
+        { name: 'm', length: 2 },
+      ],
       variables: [
         { name: 'a', type: NC_DOUBLE, dimensions: ['n'] },
         { name: 'b', type: NC_INT, dimensions: ['m'] },
@@ -227,7 +293,10 @@ describe('names (spec grammar: ID1 = alphanumeric | _, no /, no control characte
 
 describe('input validation: what and where', () => {
   const ok: NcFileInput = {
-    dimensions: [{ name: 'time', length: 'unlimited' }, { name: 'lat', length: 2 }],
+    dimensions: [
+      { name: 'time', length: 'unlimited' },
+      { name: 'lat', length: 2 },
+    ],
     variables: [
       { name: 'lat', type: NC_FLOAT, dimensions: ['lat'] },
       { name: 'h', type: NC_FLOAT, dimensions: ['time', 'lat'] },
@@ -241,26 +310,53 @@ describe('input validation: what and where', () => {
   });
   it('more than one unlimited dimension', () => {
     expect(() =>
-      computeLayout({ dimensions: [{ name: 't', length: 'unlimited' }, { name: 's', length: 'unlimited' }], variables: [] }),
+      computeLayout({
+        dimensions: [
+          { name: 't', length: 'unlimited' },
+          { name: 's', length: 'unlimited' },
+        ],
+        variables: [],
+      }),
     ).toThrow(/dimension 1 's': a second unlimited dimension \('t' is already unlimited\)/);
   });
   it('record dimension not first, repeated dimension, zero or fractional length', () => {
-    expect(() => computeLayout({ ...ok, variables: [{ name: 'q', type: NC_INT, dimensions: ['lat', 'time'] }] })).toThrow(
-      /'q': the record dimension 'time' must be the first/,
+    expect(() =>
+      computeLayout({ ...ok, variables: [{ name: 'q', type: NC_INT, dimensions: ['lat', 'time'] }] }),
+    ).toThrow(/'q': the record dimension 'time' must be the first/);
+    expect(() =>
+      computeLayout({ ...ok, variables: [{ name: 'q', type: NC_INT, dimensions: ['lat', 'lat'] }] }),
+    ).toThrow(/repeated/);
+    expect(() => computeLayout({ dimensions: [{ name: 'z', length: 0 }], variables: [] })).toThrow(
+      /write length: 'unlimited'/,
     );
-    expect(() => computeLayout({ ...ok, variables: [{ name: 'q', type: NC_INT, dimensions: ['lat', 'lat'] }] })).toThrow(/repeated/);
-    expect(() => computeLayout({ dimensions: [{ name: 'z', length: 0 }], variables: [] })).toThrow(/write length: 'unlimited'/);
-    expect(() => computeLayout({ dimensions: [{ name: 'z', length: 2.5 }], variables: [] })).toThrow(/dimension 0 'z': length must be an integer/);
+    expect(() => computeLayout({ dimensions: [{ name: 'z', length: 2.5 }], variables: [] })).toThrow(
+      /dimension 0 'z': length must be an integer/,
+    );
   });
   it('duplicate names, bad types, bad attribute values', () => {
-    expect(() => computeLayout({ dimensions: [{ name: 'a', length: 1 }, { name: 'a', length: 2 }], variables: [] })).toThrow(/dimension 1 'a': duplicate/);
-    expect(() => computeLayout({ ...ok, variables: [{ name: 'v', type: 7 as never, dimensions: [] }] })).toThrow(/'v': unknown type 7/);
+    expect(() =>
+      computeLayout({
+        dimensions: [
+          { name: 'a', length: 1 },
+          { name: 'a', length: 2 },
+        ],
+        variables: [],
+      }),
+    ).toThrow(/dimension 1 'a': duplicate/);
+    expect(() => computeLayout({ ...ok, variables: [{ name: 'v', type: 7 as never, dimensions: [] }] })).toThrow(
+      /'v': unknown type 7/,
+    );
     expect(() => computeLayout({ ...ok, attributes: { n: { type: NC_SHORT, values: [40000] } } })).toThrow(
       /global attributes, attribute 'n', value 0: 40000 is not representable as short/,
     );
     expect(() => computeLayout({ ...ok, attributes: { 'bad/name': 'x' } })).toThrow(/attribute 'bad\/name'/);
     expect(() =>
-      computeLayout({ ...ok, variables: [{ name: 'v', type: NC_INT, dimensions: [], attributes: { _FillValue: { type: NC_FLOAT, values: [1] } } }] }),
+      computeLayout({
+        ...ok,
+        variables: [
+          { name: 'v', type: NC_INT, dimensions: [], attributes: { _FillValue: { type: NC_FLOAT, values: [1] } } },
+        ],
+      }),
     ).toThrow(/_FillValue': type float differs from the variable's type int/);
   });
 
@@ -268,12 +364,16 @@ describe('input validation: what and where', () => {
     const w = new NetcdfWriter(ok, new MemorySink());
     await expect(w.writeFixed('lat', [1, 2])).rejects.toThrow(/call writeHeader\(\) first/);
     await w.writeHeader();
-    await expect(w.writeFixed('lat', [1, 2, 3])).rejects.toThrow(/writeFixed\('lat'\): variable 'lat' \(2\) needs 2 values, got 3/);
+    await expect(w.writeFixed('lat', [1, 2, 3])).rejects.toThrow(
+      /writeFixed\('lat'\): variable 'lat' \(2\) needs 2 values, got 3/,
+    );
     await expect(w.writeFixed('h', [1, 2])).rejects.toThrow(/'h' is a record variable; use appendRecord/);
     await expect(w.writeFixed('nope', [1])).rejects.toThrow(/no variable 'nope'/);
     await w.writeFixed('lat', new Float32Array([-1, 1]));
     await expect(w.writeFixed('lat', [1, 2])).rejects.toThrow(/already written/);
-    await expect(w.appendRecord({ h: [1] })).rejects.toThrow(/appendRecord \(record 0\): variable 'h' \(record x 2\) needs 2 values per record, got 1/);
+    await expect(w.appendRecord({ h: [1] })).rejects.toThrow(
+      /appendRecord \(record 0\): variable 'h' \(record x 2\) needs 2 values per record, got 1/,
+    );
     await expect(w.appendRecord({})).rejects.toThrow(/missing record variable\(s\) h/);
     await expect(w.appendRecord({ h: [1, 2], lat: [1, 2] })).rejects.toThrow(/'lat' is not a record variable/);
     await w.appendRecord({ h: [1, 2] });

@@ -10,7 +10,10 @@ const be32 = (n: number) => [(n >>> 24) & 0xff, (n >>> 16) & 0xff, (n >>> 8) & 0
 const ascii = (s: string) => Array.from(s, (c) => c.charCodeAt(0));
 
 const file: NcFileInput = {
-  dimensions: [{ name: 'time', length: 'unlimited' }, { name: 'x', length: 3 }],
+  dimensions: [
+    { name: 'time', length: 'unlimited' },
+    { name: 'x', length: 3 },
+  ],
   attributes: { title: 'refusals' },
   variables: [
     { name: 'x', type: NC_DOUBLE, dimensions: ['x'], attributes: { units: 'm' } },
@@ -35,11 +38,33 @@ function refusal(bytes: Uint8Array): NetcdfReadError {
 /** A minimal CDF-1 header: one dimension, one variable with no attributes. */
 function craft(opts: { dimLength: number; type: number; vsize: number; begin: number; tail?: number }): Uint8Array {
   const bytes = [
-    ...ascii('CDF'), 1, ...be32(0),
-    ...be32(0x0a), ...be32(1), ...be32(1), ...ascii('n'), 0, 0, 0, ...be32(opts.dimLength),
-    ...be32(0), ...be32(0),
-    ...be32(0x0b), ...be32(1), ...be32(1), ...ascii('v'), 0, 0, 0, ...be32(1), ...be32(0), ...be32(0), ...be32(0),
-    ...be32(opts.type), ...be32(opts.vsize), ...be32(opts.begin),
+    ...ascii('CDF'),
+    1,
+    ...be32(0),
+    ...be32(0x0a),
+    ...be32(1),
+    ...be32(1),
+    ...ascii('n'),
+    0,
+    0,
+    0,
+    ...be32(opts.dimLength),
+    ...be32(0),
+    ...be32(0),
+    ...be32(0x0b),
+    ...be32(1),
+    ...be32(1),
+    ...ascii('v'),
+    0,
+    0,
+    0,
+    ...be32(1),
+    ...be32(0),
+    ...be32(0),
+    ...be32(0),
+    ...be32(opts.type),
+    ...be32(opts.vsize),
+    ...be32(opts.begin),
     ...new Array(opts.tail ?? 0).fill(0),
   ];
   return new Uint8Array(bytes);
@@ -79,7 +104,9 @@ describe('not a NetCDF file, or an unsupported version', () => {
     expect(refusal(new Uint8Array(0)).message).toMatch(/only 0 bytes/);
   });
   it('HDF5 (NetCDF-4), CDF-5 and unknown version bytes', () => {
-    expect(refusal(new Uint8Array([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a])).message).toMatch(/HDF5 \(NetCDF-4\)/);
+    expect(refusal(new Uint8Array([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a])).message).toMatch(
+      /HDF5 \(NetCDF-4\)/,
+    );
     const v5 = good.slice();
     v5[3] = 5;
     expect(refusal(v5).message).toMatch(/unsupported version: CDF-5/);
@@ -107,7 +134,9 @@ describe('truncated files', () => {
   it('numrecs larger than the records present', () => {
     const b = good.slice();
     new DataView(b.buffer).setUint32(4, 10);
-    expect(refusal(b).message).toMatch(/truncated file: the header counts 10 records, but variable 'time' \(double, records\) has data for only 3/);
+    expect(refusal(b).message).toMatch(
+      /truncated file: the header counts 10 records, but variable 'time' \(double, records\) has data for only 3/,
+    );
   });
 });
 
@@ -129,7 +158,9 @@ describe('corrupt or hostile headers are refused before anything big is allocate
   it('a list that claims more entries than the file could hold', () => {
     const b = craft({ dimLength: 2, type: NC_INT, vsize: 8, begin: 80, tail: 8 });
     new DataView(b.buffer).setUint32(12, 0x7fffffff); // number of dimensions
-    expect(refusal(b).message).toMatch(/dimension list at byte 8 claims 2147483647 entries, which cannot fit in the \d+ bytes left/);
+    expect(refusal(b).message).toMatch(
+      /dimension list at byte 8 claims 2147483647 entries, which cannot fit in the \d+ bytes left/,
+    );
   });
   it('a vsize that disagrees with the dimensions', () => {
     expect(refusal(craft({ dimLength: 2, type: NC_INT, vsize: 12, begin: 80, tail: 8 })).message).toMatch(

@@ -19,7 +19,13 @@ import {
   type NcFileInput,
 } from '../../model/io/netcdf-format.ts';
 import { readNetcdf } from '../../model/io/netcdf-read.ts';
-import { MemorySink, NetcdfWriter, writeNetcdfToMemory, type ByteSink, type NcRecordInput } from '../../model/io/netcdf-writer.ts';
+import {
+  MemorySink,
+  NetcdfWriter,
+  writeNetcdfToMemory,
+  type ByteSink,
+  type NcRecordInput,
+} from '../../model/io/netcdf-writer.ts';
 
 function sampleFile(version: 1 | 2): NcFileInput {
   return {
@@ -44,7 +50,12 @@ function sampleFile(version: 1 | 2): NcFileInput {
     variables: [
       { name: 'lat', type: NC_DOUBLE, dimensions: ['lat'], attributes: { units: 'degrees_north' } },
       { name: 'lon', type: NC_FLOAT, dimensions: ['lon'], attributes: { units: 'degrees_east' } },
-      { name: 'mask', type: NC_BYTE, dimensions: ['lat', 'lon'], attributes: { flag_values: { type: NC_BYTE, values: [0, 1] } } },
+      {
+        name: 'mask',
+        type: NC_BYTE,
+        dimensions: ['lat', 'lon'],
+        attributes: { flag_values: { type: NC_BYTE, values: [0, 1] } },
+      },
       { name: 'code', type: NC_SHORT, dimensions: ['lon'] },
       { name: 'idx', type: NC_INT, dimensions: ['lat'] },
       { name: 'label', type: NC_CHAR, dimensions: ['strlen'] },
@@ -117,7 +128,17 @@ describe.each([1, 2] as const)('CDF-%i sample file', (version) => {
     ]);
 
     const g = f.attributes;
-    expect(Object.keys(g)).toEqual(['title', 'Conventions', 'empty', 'ints', 'bytes', 'shorts', 'floats', 'doubles', 'one']);
+    expect(Object.keys(g)).toEqual([
+      'title',
+      'Conventions',
+      'empty',
+      'ints',
+      'bytes',
+      'shorts',
+      'floats',
+      'doubles',
+      'one',
+    ]);
     expect(g.title).toEqual({ type: 'char', value: 'Pycno round trip: Température °C' });
     expect(g.empty).toEqual({ type: 'char', value: '' });
     expect(g.ints.type).toBe('int');
@@ -140,12 +161,24 @@ describe.each([1, 2] as const)('CDF-%i sample file', (version) => {
       if (v.name in sampleFixed) {
         expectValues(got.values, sampleFixed[v.name as keyof typeof sampleFixed], v.type);
       } else {
-        const per = Array.from({ length: nrec }, (_, r) => sampleRecord(r)[v.name as keyof ReturnType<typeof sampleRecord>]);
+        const per = Array.from(
+          { length: nrec },
+          (_, r) => sampleRecord(r)[v.name as keyof ReturnType<typeof sampleRecord>],
+        );
         if (v.type === NC_CHAR) {
           // Each record slab is 5 chars, null-padded; the reader drops only trailing nulls.
-          expect(got.values).toBe(per.map((t) => (t as string).padEnd(5, '\0')).join('').replace(/\0+$/, ''));
+          expect(got.values).toBe(
+            per
+              .map((t) => (t as string).padEnd(5, '\0'))
+              .join('')
+              .replace(/\0+$/, ''),
+          );
         } else {
-          expectValues(got.values, per.flatMap((x) => (typeof x === 'number' ? [x] : (x as number[]))), v.type);
+          expectValues(
+            got.values,
+            per.flatMap((x) => (typeof x === 'number' ? [x] : (x as number[]))),
+            v.type,
+          );
         }
       }
     }
@@ -165,21 +198,48 @@ describe.each([1, 2] as const)('CDF-%i sample file', (version) => {
     expect(r.getDataVariable('lat')).toEqual(sampleFixed.lat);
     expect(r.getDataVariable('time')).toEqual([0, 0.5, 1, 1.5]);
     const h = (r.getDataVariable('h') as number[][]).flat();
-    expect(h).toEqual(Array.from({ length: nrec }, (_, k) => sampleRecord(k).h).flat().map(Math.fround));
+    expect(h).toEqual(
+      Array.from({ length: nrec }, (_, k) => sampleRecord(k).h)
+        .flat()
+        .map(Math.fround),
+    );
     expect(r.getAttribute('Conventions')).toBe('CF-1.12');
   });
 });
 
 describe('single record variable of a small type (packed records)', () => {
   it.each([
-    ['short', NC_SHORT, [[1, -2, 3], [4, 5, -32768], [7, 8, 9]]],
-    ['byte', NC_BYTE, [[1, -2, 3], [4, 5, -128], [7, 8, 127]]],
+    [
+      'short',
+      NC_SHORT,
+      [
+        [1, -2, 3],
+        [4, 5, -32768],
+        [7, 8, 9],
+      ],
+    ],
+    [
+      'byte',
+      NC_BYTE,
+      [
+        [1, -2, 3],
+        [4, 5, -128],
+        [7, 8, 127],
+      ],
+    ],
   ] as const)('%s: %j reads back', async (_label, type, recs) => {
     const file: NcFileInput = {
-      dimensions: [{ name: 't', length: 'unlimited' }, { name: 'k', length: 3 }],
+      dimensions: [
+        { name: 't', length: 'unlimited' },
+        { name: 'k', length: 3 },
+      ],
       variables: [{ name: 'x', type, dimensions: ['t', 'k'] }],
     };
-    const bytes = await writeNetcdfToMemory(file, {}, recs.map((x) => ({ x })));
+    const bytes = await writeNetcdfToMemory(
+      file,
+      {},
+      recs.map((x) => ({ x })),
+    );
     const l = computeLayout(file);
     expect(bytes.length).toBe(l.headerSize + 3 * 3 * (type === NC_SHORT ? 2 : 1));
     const f = readNetcdf(bytes);
@@ -211,7 +271,10 @@ describe('a file with only fixed variables, and only a record dimension', () => 
       {},
     );
     const f = readNetcdf(bytes);
-    expect(Array.from(f.variable('a').values as Float64Array)).toEqual([Math.fround(9.969209968386869e36), Math.fround(9.969209968386869e36)]);
+    expect(Array.from(f.variable('a').values as Float64Array)).toEqual([
+      Math.fround(9.969209968386869e36),
+      Math.fround(9.969209968386869e36),
+    ]);
     expect(Array.from(f.variable('b').values as Float64Array)).toEqual([12345, 12345]);
   });
 });
@@ -220,7 +283,10 @@ describe('a file with only fixed variables, and only a record dimension', () => 
 class CrashingSink implements ByteSink {
   readonly mem = new MemorySink();
   private n = 0;
-  constructor(private readonly crashAt: number, private readonly keep: number) {}
+  constructor(
+    private readonly crashAt: number,
+    private readonly keep: number,
+  ) {}
   write(offset: number, bytes: Uint8Array): void {
     if (this.n++ === this.crashAt) {
       this.mem.write(offset, bytes.subarray(0, this.keep));
@@ -287,7 +353,11 @@ describe('interrupted writes leave a valid file (records first, then numrecs)', 
 describe('large record counts', () => {
   it('500 records of a 2 x 3 double field plus time', async () => {
     const file: NcFileInput = {
-      dimensions: [{ name: 'time', length: 'unlimited' }, { name: 'y', length: 2 }, { name: 'x', length: 3 }],
+      dimensions: [
+        { name: 'time', length: 'unlimited' },
+        { name: 'y', length: 2 },
+        { name: 'x', length: 3 },
+      ],
       variables: [
         { name: 'time', type: NC_DOUBLE, dimensions: ['time'] },
         { name: 'u', type: NC_DOUBLE, dimensions: ['time', 'y', 'x'] },
@@ -373,66 +443,97 @@ const fromPy = (x: unknown) => (x === 'nan' ? NaN : x === 'inf' ? Infinity : x =
 
 describe.each(['netCDF4', 'scipy.io'])('second reader: %s under /usr/bin/python3', (module) => {
   const available = pythonHas(module);
-  for (const version of [1, 2] as const) it(`reads every value of a CDF-${version} file as written`, async (ctx) => {
-    ctx.skip(
-      !available,
-      `${PY} cannot import ${module} (Debian: apt-get install python3-${module === 'netCDF4' ? 'netcdf4' : 'scipy'})`,
-    );
-    const nrec = 3;
-    const bytes = await writeSample(version, nrec);
-    const dir = mkdtempSync(join(tmpdir(), 'pycno-nc-'));
-    try {
-      const path = join(dir, `sample-cdf${version}.nc`);
-      writeFileSync(path, bytes);
-      const r = spawnSync(PY, ['-c', PY_DUMP, module === 'netCDF4' ? 'netCDF4' : 'scipy', path], { encoding: 'utf8' });
-      expect(r.stderr).toBe('');
-      expect(r.status).toBe(0);
-      const py = JSON.parse(r.stdout);
-      const spec = sampleFile(version);
-      if (module === 'netCDF4') expect(py.format).toBe(version === 1 ? 'NETCDF3_CLASSIC' : 'NETCDF3_64BIT_OFFSET');
-      else expect(py.format).toBe(`CDF-${version}`);
-      expect(py.dims).toEqual([['time', nrec, true], ['lat', 3, false], ['lon', 4, false], ['strlen', 5, false]]);
+  for (const version of [1, 2] as const)
+    it(`reads every value of a CDF-${version} file as written`, async (ctx) => {
+      ctx.skip(
+        !available,
+        `${PY} cannot import ${module} (Debian: apt-get install python3-${module === 'netCDF4' ? 'netcdf4' : 'scipy'})`,
+      );
+      const nrec = 3;
+      const bytes = await writeSample(version, nrec);
+      const dir = mkdtempSync(join(tmpdir(), 'pycno-nc-'));
+      try {
+        const path = join(dir, `sample-cdf${version}.nc`);
+        writeFileSync(path, bytes);
+        const r = spawnSync(PY, ['-c', PY_DUMP, module === 'netCDF4' ? 'netCDF4' : 'scipy', path], {
+          encoding: 'utf8',
+        });
+        expect(r.stderr).toBe('');
+        expect(r.status).toBe(0);
+        const py = JSON.parse(r.stdout);
+        const spec = sampleFile(version);
+        if (module === 'netCDF4') expect(py.format).toBe(version === 1 ? 'NETCDF3_CLASSIC' : 'NETCDF3_64BIT_OFFSET');
+        else expect(py.format).toBe(`CDF-${version}`);
+        expect(py.dims).toEqual([
+          ['time', nrec, true],
+          ['lat', 3, false],
+          ['lon', 4, false],
+          ['strlen', 5, false],
+        ]);
 
-      // Attributes: compared with the values given to the writer, via our reader's typing.
-      const ours = readNetcdf(bytes);
-      const asPy = (atts: Record<string, { type: string; value: string | Float64Array }>) =>
-        Object.fromEntries(Object.entries(atts).map(([k, a]) => [k, [a.type, typeof a.value === 'string' ? a.value : Array.from(a.value)]]));
-      expect(py.gatts).toEqual(asPy(ours.attributes));
-      expect(py.gatts.title).toEqual(['char', 'Pycno round trip: Température °C']);
-      expect(py.gatts.shorts).toEqual(['short', [-32768, 5, 32767]]);
-      expect(py.gatts.floats).toEqual(['float', [1.5, -0.1, 3.4e38].map(Math.fround)]);
+        // Attributes: compared with the values given to the writer, via our reader's typing.
+        const ours = readNetcdf(bytes);
+        const asPy = (atts: Record<string, { type: string; value: string | Float64Array }>) =>
+          Object.fromEntries(
+            Object.entries(atts).map(([k, a]) => [
+              k,
+              [a.type, typeof a.value === 'string' ? a.value : Array.from(a.value)],
+            ]),
+          );
+        expect(py.gatts).toEqual(asPy(ours.attributes));
+        expect(py.gatts.title).toEqual(['char', 'Pycno round trip: Température °C']);
+        expect(py.gatts.shorts).toEqual(['short', [-32768, 5, 32767]]);
+        expect(py.gatts.floats).toEqual(['float', [1.5, -0.1, 3.4e38].map(Math.fround)]);
 
-      expect(Object.keys(py.vars)).toEqual(spec.variables.map((v) => v.name));
-      for (const v of spec.variables) {
-        const pv = py.vars[v.name];
-        expect(pv.type).toBe(['', 'byte', 'char', 'short', 'int', 'float', 'double'][v.type]);
-        expect(pv.dims).toEqual(v.dimensions);
-        expect(pv.atts).toEqual(asPy(ours.variable(v.name).attributes));
-        let want: ArrayLike<number> | number | string;
-        if (v.name in sampleFixed) want = sampleFixed[v.name as keyof typeof sampleFixed];
-        else {
-          const per = Array.from({ length: nrec }, (_, k) => sampleRecord(k)[v.name as keyof ReturnType<typeof sampleRecord>]);
-          want = v.type === NC_CHAR
-            ? per.map((t) => (t as string).padEnd(5, '\0')).join('').replace(/\0+$/, '')
-            : per.flatMap((x) => (typeof x === 'number' ? [x] : (x as number[])));
+        expect(Object.keys(py.vars)).toEqual(spec.variables.map((v) => v.name));
+        for (const v of spec.variables) {
+          const pv = py.vars[v.name];
+          expect(pv.type).toBe(['', 'byte', 'char', 'short', 'int', 'float', 'double'][v.type]);
+          expect(pv.dims).toEqual(v.dimensions);
+          expect(pv.atts).toEqual(asPy(ours.variable(v.name).attributes));
+          let want: ArrayLike<number> | number | string;
+          if (v.name in sampleFixed) want = sampleFixed[v.name as keyof typeof sampleFixed];
+          else {
+            const per = Array.from(
+              { length: nrec },
+              (_, k) => sampleRecord(k)[v.name as keyof ReturnType<typeof sampleRecord>],
+            );
+            want =
+              v.type === NC_CHAR
+                ? per
+                    .map((t) => (t as string).padEnd(5, '\0'))
+                    .join('')
+                    .replace(/\0+$/, '')
+                : per.flatMap((x) => (typeof x === 'number' ? [x] : (x as number[])));
+          }
+          if (v.type === NC_CHAR) expect(pv.values).toBe(want);
+          else expectValues(Float64Array.from(pv.values.map(fromPy)), want, v.type);
         }
-        if (v.type === NC_CHAR) expect(pv.values).toBe(want);
-        else expectValues(Float64Array.from(pv.values.map(fromPy)), want, v.type);
+      } finally {
+        rmSync(dir, { recursive: true, force: true });
       }
-    } finally {
-      rmSync(dir, { recursive: true, force: true });
-    }
-  });
+    });
 
   // The reference library decides the single-small-record-variable special case (no padding).
   it('reads a file whose only record variable is short (packed records)', async (ctx) => {
     ctx.skip(!available, `${PY} cannot import ${module}`);
     const file: NcFileInput = {
-      dimensions: [{ name: 't', length: 'unlimited' }, { name: 'k', length: 3 }],
+      dimensions: [
+        { name: 't', length: 'unlimited' },
+        { name: 'k', length: 3 },
+      ],
       variables: [{ name: 'x', type: NC_SHORT, dimensions: ['t', 'k'] }],
     };
-    const recs = [[1, -2, 3], [4, 5, -32768], [7, 8, 9]];
-    const bytes = await writeNetcdfToMemory(file, {}, recs.map((x) => ({ x })));
+    const recs = [
+      [1, -2, 3],
+      [4, 5, -32768],
+      [7, 8, 9],
+    ];
+    const bytes = await writeNetcdfToMemory(
+      file,
+      {},
+      recs.map((x) => ({ x })),
+    );
     const dir = mkdtempSync(join(tmpdir(), 'pycno-nc-'));
     try {
       const path = join(dir, 'packed.nc');
@@ -440,7 +541,10 @@ describe.each(['netCDF4', 'scipy.io'])('second reader: %s under /usr/bin/python3
       const r = spawnSync(PY, ['-c', PY_DUMP, module === 'netCDF4' ? 'netCDF4' : 'scipy', path], { encoding: 'utf8' });
       expect(r.stderr).toBe('');
       const py = JSON.parse(r.stdout);
-      expect(py.dims).toEqual([['t', 3, true], ['k', 3, false]]);
+      expect(py.dims).toEqual([
+        ['t', 3, true],
+        ['k', 3, false],
+      ]);
       expect(py.vars.x.values).toEqual(recs.flat());
     } finally {
       rmSync(dir, { recursive: true, force: true });

@@ -35,7 +35,12 @@ const path = (kind: Kind) => join(dir, FILES[kind]);
 const FILES = { run: 'tiny.nc', restart: 'tiny-restart.nc', 'run B': 'tiny-b.nc', difference: 'tiny-diff.nc' } as const;
 type Kind = keyof typeof FILES;
 const KINDS = Object.keys(FILES) as Kind[];
-const PROBE_NAMES: Record<Kind, string[]> = { run: ['west', 'east-coast'], 'run B': ['west', 'côte est'], difference: ['west'], restart: [] };
+const PROBE_NAMES: Record<Kind, string[]> = {
+  run: ['west', 'east-coast'],
+  'run B': ['west', 'côte est'],
+  difference: ['west'],
+  restart: [],
+};
 
 function pycno(args: string[]): void {
   const r = spawnSync(process.execPath, [BIN, ...args], { cwd: dir, encoding: 'utf8', timeout: 170_000 });
@@ -46,7 +51,16 @@ beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'pycno-readers-'));
   copyFileSync(FIXTURE, join(dir, 'tiny.json'));
   pycno(['run', 'tiny.json', '--out', FILES.run, '--restart-out', FILES.restart]);
-  pycno(['run', 'tiny.json', '--out', FILES['run B'], '--set', 'physics.reducedGravity=0.04', '--set', 'probes[1].name="côte est"']);
+  pycno([
+    'run',
+    'tiny.json',
+    '--out',
+    FILES['run B'],
+    '--set',
+    'physics.reducedGravity=0.04',
+    '--set',
+    'probes[1].name="côte est"',
+  ]);
   pycno(['compare', FILES.run, FILES['run B'], '--out', FILES.difference]);
 });
 
@@ -68,7 +82,9 @@ function read(reader: OutsideReader, kind: Kind, ctx: { skip: (cond: boolean, no
 /** The dates the time axis should decode to: "days since 2000-01-01 00:00:00", whole ms. */
 function expectedDates(kind: Kind): string[] {
   const days = ours(kind).variable('time').values as Float64Array;
-  return Array.from(days, (d) => new Date(Date.UTC(2000, 0, 1) + Math.round(d * 86_400_000)).toISOString().slice(0, 23));
+  return Array.from(days, (d) =>
+    new Date(Date.UTC(2000, 0, 1) + Math.round(d * 86_400_000)).toISOString().slice(0, 23),
+  );
 }
 
 describe.each(OUTSIDE_READERS.map((r) => [r.name, r] as const))('%s', (_name, reader) => {
@@ -78,26 +94,33 @@ describe.each(OUTSIDE_READERS.map((r) => [r.name, r] as const))('%s', (_name, re
 });
 
 describe('what the readers see', () => {
-  it.for(['run', 'run B', 'difference'] as const)('netCDF4: the %s file is classic NetCDF with every variable and the probe names as text', (kind, ctx) => {
-    const got = JSON.parse(read(NETCDF4_READER, kind, ctx).stdout);
-    const f = ours(kind);
-    expect(got.data_model).toBe('NETCDF3_CLASSIC');
-    expect(Object.keys(got.variables)).toEqual(f.variables.map((v) => v.name));
-    expect(got.variables.probe_name.text).toEqual(PROBE_NAMES[kind]);
-    expect(got.variables.cell_area.attributes.units).toBe('m2');
-  });
+  it.for(['run', 'run B', 'difference'] as const)(
+    'netCDF4: the %s file is classic NetCDF with every variable and the probe names as text',
+    (kind, ctx) => {
+      const got = JSON.parse(read(NETCDF4_READER, kind, ctx).stdout);
+      const f = ours(kind);
+      expect(got.data_model).toBe('NETCDF3_CLASSIC');
+      expect(Object.keys(got.variables)).toEqual(f.variables.map((v) => v.name));
+      expect(got.variables.probe_name.text).toEqual(PROBE_NAMES[kind]);
+      expect(got.variables.cell_area.attributes.units).toBe('m2');
+    },
+  );
 
-  it.for(['run', 'run B', 'difference'] as const)('xarray: the %s file decodes times to dates, probe names to text, cell areas and probes to coordinates', (kind, ctx) => {
-    const got = JSON.parse(read(XARRAY_READER, kind, ctx).stdout);
-    expect(got.time_dtype).toBe('datetime64[ns]');
-    expect(got.time_iso).toEqual(expectedDates(kind));
-    expect(got.time_iso[1]).toBe('2000-01-02T00:00:00.000'); // day 1 of the experiment
-    expect(got.probe_name).toEqual(PROBE_NAMES[kind]);
-    expect(got.probe_name_dtype).toBe('object');
-    for (const c of ['time', 'lat', 'lon', 'cell_area', 'probe_name', 'probe_lat', 'probe_lon', 'hovmoller_lat']) expect(got.coords).toContain(c);
-    expect(got.cell_measures.h_anom).toBe('area: cell_area');
-    expect(got.data_vars).toContain('probe_h_anom');
-  });
+  it.for(['run', 'run B', 'difference'] as const)(
+    'xarray: the %s file decodes times to dates, probe names to text, cell areas and probes to coordinates',
+    (kind, ctx) => {
+      const got = JSON.parse(read(XARRAY_READER, kind, ctx).stdout);
+      expect(got.time_dtype).toBe('datetime64[ns]');
+      expect(got.time_iso).toEqual(expectedDates(kind));
+      expect(got.time_iso[1]).toBe('2000-01-02T00:00:00.000'); // day 1 of the experiment
+      expect(got.probe_name).toEqual(PROBE_NAMES[kind]);
+      expect(got.probe_name_dtype).toBe('object');
+      for (const c of ['time', 'lat', 'lon', 'cell_area', 'probe_name', 'probe_lat', 'probe_lon', 'hovmoller_lat'])
+        expect(got.coords).toContain(c);
+      expect(got.cell_measures.h_anom).toBe('area: cell_area');
+      expect(got.data_vars).toContain('probe_h_anom');
+    },
+  );
 
   it('xarray: the restart file holds the padded state', (ctx) => {
     const got = JSON.parse(read(XARRAY_READER, 'restart', ctx).stdout);
@@ -105,26 +128,41 @@ describe('what the readers see', () => {
     expect(got.time_dtype).toBeUndefined(); // a scalar in seconds, not a time axis
   });
 
-  it.for(['run', 'difference'] as const)('CDO: the %s file has the dates of the run, the fields as variables, cell_area and probe_name as grid and label', (kind, ctx) => {
-    const dates = read(CDO_SHOWTIMESTAMP, kind, ctx).stdout.trim().split(/\s+/);
-    expect(dates).toEqual(expectedDates(kind).map((d) => d.slice(0, 19)));
-    // sinfon lists one variable a line: "   3 : unknown  Pycno    v instant ... F32  : h_anom".
-    const names = read(CDO_SINFON, kind, ctx).stdout.split('\n').flatMap((l) => /^\s*\d+ : .* : (\S+)\s*$/.exec(l)?.[1] ?? []);
-    for (const v of ['h_anom', 'u', 'taux', 'volume', 'hovmoller_h_anom', 'probe_h_anom', 'probe_u']) expect(names).toContain(v);
-    for (const v of ['cell_area', 'probe_name', 'probe_lat', 'lat', 'time']) expect(names).not.toContain(v);
-  });
+  it.for(['run', 'difference'] as const)(
+    'CDO: the %s file has the dates of the run, the fields as variables, cell_area and probe_name as grid and label',
+    (kind, ctx) => {
+      const dates = read(CDO_SHOWTIMESTAMP, kind, ctx).stdout.trim().split(/\s+/);
+      expect(dates).toEqual(expectedDates(kind).map((d) => d.slice(0, 19)));
+      // sinfon lists one variable a line: "   3 : unknown  Pycno    v instant ... F32  : h_anom".
+      const names = read(CDO_SINFON, kind, ctx)
+        .stdout.split('\n')
+        .flatMap((l) => /^\s*\d+ : .* : (\S+)\s*$/.exec(l)?.[1] ?? []);
+      for (const v of ['h_anom', 'u', 'taux', 'volume', 'hovmoller_h_anom', 'probe_h_anom', 'probe_u'])
+        expect(names).toContain(v);
+      for (const v of ['cell_area', 'probe_name', 'probe_lat', 'lat', 'time']) expect(names).not.toContain(v);
+    },
+  );
 
-  it.for([['run', 'tiny'], ['restart', 'tiny-restart']] as const)('docs/output.md: every line of the %s header listing is what ncdump -h prints for the fixture', ([kind, cdlName], ctx) => {
-    const header = read(NCDUMP_HEADER, kind, ctx).stdout.split('\n');
-    const doc = readFileSync(OUTPUT_DOC, 'utf8');
-    const block = new RegExp(`\`\`\`\n(netcdf ${cdlName} \\{[\\s\\S]*?)\n\`\`\``).exec(doc);
-    expect(block, `the ${kind} header listing in docs/output.md`).not.toBeNull();
-    // Lines cut short ("...") and comments added for the reader ("// ...", not ncdump's own
-    // "// (7 currently)") are not compared.
-    const lines = block![1].split('\n').map((l) => l.replace(/\s+\/\/ (?!\(\d+ currently\)).*$/, '')).filter((l) => l.trim() !== '' && !l.includes('...'));
-    expect(lines.length).toBeGreaterThan(kind === 'run' ? 60 : 20);
-    for (const l of lines) expect(header, `docs/output.md line: ${l.trim()}`).toContain(l);
-  });
+  it.for([
+    ['run', 'tiny'],
+    ['restart', 'tiny-restart'],
+  ] as const)(
+    'docs/output.md: every line of the %s header listing is what ncdump -h prints for the fixture',
+    ([kind, cdlName], ctx) => {
+      const header = read(NCDUMP_HEADER, kind, ctx).stdout.split('\n');
+      const doc = readFileSync(OUTPUT_DOC, 'utf8');
+      const block = new RegExp(`\`\`\`\n(netcdf ${cdlName} \\{[\\s\\S]*?)\n\`\`\``).exec(doc);
+      expect(block, `the ${kind} header listing in docs/output.md`).not.toBeNull();
+      // Lines cut short ("...") and comments added for the reader ("// ...", not ncdump's own
+      // "// (7 currently)") are not compared.
+      const lines = block![1]
+        .split('\n')
+        .map((l) => l.replace(/\s+\/\/ (?!\(\d+ currently\)).*$/, ''))
+        .filter((l) => l.trim() !== '' && !l.includes('...'));
+      expect(lines.length).toBeGreaterThan(kind === 'run' ? 60 : 20);
+      for (const l of lines) expect(header, `docs/output.md line: ${l.trim()}`).toContain(l);
+    },
+  );
 });
 
 // --- CF attributes, checked on what the reference library reads -----------------------------
@@ -137,16 +175,39 @@ const STANDARD_NAMES: Record<string, { units: string; source: string }> = {
   latitude: { units: 'degrees_north', source: 'CF 1.10 section 4.1 (check-values section 8, read)' },
   longitude: { units: 'degrees_east', source: 'CF 1.10 section 4.2 (check-values section 8, read)' },
   sea_surface_height_above_geoid: { units: 'm', source: 'CF standard name table (check-values section 8, read)' },
-  eastward_sea_water_velocity: { units: 'm s-1', source: 'CF standard name table: name read (check-values section 8), units from memory' },
-  northward_sea_water_velocity: { units: 'm s-1', source: 'CF standard name table: name read (check-values section 8), units from memory' },
+  eastward_sea_water_velocity: {
+    units: 'm s-1',
+    source: 'CF standard name table: name read (check-values section 8), units from memory',
+  },
+  northward_sea_water_velocity: {
+    units: 'm s-1',
+    source: 'CF standard name table: name read (check-values section 8), units from memory',
+  },
   surface_eastward_sea_water_velocity: { units: 'm s-1', source: 'CF standard name table, from memory' },
   surface_northward_sea_water_velocity: { units: 'm s-1', source: 'CF standard name table, from memory' },
-  surface_downward_eastward_stress: { units: 'Pa', source: 'CF standard name table, from memory (check-values section 8)' },
-  surface_downward_northward_stress: { units: 'Pa', source: 'CF standard name table, from memory (check-values section 8)' },
+  surface_downward_eastward_stress: {
+    units: 'Pa',
+    source: 'CF standard name table, from memory (check-values section 8)',
+  },
+  surface_downward_northward_stress: {
+    units: 'Pa',
+    source: 'CF standard name table, from memory (check-values section 8)',
+  },
   cell_area: { units: 'm2', source: 'CF 1.10 section 7.2 and the standard name table, from memory' },
 };
 // CF 1.10 section 4.4.2 (check-values section 8, read).
-const CALENDARS = ['standard', 'gregorian', 'proleptic_gregorian', 'julian', 'noleap', '365_day', 'all_leap', '366_day', '360_day', 'none'];
+const CALENDARS = [
+  'standard',
+  'gregorian',
+  'proleptic_gregorian',
+  'julian',
+  'noleap',
+  '365_day',
+  'all_leap',
+  '366_day',
+  '360_day',
+  'none',
+];
 // CF 1.10 section 9.5, from memory.
 const CF_ROLES = ['timeseries_id', 'profile_id', 'trajectory_id'];
 
@@ -167,7 +228,8 @@ describe.each(['run', 'run B', 'difference'] as const)('CF attributes of the %s 
     vars = got.variables;
     gatts = got.attributes;
   });
-  const skipUnlessRead = (ctx: { skip: (c: boolean, n: string) => void }) => ctx.skip(NETCDF4_READER.missing() !== null, `netCDF4: ${NETCDF4_READER.missing()}`);
+  const skipUnlessRead = (ctx: { skip: (c: boolean, n: string) => void }) =>
+    ctx.skip(NETCDF4_READER.missing() !== null, `netCDF4: ${NETCDF4_READER.missing()}`);
   const text = (a: string | number[] | undefined) => (typeof a === 'string' ? a : undefined);
 
   it('Conventions names a CF version (CF 1.10 section 2.6.1, check-values section 8)', (ctx) => {
@@ -185,12 +247,22 @@ describe.each(['run', 'run B', 'difference'] as const)('CF attributes of the %s 
     expect(withUnits.length).toBeGreaterThan(20);
     const units = [...new Set(withUnits.map(([, v]) => v.attributes.units as string))];
     const named = withUnits.filter(([, v]) => typeof v.attributes.standard_name === 'string');
-    const pairs = named.map(([, v]) => [v.attributes.units as string, STANDARD_NAMES[v.attributes.standard_name as string]?.units ?? 'unknown standard name'] as const);
+    const pairs = named.map(
+      ([, v]) =>
+        [
+          v.attributes.units as string,
+          STANDARD_NAMES[v.attributes.standard_name as string]?.units ?? 'unknown standard name',
+        ] as const,
+    );
     const u = udunits([...units, 'no_such_unit'], pairs);
     expect(u.problems).toEqual([]);
     expect(u.parses.no_such_unit).toBe(false); // the check can fail
     expect(units.filter((x) => !u.parses[x])).toEqual([]);
-    expect(named.filter((_, k) => !u.convertible[k]).map(([n, v]) => `${n}: ${v.attributes.units} vs ${v.attributes.standard_name}`)).toEqual([]);
+    expect(
+      named
+        .filter((_, k) => !u.convertible[k])
+        .map(([n, v]) => `${n}: ${v.attributes.units} vs ${v.attributes.standard_name}`),
+    ).toEqual([]);
   });
 
   it('standard names are from the CF table (the list above, each with its source)', (ctx) => {
@@ -225,7 +297,9 @@ describe.each(['run', 'run B', 'difference'] as const)('CF attributes of the %s 
       }
       if (v.attributes.cf_role !== undefined) expect(CF_ROLES).toContain(v.attributes.cf_role);
       if (v.attributes.flag_values !== undefined) {
-        expect((v.attributes.flag_values as number[]).length).toBe(String(v.attributes.flag_meanings).split(' ').length);
+        expect((v.attributes.flag_values as number[]).length).toBe(
+          String(v.attributes.flag_meanings).split(' ').length,
+        );
       }
       if (v.attributes._FillValue !== undefined) expect(v.dtype).toBe('float32');
     }
@@ -236,7 +310,9 @@ describe.each(['run', 'run B', 'difference'] as const)('CF attributes of the %s 
     expect(series.length).toBeGreaterThan(0);
     for (const [, v] of series) expect(String(v.attributes.coordinates).split(' ')).toContain('probe_name');
     // The gridded fields name the cell areas.
-    const gridded = Object.entries(vars).filter(([n, v]) => v.dimensions.join() === 'time,lat,lon' && n !== 'cell_area');
+    const gridded = Object.entries(vars).filter(
+      ([n, v]) => v.dimensions.join() === 'time,lat,lon' && n !== 'cell_area',
+    );
     expect(gridded.length).toBeGreaterThan(0);
     for (const [n, v] of gridded) expect(v.attributes.cell_measures, n).toBe('area: cell_area');
   });

@@ -20,7 +20,11 @@ afterEach(async () => {
   await Promise.all(open.splice(0).map((m) => m.close()));
 });
 
-const float32 = (cfg: ModelConfig, mode: 'linear' | 'nonlinear'): ModelConfig => ({ ...cfg, precision: 'float32', physics: { ...cfg.physics, mode } });
+const float32 = (cfg: ModelConfig, mode: 'linear' | 'nonlinear'): ModelConfig => ({
+  ...cfg,
+  precision: 'float32',
+  physics: { ...cfg.physics, mode },
+});
 
 describe('float32 on one thread: TypeScript rows and WebAssembly f32x4 rows', () => {
   for (const mode of ['linear', 'nonlinear'] as const) {
@@ -109,6 +113,8 @@ describe('float32 state', () => {
   }
 
   it('refuses a precision it does not know, naming the key', () => {
-    expect(() => new Model({ ...basin(20, 8, 'free', 1), precision: 'float16' as never })).toThrow(/numerics\.precision: must be one of float64, float32/);
+    expect(() => new Model({ ...basin(20, 8, 'free', 1), precision: 'float16' as never })).toThrow(
+      /numerics\.precision: must be one of float64, float32/,
+    );
   });
 });

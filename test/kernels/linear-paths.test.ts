@@ -32,7 +32,6 @@ function windyModel(cfg: ModelConfig, kernel: LinearKernelName = 'ts'): Model {
   return new Model(cfg, { wind: referenceStress(new Grid(cfg.basin, cfg.physics.earthRadius)), kernel });
 }
 
-
 describe('the one-thread TypeScript step (the step schedule over the TypeScript rows)', () => {
   for (const { name, cfg } of testConfigs()) {
     it(`equals the plain row loops bit for bit (${name})`, () => {
@@ -73,7 +72,11 @@ describe('WebAssembly SIMD linear step', () => {
     const { cfg } = testConfigs()[0];
     const a = windyModel(cfg, 'ts');
     a.advance(60);
-    const b = new Model(cfg, { wind: referenceStress(new Grid(cfg.basin, cfg.physics.earthRadius)), kernel: 'wasm', initial: a.state.clone() });
+    const b = new Model(cfg, {
+      wind: referenceStress(new Grid(cfg.basin, cfg.physics.earthRadius)),
+      kernel: 'wasm',
+      initial: a.state.clone(),
+    });
     a.advance(30);
     b.advance(30);
     expect(sameBits(a.state.h, b.state.h)).toBe(true);

@@ -9,9 +9,22 @@
 import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';
 import { buildCoefficients } from '../../model/dynamics/coefficients.ts';
-import { TsRows, stepFields, stepFields32, type LinearRows, type StepFields } from '../../model/dynamics/linear-rows.ts';
+import {
+  TsRows,
+  stepFields,
+  stepFields32,
+  type LinearRows,
+  type StepFields,
+} from '../../model/dynamics/linear-rows.ts';
 import { roundRowCoefficients, TsRows32 } from '../../model/dynamics/linear-rows32.ts';
-import { fieldViews, fillTables, heapBaseOf, layOut, rowsWasmModule, WasmRows } from '../../model/dynamics/linear-wasm.ts';
+import {
+  fieldViews,
+  fillTables,
+  heapBaseOf,
+  layOut,
+  rowsWasmModule,
+  WasmRows,
+} from '../../model/dynamics/linear-wasm.ts';
 import { bytesOf, type Precision } from '../../model/precision.ts';
 import type { FieldArray } from '../../model/state.ts';
 import { Grid } from '../../model/grid.ts';
@@ -25,7 +38,12 @@ function setup(nx: number, precision: Precision) {
   const exact = buildCoefficients(grid, cfg.physics, 9000);
   const c = precision === 'float32' ? roundRowCoefficients(exact) : exact;
   const module = rowsWasmModule(false, precision);
-  const { layout, bytes } = layOut(heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })), grid, c, bytesOf(precision));
+  const { layout, bytes } = layOut(
+    heapBaseOf(module, new WebAssembly.Memory({ initial: 1 })),
+    grid,
+    c,
+    bytesOf(precision),
+  );
   const memory = new WebAssembly.Memory({ initial: Math.ceil(bytes / 65536) + 1 });
   fillTables(memory.buffer, grid, c, layout, precision);
   const wasm: LinearRows = new WasmRows(module, memory, layout, grid, c);
@@ -92,7 +110,12 @@ for (const [nx, precision] of [
             ts[op.name](cur, j);
             wasm[op.name](cur, j);
             expect(same(tsFields, wasmFields), `${op.name} row ${j}, cur ${cur}`).toBe(true);
-            if (!sameBits(before, tsFields.h) || !sameBits(unBefore, tsFields.u[1 - cur]) || !sameBits(vnBefore, tsFields.v[1 - cur])) changed++;
+            if (
+              !sameBits(before, tsFields.h) ||
+              !sameBits(unBefore, tsFields.u[1 - cur]) ||
+              !sameBits(vnBefore, tsFields.v[1 - cur])
+            )
+              changed++;
           }
         }
         // the rows did work (a row of land or outside the sponge may leave everything as it was)

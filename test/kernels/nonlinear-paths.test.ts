@@ -14,7 +14,13 @@ import { basin, config, uniformStress } from '../support/physics-kit.ts';
 import { differences, PlainNonlinear } from '../support/plain-nonlinear.ts';
 import { scenarioCase, SHIPPED } from '../support/scenario-cases.ts';
 
-const calm: () => WindStress = () => ({ steady: true, fill: (_t, x, y) => (x.fill(0), y.fill(0)) });
+const calm: () => WindStress = () => ({
+  steady: true,
+  fill: (_t, x, y) => {
+    x.fill(0);
+    y.fill(0);
+  },
+});
 
 /** Largest |u| of a state: the comparison is worth something only where the flow moves. */
 const speed = (m: { state: { u: ArrayLike<number> } }) => {
@@ -24,7 +30,12 @@ const speed = (m: { state: { u: ArrayLike<number> } }) => {
 };
 
 /** Plain, TypeScript and WebAssembly runs from the same start, compared after each count of steps. */
-function compare(cfg: ModelConfig, wind: () => WindStress, initial: ModelOptions['initial'], counts: number[]): { plain: PlainNonlinear; wasm: Model } {
+function compare(
+  cfg: ModelConfig,
+  wind: () => WindStress,
+  initial: ModelOptions['initial'],
+  counts: number[],
+): { plain: PlainNonlinear; wasm: Model } {
   const plain = new PlainNonlinear(cfg, wind(), initial);
   const ts = new Model(cfg, { wind: wind(), kernel: 'ts', ...(initial ? { initial } : {}) });
   const wasm = new Model(cfg, { wind: wind(), kernel: 'wasm', ...(initial ? { initial } : {}) });
@@ -60,20 +71,38 @@ describe('nonlinear step on the set-ups of the physics tests', () => {
   // conservation.test.ts: a closed basin with an island and a coast polygon, a bump, viscosity
   const land = [
     { kind: 'rectangle' as const, lonWest: 150, lonEast: 153, latSouth: -1, latNorth: 2 },
-    { kind: 'polygon' as const, points: [[170, -10], [175, -10], [175, 0], [172, 4]] as Array<[number, number]> },
+    {
+      kind: 'polygon' as const,
+      points: [
+        [170, -10],
+        [175, -10],
+        [175, 0],
+        [172, 4],
+      ] as Array<[number, number]>,
+    },
   ];
   const closed = basin(140, 180, -10, 10, 0.5, land);
   const bump = { kind: 'bump' as const, lon: 160, lat: 3, radiusDeg: 3, amplitude: 20 };
   for (const slip of ['free', 'no'] as const) {
     it(`conservation: closed basin with land, ${slip} slip`, () => {
-      const cfg = config(closed, { mode: 'nonlinear', viscosity: 500, slip, entrainment: { minThickness: 0, time: 86400 } });
+      const cfg = config(closed, {
+        mode: 'nonlinear',
+        viscosity: 500,
+        slip,
+        entrainment: { minThickness: 0, time: 86400 },
+      });
       const { wasm } = compare(cfg, calm, bump, [1, 1, 1, 300]);
       expect(speed(wasm)).toBeGreaterThan(1e-3);
     });
   }
 
   it('entrainment: strong upwelling under a thin layer (the entrainment branch taken)', () => {
-    const cfg = config(basin(140, 170, -10.25, 10.25, 0.5), { mode: 'nonlinear', layerThickness: 60, viscosity: 2000, entrainment: { minThickness: 40, time: 0.5 * 86400 } });
+    const cfg = config(basin(140, 170, -10.25, 10.25, 0.5), {
+      mode: 'nonlinear',
+      layerThickness: 60,
+      viscosity: 2000,
+      entrainment: { minThickness: 40, time: 0.5 * 86400 },
+    });
     const { wasm } = compare(cfg, calm, { kind: 'bump', lon: 155, lat: 0, radiusDeg: 4, amplitude: -30 }, [1, 2, 200]);
     const thinnest = wasm.integrals().minThickness;
     expect(thinnest).toBeLessThan(60);
@@ -81,7 +110,11 @@ describe('nonlinear step on the set-ups of the physics tests', () => {
   });
 
   it('Kelvin wave, 1 m amplitude, 0.25 degree cells', () => {
-    const cfg = config(basin(140, 270, -15.125, 15.125, 0.25), { mode: 'nonlinear', reducedGravity: 0.03, layerThickness: 150 });
+    const cfg = config(basin(140, 270, -15.125, 15.125, 0.25), {
+      mode: 'nonlinear',
+      reducedGravity: 0.03,
+      layerThickness: 150,
+    });
     const { wasm } = compare(cfg, calm, { kind: 'kelvin', lon: 160, amplitude: 1, zonalWidthDeg: 5 }, [1, 1, 150]);
     expect(speed(wasm)).toBeGreaterThan(1e-3);
   });
@@ -89,7 +122,13 @@ describe('nonlinear step on the set-ups of the physics tests', () => {
   for (const conserveVolume of [false, true]) {
     it(`sponge bands (${conserveVolume ? 'volume-keeping' : 'relaxation to rest'}): the budget's sponge volume the same bits`, () => {
       const sponge = { widthDeg: 4, rateAtWall: 1 / (2 * 86400), conserveVolume };
-      const cfg = config(basin(0, 40, -15, 15, 0.5), { reducedGravity: 0.03, layerThickness: 150, viscosity: 2000, sponge, mode: 'nonlinear' });
+      const cfg = config(basin(0, 40, -15, 15, 0.5), {
+        reducedGravity: 0.03,
+        layerThickness: 150,
+        viscosity: 2000,
+        sponge,
+        mode: 'nonlinear',
+      });
       const { plain } = compare(cfg, calm, { kind: 'bump', lon: 20, lat: 0, amplitude: 10, radiusDeg: 3 }, [1, 1, 400]);
       expect(plain.state.volumeBudget!.spongeMeasured).not.toBe(0);
     });
@@ -119,7 +158,10 @@ describe('nonlinear step on the set-ups of the physics tests', () => {
   it('the comparison sees a change of one bit of physics', () => {
     const cfg = config(closed, { mode: 'nonlinear', viscosity: 500 });
     const a = new Model(cfg, { initial: bump, kernel: 'wasm' });
-    const b = new Model({ ...cfg, physics: { ...cfg.physics, viscosity: 500 * (1 + 2 ** -52) } }, { initial: bump, kernel: 'wasm' });
+    const b = new Model(
+      { ...cfg, physics: { ...cfg.physics, viscosity: 500 * (1 + 2 ** -52) } },
+      { initial: bump, kernel: 'wasm' },
+    );
     a.advance(20);
     b.advance(20);
     expect(differences(a.state, b.state)).toContain('u');

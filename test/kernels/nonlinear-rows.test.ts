@@ -10,7 +10,16 @@
 import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';
 import { buildCoefficients } from '../../model/dynamics/coefficients.ts';
-import { AB_WEIGHTS, nonlinearFields, nonlinearFields32, nonlinearRowCoefficients, nonlinearRowGrid, TsNonlinearRows, type NonlinearFields, type NonlinearRows } from '../../model/dynamics/nonlinear-rows.ts';
+import {
+  AB_WEIGHTS,
+  nonlinearFields,
+  nonlinearFields32,
+  nonlinearRowCoefficients,
+  nonlinearRowGrid,
+  TsNonlinearRows,
+  type NonlinearFields,
+  type NonlinearRows,
+} from '../../model/dynamics/nonlinear-rows.ts';
 import { roundNonlinearCoefficients, TsNonlinearRows32 } from '../../model/dynamics/nonlinear-rows32.ts';
 import { wasmNonlinearParts } from '../../model/dynamics/nonlinear-wasm.ts';
 import type { Precision } from '../../model/precision.ts';
@@ -104,7 +113,8 @@ describe('WebAssembly nonlinear rows against the TypeScript rows', () => {
           for (let j = 0; j <= ny; j++) {
             fill(grid, `${precision} ${slip} ${nx} ${weights[0]} ${cur} ${j}`, tsFields, wasmFields);
             const before = snapshot(tsFields);
-            for (const k of [ts, wasm]) k.params(cfg.physics.friction, cfg.physics.viscosity, weights[0], weights[1], weights[2]);
+            for (const k of [ts, wasm])
+              k.params(cfg.physics.friction, cfg.physics.viscosity, weights[0], weights[1], weights[2]);
             run(ts, cur, j);
             run(wasm, cur, j);
             expect(same(tsFields, wasmFields), `row ${j}, cur ${cur}, weights ${weights}`).toEqual([]);
@@ -129,12 +139,13 @@ describe('WebAssembly nonlinear rows against the TypeScript rows', () => {
       for (let j = 0; j <= grid.ny; j++) k.pre(0, j);
     }
     // rows 0..2 are sponge rows of the reference basin (10 rows at 30 rows tall)
-    for (const k of [ts, wasm]) for (const j of [0, 1, 2]) {
-      k.pre(0, j);
-      if (j + 1 <= grid.ny) k.pre(0, j + 1);
-      if (j > 0) k.pre(0, j - 1);
-      k.out(0, j);
-    }
+    for (const k of [ts, wasm])
+      for (const j of [0, 1, 2]) {
+        k.pre(0, j);
+        if (j + 1 <= grid.ny) k.pre(0, j + 1);
+        if (j > 0) k.pre(0, j - 1);
+        k.out(0, j);
+      }
     expect(same(tsFields, wasmFields)).toEqual([]);
     for (const j of [0, 1, 2]) expect(Math.abs(tsFields.spongeSums[1][j])).toBeGreaterThan(0);
   });

@@ -34,8 +34,18 @@ describe('comparison helpers', () => {
   });
 
   it('lists the scenario differences without the name and description', () => {
-    const a = { name: 'A', description: 'x', physics: { frictionDays: 730 }, wind: { parts: [{ kind: 'fixed', name: 'w', envelope: { duration: 14 } }] } };
-    const b = { name: 'B', description: 'y', physics: { frictionDays: 20 }, wind: { parts: [{ kind: 'fixed', name: 'w', envelope: { duration: 20 } }] } };
+    const a = {
+      name: 'A',
+      description: 'x',
+      physics: { frictionDays: 730 },
+      wind: { parts: [{ kind: 'fixed', name: 'w', envelope: { duration: 14 } }] },
+    };
+    const b = {
+      name: 'B',
+      description: 'y',
+      physics: { frictionDays: 20 },
+      wind: { parts: [{ kind: 'fixed', name: 'w', envelope: { duration: 20 } }] },
+    };
     expect(differenceRows(diffScenarios(a, b))).toEqual([
       { path: 'physics.frictionDays', part: '', a: '730', b: '20' },
       { path: 'wind.parts[0].envelope.duration', part: "wind part 1 (fixed 'w')", a: '14', b: '20' },
@@ -46,7 +56,22 @@ describe('comparison helpers', () => {
     const w: WaveMeasures = {
       c: 2.7386,
       rossbyTheory: 0.9129,
-      kelvin: { lat: 0.25, direction: 'east', sign: 1, speed: 2.7394, standardError: 0.0038, theory: 2.7386, points: [[1, 2], [2, 3], [3, 4], [4, 5]], dayRange: [0, 40], lonRange: [5, 135] },
+      kelvin: {
+        lat: 0.25,
+        direction: 'east',
+        sign: 1,
+        speed: 2.7394,
+        standardError: 0.0038,
+        theory: 2.7386,
+        points: [
+          [1, 2],
+          [2, 3],
+          [3, 4],
+          [4, 5],
+        ],
+        dayRange: [0, 40],
+        lonRange: [5, 135],
+      },
       rossby: { reason: 'no westward front on the section at 4.25°' },
       arrivals: [],
     };
@@ -65,7 +90,13 @@ describe('comparison helpers', () => {
   });
 
   it('starts the characteristic lines at a pulsed patch, mid-pulse', () => {
-    const sc = { wind: { parts: [{ source: { shape: { kind: 'patch', lon: 30 } }, envelope: { kind: 'pulse', start: 10, duration: 14 } }] } };
+    const sc = {
+      wind: {
+        parts: [
+          { source: { shape: { kind: 'patch', lon: 30 } }, envelope: { kind: 'pulse', start: 10, duration: 14 } },
+        ],
+      },
+    };
     expect(pulseStart(JSON.stringify(sc))).toEqual({ lon: 30, day: 17 });
     expect(pulseStart('{"wind":{"parts":[]}}')).toBeNull();
     expect(pulseStart('not json')).toBeNull();

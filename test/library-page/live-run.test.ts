@@ -17,9 +17,31 @@ function loaded(): LoadedScenario {
     name: 'tiny',
     description: 'a test run',
     scenarioJson: scenario,
-    grid: { nx, ny, lonWest: 0, lonEast: 4, latSouth: -1.5, latNorth: 1.5, dLon: 1, dLat: 1, lon: Float64Array.from([0.5, 1.5, 2.5, 3.5]), lat: Float64Array.from([-1, 0, 1]), ocean: new Uint8Array(nx * ny).fill(1) },
+    grid: {
+      nx,
+      ny,
+      lonWest: 0,
+      lonEast: 4,
+      latSouth: -1.5,
+      latNorth: 1.5,
+      dLon: 1,
+      dLat: 1,
+      lon: Float64Array.from([0.5, 1.5, 2.5, 3.5]),
+      lat: Float64Array.from([-1, 0, 1]),
+      ocean: new Uint8Array(nx * ny).fill(1),
+    },
     seed: 3,
-    physics: completeRunPhysics({ reducedGravity: 0.05, layerThickness: 150, density: 1025, coriolis: 'beta-plane', beta: 2.289e-11, earthRadius: 6371008.7714, dynamics: 'linear', frictionDays: null, viscosity: 0 }),
+    physics: completeRunPhysics({
+      reducedGravity: 0.05,
+      layerThickness: 150,
+      density: 1025,
+      coriolis: 'beta-plane',
+      beta: 2.289e-11,
+      earthRadius: 6371008.7714,
+      dynamics: 'linear',
+      frictionDays: null,
+      viscosity: 0,
+    }),
     derived: {} as LoadedScenario['derived'],
     dt: 3600,
     days: 10,
@@ -34,7 +56,19 @@ function loaded(): LoadedScenario {
 }
 
 function sample(n: number, withFields: boolean, extraRow = false): OutputSample {
-  const integrals = { day: n, volume: 1, volumeAnomaly: 0, spongeVolume: 0, entrainedVolume: 0, kinetic: n, potential: 2 * n, energy: 3 * n, minThickness: 150, maxSpeed: 0.1 * n, courant: 0.2 } as Integrals;
+  const integrals = {
+    day: n,
+    volume: 1,
+    volumeAnomaly: 0,
+    spongeVolume: 0,
+    entrainedVolume: 0,
+    kinetic: n,
+    potential: 2 * n,
+    energy: 3 * n,
+    minThickness: 150,
+    maxSpeed: 0.1 * n,
+    courant: 0.2,
+  } as Integrals;
   const f = (k: number) => Float32Array.from({ length: nx * ny }, (_, c) => n * 100 + c + k / 10);
   return {
     day: n,

@@ -22,7 +22,10 @@ describe('saving defaults', () => {
     const opened = { name: 'Westerly burst', physics: { reducedGravity: 0.05 } };
     expect(savedName(opened, opened, false)).toBe(opened);
     const edited = { name: 'Westerly burst', physics: { reducedGravity: 0.03 } };
-    expect(savedName(edited, opened, true)).toEqual({ name: 'Westerly burst (edited)', physics: { reducedGravity: 0.03 } });
+    expect(savedName(edited, opened, true)).toEqual({
+      name: 'Westerly burst (edited)',
+      physics: { reducedGravity: 0.03 },
+    });
     const renamed = { name: 'Slow burst', physics: { reducedGravity: 0.03 } };
     expect(savedName(renamed, opened, true)).toBe(renamed);
   });

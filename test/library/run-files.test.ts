@@ -107,11 +107,15 @@ describe('older files', () => {
     for (let n = 0; n < run.days.length; n++) await writer.append(runRecord(run, n, byIndex.get(n), missing));
     await writer.close();
     const old = sink.bytes().slice();
-    expect(readNetcdf(old, { only: [] }).variables.find((v) => v.name === 'h_anom')!.dimensions).toEqual(['time', 'lat', 'lon']);
+    expect(readNetcdf(old, { only: [] }).variables.find((v) => v.name === 'h_anom')!.dimensions).toEqual([
+      'time',
+      'lat',
+      'lon',
+    ]);
     expectSameRun(readRun(old, 'old.nc'), run);
   });
 
-  it('a run file of the layout before cell areas and the physics record (no cell_area, probe names not in coordinates, g\' and H in their own attributes) reads the same', async () => {
+  it("a run file of the layout before cell areas and the physics record (no cell_area, probe names not in coordinates, g' and H in their own attributes) reads the same", async () => {
     const run = await tinyRun([], 1);
     const now = await toNetcdf(run);
     // The same file laid out as Pycno wrote it before: no cell_area, no cell_measures, probe
@@ -130,7 +134,11 @@ describe('older files', () => {
     // (beta, rho0, friction, viscosity, R) only in the scenario the file carries.
     const atts = layout.attributes as Record<string, unknown>;
     for (const a of RUN_PHYSICS_ATTRIBUTES) delete atts[a.name];
-    Object.assign(atts, { pycno_dynamics: run.physics.dynamics, pycno_reduced_gravity: run.physics.reducedGravity, pycno_layer_thickness: run.physics.layerThickness });
+    Object.assign(atts, {
+      pycno_dynamics: run.physics.dynamics,
+      pycno_reduced_gravity: run.physics.reducedGravity,
+      pycno_layer_thickness: run.physics.layerThickness,
+    });
     const f = readNetcdf(now);
     const dims = new Map(f.dimensions.map((d) => [d.name, d]));
     const fixed: Record<string, Float64Array | string> = {};
@@ -154,15 +162,23 @@ describe('older files', () => {
 describe('refusals', () => {
   it('a NetCDF file written by someone else', async () => {
     const other = await writeNetcdfToMemory(
-      { dimensions: [{ name: 'x', length: 3 }], variables: [{ name: 'sst', type: NC_FLOAT, dimensions: ['x'] }], attributes: { title: 'not ours' } },
+      {
+        dimensions: [{ name: 'x', length: 3 }],
+        variables: [{ name: 'sst', type: NC_FLOAT, dimensions: ['x'] }],
+        attributes: { title: 'not ours' },
+      },
       { sst: [1, 2, 3] },
       [],
     );
-    expect(() => readRun(other, 'other.nc')).toThrow(/^other\.nc: not a Pycno run file: it has no pycno_scenario attribute/);
+    expect(() => readRun(other, 'other.nc')).toThrow(
+      /^other\.nc: not a Pycno run file: it has no pycno_scenario attribute/,
+    );
   });
 
   it('bytes that are not NetCDF at all', () => {
-    expect(() => readRun(new TextEncoder().encode('{"format": "pycno-scenario/1"}'), 'scenario.json')).toThrow(/^scenario\.json: not a NetCDF file/);
+    expect(() => readRun(new TextEncoder().encode('{"format": "pycno-scenario/1"}'), 'scenario.json')).toThrow(
+      /^scenario\.json: not a NetCDF file/,
+    );
   });
 
   it('a truncated run file', async () => {

@@ -7,7 +7,13 @@ import { afterEach, describe, expect, it } from 'vitest';
 import type { RunData } from '../../model/io/run-data.ts';
 import { toNetcdf } from '../../model/io/run-export.ts';
 import { readRun } from '../../model/io/run-import.ts';
-import { LibraryError, RunLibrary, StorageFullError, estimateSize, type LibraryOptions } from '../../viewer/library/store.ts';
+import {
+  LibraryError,
+  RunLibrary,
+  StorageFullError,
+  estimateSize,
+  type LibraryOptions,
+} from '../../viewer/library/store.ts';
 import { expectSameRun, tinyRun } from '../support/run-fixture.ts';
 
 let dbCount = 0;
@@ -58,7 +64,12 @@ describe('run library', () => {
     expect(meta.notes).toBe('first try');
     expect(meta.records).toBe(7);
     expect(meta.snapshots).toBe(7);
-    expect(meta.summary).toMatchObject({ reducedGravity: 0.03, layerThickness: 150, frictionDays: 365, windParts: ["fixed 'westerly patch': patch x pulse"] });
+    expect(meta.summary).toMatchObject({
+      reducedGravity: 0.03,
+      layerThickness: 150,
+      frictionDays: 365,
+      windParts: ["fixed 'westerly patch': patch x pulse"],
+    });
     expect(meta.summary.basin).toEqual({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, resolution: '1°' });
     expect(meta.seed).toBe(11);
     expect(meta.sizeBytes).toBe(estimateSize(run, 1));
@@ -123,7 +134,9 @@ describe('run library', () => {
     // The payload put succeeds, then the metadata put fails: the payload must not stay.
     const restore = failPutsTo('runs', () => new DOMException('the disk went away', 'UnknownError'));
     try {
-      await expect(lib.save(await tinyRun(), { name: 'lost' })).rejects.toThrow(/^not saved \(nothing was written\): UnknownError: the disk went away/);
+      await expect(lib.save(await tinyRun(), { name: 'lost' })).rejects.toThrow(
+        /^not saved \(nothing was written\): UnknownError: the disk went away/,
+      );
     } finally {
       restore();
     }
@@ -170,7 +183,9 @@ describe('run library', () => {
     const lib = await library({ estimateStorage: async () => null });
     const restore = failPutsTo('payloads', () => new DOMException('quota', 'QuotaExceededError'));
     try {
-      await expect(lib.save(await tinyRun())).rejects.toThrow(/storage is full \(needs \d+ kB, the browser does not say how much is free\)/);
+      await expect(lib.save(await tinyRun())).rejects.toThrow(
+        /storage is full \(needs \d+ kB, the browser does not say how much is free\)/,
+      );
     } finally {
       restore();
     }
@@ -189,7 +204,9 @@ describe('run library', () => {
     expectSameRun(run, await lib.get(imported.id));
     expectSameRun(readRun(bytes), await lib.get(imported.id));
     const before = await raw(lib.dbName);
-    await expect(lib.importNetcdf(new TextEncoder().encode('hello'), 'notes.txt')).rejects.toThrow(/^not imported: notes\.txt: not a NetCDF file/);
+    await expect(lib.importNetcdf(new TextEncoder().encode('hello'), 'notes.txt')).rejects.toThrow(
+      /^not imported: notes\.txt: not a NetCDF file/,
+    );
     await expect(lib.importNetcdf(bytes.slice(0, bytes.length - 100), 'cut.nc')).rejects.toThrow(LibraryError);
     expect(await raw(lib.dbName)).toEqual(before);
   });
@@ -201,25 +218,54 @@ describe('a library of the first version', () => {
     const run = await tinyRun(['physics.frictionDays=90']);
     // A run as version 1 saved it: g', H, beta and dynamics beside the scenario, no record.
     const { physics, ...rest } = run;
-    const v1Run = { ...rest, dynamics: physics.dynamics, reducedGravity: physics.reducedGravity, layerThickness: physics.layerThickness, beta: physics.beta };
+    const v1Run = {
+      ...rest,
+      dynamics: physics.dynamics,
+      reducedGravity: physics.reducedGravity,
+      layerThickness: physics.layerThickness,
+      beta: physics.beta,
+    };
     const v1 = await openDB(dbName, 1, {
       upgrade(db) {
         db.createObjectStore('runs', { keyPath: 'id' });
         db.createObjectStore('payloads', { keyPath: 'id' });
       },
     });
-    const meta = { id: 'old', name: 'old run', savedAt: '2030-01-01T00:00:00.000Z', runCreatedAt: null, notes: '', summary: {}, version: '0.1.0', seed: 11, scenarioSha256: run.scenarioSha256, sizeBytes: 1, snapshotEvery: 1, snapshots: run.snapshots.length, records: run.days.length, firstDay: 0, lastDay: 6, deletedAt: null };
+    const meta = {
+      id: 'old',
+      name: 'old run',
+      savedAt: '2030-01-01T00:00:00.000Z',
+      runCreatedAt: null,
+      notes: '',
+      summary: {},
+      version: '0.1.0',
+      seed: 11,
+      scenarioSha256: run.scenarioSha256,
+      sizeBytes: 1,
+      snapshotEvery: 1,
+      snapshots: run.snapshots.length,
+      records: run.days.length,
+      firstDay: 0,
+      lastDay: 6,
+      deletedAt: null,
+    };
     await v1.put('runs', meta);
     await v1.put('payloads', { id: 'old', format: 'pycno-saved-run/1', run: v1Run });
     // One that cannot move (its scenario is not JSON) stays as it was, and is refused by name.
     await v1.put('runs', { ...meta, id: 'broken', name: 'broken run' });
-    await v1.put('payloads', { id: 'broken', format: 'pycno-saved-run/1', run: { ...v1Run, scenarioJson: '{ not json' } });
+    await v1.put('payloads', {
+      id: 'broken',
+      format: 'pycno-saved-run/1',
+      run: { ...v1Run, scenarioJson: '{ not json' },
+    });
     v1.close();
     const lib = await library({ dbName });
     const got = await lib.get('old');
     expect(got.physics).toEqual(physics);
     expect('reducedGravity' in got).toBe(false);
     expectSameRun(run, got);
-    await expect(lib.get('broken')).rejects.toThrow(/saved run 'broken run' is in format pycno-saved-run\/1, which this version \(pycno-saved-run\/2\) does not read/);
+    await expect(lib.get('broken')).rejects.toThrow(
+      /saved run 'broken run' is in format pycno-saved-run\/1, which this version \(pycno-saved-run\/2\) does not read/,
+    );
   });
 });

@@ -7,7 +7,8 @@ import { Model } from '../../model/model.ts';
 import { chooseTimeStep, stabilityLimit, stepsInInterval } from '../../model/dynamics/stability.ts';
 import { referenceConfig } from '../../model/reference-kernel.ts';
 
-const fresh = (I: number, N: number) => new Clock({ dt: I / N, intervalSeconds: I, stepsPerInterval: N, originSteps: 0, originTime: 0 });
+const fresh = (I: number, N: number) =>
+  new Clock({ dt: I / N, intervalSeconds: I, stepsPerInterval: N, originSteps: 0, originTime: 0 });
 
 describe('the model clock', () => {
   it('lands on whole intervals to the bit where adding dt drifts', () => {
@@ -49,7 +50,11 @@ describe('the model clock', () => {
     const late = new Clock({ ...c.spec, originSteps: 5, originTime: 9000 });
     expect(late.nextWholeInterval(5)).toBe(29);
     expect(late.timeAt(29)).toBe(9000 + 86400);
-    expect(new Clock({ dt: 600, intervalSeconds: 0, stepsPerInterval: 0, originSteps: 0, originTime: 0 }).nextWholeInterval(3)).toBe(Infinity);
+    expect(
+      new Clock({ dt: 600, intervalSeconds: 0, stepsPerInterval: 0, originSteps: 0, originTime: 0 }).nextWholeInterval(
+        3,
+      ),
+    ).toBe(Infinity);
   });
 
   it('continues a clock of the same step length from its origin, and starts anew for another', () => {
@@ -85,7 +90,9 @@ describe('the time step and the output interval', () => {
   it('a model refuses a given dt that does not divide its interval, naming the place', () => {
     const cfg = referenceConfig(80, 60);
     cfg.time = { dt: 1000, safety: 0.8, alignTo: 21600 };
-    expect(() => new Model(cfg)).toThrow(/^time\.dtSeconds: time step 1000 s does not divide the output interval of 0\.25 days \(21600 s\)/);
+    expect(() => new Model(cfg)).toThrow(
+      /^time\.dtSeconds: time step 1000 s does not divide the output interval of 0\.25 days \(21600 s\)/,
+    );
     cfg.time = { dt: 900, safety: 0.8, alignTo: 21600 };
     const m = new Model(cfg);
     expect(m.clock.spec.stepsPerInterval).toBe(24);

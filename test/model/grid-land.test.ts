@@ -10,11 +10,30 @@ describe('land mask', () => {
   it('equals the brute-force mask for rectangles, a concave polygon and shapes over the edges', () => {
     const land: LandShape[] = [
       { kind: 'rectangle', lonWest: 12.2, lonEast: 15.9, latSouth: -3.1, latNorth: 2.4 },
-      { kind: 'polygon', points: [[20, -8], [28, -8], [28, 6], [24, 0], [20, 6]] },
+      {
+        kind: 'polygon',
+        points: [
+          [20, -8],
+          [28, -8],
+          [28, 6],
+          [24, 0],
+          [20, 6],
+        ],
+      },
       { kind: 'rectangle', lonWest: -5, lonEast: 1.3, latSouth: 7, latNorth: 30 },
-      { kind: 'polygon', points: [[35, -20], [45, -20], [45, -6]] },
+      {
+        kind: 'polygon',
+        points: [
+          [35, -20],
+          [45, -20],
+          [45, -6],
+        ],
+      },
     ];
-    const g = new Grid({ lonWest: 0, lonEast: 40, latSouth: -10, latNorth: 10, dLon: 0.5, dLat: 0.25, land }, EARTH.radius);
+    const g = new Grid(
+      { lonWest: 0, lonEast: 40, latSouth: -10, latNorth: 10, dLon: 0.5, dLat: 0.25, land },
+      EARTH.radius,
+    );
     let land0 = 0;
     for (let j = 0; j < g.ny; j++) {
       for (let i = 0; i < g.nx; i++) {

@@ -44,7 +44,9 @@ function cycles(graph: Map<string, string[]>): string[][] {
 describe('imports', () => {
   it('have no cycles in model/, worker/ and viewer/', () => {
     const full = importGraph();
-    const graph = new Map([...full].map(([f, edges]) => [f, edges.filter((e) => !e.external && full.has(e.target)).map((e) => e.target)]));
+    const graph = new Map(
+      [...full].map(([f, edges]) => [f, edges.filter((e) => !e.external && full.has(e.target)).map((e) => e.target)]),
+    );
     // The scan sees the imports (a check that it reads anything at all).
     expect([...graph.values()].reduce((n, d) => n + d.length, 0)).toBeGreaterThan(200);
     expect(cycles(graph).map((g) => g.map((f) => relative('.', f)))).toEqual([]);

@@ -53,7 +53,9 @@ describe('refused input', () => {
   });
 
   it('a basin smaller than its sponges', () => {
-    const e = errorOf(() => new Model(config(b, { sponge: { widthDeg: 10, rateAtWall: 1e-5, conserveVolume: false } })));
+    const e = errorOf(
+      () => new Model(config(b, { sponge: { widthDeg: 10, rateAtWall: 1e-5, conserveVolume: false } })),
+    );
     expect(e.message).toBe(
       'basin.sponge.widthDeg: the two sponge bands (10° each) leave no interior in a basin 20° tall; make the bands narrower than 10° or the basin taller',
     );
@@ -65,16 +67,22 @@ describe('refused input', () => {
     s.h[grid.idx(5, 7)] = NaN;
     const e = errorOf(() => new Model(config(b), { initial: s }));
     expect(e).toBeInstanceOf(InputError);
-    expect(e.message).toBe("initial: the initial state has h' = NaN at cell (5, 7) at 142.75°E, 6.25°S: a start must be finite");
+    expect(e.message).toBe(
+      "initial: the initial state has h' = NaN at cell (5, 7) at 142.75°E, 6.25°S: a start must be finite",
+    );
   });
 
   it('a restart state on another grid', () => {
     const other = new Grid(basin(140, 170, -10, 10, 0.5), EARTH.radius);
-    expect(errorOf(() => new Model(config(b), { initial: new State(other) })).message).toMatch(/restart state is on a 60 x 40 grid, the scenario on 80 x 40/);
+    expect(errorOf(() => new Model(config(b), { initial: new State(other) })).message).toMatch(
+      /restart state is on a 60 x 40 grid, the scenario on 80 x 40/,
+    );
   });
 
   it('a basin that is not a whole number of cells', () => {
-    expect(errorOf(() => new Model(config(basin(140, 180.3, -10, 10, 0.5)))).message).toMatch(/not a whole number of 0.5 x 0.5 degree cells/);
+    expect(errorOf(() => new Model(config(basin(140, 180.3, -10, 10, 0.5)))).message).toMatch(
+      /not a whole number of 0.5 x 0.5 degree cells/,
+    );
   });
 
   it('a surface layer deeper than the active layer', () => {
@@ -86,9 +94,13 @@ describe('refused input', () => {
 
 describe('blow-up detection', () => {
   it('an initial state deeper than the layer is refused before the first step', () => {
-    const e = errorOf(() => new Model(config(b), { initial: { kind: 'bump', lon: 165, lat: 2, radiusDeg: 2, amplitude: -400 } }));
+    const e = errorOf(
+      () => new Model(config(b), { initial: { kind: 'bump', lon: 165, lat: 2, radiusDeg: 2, amplitude: -400 } }),
+    );
     expect(e).toBeInstanceOf(InputError);
-    expect(e.message).toMatch(/^initial: the initial state leaves no upper layer \(thickness -\d+\.\d m\) at cell \(\d+, \d+\) at 16\d\.\d+°E, \d\.\d+°N; h' must stay above -H = -150 m$/);
+    expect(e.message).toMatch(
+      /^initial: the initial state leaves no upper layer \(thickness -\d+\.\d m\) at cell \(\d+, \d+\) at 16\d\.\d+°E, \d\.\d+°N; h' must stay above -H = -150 m$/,
+    );
   });
 
   it('a vanished layer stops the run with the day, the place and a hint', () => {
@@ -100,7 +112,9 @@ describe('blow-up detection', () => {
     expect(bu.reason).toBe('layer-vanished');
     expect(bu.lon).toBeGreaterThan(160);
     expect(bu.day).toBeGreaterThan(0);
-    expect(bu.message).toMatch(/^the run blew up on day \d+\.\d\d at 1\d\d\.\d\d°E, \d\.\d\d°[NS]: the upper layer vanished/);
+    expect(bu.message).toMatch(
+      /^the run blew up on day \d+\.\d\d at 1\d\d\.\d\d°E, \d\.\d\d°[NS]: the upper layer vanished/,
+    );
     expect(bu.message).toMatch(/nonlinear mode with entrainment/);
   });
 
@@ -110,7 +124,9 @@ describe('blow-up detection', () => {
   });
 
   it('an unstable explicit Laplacian (viscosity raised after the time step was chosen) stops the run with a hint', () => {
-    const m = new Model(config(b, { viscosity: 1e6 }), { initial: { kind: 'bump', lon: 160, lat: 0, radiusDeg: 1, amplitude: 1 } });
+    const m = new Model(config(b, { viscosity: 1e6 }), {
+      initial: { kind: 'bump', lon: 160, lat: 0, radiusDeg: 1, amplitude: 1 },
+    });
     // Force instability: quadruple the coefficient the time step was chosen for.
     (m.physics as { viscosity: number }).viscosity = 4e6;
     const e = errorOf(() => m.advance(5000));

@@ -7,7 +7,9 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import * as pm from '../../model/portable-math.ts';
 
-const FIXTURE = JSON.parse(readFileSync(new URL('./fixtures/portable-math-reference.json', import.meta.url), 'utf8')) as { cases: string[][] };
+const FIXTURE = JSON.parse(
+  readFileSync(new URL('./fixtures/portable-math-reference.json', import.meta.url), 'utf8'),
+) as { cases: string[][] };
 
 const f64 = new Float64Array(1);
 const i64 = new BigInt64Array(f64.buffer);
@@ -27,7 +29,24 @@ describe('against mpmath (outside reference, correctly rounded)', () => {
   for (const c of FIXTURE.cases) byName.set(c[0], [...(byName.get(c[0]) ?? []), c]);
 
   it('has every function', () => {
-    expect([...byName.keys()].sort()).toEqual(['acos', 'asin', 'atan', 'atan2', 'cos', 'cosh', 'exp', 'expm1', 'hypot', 'log', 'log10', 'pow', 'sin', 'sinh', 'tan', 'tanh']);
+    expect([...byName.keys()].sort()).toEqual([
+      'acos',
+      'asin',
+      'atan',
+      'atan2',
+      'cos',
+      'cosh',
+      'exp',
+      'expm1',
+      'hypot',
+      'log',
+      'log10',
+      'pow',
+      'sin',
+      'sinh',
+      'tan',
+      'tanh',
+    ]);
   });
 
   for (const [name, cases] of byName) {
@@ -48,7 +67,9 @@ describe('against mpmath (outside reference, correctly rounded)', () => {
         }
       }
       // not correctly rounded: ours `wrong`, Node's `hostWrong` (printed for the docs)
-      console.log(`${name}: max ${worst} ulp; not correctly rounded: ours ${wrong}, Node ${hostWrong} of ${cases.length}`);
+      console.log(
+        `${name}: max ${worst} ulp; not correctly rounded: ours ${wrong}, Node ${hostWrong} of ${cases.length}`,
+      );
       expect(worst, `${name}(${at})`).toBeLessThanOrEqual(1);
     });
   }

@@ -9,7 +9,8 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
-const HOST_MATH = /\bMath\.(exp|expm1|log|log1p|log2|log10|pow|sin|cos|tan|asin|acos|atan|atan2|sinh|cosh|tanh|asinh|acosh|atanh|cbrt|hypot)\b/;
+const HOST_MATH =
+  /\bMath\.(exp|expm1|log|log1p|log2|log10|pow|sin|cos|tan|asin|acos|atan|atan2|sinh|cosh|tanh|asinh|acosh|atanh|cbrt|hypot)\b/;
 
 function sources(dir: string): string[] {
   const out: string[] = [];
@@ -40,7 +41,8 @@ describe('model and engine code uses the portable elementary functions', () => {
       codeOnly(readFileSync(file, 'utf8')).forEach((line, i) => {
         if (HOST_MATH.test(line)) found.push(`${relative(ROOT, file)}:${i + 1}: ${line.trim()}`);
         for (const m of line.matchAll(/(\S+)\s*\*\*\s*(\S+)/g)) {
-          if (!/^\(?\d+(\.\d+)?$/.test(m[1]) || !/^\d/.test(m[2])) found.push(`${relative(ROOT, file)}:${i + 1}: ${line.trim()}`);
+          if (!/^\(?\d+(\.\d+)?$/.test(m[1]) || !/^\d/.test(m[2]))
+            found.push(`${relative(ROOT, file)}:${i + 1}: ${line.trim()}`);
         }
       });
     }

@@ -212,7 +212,22 @@ describe('correctly rounded reference values', () => {
 describe('special cases', () => {
   const same = (got: number, want: number) => expect(Object.is(got, want), `${got} should be ${want}`).toBe(true);
   it('NaN in, NaN out; infinities; signed zeros', () => {
-    for (const f of [pm.exp, pm.expm1, pm.log, pm.log10, pm.sin, pm.cos, pm.tan, pm.asin, pm.acos, pm.atan, pm.sinh, pm.cosh, pm.tanh]) same(f(NaN), NaN);
+    for (const f of [
+      pm.exp,
+      pm.expm1,
+      pm.log,
+      pm.log10,
+      pm.sin,
+      pm.cos,
+      pm.tan,
+      pm.asin,
+      pm.acos,
+      pm.atan,
+      pm.sinh,
+      pm.cosh,
+      pm.tanh,
+    ])
+      same(f(NaN), NaN);
     same(pm.exp(Infinity), Infinity);
     same(pm.exp(-Infinity), 0);
     same(pm.exp(709.79), Infinity);
@@ -258,7 +273,8 @@ describe('special cases', () => {
       for (const y of values) {
         const want = Math.pow(x, y);
         // finite nonzero results may differ in the last bit (pow(0.5, 0.5): ours 0.56 ulp off, Node's 0.44)
-        if (Number.isFinite(want) && want !== 0) expect(ulps(pm.pow(x, y), want), `pow(${x}, ${y})`).toBeLessThanOrEqual(1);
+        if (Number.isFinite(want) && want !== 0)
+          expect(ulps(pm.pow(x, y), want), `pow(${x}, ${y})`).toBeLessThanOrEqual(1);
         else same(pm.pow(x, y), want);
       }
     }
@@ -285,7 +301,7 @@ describe('symmetry and monotonicity', () => {
       if (!Object.is(a, b)) expect(a).toBe(b);
     }
   });
-  it('increasing functions do not step back across their methods\' breakpoints', () => {
+  it("increasing functions do not step back across their methods' breakpoints", () => {
     // [function, breakpoints of its argument reduction or polynomial ranges]
     const spots: Array<[string, One, number[]]> = [
       ['exp', pm.exp, [0.34657359027997264, 1.0397207708399179, 3.725290298461914e-9, -0.34657359027997264, 709.78]],
@@ -310,7 +326,11 @@ describe('symmetry and monotonicity', () => {
       }
     }
     // cos decreasing across pi/4 and acos across 1/2
-    for (const [f, p] of [[pm.cos, Math.PI / 4], [pm.acos, 0.5], [pm.acos, -0.5]] as const) {
+    for (const [f, p] of [
+      [pm.cos, Math.PI / 4],
+      [pm.acos, 0.5],
+      [pm.acos, -0.5],
+    ] as const) {
       for (let s = -20; s < 20; s++) {
         const a = p > 0 ? next(p, s) : -next(-p, -s);
         const b = p > 0 ? next(p, s + 1) : -next(-p, -s - 1);

@@ -9,8 +9,14 @@ import { basin, config } from '../support/physics-kit.ts';
 import { EARTH } from '../../model/config.ts';
 
 describe('sampling', () => {
-  const g = new Grid(basin(100, 110, -5, 5, 0.5, [{ kind: 'rectangle', lonWest: 108, lonEast: 110, latSouth: -5, latNorth: 5 }]), EARTH.radius);
-  const linear = Float64Array.from({ length: g.nx * g.ny }, (_, o) => 2 * g.lonCentre[o % g.nx] - 3 * g.latCentre[Math.floor(o / g.nx)]);
+  const g = new Grid(
+    basin(100, 110, -5, 5, 0.5, [{ kind: 'rectangle', lonWest: 108, lonEast: 110, latSouth: -5, latNorth: 5 }]),
+    EARTH.radius,
+  );
+  const linear = Float64Array.from(
+    { length: g.nx * g.ny },
+    (_, o) => 2 * g.lonCentre[o % g.nx] - 3 * g.latCentre[Math.floor(o / g.nx)],
+  );
 
   it('a probe reproduces a linear field exactly away from land', () => {
     const s = probeStencil(g, 103.37, 1.21)!;
@@ -25,9 +31,14 @@ describe('sampling', () => {
   });
 
   it('a section is the row nearest the latitude, NaN on land', () => {
-    const m = new Model(config(basin(100, 110, -5, 5, 0.5, [{ kind: 'rectangle', lonWest: 108, lonEast: 110, latSouth: -5, latNorth: 5 }])), {
-      initial: { kind: 'bump', lon: 104, lat: 0, radiusDeg: 2, amplitude: 5 },
-    });
+    const m = new Model(
+      config(
+        basin(100, 110, -5, 5, 0.5, [{ kind: 'rectangle', lonWest: 108, lonEast: 110, latSouth: -5, latNorth: 5 }]),
+      ),
+      {
+        initial: { kind: 'bump', lon: 104, lat: 0, radiusDeg: 2, amplitude: 5 },
+      },
+    );
     const row = new Float32Array(m.grid.nx);
     const lat = sectionAlong(m.fieldContext(), 'h_anom', 0.3, row);
     expect(lat).toBe(0.25);

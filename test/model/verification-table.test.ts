@@ -8,7 +8,9 @@ import { describe, expect, it } from 'vitest';
 import { DOC, END, START } from '../support/verification-table.ts';
 
 function testFiles(dir: string): string[] {
-  return readdirSync(dir, { withFileTypes: true }).flatMap((e) => (e.isDirectory() ? testFiles(join(dir, e.name)) : e.name.endsWith('.test.ts') ? [join(dir, e.name)] : []));
+  return readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
+    e.isDirectory() ? testFiles(join(dir, e.name)) : e.name.endsWith('.test.ts') ? [join(dir, e.name)] : [],
+  );
 }
 
 describe('the verification table of docs/physics.md', () => {

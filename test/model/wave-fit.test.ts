@@ -17,7 +17,10 @@ function synthetic(speed: number, noise: number, seed: string, sign = 1) {
   const days = Float64Array.from({ length: 40 }, (_, n) => n);
   const degPerDay = (speed * 86400) / M_PER_DEG;
   const rows = Array.from(days, (d) =>
-    Float64Array.from(lon, (x) => sign * 10 * Math.exp(-(((x - 130 - degPerDay * d) / 4) ** 2)) + noise * (rng() - 0.5) * 2),
+    Float64Array.from(
+      lon,
+      (x) => sign * 10 * Math.exp(-(((x - 130 - degPerDay * d) / 4) ** 2)) + noise * (rng() - 0.5) * 2,
+    ),
   );
   return { lon, days, rows };
 }
@@ -25,7 +28,12 @@ function synthetic(speed: number, noise: number, seed: string, sign = 1) {
 describe('speed fit on synthetic fronts', () => {
   for (const method of ['front', 'peak'] as const) {
     it(`${method}: a clean eastward pulse at 2.5 m/s`, () => {
-      const f = fitSpeed(synthetic(2.5, 0, 'a'), { direction: 'east', method, metresPerDegree: M_PER_DEG, dayRange: [2, 30] });
+      const f = fitSpeed(synthetic(2.5, 0, 'a'), {
+        direction: 'east',
+        method,
+        metresPerDegree: M_PER_DEG,
+        dayRange: [2, 30],
+      });
       expect(f.speed).toBeCloseTo(2.5, 2);
       expect(f.points.length).toBe(29);
     });
@@ -40,7 +48,12 @@ describe('speed fit on synthetic fronts', () => {
       let covered = 0;
       const trials = 100;
       for (let t = 0; t < trials; t++) {
-        const f = fitSpeed(synthetic(2.0, 1.0, `n${t}`), { direction: 'east', method, metresPerDegree: M_PER_DEG, dayRange: [2, 30] });
+        const f = fitSpeed(synthetic(2.0, 1.0, `n${t}`), {
+          direction: 'east',
+          method,
+          metresPerDegree: M_PER_DEG,
+          dayRange: [2, 30],
+        });
         if (Math.abs(f.speed - 2.0) <= 2 * f.standardError) covered++;
         expect(Math.abs(f.speed - 2.0)).toBeLessThan(0.2);
       }
@@ -57,8 +70,15 @@ describe('speed fit on synthetic fronts', () => {
     const lon = Float64Array.from({ length: 400 }, (_, i) => 100 + 0.25 * i);
     const days = Float64Array.from({ length: 30 }, (_, n) => n);
     const degPerDay = (2.5 * 86400) / M_PER_DEG;
-    const rows = Array.from(days, (d) => Float64Array.from(lon, (x) => 10 * 2 ** (-d / 7) * Math.exp(-(((x - 120 - degPerDay * d) / 4) ** 2))));
-    const opts = { direction: 'east', method: 'front', metresPerDegree: M_PER_DEG, dayRange: [1, 20] as [number, number] } as const;
+    const rows = Array.from(days, (d) =>
+      Float64Array.from(lon, (x) => 10 * 2 ** (-d / 7) * Math.exp(-(((x - 120 - degPerDay * d) / 4) ** 2))),
+    );
+    const opts = {
+      direction: 'east',
+      method: 'front',
+      metresPerDegree: M_PER_DEG,
+      dayRange: [1, 20] as [number, number],
+    } as const;
     const eachTime = fitSpeed({ lon, days, rows }, { ...opts, levelFrom: 'each-time' });
     expect(eachTime.speed).toBeCloseTo(2.5, 3);
     expect(eachTime.points.length).toBe(20);
@@ -69,16 +89,37 @@ describe('speed fit on synthetic fronts', () => {
   it('front with the level at each time skips rows below the floor (noise before the wave)', () => {
     const lon = [0, 1, 2, 3, 4, 5];
     const days = [0, 1, 2];
-    const rows = [[0.01, 0, 0.02, 0, 0, 0], [10, 8, 0, 0, 0, 0], [10, 10, 10, 8, 0, 0]];
-    const f = fitSpeed({ lon, days, rows }, { direction: 'east', method: 'front', levelFrom: 'each-time', metresPerDegree: M_PER_DEG });
+    const rows = [
+      [0.01, 0, 0.02, 0, 0, 0],
+      [10, 8, 0, 0, 0, 0],
+      [10, 10, 10, 8, 0, 0],
+    ];
+    const f = fitSpeed(
+      { lon, days, rows },
+      { direction: 'east', method: 'front', levelFrom: 'each-time', metresPerDegree: M_PER_DEG },
+    );
     expect(f.points.map((p) => p[0])).toEqual([1, 2]);
     expect(f.points[0][1]).toBeCloseTo(1 + 3 / 8, 12); // level 5 between 8 at lon 1 and 0 at lon 2
   });
 
   it('refuses a diagram without signal, and too few points', () => {
-    const flat = { lon: [1, 2, 3, 4], days: [0, 1], rows: [[0, 0, 0, 0], [0, 0, 0, 0]] };
-    expect(() => fitSpeed(flat, { direction: 'east', method: 'front', metresPerDegree: M_PER_DEG })).toThrow(WaveFitError);
-    expect(() => regress([[1, 2], [1, 3]])).toThrow(/all positions are at one time/);
+    const flat = {
+      lon: [1, 2, 3, 4],
+      days: [0, 1],
+      rows: [
+        [0, 0, 0, 0],
+        [0, 0, 0, 0],
+      ],
+    };
+    expect(() => fitSpeed(flat, { direction: 'east', method: 'front', metresPerDegree: M_PER_DEG })).toThrow(
+      WaveFitError,
+    );
+    expect(() =>
+      regress([
+        [1, 2],
+        [1, 3],
+      ]),
+    ).toThrow(/all positions are at one time/);
   });
 
   it('arrival day: half-maximum crossing, interpolated', () => {
@@ -90,7 +131,7 @@ describe('speed fit on synthetic fronts', () => {
 });
 
 describe('speed fit on a model Kelvin wave', () => {
-  it('the front method recovers sqrt(g\'H) within 2 %', () => {
+  it("the front method recovers sqrt(g'H) within 2 %", () => {
     const m = new Model(config(basin(140, 240, -10.25, 10.25, 0.5), { reducedGravity: 0.03, layerThickness: 150 }), {
       initial: { kind: 'kelvin', lon: 155, amplitude: 5, zonalWidthDeg: 4 },
     });
@@ -103,7 +144,10 @@ describe('speed fit on a model Kelvin wave', () => {
       days.push(m.day);
       rows.push(h.slice(j * m.grid.nx, (j + 1) * m.grid.nx) as Float64Array);
     }
-    const f = fitSpeed({ lon: m.grid.lonCentre, days, rows }, { direction: 'east', method: 'front', metresPerDegree: m.grid.dx / m.grid.dLon, dayRange: [3, 30] });
+    const f = fitSpeed(
+      { lon: m.grid.lonCentre, days, rows },
+      { direction: 'east', method: 'front', metresPerDegree: m.grid.dx / m.grid.dLon, dayRange: [3, 30] },
+    );
     const { c } = equatorialScales(m.physics);
     expect(Math.abs(f.speed / c - 1)).toBeLessThan(0.02);
     expect(f.standardError).toBeLessThan(0.02 * c);

@@ -22,13 +22,25 @@ function pycno(args: string[]) {
 
 function restartFields(file: string): Record<'u' | 'v' | 'h', Float64Array> {
   const f = readNetcdf(new Uint8Array(readFileSync(join(dir, file))));
-  return { u: f.variable('u').values as Float64Array, v: f.variable('v').values as Float64Array, h: f.variable('h').values as Float64Array };
+  return {
+    u: f.variable('u').values as Float64Array,
+    v: f.variable('v').values as Float64Array,
+    h: f.variable('h').values as Float64Array,
+  };
 }
 
 /** Every numeric variable of a restart file (the state, the multistep history, the clock, the budget). */
 function restartVariables(file: string): Map<string, ArrayLike<number>> {
   const f = readNetcdf(new Uint8Array(readFileSync(join(dir, file))));
-  return new Map(f.variables.filter((v) => typeof (v.values as ArrayLike<number>).length === 'number' && typeof (v.values as ArrayLike<number>)[0] !== 'string').map((v) => [v.name, v.values as ArrayLike<number>]));
+  return new Map(
+    f.variables
+      .filter(
+        (v) =>
+          typeof (v.values as ArrayLike<number>).length === 'number' &&
+          typeof (v.values as ArrayLike<number>)[0] !== 'string',
+      )
+      .map((v) => [v.name, v.values as ArrayLike<number>]),
+  );
 }
 
 describe('pycno run --threads', () => {
@@ -55,7 +67,17 @@ describe('pycno run --threads', () => {
   });
 
   it('the nonlinear step too: every variable of the restart file (history included) bit for bit', () => {
-    const common = ['run', SCENARIO, '--days', '14', '--quiet', '--set', 'physics.dynamics=nonlinear', '--set', 'physics.viscosity=800'];
+    const common = [
+      'run',
+      SCENARIO,
+      '--days',
+      '14',
+      '--quiet',
+      '--set',
+      'physics.dynamics=nonlinear',
+      '--set',
+      'physics.viscosity=800',
+    ];
     const one = pycno([...common, '--out', 'nl-one.nc', '--restart-out', 'nl-one-restart.nc']);
     const two = pycno([...common, '--out', 'nl-two.nc', '--restart-out', 'nl-two-restart.nc', '--threads', '2']);
     expect(one.stderr).toBe('');

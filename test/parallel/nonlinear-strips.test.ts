@@ -32,12 +32,25 @@ describe('nonlinear strips in turn on one thread', () => {
   for (const kernel of ['ts', 'wasm'] as const) {
     it(`equal the plain step for every strip count of a small basin, ${kernel === 'ts' ? 'TypeScript' : 'WebAssembly'} rows`, () => {
       const cfg = nonlinear(basin(25, 9, 'no', 3));
-      const start = new Model(cfg, { kernel: 'ts', wind: changingWind(new Grid(cfg.basin, cfg.physics.earthRadius), 1e9) });
+      const start = new Model(cfg, {
+        kernel: 'ts',
+        wind: changingWind(new Grid(cfg.basin, cfg.physics.earthRadius), 1e9),
+      });
       start.advance(25); // some flow and a full history first
       const { grid, coefficients: c, physics } = start;
       let moved = 0;
       for (let strips = 1; strips <= 9; strips++) {
-        const plain = new PlainNonlinear(cfg, { steady: true, fill: (_t, x, y) => (x.set(start.taux), y.set(start.tauy)) }, start.state.clone());
+        const plain = new PlainNonlinear(
+          cfg,
+          {
+            steady: true,
+            fill: (_t, x, y) => {
+              x.set(start.taux);
+              y.set(start.tauy);
+            },
+          },
+          start.state.clone(),
+        );
         const { setup, binding } = createStripSetup(grid, c, physics, kernel, strips);
         const rows = Array.from({ length: strips }, (_, s) => stripStep(setup, s));
         const bounds = stripBounds(grid.ny, strips);

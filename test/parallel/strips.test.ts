@@ -4,7 +4,15 @@
 // friction and viscosity. The worker threads are real (worker_threads) and terminated after.
 
 import { afterEach, describe, expect, it } from 'vitest';
-import { basin, changingWind, countingHost, expectSameSteps, model, sameBits, STRIP_CASES } from '../support/strip-helpers.ts';
+import {
+  basin,
+  changingWind,
+  countingHost,
+  expectSameSteps,
+  model,
+  sameBits,
+  STRIP_CASES,
+} from '../support/strip-helpers.ts';
 import { linearStepPlain, linearWork } from '../../model/dynamics/linear.ts';
 import { InputError } from '../../model/errors.ts';
 import { Grid } from '../../model/grid.ts';
@@ -52,7 +60,12 @@ describe('strip schedule on one thread', () => {
   });
 
   it('cuts rows into contiguous strips covering the grid once', () => {
-    for (const [ny, n] of [[7, 7], [13, 3], [240, 2], [5, 4]]) {
+    for (const [ny, n] of [
+      [7, 7],
+      [13, 3],
+      [240, 2],
+      [5, 4],
+    ]) {
       const b = stripBounds(ny, n);
       expect(b[0].j0).toBe(0);
       expect(b[n - 1].j1).toBe(ny);
@@ -167,7 +180,9 @@ describe('strip team on worker threads', () => {
 
   it("'auto' takes one thread per core while a strip keeps 40,000 cells, and over WebAssembly only from 4 cores", () => {
     expect(chooseThreads('auto', { nx: 640, ny: 240 }, 2, 'wasm').threads).toBe(1);
-    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 2, 'wasm').notice).toMatch(/WebAssembly step is faster than 2 TypeScript strips/);
+    expect(chooseThreads('auto', { nx: 640, ny: 240 }, 2, 'wasm').notice).toMatch(
+      /WebAssembly step is faster than 2 TypeScript strips/,
+    );
     expect(chooseThreads('auto', { nx: 1280, ny: 480 }, 4, 'wasm').threads).toBe(4);
     expect(chooseThreads('auto', { nx: 640, ny: 240 }, 2).threads).toBe(2);
     expect(chooseThreads('auto', { nx: 640, ny: 240 }, 8).threads).toBe(3);

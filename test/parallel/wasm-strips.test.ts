@@ -112,5 +112,4 @@ describe('WebAssembly strip team on worker threads', () => {
     expect(chooseThreads('auto', { nx: 160, ny: 60 }, 8, 'wasm', 'wasm').threads).toBe(1);
     expect(chooseThreads('auto', { nx: 640, ny: 240 }, 1, 'wasm', 'wasm').threads).toBe(1);
   });
-
 });

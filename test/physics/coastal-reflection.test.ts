@@ -11,7 +11,11 @@ import { basin, config, DAY, record } from '../support/physics-kit.ts';
 describe('Kelvin wave reflection at an eastern coast (linear, 0.25 degree grid)', () => {
   const b = basin(130, 200, -20.125, 20.125, 0.25);
   const m = new Model(
-    config(b, { reducedGravity: 0.03, layerThickness: 150, sponge: { widthDeg: 4, rateAtWall: 1 / (2 * DAY), conserveVolume: false } }),
+    config(b, {
+      reducedGravity: 0.03,
+      layerThickness: 150,
+      sponge: { widthDeg: 4, rateAtWall: 1 / (2 * DAY), conserveVolume: false },
+    }),
     { initial: { kind: 'kelvin', lon: 160, amplitude: 10, zonalWidthDeg: 4 } },
   );
   const g = m.grid;
@@ -44,7 +48,10 @@ describe('Kelvin wave reflection at an eastern coast (linear, 0.25 degree grid)'
     m.advance(m.stepsUntil(30 * DAY));
     const north = coastH(8);
     const south = coastH(-8);
-    record('coastal h\' at 8N on the eastern coast, day 30 (incident 10 m)', north, NaN, 'm', { source: 'Gill 1982 §11.11 (from memory)', tolerance: '> 3 m, N = S' });
+    record("coastal h' at 8N on the eastern coast, day 30 (incident 10 m)", north, NaN, 'm', {
+      source: 'Gill 1982 §11.11 (from memory)',
+      tolerance: '> 3 m, N = S',
+    });
     expect(north).toBeGreaterThan(3);
     expect(Math.abs(north - south)).toBeLessThan(1e-6 * Math.abs(north));
   });
@@ -52,7 +59,10 @@ describe('Kelvin wave reflection at an eastern coast (linear, 0.25 degree grid)'
   it('reflected Rossby waves carry energy back west', () => {
     m.advance(m.stepsUntil(60 * DAY));
     const west = energyWestOf(195) / e0;
-    record('energy west of 195E at day 60 / initial energy', west, NaN, '', { source: 'Gill 1982 §11.11 (from memory): reflected long Rossby waves', tolerance: '> 10 %' });
+    record('energy west of 195E at day 60 / initial energy', west, NaN, '', {
+      source: 'Gill 1982 §11.11 (from memory): reflected long Rossby waves',
+      tolerance: '> 10 %',
+    });
     // The incident wave left this region entirely by day 30 (1.8 % left, measured), so what is
     // here now came back from the coast.
     expect(west).toBeGreaterThan(0.1);

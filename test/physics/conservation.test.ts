@@ -11,7 +11,15 @@ import { basin, config, record, FLOAT32, FLOAT32_ENERGY, FLOAT32_VOLUME, toleran
 // A small basin with an island and a coast polygon, so that land boundaries take part.
 const land = [
   { kind: 'rectangle' as const, lonWest: 150, lonEast: 153, latSouth: -1, latNorth: 2 },
-  { kind: 'polygon' as const, points: [[170, -10], [175, -10], [175, 0], [172, 4]] as Array<[number, number]> },
+  {
+    kind: 'polygon' as const,
+    points: [
+      [170, -10],
+      [175, -10],
+      [175, 0],
+      [172, 4],
+    ] as Array<[number, number]>,
+  },
 ];
 const b = basin(140, 180, -10, 10, 0.5, land);
 
@@ -47,8 +55,14 @@ describe('conservation over 10,000 steps in a closed basin with land', () => {
     }
     expect(m.state.steps).toBe(10_000);
     const drift = Math.max(...windowMeans.map((e) => Math.abs(e - 1)));
-    record('relative volume drift, linear, 10,000 steps', worstVolume, 0, '', { source: 'flux form telescopes (common practice)', tolerance: FLOAT32 ? FLOAT32_VOLUME : '1e-12' });
-    record('energy, largest 1000-step mean deviation from the start, linear, 10,000 steps', drift, 0, '', { source: 'Mesinger & Arakawa 1976 (neutral forward-backward)', tolerance: '1 %' });
+    record('relative volume drift, linear, 10,000 steps', worstVolume, 0, '', {
+      source: 'flux form telescopes (common practice)',
+      tolerance: FLOAT32 ? FLOAT32_VOLUME : '1e-12',
+    });
+    record('energy, largest 1000-step mean deviation from the start, linear, 10,000 steps', drift, 0, '', {
+      source: 'Mesinger & Arakawa 1976 (neutral forward-backward)',
+      tolerance: '1 %',
+    });
     expect(worstVolume).toBeLessThan(tolerance(1e-12, 1e-8));
     expect(drift).toBeLessThan(0.01);
     // No trend: the last window is as energetic as the first.
@@ -68,7 +82,10 @@ describe('conservation over 10,000 steps in a closed basin with land', () => {
       m.advance(1);
       worst = Math.max(worst, Math.abs(forwardBackwardInvariant(m, hOld) / e0 - 1));
     }
-    record('forward-backward invariant, f = 0, 10,000 steps', worst, 0, '', { source: 'property of forward-backward with adjoint grad/div', tolerance: FLOAT32 ? FLOAT32_ENERGY : '1e-12' });
+    record('forward-backward invariant, f = 0, 10,000 steps', worst, 0, '', {
+      source: 'property of forward-backward with adjoint grad/div',
+      tolerance: FLOAT32 ? FLOAT32_ENERGY : '1e-12',
+    });
     expect(worst).toBeLessThan(tolerance(1e-12, 2e-6));
   });
 
@@ -105,14 +122,19 @@ describe('conservation over 10,000 steps in a closed basin with land', () => {
       worstVolume = Math.max(worstVolume, Math.abs(d.volume - first.volume) / first.volume);
       worstGain = Math.max(worstGain, d.energy / first.energy - 1);
     }
-    record('relative volume drift, nonlinear, 10,000 steps', worstVolume, 0, '', { source: 'flux form telescopes (common practice)', tolerance: FLOAT32 ? FLOAT32_VOLUME : '1e-12' });
+    record('relative volume drift, nonlinear, 10,000 steps', worstVolume, 0, '', {
+      source: 'flux form telescopes (common practice)',
+      tolerance: FLOAT32 ? FLOAT32_VOLUME : '1e-12',
+    });
     expect(worstVolume).toBeLessThan(tolerance(1e-12, 1e-8));
     expect(worstGain).toBeLessThan(0.01);
     expect(m.integrals().kinetic).toBeGreaterThan(0);
   });
 
   it('sponges remove energy (they are the only sink here)', () => {
-    const m = new Model(config(b, { sponge: { widthDeg: 3, rateAtWall: 1 / (2 * 86400), conserveVolume: false } }), { initial: bump });
+    const m = new Model(config(b, { sponge: { widthDeg: 3, rateAtWall: 1 / (2 * 86400), conserveVolume: false } }), {
+      initial: bump,
+    });
     const first = m.integrals();
     m.advance(2000);
     expect(m.integrals().energy).toBeLessThan(0.9 * first.energy);
@@ -123,7 +145,12 @@ describe('entrainment keeps the nonlinear layer from outcropping', () => {
   it('strong upwelling stops near the minimum thickness instead of blowing up', () => {
     const small = basin(140, 170, -10.25, 10.25, 0.5);
     const m = new Model(
-      config(small, { mode: 'nonlinear', layerThickness: 60, viscosity: 2000, entrainment: { minThickness: 40, time: 0.5 * 86400 } }),
+      config(small, {
+        mode: 'nonlinear',
+        layerThickness: 60,
+        viscosity: 2000,
+        entrainment: { minThickness: 40, time: 0.5 * 86400 },
+      }),
       { initial: { kind: 'bump', lon: 155, lat: 0, radiusDeg: 4, amplitude: -30 } },
     );
     const first = m.integrals();
@@ -131,7 +158,10 @@ describe('entrainment keeps the nonlinear layer from outcropping', () => {
     const d = m.integrals();
     // Without entrainment the trough reaches 30 m; entrainment holds it close to 40 m,
     // and the water it brings up adds volume.
-    record('thinnest nonlinear layer under strong upwelling, entrainment at 40 m', d.minThickness, 40, 'm', { source: 'design: E = (h_min - h) / t_e', tolerance: '> 35 m' });
+    record('thinnest nonlinear layer under strong upwelling, entrainment at 40 m', d.minThickness, 40, 'm', {
+      source: 'design: E = (h_min - h) / t_e',
+      tolerance: '> 35 m',
+    });
     expect(d.minThickness).toBeGreaterThan(35);
     expect(d.volume).toBeGreaterThan(first.volume);
   });

@@ -19,7 +19,12 @@ const DAYS = 2190;
 
 function growth(strength: number) {
   const { model } = build('coupled-oscillation.json', {
-    overrides: ['wind.parts[0].enabled=false', `wind.parts[1].strength=${strength}`, 'wind.parts[1].sst.initial=0.001', `time.days=${DAYS}`],
+    overrides: [
+      'wind.parts[0].enabled=false',
+      `wind.parts[1].strength=${strength}`,
+      'wind.parts[1].sst.initial=0.001',
+      `time.days=${DAYS}`,
+    ],
   });
   const days: number[] = [];
   const east: number[] = [];
@@ -50,27 +55,44 @@ describe('coupling sweep of the answering wind', () => {
     expect(rates[3]).toBeGreaterThan(0);
     for (let k = 1; k < rates.length; k++) expect(rates[k]).toBeGreaterThan(rates[k - 1]);
     const [a, b] = [runs[1], runs[2]];
-    const critical = a.strength + ((b.strength - a.strength) * -a.fit.growthPerYear) / (b.fit.growthPerYear - a.fit.growthPerYear);
+    const critical =
+      a.strength + ((b.strength - a.strength) * -a.fit.growthPerYear) / (b.fit.growthPerYear - a.fit.growthPerYear);
     for (const r of runs) {
       record(`coupling sweep: growth rate at strength ${r.strength} m/s per K`, r.fit.growthPerYear, NaN, 'per year', {
-        source: 'coupled instability: decay below, growth above a critical strength (Philander et al. 1984; Hirst 1986, from memory)',
+        source:
+          'coupled instability: decay below, growth above a critical strength (Philander et al. 1984; Hirst 1986, from memory)',
         tolerance: r.strength < critical ? '< 0' : '> 0',
       });
     }
-    record('coupling sweep: critical strength (growth rate 0, linear between the bracketing runs)', critical, NaN, 'm/s per K', {
-      source: "this basin's own number; the sweep brackets it (Philander et al. 1984, from memory)",
-      tolerance: `between ${a.strength} and ${b.strength}`,
+    record(
+      'coupling sweep: critical strength (growth rate 0, linear between the bracketing runs)',
+      critical,
+      NaN,
+      'm/s per K',
+      {
+        source: "this basin's own number; the sweep brackets it (Philander et al. 1984, from memory)",
+        tolerance: `between ${a.strength} and ${b.strength}`,
+      },
+    );
+    record('coupling sweep: period at the strength just above critical', b.fit.periodDays, NaN, 'days', {
+      source: "this basin's own number",
+      tolerance: '1.5-4 years',
     });
-    record('coupling sweep: period at the strength just above critical', b.fit.periodDays, NaN, 'days', { source: "this basin's own number", tolerance: '1.5-4 years' });
     expect(critical).toBeGreaterThan(a.strength);
     expect(critical).toBeLessThan(b.strength);
     // The growing mode oscillates on the recharge time scale, warm water leading.
     expect(b.fit.periodDays).toBeGreaterThan(1.5 * 365.25);
     expect(b.fit.periodDays).toBeLessThan(4 * 365.25);
-    record('coupling sweep: lead of the warm-water volume over the eastern SST, growing mode (share of a period)', b.lead, 0.25, '', {
-      source: 'recharge oscillator, Jin 1997 (about a quarter period, from memory)',
-      tolerance: '1/8 to 3/8',
-    });
+    record(
+      'coupling sweep: lead of the warm-water volume over the eastern SST, growing mode (share of a period)',
+      b.lead,
+      0.25,
+      '',
+      {
+        source: 'recharge oscillator, Jin 1997 (about a quarter period, from memory)',
+        tolerance: '1/8 to 3/8',
+      },
+    );
     expect(b.lead).toBeGreaterThan(1 / 8);
     expect(b.lead).toBeLessThan(3 / 8);
   });

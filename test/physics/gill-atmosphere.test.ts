@@ -23,7 +23,7 @@ const C_A = 30;
 const DAMPING_DAYS = 2;
 const BETA = (2 * EARTH.omega) / EARTH.radius;
 const LA = Math.sqrt(C_A / BETA);
-const EPS = (1 / (DAMPING_DAYS * 86400)) / Math.sqrt(BETA * C_A);
+const EPS = 1 / (DAMPING_DAYS * 86400) / Math.sqrt(BETA * C_A);
 /** Half-width of the heating in units of L_a (Gill's L = 2), centred at 200E. */
 const HALF = 2;
 const CENTRE_LON = 200;
@@ -35,11 +35,13 @@ function gill(x: number, y: number): { u: number; v: number; p: number } {
   const F = Math.abs(x) <= HALF ? Math.cos(k * x) : 0;
   let q0: number;
   if (x < -HALF) q0 = 0;
-  else if (x <= HALF) q0 = -(e * Math.cos(k * x) + k * Math.sin(k * x) + k * Math.exp(-e * (x + HALF))) / (e * e + k * k);
+  else if (x <= HALF)
+    q0 = -(e * Math.cos(k * x) + k * Math.sin(k * x) + k * Math.exp(-e * (x + HALF))) / (e * e + k * k);
   else q0 = ((-k * (1 + Math.exp(-2 * e * HALF))) / (e * e + k * k)) * Math.exp(-e * (x - HALF));
   let r0: number;
   if (x > HALF) r0 = 0;
-  else if (x >= -HALF) r0 = (-2 * (b * Math.cos(k * x) - k * Math.sin(k * x) + k * Math.exp(-b * (HALF - x)))) / (b * b + k * k);
+  else if (x >= -HALF)
+    r0 = (-2 * (b * Math.cos(k * x) - k * Math.sin(k * x) + k * Math.exp(-b * (HALF - x)))) / (b * b + k * k);
   else r0 = ((-2 * k * (1 + Math.exp(-2 * b * HALF))) / (b * b + k * k)) * Math.exp(b * (x + HALF));
   const g = Math.exp(-0.5 * y * y);
   return {
@@ -81,7 +83,10 @@ describe("Gill's (1980) atmosphere, symmetric heating patch", () => {
           worst = Math.max(worst, Math.abs(fields[c][grid.idx(i, j)] - exact));
         }
       }
-      record(`Gill atmosphere, symmetric heating: largest error of ${c} (share of its peak)`, worst / peak, 0, '', { source: SOURCE, tolerance: '5 %' });
+      record(`Gill atmosphere, symmetric heating: largest error of ${c} (share of its peak)`, worst / peak, 0, '', {
+        source: SOURCE,
+        tolerance: '5 %',
+      });
       expect(worst / peak).toBeLessThan(0.05);
       expect(peak).toBeGreaterThan(0.1);
     }
@@ -109,8 +114,20 @@ describe("Gill's (1980) atmosphere, symmetric heating patch", () => {
     const kelvin = -1 / linearFit(eastLon, eastLog).slope / 1000;
     const rossby = 1 / linearFit(westLon, westLog).slope / 1000;
     const eps = 1 / (DAMPING_DAYS * 86400);
-    record('Gill atmosphere: e-folding length of the Kelvin response east of the heating', kelvin, C_A / eps / 1000, 'km', { source: `${SOURCE}: c_a/eps`, tolerance: '5 %' });
-    record('Gill atmosphere: e-folding length of the Rossby response west of the heating', rossby, C_A / (3 * eps) / 1000, 'km', { source: `${SOURCE}: c_a/(3 eps)`, tolerance: '5 %' });
+    record(
+      'Gill atmosphere: e-folding length of the Kelvin response east of the heating',
+      kelvin,
+      C_A / eps / 1000,
+      'km',
+      { source: `${SOURCE}: c_a/eps`, tolerance: '5 %' },
+    );
+    record(
+      'Gill atmosphere: e-folding length of the Rossby response west of the heating',
+      rossby,
+      C_A / (3 * eps) / 1000,
+      'km',
+      { source: `${SOURCE}: c_a/(3 eps)`, tolerance: '5 %' },
+    );
     expect(Math.abs(kelvin / (C_A / eps / 1000) - 1)).toBeLessThan(0.05);
     expect(Math.abs(rossby / (C_A / (3 * eps) / 1000) - 1)).toBeLessThan(0.05);
     // East of the heating: easterlies flowing into it; west of it: westerlies.
@@ -131,7 +148,13 @@ describe("Gill's (1980) atmosphere, symmetric heating patch", () => {
       const [a, b, c] = [best - 1, best, best + 1].map((j) => fields.p[grid.idx(i, j)]);
       const shift = (0.5 * (a - c)) / (a - 2 * b + c);
       const y = (grid.yCentre[best] + shift * grid.dy) / LA;
-      record(`Gill atmosphere: Rossby cyclone centre, ${hemisphere > 0 ? 'north' : 'south'} (units of L_a)`, Math.abs(y), Math.sqrt(1.5), 'L_a', { source: `${SOURCE}: (2y^2 + 1) exp(-y^2/2) peaks at sqrt(3/2)`, tolerance: '5 %' });
+      record(
+        `Gill atmosphere: Rossby cyclone centre, ${hemisphere > 0 ? 'north' : 'south'} (units of L_a)`,
+        Math.abs(y),
+        Math.sqrt(1.5),
+        'L_a',
+        { source: `${SOURCE}: (2y^2 + 1) exp(-y^2/2) peaks at sqrt(3/2)`, tolerance: '5 %' },
+      );
       expect(Math.abs(Math.abs(y) / Math.sqrt(1.5) - 1)).toBeLessThan(0.05);
       expect(b).toBeLessThan(0); // low pressure: cyclones
     }
@@ -156,7 +179,12 @@ describe('the long-wave mode algebra for any heating (derived from the equations
     // differences on a fine grid, with Q the heating as projected (what the solver answers).
     const grid = new Grid(basin(100, 220, -40, 40, 0.25), EARTH.radius);
     const K = 8;
-    const atm = new GillAtmosphere(grid, { speed: C_A, damping: 1 / (DAMPING_DAYS * 86400), heatingModes: K, beta: BETA });
+    const atm = new GillAtmosphere(grid, {
+      speed: C_A,
+      damping: 1 / (DAMPING_DAYS * 86400),
+      heatingModes: K,
+      beta: BETA,
+    });
     const mPerDeg = grid.dx / grid.dLon;
     const heating = grid.field();
     const y0 = 0.6;

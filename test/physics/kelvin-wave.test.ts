@@ -12,7 +12,10 @@ import { basin, config, DAY, linearFit, peak, record, row } from '../support/phy
 const RES = 0.25;
 const b = basin(140, 270, -15.125, 15.125, RES);
 
-function track(physics: { reducedGravity: number; layerThickness: number; mode?: 'linear' | 'nonlinear' }, amplitude = 10) {
+function track(
+  physics: { reducedGravity: number; layerThickness: number; mode?: 'linear' | 'nonlinear' },
+  amplitude = 10,
+) {
   const m = new Model(config(b, { ...physics, mode: physics.mode ?? 'linear' }), {
     initial: { kind: 'kelvin', lon: 160, amplitude, zonalWidthDeg: 5 },
   });
@@ -52,9 +55,18 @@ describe('free equatorial Kelvin wave (linear mode, 0.25 degree grid)', () => {
       const z = at(30);
       const degToM = m.grid.dx / m.grid.dLon;
       const speed = ((z.lon - a.lon) * degToM) / ((z.day - a.day) * DAY);
-      record(`Kelvin speed, g'=${gp}, H=${H}`, speed, c, 'm/s', { source: 'Matsuno 1966; Gill 1982 ch. 11: c = sqrt(g\' H)', tolerance: '2 %' });
-      record(`Kelvin meridional scale, g'=${gp}, H=${H}`, z.fitL / 1000, L / 1000, 'km', { source: 'L = sqrt(c / beta); AMS Glossary', tolerance: '5 %' });
-      record(`Kelvin amplitude after 30 days, g'=${gp}, H=${H}`, z.amp, 10, 'm', { source: 'nondispersive; exact on the C grid (Ng & Hsieh 1994)', tolerance: '5 %' });
+      record(`Kelvin speed, g'=${gp}, H=${H}`, speed, c, 'm/s', {
+        source: "Matsuno 1966; Gill 1982 ch. 11: c = sqrt(g' H)",
+        tolerance: '2 %',
+      });
+      record(`Kelvin meridional scale, g'=${gp}, H=${H}`, z.fitL / 1000, L / 1000, 'km', {
+        source: 'L = sqrt(c / beta); AMS Glossary',
+        tolerance: '5 %',
+      });
+      record(`Kelvin amplitude after 30 days, g'=${gp}, H=${H}`, z.amp, 10, 'm', {
+        source: 'nondispersive; exact on the C grid (Ng & Hsieh 1994)',
+        tolerance: '5 %',
+      });
       expect(Math.abs(speed / c - 1)).toBeLessThan(0.02);
       expect(Math.abs(z.fitL / L - 1)).toBeLessThan(0.05);
       expect(Math.abs(z.amp / 10 - 1)).toBeLessThan(0.05);
@@ -71,7 +83,10 @@ describe('free equatorial Kelvin wave (linear mode, 0.25 degree grid)', () => {
     const a = at(5);
     const z = at(25);
     const speed = ((z.lon - a.lon) * (m.grid.dx / m.grid.dLon)) / ((z.day - a.day) * DAY);
-    record('Kelvin speed, nonlinear mode, 1 m amplitude', speed, c, 'm/s', { source: 'Matsuno 1966; Gill 1982 (finite amplitude speeds it up slightly)', tolerance: '2 %' });
+    record('Kelvin speed, nonlinear mode, 1 m amplitude', speed, c, 'm/s', {
+      source: 'Matsuno 1966; Gill 1982 (finite amplitude speeds it up slightly)',
+      tolerance: '2 %',
+    });
     expect(Math.abs(speed / c - 1)).toBeLessThan(0.02);
     expect(Math.abs(z.amp - 1)).toBeLessThan(0.05);
   });

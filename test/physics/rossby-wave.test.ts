@@ -43,7 +43,10 @@ describe('long first-mode Rossby wave (linear mode, 0.5 degree grid)', () => {
     m.advance(m.stepsUntil(70 * DAY));
     const [d1, x1] = [m.day, centroid()];
     const speed = ((x0 - x1) * (g.dx / g.dLon)) / ((d1 - d0) * DAY);
-    record('long Rossby n=1 westward speed', speed, c / 3, 'm/s', { source: 'Matsuno 1966; Gill 1982 ch. 11: c/3', tolerance: '5 %' });
+    record('long Rossby n=1 westward speed', speed, c / 3, 'm/s', {
+      source: 'Matsuno 1966; Gill 1982 ch. 11: c/3',
+      tolerance: '5 %',
+    });
     expect(Math.abs(speed / (c / 3) - 1)).toBeLessThan(0.05);
   });
 });

@@ -44,9 +44,12 @@ function spinUp(width: number, res: number, gp: number, H: number, years: number
 describe('steady tilt under uniform trades (linear mode, closed basin, r = 1/year)', () => {
   const run = spinUp(60, 0.5, 0.03, 150, 4);
 
-  it('equatorial slope of h\' is taux / (rho0 g\' H) within 5 %', () => {
+  it("equatorial slope of h' is taux / (rho0 g' H) within 5 %", () => {
     const theory = TAU / (1025 * 0.03 * 150);
-    record('equatorial thermocline slope, 60 deg basin, 4 years', run.slope, theory, 'm/m', { source: 'g\'H dh/dx = taux/rho0 (McPhaden & Taft 1988 quoting Sverdrup 1947)', tolerance: '5 %' });
+    record('equatorial thermocline slope, 60 deg basin, 4 years', run.slope, theory, 'm/m', {
+      source: "g'H dh/dx = taux/rho0 (McPhaden & Taft 1988 quoting Sverdrup 1947)",
+      tolerance: '5 %',
+    });
     expect(Math.abs(run.slope / theory - 1)).toBeLessThan(0.05);
     // Deeper thermocline in the west (h' positive down): the slope is negative west to east.
     expect(run.slope).toBeLessThan(0);
@@ -58,8 +61,14 @@ describe('steady tilt under uniform trades (linear mode, closed basin, r = 1/yea
     const uSurf = row(m.field('u_surf'), m.grid, j0)[mid];
     const uBelow = row(m.field('u_below'), m.grid, j0)[mid];
     const uMean = row(m.field('u'), m.grid, j0)[mid];
-    record('surface u on the equator under easterlies', uSurf, NaN, 'm/s', { source: 'design of the surface layer (westward surface flow under easterlies)', tolerance: '< -0.05 m/s' });
-    record('u beneath the surface layer on the equator', uBelow, NaN, 'm/s', { source: 'design of the surface layer (eastward flow beneath)', tolerance: '> 0.02 m/s' });
+    record('surface u on the equator under easterlies', uSurf, NaN, 'm/s', {
+      source: 'design of the surface layer (westward surface flow under easterlies)',
+      tolerance: '< -0.05 m/s',
+    });
+    record('u beneath the surface layer on the equator', uBelow, NaN, 'm/s', {
+      source: 'design of the surface layer (eastward flow beneath)',
+      tolerance: '> 0.02 m/s',
+    });
     expect(uSurf).toBeLessThan(-0.05);
     expect(uBelow).toBeGreaterThan(0.02);
     // The split leaves the layer mean as it was: H1 u_surf + (H - H1) u_below = H u.
@@ -72,7 +81,10 @@ describe('steady tilt under uniform trades (linear mode, closed basin, r = 1/yea
     const wide = spinUp(135, 1, 0.05, 150, 5);
     const rise = (-wide.slope * wide.widthMetres * wide.m.physics.reducedGravity) / wide.m.physics.gravity;
     const theory = (-TAU * wide.widthMetres) / (1025 * wide.m.physics.gravity * 150);
-    record('west-minus-east sea level, 15,000 km basin', rise, theory, 'm', { source: 'fact of the trade; 0.4-0.6 m observed (check-values §4)', tolerance: '0.4-0.6 m and 5 %' });
+    record('west-minus-east sea level, 15,000 km basin', rise, theory, 'm', {
+      source: 'fact of the trade; 0.4-0.6 m observed (check-values §4)',
+      tolerance: '0.4-0.6 m and 5 %',
+    });
     expect(rise).toBeGreaterThan(0.4);
     expect(rise).toBeLessThan(0.6);
     expect(Math.abs(rise / theory - 1)).toBeLessThan(0.05);

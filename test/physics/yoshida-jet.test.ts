@@ -24,7 +24,10 @@ describe('Yoshida jet under a uniform westerly stress', () => {
       m.advance(m.stepsUntil(day * DAY));
       const u = m.field('u')[j0 * m.grid.nx + iMid];
       const theory = (TAU * m.state.time) / (m.physics.density * m.physics.layerThickness);
-      record(`Yoshida jet u on the equator, day ${day}`, u, theory, 'm/s', { source: 'Yoshida 1959; Moore & Philander 1977: u = tau t / (rho0 H)', tolerance: '3 %' });
+      record(`Yoshida jet u on the equator, day ${day}`, u, theory, 'm/s', {
+        source: 'Yoshida 1959; Moore & Philander 1977: u = tau t / (rho0 H)',
+        tolerance: '3 %',
+      });
       expect(Math.abs(u / theory - 1)).toBeLessThan(0.03);
     }
   });
@@ -48,11 +51,14 @@ describe('Yoshida jet under a uniform westerly stress', () => {
     }
     const vMean = sum / n;
     const theory = -TAU / (m.physics.density * m.physics.layerThickness * f);
-    record('Ekman drift at 12N (mean v)', vMean, theory, 'm/s', { source: 'v = -tau / (rho0 H f) (common practice)', tolerance: '5 %' });
+    record('Ekman drift at 12N (mean v)', vMean, theory, 'm/s', {
+      source: 'v = -tau / (rho0 H f) (common practice)',
+      tolerance: '5 %',
+    });
     expect(Math.abs(vMean / theory - 1)).toBeLessThan(0.05);
   });
 
-  it('without wind nothing moves (the jet is the wind\'s)', () => {
+  it("without wind nothing moves (the jet is the wind's)", () => {
     const m = new Model(config(b, { reducedGravity: 0.03, layerThickness: 150 }), { wind: calm });
     m.advance(50);
     expect(m.integrals().maxSpeed).toBe(0);

@@ -48,7 +48,9 @@ describe('run report', () => {
     const urls = [...html.matchAll(/data:image\/png;base64,([A-Za-z0-9+/=]+)/g)].map((m) => m[1]);
     // 4 maps, their colour bar, the Hovmoller image and its colour bar.
     expect(urls.length).toBe(7);
-    const sizes = urls.map((u) => decodePng(new Uint8Array(Buffer.from(u, 'base64')))).map((p) => `${p.width}x${p.height}`);
+    const sizes = urls
+      .map((u) => decodePng(new Uint8Array(Buffer.from(u, 'base64'))))
+      .map((p) => `${p.width}x${p.height}`);
     expect(sizes.filter((s) => s === '100x30')).toHaveLength(4);
     expect(sizes).toContain(`100x${run.days.length}`);
     expect(html.match(/<figure class="probe">/g)).toHaveLength(3);

@@ -20,9 +20,13 @@ const SETS = ['hovmoller.lat=[0,7]', 'time.days=4'];
 
 describe("the run's own beta", () => {
   it('is written to the file, read back, and sets the Rossby windows of the measurement', async () => {
-    const own = await runInMemory(FIXTURE_TEXT, FIXTURE, { sets: [...SETS, `physics.coriolis={"kind":"beta-plane","beta":${STRONG_BETA}}`] });
+    const own = await runInMemory(FIXTURE_TEXT, FIXTURE, {
+      sets: [...SETS, `physics.coriolis={"kind":"beta-plane","beta":${STRONG_BETA}}`],
+    });
     const earth = await runInMemory(FIXTURE_TEXT, FIXTURE, { sets: SETS });
-    expect(Array.from((own.file.attributes.pycno_physics_beta as { value: ArrayLike<number> }).value)).toEqual([STRONG_BETA]);
+    expect(Array.from((own.file.attributes.pycno_physics_beta as { value: ArrayLike<number> }).value)).toEqual([
+      STRONG_BETA,
+    ]);
     const runOwn = readRun(own.bytes, 'own.nc');
     const runEarth = readRun(earth.bytes, 'earth.nc');
     expect(runOwn.physics.beta).toBe(STRONG_BETA);

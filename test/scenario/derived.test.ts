@@ -1,6 +1,12 @@
 import { describe, expect, test } from 'vitest';
 import { Grid } from '../../model/grid.ts';
-import { derivedNumbers, resolveScenario, stabilityLimit, validateScenario, type ResolvedScenario } from '../../model/scenario/index.ts';
+import {
+  derivedNumbers,
+  resolveScenario,
+  stabilityLimit,
+  validateScenario,
+  type ResolvedScenario,
+} from '../../model/scenario/index.ts';
 import { example } from '../support/scenario-example.ts';
 
 function resolved(edit: (j: any) => void = () => {}): ResolvedScenario {
@@ -20,7 +26,7 @@ function pacific(gPrime: number, H: number): ResolvedScenario {
   });
 }
 
-describe('derived numbers against check-values.md section 0 (D: derived from c = sqrt(g\'H), L = sqrt(c/beta), beta = 2 Omega / R)', () => {
+describe("derived numbers against check-values.md section 0 (D: derived from c = sqrt(g'H), L = sqrt(c/beta), beta = 2 Omega / R)", () => {
   test("c = sqrt(g'H)", () => {
     expect(derivedNumbers(pacific(0.03, 150)).c).toBeCloseTo(2.121, 3);
     expect(derivedNumbers(pacific(0.02, 150)).c).toBeCloseTo(1.732, 3);
@@ -112,7 +118,9 @@ describe('stabilityLimit', () => {
     const cEff = c * Math.sqrt(1.5) + 2;
     expect(s.dtMax).toBeCloseTo(0.72 / (2 * cEff * (Math.SQRT2 / d)), 9);
     // Well below the linear limit for the same grid.
-    expect(s.dtMax).toBeLessThan(0.4 * stabilityLimit({ c, dx: d, dy: d, fMax: 0, viscosity: 0, mode: 'linear' }).dtMax);
+    expect(s.dtMax).toBeLessThan(
+      0.4 * stabilityLimit({ c, dx: d, dy: d, fMax: 0, viscosity: 0, mode: 'linear' }).dtMax,
+    );
   });
 
   test('the scenario limit uses f at the farthest wall: beta y at 20 degrees', () => {

@@ -73,31 +73,39 @@ describe('--set overrides', () => {
     expect(errors).toHaveLength(1);
     expect(errors[0].path).toBe('physics.reducedGravty');
     expect(errors[0].message).toBe(
-      '--set "physics.reducedGravty=0.05": unknown key \'reducedGravty\' in physics; did you mean \'reducedGravity\'? ' +
+      "--set \"physics.reducedGravty=0.05\": unknown key 'reducedGravty' in physics; did you mean 'reducedGravity'? " +
         '(keys: reducedGravity, layerThickness, density, coriolis, dynamics, frictionDays, viscosity, slip, surfaceLayer, entrainment)',
     );
     expect(refused(['tme.days=3'])[0].message).toContain("unknown key 'tme' at the top level; did you mean 'time'");
     // A key that belongs to another kind of envelope than the one in the file.
-    expect(refused(['wind.parts[0].envelope.direction=up'])[0].message).toContain("unknown key 'direction' in wind.parts[0].envelope");
+    expect(refused(['wind.parts[0].envelope.direction=up'])[0].message).toContain(
+      "unknown key 'direction' in wind.parts[0].envelope",
+    );
   });
 
   test('indices out of range and keys below a plain value', () => {
     expect(refused(['wind.parts[3].enabled=false'])[0].message).toBe(
       '--set "wind.parts[3].enabled=false": wind.parts has 1 entry; index 3 is out of range (0..0)',
     );
-    expect(refused(['physics.reducedGravity.x=1'])[0].message).toContain('physics.reducedGravity holds a single value, so it has no key');
+    expect(refused(['physics.reducedGravity.x=1'])[0].message).toContain(
+      'physics.reducedGravity holds a single value, so it has no key',
+    );
     expect(refused(['__proto__.x=1'])[0].message).toContain("unknown key '__proto__' at the top level");
   });
 
   test('malformed --set texts', () => {
-    expect(refused(['physics.reducedGravity'])[0].message).toBe('--set "physics.reducedGravity": expected path=value, e.g. physics.reducedGravity=0.05');
+    expect(refused(['physics.reducedGravity'])[0].message).toBe(
+      '--set "physics.reducedGravity": expected path=value, e.g. physics.reducedGravity=0.05',
+    );
     expect(refused(['physics.reducedGravity='])[0].message).toContain('no value after =');
     expect(refused(['physics..reducedGravity=1'])[0].message).toContain('has an empty key');
     expect(refused(['wind.parts[x].enabled=1'])[0].message).toContain('bad path');
   });
 
   test('values that look like JSON but are not', () => {
-    expect(refused(['physics.reducedGravity=0.05.1'])[0].message).toMatch(/^--set "physics.reducedGravity=0.05.1": the value "0.05.1" is not valid JSON/);
+    expect(refused(['physics.reducedGravity=0.05.1'])[0].message).toMatch(
+      /^--set "physics.reducedGravity=0.05.1": the value "0.05.1" is not valid JSON/,
+    );
     expect(refused(['hovmoller.lat=[0, 2'])[0].message).toContain('is not valid JSON');
   });
 });

@@ -60,13 +60,31 @@ describe('resolveScenario gives SI units', () => {
     const j = example();
     j.basin.resolution = { lon: 1, lat: 0.5 };
     const r = resolveScenario(scenario(j));
-    expect(r.model.basin).toMatchObject({ lonWest: 140, lonEast: 260, latSouth: -20, latNorth: 20, dLon: 1, dLat: 0.5 });
+    expect(r.model.basin).toMatchObject({
+      lonWest: 140,
+      lonEast: 260,
+      latSouth: -20,
+      latNorth: 20,
+      dLon: 1,
+      dLat: 0.5,
+    });
     expect(r.model.basin.land).toEqual(j.basin.land);
     expect(r.probes).toEqual(j.probes);
     expect(r.hovmollerLats).toEqual([0, 5]);
     expect(r.seed).toBe(7);
     expect(r.wind.parts).toHaveLength(1);
-    expect(r.outputFields).toEqual(['h_anom', 'ssh', 'u', 'v', 'u_surf', 'v_surf', 'u_below', 'v_below', 'taux', 'tauy']);
+    expect(r.outputFields).toEqual([
+      'h_anom',
+      'ssh',
+      'u',
+      'v',
+      'u_surf',
+      'v_surf',
+      'u_below',
+      'v_below',
+      'taux',
+      'tauy',
+    ]);
     expect(r.model.physics.earthRadius).toBe(6371008.7714);
     expect(DAY).toBe(86400);
   });

@@ -20,7 +20,8 @@ describe('the JSON Schema file', () => {
   test('every property has a description', () => {
     const missing: string[] = [];
     walk(scenarioSchema, '#', (node, at) => {
-      for (const [k, v] of Object.entries<any>(node.properties ?? {})) if (typeof v.description !== 'string' || v.description === '') missing.push(`${at}/properties/${k}`);
+      for (const [k, v] of Object.entries<any>(node.properties ?? {}))
+        if (typeof v.description !== 'string' || v.description === '') missing.push(`${at}/properties/${k}`);
     });
     expect(missing).toEqual([]);
   });
@@ -53,24 +54,126 @@ describe('the schema describes exactly the WindSpec shapes of model/forcing/spec
     bulk: { airDensity: 1.2, drag: 'constant', dragCoefficient: 1.3e-3 },
     updateHours: 3,
     parts: [
-      { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'uniform' }, x: -0.05, y: 0 }, envelope: { kind: 'constant' } },
+      {
+        kind: 'fixed',
+        quantity: 'stress',
+        source: { kind: 'shaped', shape: { kind: 'uniform' }, x: -0.05, y: 0 },
+        envelope: { kind: 'constant' },
+      },
       {
         kind: 'fixed',
         name: 'tilted patch',
         enabled: false,
         quantity: 'wind',
-        source: { kind: 'shaped', shape: { kind: 'patch', lon: 180, lat: 0, lonWidth: 10, latWidth: 5, tiltDeg: 20 }, x: 7, y: 1 },
+        source: {
+          kind: 'shaped',
+          shape: { kind: 'patch', lon: 180, lat: 0, lonWidth: 10, latWidth: 5, tiltDeg: 20 },
+          x: 7,
+          y: 1,
+        },
         envelope: { kind: 'ramp', start: 5, duration: 10, direction: 'down' },
       },
-      { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'band', profile: { kind: 'cosine', centre: 0, halfWidth: 10 } }, x: -0.04, y: 0 }, envelope: { kind: 'pulse', start: 0, duration: 20, ramp: 5 } },
-      { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'band', profile: { kind: 'tanh', south: -5, north: 5, edge: 1 } }, x: 0, y: 0.01 }, envelope: { kind: 'harmonics', mean: 1, terms: [{ period: 365, amplitude: 0.5, peakDay: 90 }] } },
-      { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'band', profile: { kind: 'gap', centre: 5, width: 2, depth: 0.8 } }, x: -0.05, y: 0 }, envelope: { kind: 'table', points: [[0, 0], [10, 1], [30, 0.5]] } },
-      { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'band', profile: { kind: 'trades', edgeLat: 15 } }, x: -0.05, y: 0 }, envelope: { kind: 'switch-off', day: 30, ramp: 2 } },
-      { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'formula', expression: 'exp(-(lat/5)^2) * cos(2*pi*t/30)' }, x: 0.02, y: 0 }, envelope: { kind: 'constant' } },
-      { kind: 'fixed', quantity: 'stress', source: { kind: 'painted', grid: { lon0: 140, lat0: -20, dLon: 60, dLat: 20, nLon: 3, nLat: 3, x: [0, 0, 0, 0.1, 0.1, 0.1, 0, 0, 0], y: [0, 0, 0, 0, 0, 0, 0, 0, 0] } }, envelope: { kind: 'constant' } },
-      { kind: 'fixed', quantity: 'wind', source: { kind: 'file', path: 'winds.nc', format: 'netcdf', xVariable: 'uwnd', yVariable: 'vwnd' }, envelope: { kind: 'constant' } },
-      { kind: 'fixed', quantity: 'wind', source: { kind: 'file', path: 'winds.csv', format: 'csv' }, envelope: { kind: 'constant' } },
-      { kind: 'bursts', name: 'bursts', quantity: 'wind', ratePerYear: 6, window: [0, 50], amplitude: [5, 12], lon: [150, 190], lat: [-3, 3], lonWidth: [5, 15], latWidth: [3, 6], duration: [4, 20], ramp: 1 },
+      {
+        kind: 'fixed',
+        quantity: 'stress',
+        source: {
+          kind: 'shaped',
+          shape: { kind: 'band', profile: { kind: 'cosine', centre: 0, halfWidth: 10 } },
+          x: -0.04,
+          y: 0,
+        },
+        envelope: { kind: 'pulse', start: 0, duration: 20, ramp: 5 },
+      },
+      {
+        kind: 'fixed',
+        quantity: 'stress',
+        source: {
+          kind: 'shaped',
+          shape: { kind: 'band', profile: { kind: 'tanh', south: -5, north: 5, edge: 1 } },
+          x: 0,
+          y: 0.01,
+        },
+        envelope: { kind: 'harmonics', mean: 1, terms: [{ period: 365, amplitude: 0.5, peakDay: 90 }] },
+      },
+      {
+        kind: 'fixed',
+        quantity: 'stress',
+        source: {
+          kind: 'shaped',
+          shape: { kind: 'band', profile: { kind: 'gap', centre: 5, width: 2, depth: 0.8 } },
+          x: -0.05,
+          y: 0,
+        },
+        envelope: {
+          kind: 'table',
+          points: [
+            [0, 0],
+            [10, 1],
+            [30, 0.5],
+          ],
+        },
+      },
+      {
+        kind: 'fixed',
+        quantity: 'stress',
+        source: { kind: 'shaped', shape: { kind: 'band', profile: { kind: 'trades', edgeLat: 15 } }, x: -0.05, y: 0 },
+        envelope: { kind: 'switch-off', day: 30, ramp: 2 },
+      },
+      {
+        kind: 'fixed',
+        quantity: 'stress',
+        source: {
+          kind: 'shaped',
+          shape: { kind: 'formula', expression: 'exp(-(lat/5)^2) * cos(2*pi*t/30)' },
+          x: 0.02,
+          y: 0,
+        },
+        envelope: { kind: 'constant' },
+      },
+      {
+        kind: 'fixed',
+        quantity: 'stress',
+        source: {
+          kind: 'painted',
+          grid: {
+            lon0: 140,
+            lat0: -20,
+            dLon: 60,
+            dLat: 20,
+            nLon: 3,
+            nLat: 3,
+            x: [0, 0, 0, 0.1, 0.1, 0.1, 0, 0, 0],
+            y: [0, 0, 0, 0, 0, 0, 0, 0, 0],
+          },
+        },
+        envelope: { kind: 'constant' },
+      },
+      {
+        kind: 'fixed',
+        quantity: 'wind',
+        source: { kind: 'file', path: 'winds.nc', format: 'netcdf', xVariable: 'uwnd', yVariable: 'vwnd' },
+        envelope: { kind: 'constant' },
+      },
+      {
+        kind: 'fixed',
+        quantity: 'wind',
+        source: { kind: 'file', path: 'winds.csv', format: 'csv' },
+        envelope: { kind: 'constant' },
+      },
+      {
+        kind: 'bursts',
+        name: 'bursts',
+        quantity: 'wind',
+        ratePerYear: 6,
+        window: [0, 50],
+        amplitude: [5, 12],
+        lon: [150, 190],
+        lat: [-3, 3],
+        lonWidth: [5, 15],
+        latWidth: [3, 6],
+        duration: [4, 20],
+        ramp: 1,
+      },
     ],
   };
 
@@ -115,7 +218,21 @@ describe('the schema describes exactly the WindSpec shapes of model/forcing/spec
     if (!r.ok) throw new Error(r.errors.map(formatIssue).join('\n'));
     expect(r.scenario).toEqual(filled);
     expect(Object.keys(filled).sort()).toEqual(
-      ['basin', 'description', 'format', 'hovmoller', 'initial', 'name', 'numerics', 'output', 'physics', 'probes', 'seed', 'time', 'wind'].sort(),
+      [
+        'basin',
+        'description',
+        'format',
+        'hovmoller',
+        'initial',
+        'name',
+        'numerics',
+        'output',
+        'physics',
+        'probes',
+        'seed',
+        'time',
+        'wind',
+      ].sort(),
     );
   });
 });

@@ -74,19 +74,25 @@ describe('mistakes in scenario files', () => {
   test('wrong type', () => {
     const j = example();
     j.time.days = '30';
-    expect(issueAt(issuesOf(j), 'time.days').message).toBe('must be a number (got string "30"); length of the run in days');
+    expect(issueAt(issuesOf(j), 'time.days').message).toBe(
+      'must be a number (got string "30"); length of the run in days',
+    );
   });
 
   test("negative reduced gravity names the range and the meaning of g'", () => {
     const j = example();
     j.physics.reducedGravity = -0.02;
-    expect(issueAt(issuesOf(j), 'physics.reducedGravity').message).toBe("must be > 0 (got -0.02); reduced gravity g' in m s-2, typical 0.02-0.06");
+    expect(issueAt(issuesOf(j), 'physics.reducedGravity').message).toBe(
+      "must be > 0 (got -0.02); reduced gravity g' in m s-2, typical 0.02-0.06",
+    );
   });
 
   test('zero layer thickness', () => {
     const j = example();
     j.physics.layerThickness = 0;
-    expect(issueAt(issuesOf(j), 'physics.layerThickness').message).toMatch(/^must be > 0 \(got 0\); resting thickness H of the upper layer in m/);
+    expect(issueAt(issuesOf(j), 'physics.layerThickness').message).toMatch(
+      /^must be > 0 \(got 0\); resting thickness H of the upper layer in m/,
+    );
   });
 
   test('value above the physical maximum', () => {
@@ -98,7 +104,9 @@ describe('mistakes in scenario files', () => {
   test('missing required field', () => {
     const j = example();
     delete j.basin.latNorth;
-    expect(issueAt(issuesOf(j), 'basin.latNorth').message).toBe('is required but missing; northern edge of the basin, degrees north (greater than latSouth)');
+    expect(issueAt(issuesOf(j), 'basin.latNorth').message).toBe(
+      'is required but missing; northern edge of the basin, degrees north (greater than latSouth)',
+    );
   });
 
   test('unknown format version names the supported one, and nothing else is reported', () => {
@@ -108,7 +116,9 @@ describe('mistakes in scenario files', () => {
     const issues = issuesOf(j);
     expect(issues).toHaveLength(1);
     expect(issues[0].path).toBe('format');
-    expect(issues[0].message).toBe('unknown format "pycno-scenario/2" (written for another version of the program); this program reads "pycno-scenario/1"');
+    expect(issues[0].message).toBe(
+      'unknown format "pycno-scenario/2" (written for another version of the program); this program reads "pycno-scenario/1"',
+    );
   });
 
   test('missing format', () => {
@@ -125,7 +135,9 @@ describe('mistakes in scenario files', () => {
   test('bad enum value, with a suggestion', () => {
     const j = example();
     j.physics.dynamics = 'nonlin';
-    expect(issueAt(issuesOf(j), 'physics.dynamics').message).toBe('must be one of "linear", "nonlinear" (got "nonlin"); did you mean \'nonlinear\'?');
+    expect(issueAt(issuesOf(j), 'physics.dynamics').message).toBe(
+      'must be one of "linear", "nonlinear" (got "nonlin"); did you mean \'nonlinear\'?',
+    );
   });
 
   test('unknown kind collapses the oneOf noise into one message naming the kinds', () => {
@@ -134,14 +146,18 @@ describe('mistakes in scenario files', () => {
     const issues = issuesOf(j);
     expect(issues).toHaveLength(1);
     expect(issues[0].path).toBe('initial.kind');
-    expect(issues[0].message).toBe("unknown kind \"bmp\"; allowed: 'rest', 'bump', 'kelvin', 'rossby', 'restart', 'spinup'; did you mean 'bump'?");
+    expect(issues[0].message).toBe(
+      "unknown kind \"bmp\"; allowed: 'rest', 'bump', 'kelvin', 'rossby', 'restart', 'spinup'; did you mean 'bump'?",
+    );
   });
 
   test('missing kind', () => {
     const j = example();
     j.wind.parts[0].envelope = { start: 0, duration: 10, ramp: 2 };
     const i = issueAt(issuesOf(j), 'wind.parts[0].envelope.kind');
-    expect(i.message).toBe("is missing; say which kind: one of 'constant', 'ramp', 'pulse', 'harmonics', 'table', 'switch-off'");
+    expect(i.message).toBe(
+      "is missing; say which kind: one of 'constant', 'ramp', 'pulse', 'harmonics', 'table', 'switch-off'",
+    );
   });
 
   test('an error deep inside the chosen branch of nested kinds', () => {
@@ -156,27 +172,44 @@ describe('mistakes in scenario files', () => {
   test('a value that is neither of the allowed forms', () => {
     const j = example();
     j.basin.resolution = '1';
-    expect(issueAt(issuesOf(j), 'basin.resolution').message).toMatch(/^must be a number, or an object \{lon, lat\} \(got string "1"\); cell size in degrees/);
+    expect(issueAt(issuesOf(j), 'basin.resolution').message).toMatch(
+      /^must be a number, or an object \{lon, lat\} \(got string "1"\); cell size in degrees/,
+    );
     const k = example();
     k.time.dtSeconds = 'fast';
-    expect(issueAt(issuesOf(k), 'time.dtSeconds').message).toMatch(/^must be a number, or the string "auto" \(got string "fast"\)/);
+    expect(issueAt(issuesOf(k), 'time.dtSeconds').message).toMatch(
+      /^must be a number, or the string "auto" \(got string "fast"\)/,
+    );
   });
 
   test('integer required', () => {
     const j = example();
-    j.wind.parts[0].source = { kind: 'painted', grid: { lon0: 140, lat0: -20, dLon: 10, dLat: 10, nLon: 2.5, nLat: 1, x: [0, 0], y: [0, 0] } };
-    expect(issueAt(issuesOf(j), 'wind.parts[0].source.grid.nLon').message).toMatch(/^must be a whole number \(got 2.5\)/);
+    j.wind.parts[0].source = {
+      kind: 'painted',
+      grid: { lon0: 140, lat0: -20, dLon: 10, dLat: 10, nLon: 2.5, nLat: 1, x: [0, 0], y: [0, 0] },
+    };
+    expect(issueAt(issuesOf(j), 'wind.parts[0].source.grid.nLon').message).toMatch(
+      /^must be a whole number \(got 2.5\)/,
+    );
   });
 
   test('a range with the wrong number of entries', () => {
     const j = example();
     j.wind.parts.push(burst({ window: [0, 10, 20] }));
-    expect(issueAt(issuesOf(j), 'wind.parts[1].window').message).toMatch(/^must be a list of exactly 2 numbers \(got 3\); first and last day a burst may start/);
+    expect(issueAt(issuesOf(j), 'wind.parts[1].window').message).toMatch(
+      /^must be a list of exactly 2 numbers \(got 3\); first and last day a burst may start/,
+    );
   });
 
   test('a polygon with too few corners', () => {
     const j = example();
-    j.basin.land.push({ kind: 'polygon', points: [[150, 0], [151, 1]] });
+    j.basin.land.push({
+      kind: 'polygon',
+      points: [
+        [150, 0],
+        [151, 1],
+      ],
+    });
     expect(issueAt(issuesOf(j), 'basin.land[1].points').message).toMatch(/^must have at least 3 entries \(got 2\)/);
   });
 
@@ -185,22 +218,28 @@ describe('mistakes in scenario files', () => {
     j.output = { fields: ['ssh', 'ssh', 'sst'] };
     const issues = issuesOf(j);
     expect(issueAt(issues, 'output.fields').message).toBe('lists "ssh" more than once');
-    expect(issueAt(issues, 'output.fields[2]').message).toContain("(got \"sst\"); did you mean 'ssh'?");
+    expect(issueAt(issues, 'output.fields[2]').message).toContain('(got "sst"); did you mean \'ssh\'?');
   });
 
   test('eastern edge west of the western edge', () => {
     const j = example();
     j.basin.lonEast = -80;
-    expect(issueAt(issuesOf(j), 'basin.lonEast').message).toMatch(/^must be east of lonWest \(lonWest = 140, lonEast = -80\); longitudes increase eastward/);
+    expect(issueAt(issuesOf(j), 'basin.lonEast').message).toMatch(
+      /^must be east of lonWest \(lonWest = 140, lonEast = -80\); longitudes increase eastward/,
+    );
   });
 
   test('resolution that does not divide the basin', () => {
     const j = example();
     j.basin.resolution = 0.7;
-    expect(issueAt(issuesOf(j), 'basin.resolution').message).toBe('the basin is 120 degrees wide, not a whole number of 0.7-degree cells (171.43); 0.5 or 1 would fit');
+    expect(issueAt(issuesOf(j), 'basin.resolution').message).toBe(
+      'the basin is 120 degrees wide, not a whole number of 0.7-degree cells (171.43); 0.5 or 1 would fit',
+    );
     const k = example();
     k.basin.resolution = { lon: 1, lat: 3 };
-    expect(issueAt(issuesOf(k), 'basin.resolution.lat').message).toMatch(/^the basin is 40 degrees tall, not a whole number of 3-degree cells/);
+    expect(issueAt(issuesOf(k), 'basin.resolution.lat').message).toMatch(
+      /^the basin is 40 degrees tall, not a whole number of 3-degree cells/,
+    );
   });
 
   test('too many cells', () => {
@@ -212,7 +251,9 @@ describe('mistakes in scenario files', () => {
   test('sponge bands wider than the basin', () => {
     const j = example();
     j.basin.sponge.widthDeg = 25;
-    expect(issueAt(issuesOf(j), 'basin.sponge.widthDeg').message).toBe('two sponge bands of 25 degrees do not fit in a basin 40 degrees tall; use less than 20');
+    expect(issueAt(issuesOf(j), 'basin.sponge.widthDeg').message).toBe(
+      'two sponge bands of 25 degrees do not fit in a basin 40 degrees tall; use less than 20',
+    );
   });
 
   test('sponge band narrower than one cell', () => {
@@ -224,10 +265,21 @@ describe('mistakes in scenario files', () => {
   test('land outside the basin', () => {
     const j = example();
     j.basin.land[0].lonWest = 130;
-    expect(issueAt(issuesOf(j), 'basin.land[0]').message).toBe('the rectangle 130..145 E, 10..20 N reaches outside the basin (140..260 E, -20..20 N)');
+    expect(issueAt(issuesOf(j), 'basin.land[0]').message).toBe(
+      'the rectangle 130..145 E, 10..20 N reaches outside the basin (140..260 E, -20..20 N)',
+    );
     const k = example();
-    k.basin.land.push({ kind: 'polygon', points: [[200, 0], [210, 0], [205, 25]] });
-    expect(issueAt(issuesOf(k), 'basin.land[1].points[2]').message).toBe('the corner [205, 25] lies outside the basin (140..260 E, -20..20 N)');
+    k.basin.land.push({
+      kind: 'polygon',
+      points: [
+        [200, 0],
+        [210, 0],
+        [205, 25],
+      ],
+    });
+    expect(issueAt(issuesOf(k), 'basin.land[1].points[2]').message).toBe(
+      'the corner [205, 25] lies outside the basin (140..260 E, -20..20 N)',
+    );
   });
 
   test('land that covers the whole basin', () => {
@@ -245,28 +297,45 @@ describe('mistakes in scenario files', () => {
       { name: 'coast', lon: 200, lat: 0 },
     ];
     const issues = issuesOf(j);
-    expect(issueAt(issues, 'probes[0]').message).toBe('(142.5, 15) lies on land (basin.land[0]); move it into the ocean');
+    expect(issueAt(issues, 'probes[0]').message).toBe(
+      '(142.5, 15) lies on land (basin.land[0]); move it into the ocean',
+    );
     expect(issueAt(issues, 'probes[1]').message).toBe('(300, 0) lies outside the basin (140..260 E, -20..20 N)');
-    expect(issueAt(issues, 'probes[2].name').message).toBe('"coast" is already the name of probes[0]; names must be unique');
+    expect(issueAt(issues, 'probes[2].name').message).toBe(
+      '"coast" is already the name of probes[0]; names must be unique',
+    );
   });
 
   test('burst ranges reversed', () => {
     const j = example();
     j.wind.parts.push(burst({ lon: [200, 160] }));
-    expect(issueAt(issuesOf(j), 'wind.parts[1].lon').message).toBe('the range [200, 160] is reversed; write [min, max] with min <= max');
+    expect(issueAt(issuesOf(j), 'wind.parts[1].lon').message).toBe(
+      'the range [200, 160] is reversed; write [min, max] with min <= max',
+    );
   });
 
   test('burst ramp longer than half the shortest burst, and a window after the run', () => {
     const j = example();
     j.wind.parts.push(burst({ ramp: 4, window: [80, 90] }));
     const issues = issuesOf(j);
-    expect(issueAt(issues, 'wind.parts[1].ramp').message).toBe('a ramp of 4 days is longer than half the shortest burst (5 days); use at most 2.5');
-    expect(issueAt(issues, 'wind.parts[1].window').message).toBe('no burst can start: the window opens on day 80, the run ends on day 60');
+    expect(issueAt(issues, 'wind.parts[1].ramp').message).toBe(
+      'a ramp of 4 days is longer than half the shortest burst (5 days); use at most 2.5',
+    );
+    expect(issueAt(issues, 'wind.parts[1].window').message).toBe(
+      'no burst can start: the window opens on day 80, the run ends on day 60',
+    );
   });
 
   test('table days not increasing', () => {
     const j = example();
-    j.wind.parts[0].envelope = { kind: 'table', points: [[0, 0], [20, 1], [10, 0.5]] };
+    j.wind.parts[0].envelope = {
+      kind: 'table',
+      points: [
+        [0, 0],
+        [20, 1],
+        [10, 0.5],
+      ],
+    };
     expect(issueAt(issuesOf(j), 'wind.parts[0].envelope.points[2]').message).toBe(
       'day 10 does not come after day 20 of the point before; the days of a table must increase',
     );
@@ -283,13 +352,17 @@ describe('mistakes in scenario files', () => {
   test('a stress that must have been meant as a wind speed', () => {
     const j = example();
     j.wind.parts[0].source.x = 8;
-    expect(issueAt(issuesOf(j), 'wind.parts[0].source.x').message).toContain('for a wind speed in m s-1 set quantity to "wind"');
+    expect(issueAt(issuesOf(j), 'wind.parts[0].source.x').message).toContain(
+      'for a wind speed in m s-1 set quantity to "wind"',
+    );
   });
 
   test('output interval longer than the run', () => {
     const j = example();
     j.time.outputEveryDays = 90;
-    expect(issueAt(issuesOf(j), 'time.outputEveryDays').message).toBe('must be at most the run length (60 days) (got 90); no frame would be saved');
+    expect(issueAt(issuesOf(j), 'time.outputEveryDays').message).toBe(
+      'must be at most the run length (60 days) (got 90); no frame would be saved',
+    );
   });
 
   test('time step above the stability limit gives the limit', () => {
@@ -321,7 +394,9 @@ describe('mistakes in scenario files', () => {
     j.time.dtSeconds = 3085.714285714286; // 21600 / 7 as JavaScript prints it
     expect(validateScenario(j).ok).toBe(true);
     j.time.dtSeconds = 3085.7142857; // 7 steps make 21599.9999999 s: not whole
-    expect(issueAt(issuesOf(j), 'time.dtSeconds').message).toMatch(/^3085\.7142857 s does not divide the output interval of 0\.25 days/);
+    expect(issueAt(issuesOf(j), 'time.dtSeconds').message).toMatch(
+      /^3085\.7142857 s does not divide the output interval of 0\.25 days/,
+    );
   });
 
   test('zero time step', () => {
@@ -333,7 +408,9 @@ describe('mistakes in scenario files', () => {
   test('surface layer deeper than the active layer', () => {
     const j = example();
     j.physics.surfaceLayer = { depth: 150 };
-    expect(issueAt(issuesOf(j), 'physics.surfaceLayer.depth').message).toBe('must be less than the layer thickness (150 m) (got 150)');
+    expect(issueAt(issuesOf(j), 'physics.surfaceLayer.depth').message).toBe(
+      'must be less than the layer thickness (150 m) (got 150)',
+    );
   });
 
   test('initial Kelvin wave without the equator, bump that empties the layer', () => {
@@ -344,10 +421,14 @@ describe('mistakes in scenario files', () => {
     j.hovmoller = { lat: [5] };
     j.basin.sponge.widthDeg = 2;
     j.initial = { kind: 'kelvin', lon: 180, amplitude: 10, zonalWidthDeg: 5 };
-    expect(issueAt(issuesOf(j), 'initial.kind').message).toBe('an equatorial Kelvin wave needs the equator inside the basin (latitudes 2..20)');
+    expect(issueAt(issuesOf(j), 'initial.kind').message).toBe(
+      'an equatorial Kelvin wave needs the equator inside the basin (latitudes 2..20)',
+    );
     const k = example();
     k.initial = { kind: 'bump', lon: 200, lat: 0, radiusDeg: 3, amplitude: -200 };
-    expect(issueAt(issuesOf(k), 'initial.amplitude').message).toBe('a thermocline rise of 200 m would empty the 150 m layer; use an amplitude above -150');
+    expect(issueAt(issuesOf(k), 'initial.amplitude').message).toBe(
+      'a thermocline rise of 200 m would empty the 150 m layer; use an amplitude above -150',
+    );
   });
 
   test('Hovmoller latitude outside the basin', () => {
@@ -358,8 +439,13 @@ describe('mistakes in scenario files', () => {
 
   test('painted grid with the wrong number of values', () => {
     const j = example();
-    j.wind.parts[0].source = { kind: 'painted', grid: { lon0: 140, lat0: -20, dLon: 10, dLat: 10, nLon: 3, nLat: 2, x: [0, 0, 0, 0, 0, 0], y: [0, 0] } };
-    expect(issueAt(issuesOf(j), 'wind.parts[0].source.grid.y').message).toBe('must hold nLat x nLon = 2 x 3 = 6 values (got 2)');
+    j.wind.parts[0].source = {
+      kind: 'painted',
+      grid: { lon0: 140, lat0: -20, dLon: 10, dLat: 10, nLon: 3, nLat: 2, x: [0, 0, 0, 0, 0, 0], y: [0, 0] },
+    };
+    expect(issueAt(issuesOf(j), 'wind.parts[0].source.grid.y').message).toBe(
+      'must hold nLat x nLon = 2 x 3 = 6 values (got 2)',
+    );
   });
 
   test('empty strings where a path or name is needed', () => {
@@ -380,7 +466,14 @@ describe('several mistakes at once', () => {
     j.extra = true; // unknown key
     const issues = issuesOf(j);
     expect(issues.map((i) => i.path).sort()).toEqual(
-      ['basin.sponge.widthDeg', 'extra', 'physics.reducedGravity', 'physics.slip', 'time.days', 'wind.parts[0].envelope.ramp'].sort(),
+      [
+        'basin.sponge.widthDeg',
+        'extra',
+        'physics.reducedGravity',
+        'physics.slip',
+        'time.days',
+        'wind.parts[0].envelope.ramp',
+      ].sort(),
     );
   });
 

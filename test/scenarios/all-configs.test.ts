@@ -11,7 +11,16 @@ import { CONFIGS, DAY } from '../support/shipped-scenarios.ts';
 const files = readdirSync(CONFIGS).filter((f) => f.endsWith('.json') && f !== 'scenario.schema.json');
 
 /** The scenarios this suite ships; each must be present (a missing one is a failure, not a skip). */
-const SHIPPED = ['kelvin-pulse.json', 'westerly-burst.json', 'trade-spinup.json', 'trade-relaxation.json', 'monsoon-reversal.json', 'counter-current.json', 'random-bursts.json', 'coupled-oscillation.json'];
+const SHIPPED = [
+  'kelvin-pulse.json',
+  'westerly-burst.json',
+  'trade-spinup.json',
+  'trade-relaxation.json',
+  'monsoon-reversal.json',
+  'counter-current.json',
+  'random-bursts.json',
+  'coupled-oscillation.json',
+];
 
 describe('configs/*.json', () => {
   it('holds the shipped scenarios', () => {
@@ -39,7 +48,9 @@ describe('configs/*.json', () => {
       // Crossing time = ocean width along the equator / c.
       expect(d.kelvinCrossingDays).toBeCloseTo((d.crossingWidthKm * 1000) / d.c / DAY, 9);
       expect(d.rossbyCrossingDays).toBeCloseTo(3 * d.kelvinCrossingDays, 9);
-      expect(d.crossingWidthKm).toBeLessThanOrEqual((r.model.basin.lonEast - r.model.basin.lonWest) * (d.dxKm / r.model.basin.dLon) + 1e-6);
+      expect(d.crossingWidthKm).toBeLessThanOrEqual(
+        (r.model.basin.lonEast - r.model.basin.lonWest) * (d.dxKm / r.model.basin.dLon) + 1e-6,
+      );
       // The step is the automatic one and within the stability limit.
       expect(d.dt).toBeGreaterThan(0);
       expect(d.dt).toBeLessThanOrEqual(d.stability.dtMax);

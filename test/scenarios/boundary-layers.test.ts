@@ -87,7 +87,17 @@ function runScenario(file: string, overrides: string[] = []): Measured {
   return runThrough(model, r.runSeconds, r.outputEverySeconds);
 }
 
-const SHIPPED = ['kelvin-pulse.json', 'westerly-burst.json', 'trade-spinup.json', 'trade-relaxation.json', 'monsoon-reversal.json', 'counter-current.json', 'random-bursts.json', 'example-minimal.json', 'coupled-oscillation.json'];
+const SHIPPED = [
+  'kelvin-pulse.json',
+  'westerly-burst.json',
+  'trade-spinup.json',
+  'trade-relaxation.json',
+  'monsoon-reversal.json',
+  'counter-current.json',
+  'random-bursts.json',
+  'example-minimal.json',
+  'coupled-oscillation.json',
+];
 
 describe('western boundary layers of the shipped scenarios', () => {
   for (const file of SHIPPED) {
@@ -97,8 +107,17 @@ describe('western boundary layers of the shipped scenarios', () => {
       expect(d.boundaryLayer.advice, file).toBeNull();
       expect(d.boundaryLayer.intervals).toBeGreaterThanOrEqual(1);
       const got = runScenario(file);
-      record(`${file}: grid-scale share of v within ${COAST_COLUMNS} cells of western coasts`, got.share, 0, '', { source: 'Munk 1950; Stommel 1948; resolved layer, Griffies 2004 (from memory)', tolerance: `< ${GRID_SCALE_BOUND}` });
-      record(`${file}: fastest layer-mean flow over the run (day ${got.fastestDay.toFixed(0)})`, got.fastest, NaN, 'm/s', { source: 'fastest ocean currents about 2 m/s (from memory)', tolerance: `< ${SPEED_BOUND} m/s` });
+      record(`${file}: grid-scale share of v within ${COAST_COLUMNS} cells of western coasts`, got.share, 0, '', {
+        source: 'Munk 1950; Stommel 1948; resolved layer, Griffies 2004 (from memory)',
+        tolerance: `< ${GRID_SCALE_BOUND}`,
+      });
+      record(
+        `${file}: fastest layer-mean flow over the run (day ${got.fastestDay.toFixed(0)})`,
+        got.fastest,
+        NaN,
+        'm/s',
+        { source: 'fastest ocean currents about 2 m/s (from memory)', tolerance: `< ${SPEED_BOUND} m/s` },
+      );
       expect(got.share).toBeLessThan(GRID_SCALE_BOUND);
       expect(got.fastest).toBeLessThan(SPEED_BOUND);
     });
@@ -110,7 +129,13 @@ describe('western boundary layers of the shipped scenarios', () => {
     expect(d.boundaryLayer.resolved).toBe(false);
     expect(d.boundaryLayer.advice).toMatch(/raise physics\.viscosity to at least 4000 m2\/s/);
     const got = runScenario('westerly-burst.json', ['physics.viscosity=0']);
-    record('westerly-burst.json without viscosity: grid-scale share of v at western coasts (control)', got.share, NaN, '', { source: 'the same measure on an unresolved layer', tolerance: `> ${GRID_SCALE_BOUND}` });
+    record(
+      'westerly-burst.json without viscosity: grid-scale share of v at western coasts (control)',
+      got.share,
+      NaN,
+      '',
+      { source: 'the same measure on an unresolved layer', tolerance: `> ${GRID_SCALE_BOUND}` },
+    );
     expect(got.share).toBeGreaterThan(GRID_SCALE_BOUND);
   });
 });

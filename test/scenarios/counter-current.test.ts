@@ -34,7 +34,12 @@ describe('counter current scenario', () => {
     const { model: m, r } = build('counter-current.json');
     m.advance(m.stepsUntil(r.runSeconds));
     const part = r.wind.parts[0];
-    if (part.kind !== 'fixed' || part.source.kind !== 'shaped' || part.source.shape.kind !== 'band' || part.source.shape.profile.kind !== 'gap') {
+    if (
+      part.kind !== 'fixed' ||
+      part.source.kind !== 'shaped' ||
+      part.source.shape.kind !== 'band' ||
+      part.source.shape.profile.kind !== 'gap'
+    ) {
       throw new Error('counter-current.json should hold trades with a gap profile');
     }
     const gap = part.source.shape.profile;
@@ -47,7 +52,10 @@ describe('counter current scenario', () => {
     const inBand = uAt(gap.centre);
     const south = uAt(gap.centre - 2 * gap.width);
     const north = uAt(gap.centre + 2 * gap.width);
-    record('counter current: u in the weak-wind band at 60-80E', inBand, NaN, 'm/s', { source: 'NECC 0.1-0.6 m/s observed (AMS Glossary), order of magnitude', tolerance: '0.05-1.5 m/s' });
+    record('counter current: u in the weak-wind band at 60-80E', inBand, NaN, 'm/s', {
+      source: 'NECC 0.1-0.6 m/s observed (AMS Glossary), order of magnitude',
+      tolerance: '0.05-1.5 m/s',
+    });
     expect(inBand).toBeGreaterThan(0.05);
     expect(south).toBeLessThan(-0.02);
     expect(north).toBeLessThan(-0.02);
@@ -62,10 +70,14 @@ describe('counter current scenario', () => {
     const lo = gap.centre - 4 * gap.width;
     const hi = gap.centre + 4 * gap.width;
     // The eastward maximum sits where d(curl)/dy is largest (within 1 degree).
-    const inRange = (p: Array<[number, number]>) => p.filter(([y]) => y > gap.centre - 2 * gap.width && y < gap.centre + 2 * gap.width);
+    const inRange = (p: Array<[number, number]>) =>
+      p.filter(([y]) => y > gap.centre - 2 * gap.width && y < gap.centre + 2 * gap.width);
     const uMax = inRange(u).reduce((a, b) => (b[1] > a[1] ? b : a));
     const dMax = inRange(dcurl).reduce((a, b) => (b[1] > a[1] ? b : a));
-    record('counter current: latitude of the eastward maximum (deg N)', uMax[0], dMax[0], 'deg', { source: 'Sverdrup balance: where d(curl)/dy peaks (Sverdrup 1947)', tolerance: '1 degree' });
+    record('counter current: latitude of the eastward maximum (deg N)', uMax[0], dMax[0], 'deg', {
+      source: 'Sverdrup balance: where d(curl)/dy peaks (Sverdrup 1947)',
+      tolerance: '1 degree',
+    });
     expect(Math.abs(uMax[0] - dMax[0])).toBeLessThanOrEqual(1);
     // The current changes sign where d(curl)/dy does, on both edges of the band (within 1 degree).
     const uEdges = signChanges(u, gap.centre - 1.6 * gap.width, gap.centre + 1.6 * gap.width);
@@ -73,7 +85,10 @@ describe('counter current scenario', () => {
     expect(dEdges.length).toBe(2);
     expect(uEdges.length).toBe(2);
     for (let k = 0; k < 2; k++) {
-      record(`counter current: edge ${k} of the eastward flow (deg N)`, uEdges[k], dEdges[k], 'deg', { source: 'Sverdrup balance: where d(curl)/dy changes sign', tolerance: '1 degree' });
+      record(`counter current: edge ${k} of the eastward flow (deg N)`, uEdges[k], dEdges[k], 'deg', {
+        source: 'Sverdrup balance: where d(curl)/dy changes sign',
+        tolerance: '1 degree',
+      });
       expect(Math.abs(uEdges[k] - dEdges[k])).toBeLessThanOrEqual(1);
     }
 

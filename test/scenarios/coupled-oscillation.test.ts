@@ -30,9 +30,21 @@ describe('coupled-oscillation.json', () => {
     const mode = coupledMode(days, east, warm);
     expect(mode).not.toBeNull();
     const { fit, warmWaterLead } = mode!;
-    record('coupled-oscillation.json: period of the coupled mode (eastern SST)', fit.periodDays, NaN, 'days', { source: "this demo's own numbers (weakly damped by design)", tolerance: '1.5-4 years' });
-    record('coupled-oscillation.json: growth rate of the coupled mode', fit.growthPerYear, NaN, 'per year', { source: "this demo's own numbers (weakly damped by design)", tolerance: '-0.3 to 0 per year' });
-    record('coupled-oscillation.json: lead of the warm-water volume over the eastern SST (share of a period)', warmWaterLead, 0.25, '', { source: 'recharge oscillator, Jin 1997 (about a quarter period, from memory)', tolerance: '1/8 to 3/8' });
+    record('coupled-oscillation.json: period of the coupled mode (eastern SST)', fit.periodDays, NaN, 'days', {
+      source: "this demo's own numbers (weakly damped by design)",
+      tolerance: '1.5-4 years',
+    });
+    record('coupled-oscillation.json: growth rate of the coupled mode', fit.growthPerYear, NaN, 'per year', {
+      source: "this demo's own numbers (weakly damped by design)",
+      tolerance: '-0.3 to 0 per year',
+    });
+    record(
+      'coupled-oscillation.json: lead of the warm-water volume over the eastern SST (share of a period)',
+      warmWaterLead,
+      0.25,
+      '',
+      { source: 'recharge oscillator, Jin 1997 (about a quarter period, from memory)', tolerance: '1/8 to 3/8' },
+    );
     expect(fit.halfCycles).toBeGreaterThanOrEqual(4);
     expect(fit.periodDays).toBeGreaterThan(1.5 * 365.25);
     expect(fit.periodDays).toBeLessThan(4 * 365.25);
@@ -41,7 +53,12 @@ describe('coupled-oscillation.json', () => {
     expect(warmWaterLead).toBeGreaterThan(1 / 8);
     expect(warmWaterLead).toBeLessThan(3 / 8);
     // The burst started it: a warm event in the east within the first half year.
-    const firstPeak = Math.max(...east.slice(0, days.findIndex((d) => d > 180)));
+    const firstPeak = Math.max(
+      ...east.slice(
+        0,
+        days.findIndex((d) => d > 180),
+      ),
+    );
     expect(firstPeak).toBeGreaterThan(0.1);
   });
 });

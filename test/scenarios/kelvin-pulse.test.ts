@@ -6,7 +6,7 @@ import { record } from '../support/physics-kit.ts';
 import { at, build, DAY, metresPerDegree, peakIndex, runDaily } from '../support/shipped-scenarios.ts';
 
 describe('Kelvin pulse scenario', () => {
-  it('the packet peak reaches mid-basin and the east coast at distance / sqrt(g\'H), within 5 %', () => {
+  it("the packet peak reaches mid-basin and the east coast at distance / sqrt(g'H), within 5 %", () => {
     const { model: m, r } = build('kelvin-pulse.json', { overrides: ['time.days=80'] });
     const init = r.initial;
     if (init.kind !== 'kelvin') throw new Error('kelvin-pulse.json should start from a Kelvin wave');
@@ -23,8 +23,14 @@ describe('Kelvin pulse scenario', () => {
       const distance = (m.grid.lonCentre[cell.i] - init.lon) * metresPerDegree(m);
       const predicted = distance / c / DAY;
       const measured = peakIndex(series[name]);
-      record(`Kelvin pulse scenario: arrival at ${name} (days)`, measured, predicted, 'd', { source: 'Kelvin wave at c = sqrt(g\' H) (Matsuno 1966)', tolerance: '5 %' });
-      expect(Math.abs(measured / predicted - 1), `${name}: measured ${measured.toFixed(2)} d, predicted ${predicted.toFixed(2)} d`).toBeLessThan(0.05);
+      record(`Kelvin pulse scenario: arrival at ${name} (days)`, measured, predicted, 'd', {
+        source: "Kelvin wave at c = sqrt(g' H) (Matsuno 1966)",
+        tolerance: '5 %',
+      });
+      expect(
+        Math.abs(measured / predicted - 1),
+        `${name}: measured ${measured.toFixed(2)} d, predicted ${predicted.toFixed(2)} d`,
+      ).toBeLessThan(0.05);
       // A downwelling packet arrives as a downwelling peak of the right size (10 m released).
       expect(Math.max(...series[name])).toBeGreaterThan(0.8 * init.amplitude);
     }

@@ -50,7 +50,10 @@ describe('monsoon reversal scenario', () => {
       const seg = uEq.slice(a, b + 1);
       const jet = Math.max(...seg);
       const at = a + seg.indexOf(jet);
-      record(`monsoon reversal: eastward equatorial jet, days ${a}-${b}`, jet, NaN, 'm/s', { source: 'Wyrtki jets 0.7-0.8 m/s observed (Wyrtki 1973), order of magnitude', tolerance: '> 0.25 m/s' });
+      record(`monsoon reversal: eastward equatorial jet, days ${a}-${b}`, jet, NaN, 'm/s', {
+        source: 'Wyrtki jets 0.7-0.8 m/s observed (Wyrtki 1973), order of magnitude',
+        tolerance: '> 0.25 m/s',
+      });
       // Order-of-magnitude check against the observed 0.5-1 m/s (Wyrtki 1973; 0.7-0.8 m/s in altimetry, check-values §4).
       expect(jet, `jet in days ${a}-${b}`).toBeGreaterThan(0.25);
       expect(jet).toBeLessThan(2);

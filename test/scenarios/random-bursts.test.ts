@@ -77,8 +77,16 @@ describe('random bursts scenario', () => {
       const seg = a.probe.slice(from, to + 1);
       const top = Math.max(...seg);
       const when = from + seg.indexOf(top);
-      record(`random bursts: pulse of the burst on day ${burst.start.toFixed(1)} at the east probe (day)`, when, predicted, 'd');
-      expect(Math.abs(when - predicted), `burst of day ${burst.start.toFixed(1)}: peak on day ${when}, predicted ${predicted.toFixed(1)}`).toBeLessThan(0.2 * (burst.duration / 2 + travel));
+      record(
+        `random bursts: pulse of the burst on day ${burst.start.toFixed(1)} at the east probe (day)`,
+        when,
+        predicted,
+        'd',
+      );
+      expect(
+        Math.abs(when - predicted),
+        `burst of day ${burst.start.toFixed(1)}: peak on day ${when}, predicted ${predicted.toFixed(1)}`,
+      ).toBeLessThan(0.2 * (burst.duration / 2 + travel));
       // A real peak inside the window, clearly above the level before the pulse arrived.
       expect(when).toBeGreaterThan(from);
       expect(when).toBeLessThan(to);

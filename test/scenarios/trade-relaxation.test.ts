@@ -53,14 +53,24 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
     const slope = sxy / sxx / mPerDeg;
     const tauMean = tau.reduce((s, t) => s + t, 0) / tau.length;
     const expectedSlope = tauMean / (p.density * p.reducedGravity * p.layerThickness);
-    record('trade spin-up: equatorial thermocline slope (m per 1000 km)', slope * 1e6, expectedSlope * 1e6, 'm/1000 km', { source: 'g\'H dh/dx = taux/rho0 (McPhaden & Taft 1988 quoting Sverdrup 1947)', tolerance: '15 %' });
+    record(
+      'trade spin-up: equatorial thermocline slope (m per 1000 km)',
+      slope * 1e6,
+      expectedSlope * 1e6,
+      'm/1000 km',
+      { source: "g'H dh/dx = taux/rho0 (McPhaden & Taft 1988 quoting Sverdrup 1947)", tolerance: '15 %' },
+    );
     expect(Math.abs(slope / expectedSlope - 1), `slope ${slope} vs ${expectedSlope}`).toBeLessThan(0.15);
 
     // --- Relaxation and control from the spun-up state, the clock at zero.
     const rel = build('trade-relaxation.json', { startState: startOfNewRun(spin.state) });
-    const ctl = build('trade-relaxation.json', { startState: startOfNewRun(spin.state), overrides: ['wind.parts[1].enabled=false'] });
+    const ctl = build('trade-relaxation.json', {
+      startState: startOfNewRun(spin.state),
+      overrides: ['wind.parts[1].enabled=false'],
+    });
     const part = rel.r.wind.parts[1];
-    if (part.kind !== 'fixed' || part.envelope.kind !== 'table') throw new Error('the relaxation part should have a table envelope');
+    if (part.kind !== 'fixed' || part.envelope.kind !== 'table')
+      throw new Error('the relaxation part should have a table envelope');
     const table = part.envelope.points;
     const a = rel.model;
     const b = ctl.model;
@@ -114,8 +124,14 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
     const predicted = tOn + ((xCoast - xMedian) * mPerDeg) / c / DAY;
     const maxRise = Math.max(...coast);
     const measured = firstCrossing(coast, maxRise / 2);
-    record('trade relaxation: east-coast half-rise day', measured, predicted, 'd', { source: 'Kelvin time from the fetch (Matsuno 1966)', tolerance: '10 %' });
-    expect(Math.abs(measured / predicted - 1), `half-rise on day ${measured.toFixed(1)}, predicted ${predicted.toFixed(1)}`).toBeLessThan(0.1);
+    record('trade relaxation: east-coast half-rise day', measured, predicted, 'd', {
+      source: 'Kelvin time from the fetch (Matsuno 1966)',
+      tolerance: '10 %',
+    });
+    expect(
+      Math.abs(measured / predicted - 1),
+      `half-rise on day ${measured.toFixed(1)}, predicted ${predicted.toFixed(1)}`,
+    ).toBeLessThan(0.1);
     // Nothing reaches the coast before the signal from the east edge of the fetch could (edge = 5 % of the removed stress).
     const strong = 0.05 * Math.max(...relaxedFetch.v);
     let last = 0;
@@ -130,7 +146,10 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
     // tilt over the fetch, taux W_relaxed / (rho0 g' H), which is the size of the expected rise.
     const dxm = (relaxedFetch.lon[1] - relaxedFetch.lon[0]) * mPerDeg;
     const removedTilt = (total * dxm) / (p.density * p.reducedGravity * p.layerThickness);
-    record('trade relaxation: east-coast rise vs removed tilt (m)', maxRise, removedTilt, 'm', { source: 'tilt taux W / (rho0 g\' H) (Sverdrup 1947)', tolerance: 'factor 2' });
+    record('trade relaxation: east-coast rise vs removed tilt (m)', maxRise, removedTilt, 'm', {
+      source: "tilt taux W / (rho0 g' H) (Sverdrup 1947)",
+      tolerance: 'factor 2',
+    });
     expect(maxRise).toBeGreaterThan(0.5 * removedTilt);
     expect(maxRise).toBeLessThan(2 * removedTilt);
 
@@ -140,7 +159,8 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
     // modes (c/3, c/5, c/7) and is only approximately long, both of which make it slower.
     const tArrival = measured;
     const peaks = off.map((s) => peakIndex(s, Math.floor(tArrival)));
-    for (let k = 1; k < peaks.length; k++) expect(peaks[k], `peak at ${lons[k]}E after the one at ${lons[k - 1]}E`).toBeGreaterThan(peaks[k - 1]);
+    for (let k = 1; k < peaks.length; k++)
+      expect(peaks[k], `peak at ${lons[k]}E after the one at ${lons[k - 1]}E`).toBeGreaterThan(peaks[k - 1]);
     const xs = lons.map((l) => l * mPerDeg);
     const ts = peaks.map((t) => t * DAY);
     const mt = ts.reduce((s, t) => s + t, 0) / ts.length;
@@ -152,8 +172,14 @@ describe('trade relaxation scenario (after the trade spin-up)', () => {
       stt += (ts[k] - mt) ** 2;
     }
     const speed = sxt / stt; // m s-1, negative = westward
-    record('trade relaxation: reflected Rossby speed at 4N (m/s, westward)', -speed, c / 3, 'm/s', { source: 'long Rossby c/3 (Matsuno 1966)', tolerance: '30 %' });
+    record('trade relaxation: reflected Rossby speed at 4N (m/s, westward)', -speed, c / 3, 'm/s', {
+      source: 'long Rossby c/3 (Matsuno 1966)',
+      tolerance: '30 %',
+    });
     expect(speed).toBeLessThan(0);
-    expect(Math.abs(-speed / (c / 3) - 1), `reflected signal moves west at ${(-speed).toFixed(2)} m/s; c/3 = ${(c / 3).toFixed(2)}`).toBeLessThan(0.3);
+    expect(
+      Math.abs(-speed / (c / 3) - 1),
+      `reflected signal moves west at ${(-speed).toFixed(2)} m/s; c/3 = ${(c / 3).toFixed(2)}`,
+    ).toBeLessThan(0.3);
   });
 });

@@ -16,7 +16,12 @@ describe('westerly burst scenario', () => {
   it('the downwelling Kelvin wave peaks at the east coast and mid-basin at the predicted time (within 10 %)', () => {
     const { model: m, r } = build('westerly-burst.json', { overrides: ['time.days=110'] });
     const part = r.wind.parts[0];
-    if (part.kind !== 'fixed' || part.source.kind !== 'shaped' || part.source.shape.kind !== 'patch' || part.envelope.kind !== 'pulse') {
+    if (
+      part.kind !== 'fixed' ||
+      part.source.kind !== 'shaped' ||
+      part.source.shape.kind !== 'patch' ||
+      part.envelope.kind !== 'pulse'
+    ) {
       throw new Error('westerly-burst.json should hold one patch under a pulse');
     }
     const patch = part.source.shape;
@@ -38,8 +43,14 @@ describe('westerly burst scenario', () => {
       const cell = m.grid.cellAt(probes[k].lon, 0)!;
       const predicted = tCentre + ((m.grid.lonCentre[cell.i] - patch.lon) * metresPerDegree(m)) / c / DAY;
       const measured = peakIndex(series[k]);
-      record(`westerly burst scenario: Kelvin peak at ${n} (days)`, measured, predicted, 'd', { source: 'Kelvin wave at c = sqrt(g\' H) (Matsuno 1966)', tolerance: '10 %' });
-      expect(Math.abs(measured / predicted - 1), `${n}: measured ${measured.toFixed(2)} d, predicted ${predicted.toFixed(2)} d`).toBeLessThan(0.1);
+      record(`westerly burst scenario: Kelvin peak at ${n} (days)`, measured, predicted, 'd', {
+        source: "Kelvin wave at c = sqrt(g' H) (Matsuno 1966)",
+        tolerance: '10 %',
+      });
+      expect(
+        Math.abs(measured / predicted - 1),
+        `${n}: measured ${measured.toFixed(2)} d, predicted ${predicted.toFixed(2)} d`,
+      ).toBeLessThan(0.1);
       // Downwelling: the peak is a deepening of the thermocline, and the largest signal of either sign.
       const max = Math.max(...series[k]);
       expect(max).toBeGreaterThan(1);

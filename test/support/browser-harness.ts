@@ -15,7 +15,9 @@ export const CHROMIUM = '/usr/bin/chromium';
 export const ARTIFACTS = join(ROOT, 'test-artifacts', 'browser');
 
 export function chromiumMissing(): string | null {
-  return existsSync(CHROMIUM) ? null : `${CHROMIUM} is missing (apt-get install -y chromium); the browser tests need it`;
+  return existsSync(CHROMIUM)
+    ? null
+    : `${CHROMIUM} is missing (apt-get install -y chromium); the browser tests need it`;
 }
 
 /** A free port on 127.0.0.1 (the server still binds it with --strictPort). */
@@ -36,7 +38,12 @@ async function freePort(): Promise<number> {
  */
 export async function buildPage(): Promise<string> {
   const outDir = mkdtempSync(join(tmpdir(), 'pycno-page-'));
-  await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'warn', build: { outDir, emptyOutDir: true } });
+  await build({
+    root: join(ROOT, 'viewer'),
+    configFile: join(ROOT, 'vite.config.ts'),
+    logLevel: 'warn',
+    build: { outDir, emptyOutDir: true },
+  });
   return outDir;
 }
 
@@ -48,10 +55,14 @@ export interface Served {
 export async function servePage(outDir: string): Promise<Served> {
   const port = await freePort();
   // vite's own binary, not npx: killing npx would leave vite holding the port.
-  const child: ChildProcess = spawn(join(ROOT, 'node_modules/.bin/vite'), ['preview', '--outDir', outDir, '--host', '127.0.0.1', '--port', String(port), '--strictPort'], {
-    cwd: ROOT,
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
+  const child: ChildProcess = spawn(
+    join(ROOT, 'node_modules/.bin/vite'),
+    ['preview', '--outDir', outDir, '--host', '127.0.0.1', '--port', String(port), '--strictPort'],
+    {
+      cwd: ROOT,
+      stdio: ['ignore', 'pipe', 'pipe'],
+    },
+  );
   let log = '';
   child.stdout!.on('data', (d) => (log += d));
   child.stderr!.on('data', (d) => (log += d));
@@ -89,11 +100,22 @@ export async function launch(extraArgs: string[] = []): Promise<Browser> {
     executablePath: CHROMIUM,
     headless: true,
     // Explicit so that a change in playwright-core cannot switch software WebGL off.
-    args: ['--no-sandbox', '--enable-unsafe-swiftshader', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', ...extraArgs],
+    args: [
+      '--no-sandbox',
+      '--enable-unsafe-swiftshader',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      ...extraArgs,
+    ],
   });
 }
 
 /** Console noise that says nothing about the page (see shared browser-testing notes). */
 export function isNoise(text: string): boolean {
-  return /GPU stall due to ReadPixels|favicon\.ico|Automatic fallback to software WebGL|WebGL: INVALID|GroupMarkerNotSet/.test(text);
+  return /GPU stall due to ReadPixels|favicon\.ico|Automatic fallback to software WebGL|WebGL: INVALID|GroupMarkerNotSet/.test(
+    text,
+  );
 }

@@ -41,7 +41,9 @@ export function pycnoAsync(dir: string, args: string[]): { child: ChildProcess; 
   let stderr = '';
   child.stdout!.on('data', (b) => (stdout += b));
   child.stderr!.on('data', (b) => (stderr += b));
-  const done = new Promise<Ran>((resolve) => child.on('close', (code) => resolve({ code, stdout, stderr, ms: performance.now() - t0 })));
+  const done = new Promise<Ran>((resolve) =>
+    child.on('close', (code) => resolve({ code, stdout, stderr, ms: performance.now() - t0 })),
+  );
   return { child, done };
 }
 
@@ -55,7 +57,9 @@ export function refusedWith(r: Ran, line: RegExp): void {
 }
 
 export function noInternals(r: Ran): void {
-  expect(r.stderr).not.toMatch(/internal error| {4}at |TypeError|RangeError|is not a function|node:internal|\[object Object\]/);
+  expect(r.stderr).not.toMatch(
+    /internal error| {4}at |TypeError|RangeError|is not a function|node:internal|\[object Object\]/,
+  );
 }
 
 /** Files in the folder whose names start with `prefix` (the output, its .part-N and .lock). */
@@ -117,7 +121,9 @@ export function smallDisk(dir: string, kib: number): { path: string } | { skip: 
   mkdirSync(path);
   if (process.getuid?.() !== 0) return { skip: 'mounting a small tmpfs needs root' };
   const r = spawnSync('mount', ['-t', 'tmpfs', '-o', `size=${kib}k`, 'tmpfs', path], { encoding: 'utf8' });
-  return r.status === 0 ? { path } : { skip: `cannot mount a tmpfs here: ${(r.stderr || r.error?.message || '').trim()}` };
+  return r.status === 0
+    ? { path }
+    : { skip: `cannot mount a tmpfs here: ${(r.stderr || r.error?.message || '').trim()}` };
 }
 
 export function unmount(path: string): void {

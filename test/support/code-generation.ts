@@ -6,7 +6,8 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 
 /** eval(...), new Function(...), Function(...), Function.apply/call(...), setTimeout/setInterval with a string. */
-export const CODE_GENERATION = /\beval\s*\(|\bnew\s+Function\s*\(|(?<![\w$.])Function\s*(?:\.\s*(?:apply|call)\s*)?\(|\bset(?:Timeout|Interval)\s*\(\s*['"`]/g;
+export const CODE_GENERATION =
+  /\beval\s*\(|\bnew\s+Function\s*\(|(?<![\w$.])Function\s*(?:\.\s*(?:apply|call)\s*)?\(|\bset(?:Timeout|Interval)\s*\(\s*['"`]/g;
 
 export interface Hit {
   file: string;

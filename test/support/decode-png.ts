@@ -37,4 +37,3 @@ export function decodePng(png: Uint8Array): { width: number; height: number; rgb
   }
   return { width, height, rgb };
 }
-

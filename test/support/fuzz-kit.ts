@@ -47,8 +47,10 @@ export function judge(error: unknown): string | null {
   if (name === 'RunFileError' || error instanceof ForcingError) e.kind = 'input';
   if (e.kind !== 'input') return `${name} (not a clear input error): ${e.message.slice(0, 300)}`;
   if (e.message.trim() === '') return `${name} with an empty message`;
-  if (e.message.length > MAX_MESSAGE) return `${name} with a ${e.message.length}-character message: ${e.message.slice(0, 200)}...`;
-  if (/\[object Object\]|undefined is not|cannot read properties/i.test(e.message)) return `${name} with a message that leaks an internal failure: ${e.message.slice(0, 300)}`;
+  if (e.message.length > MAX_MESSAGE)
+    return `${name} with a ${e.message.length}-character message: ${e.message.slice(0, 200)}...`;
+  if (/\[object Object\]|undefined is not|cannot read properties/i.test(e.message))
+    return `${name} with a message that leaks an internal failure: ${e.message.slice(0, 300)}`;
   return null;
 }
 
@@ -98,11 +100,20 @@ export async function runCaseAsync(name: string, fn: () => Promise<void>): Promi
 
 export function printTally(name: string): void {
   const t = tally(name);
-  console.log(`fuzz ${name}: ${t.tried} inputs, ${t.accepted} accepted, ${t.refused} refused with a clear error, slowest ${t.slowestMs.toFixed(1)} ms`);
+  console.log(
+    `fuzz ${name}: ${t.tried} inputs, ${t.accepted} accepted, ${t.refused} refused with a clear error, slowest ${t.slowestMs.toFixed(1)} ms`,
+  );
 }
 
 /** fc.assert with a printed seed and a counterexample that prints in full. */
-export function check<T>(name: string, seed: number, runs: number, arb: fc.Arbitrary<T>, problem: (x: T) => string | null, show: (x: T) => string = (x) => JSON.stringify(x)?.slice(0, 2000) ?? String(x)): void {
+export function check<T>(
+  name: string,
+  seed: number,
+  runs: number,
+  arb: fc.Arbitrary<T>,
+  problem: (x: T) => string | null,
+  show: (x: T) => string = (x) => JSON.stringify(x)?.slice(0, 2000) ?? String(x),
+): void {
   fc.assert(
     fc.property(arb, (x) => {
       const p = problem(x);
@@ -127,7 +138,20 @@ export function hostileValue(): fc.Arbitrary<unknown> {
     fc.constantFrom(0, -0, 1e308, -1e308, 5e-324, 2 ** 53, -(2 ** 31), 1e21, 0.1, -1, 4294967296),
     fc.double({ noNaN: true, noDefaultInfinity: true }),
     fc.string({ maxLength: 20 }),
-    fc.constantFrom('', 'NaN', 'Infinity', '__proto__', 'constructor', 'toString', '\u0000', '\ud800', '1e999', 'auto', 'rest', 'linear'),
+    fc.constantFrom(
+      '',
+      'NaN',
+      'Infinity',
+      '__proto__',
+      'constructor',
+      'toString',
+      '\u0000',
+      '\ud800',
+      '1e999',
+      'auto',
+      'rest',
+      'linear',
+    ),
     fc.integer({ min: 1000, max: 200_000 }).map((n) => 'x'.repeat(n)),
     fc.array(fc.integer(), { maxLength: 5 }),
     fc.integer({ min: 1000, max: 100_000 }).map((n) => new Array(n).fill(0)),

@@ -21,7 +21,9 @@ export interface ImportEdge {
 const IMPORT = /(?:^|\n)\s*(import|export)\s(type\s)?[^'"]*?from\s+['"]([^'"]+)['"]/g;
 
 export function sources(dir: string): string[] {
-  return readdirSync(dir, { withFileTypes: true }).flatMap((e) => (e.isDirectory() ? sources(join(dir, e.name)) : e.name.endsWith('.ts') ? [join(dir, e.name)] : []));
+  return readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
+    e.isDirectory() ? sources(join(dir, e.name)) : e.name.endsWith('.ts') ? [join(dir, e.name)] : [],
+  );
 }
 
 /** Every source file of model/, worker/ and viewer/ with its imports. */

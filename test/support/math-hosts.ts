@@ -5,7 +5,18 @@
 import { launch } from './browser-harness.ts';
 
 const sample = () => {
-  const out: Record<string, number[]> = { sin: [], cos: [], tan: [], exp: [], log: [], pow: [], atan2: [], tanh: [], sqrt: [], hypot: [] };
+  const out: Record<string, number[]> = {
+    sin: [],
+    cos: [],
+    tan: [],
+    exp: [],
+    log: [],
+    pow: [],
+    atan2: [],
+    tanh: [],
+    sqrt: [],
+    hypot: [],
+  };
   let s = 12345;
   for (let k = 0; k < 20000; k++) {
     s = (s * 1103515245 + 12345) % 2147483648;
@@ -29,8 +40,11 @@ try {
   const page = await browser.newPage();
   const inPage = await page.evaluate(sample);
   const inNode = sample();
-  console.log(`Chromium ${browser.version()}, Node ${process.version} (V8 ${process.versions.v8}): differing results of 20000`);
-  for (const k of Object.keys(inNode)) console.log(`  ${k.padEnd(6)} ${inNode[k].filter((v, i) => !Object.is(v, inPage[k][i])).length}`);
+  console.log(
+    `Chromium ${browser.version()}, Node ${process.version} (V8 ${process.versions.v8}): differing results of 20000`,
+  );
+  for (const k of Object.keys(inNode))
+    console.log(`  ${k.padEnd(6)} ${inNode[k].filter((v, i) => !Object.is(v, inPage[k][i])).length}`);
 } finally {
   await browser.close();
 }

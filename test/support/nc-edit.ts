@@ -3,11 +3,21 @@
 // project's writer. Only the test-side tool; the readers under test never see this code.
 
 import { readNetcdf, type NcFile, type NcReadVariable } from '../../model/io/netcdf-read.ts';
-import { NC_CHAR, NC_TYPE_NAMES, type NcAttributeInput, type NcFileInput, type NcType, type NcTypeName } from '../../model/io/netcdf-format.ts';
+import {
+  NC_CHAR,
+  NC_TYPE_NAMES,
+  type NcAttributeInput,
+  type NcFileInput,
+  type NcType,
+  type NcTypeName,
+} from '../../model/io/netcdf-format.ts';
 import { writeNetcdfToMemory, type NcRecordInput } from '../../model/io/netcdf-writer.ts';
 import { sha256Hex } from '../../model/io/sha256.ts';
 
-const TYPE_CODE = Object.fromEntries(Object.entries(NC_TYPE_NAMES).map(([k, v]) => [v, Number(k) as NcType])) as Record<NcTypeName, NcType>;
+const TYPE_CODE = Object.fromEntries(Object.entries(NC_TYPE_NAMES).map(([k, v]) => [v, Number(k) as NcType])) as Record<
+  NcTypeName,
+  NcType
+>;
 
 export interface EditableVariable {
   name: string;
@@ -27,7 +37,8 @@ export interface EditableFile {
 
 function attributes(a: NcFile['attributes']): Record<string, NcAttributeInput> {
   const out: Record<string, NcAttributeInput> = {};
-  for (const [k, v] of Object.entries(a)) out[k] = typeof v.value === 'string' ? v.value : { type: TYPE_CODE[v.type], values: Array.from(v.value) };
+  for (const [k, v] of Object.entries(a))
+    out[k] = typeof v.value === 'string' ? v.value : { type: TYPE_CODE[v.type], values: Array.from(v.value) };
   return out;
 }
 
@@ -36,7 +47,13 @@ export function editable(bytes: Uint8Array): EditableFile {
   return {
     dimensions: f.dimensions.map((d) => ({ name: d.name, length: d.unlimited ? 'unlimited' : d.length })),
     attributes: attributes(f.attributes),
-    variables: f.variables.map((v: NcReadVariable) => ({ name: v.name, type: v.type, dimensions: [...v.dimensions], attributes: attributes(v.attributes), values: v.values })),
+    variables: f.variables.map((v: NcReadVariable) => ({
+      name: v.name,
+      type: v.type,
+      dimensions: [...v.dimensions],
+      attributes: attributes(v.attributes),
+      values: v.values,
+    })),
     numRecords: f.numRecords,
   };
 }
@@ -47,13 +64,26 @@ export async function written(e: EditableFile): Promise<Uint8Array> {
   const layout: NcFileInput = {
     dimensions: e.dimensions,
     attributes: e.attributes,
-    variables: e.variables.map((v) => ({ name: v.name, type: TYPE_CODE[v.type], dimensions: v.dimensions, attributes: v.attributes })),
+    variables: e.variables.map((v) => ({
+      name: v.name,
+      type: TYPE_CODE[v.type],
+      dimensions: v.dimensions,
+      attributes: v.attributes,
+    })),
   };
   const isInt = (t: NcTypeName) => t === 'byte' || t === 'short' || t === 'int';
   const prep = (v: EditableVariable, vals: Float64Array | string) => {
-    if (typeof vals === 'string') return TYPE_CODE[v.type] === NC_CHAR ? vals : Float64Array.from(new TextEncoder().encode(vals));
-    if (TYPE_CODE[v.type] === NC_CHAR) return Array.from(vals, (x) => String.fromCharCode(Math.max(32, Math.min(126, Math.round(x) || 32)))).join('');
-    return isInt(v.type) ? vals.map((x) => (Number.isFinite(x) ? Math.max(v.type === 'byte' ? -127 : -32767, Math.min(v.type === 'byte' ? 127 : 32767, Math.round(x))) : NaN)) : vals;
+    if (typeof vals === 'string')
+      return TYPE_CODE[v.type] === NC_CHAR ? vals : Float64Array.from(new TextEncoder().encode(vals));
+    if (TYPE_CODE[v.type] === NC_CHAR)
+      return Array.from(vals, (x) => String.fromCharCode(Math.max(32, Math.min(126, Math.round(x) || 32)))).join('');
+    return isInt(v.type)
+      ? vals.map((x) =>
+          Number.isFinite(x)
+            ? Math.max(v.type === 'byte' ? -127 : -32767, Math.min(v.type === 'byte' ? 127 : 32767, Math.round(x)))
+            : NaN,
+        )
+      : vals;
   };
   const isRecord = (v: EditableVariable) => record !== undefined && v.dimensions[0] === record;
   const fixed: Record<string, Float64Array | string> = {};
@@ -63,8 +93,12 @@ export async function written(e: EditableFile): Promise<Uint8Array> {
     const r: Record<string, Float64Array | string> = {};
     for (const v of e.variables) {
       if (!isRecord(v)) continue;
-      const per = typeof v.values === 'string' ? v.values.length / Math.max(1, e.numRecords) : v.values.length / Math.max(1, e.numRecords);
-      const part = typeof v.values === 'string' ? v.values.slice(n * per, (n + 1) * per) : v.values.slice(n * per, (n + 1) * per);
+      const per =
+        typeof v.values === 'string'
+          ? v.values.length / Math.max(1, e.numRecords)
+          : v.values.length / Math.max(1, e.numRecords);
+      const part =
+        typeof v.values === 'string' ? v.values.slice(n * per, (n + 1) * per) : v.values.slice(n * per, (n + 1) * per);
       r[v.name] = prep(v, part) as Float64Array | string;
     }
     records.push(r);

@@ -52,10 +52,14 @@ const pythonCache = new Map<string, string | null>();
 /** null when Debian's python3 can import the module. */
 function missingPython(module: string, pkg: string): () => string | null {
   return () => {
-    if (!existsSync(PYTHON)) return `${PYTHON} is not installed (Debian packages python3 and ${pkg}: apt-get install ${pkg})`;
+    if (!existsSync(PYTHON))
+      return `${PYTHON} is not installed (Debian packages python3 and ${pkg}: apt-get install ${pkg})`;
     if (!pythonCache.has(module)) {
       const r = spawnSync(PYTHON, ['-I', '-c', `import ${module}`], { encoding: 'utf8', timeout: LIMIT_MS });
-      pythonCache.set(module, r.status === 0 ? null : `${PYTHON} cannot import ${module} (Debian package ${pkg}: apt-get install ${pkg})`);
+      pythonCache.set(
+        module,
+        r.status === 0 ? null : `${PYTHON} cannot import ${module} (Debian package ${pkg}: apt-get install ${pkg})`,
+      );
     }
     return pythonCache.get(module)!;
   };
@@ -70,7 +74,9 @@ import numpy as np
 `;
 
 /** netCDF4: opens the file and reads every variable with the library's default decoding. */
-const PY_NETCDF4 = PY_PRELUDE + `
+const PY_NETCDF4 =
+  PY_PRELUDE +
+  `
 import netCDF4
 warnings.simplefilter('error')
 def plain(x):
@@ -91,7 +97,9 @@ print(json.dumps(out))
 `;
 
 /** xarray: open_dataset with every CF decoding on (times, masks, coordinates, cell measures). */
-const PY_XARRAY = PY_PRELUDE + `
+const PY_XARRAY =
+  PY_PRELUDE +
+  `
 import xarray as xr
 import netCDF4  # the backend xarray picks; imported before the filter like the rest
 warnings.simplefilter('error')
@@ -154,11 +162,21 @@ export const CDO_SINFON = cdoReader('sinfon');
 export const CDO_INFON = cdoReader('infon');
 export const CDO_SHOWTIMESTAMP = cdoReader('showtimestamp');
 
-export const OUTSIDE_READERS: readonly OutsideReader[] = [NETCDF4_READER, XARRAY_READER, NCDUMP_HEADER, NCDUMP_DATA, CDO_SINFON, CDO_INFON, CDO_SHOWTIMESTAMP];
+export const OUTSIDE_READERS: readonly OutsideReader[] = [
+  NETCDF4_READER,
+  XARRAY_READER,
+  NCDUMP_HEADER,
+  NCDUMP_DATA,
+  CDO_SINFON,
+  CDO_INFON,
+  CDO_SHOWTIMESTAMP,
+];
 
 // --- UDUNITS-2: does a units string parse, and does it convert to another? ----------------------
 
-const PY_UDUNITS = PY_PRELUDE + `
+const PY_UDUNITS =
+  PY_PRELUDE +
+  `
 import ctypes
 lib = ctypes.CDLL('libudunits2.so.0')
 lib.ut_set_error_message_handler.restype = ctypes.c_void_p
@@ -188,15 +206,24 @@ export function missingUdunits(): string | null {
   if (udunitsMissing === undefined) {
     if (!existsSync(PYTHON)) udunitsMissing = `${PYTHON} is not installed (Debian package python3)`;
     else {
-      const r = spawnSync(PYTHON, ['-I', '-c', "import ctypes; ctypes.CDLL('libudunits2.so.0')"], { encoding: 'utf8', timeout: LIMIT_MS });
-      udunitsMissing = r.status === 0 ? null : `the UDUNITS-2 library libudunits2.so.0 is not installed (Debian package ${UDUNITS_PACKAGE}, which cdo brings)`;
+      const r = spawnSync(PYTHON, ['-I', '-c', "import ctypes; ctypes.CDLL('libudunits2.so.0')"], {
+        encoding: 'utf8',
+        timeout: LIMIT_MS,
+      });
+      udunitsMissing =
+        r.status === 0
+          ? null
+          : `the UDUNITS-2 library libudunits2.so.0 is not installed (Debian package ${UDUNITS_PACKAGE}, which cdo brings)`;
     }
   }
   return udunitsMissing;
 }
 
 /** Which units strings UDUNITS-2 parses, and whether each pair [a, b] converts. */
-export function udunits(units: readonly string[], pairs: ReadonlyArray<readonly [string, string]> = []): { parses: Record<string, boolean>; convertible: boolean[]; problems: string[] } {
+export function udunits(
+  units: readonly string[],
+  pairs: ReadonlyArray<readonly [string, string]> = [],
+): { parses: Record<string, boolean>; convertible: boolean[]; problems: string[] } {
   const r = runCommand(PYTHON, ['-I', '-c', PY_UDUNITS, JSON.stringify({ units, pairs })], `${PYTHON} (UDUNITS-2)`);
   if (r.problems.length > 0) return { parses: {}, convertible: [], problems: r.problems };
   return { ...JSON.parse(r.stdout), problems: [] };

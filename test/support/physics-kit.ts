@@ -10,7 +10,14 @@ import { buildWindStress } from '../../model/forcing/wind.ts';
 import { Grid } from '../../model/grid.ts';
 import type { Precision } from '../../model/precision.ts';
 
-export function basin(lonWest: number, lonEast: number, latSouth: number, latNorth: number, res: number, land: BasinConfig['land'] = []): BasinConfig {
+export function basin(
+  lonWest: number,
+  lonEast: number,
+  latSouth: number,
+  latNorth: number,
+  res: number,
+  land: BasinConfig['land'] = [],
+): BasinConfig {
   return { lonWest, lonEast, latSouth, latNorth, dLon: res, dLat: res, land };
 }
 
@@ -31,8 +38,8 @@ export const FLOAT32 = PRECISION === 'float32';
  * only in exact arithmetic; float32 rounding of u, v and h' each step leaves it to float32 round-off
  * (measured 1.3e-7 in 10,000 steps). The sums themselves are double and compensated.
  */
-export const FLOAT32_VOLUME = '1e-8 (float32: h\' rounded to 6e-8 of itself each step, the errors random-walk)';
-export const FLOAT32_ENERGY = '2e-6 (float32: u, v, h\' rounded each step)';
+export const FLOAT32_VOLUME = "1e-8 (float32: h' rounded to 6e-8 of itself each step, the errors random-walk)";
+export const FLOAT32_ENERGY = "2e-6 (float32: u, v, h' rounded each step)";
 
 /** A bound of a check: the double one, or the one float32 round-off allows (about 6e-8 relative per operation). */
 export function tolerance(double: number, float32: number): number {
@@ -46,14 +53,23 @@ export function config(b: BasinConfig, physics: Partial<PhysicsConfig> = {}, dt:
 /** A wind design's stress on a configuration's grid, through the forcing library the scenarios use. */
 export function windOn(cfg: ModelConfig, parts: WindPart[]): WindStress {
   const grid = new Grid(cfg.basin, cfg.physics.earthRadius);
-  const spec = { parts, bulk: { airDensity: 1.2, drag: 'large-pond' as const, dragCoefficient: 1.2e-3 }, updateHours: 3 };
+  const spec = {
+    parts,
+    bulk: { airDensity: 1.2, drag: 'large-pond' as const, dragCoefficient: 1.2e-3 },
+    updateHours: 3,
+  };
   return buildWindStress(grid, spec, { seed: 'tests' }).stress;
 }
 
 /** A spatially uniform stress (N m-2) switched on at t = 0. */
 export function uniformStress(cfg: ModelConfig, taux: number, tauy = 0): WindStress {
   return windOn(cfg, [
-    { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'uniform' }, x: taux, y: tauy }, envelope: { kind: 'constant' } },
+    {
+      kind: 'fixed',
+      quantity: 'stress',
+      source: { kind: 'shaped', shape: { kind: 'uniform' }, x: taux, y: tauy },
+      envelope: { kind: 'constant' },
+    },
   ]);
 }
 
@@ -106,5 +122,8 @@ export function record(check: string, measured: number, expected: number, unit =
   const file = path ? relative(process.cwd(), path) : '';
   if (FLOAT32) check = `${check} (float32)`;
   mkdirSync('test-artifacts', { recursive: true });
-  appendFileSync('test-artifacts/verification.jsonl', JSON.stringify({ check, measured, expected, unit, file, ...table }) + '\n');
+  appendFileSync(
+    'test-artifacts/verification.jsonl',
+    JSON.stringify({ check, measured, expected, unit, file, ...table }) + '\n',
+  );
 }

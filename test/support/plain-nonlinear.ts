@@ -34,7 +34,8 @@ export class PlainNonlinear {
     this.taux = this.base.grid.field();
     this.tauy = this.base.grid.field();
     const c = this.base.coefficients;
-    this.keeper = cfg.physics.sponge.conserveVolume && c.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.base.grid, c) : null;
+    this.keeper =
+      cfg.physics.sponge.conserveVolume && c.spongeRowsH.length > 0 ? new VolumeKeepingSponge(this.base.grid, c) : null;
   }
 
   advance(n: number): void {
@@ -77,6 +78,7 @@ export function differences(a: State, b: State): string[] {
   for (const [name, x, y] of pairs) if (!sameBits(x, y)) out.push(name);
   if (a.historyCount !== b.historyCount) out.push('historyCount');
   if (a.steps !== b.steps || a.time !== b.time) out.push('clock');
-  if (!Object.is(a.volumeBudget?.spongeMeasured, b.volumeBudget?.spongeMeasured)) out.push('volumeBudget.spongeMeasured');
+  if (!Object.is(a.volumeBudget?.spongeMeasured, b.volumeBudget?.spongeMeasured))
+    out.push('volumeBudget.spongeMeasured');
   return out;
 }

@@ -26,7 +26,10 @@ export function replayRegression(name: string, bytes: Uint8Array): unknown {
       readNetcdfVectors(bytes);
     } else if (name.startsWith('netcdf-')) {
       readNetcdf(bytes);
-      readStartFile(bytes, new Grid({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 1, dLat: 1, land: [] }, EARTH.radius));
+      readStartFile(
+        bytes,
+        new Grid({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 1, dLat: 1, land: [] }, EARTH.radius),
+      );
       readRun(bytes);
     } else throw new Error(`unknown regression kind: ${name}`);
   } catch (e) {

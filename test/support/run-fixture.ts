@@ -38,10 +38,10 @@ export function tinyRun(sets: string[] = [], snapshotEvery = 1): Promise<RunData
 /** Bit-level equality of two runs: every typed array compared through its bytes. */
 export function expectSameRun(a: RunData, b: RunData): void {
   const bits = (x: ArrayBufferView) => Buffer.from(x.buffer, x.byteOffset, x.byteLength).toString('hex');
-  const plain = (r: RunData) => JSON.parse(JSON.stringify(r, (_k, v) => (ArrayBuffer.isView(v) ? `${v.constructor.name}:${bits(v)}` : v)));
+  const plain = (r: RunData) =>
+    JSON.parse(JSON.stringify(r, (_k, v) => (ArrayBuffer.isView(v) ? `${v.constructor.name}:${bits(v)}` : v)));
   expect(plain(b)).toEqual(plain(a));
 }
-
 
 /** The shipped westerly burst, made smaller and shorter: 1° cells, 0-100°E, 15°S-15°N, 60 days. */
 export const SHORT_BURST_SETS = [
@@ -59,4 +59,3 @@ export async function shortBurst(): Promise<RunData> {
   cached ??= await collectRun(WESTERLY_BURST_TEXT, WESTERLY_BURST, SHORT_BURST_SETS, 5);
   return cached;
 }
-

@@ -21,7 +21,11 @@ export interface RunInMemory {
  * path (a restart written by an earlier run, for example). Throws with the engine's message on
  * a failed load or run.
  */
-export async function runInMemory(text: string, fileName: string, options: { sets?: string[]; files?: Map<string, Uint8Array | string> } = {}): Promise<RunInMemory> {
+export async function runInMemory(
+  text: string,
+  fileName: string,
+  options: { sets?: string[]; files?: Map<string, Uint8Array | string> } = {},
+): Promise<RunInMemory> {
   const engine = new Engine({ host: fakeHost(2) });
   const loaded = await engine.load(text, fileName, { sets: options.sets ?? [], files: options.files });
   if (!loaded.ok) throw new Error(loaded.error.message);

@@ -20,7 +20,9 @@ export interface ScenarioCase {
   initial: NonNullable<ModelOptions['initial']>;
 }
 
-export const SHIPPED = readdirSync('configs').filter((f) => f.endsWith('.json') && !f.endsWith('.schema.json')).sort();
+export const SHIPPED = readdirSync('configs')
+  .filter((f) => f.endsWith('.json') && !f.endsWith('.schema.json'))
+  .sort();
 
 export function scenarioCase(file: string, overrides: string[]): ScenarioCase {
   const path = join('configs', file);

@@ -22,6 +22,9 @@ export function issuesOf(json: unknown): ScenarioIssue[] {
 /** The single issue at a path (fails if there is none or several). */
 export function issueAt(issues: ScenarioIssue[], path: string): ScenarioIssue {
   const hits = issues.filter((i) => i.path === path);
-  expect(hits.map((i) => i.path), `issues: ${JSON.stringify(issues, null, 1)}`).toEqual([path]);
+  expect(
+    hits.map((i) => i.path),
+    `issues: ${JSON.stringify(issues, null, 1)}`,
+  ).toEqual([path]);
   return hits[0];
 }

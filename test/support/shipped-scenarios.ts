@@ -23,7 +23,10 @@ export function resolved(file: string, overrides: string[] = []): ResolvedScenar
   return resolveScenario(sc);
 }
 
-export function build(file: string, options: { overrides?: string[]; startState?: State } = {}): BuiltRun & { r: ResolvedScenario } {
+export function build(
+  file: string,
+  options: { overrides?: string[]; startState?: State } = {},
+): BuiltRun & { r: ResolvedScenario } {
   const r = resolved(file, options.overrides);
   const opts = options.startState ? { startState: options.startState } : {};
   return { ...buildModel(r, opts), r };

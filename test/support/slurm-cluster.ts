@@ -41,9 +41,11 @@ export interface LocalSlurm {
 /** Why Slurm cannot run here, or null. */
 export function slurmMissing(): string | null {
   if (process.platform !== 'linux') return `Slurm runs on Linux only (this is ${process.platform})`;
-  if (typeof process.getuid === 'function' && process.getuid() !== 0) return 'starting slurmctld, slurmd and munged for one node needs root (the daemons run as root here)';
+  if (typeof process.getuid === 'function' && process.getuid() !== 0)
+    return 'starting slurmctld, slurmd and munged for one node needs root (the daemons run as root here)';
   const missing = PROGRAMS.filter(([p]) => !existsSync(p));
-  if (missing.length) return `${missing.map(([p]) => p).join(', ')} not installed (Debian packages slurm-wlm and munge: apt-get install slurm-wlm munge)`;
+  if (missing.length)
+    return `${missing.map(([p]) => p).join(', ')} not installed (Debian packages slurm-wlm and munge: apt-get install slurm-wlm munge)`;
   return null;
 }
 
@@ -99,7 +101,9 @@ export async function startLocalSlurm(): Promise<LocalSlurm | { skip: string }> 
   };
   const logs = () => {
     const parts = [...output].map(([name, text]) => `--- ${name} ---\n${text.trim()}`);
-    for (const f of ['slurmctld.log', 'slurmd.log', 'munged.log']) if (existsSync(join(dir, f))) parts.push(`--- ${f} ---\n${readFileSync(join(dir, f), 'utf8').trim().split('\n').slice(-40).join('\n')}`);
+    for (const f of ['slurmctld.log', 'slurmd.log', 'munged.log'])
+      if (existsSync(join(dir, f)))
+        parts.push(`--- ${f} ---\n${readFileSync(join(dir, f), 'utf8').trim().split('\n').slice(-40).join('\n')}`);
     return parts.join('\n');
   };
   const stop = async () => {
@@ -109,13 +113,30 @@ export async function startLocalSlurm(): Promise<LocalSlurm | { skip: string }> 
   };
   const client = (program: string, args: string[]) => {
     const r = spawnSync(program, args, { env, encoding: 'utf8', timeout: 60_000 });
-    if (r.status !== 0) throw new Error(`${program} ${args.join(' ')}: exit ${r.status}${r.error ? ` (${r.error.message})` : ''}: ${(r.stderr || r.stdout).trim()}`);
+    if (r.status !== 0)
+      throw new Error(
+        `${program} ${args.join(' ')}: exit ${r.status}${r.error ? ` (${r.error.message})` : ''}: ${(r.stderr || r.stdout).trim()}`,
+      );
     return r.stdout;
   };
   try {
-    const key = spawnSync('/usr/sbin/mungekey', ['--create', `--keyfile=${join(dir, 'munge.key')}`], { encoding: 'utf8' });
+    const key = spawnSync('/usr/sbin/mungekey', ['--create', `--keyfile=${join(dir, 'munge.key')}`], {
+      encoding: 'utf8',
+    });
     if (key.status !== 0) throw new Error(`mungekey could not make a key: ${key.stderr}`);
-    start('munged', '/usr/sbin/munged', ['-F', `--socket=${socket}`, `--key-file=${join(dir, 'munge.key')}`, `--log-file=${join(dir, 'munged.log')}`, `--pid-file=${join(dir, 'munged.pid')}`, `--seed-file=${join(dir, 'munged.seed')}`], process.env);
+    start(
+      'munged',
+      '/usr/sbin/munged',
+      [
+        '-F',
+        `--socket=${socket}`,
+        `--key-file=${join(dir, 'munge.key')}`,
+        `--log-file=${join(dir, 'munged.log')}`,
+        `--pid-file=${join(dir, 'munged.pid')}`,
+        `--seed-file=${join(dir, 'munged.seed')}`,
+      ],
+      process.env,
+    );
     for (let k = 0; k < 100 && !existsSync(socket); k++) await sleep(100);
     if (!existsSync(socket)) throw new Error('munged did not create its socket within 10 s');
 
@@ -162,17 +183,25 @@ export async function startLocalSlurm(): Promise<LocalSlurm | { skip: string }> 
     let up = false;
     for (let k = 0; k < 120 && !up && !exited(ctld); k++) {
       await sleep(250);
-      up = spawnSync('/usr/bin/scontrol', ['ping'], { env, encoding: 'utf8', timeout: 10_000 }).stdout?.includes('UP') ?? false;
+      up =
+        spawnSync('/usr/bin/scontrol', ['ping'], { env, encoding: 'utf8', timeout: 10_000 }).stdout?.includes('UP') ??
+        false;
     }
     if (!up) throw new Error('slurmctld did not answer scontrol ping within 30 s');
     const slurmd = start('slurmd', '/usr/sbin/slurmd', ['-D', '-N', 'localhost', '-f', conf], env);
     let state = '';
     for (let k = 0; k < 480 && !exited(slurmd); k++) {
       await sleep(250);
-      state = spawnSync('/usr/bin/sinfo', ['-h', '-n', 'localhost', '-o', '%T'], { env, encoding: 'utf8', timeout: 10_000 }).stdout?.trim() ?? '';
+      state =
+        spawnSync('/usr/bin/sinfo', ['-h', '-n', 'localhost', '-o', '%T'], {
+          env,
+          encoding: 'utf8',
+          timeout: 10_000,
+        }).stdout?.trim() ?? '';
       if (state === 'idle') break;
       // A node left down or drained by an earlier controller state is put back.
-      if (/down|drain/.test(state) && k % 8 === 7) spawnSync('/usr/bin/scontrol', ['update', 'nodename=localhost', 'state=resume'], { env, timeout: 10_000 });
+      if (/down|drain/.test(state) && k % 8 === 7)
+        spawnSync('/usr/bin/scontrol', ['update', 'nodename=localhost', 'state=resume'], { env, timeout: 10_000 });
     }
     if (state !== 'idle') throw new Error(`the node localhost is '${state || 'unknown'}', not idle, after 120 s`);
     return { dir, env, client, logs, stop };

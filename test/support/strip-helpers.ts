@@ -17,7 +17,11 @@ export { sameBits };
 export function basin(nx: number, ny: number, slip: 'free' | 'no', spongeRows: number): ModelConfig {
   const cfg = referenceConfig(nx, ny);
   cfg.basin.land = [...cfg.basin.land, { kind: 'rectangle', lonWest: 100, lonEast: 120, latSouth: -4, latNorth: 12 }];
-  cfg.physics = { ...cfg.physics, slip, sponge: { widthDeg: spongeRows * cfg.basin.dLat, rateAtWall: 1 / (2 * 86400), conserveVolume: false } };
+  cfg.physics = {
+    ...cfg.physics,
+    slip,
+    sponge: { widthDeg: spongeRows * cfg.basin.dLat, rateAtWall: 1 / (2 * 86400), conserveVolume: false },
+  };
   cfg.time = { dt: null, safety: 0.9 };
   return cfg;
 }
@@ -33,11 +37,15 @@ export function changingWind(grid: Grid, dt: number): WindStress {
       tauy.fill(0);
       for (let j = 0; j < grid.ny; j++) {
         for (let i = 0; i <= grid.nx; i++) {
-          taux[grid.idx(i, j)] = -0.06 * Math.cos((Math.PI * (j + 0.5)) / grid.ny - 0.5 * Math.PI + 0.3 * Math.sin(phase)) * (1 + 0.2 * Math.sin((6 * i) / grid.nx + phase));
+          taux[grid.idx(i, j)] =
+            -0.06 *
+            Math.cos((Math.PI * (j + 0.5)) / grid.ny - 0.5 * Math.PI + 0.3 * Math.sin(phase)) *
+            (1 + 0.2 * Math.sin((6 * i) / grid.nx + phase));
         }
       }
       for (let j = 0; j <= grid.ny; j++) {
-        for (let i = 0; i < grid.nx; i++) tauy[grid.idx(i, j)] = 0.02 * Math.sin((Math.PI * j) / grid.ny + phase) * Math.cos((3 * i) / grid.nx);
+        for (let i = 0; i < grid.nx; i++)
+          tauy[grid.idx(i, j)] = 0.02 * Math.sin((Math.PI * j) / grid.ny + phase) * Math.cos((3 * i) / grid.nx);
       }
     },
   };
@@ -80,7 +88,12 @@ export function countingHost(): { host: StripHost; started: () => number; exits:
 export const STRIP_CASES: Array<{ name: string; cfg: ModelConfig; threads: number; steps: number[] }> = [
   { name: '64 x 48, 2 threads, free slip', cfg: basin(64, 48, 'free', 8), threads: 2, steps: [1, 49, 250] },
   { name: '40 x 7, one row per strip, sponge at strip edges', cfg: basin(40, 7, 'no', 2), threads: 7, steps: [300] },
-  { name: '33 x 13 (odd rows and columns), 3 threads, no slip', cfg: basin(33, 13, 'no', 3), threads: 3, steps: [7, 293] },
+  {
+    name: '33 x 13 (odd rows and columns), 3 threads, no slip',
+    cfg: basin(33, 13, 'no', 3),
+    threads: 3,
+    steps: [7, 293],
+  },
   { name: '50 x 24, 4 threads, no slip', cfg: basin(50, 24, 'no', 4), threads: 4, steps: [120, 180] },
 ];
 

@@ -7,7 +7,8 @@ import { readFileSync, writeFileSync } from 'node:fs';
 
 export const RECORDS = 'test-artifacts/verification.jsonl';
 export const DOC = 'docs/physics.md';
-export const START = '<!-- verification table: written by npm run verification from the tests\' records; do not edit by hand -->';
+export const START =
+  "<!-- verification table: written by npm run verification from the tests' records; do not edit by hand -->";
 export const END = '<!-- end of the verification table -->';
 
 export interface Recorded {
@@ -45,8 +46,17 @@ export function tableText(rows: readonly Recorded[]): string {
   const cell = (s: string) => s.replace(/\|/g, '\\|');
   const out = ['| Check | Source | Tolerance | Measured | Expected | Test |', '|---|---|---|---|---|---|'];
   for (const r of rows) {
-    const dev = r.measured !== null && r.expected !== null && Number.isFinite(r.measured) && Number.isFinite(r.expected) && r.expected !== 0 ? ` (${((100 * (r.measured - r.expected)) / Math.abs(r.expected)).toFixed(2)} %)` : '';
-    out.push(`| ${cell(r.check)} | ${cell(r.source!)} | ${cell(r.tolerance ?? '')} | ${show(r.measured, r.unit)}${dev} | ${show(r.expected, r.unit)} | \`${r.file}\` |`);
+    const dev =
+      r.measured !== null &&
+      r.expected !== null &&
+      Number.isFinite(r.measured) &&
+      Number.isFinite(r.expected) &&
+      r.expected !== 0
+        ? ` (${((100 * (r.measured - r.expected)) / Math.abs(r.expected)).toFixed(2)} %)`
+        : '';
+    out.push(
+      `| ${cell(r.check)} | ${cell(r.source!)} | ${cell(r.tolerance ?? '')} | ${show(r.measured, r.unit)}${dev} | ${show(r.expected, r.unit)} | \`${r.file}\` |`,
+    );
   }
   return out.join('\n');
 }

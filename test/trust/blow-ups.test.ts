@@ -47,7 +47,9 @@ describe('a run whose layer vanishes after the last 10-step check', () => {
       const out = `h${H}-x${x}-d${days}.nc`;
       const r = pycno(dir, ['run', 'tiny.json', '--out', out, '--quiet', '--days', String(days), ...sets(thin(H, x))]);
       expect(r.code, r.stdout).toBe(1);
-      expect(r.stderr).toMatch(/^pycno: the run blew up on day \d+\.\d\d at [\d.]+°[EW], [\d.]+°[NS]: the upper layer vanished \(thickness -[\d.]+ m/);
+      expect(r.stderr).toMatch(
+        /^pycno: the run blew up on day \d+\.\d\d at [\d.]+°[EW], [\d.]+°[NS]: the upper layer vanished \(thickness -[\d.]+ m/,
+      );
       expect(r.stdout).not.toMatch(/thinnest layer|fastest flow/);
       noInternals(r);
       expect(filesLike(dir, out)).toEqual([]);
@@ -55,7 +57,17 @@ describe('a run whose layer vanishes after the last 10-step check', () => {
   }
 
   it('the records kept (--keep-partial) are all of a healthy state: layer present, flow below the runaway limit, fields finite', () => {
-    const r = pycno(dir, ['run', 'tiny.json', '--out', 'kept.nc', '--quiet', '--keep-partial', '--days', '4.5', ...sets(thin(60, 5))]);
+    const r = pycno(dir, [
+      'run',
+      'tiny.json',
+      '--out',
+      'kept.nc',
+      '--quiet',
+      '--keep-partial',
+      '--days',
+      '4.5',
+      ...sets(thin(60, 5)),
+    ]);
     expect(r.code).toBe(1);
     const temp = /are in (kept\.nc\.part-\d+)|is in (kept\.nc\.part-\d+)/.exec(r.stderr);
     expect(temp, r.stderr).not.toBeNull();
@@ -63,7 +75,9 @@ describe('a run whose layer vanishes after the last 10-step check', () => {
     expect(f.numRecords).toBeGreaterThanOrEqual(1);
     for (const x of f.variable('min_thickness').values as Float64Array) expect(x).toBeGreaterThan(0);
     for (const x of f.variable('max_speed').values as Float64Array) expect(x).toBeLessThanOrEqual(RUNAWAY_SPEED);
-    expect((f.variable('h_anom').values as Float64Array).every((x) => x === OUTPUT_FILL || Number.isFinite(x))).toBe(true);
+    expect((f.variable('h_anom').values as Float64Array).every((x) => x === OUTPUT_FILL || Number.isFinite(x))).toBe(
+      true,
+    );
   });
 
   it('the engine (the page uses the same) never hands a record of a bad state to its recorder', async () => {
@@ -90,7 +104,12 @@ describe('a run whose layer vanishes after the last 10-step check', () => {
     sc.wind.parts[0].source.x = 3;
     sc.wind.parts[0].envelope = { kind: 'constant' };
     sc.time.days = 3.5;
-    writeFileSync(join(dir, 'ends-badly.nc'), await edited(new Uint8Array(readFileSync(join(dir, 'fine.nc'))), (f) => setScenario(f, JSON.stringify(sc, null, 2))));
+    writeFileSync(
+      join(dir, 'ends-badly.nc'),
+      await edited(new Uint8Array(readFileSync(join(dir, 'fine.nc'))), (f) =>
+        setScenario(f, JSON.stringify(sc, null, 2)),
+      ),
+    );
     const r = pycno(dir, ['rerun', 'ends-badly.nc']);
     expect(r.code).toBe(1);
     expect(r.stderr).toMatch(/^pycno: the rerun failed: the run blew up on day/);
@@ -98,7 +117,23 @@ describe('a run whose layer vanishes after the last 10-step check', () => {
   });
 
   it('a sweep member that blows up: the member fails (exit 1 in the index), leaves no file, the sweep exits 1', () => {
-    const r = pycno(dir, ['sweep', 'tiny.json', '--vary', 'physics.layerThickness=150,20', '--days', '3.5', ...sets(thin(20, 3).slice(1)), '--out', 'sw', '--jobs', '2'], 120_000);
+    const r = pycno(
+      dir,
+      [
+        'sweep',
+        'tiny.json',
+        '--vary',
+        'physics.layerThickness=150,20',
+        '--days',
+        '3.5',
+        ...sets(thin(20, 3).slice(1)),
+        '--out',
+        'sw',
+        '--jobs',
+        '2',
+      ],
+      120_000,
+    );
     expect(r.code).toBe(1);
     const index = JSON.parse(readFileSync(join(dir, 'sw', 'index.json'), 'utf8'));
     expect(index.runs.map((x: { exit: number }) => x.exit)).toEqual([0, 1]);

@@ -61,7 +61,12 @@ describe('the scenario path: only a regular file is read', () => {
       for (const command of ['run', 'check']) {
         const r = pycno(dir, [command, path], 20_000);
         expect(r.code, `${command} ${path}: killed by the timeout?`).not.toBeNull();
-        refusedWith(r, new RegExp(`^pycno: ${path.replace(/\//g, '\\/')}: cannot read the scenario file: it is ${what}, not a regular file; only regular files are read$`));
+        refusedWith(
+          r,
+          new RegExp(
+            `^pycno: ${path.replace(/\//g, '\\/')}: cannot read the scenario file: it is ${what}, not a regular file; only regular files are read$`,
+          ),
+        );
       }
     }
   });
@@ -69,10 +74,16 @@ describe('the scenario path: only a regular file is read', () => {
   it('a 1.5 GiB file is refused by its size before it is read (it was read whole first: 3.1 GB resident)', () => {
     const big = sparse('huge.json', 1.5 * 1024 ** 3);
     const r = pycno(dir, ['check', big]);
-    refusedWith(r, /^pycno: huge\.json: cannot read the scenario file: the file is 1\.50 GiB; a scenario file is read only up to 16\.0 MiB \(put large wind data in a CSV or NetCDF wind file\)$/);
+    refusedWith(
+      r,
+      /^pycno: huge\.json: cannot read the scenario file: the file is 1\.50 GiB; a scenario file is read only up to 16\.0 MiB \(put large wind data in a CSV or NetCDF wind file\)$/,
+    );
     // Resident memory of the whole command, by GNU time (a node process alone is about 100 MB).
     if (existsSync('/usr/bin/time')) {
-      const t = spawnSync('/usr/bin/time', ['-f', '%M', process.execPath, BIN, 'check', big], { cwd: dir, encoding: 'utf8' });
+      const t = spawnSync('/usr/bin/time', ['-f', '%M', process.execPath, BIN, 'check', big], {
+        cwd: dir,
+        encoding: 'utf8',
+      });
       const kib = Number(t.stderr.trim().split('\n').pop());
       expect(kib).toBeGreaterThan(0);
       expect(kib).toBeLessThan(400 * 1024);
@@ -89,18 +100,28 @@ describe('the inputs a scenario names: wind files and restart files', () => {
     ] as const) {
       const f = variant(`wind-${what.replace(/\W+/g, '-')}.json`, csvWind(path));
       const r = pycno(dir, ['run', f, '--out', 'never.nc'], 20_000);
-      refusedWith(r, new RegExp(`^pycno: ${f}: wind\\.parts\\[0\\]\\.source\\.path: cannot read the wind file ${path.startsWith('/') ? '' : '.*'}${path.replace(/\//g, '\\/')}: it is ${what}, not a regular file`));
+      refusedWith(
+        r,
+        new RegExp(
+          `^pycno: ${f}: wind\\.parts\\[0\\]\\.source\\.path: cannot read the wind file ${path.startsWith('/') ? '' : '.*'}${path.replace(/\//g, '\\/')}: it is ${what}, not a regular file`,
+        ),
+      );
     }
     expect(existsSync(join(dir, 'never.nc'))).toBe(false);
   });
 
-  it('a restart path that is /dev/zero or a named pipe, in the user\'s own scenario: refused at once', () => {
+  it("a restart path that is /dev/zero or a named pipe, in the user's own scenario: refused at once", () => {
     for (const [path, what] of [
       ['/dev/zero', 'a character device'],
       ['pipe', 'a named pipe'],
     ] as const) {
       const f = variant(`restart-${what.replace(/\W+/g, '-')}.json`, (sc) => (sc.initial = { kind: 'restart', path }));
-      refusedWith(pycno(dir, ['run', f, '--out', 'never.nc'], 20_000), new RegExp(`^pycno: ${f}: initial\\.path: cannot read the restart file .*${path.replace(/\//g, '\\/')}: it is ${what}, not a regular file`));
+      refusedWith(
+        pycno(dir, ['run', f, '--out', 'never.nc'], 20_000),
+        new RegExp(
+          `^pycno: ${f}: initial\\.path: cannot read the restart file .*${path.replace(/\//g, '\\/')}: it is ${what}, not a regular file`,
+        ),
+      );
     }
   });
 
@@ -111,14 +132,24 @@ describe('the inputs a scenario names: wind files and restart files', () => {
     const csv = variant('big-csv.json', csvWind('big.csv'));
     const restart = variant('big-restart.json', (sc) => (sc.initial = { kind: 'restart', path: 'big-restart.nc' }));
     const spin = variant('big-spin-user.json', (sc) => (sc.initial = { kind: 'spinup', scenario: 'big-spin.json' }));
-    refusedWith(pycno(dir, ['run', csv, '--out', 'never.nc']), /wind\.parts\[0\]\.source\.path: cannot read the wind file big\.csv: the file is 65\.0 MiB; a CSV wind file is read only up to 64\.0 MiB/);
-    refusedWith(pycno(dir, ['run', restart, '--out', 'never.nc']), /initial\.path: cannot read the restart file big-restart\.nc: the file is 1\.00 GiB; a NetCDF input file is read only up to 1\.00 GiB/);
-    refusedWith(pycno(dir, ['run', spin, '--out', 'never.nc']), /initial\.scenario: cannot read the spin-up scenario big-spin\.json: the file is 17\.0 MiB; a scenario file is read only up to 16\.0 MiB/);
+    refusedWith(
+      pycno(dir, ['run', csv, '--out', 'never.nc']),
+      /wind\.parts\[0\]\.source\.path: cannot read the wind file big\.csv: the file is 65\.0 MiB; a CSV wind file is read only up to 64\.0 MiB/,
+    );
+    refusedWith(
+      pycno(dir, ['run', restart, '--out', 'never.nc']),
+      /initial\.path: cannot read the restart file big-restart\.nc: the file is 1\.00 GiB; a NetCDF input file is read only up to 1\.00 GiB/,
+    );
+    refusedWith(
+      pycno(dir, ['run', spin, '--out', 'never.nc']),
+      /initial\.scenario: cannot read the spin-up scenario big-spin\.json: the file is 17\.0 MiB; a scenario file is read only up to 16\.0 MiB/,
+    );
   });
 
   it('run files over 2 GiB: compare, report and rerun refuse them by size', () => {
     const big = sparse('big-run.nc', 2 * 1024 ** 3 + 4096);
-    const line = /^pycno: big-run\.nc: cannot read the run file: the file is 2\.00 GiB; a run file is read only up to 2\.00 GiB/;
+    const line =
+      /^pycno: big-run\.nc: cannot read the run file: the file is 2\.00 GiB; a run file is read only up to 2\.00 GiB/;
     refusedWith(pycno(dir, ['report', big, '--out', 'never.html']), line);
     refusedWith(pycno(dir, ['rerun', big]), line);
     const good = pycno(dir, ['run', 'tiny.json', '--out', 'small.nc', '--quiet']);
@@ -128,19 +159,24 @@ describe('the inputs a scenario names: wind files and restart files', () => {
 
   it('the reader never reads past the limit, also from a file with no size (the limit + 1 bytes at most)', () => {
     // /proc files report a size of 0 and are read to their end; one longer than the limit is refused.
-    expect(() => readBounded('/proc/self/status', { maxBytes: 64, what: 'a test file', advice: 'none' })).toThrow(/the file grew while it was read, past a test file's limit of 64 bytes/);
+    expect(() => readBounded('/proc/self/status', { maxBytes: 64, what: 'a test file', advice: 'none' })).toThrow(
+      /the file grew while it was read, past a test file's limit of 64 bytes/,
+    );
     expect(new TextDecoder().decode(readBounded('/proc/self/status', READ_LIMITS.scenario))).toMatch(/^Name:/);
     expect(() => readBounded(join(dir, 'no-such-file'), READ_LIMITS.scenario)).toThrow(ReadRefused);
   });
 });
 
 describe('CSV wind messages name the file, the line and the column, never the text', () => {
-  const secret = 'hunter2:x:0:0:the first line of somebody\'s private file';
-  it("a readable file that is not a wind file: the message does not show its first line (rerun could be pointed at one)", () => {
+  const secret = "hunter2:x:0:0:the first line of somebody's private file";
+  it('a readable file that is not a wind file: the message does not show its first line (rerun could be pointed at one)', () => {
     writeFileSync(join(dir, 'private.txt'), `${secret}\nsecond line\n`);
     const f = variant('wind-private.json', csvWind('private.txt'));
     const r = pycno(dir, ['check', f]);
-    refusedWith(r, /^pycno: wind-private\.json: wind part 1 \('westerly patch'\): the wind file private\.txt: CSV line 1, column 1: the header names a column other than lon, lat, x, y and day/);
+    refusedWith(
+      r,
+      /^pycno: wind-private\.json: wind part 1 \('westerly patch'\): the wind file private\.txt: CSV line 1, column 1: the header names a column other than lon, lat, x, y and day/,
+    );
     expect(r.stderr).not.toMatch(/hunter2|private file|second line/);
   });
 
@@ -154,14 +190,18 @@ describe('CSV wind messages name the file, the line and the column, never the te
       throw new Error('accepted');
     })();
     expect(e.message).toBe("CSV line 3, column 3 ('x'): the value is not a number (a field of 11 characters)");
-    expect(() => parseWindCsv('lon,lat,x,y\n150,0,,0\n')).toThrow("CSV line 2, column 3 ('x'): the value is empty; every field must hold a number");
+    expect(() => parseWindCsv('lon,lat,x,y\n150,0,,0\n')).toThrow(
+      "CSV line 2, column 3 ('x'): the value is empty; every field must hold a number",
+    );
   });
 });
 
 describe('text is UTF-8, by one rule for the command line and the page', () => {
   const good = () => new TextEncoder().encode(JSON.stringify(scenario));
   const withBadByte = () => {
-    const b = new TextEncoder().encode(JSON.stringify(scenario, null, 2).replace('Tiny westerly patch', 'Tiny westerly p\u00e4tch'));
+    const b = new TextEncoder().encode(
+      JSON.stringify(scenario, null, 2).replace('Tiny westerly patch', 'Tiny westerly p\u00e4tch'),
+    );
     const at = b.indexOf(0xc3);
     b[at] = 0xff; // the first byte of "ä" made invalid
     return { bytes: b, at };
@@ -177,11 +217,16 @@ describe('text is UTF-8, by one rule for the command line and the page', () => {
   it('invalid UTF-8 is refused with the place of the first bad byte (it silently became replacement characters)', async () => {
     const { bytes, at } = withBadByte();
     writeFileSync(join(dir, 'bad-utf8.json'), bytes);
-    const line = new RegExp(`^pycno: bad-utf8\\.json: the file is not UTF-8 text: byte ${at} \\(line 3, column 27\\) is 0xFF, which does not begin a valid UTF-8 character; save it as UTF-8$`);
+    const line = new RegExp(
+      `^pycno: bad-utf8\\.json: the file is not UTF-8 text: byte ${at} \\(line 3, column 27\\) is 0xFF, which does not begin a valid UTF-8 character; save it as UTF-8$`,
+    );
     refusedWith(pycno(dir, ['check', 'bad-utf8.json']), line);
     // The page: the same words after the file name.
     const page = await pickedScenarioText(new Blob([bytes]));
-    expect(page).toEqual({ ok: false, message: `the file is not UTF-8 text: byte ${at} (line 3, column 27) is 0xFF, which does not begin a valid UTF-8 character; save it as UTF-8` });
+    expect(page).toEqual({
+      ok: false,
+      message: `the file is not UTF-8 text: byte ${at} (line 3, column 27) is 0xFF, which does not begin a valid UTF-8 character; save it as UTF-8`,
+    });
   });
 
   it('UTF-16, with or without its byte-order mark, is refused by both (the page used to accept it)', async () => {
@@ -191,8 +236,14 @@ describe('text is UTF-8, by one rule for the command line and the page', () => {
     ] as const) {
       const name = `utf16-${bom ? 'bom' : 'plain'}.json`;
       writeFileSync(join(dir, name), utf16(bom));
-      refusedWith(pycno(dir, ['check', name]), new RegExp(`^pycno: ${name.replace('.', '\\.')}: the file is UTF-16 text \\(${how}\\); save it as UTF-8$`));
-      expect(await pickedScenarioText(new Blob([utf16(bom)]))).toEqual({ ok: false, message: `the file is UTF-16 text (${how}); save it as UTF-8` });
+      refusedWith(
+        pycno(dir, ['check', name]),
+        new RegExp(`^pycno: ${name.replace('.', '\\.')}: the file is UTF-16 text \\(${how}\\); save it as UTF-8$`),
+      );
+      expect(await pickedScenarioText(new Blob([utf16(bom)]))).toEqual({
+        ok: false,
+        message: `the file is UTF-16 text (${how}); save it as UTF-8`,
+      });
     }
   });
 
@@ -208,9 +259,20 @@ describe('text is UTF-8, by one rule for the command line and the page', () => {
   });
 
   it('a CSV wind file with a bad byte: refused with the file, the byte and its line', () => {
-    writeFileSync(join(dir, 'bad.csv'), new Uint8Array([...new TextEncoder().encode('lon,lat,x,y\n150,0,0.1,0\n151,0,'), 0xc0, 0x80, ...new TextEncoder().encode(',0\n')]));
+    writeFileSync(
+      join(dir, 'bad.csv'),
+      new Uint8Array([
+        ...new TextEncoder().encode('lon,lat,x,y\n150,0,0.1,0\n151,0,'),
+        0xc0,
+        0x80,
+        ...new TextEncoder().encode(',0\n'),
+      ]),
+    );
     const f = variant('wind-bad-utf8.json', csvWind('bad.csv'));
-    refusedWith(pycno(dir, ['check', f]), /^pycno: wind-bad-utf8\.json: wind\.parts\[0\]\.source\.path: the wind file .*bad\.csv: the file is not UTF-8 text: byte 30 \(line 3, column 7\) is 0xC0/);
+    refusedWith(
+      pycno(dir, ['check', f]),
+      /^pycno: wind-bad-utf8\.json: wind\.parts\[0\]\.source\.path: the wind file .*bad\.csv: the file is not UTF-8 text: byte 30 \(line 3, column 7\) is 0xC0/,
+    );
   });
 
   it('the decoder: truncated, overlong, surrogate and out-of-range sequences each point at their first byte', () => {
@@ -235,10 +297,19 @@ describe('text is UTF-8, by one rule for the command line and the page', () => {
 describe("the page's picked files: size checked before reading", () => {
   it('a scenario over 16 MiB and a run file over 2 GiB are refused from their size alone', async () => {
     // A Blob whose arrayBuffer() must never be called.
-    const claimed = (size: number) => ({ size, arrayBuffer: () => Promise.reject(new Error('read although too large')) }) as unknown as Blob;
-    expect(await pickedScenarioText(claimed(17 * 1024 ** 2))).toEqual({ ok: false, message: 'the file is 17.0 MiB; a scenario file is read only up to 16.0 MiB (put large wind data in a CSV or NetCDF wind file)' });
-    await expect(pickedBytes(claimed(3 * 1024 ** 3), 'runFile')).rejects.toThrow(/^the file is 3\.00 GiB; a run file is read only up to 2\.00 GiB/);
-    await expect(pickedBytes(claimed(65 * 1024 ** 2), 'csvWind')).rejects.toThrow(/a CSV wind file is read only up to 64\.0 MiB/);
+    const claimed = (size: number) =>
+      ({ size, arrayBuffer: () => Promise.reject(new Error('read although too large')) }) as unknown as Blob;
+    expect(await pickedScenarioText(claimed(17 * 1024 ** 2))).toEqual({
+      ok: false,
+      message:
+        'the file is 17.0 MiB; a scenario file is read only up to 16.0 MiB (put large wind data in a CSV or NetCDF wind file)',
+    });
+    await expect(pickedBytes(claimed(3 * 1024 ** 3), 'runFile')).rejects.toThrow(
+      /^the file is 3\.00 GiB; a run file is read only up to 2\.00 GiB/,
+    );
+    await expect(pickedBytes(claimed(65 * 1024 ** 2), 'csvWind')).rejects.toThrow(
+      /a CSV wind file is read only up to 64\.0 MiB/,
+    );
     expect(await pickedBytes(new Blob([new Uint8Array(10)]), 'csvWind')).toHaveLength(10);
   });
 });

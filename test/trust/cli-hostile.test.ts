@@ -18,7 +18,8 @@ const BIN = fileURLToPath(new URL('../../bin/pycno.js', import.meta.url));
 const REGRESSIONS = fileURLToPath(new URL('./regressions/', import.meta.url));
 let dir: string;
 
-const pycno = (args: string[]) => spawnSync(process.execPath, [BIN, ...args], { cwd: dir, encoding: 'utf8', timeout: 60_000 });
+const pycno = (args: string[]) =>
+  spawnSync(process.execPath, [BIN, ...args], { cwd: dir, encoding: 'utf8', timeout: 60_000 });
 
 beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'pycno-trust-cli-'));
@@ -32,7 +33,17 @@ function hostileFiles(): string[] {
   const gen = fc.sample(
     fc.oneof(
       fc.string({ maxLength: 50 }),
-      fc.constantFrom('', '{', '[]', 'null', '{"format": "pycno-scenario/1"}', FIXTURE_TEXT.replace('0.03', 'NaN'), FIXTURE_TEXT.replace('0.03', '1e999'), FIXTURE_TEXT.slice(0, 300), `\ufeff${FIXTURE_TEXT.replace('"seed": 11', '"seed": {"__proto__": 1}')}`),
+      fc.constantFrom(
+        '',
+        '{',
+        '[]',
+        'null',
+        '{"format": "pycno-scenario/1"}',
+        FIXTURE_TEXT.replace('0.03', 'NaN'),
+        FIXTURE_TEXT.replace('0.03', '1e999'),
+        FIXTURE_TEXT.slice(0, 300),
+        `\ufeff${FIXTURE_TEXT.replace('"seed": 11', '"seed": {"__proto__": 1}')}`,
+      ),
     ),
     { seed: fuzzSeed('cli sample', 8301), numRuns: 8 },
   );
@@ -100,7 +111,11 @@ async function killWhen(args: string[], out: string, ready: (b: Uint8Array) => b
 
 describe('runs killed without warning', () => {
   it('nonlinear, killed after a few records: a valid file of the days done', async () => {
-    const b = await killWhen(['run', 'tiny.json', '--set', 'basin.resolution=0.1', '--set', 'physics.dynamics=nonlinear', '--days', '60'], 'nl.nc', (x) => x.length > 8 && new DataView(x.buffer).getUint32(4) >= 2);
+    const b = await killWhen(
+      ['run', 'tiny.json', '--set', 'basin.resolution=0.1', '--set', 'physics.dynamics=nonlinear', '--days', '60'],
+      'nl.nc',
+      (x) => x.length > 8 && new DataView(x.buffer).getUint32(4) >= 2,
+    );
     const f = readNetcdf(b);
     expect(f.numRecords).toBeGreaterThanOrEqual(2);
     expect(f.numRecords).toBeLessThan(61);
@@ -112,7 +127,11 @@ describe('runs killed without warning', () => {
 
   it('killed as soon as the file exists (while the coordinates, the header or the first record go in): nothing claimed, or a valid file', async () => {
     for (let k = 0; k < 4; k++) {
-      const b = await killWhen(['run', 'tiny.json', '--set', 'basin.resolution=0.1', '--days', '60'], `early-${k}.nc`, () => true);
+      const b = await killWhen(
+        ['run', 'tiny.json', '--set', 'basin.resolution=0.1', '--days', '60'],
+        `early-${k}.nc`,
+        () => true,
+      );
       // The temporary file is created empty; the coordinates and mask go in first, then the
       // header, its magic number "CDF" last. A kill before that leaves a file that does not claim
       // to be NetCDF (nothing done, nothing claimed); after it, a valid file of 0 or more records.

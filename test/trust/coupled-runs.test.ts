@@ -15,7 +15,16 @@ const TEXT = readFileSync('configs/coupled-oscillation.json', 'utf8');
 /** A small, fast, strongly coupled version: 1 degree cells, couplings every 3 steps, SST from the start, zonal advection on. */
 /** The answering part off, and with it its output fields. */
 const OFF = ['wind.parts[1].enabled=false', 'output.fields=["h_anom","u_surf","v_surf","taux","tauy"]'];
-const SMALL = ['basin.resolution=1', 'physics.viscosity=32000', 'time.days=40', 'wind.parts[0].envelope.start=0', 'wind.parts[1].everySteps=3', 'wind.parts[1].strength=40', 'wind.parts[1].sst.initial=0.5', 'wind.parts[1].sst.meanGradient=-1.5'];
+const SMALL = [
+  'basin.resolution=1',
+  'physics.viscosity=32000',
+  'time.days=40',
+  'wind.parts[0].envelope.start=0',
+  'wind.parts[1].everySteps=3',
+  'wind.parts[1].strength=40',
+  'wind.parts[1].sst.initial=0.5',
+  'wind.parts[1].sst.meanGradient=-1.5',
+];
 
 function built(sets: string[]): Model {
   const p = parseScenario(TEXT, '/runs/coupled.json', [...SMALL, ...sets]);
@@ -27,7 +36,11 @@ function differences(a: Model, b: Model, withSst = true): string[] {
   for (const k of ['u', 'v', 'h'] as const) if (!sameBits(a.state[k], b.state[k])) bad.push(k);
   if (!sameBits(a.taux, b.taux)) bad.push('taux');
   if (!sameBits(a.tauy, b.tauy)) bad.push('tauy');
-  if (withSst && ((a.state.sst === null) !== (b.state.sst === null) || (a.state.sst && !sameBits(a.state.sst, b.state.sst!)))) bad.push('sst');
+  if (
+    withSst &&
+    ((a.state.sst === null) !== (b.state.sst === null) || (a.state.sst && !sameBits(a.state.sst, b.state.sst!)))
+  )
+    bad.push('sst');
   if (a.state.steps !== b.state.steps || a.state.time !== b.state.time) bad.push('clock');
   return bad;
 }
@@ -75,14 +88,18 @@ describe('coupled runs, bit for bit', () => {
     }
   }
 
-  it('a restart file without an SST anomaly (an uncoupled run) starts the coupling from the part\'s initial SST', async () => {
+  it("a restart file without an SST anomaly (an uncoupled run) starts the coupling from the part's initial SST", async () => {
     const plain = built(OFF);
     plain.advance(10);
     const bytes = await writeRestart(plain, {});
     const state = readRestart(bytes, plain.grid);
     expect(state.sst).toBeNull();
     const coupled = built([]);
-    const fromPlain = buildPrepared(parseScenario(TEXT, '/runs/c.json', SMALL), { files: new Map(), notes: [], startState: state }).model;
+    const fromPlain = buildPrepared(parseScenario(TEXT, '/runs/c.json', SMALL), {
+      files: new Map(),
+      notes: [],
+      startState: state,
+    }).model;
     expect(Math.max(...fromPlain.state.sst!)).toBeCloseTo(Math.max(...coupled.state.sst!), 12);
   });
 });

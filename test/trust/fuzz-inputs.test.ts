@@ -30,21 +30,116 @@ const runs = (name: string, n: number) => Number(process.env[`PYCNO_FUZZ_${name.
 
 // --- formulas ----------------------------------------------------------------------------------
 
-const TOKENS = ['lon', 'lat', 't', 'pi', 'e', 'x', 'y', 'sin', 'cos', 'exp', 'sqrt', 'abs', 'min', 'max', 'log', 'tanh', 'pow', 'if', 'constructor', '__proto__', 'this', 'globalThis', 'eval', 'Function', 'process', 'window', 'toString', 'valueOf', 'prototype'];
-const OPS = ['+', '-', '*', '/', '^', '**', '%', '<', '>', '<=', '>=', '==', '!=', '&&', '||', '!', '?', ':', ',', '.', '[', ']', '(', ')', '=', '=>', '"s"', "'s'", '`s`', ';', '{', '}', '|', '&', '~', '>>', 'new', 'typeof', '\u0000', '1e999', '1e-999', 'NaN', 'Infinity', '0x1f', '.5', '5.', '1_000', '-0'];
+const TOKENS = [
+  'lon',
+  'lat',
+  't',
+  'pi',
+  'e',
+  'x',
+  'y',
+  'sin',
+  'cos',
+  'exp',
+  'sqrt',
+  'abs',
+  'min',
+  'max',
+  'log',
+  'tanh',
+  'pow',
+  'if',
+  'constructor',
+  '__proto__',
+  'this',
+  'globalThis',
+  'eval',
+  'Function',
+  'process',
+  'window',
+  'toString',
+  'valueOf',
+  'prototype',
+];
+const OPS = [
+  '+',
+  '-',
+  '*',
+  '/',
+  '^',
+  '**',
+  '%',
+  '<',
+  '>',
+  '<=',
+  '>=',
+  '==',
+  '!=',
+  '&&',
+  '||',
+  '!',
+  '?',
+  ':',
+  ',',
+  '.',
+  '[',
+  ']',
+  '(',
+  ')',
+  '=',
+  '=>',
+  '"s"',
+  "'s'",
+  '`s`',
+  ';',
+  '{',
+  '}',
+  '|',
+  '&',
+  '~',
+  '>>',
+  'new',
+  'typeof',
+  '\u0000',
+  '1e999',
+  '1e-999',
+  'NaN',
+  'Infinity',
+  '0x1f',
+  '.5',
+  '5.',
+  '1_000',
+  '-0',
+];
 
 const formula = fc.oneof(
-  { weight: 6, arbitrary: fc.array(fc.oneof(fc.constantFrom(...TOKENS, ...OPS), fc.double({ noNaN: true }).map(String), fc.nat(1000).map(String)), { maxLength: 40 }).map((t) => t.join(' ')) },
+  {
+    weight: 6,
+    arbitrary: fc
+      .array(
+        fc.oneof(fc.constantFrom(...TOKENS, ...OPS), fc.double({ noNaN: true }).map(String), fc.nat(1000).map(String)),
+        { maxLength: 40 },
+      )
+      .map((t) => t.join(' ')),
+  },
   { weight: 2, arbitrary: fc.string({ maxLength: 80 }) },
   { weight: 1, arbitrary: fc.integer({ min: 10, max: 5000 }).map((d) => `${'('.repeat(d)}lon${')'.repeat(d)}`) },
   { weight: 1, arbitrary: fc.integer({ min: 10, max: 3000 }).map((d) => `${'sin('.repeat(d)}lat${')'.repeat(d)}`) },
-  { weight: 1, arbitrary: fc.integer({ min: 100, max: 3000 }).map((d) => Array.from({ length: d }, () => 'lon').join('+')) },
+  {
+    weight: 1,
+    arbitrary: fc.integer({ min: 100, max: 3000 }).map((d) => Array.from({ length: d }, () => 'lon').join('+')),
+  },
   { weight: 1, arbitrary: fc.integer({ min: 2000, max: 200_000 }).map((n) => '1+'.repeat(n) + '1') },
 );
 
 function formulaCase(src: string): void {
   const f = compileFormula(src);
-  for (const [lon, lat, t] of [[160, 0, 0], [0, -90, 1e6], [-1e308, 1e308, -1], [NaN, 0, 0]]) {
+  for (const [lon, lat, t] of [
+    [160, 0, 0],
+    [0, -90, 1e6],
+    [-1e308, 1e308, -1],
+    [NaN, 0, 0],
+  ]) {
     const v = f.evaluate(lon, lat, t);
     if (typeof v !== 'number') throw new TypeError(`formula ${src} gave ${typeof v}`);
   }
@@ -64,7 +159,16 @@ const paintedGrid: fc.Arbitrary<unknown> = fc.oneof(
     y: fc.oneof(fc.array(fc.double(), { maxLength: 300 }), hostileValue()),
   }),
   fc.integer({ min: 1, max: 30 }).chain((n) =>
-    fc.record({ lon0: fc.double({ min: -360, max: 360 }), lat0: fc.double({ min: -90, max: 90 }), dLon: fc.double({ min: 0.01, max: 10 }), dLat: fc.double({ min: 0.01, max: 10 }), nLon: fc.constant(n), nLat: fc.constant(n), x: fc.array(fc.double(), { minLength: n * n, maxLength: n * n }), y: fc.array(fc.double(), { minLength: n * n, maxLength: n * n }) }),
+    fc.record({
+      lon0: fc.double({ min: -360, max: 360 }),
+      lat0: fc.double({ min: -90, max: 90 }),
+      dLon: fc.double({ min: 0.01, max: 10 }),
+      dLat: fc.double({ min: 0.01, max: 10 }),
+      nLon: fc.constant(n),
+      nLat: fc.constant(n),
+      x: fc.array(fc.double(), { minLength: n * n, maxLength: n * n }),
+      y: fc.array(fc.double(), { minLength: n * n, maxLength: n * n }),
+    }),
   ),
   hostileValue(),
 );
@@ -73,7 +177,14 @@ const paintedGrid: fc.Arbitrary<unknown> = fc.oneof(
 
 function csvGrid(nLon: number, nLat: number, days: number): string {
   const rows = [days > 0 ? 'lon,lat,day,x,y' : 'lon,lat,x,y'];
-  for (let d = 0; d < Math.max(1, days); d++) for (let j = 0; j < nLat; j++) for (let i = 0; i < nLon; i++) rows.push(days > 0 ? `${150 + i},${-5 + j},${d * 5},${0.01 * i},${-0.01 * j}` : `${150 + i},${-5 + j},${0.01 * i},${-0.01 * j}`);
+  for (let d = 0; d < Math.max(1, days); d++)
+    for (let j = 0; j < nLat; j++)
+      for (let i = 0; i < nLon; i++)
+        rows.push(
+          days > 0
+            ? `${150 + i},${-5 + j},${d * 5},${0.01 * i},${-0.01 * j}`
+            : `${150 + i},${-5 + j},${0.01 * i},${-0.01 * j}`,
+        );
   return rows.join('\n');
 }
 
@@ -82,7 +193,34 @@ const csv = fc
     nLon: fc.integer({ min: 1, max: 12 }),
     nLat: fc.integer({ min: 1, max: 8 }),
     days: fc.integer({ min: 0, max: 3 }),
-    edits: fc.array(fc.record({ at: fc.nat(), kind: fc.constantFrom('replace', 'insert', 'delete', 'cut', 'dup'), with: fc.oneof(fc.constantFrom('NaN', 'Infinity', '-inf', '1e999', '', ',', ',,,,', 'x', '0x10', '"1"', '#', '\r', '\uFEFF', 'lon,lat,x,y', '1e-400', '-0'), fc.string({ maxLength: 10 })) }), { maxLength: 4 }),
+    edits: fc.array(
+      fc.record({
+        at: fc.nat(),
+        kind: fc.constantFrom('replace', 'insert', 'delete', 'cut', 'dup'),
+        with: fc.oneof(
+          fc.constantFrom(
+            'NaN',
+            'Infinity',
+            '-inf',
+            '1e999',
+            '',
+            ',',
+            ',,,,',
+            'x',
+            '0x10',
+            '"1"',
+            '#',
+            '\r',
+            '\uFEFF',
+            'lon,lat,x,y',
+            '1e-400',
+            '-0',
+          ),
+          fc.string({ maxLength: 10 }),
+        ),
+      }),
+      { maxLength: 4 },
+    ),
     noise: fc.option(fc.string({ unit: 'binary', maxLength: 200 }), { freq: 8 }),
     huge: fc.option(fc.constantFrom('rows', 'columns', 'line'), { freq: 40 }),
   })
@@ -110,19 +248,31 @@ const e2 = (n: number) => (n % 3 === 2 ? '\r\n' : '\n');
 // --- NetCDF ------------------------------------------------------------------------------------
 
 let SAMPLES: Array<{ name: string; bytes: Uint8Array }> = [];
-const GRID = new Grid({ lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 2, dLat: 2, land: [] }, EARTH.radius);
+const GRID = new Grid(
+  { lonWest: 150, lonEast: 190, latSouth: -10, latNorth: 10, dLon: 2, dLat: 2, land: [] },
+  EARTH.radius,
+);
 
 async function makeSamples(): Promise<void> {
   const lon = Array.from({ length: 6 }, (_, i) => 150 + 2 * i);
   const lat = Array.from({ length: 4 }, (_, j) => -4 + 2 * j);
   const wind = await writeNetcdfToMemory(
     {
-      dimensions: [{ name: 'time', length: 2 }, { name: 'lat', length: 4 }, { name: 'lon', length: 6 }],
+      dimensions: [
+        { name: 'time', length: 2 },
+        { name: 'lat', length: 4 },
+        { name: 'lon', length: 6 },
+      ],
       variables: [
         { name: 'time', type: NC_DOUBLE, dimensions: ['time'], attributes: { units: 'days since 2000-01-01' } },
         { name: 'lat', type: NC_DOUBLE, dimensions: ['lat'], attributes: { units: 'degrees_north' } },
         { name: 'lon', type: NC_DOUBLE, dimensions: ['lon'], attributes: { units: 'degrees_east' } },
-        { name: 'taux', type: NC_FLOAT, dimensions: ['time', 'lat', 'lon'], attributes: { units: 'N m-2', _FillValue: { type: NC_FLOAT, values: 1e20 } } },
+        {
+          name: 'taux',
+          type: NC_FLOAT,
+          dimensions: ['time', 'lat', 'lon'],
+          attributes: { units: 'N m-2', _FillValue: { type: NC_FLOAT, values: 1e20 } },
+        },
         { name: 'tauy', type: NC_FLOAT, dimensions: ['time', 'lat', 'lon'] },
       ],
       attributes: { title: 'fuzz wind' },
@@ -135,7 +285,10 @@ async function makeSamples(): Promise<void> {
   const restart = await writeRestart(m, { scenarioJson: sc.scenarioJson });
   const dir = mkdtempSync(join(tmpdir(), 'pycno-fuzz-nc-'));
   writeFileSync(join(dir, 'tiny.json'), FIXTURE_TEXT);
-  const r = await cli(['run', 'tiny.json', '--out', 'run.nc', '--quiet', '--days', '2', '--set', 'basin.resolution=2'], dir);
+  const r = await cli(
+    ['run', 'tiny.json', '--out', 'run.nc', '--quiet', '--days', '2', '--set', 'basin.resolution=2'],
+    dir,
+  );
   if (r.code !== 0) throw new Error(r.stderr);
   const { readFileSync } = await import('node:fs');
   const run = new Uint8Array(readFileSync(join(dir, 'run.nc')));
@@ -163,13 +316,30 @@ type NcMutation =
   | { kind: 'magic'; value: number }
   | { kind: 'nan'; at: number; which: number };
 
-const ABSURD = [0, 1, 0x7fffffff, 0x80000000, 0xffffffff, 0xfffffffe, 1e9 >>> 0, 65536, 3, 0x0000000a, 0x0000000b, 0x0000000c];
+const ABSURD = [
+  0,
+  1,
+  0x7fffffff,
+  0x80000000,
+  0xffffffff,
+  0xfffffffe,
+  1e9 >>> 0,
+  65536,
+  3,
+  0x0000000a,
+  0x0000000b,
+  0x0000000c,
+];
 
 const ncMutation: fc.Arbitrary<NcMutation[]> = fc.array(
   fc.oneof(
     fc.record({ kind: fc.constant('cut' as const), at: fc.nat() }),
     fc.record({ kind: fc.constant('byte' as const), at: fc.nat(), value: fc.nat(255) }),
-    fc.record({ kind: fc.constant('u32' as const), at: fc.nat(), value: fc.oneof(fc.constantFrom(...ABSURD), fc.nat()) }),
+    fc.record({
+      kind: fc.constant('u32' as const),
+      at: fc.nat(),
+      value: fc.oneof(fc.constantFrom(...ABSURD), fc.nat()),
+    }),
     fc.record({ kind: fc.constant('magic' as const), value: fc.constantFrom(0, 3, 5, 0x89, 255) }),
     fc.record({ kind: fc.constant('nan' as const), at: fc.nat(), which: fc.nat(3) }),
   ),
@@ -183,10 +353,15 @@ function mutateNc(src: Uint8Array, muts: NcMutation[], headerBias: boolean): Uin
     const dv = new DataView(b.buffer, b.byteOffset, b.byteLength);
     if (m.kind === 'cut') b = b.slice(0, m.at % (b.length + 1));
     else if (m.kind === 'byte' && b.length) b[m.at % Math.min(span, b.length)] = m.value;
-    else if (m.kind === 'u32' && b.length >= 4) dv.setUint32(4 * ((m.at % Math.min(span, b.length)) >> 2) - (4 * ((m.at % Math.min(span, b.length)) >> 2) + 4 > b.length ? 4 : 0), m.value);
+    else if (m.kind === 'u32' && b.length >= 4)
+      dv.setUint32(
+        4 * ((m.at % Math.min(span, b.length)) >> 2) -
+          (4 * ((m.at % Math.min(span, b.length)) >> 2) + 4 > b.length ? 4 : 0),
+        m.value,
+      );
     else if (m.kind === 'magic' && b.length >= 4) b[3] = m.value;
     else if (m.kind === 'nan' && b.length >= 8) {
-      const at = b.length - 8 - (8 * (m.at % Math.max(1, (b.length >> 3) - 1)));
+      const at = b.length - 8 - 8 * (m.at % Math.max(1, (b.length >> 3) - 1));
       if (at >= 0) dv.setFloat64(at, [NaN, Infinity, -Infinity, 1e308][m.which]);
     }
   }
@@ -196,7 +371,12 @@ function mutateNc(src: Uint8Array, muts: NcMutation[], headerBias: boolean): Uin
 function netcdfCase(bytes: Uint8Array): void {
   // Every reader a file can reach: the generic one, wind data, restart / start files, the run library.
   const errors: unknown[] = [];
-  for (const read of [() => readNetcdf(bytes), () => readNetcdfVectors(bytes), () => readStartFile(bytes, GRID, 'fuzz.nc'), () => readRun(bytes, 'fuzz.nc')]) {
+  for (const read of [
+    () => readNetcdf(bytes),
+    () => readNetcdfVectors(bytes),
+    () => readStartFile(bytes, GRID, 'fuzz.nc'),
+    () => readRun(bytes, 'fuzz.nc'),
+  ]) {
     try {
       read();
     } catch (e) {
@@ -205,7 +385,9 @@ function netcdfCase(bytes: Uint8Array): void {
   }
   // Throw the least clear failure, so the judge sees it.
   // Each reader may refuse a file meant for another; only an unclear failure counts against it.
-  const bad = errors.find((e) => !(e instanceof Error) || !['NetcdfReadError', 'InputError', 'ForcingError', 'RunFileError'].includes(e.name));
+  const bad = errors.find(
+    (e) => !(e instanceof Error) || !['NetcdfReadError', 'InputError', 'ForcingError', 'RunFileError'].includes(e.name),
+  );
   if (bad) throw bad;
   // Counted as refused when even the generic reader refused it.
   if (errors.length === 4) throw errors[0];
@@ -220,21 +402,35 @@ describe('fuzz: hostile formulas, painted grids, CSV and NetCDF files', () => {
   });
 
   it('formulas: compiled or refused with a FormulaError; never eval, never a crash', () => {
-    check('formula', fuzzSeed('formula', 8102), runs('formula', 3000), formula, (src) => runCase('formula', () => formulaCase(src), src));
+    check('formula', fuzzSeed('formula', 8102), runs('formula', 3000), formula, (src) =>
+      runCase('formula', () => formulaCase(src), src),
+    );
   });
 
   it('painted grids: a series or a clear error', () => {
-    check('painted', fuzzSeed('painted', 8103), runs('painted', 1000), paintedGrid, (g) => runCase('painted', () => void seriesFromGrid(g as GriddedVectors)));
+    check('painted', fuzzSeed('painted', 8103), runs('painted', 1000), paintedGrid, (g) =>
+      runCase('painted', () => void seriesFromGrid(g as GriddedVectors)),
+    );
   });
 
   it('CSV wind files: a series or a clear error naming the line', () => {
-    check('csv', fuzzSeed('csv', 8104), runs('csv', 1500), csv, (text) => runCase('csv', () => void parseWindCsv(text), text), (t) => t.slice(0, 1500));
+    check(
+      'csv',
+      fuzzSeed('csv', 8104),
+      runs('csv', 1500),
+      csv,
+      (text) => runCase('csv', () => void parseWindCsv(text), text),
+      (t) => t.slice(0, 1500),
+    );
   });
 
   it('NetCDF files cut at every header offset and at sampled data offsets', () => {
     for (const s of SAMPLES) {
       const head = Math.min(s.bytes.length, 4096);
-      const cuts = [...Array.from({ length: head }, (_, k) => k), ...Array.from({ length: 64 }, (_, k) => Math.floor(head + ((s.bytes.length - head) * k) / 64))];
+      const cuts = [
+        ...Array.from({ length: head }, (_, k) => k),
+        ...Array.from({ length: 64 }, (_, k) => Math.floor(head + ((s.bytes.length - head) * k) / 64)),
+      ];
       for (const at of cuts) {
         const p = runCase('netcdf-cut', () => netcdfCase(s.bytes.subarray(0, at)), s.bytes.subarray(0, at));
         if (p) throw new Error(`${s.name} cut at byte ${at}: ${p}`);
@@ -244,9 +440,16 @@ describe('fuzz: hostile formulas, painted grids, CSV and NetCDF files', () => {
 
   it('NetCDF files with overwritten bytes, absurd lengths and counts, wrong magic, NaN/Inf data', () => {
     const arb = fc.record({ sample: fc.nat(SAMPLES.length - 1), muts: ncMutation, header: fc.boolean() });
-    check('netcdf', fuzzSeed('netcdf', 8105), runs('netcdf', 2500), arb, ({ sample, muts, header }) => {
-      const bytes = mutateNc(SAMPLES[sample].bytes, muts, header);
-      return runCase('netcdf', () => netcdfCase(bytes), bytes);
-    }, (x) => `${SAMPLES[x.sample].name} ${JSON.stringify(x.muts)} header=${x.header}`);
+    check(
+      'netcdf',
+      fuzzSeed('netcdf', 8105),
+      runs('netcdf', 2500),
+      arb,
+      ({ sample, muts, header }) => {
+        const bytes = mutateNc(SAMPLES[sample].bytes, muts, header);
+        return runCase('netcdf', () => netcdfCase(bytes), bytes);
+      },
+      (x) => `${SAMPLES[x.sample].name} ${JSON.stringify(x.muts)} header=${x.header}`,
+    );
   });
 });

@@ -31,7 +31,8 @@ function paths(v: unknown, at: Path = [], out: Path[] = []): Path[] {
   out.push(at);
   if (at.length > 12 || out.length > 5000) return out;
   if (Array.isArray(v)) v.slice(0, 50).forEach((x, k) => paths(x, [...at, k], out));
-  else if (v && typeof v === 'object') for (const k of Object.keys(v)) paths((v as Record<string, unknown>)[k], [...at, k], out);
+  else if (v && typeof v === 'object')
+    for (const k of Object.keys(v)) paths((v as Record<string, unknown>)[k], [...at, k], out);
   return out;
 }
 
@@ -51,7 +52,10 @@ interface Op {
 const op: fc.Arbitrary<Op> = fc.record({
   kind: fc.constantFrom('set', 'set', 'set', 'delete', 'add', 'wrap', 'repeat'),
   sel: fc.nat(),
-  key: fc.oneof(fc.constantFrom('__proto__', 'constructor', 'extra', 'kind', 'x', '$schema', ''), fc.string({ maxLength: 8 })),
+  key: fc.oneof(
+    fc.constantFrom('__proto__', 'constructor', 'extra', 'kind', 'x', '$schema', ''),
+    fc.string({ maxLength: 8 }),
+  ),
   value: hostileValue(),
 });
 
@@ -69,14 +73,16 @@ function mutate(text: string, ops: Op[]): unknown {
       else delete parent[key];
     } else if (o.kind === 'add') {
       const target = parent[key];
-      if (target && typeof target === 'object' && !Array.isArray(target)) Object.defineProperty(target, o.key, { value: o.value, enumerable: true, writable: true, configurable: true });
+      if (target && typeof target === 'object' && !Array.isArray(target))
+        Object.defineProperty(target, o.key, { value: o.value, enumerable: true, writable: true, configurable: true });
       else if (Array.isArray(target)) target.push(o.value);
     } else if (o.kind === 'wrap') parent[key] = [[[[parent[key]]]]];
     else if (o.kind === 'repeat') {
       // Copies, not shared references: later ops must not multiply through them.
       const one = JSON.stringify(parent[key] ?? null);
       const n = one.length > 1000 ? 3 : 500;
-      if (JSON.stringify(root).length + n * one.length < 4_000_000) parent[key] = Array.from({ length: n }, () => JSON.parse(one));
+      if (JSON.stringify(root).length + n * one.length < 4_000_000)
+        parent[key] = Array.from({ length: n }, () => JSON.parse(one));
     }
   }
   return root.doc;
@@ -92,7 +98,25 @@ const trick: fc.Arbitrary<TextTrick> = fc.record({
   kind: fc.constantFrom('none', 'none', 'number', 'number', 'cut', 'insert', 'duplicate', 'bom', 'comment', 'noise'),
   at: fc.nat(),
   with: fc.oneof(
-    fc.constantFrom('NaN', 'Infinity', '-Infinity', '1e999', '-1e999', '1e-999', '0x1F', '.5', '1.', '+1', '01', '-', '1e', '"', '\\u0000', 'null', 'true'),
+    fc.constantFrom(
+      'NaN',
+      'Infinity',
+      '-Infinity',
+      '1e999',
+      '-1e999',
+      '1e-999',
+      '0x1F',
+      '.5',
+      '1.',
+      '+1',
+      '01',
+      '-',
+      '1e',
+      '"',
+      '\\u0000',
+      'null',
+      'true',
+    ),
     fc.string({ maxLength: 6 }),
     fc.string({ unit: 'binary', maxLength: 6 }),
   ),
@@ -148,7 +172,12 @@ function scenarioCase(text: string, name = 'fuzz.json'): void {
 }
 
 const scenarioText = fc
-  .record({ base: fc.nat(BASES.length - 1), ops: fc.array(op, { minLength: 0, maxLength: 4 }), trick, small: fc.boolean() })
+  .record({
+    base: fc.nat(BASES.length - 1),
+    ops: fc.array(op, { minLength: 0, maxLength: 4 }),
+    trick,
+    small: fc.boolean(),
+  })
   .map(({ base, ops, trick: t, small }) => {
     // Most cases keep the basin small, so they get past validation into the builder.
     let text = BASES[base];
@@ -164,6 +193,13 @@ const scenarioText = fc
 describe('fuzz: hostile scenario files', () => {
   afterAll(() => printTally('scenario'));
   it('mutated scenarios: a clear input error or a model that builds and steps', () => {
-    check('scenario', fuzzSeed('scenario', 8101), Number(process.env.PYCNO_FUZZ_SCENARIOS ?? 3000), scenarioText, (text) => runCase('scenario', () => scenarioCase(text), text), (t) => (t.length > 3000 ? `${t.slice(0, 3000)}... (${t.length} chars)` : t));
+    check(
+      'scenario',
+      fuzzSeed('scenario', 8101),
+      Number(process.env.PYCNO_FUZZ_SCENARIOS ?? 3000),
+      scenarioText,
+      (text) => runCase('scenario', () => scenarioCase(text), text),
+      (t) => (t.length > 3000 ? `${t.slice(0, 3000)}... (${t.length} chars)` : t),
+    );
   });
 });

@@ -52,7 +52,19 @@ function refusedFast(text: string): string[] {
 /** 100,000 unknown keys: 9,000 in each of eleven objects (the top level and ten sections), under the 10,000-per-object cap. */
 function spreadKeys(total: number): Record<string, any> {
   const s = base();
-  const places = [s, s.basin, s.physics, s.time, s.wind, s.hovmoller, s.wind.parts[0], s.wind.parts[0].source, s.wind.parts[0].envelope, s.probes[0], s.probes[1]];
+  const places = [
+    s,
+    s.basin,
+    s.physics,
+    s.time,
+    s.wind,
+    s.hovmoller,
+    s.wind.parts[0],
+    s.wind.parts[0].source,
+    s.wind.parts[0].envelope,
+    s.probes[0],
+    s.probes[1],
+  ];
   for (let k = 0; k < total; k++) places[k % places.length][`extra${k}`] = k;
   return s;
 }
@@ -61,8 +73,12 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
   it('100,000 unknown keys spread over eleven objects: refused within the bound, 20 lines and the count', () => {
     const lines = refusedFast(JSON.stringify(spreadKeys(100_000)));
     expect(lines).toHaveLength(MAX_ISSUE_LINES + 1);
-    expect(lines[MAX_ISSUE_LINES]).toBe('... and 99,980 more problems (100,000 in all); fix the first ones and check again');
-    expect(lines[0]).toMatch(/^many\.json: line 1: [\w.[\]]*extra\d+: unknown key 'extra\d+' (at the top level|in [\w.[\]]+); did you mean|\(allowed: /);
+    expect(lines[MAX_ISSUE_LINES]).toBe(
+      '... and 99,980 more problems (100,000 in all); fix the first ones and check again',
+    );
+    expect(lines[0]).toMatch(
+      /^many\.json: line 1: [\w.[\]]*extra\d+: unknown key 'extra\d+' (at the top level|in [\w.[\]]+); did you mean|\(allowed: /,
+    );
   });
 
   it('100,000 and 300,000 keys in one object (300,000 overflowed the stack): refused by the per-object cap', () => {
@@ -70,7 +86,9 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
       const s = base();
       for (let k = 0; k < n; k++) s.physics[`k${k}`] = k;
       const lines = refusedFast(JSON.stringify(s));
-      expect(lines).toEqual([`many.json: line 1: physics: the object holds ${(n + 3).toLocaleString('en-US')} keys; at most 10,000 (a scenario's objects have a few dozen)`]);
+      expect(lines).toEqual([
+        `many.json: line 1: physics: the object holds ${(n + 3).toLocaleString('en-US')} keys; at most 10,000 (a scenario's objects have a few dozen)`,
+      ]);
     }
   });
 
@@ -79,7 +97,9 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
     for (let k = 0; k < 9_990; k++) s.physics[`extra${k}`] = k;
     const lines = refusedFast(JSON.stringify(s, null, 1));
     expect(lines.at(-1)).toBe('... and 9,970 more problems (9,990 in all); fix the first ones and check again');
-    expect(lines[0]).toMatch(/physics\.extra0: unknown key 'extra0' in physics \(allowed: reducedGravity, layerThickness/);
+    expect(lines[0]).toMatch(
+      /physics\.extra0: unknown key 'extra0' in physics \(allowed: reducedGravity, layerThickness/,
+    );
   });
 
   it('a thousand wind parts with a hundred unknown keys each (the validator alone would overflow): every key counted', () => {
@@ -108,7 +128,9 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
   it('lists: 1,001 wind parts, 1,001 probes refused at once; 10,000 wind parts of a wrong kind (the validator overflowed) too', () => {
     const s = base();
     s.wind.parts = Array.from({ length: 1001 }, () => structuredClone(s.wind.parts[0]));
-    expect(refusedFast(JSON.stringify(s))).toEqual(['many.json: line 1: wind.parts: holds 1001 items with objects among them; a list of objects (wind parts, land shapes, probes) holds at most 1000']);
+    expect(refusedFast(JSON.stringify(s))).toEqual([
+      'many.json: line 1: wind.parts: holds 1001 items with objects among them; a list of objects (wind parts, land shapes, probes) holds at most 1000',
+    ]);
     const p = base();
     p.probes = Array.from({ length: 1001 }, (_, k) => ({ name: `p${k}`, lon: 160, lat: 0 }));
     expect(refusedFast(JSON.stringify(p))[0]).toMatch(/probes: holds 1001 items with objects among them/);
@@ -121,7 +143,9 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
     const s = base();
     s.wind.parts = Array.from({ length: 1000 }, () => ({ ...structuredClone(s.wind.parts[0]), kind: 'fixd' }));
     const lines = refusedFast(JSON.stringify(s));
-    expect(lines[0]).toMatch(/wind\.parts\[0\]\.kind: unknown kind "fixd"; allowed: 'fixed', 'bursts', 'answering'; did you mean 'fixed'\?$/);
+    expect(lines[0]).toMatch(
+      /wind\.parts\[0\]\.kind: unknown kind "fixd"; allowed: 'fixed', 'bursts', 'answering'; did you mean 'fixed'\?$/,
+    );
     expect(lines.at(-1)).toBe('... and 980 more problems (1,000 in all); fix the first ones and check again');
   });
 
@@ -129,7 +153,10 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
     // Handed over as an object (the page's edited scenario), so no text limit applies: 1,000 land
     // polygons of 200 corners, every corner text instead of numbers.
     const s = base();
-    s.basin.land = Array.from({ length: 1000 }, () => ({ kind: 'polygon', points: Array.from({ length: 200 }, () => ['a', 'b']) }));
+    s.basin.land = Array.from({ length: 1000 }, () => ({
+      kind: 'polygon',
+      points: Array.from({ length: 200 }, () => ['a', 'b']),
+    }));
     const { ms, error } = cpu(() => {
       const r = validateScenario(s);
       expect(r.ok).toBe(false);
@@ -137,7 +164,9 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
       expect(lines[0]).toMatch(/^basin\.land\[0\]/);
       expect(lines.length).toBeLessThanOrEqual(MAX_ISSUE_LINES + 2);
       expect(lines[0]).toBe('basin.land[0].points[0][0]: must be a number (got string "a"); longitude, degrees east');
-      expect(lines.at(-1)).toBe('... and more: so many values are wrong that the schema check stopped at the first problem in each part; fix these and check again');
+      expect(lines.at(-1)).toBe(
+        '... and more: so many values are wrong that the schema check stopped at the first problem in each part; fix these and check again',
+      );
     });
     expect(error).toBeNull();
     expect(ms).toBeLessThan(CASE_BOUND_MS);
@@ -147,10 +176,15 @@ describe('unknown keys: linear, and the same capped list everywhere', () => {
     const s = base();
     let deep: Record<string, unknown> = {};
     s.physics.deep = deep;
-    for (let k = 0; k < 100_000; k++) deep = (deep.a = {}) as Record<string, unknown>;
+    for (let k = 0; k < 100_000; k++) {
+      deep.a = {};
+      deep = deep.a as Record<string, unknown>;
+    }
     const r = validateScenario(s);
     expect(r.ok).toBe(false);
-    expect((r as { errors: ScenarioIssue[] }).errors[0].message).toBe('nested deeper than 64 levels; a scenario needs only a few');
+    expect((r as { errors: ScenarioIssue[] }).errors[0].message).toBe(
+      'nested deeper than 64 levels; a scenario needs only a few',
+    );
   });
 });
 
@@ -173,7 +207,10 @@ describe('the page and the command line show the same list', () => {
     const r = pycno(dir, ['check', 'many.json']);
     expect(r.code).toBe(2);
     noInternals(r);
-    const cliLines = r.stderr.trimEnd().split('\n').map((l) => l.replace(/^pycno: /, ''));
+    const cliLines = r.stderr
+      .trimEnd()
+      .split('\n')
+      .map((l) => l.replace(/^pycno: /, ''));
     const page = ScenarioPanel.checkText(text, 'many.json');
     expect(page.ok).toBe(false);
     expect((page as { lines: string[] }).lines).toEqual(cliLines);
@@ -186,11 +223,14 @@ describe('the page and the command line show the same list', () => {
     const r = pycno(dir, ['check', 'tiny.json', '--set', long]);
     expect(r.code).toBe(2);
     noInternals(r);
-    for (const line of r.stderr.trimEnd().split('\n')) expect(line.length).toBeLessThanOrEqual(MAX_LINE_CHARS + 'pycno: '.length);
+    for (const line of r.stderr.trimEnd().split('\n'))
+      expect(line.length).toBeLessThanOrEqual(MAX_LINE_CHARS + 'pycno: '.length);
     expect(r.stderr).toMatch(/unknown key 'x+ \.\.\. x+ \(40,000 characters\)' in physics/);
     expect(r.stderr.length).toBeLessThan(1000);
     // A line that is long for other reasons is cut at the cap, saying so.
-    expect(issueListLines([{ path: 'p', message: 'y'.repeat(50_000) }])[0]).toMatch(/^p: y+ \.\.\. \(46,\d{3} more characters not shown\)$/);
+    expect(issueListLines([{ path: 'p', message: 'y'.repeat(50_000) }])[0]).toMatch(
+      /^p: y+ \.\.\. \(46,\d{3} more characters not shown\)$/,
+    );
     expect(issueListLines([{ path: 'p', message: 'y'.repeat(50_000) }])[0].length).toBeLessThanOrEqual(MAX_LINE_CHARS);
   });
 

@@ -21,7 +21,12 @@ let html: string;
 
 beforeAll(async () => {
   outDir = mkdtempSync(join(tmpdir(), 'pycno-policy-'));
-  await build({ root: join(ROOT, 'viewer'), configFile: join(ROOT, 'vite.config.ts'), logLevel: 'error', build: { outDir, emptyOutDir: true } });
+  await build({
+    root: join(ROOT, 'viewer'),
+    configFile: join(ROOT, 'vite.config.ts'),
+    logLevel: 'error',
+    build: { outDir, emptyOutDir: true },
+  });
   html = readFileSync(join(outDir, 'index.html'), 'utf8');
 }, 120_000);
 afterAll(() => rmSync(outDir, { recursive: true, force: true }));
@@ -39,7 +44,12 @@ function directives(policy: string): Map<string, string> {
 
 /** The meta policies of an HTML text, attribute entities decoded. */
 function metaPolicies(text: string): string[] {
-  return [...text.matchAll(/<meta\s+http-equiv="Content-Security-Policy"\s+content="([^"]*)"\s*\/?>/gi)].map((m) => m[1].replace(/&#39;/g, "'").replace(/&quot;/g, '"').replace(/&amp;/g, '&'));
+  return [...text.matchAll(/<meta\s+http-equiv="Content-Security-Policy"\s+content="([^"]*)"\s*\/?>/gi)].map((m) =>
+    m[1]
+      .replace(/&#39;/g, "'")
+      .replace(/&quot;/g, '"')
+      .replace(/&amp;/g, '&'),
+  );
 }
 
 describe('the built page carries its policy', () => {
@@ -67,7 +77,16 @@ describe('the built page carries its policy', () => {
       else expect(meta.get(d), d).toBe(v);
     }
     expect(header.get('frame-ancestors')).toBe("'none'");
-    expect([...meta.keys()]).toEqual(['default-src', 'script-src', 'worker-src', 'style-src', 'img-src', 'object-src', 'base-uri', 'form-action']);
+    expect([...meta.keys()]).toEqual([
+      'default-src',
+      'script-src',
+      'worker-src',
+      'style-src',
+      'img-src',
+      'object-src',
+      'base-uri',
+      'form-action',
+    ]);
   });
 
   it("regl's 'unsafe-eval' is in both, as settled (docs/reliability.md); nothing inline is allowed", () => {
@@ -79,7 +98,10 @@ describe('the built page carries its policy', () => {
 
   it('the preview server sends the whole policy as a header, the dev server the same with inline styles for its injected CSS', () => {
     expect(servedPolicy).toBe(pagePolicy);
-    const config = viteConfig as { preview?: { headers?: Record<string, string> }; server?: { headers?: Record<string, string> } };
+    const config = viteConfig as {
+      preview?: { headers?: Record<string, string> };
+      server?: { headers?: Record<string, string> };
+    };
     expect(config.preview?.headers?.['Content-Security-Policy']).toBe(pagePolicy);
     expect(config.server?.headers?.['Content-Security-Policy']).toBe(devPolicy);
     expect(devPolicy).toBe(pagePolicy.replace("style-src 'self'", "style-src 'self' 'unsafe-inline'"));
@@ -88,53 +110,79 @@ describe('the built page carries its policy', () => {
 
 const missing = chromiumMissing();
 
-describe.skipIf(missing !== null)('on a static host that sends no policy header, the meta policy is in force (Chromium)', () => {
-  let server: Server;
-  let url: string;
-  const types: Record<string, string> = { '.html': 'text/html', '.js': 'text/javascript', '.css': 'text/css', '.wasm': 'application/wasm', '.json': 'application/json', '.map': 'application/json' };
+describe.skipIf(missing !== null)(
+  'on a static host that sends no policy header, the meta policy is in force (Chromium)',
+  () => {
+    let server: Server;
+    let url: string;
+    const types: Record<string, string> = {
+      '.html': 'text/html',
+      '.js': 'text/javascript',
+      '.css': 'text/css',
+      '.wasm': 'application/wasm',
+      '.json': 'application/json',
+      '.map': 'application/json',
+    };
 
-  beforeAll(async () => {
-    server = createServer((req, res) => {
-      const path = normalize(decodeURIComponent((req.url ?? '/').split('?')[0])).replace(/^(\.\.[/\\])+/, '');
-      const file = join(outDir, path === '/' ? 'index.html' : path);
+    beforeAll(async () => {
+      server = createServer((req, res) => {
+        const path = normalize(decodeURIComponent((req.url ?? '/').split('?')[0])).replace(/^(\.\.[/\\])+/, '');
+        const file = join(outDir, path === '/' ? 'index.html' : path);
+        try {
+          const body = readFileSync(file);
+          res.writeHead(200, { 'Content-Type': types[extname(file)] ?? 'application/octet-stream' });
+          res.end(body);
+        } catch {
+          res.writeHead(404);
+          res.end();
+        }
+      });
+      await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
+      url = `http://127.0.0.1:${(server.address() as { port: number }).port}/`;
+    });
+    afterAll(() => new Promise<void>((r) => server.close(() => r())));
+
+    it('an inline script added to the page is refused by the policy of the meta tag, and no header policy exists', async () => {
+      const res = await fetch(url);
+      expect(res.headers.get('content-security-policy')).toBeNull();
+      expect(readdirSync(join(outDir, 'assets')).some((f) => f.endsWith('.js'))).toBe(true);
+      const browser = await launch();
       try {
-        const body = readFileSync(file);
-        res.writeHead(200, { 'Content-Type': types[extname(file)] ?? 'application/octet-stream' });
-        res.end(body);
-      } catch {
-        res.writeHead(404);
-        res.end();
+        const page = await browser.newPage();
+        await page.goto(url);
+        const seen = await page.evaluate(
+          () =>
+            new Promise<{ ran: boolean; directive: string; policy: string; disposition: string }>((resolve) => {
+              document.addEventListener('securitypolicyviolation', (e) =>
+                resolve({
+                  ran: (window as unknown as { __inline?: number }).__inline === 1,
+                  directive: e.effectiveDirective,
+                  policy: e.originalPolicy,
+                  disposition: e.disposition,
+                }),
+              );
+              const s = document.createElement('script');
+              s.textContent = 'window.__inline = 1';
+              document.head.append(s);
+              setTimeout(
+                () =>
+                  resolve({
+                    ran: (window as unknown as { __inline?: number }).__inline === 1,
+                    directive: 'none',
+                    policy: '',
+                    disposition: '',
+                  }),
+                3000,
+              );
+            }),
+        );
+        expect(seen.ran).toBe(false);
+        expect(seen.directive).toBe('script-src-elem');
+        expect(seen.policy).toBe(metaPolicy);
+        expect(seen.disposition).toBe('enforce');
+      } finally {
+        await browser.close();
       }
     });
-    await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
-    url = `http://127.0.0.1:${(server.address() as { port: number }).port}/`;
-  });
-  afterAll(() => new Promise<void>((r) => server.close(() => r())));
-
-  it('an inline script added to the page is refused by the policy of the meta tag, and no header policy exists', async () => {
-    const res = await fetch(url);
-    expect(res.headers.get('content-security-policy')).toBeNull();
-    expect(readdirSync(join(outDir, 'assets')).some((f) => f.endsWith('.js'))).toBe(true);
-    const browser = await launch();
-    try {
-      const page = await browser.newPage();
-      await page.goto(url);
-      const seen = await page.evaluate(
-        () =>
-          new Promise<{ ran: boolean; directive: string; policy: string; disposition: string }>((resolve) => {
-            document.addEventListener('securitypolicyviolation', (e) => resolve({ ran: (window as unknown as { __inline?: number }).__inline === 1, directive: e.effectiveDirective, policy: e.originalPolicy, disposition: e.disposition }));
-            const s = document.createElement('script');
-            s.textContent = 'window.__inline = 1';
-            document.head.append(s);
-            setTimeout(() => resolve({ ran: (window as unknown as { __inline?: number }).__inline === 1, directive: 'none', policy: '', disposition: '' }), 3000);
-          }),
-      );
-      expect(seen.ran).toBe(false);
-      expect(seen.directive).toBe('script-src-elem');
-      expect(seen.policy).toBe(metaPolicy);
-      expect(seen.disposition).toBe('enforce');
-    } finally {
-      await browser.close();
-    }
-  });
-});
+  },
+);

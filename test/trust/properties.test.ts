@@ -29,8 +29,20 @@ const basin = fc
     res: fc.constantFrom(0.5, 1, 2),
     land: fc.array(
       fc.oneof(
-        fc.record({ kind: fc.constant('rectangle'), a: fc.double({ min: 0, max: 0.9, noNaN: true }), b: fc.double({ min: 0.05, max: 0.6, noNaN: true }), c: fc.double({ min: 0, max: 0.9, noNaN: true }), d: fc.double({ min: 0.05, max: 0.6, noNaN: true }) }),
-        fc.record({ kind: fc.constant('polygon'), pts: fc.array(fc.tuple(fc.double({ min: 0, max: 1, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true })), { minLength: 3, maxLength: 6 }) }),
+        fc.record({
+          kind: fc.constant('rectangle'),
+          a: fc.double({ min: 0, max: 0.9, noNaN: true }),
+          b: fc.double({ min: 0.05, max: 0.6, noNaN: true }),
+          c: fc.double({ min: 0, max: 0.9, noNaN: true }),
+          d: fc.double({ min: 0.05, max: 0.6, noNaN: true }),
+        }),
+        fc.record({
+          kind: fc.constant('polygon'),
+          pts: fc.array(
+            fc.tuple(fc.double({ min: 0, max: 1, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true })),
+            { minLength: 3, maxLength: 6 },
+          ),
+        }),
       ),
       { maxLength: 2 },
     ),
@@ -48,7 +60,13 @@ const basin = fc
       resolution: res,
       land: land.map((s) =>
         s.kind === 'rectangle'
-          ? { kind: 'rectangle', lonWest: lon(s.a), lonEast: lon(Math.min(1, s.a + s.b)), latSouth: lat(s.c), latNorth: lat(Math.min(1, s.c + s.d)) }
+          ? {
+              kind: 'rectangle',
+              lonWest: lon(s.a),
+              lonEast: lon(Math.min(1, s.a + s.b)),
+              latSouth: lat(s.c),
+              latNorth: lat(Math.min(1, s.c + s.d)),
+            }
           : { kind: 'polygon', points: s.pts.map(([x, y]) => [lon(x), lat(y)]) },
       ),
     };
@@ -64,20 +82,60 @@ const physics = fc.record({
 
 const wind = fc.oneof(
   fc.constant([]),
-  fc.record({ x: fc.double({ min: -0.05, max: 0.05, noNaN: true }), y: fc.double({ min: -0.02, max: 0.02, noNaN: true }), pulse: fc.boolean() }).map(({ x, y, pulse }) => [
-    { kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'uniform' }, x, y }, envelope: pulse ? { kind: 'pulse', start: 0, duration: 2, ramp: 0.5 } : { kind: 'constant' } },
+  fc
+    .record({
+      x: fc.double({ min: -0.05, max: 0.05, noNaN: true }),
+      y: fc.double({ min: -0.02, max: 0.02, noNaN: true }),
+      pulse: fc.boolean(),
+    })
+    .map(({ x, y, pulse }) => [
+      {
+        kind: 'fixed',
+        quantity: 'stress',
+        source: { kind: 'shaped', shape: { kind: 'uniform' }, x, y },
+        envelope: pulse ? { kind: 'pulse', start: 0, duration: 2, ramp: 0.5 } : { kind: 'constant' },
+      },
+    ]),
+  fc.constant([
+    {
+      kind: 'fixed',
+      quantity: 'stress',
+      source: {
+        kind: 'shaped',
+        shape: { kind: 'formula', expression: '0.02 * sin(lon / 7) * exp(-(lat / 5)^2)' },
+        x: 1,
+        y: 0,
+      },
+      envelope: { kind: 'constant' },
+    },
   ]),
-  fc.constant([{ kind: 'fixed', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'formula', expression: '0.02 * sin(lon / 7) * exp(-(lat / 5)^2)' }, x: 1, y: 0 }, envelope: { kind: 'constant' } }]),
 );
 
-function scenario(b: { lonWest: number; lonEast: number; latSouth: number; latNorth: number }, p: object, parts: readonly unknown[], bump: number, friction: boolean) {
+function scenario(
+  b: { lonWest: number; lonEast: number; latSouth: number; latNorth: number },
+  p: object,
+  parts: readonly unknown[],
+  bump: number,
+  friction: boolean,
+) {
   return {
     format: 'pycno-scenario/1',
     name: 'property',
     basin: { ...b, sponge: { widthDeg: 0 } },
-    physics: { ...p, frictionDays: friction ? 100 : null, entrainment: { minThickness: 1, timeDays: 1 }, surfaceLayer: { depth: 50, dampingDays: 2 } },
+    physics: {
+      ...p,
+      frictionDays: friction ? 100 : null,
+      entrainment: { minThickness: 1, timeDays: 1 },
+      surfaceLayer: { depth: 50, dampingDays: 2 },
+    },
     time: { days: 1, outputEveryDays: 1 },
-    initial: { kind: 'bump', lon: (b.lonWest + b.lonEast) / 2, lat: (b.latSouth + b.latNorth) / 2, radiusDeg: Math.max(1, (b.lonEast - b.lonWest) / 6), amplitude: bump },
+    initial: {
+      kind: 'bump',
+      lon: (b.lonWest + b.lonEast) / 2,
+      lat: (b.latSouth + b.latNorth) / 2,
+      radiusDeg: Math.max(1, (b.lonEast - b.lonWest) / 6),
+      amplitude: bump,
+    },
     wind: { parts },
     hovmoller: { lat: [(b.latSouth + b.latNorth) / 2] },
     seed: 1,
@@ -108,7 +166,10 @@ describe('properties of the model over random small basins', () => {
         const v0 = m.integrals().volume;
         m.advance(STEPS);
         const v1 = m.integrals().volume;
-        if (!(Math.abs(v1 - v0) <= 1e-12 * v0)) throw new Error(`volume drifted by ${((v1 - v0) / v0).toExponential(2)} of ${v0.toExponential(4)} m3\nscenario: ${show(scenario(b, p, parts, bump, true))}`);
+        if (!(Math.abs(v1 - v0) <= 1e-12 * v0))
+          throw new Error(
+            `volume drifted by ${((v1 - v0) / v0).toExponential(2)} of ${v0.toExponential(4)} m3\nscenario: ${show(scenario(b, p, parts, bump, true))}`,
+          );
       }),
       { seed: fuzzSeed('volume property', 8201), numRuns: runs },
     );
@@ -121,7 +182,9 @@ describe('properties of the model over random small basins', () => {
         if (!m) return;
         m.advance(STEPS);
         m.checkHealth();
-        for (const a of [m.state.u, m.state.v, m.state.h]) if (a.some((x) => !Number.isFinite(x))) throw new Error(`a non-finite value\nscenario: ${show(scenario(b, p, parts, bump, true))}`);
+        for (const a of [m.state.u, m.state.v, m.state.h])
+          if (a.some((x) => !Number.isFinite(x)))
+            throw new Error(`a non-finite value\nscenario: ${show(scenario(b, p, parts, bump, true))}`);
       }),
       { seed: fuzzSeed('finite property', 8202), numRuns: runs },
     );
@@ -141,7 +204,10 @@ describe('properties of the model over random small basins', () => {
         }
         const r = m.dt / m.limit.dtMax;
         const bound = 1 / (1 - r * r);
-        if (!(most <= bound * e0)) throw new Error(`energy grew to ${(most / e0).toFixed(4)} E0, above the bound ${bound.toFixed(3)} E0 (dt / limit = ${r.toFixed(3)})\nscenario: ${show(sc)}`);
+        if (!(most <= bound * e0))
+          throw new Error(
+            `energy grew to ${(most / e0).toFixed(4)} E0, above the bound ${bound.toFixed(3)} E0 (dt / limit = ${r.toFixed(3)})\nscenario: ${show(sc)}`,
+          );
       }),
       { seed: fuzzSeed('energy property', 8203), numRuns: runs },
     );

@@ -18,11 +18,13 @@ const EXPECTED: Record<string, RegExp> = {
   // RangeError (stack overflow) in the defaults walk and the schema validator.
   'scenario-deep-nesting.json': /^scenario-deep-nesting\.json: line 36, column \d+: nesting deeper than 64 levels/,
   // RangeError: the schema validator spreads one error per bad item into a push() call.
-  'scenario-many-wrong-items.json': /^scenario-many-wrong-items\.json: line 1: probes: holds 120000 items; at most 10000/,
+  'scenario-many-wrong-items.json':
+    /^scenario-many-wrong-items\.json: line 1: probes: holds 120000 items; at most 10000/,
   // A 94,000-character message of 500 lines.
   'scenario-500-problems.json': /^scenario-500-problems\.json: line 1: basin\.land\[0\]: must be an object/,
   // "internal error" and exit 1: a FormulaError was not recognised as bad input by the builder.
-  'scenario-formula-too-deep.json': /^scenario-formula-too-deep\.json: wind part 1 \('westerly patch'\): formula nested too deeply: more than 50 brackets at character 50/,
+  'scenario-formula-too-deep.json':
+    /^scenario-formula-too-deep\.json: wind part 1 \('westerly patch'\): formula nested too deeply: more than 50 brackets at character 50/,
   // Wind data read by netcdfjs without the bounds-checked header walk: RangeError, TypeError, RangeError.
   'netcdf-wind-dataview-range.nc': /^not a readable NetCDF classic file: (truncated|corrupt|unsupported)/,
   'netcdf-wind-bad-dimension-id.nc': /^not a readable NetCDF classic file: (truncated|corrupt|unsupported)/,
@@ -45,19 +47,29 @@ describe('regressions found by the fuzzers', () => {
   }
 
   it('a CSV value of a million digits is described, not quoted (the message was 1,000,044 characters)', () => {
-    const e = replayRegression('csv-long-value.csv', new TextEncoder().encode(`lon,lat,x,y\n${'9'.repeat(1_000_000)},0,0,0`)) as Error;
-    expect(e.message).toBe("CSV line 2, column 1 ('lon'): the value is too large for a number (a field of 1000000 characters)");
+    const e = replayRegression(
+      'csv-long-value.csv',
+      new TextEncoder().encode(`lon,lat,x,y\n${'9'.repeat(1_000_000)},0,0,0`),
+    ) as Error;
+    expect(e.message).toBe(
+      "CSV line 2, column 1 ('lon'): the value is too large for a number (a field of 1000000 characters)",
+    );
   });
 
   it('a painted grid with an object for a coordinate says what it got (the message said [object Object]); null is refused', async () => {
     const { seriesFromGrid } = await import('../../model/forcing/gridded.ts');
     const g = { lon0: { a: 1 }, lat0: 0, dLon: 1, dLat: 1, nLon: 1, nLat: 1, x: [0], y: [0] };
-    expect(() => seriesFromGrid(g as never)).toThrow('painted grid longitude: the first coordinate must be a finite number (got {"a":1})');
+    expect(() => seriesFromGrid(g as never)).toThrow(
+      'painted grid longitude: the first coordinate must be a finite number (got {"a":1})',
+    );
     expect(() => seriesFromGrid(null as never)).toThrow(/^painted grid: expected an object/);
   });
 
   it('500 problems: the first 20 lines and a count', () => {
-    const e = replayRegression('scenario-500-problems.json', new Uint8Array(readFileSync(DIR + 'scenario-500-problems.json'))) as Error;
+    const e = replayRegression(
+      'scenario-500-problems.json',
+      new Uint8Array(readFileSync(DIR + 'scenario-500-problems.json')),
+    ) as Error;
     const lines = e.message.split('\n');
     expect(lines).toHaveLength(21);
     expect(lines[20]).toBe('... and 480 more problems (500 in all); fix the first ones and check again');
@@ -65,7 +77,9 @@ describe('regressions found by the fuzzers', () => {
 
   it('a 20 M-character scenario (took 45 s to refuse) is refused at once, saying the limit', () => {
     const text = FIXTURE_TEXT.replace('"seed": 11', `"seed": 11, "notes": "${'x'.repeat(20 * 1024 * 1024)}"`);
-    expect(() => parseScenario(text, 'huge.json')).toThrow(/^huge\.json: the file is 20\.0 M characters long; a scenario file is at most 16 M/);
+    expect(() => parseScenario(text, 'huge.json')).toThrow(
+      /^huge\.json: the file is 20\.0 M characters long; a scenario file is at most 16 M/,
+    );
   });
 
   it('deep nesting handed over as an object (the page, not a text) is refused, not a stack overflow', () => {

@@ -41,7 +41,8 @@ describe('reproducibility through the command line', () => {
       // And the run is not trivially at rest (a comparison of zeros would prove little).
       const h = fa.variable('h_anom').values as Float64Array;
       expect(h.some((x) => x !== 0 && Math.abs(x) < 1e30)).toBe(true);
-      if (file === 'bursts.json') expect(JSON.parse(String(fa.attributes.pycno_bursts.value)).length).toBeGreaterThan(0);
+      if (file === 'bursts.json')
+        expect(JSON.parse(String(fa.attributes.pycno_bursts.value)).length).toBeGreaterThan(0);
     });
   }
 
@@ -53,7 +54,10 @@ describe('reproducibility through the command line', () => {
   });
 
   it('the file carries the program version and the SHA-256 of the exact scenario run (--set and --days in)', async () => {
-    const r = await cli(['run', 'tiny.json', '--out', 'hash.nc', '--days', '3', ...base, '--set', 'physics.reducedGravity=0.04'], dir);
+    const r = await cli(
+      ['run', 'tiny.json', '--out', 'hash.nc', '--days', '3', ...base, '--set', 'physics.reducedGravity=0.04'],
+      dir,
+    );
     expect(r.code, r.stderr).toBe(0);
     const f = readNc(join(dir, 'hash.nc'));
     expect(f.attributes.pycno_version.value).toBe(PACKAGE.version);
@@ -72,15 +76,24 @@ describe('reproducibility through the command line', () => {
 
 describe('pycno rerun', () => {
   it('repeats a run made with --set and --days: exit 0, every value matches; --out keeps the new file', async () => {
-    const r = await cli(['run', 'bursts.json', '--out', 'orig.nc', '--days', '4', ...base, '--set', 'physics.dynamics=nonlinear'], dir);
+    const r = await cli(
+      ['run', 'bursts.json', '--out', 'orig.nc', '--days', '4', ...base, '--set', 'physics.dynamics=nonlinear'],
+      dir,
+    );
     expect(r.code, r.stderr).toBe(0);
     const again = await cli(['rerun', 'orig.nc', '--out', 'again.nc'], dir);
     expect(again.stderr).toBe('');
     expect(again.code).toBe(0);
-    expect(again.stdout).toMatch(/^match +every value of \d+ variables .* 5 records\) is bit for bit the same as in orig\.nc/);
+    expect(again.stdout).toMatch(
+      /^match +every value of \d+ variables .* 5 records\) is bit for bit the same as in orig\.nc/,
+    );
     expect(differingVariables(readNc(join(dir, 'orig.nc')), readNc(join(dir, 'again.nc')))).toEqual([]);
     // As a user runs it, in a child process.
-    const child = spawnSync(process.execPath, [BIN, 'rerun', 'orig.nc'], { cwd: dir, encoding: 'utf8', timeout: 120_000 });
+    const child = spawnSync(process.execPath, [BIN, 'rerun', 'orig.nc'], {
+      cwd: dir,
+      encoding: 'utf8',
+      timeout: 120_000,
+    });
     expect(child.status, child.stderr).toBe(0);
   });
 
@@ -98,7 +111,12 @@ describe('pycno rerun', () => {
     // The float's bytes are unique enough in the u block; find them after the header.
     let at = -1;
     for (let p = bytes.length - 4; p > 0; p--) {
-      if (bytes[p] === needle[0] && bytes[p + 1] === needle[1] && bytes[p + 2] === needle[2] && bytes[p + 3] === needle[3]) {
+      if (
+        bytes[p] === needle[0] &&
+        bytes[p + 1] === needle[1] &&
+        bytes[p + 2] === needle[2] &&
+        bytes[p + 3] === needle[3]
+      ) {
         at = p;
         break;
       }
@@ -108,7 +126,9 @@ describe('pycno rerun', () => {
     writeFileSync(join(dir, 'tamper.nc'), bytes);
     const r = await cli(['rerun', 'tamper.nc'], dir);
     expect(r.code).toBe(1);
-    expect(r.stdout).toMatch(/^differs +\w+ at index \d+ \(time \d, lat \d+, lon \d+\): tamper\.nc has 123\.5, the rerun -?[\d.e-]+/);
+    expect(r.stdout).toMatch(
+      /^differs +\w+ at index \d+ \(time \d, lat \d+, lon \d+\): tamper\.nc has 123\.5, the rerun -?[\d.e-]+/,
+    );
   });
 
   it('an edited embedded scenario (hash mismatch), a foreign file, garbage, a missing file: exit 2, one line', async () => {
@@ -122,7 +142,13 @@ describe('pycno rerun', () => {
     writeFileSync(join(dir, 'edited.nc'), bytes);
     writeFileSync(join(dir, 'garbage.nc'), 'not a netcdf file at all');
     const { writeNetcdfToMemory } = await import('../../model/io/netcdf-writer.ts');
-    writeFileSync(join(dir, 'foreign.nc'), await writeNetcdfToMemory({ dimensions: [{ name: 'n', length: 2 }], variables: [{ name: 'c', type: NC_CHAR, dimensions: ['n'] }] }, { c: 'ab' }));
+    writeFileSync(
+      join(dir, 'foreign.nc'),
+      await writeNetcdfToMemory(
+        { dimensions: [{ name: 'n', length: 2 }], variables: [{ name: 'c', type: NC_CHAR, dimensions: ['n'] }] },
+        { c: 'ab' },
+      ),
+    );
     for (const [args, re] of [
       [['rerun', 'edited.nc'], /^pycno: edited\.nc: the embedded scenario does not match its hash/],
       [['rerun', 'garbage.nc'], /^pycno: garbage\.nc: cannot read the run file: not a NetCDF file/],

@@ -9,12 +9,14 @@ import { buildPrepared, loadInputs, mapReader, parseScenario } from '../../model
 import type { State } from '../../model/state.ts';
 import { withBursts } from '../support/trust-kit.ts';
 
-const bitsEqual = (a: Float64Array | Float32Array, b: Float64Array | Float32Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).equals(Buffer.from(b.buffer, b.byteOffset, b.byteLength));
+const bitsEqual = (a: Float64Array | Float32Array, b: Float64Array | Float32Array) =>
+  Buffer.from(a.buffer, a.byteOffset, a.byteLength).equals(Buffer.from(b.buffer, b.byteOffset, b.byteLength));
 
 function sameState(a: State, b: State): string[] {
   const bad: string[] = [];
   for (const k of ['u', 'v', 'h'] as const) if (!bitsEqual(a[k], b[k])) bad.push(k);
-  for (const k of ['du', 'dv', 'dh'] as const) for (const n of [0, 1]) if (!bitsEqual(a.history[k][n], b.history[k][n])) bad.push(`${k}[${n}]`);
+  for (const k of ['du', 'dv', 'dh'] as const)
+    for (const n of [0, 1]) if (!bitsEqual(a.history[k][n], b.history[k][n])) bad.push(`${k}[${n}]`);
   if (a.time !== b.time) bad.push('time');
   if (a.steps !== b.steps) bad.push('steps');
   if (a.historyCount !== b.historyCount) bad.push('historyCount');
@@ -72,6 +74,8 @@ describe('restart equivalence (2N = N + restart + N)', () => {
     sc.seed = 99;
     const cont = parseScenario(JSON.stringify(sc), '/runs/cont.json', ['basin.resolution=0.5']);
     const inputs = await loadInputs(cont, mapReader(new Map([['/runs/half.nc', bytes]])));
-    expect(inputs.notes.join('\n')).toMatch(/half\.nc was written by a run with other wind or seed \(seed 11, now 99\)/);
+    expect(inputs.notes.join('\n')).toMatch(
+      /half\.nc was written by a run with other wind or seed \(seed 11, now 99\)/,
+    );
   });
 });

@@ -27,7 +27,9 @@ beforeAll(() => {
 
 /** A run file whose embedded scenario is `sc` (hash matching: crafted, not damaged). */
 async function crafted(name: string, change: (sc: Record<string, any>) => void, into = dir): Promise<string> {
-  const sc = JSON.parse(String((await import('../../model/io/netcdf-read.ts')).readNetcdf(run).attributes.pycno_scenario.value));
+  const sc = JSON.parse(
+    String((await import('../../model/io/netcdf-read.ts')).readNetcdf(run).attributes.pycno_scenario.value),
+  );
   change(sc);
   writeFileSync(join(into, name), await edited(run, (f) => setScenario(f, JSON.stringify(sc, null, 2))));
   return name;
@@ -60,10 +62,20 @@ describe('pycno rerun: the embedded scenario names no file the user did not allo
     mkdirSync(sub);
     writeFileSync(join(dir, 'outside-restart.nc'), restart);
     symlinkSync('../outside-restart.nc', join(sub, 'inside-link.nc'));
-    const climb = await crafted('climb.nc', (sc) => (sc.initial = { kind: 'restart', path: '../outside-restart.nc' }), sub);
+    const climb = await crafted(
+      'climb.nc',
+      (sc) => (sc.initial = { kind: 'restart', path: '../outside-restart.nc' }),
+      sub,
+    );
     const link = await crafted('link.nc', (sc) => (sc.initial = { kind: 'restart', path: 'inside-link.nc' }), sub);
-    refusedWith(pycno(dir, ['rerun', `bundle/${climb}`, '--inputs', 'bundle']), /initial\.path: cannot read the restart file .*outside-restart\.nc: it lies outside --inputs bundle; only files inside that folder are read$/);
-    refusedWith(pycno(dir, ['rerun', `bundle/${link}`, '--inputs', 'bundle']), /initial\.path: cannot read the restart file .*inside-link\.nc: it lies outside --inputs bundle \(it leads to .*outside-restart\.nc\)/);
+    refusedWith(
+      pycno(dir, ['rerun', `bundle/${climb}`, '--inputs', 'bundle']),
+      /initial\.path: cannot read the restart file .*outside-restart\.nc: it lies outside --inputs bundle; only files inside that folder are read$/,
+    );
+    refusedWith(
+      pycno(dir, ['rerun', `bundle/${link}`, '--inputs', 'bundle']),
+      /initial\.path: cannot read the restart file .*inside-link\.nc: it lies outside --inputs bundle \(it leads to .*outside-restart\.nc\)/,
+    );
   });
 
   it('a wind file and a spin-up scenario named by absolute paths: refused without --inputs', async () => {
@@ -71,23 +83,42 @@ describe('pycno rerun: the embedded scenario names no file the user did not allo
     const wind = await crafted('wind-abs.nc', (sc) => {
       sc.wind.parts[0].source = { kind: 'file', format: 'csv', path: join(dir, 'tiny.json') };
     });
-    const spin = await crafted('spin-abs.nc', (sc) => (sc.initial = { kind: 'spinup', scenario: join(dir, 'spin.json') }));
-    refusedWith(pycno(dir, ['rerun', wind]), /^pycno: wind-abs\.nc#pycno_scenario: wind\.parts\[0\]\.source\.path: cannot read the wind file .*tiny\.json: the run file's scenario names this file/);
-    refusedWith(pycno(dir, ['rerun', spin]), /^pycno: spin-abs\.nc#pycno_scenario: initial\.scenario: cannot read the spin-up scenario .*spin\.json: the run file's scenario names this file/);
+    const spin = await crafted(
+      'spin-abs.nc',
+      (sc) => (sc.initial = { kind: 'spinup', scenario: join(dir, 'spin.json') }),
+    );
+    refusedWith(
+      pycno(dir, ['rerun', wind]),
+      /^pycno: wind-abs\.nc#pycno_scenario: wind\.parts\[0\]\.source\.path: cannot read the wind file .*tiny\.json: the run file's scenario names this file/,
+    );
+    refusedWith(
+      pycno(dir, ['rerun', spin]),
+      /^pycno: spin-abs\.nc#pycno_scenario: initial\.scenario: cannot read the spin-up scenario .*spin\.json: the run file's scenario names this file/,
+    );
   });
 
   it('an honest run from a restart: refused without --inputs (the path is named), a match with --inputs', () => {
-    const sc = { ...scenario, initial: { kind: 'restart', path: 'good-restart.nc' }, time: { ...scenario.time, days: 2 } };
+    const sc = {
+      ...scenario,
+      initial: { kind: 'restart', path: 'good-restart.nc' },
+      time: { ...scenario.time, days: 2 },
+    };
     writeFileSync(join(dir, 'cont.json'), JSON.stringify(sc));
     expect(pycno(dir, ['run', 'cont.json', '--out', 'cont.nc', '--quiet']).code).toBe(0);
-    refusedWith(pycno(dir, ['rerun', 'cont.nc']), /^pycno: cont\.nc#pycno_scenario: initial\.path: cannot read the restart file .*good-restart\.nc: the run file's scenario names this file/);
+    refusedWith(
+      pycno(dir, ['rerun', 'cont.nc']),
+      /^pycno: cont\.nc#pycno_scenario: initial\.path: cannot read the restart file .*good-restart\.nc: the run file's scenario names this file/,
+    );
     const ok = pycno(dir, ['rerun', 'cont.nc', '--inputs', '.']);
     expect(ok.code, ok.stderr).toBe(0);
     expect(ok.stdout).toMatch(/^match /);
   });
 
   it('--inputs naming no folder: exit 2', () => {
-    refusedWith(pycno(dir, ['rerun', 'good.nc', '--inputs', 'no-such-folder']), /^pycno: --inputs no-such-folder: no such folder$/);
+    refusedWith(
+      pycno(dir, ['rerun', 'good.nc', '--inputs', 'no-such-folder']),
+      /^pycno: --inputs no-such-folder: no such folder$/,
+    );
   });
 });
 
@@ -126,31 +157,101 @@ describe('an embedded scenario of 3,000 unknown keys', () => {
 
 /** A restart (or run output) used as the start of a run: each must be refused naming the variable. */
 const BAD_STARTS: Array<[string, 'restart' | 'run', (f: EditableFile) => void, RegExp]> = [
-  ['restart, time as text', 'restart', (f) => {
-    retype(f, 'time', 'char').values = 'x';
-  }, /variable 'time' is char; a Pycno restart file has it as double$/],
-  ['restart, h as int16', 'restart', (f) => void retype(f, 'h', 'short'), /variable 'h' is short; a Pycno restart file has it as double$/],
+  [
+    'restart, time as text',
+    'restart',
+    (f) => {
+      retype(f, 'time', 'char').values = 'x';
+    },
+    /variable 'time' is char; a Pycno restart file has it as double$/,
+  ],
+  [
+    'restart, h as int16',
+    'restart',
+    (f) => void retype(f, 'h', 'short'),
+    /variable 'h' is short; a Pycno restart file has it as double$/,
+  ],
   ['restart, no h', 'restart', (f) => dropVariable(f, 'h'), /has no variable 'h'; a Pycno restart file holds it$/],
-  ['restart, no time', 'restart', (f) => dropVariable(f, 'time'), /has no variable 'time'; a Pycno restart file holds it$/],
-  ['restart, no steps', 'restart', (f) => dropVariable(f, 'steps'), /has no variable 'steps'; a Pycno restart file holds it$/],
-  ['restart, u on other dimensions', 'restart', (f) => {
-    variable(f, 'u').dimensions = ['x_padded', 'y_padded'];
-  }, /variable 'u' has dimensions \(x_padded, y_padded\); a Pycno restart file has it on \(y_padded, x_padded\)$/],
-  ['restart, NaN in h', 'restart', (f) => {
-    (variable(f, 'h').values as Float64Array)[100] = NaN;
-  }, /variable 'h' has NaN at index 100 \(cell \(13, 1\) at 163\.50°E, 8\.50°S\); a start must be finite$/],
-  ['restart, a fractional step count', 'restart', (f) => {
-    (variable(f, 'steps').values as Float64Array)[0] = 2.5;
-  }, /variable 'steps' is 2\.5; a step count is a whole number >= 0$/],
-  ['restart, history count 7', 'restart', (f) => {
-    (variable(f, 'history_count').values as Float64Array)[0] = 7;
-  }, /variable 'history_count' is 7; it must be 0, 1 or 2$/],
-  ['run output, time as text', 'run', (f) => void retype(f, 'time', 'char'), /variable 'time' is char; a Pycno run output has it as double$/],
-  ['run output, time reversed', 'run', (f) => void (variable(f, 'time').values as Float64Array).reverse(), /variable 'time' does not increase: record 1 is day 5, after day 6$/],
-  ['run output, h_anom as int16', 'run', (f) => void retype(f, 'h_anom', 'short'), /variable 'h_anom' is short; a Pycno run output has it as float$/],
-  ['run output, no u', 'run', (f) => dropVariable(f, 'u'), /has no variable 'u'; a run output used as a start must hold h_anom, u and v$/],
-  ['run output, no time', 'run', (f) => dropVariable(f, 'time'), /has no variable 'time'; a Pycno run output holds it$/],
-  ['run output, lat as text', 'run', (f) => void retype(f, 'lat', 'char'), /variable 'lat' is char; a Pycno run output has it as double$/],
+  [
+    'restart, no time',
+    'restart',
+    (f) => dropVariable(f, 'time'),
+    /has no variable 'time'; a Pycno restart file holds it$/,
+  ],
+  [
+    'restart, no steps',
+    'restart',
+    (f) => dropVariable(f, 'steps'),
+    /has no variable 'steps'; a Pycno restart file holds it$/,
+  ],
+  [
+    'restart, u on other dimensions',
+    'restart',
+    (f) => {
+      variable(f, 'u').dimensions = ['x_padded', 'y_padded'];
+    },
+    /variable 'u' has dimensions \(x_padded, y_padded\); a Pycno restart file has it on \(y_padded, x_padded\)$/,
+  ],
+  [
+    'restart, NaN in h',
+    'restart',
+    (f) => {
+      (variable(f, 'h').values as Float64Array)[100] = NaN;
+    },
+    /variable 'h' has NaN at index 100 \(cell \(13, 1\) at 163\.50°E, 8\.50°S\); a start must be finite$/,
+  ],
+  [
+    'restart, a fractional step count',
+    'restart',
+    (f) => {
+      (variable(f, 'steps').values as Float64Array)[0] = 2.5;
+    },
+    /variable 'steps' is 2\.5; a step count is a whole number >= 0$/,
+  ],
+  [
+    'restart, history count 7',
+    'restart',
+    (f) => {
+      (variable(f, 'history_count').values as Float64Array)[0] = 7;
+    },
+    /variable 'history_count' is 7; it must be 0, 1 or 2$/,
+  ],
+  [
+    'run output, time as text',
+    'run',
+    (f) => void retype(f, 'time', 'char'),
+    /variable 'time' is char; a Pycno run output has it as double$/,
+  ],
+  [
+    'run output, time reversed',
+    'run',
+    (f) => void (variable(f, 'time').values as Float64Array).reverse(),
+    /variable 'time' does not increase: record 1 is day 5, after day 6$/,
+  ],
+  [
+    'run output, h_anom as int16',
+    'run',
+    (f) => void retype(f, 'h_anom', 'short'),
+    /variable 'h_anom' is short; a Pycno run output has it as float$/,
+  ],
+  [
+    'run output, no u',
+    'run',
+    (f) => dropVariable(f, 'u'),
+    /has no variable 'u'; a run output used as a start must hold h_anom, u and v$/,
+  ],
+  [
+    'run output, no time',
+    'run',
+    (f) => dropVariable(f, 'time'),
+    /has no variable 'time'; a Pycno run output holds it$/,
+  ],
+  [
+    'run output, lat as text',
+    'run',
+    (f) => void retype(f, 'lat', 'char'),
+    /variable 'lat' is char; a Pycno run output has it as double$/,
+  ],
 ];
 
 describe('pycno run from a hostile restart or run file: exit 2 naming the variable, no output', () => {
@@ -161,7 +262,12 @@ describe('pycno run from a hostile restart or run file: exit 2 naming the variab
       const json = `from-${file}.json`;
       writeFileSync(join(dir, json), JSON.stringify({ ...scenario, initial: { kind: 'restart', path: file } }));
       const before = readdirSync(dir).sort();
-      refusedWith(pycno(dir, ['run', json, '--out', 'never.nc', '--restart-out', 'never-restart.nc']), new RegExp(`^pycno: ${json.replace(/\./g, '\\.')}: initial\\.path: ${file.replace(/\./g, '\\.')}: ${message.source}`));
+      refusedWith(
+        pycno(dir, ['run', json, '--out', 'never.nc', '--restart-out', 'never-restart.nc']),
+        new RegExp(
+          `^pycno: ${json.replace(/\./g, '\\.')}: initial\\.path: ${file.replace(/\./g, '\\.')}: ${message.source}`,
+        ),
+      );
       leftNothing(before);
     });
   }
@@ -170,20 +276,52 @@ describe('pycno run from a hostile restart or run file: exit 2 naming the variab
 /** Damaged or crafted run files for compare and report. */
 const BAD_RUNS: Array<[string, (f: EditableFile) => void, RegExp]> = [
   ['time as text', (f) => void retype(f, 'time', 'char'), /variable 'time' is char; a run file has it as double$/],
-  ['time reversed', (f) => void (variable(f, 'time').values as Float64Array).reverse(), /variable 'time' does not increase: time 1 \(5\) does not follow time 0 \(6\)$/],
-  ['time with NaN', (f) => {
-    (variable(f, 'time').values as Float64Array)[3] = NaN;
-  }, /variable 'time' has NaN at record 3$/],
-  ['h_anom as int16', (f) => void retype(f, 'h_anom', 'short'), /variable 'h_anom' is short; a run file has it as float$/],
-  ['h_anom as double', (f) => void retype(f, 'h_anom', 'double'), /variable 'h_anom' is double; a run file has it as float$/],
-  ['no h_anom', (f) => dropVariable(f, 'h_anom'), /variable 'h_anom' is missing \(the run's scenario lists it in output\.fields\)$/],
+  [
+    'time reversed',
+    (f) => void (variable(f, 'time').values as Float64Array).reverse(),
+    /variable 'time' does not increase: time 1 \(5\) does not follow time 0 \(6\)$/,
+  ],
+  [
+    'time with NaN',
+    (f) => {
+      (variable(f, 'time').values as Float64Array)[3] = NaN;
+    },
+    /variable 'time' has NaN at record 3$/,
+  ],
+  [
+    'h_anom as int16',
+    (f) => void retype(f, 'h_anom', 'short'),
+    /variable 'h_anom' is short; a run file has it as float$/,
+  ],
+  [
+    'h_anom as double',
+    (f) => void retype(f, 'h_anom', 'double'),
+    /variable 'h_anom' is double; a run file has it as float$/,
+  ],
+  [
+    'no h_anom',
+    (f) => dropVariable(f, 'h_anom'),
+    /variable 'h_anom' is missing \(the run's scenario lists it in output\.fields\)$/,
+  ],
   ['no time', (f) => dropVariable(f, 'time'), /variable 'time' is missing$/],
   ['no step', (f) => dropVariable(f, 'step'), /variable 'step' is missing$/],
   ['lat as text', (f) => void retype(f, 'lat', 'char'), /variable 'lat' is char; a run file has it as double$/],
-  ['ocean as double', (f) => void retype(f, 'ocean', 'double'), /variable 'ocean' is double; a run file has it as byte$/],
+  [
+    'ocean as double',
+    (f) => void retype(f, 'ocean', 'double'),
+    /variable 'ocean' is double; a run file has it as byte$/,
+  ],
   ['no energy series', (f) => dropVariable(f, 'energy'), /variable 'energy' is missing$/],
-  ['a probe series as int', (f) => void retype(f, 'probe_u', 'int'), /variable 'probe_u' is int; a run file has it as float$/],
-  ['Hovmoller rows as double', (f) => void retype(f, 'hovmoller_h_anom', 'double'), /variable 'hovmoller_h_anom' is double; a run file has it as float$/],
+  [
+    'a probe series as int',
+    (f) => void retype(f, 'probe_u', 'int'),
+    /variable 'probe_u' is int; a run file has it as float$/,
+  ],
+  [
+    'Hovmoller rows as double',
+    (f) => void retype(f, 'hovmoller_h_anom', 'double'),
+    /variable 'hovmoller_h_anom' is double; a run file has it as float$/,
+  ],
 ];
 
 describe('pycno compare and pycno report of a damaged run file: exit 2 naming the variable, no output', () => {

@@ -10,8 +10,24 @@
 //   published table (each row sums to 1, which the test checks: white stays white).
 
 import { describe, expect, it } from 'vitest';
-import { colourAt, LAND_GREY, LUT_SIZE, lookupTable, MAP_TITLES, mapColour, type MapName } from '../../model/display/colour-maps.ts';
-import { deltaE, fromLinear, linearToOklab, oklabToLinear, srgb8ToOklab, toLinear, type Lab } from '../../model/display/oklab.ts';
+import {
+  colourAt,
+  LAND_GREY,
+  LUT_SIZE,
+  lookupTable,
+  MAP_TITLES,
+  mapColour,
+  type MapName,
+} from '../../model/display/colour-maps.ts';
+import {
+  deltaE,
+  fromLinear,
+  linearToOklab,
+  oklabToLinear,
+  srgb8ToOklab,
+  toLinear,
+  type Lab,
+} from '../../model/display/oklab.ts';
 import { mapFor } from '../../viewer/render/colour-maps.ts';
 
 const MACHADO_2009: Record<string, number[][]> = {
@@ -41,7 +57,8 @@ function simulated(rgb: readonly number[], m: number[][] | null): Lab {
 }
 
 const MAPS: MapName[] = ['anomaly', 'depth', 'strength'];
-const lightness = (name: MapName) => Array.from({ length: LUT_SIZE }, (_, i) => srgb8ToOklab(colourAt(lookupTable(name), i / (LUT_SIZE - 1)))[0]);
+const lightness = (name: MapName) =>
+  Array.from({ length: LUT_SIZE }, (_, i) => srgb8ToOklab(colourAt(lookupTable(name), i / (LUT_SIZE - 1)))[0]);
 
 describe('OKLab, written from Ottosson (2020)', () => {
   it('puts white at L = 1 with no colour and the sRGB primaries where his table has them', () => {
@@ -55,7 +72,11 @@ describe('OKLab, written from Ottosson (2020)', () => {
     near(linearToOklab([0, 0, 1]), [0.452, -0.0325, -0.3115]);
   });
   it('goes back to the same colour, and the sRGB curve inverts', () => {
-    for (const c of [[0.2, 0.5, 0.9], [0.9, 0.1, 0.05], [0.01, 0.01, 0.02]] as const) {
+    for (const c of [
+      [0.2, 0.5, 0.9],
+      [0.9, 0.1, 0.05],
+      [0.01, 0.01, 0.02],
+    ] as const) {
       const back = oklabToLinear(linearToOklab([...c]));
       // The published matrices have ten digits: the round trip holds to about 1e-7.
       back.forEach((x, k) => expect(x).toBeCloseTo(c[k], 6));
@@ -100,7 +121,9 @@ describe("Pycno's colour maps", () => {
     expect(r1).toBeGreaterThan(b1 + 60);
   });
 
-  for (const [name, matrix] of [['normal vision', null], ...Object.entries(MACHADO_2009)] as Array<[string, number[][] | null]>) {
+  for (const [name, matrix] of [['normal vision', null], ...Object.entries(MACHADO_2009)] as Array<
+    [string, number[][] | null]
+  >) {
     it(`stays readable for ${name} (Machado et al. 2009 simulation)`, () => {
       if (matrix) for (const row of matrix) expect(row[0] + row[1] + row[2]).toBeCloseTo(1, 5);
       for (const m of MAPS) {
@@ -115,16 +138,28 @@ describe("Pycno's colour maps", () => {
       // The two arms of the anomaly map stay apart at equal strength: +x never passes for -x.
       const lut = lookupTable('anomaly');
       for (const s of [0.25, 0.5, 0.75, 1]) {
-        expect(deltaE(simulated(colourAt(lut, 0.5 - s / 2), matrix), simulated(colourAt(lut, 0.5 + s / 2), matrix))).toBeGreaterThan(0.08 * s);
+        expect(
+          deltaE(simulated(colourAt(lut, 0.5 - s / 2), matrix), simulated(colourAt(lut, 0.5 + s / 2), matrix)),
+        ).toBeGreaterThan(0.08 * s);
       }
       // Land grey is not mistaken for any map colour.
-      for (const m of MAPS) for (let k = 0; k <= 16; k++) expect(deltaE(simulated(LAND_GREY, matrix), simulated(colourAt(lookupTable(m), k / 16), matrix))).toBeGreaterThan(0.03);
+      for (const m of MAPS)
+        for (let k = 0; k <= 16; k++)
+          expect(
+            deltaE(simulated(LAND_GREY, matrix), simulated(colourAt(lookupTable(m), k / 16), matrix)),
+          ).toBeGreaterThan(0.03);
     });
   }
 
   it('land (NaN) is neutral grey; signed fields get the anomaly map, depths and strengths their own', () => {
     expect(colourAt(lookupTable('anomaly'), NaN)).toEqual(LAND_GREY);
     expect(LAND_GREY[0]).toBe(LAND_GREY[1]);
-    expect([mapFor('h_anom'), mapFor('u'), mapFor('depth'), mapFor('speed'), mapFor('stress')]).toEqual(['anomaly', 'anomaly', 'depth', 'strength', 'strength']);
+    expect([mapFor('h_anom'), mapFor('u'), mapFor('depth'), mapFor('speed'), mapFor('stress')]).toEqual([
+      'anomaly',
+      'anomaly',
+      'depth',
+      'strength',
+      'strength',
+    ]);
   });
 });

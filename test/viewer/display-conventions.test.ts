@@ -9,10 +9,25 @@ import { roundUp, symmetricRange, THEORY_LINES } from '../../model/display/conve
 
 describe('places are written one way', () => {
   it('latitudes N and S, the equator plain, at most two decimals', () => {
-    expect([latLabel(4.25), latLabel(-4.25), latLabel(0), latLabel(-24.5), latLabel(0.25), latLabel(7.2500001), latLabel(-0.001)]).toEqual(['4.25°N', '4.25°S', '0°', '24.5°S', '0.25°N', '7.25°N', '0°']);
+    expect([
+      latLabel(4.25),
+      latLabel(-4.25),
+      latLabel(0),
+      latLabel(-24.5),
+      latLabel(0.25),
+      latLabel(7.2500001),
+      latLabel(-0.001),
+    ]).toEqual(['4.25°N', '4.25°S', '0°', '24.5°S', '0.25°N', '7.25°N', '0°']);
   });
   it('longitudes E and W, folded into (-180, 180]', () => {
-    expect([lonLabel(59.25), lonLabel(200), lonLabel(-30), lonLabel(0), lonLabel(180), lonLabel(360)]).toEqual(['59.25°E', '160°W', '30°W', '0°', '180°', '0°']);
+    expect([lonLabel(59.25), lonLabel(200), lonLabel(-30), lonLabel(0), lonLabel(180), lonLabel(360)]).toEqual([
+      '59.25°E',
+      '160°W',
+      '30°W',
+      '0°',
+      '180°',
+      '0°',
+    ]);
   });
   it('a place is longitude, latitude', () => {
     expect(placeLabel(59.25, 7.25)).toBe('59.25°E, 7.25°N');
@@ -50,7 +65,9 @@ describe('colour-bar ticks', () => {
         expect(new Set(decimals).size).toBe(1);
         // Labels say what they are: distinct, and the values they stand for.
         expect(new Set(t.labels).size).toBe(t.labels.length);
-        t.values.forEach((v, k) => expect(Number(t.labels[k].replace('\u2212', '-')) * 10 ** t.exponent).toBeCloseTo(v, 9));
+        t.values.forEach((v, k) =>
+          expect(Number(t.labels[k].replace('\u2212', '-')) * 10 ** t.exponent).toBeCloseTo(v, 9),
+        );
         // Steps are 1, 2, 2.5 or 5 times a power of ten.
         if (t.values.length > 1) {
           const step = t.values[1] - t.values[0];
@@ -69,7 +86,15 @@ describe('colour-bar ticks', () => {
   it('the labels of the ranges that used to mix precision', () => {
     expect(ticksFor({ min: -10, max: 10 }, 5).labels).toEqual(['\u221210', '\u22125', '0', '5', '10']);
     expect(ticksFor({ min: 0, max: 8 }, 4).labels).toEqual(['0', '2', '4', '6', '8']);
-    expect(ticksFor({ min: -0.003, max: 0.003 }, 6).labels).toEqual(['\u22120.003', '\u22120.002', '\u22120.001', '0.000', '0.001', '0.002', '0.003']);
+    expect(ticksFor({ min: -0.003, max: 0.003 }, 6).labels).toEqual([
+      '\u22120.003',
+      '\u22120.002',
+      '\u22120.001',
+      '0.000',
+      '0.001',
+      '0.002',
+      '0.003',
+    ]);
     expect(niceStep(1, 4)).toEqual({ step: 0.25, decimals: 2 });
   });
   it('very small and very large numbers get one power of ten beside the units', () => {

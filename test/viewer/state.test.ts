@@ -7,7 +7,11 @@ import { alignSeries, ProbeStore } from '../../viewer/state/probe-store.ts';
 import { cellAt, cellOf, graticuleLines, latLabel, lonLabel } from '../../viewer/render/geo.ts';
 import { EARTH } from '../../model/config.ts';
 
-const frame = (day: number, n = 10) => ({ day, step: day, fields: { h_anom: new Float32Array(n), u: new Float32Array(n) } });
+const frame = (day: number, n = 10) => ({
+  day,
+  step: day,
+  fields: { h_anom: new Float32Array(n), u: new Float32Array(n) },
+});
 
 describe('frame history', () => {
   it('keeps every frame while the budget lasts', () => {
@@ -35,7 +39,9 @@ describe('frame history', () => {
     for (const g of gaps) expect(g).toBeGreaterThanOrEqual(h.spacing - 1e-9);
     expect(h.spacing).toBeGreaterThan(20);
     expect(h.spacing).toBeLessThan(80);
-    expect(h.describe()).toMatch(/^keeping 10 frames = 800 B, thinned to one every \d+ days to reach back to the start$/);
+    expect(h.describe()).toMatch(
+      /^keeping 10 frames = 800 B, thinned to one every \d+ days to reach back to the start$/,
+    );
   });
   it('shrinking the budget thins the frames; a new frame size starts over', () => {
     const h = new FrameHistory(800);
@@ -113,7 +119,11 @@ describe('Hovmoller characteristic lines', () => {
 });
 
 describe('display fields', () => {
-  const fields = { h_anom: Float32Array.from([10, NaN]), u: Float32Array.from([3, NaN]), v: Float32Array.from([4, NaN]) };
+  const fields = {
+    h_anom: Float32Array.from([10, NaN]),
+    u: Float32Array.from([3, NaN]),
+    v: Float32Array.from([4, NaN]),
+  };
   it('offers only what the run writes', () => {
     expect(availableDisplays(['h_anom', 'u', 'v']).map((d) => d.key)).toEqual(['h_anom', 'depth', 'u', 'v', 'speed']);
   });
@@ -156,7 +166,13 @@ describe('probes', () => {
 
 describe('map geometry', () => {
   it('labels longitudes and latitudes', () => {
-    expect([lonLabel(160), lonLabel(210), lonLabel(0), lonLabel(180), lonLabel(-30)]).toEqual(['160°E', '150°W', '0°', '180°', '30°W']);
+    expect([lonLabel(160), lonLabel(210), lonLabel(0), lonLabel(180), lonLabel(-30)]).toEqual([
+      '160°E',
+      '150°W',
+      '0°',
+      '180°',
+      '30°W',
+    ]);
     expect([latLabel(-5), latLabel(0), latLabel(2.5)]).toEqual(['5°S', '0°', '2.5°N']);
     expect(graticuleLines(-25, 25, 10)).toEqual([-20, -10, 0, 10, 20]);
   });
@@ -164,6 +180,9 @@ describe('map geometry', () => {
     expect(cellAt(0, 0, 10, 4)).toEqual({ i: 0, j: 3 });
     expect(cellAt(0.999, 0.999, 10, 4)).toEqual({ i: 9, j: 0 });
     expect(cellAt(1, 0.5, 10, 4)).toBeNull();
-    expect(cellOf(30.2, 0.1, { lonWest: 0, lonEast: 140, latSouth: -25, latNorth: 25 }, 280, 100)).toEqual({ i: 60, j: 50 });
+    expect(cellOf(30.2, 0.1, { lonWest: 0, lonEast: 140, latSouth: -25, latNorth: 25 }, 280, 100)).toEqual({
+      i: 60,
+      j: 50,
+    });
   });
 });

@@ -6,7 +6,17 @@ import { describe, expect, it } from 'vitest';
 import { Grid } from '../../model/grid.ts';
 import { buildWindStress } from '../../model/forcing/wind.ts';
 import { resolveScenario, validateScenario } from '../../model/scenario/index.ts';
-import { deletePart, duplicatePart, movePart, newPart, PATTERN_KINDS, setEnabled, setAt, windOf, withWind } from '../../viewer/wind/design.ts';
+import {
+  deletePart,
+  duplicatePart,
+  movePart,
+  newPart,
+  PATTERN_KINDS,
+  setEnabled,
+  setAt,
+  windOf,
+  withWind,
+} from '../../viewer/wind/design.ts';
 import { dab } from '../../viewer/wind/paint.ts';
 import { layerValues, previewSetup, stressAt, stressSeriesAt } from '../../viewer/wind/preview.ts';
 import { hatEnvelope, ImportError, partsFromSeries, readGridded } from '../../viewer/wind/import.ts';
@@ -14,7 +24,10 @@ import { caretLines, checkFormula } from '../../viewer/wind/formula-check.ts';
 import { seriesFromGrid } from '../../model/forcing/gridded.ts';
 import { compileEnvelope } from '../../model/forcing/envelopes.ts';
 
-const base = JSON.parse(readFileSync(new URL('../../configs/westerly-burst.json', import.meta.url), 'utf8')) as Record<string, unknown>;
+const base = JSON.parse(readFileSync(new URL('../../configs/westerly-burst.json', import.meta.url), 'utf8')) as Record<
+  string,
+  unknown
+>;
 const basin = base.basin as { lonWest: number; lonEast: number; latSouth: number; latNorth: number };
 
 describe('design round trip', () => {
@@ -28,8 +41,20 @@ describe('design round trip', () => {
     w.parts[2] = setAt(w.parts[2], 'source.shape.tiltDeg', 20);
     w.parts[3] = setEnabled(w.parts[3], false);
     w = { ...w, parts: duplicatePart(movePart(w.parts, 0, 1), 1) };
-    w.parts[0] = setAt(w.parts[0], 'envelope', { kind: 'harmonics', mean: 1, terms: [{ period: 365, amplitude: 0.3, peakDay: 80 }] });
-    w.parts[1] = setAt(w.parts[1], 'envelope', { kind: 'table', points: [[0, 0], [10, 1], [70, 1], [75, 0]] });
+    w.parts[0] = setAt(w.parts[0], 'envelope', {
+      kind: 'harmonics',
+      mean: 1,
+      terms: [{ period: 365, amplitude: 0.3, peakDay: 80 }],
+    });
+    w.parts[1] = setAt(w.parts[1], 'envelope', {
+      kind: 'table',
+      points: [
+        [0, 0],
+        [10, 1],
+        [70, 1],
+        [75, 0],
+      ],
+    });
     const json = withWind(base, w);
     const text = `${JSON.stringify(json, null, 2)}\n`;
     const r = validateScenario(JSON.parse(text));
@@ -39,9 +64,13 @@ describe('design round trip', () => {
     const loaded = JSON.parse(text) as Record<string, unknown>;
     const again = `${JSON.stringify(withWind(loaded, windOf(loaded)), null, 2)}\n`;
     expect(again).toBe(text);
-    expect(new Set(windOf(loaded).parts.map((p) => (p.kind !== 'fixed' ? p.kind : p.source.kind === 'shaped' ? p.source.shape.kind : p.source.kind)))).toEqual(
-      new Set(['uniform', 'band', 'patch', 'formula', 'painted', 'file', 'bursts', 'answering']),
-    );
+    expect(
+      new Set(
+        windOf(loaded).parts.map((p) =>
+          p.kind !== 'fixed' ? p.kind : p.source.kind === 'shaped' ? p.source.shape.kind : p.source.kind,
+        ),
+      ),
+    ).toEqual(new Set(['uniform', 'band', 'patch', 'formula', 'painted', 'file', 'bursts', 'answering']));
   });
 
   it('keeps a file without a wind section as it was, and deleting every part leaves an empty list', () => {
@@ -65,13 +94,18 @@ describe('preview', () => {
     const tx = g2.field();
     const ty = g2.field();
     stress.fill(day * 86400, tx, ty);
-    for (const [i, j] of [[60, 50], [10, 3], [200, 70]]) {
+    for (const [i, j] of [
+      [60, 50],
+      [10, 3],
+      [200, 70],
+    ]) {
       const k = g2.idx(i, j);
       expect(f.taux[j * grid.nx + i]).toBe(Math.fround(0.5 * (tx[k] + tx[k + 1])));
       expect(f.tauy[j * grid.nx + i]).toBe(Math.fround(0.5 * (ty[k] + ty[k + g2.W])));
     }
     // The patch is at its peak: about 0.1 N m-2 eastward at 30E on the equator, on top of the trades.
-    const at = (lon: number, lat: number) => Math.floor((lat - basin.latSouth) / 0.5) * grid.nx + Math.floor((lon - basin.lonWest) / 0.5);
+    const at = (lon: number, lat: number) =>
+      Math.floor((lat - basin.latSouth) / 0.5) * grid.nx + Math.floor((lon - basin.lonWest) / 0.5);
     expect(f.taux[at(30.2, 0.2)]).toBeGreaterThan(0.04);
     expect(f.taux[at(120, 0.2)]).toBeCloseTo(-0.05, 2);
   });
@@ -133,13 +167,25 @@ describe('formula checking', () => {
 describe('import', () => {
   it('stores a CSV grid as a painted part that gives the same stress as the file part', () => {
     const rows = ['lon,lat,x,y'];
-    for (let lat = -10; lat <= 10; lat += 2) for (let lon = 0; lon <= 140; lon += 10) rows.push(`${lon},${lat},${(-0.05 * Math.cos((lat * Math.PI) / 40)).toFixed(5)},0.001`);
+    for (let lat = -10; lat <= 10; lat += 2)
+      for (let lon = 0; lon <= 140; lon += 10)
+        rows.push(`${lon},${lat},${(-0.05 * Math.cos((lat * Math.PI) / 40)).toFixed(5)},0.001`);
     const csv = new TextEncoder().encode(rows.join('\n'));
     const series = readGridded('trades.csv', csv);
     const { parts } = partsFromSeries(series, 'trades.csv', 'stress', basin);
     expect(parts).toHaveLength(1);
     const painted = withWind(base, { ...windOf(base), parts });
-    const filed = withWind(base, { ...windOf(base), parts: [{ kind: 'fixed', quantity: 'stress', source: { kind: 'file', path: 'trades.csv', format: 'csv' }, envelope: { kind: 'constant' } }] });
+    const filed = withWind(base, {
+      ...windOf(base),
+      parts: [
+        {
+          kind: 'fixed',
+          quantity: 'stress',
+          source: { kind: 'file', path: 'trades.csv', format: 'csv' },
+          envelope: { kind: 'constant' },
+        },
+      ],
+    });
     const a = (() => {
       const { resolved, grid } = previewSetup(painted);
       return stressAt(resolved, grid, 0);
@@ -160,10 +206,21 @@ describe('import', () => {
   });
 
   it('refuses bad files with the reason', () => {
-    expect(() => readGridded('w.csv', new TextEncoder().encode('lon,lat,x,y\n1,2,abc,0\n'))).toThrow(/w\.csv: CSV line 2, column 3 \('x'\): the value is not a number/);
+    expect(() => readGridded('w.csv', new TextEncoder().encode('lon,lat,x,y\n1,2,abc,0\n'))).toThrow(
+      /w\.csv: CSV line 2, column 3 \('x'\): the value is not a number/,
+    );
     expect(() => readGridded('w.nc', Uint8Array.from([0x89, 0x48, 0x44, 0x46, 13, 10]))).toThrow(/NetCDF-4 \(HDF5\)/);
     expect(() => readGridded('w.nc', new TextEncoder().encode('hello'))).toThrow(/not a NetCDF classic file/);
-    const far = seriesFromGrid({ lon0: -170, lat0: 0, dLon: 1, dLat: 1, nLon: 2, nLat: 2, x: [0, 0, 0, 0], y: [0, 0, 0, 0] });
+    const far = seriesFromGrid({
+      lon0: -170,
+      lat0: 0,
+      dLon: 1,
+      dLat: 1,
+      nLon: 2,
+      nLat: 2,
+      x: [0, 0, 0, 0],
+      y: [0, 0, 0, 0],
+    });
     expect(() => partsFromSeries(far, 'far.csv', 'stress', basin)).toThrow(ImportError);
     expect(() => partsFromSeries(far, 'far.csv', 'stress', basin)).toThrow(/lie outside the basin/);
   });

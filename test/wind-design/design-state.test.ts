@@ -25,7 +25,10 @@ import {
 import { emptyTimeline, HISTORY_LIMIT } from '../../viewer/wind/history.ts';
 import { dab } from '../../viewer/wind/paint.ts';
 
-const base = JSON.parse(readFileSync(new URL('../../configs/westerly-burst.json', import.meta.url), 'utf8')) as Record<string, unknown>;
+const base = JSON.parse(readFileSync(new URL('../../configs/westerly-burst.json', import.meta.url), 'utf8')) as Record<
+  string,
+  unknown
+>;
 const basin = basinOf(base);
 
 /** Run actions from a state; each step's input must come out unchanged. */
@@ -69,7 +72,9 @@ describe('loading a scenario', () => {
     expect(canUndo(run(edited, { kind: 'load', scenario: base }))).toBe(true);
     const other = { ...base, name: 'another basin' };
     expect(canUndo(run(edited, { kind: 'load', scenario: other }))).toBe(false);
-    expect(canUndo(run(edited, { kind: 'load', scenario: { ...base, basin: { ...basin, lonEast: basin.lonEast + 10 } } }))).toBe(false);
+    expect(
+      canUndo(run(edited, { kind: 'load', scenario: { ...base, basin: { ...basin, lonEast: basin.lonEast + 10 } } })),
+    ).toBe(false);
   });
 });
 
@@ -132,7 +137,8 @@ describe('list edits', () => {
 
   it('keeps the last hundred steps', () => {
     let s = three();
-    for (let k = 0; k < HISTORY_LIMIT + 20; k++) s = run(s, { kind: 'edit', edit: { kind: 'enable', index: 0, on: k % 2 === 1 } });
+    for (let k = 0; k < HISTORY_LIMIT + 20; k++)
+      s = run(s, { kind: 'edit', edit: { kind: 'enable', index: 0, on: k % 2 === 1 } });
     let undos = 0;
     while (canUndo(s)) {
       s = reduceDesign(s, { kind: 'undo' });
@@ -145,25 +151,64 @@ describe('list edits', () => {
 describe('part changes and gestures', () => {
   it('a change with record is one step, one without joins the step before', () => {
     const s0 = three();
-    const moved = (lon: number) => ({ ...s0.wind.parts[2], source: { ...(s0.wind.parts[2] as { source: object }).source, shape: { kind: 'patch', lon, lat: 0, lonWidth: 5, latWidth: 4 } } }) as WindPart;
+    const moved = (lon: number) =>
+      ({
+        ...s0.wind.parts[2],
+        source: {
+          ...(s0.wind.parts[2] as { source: object }).source,
+          shape: { kind: 'patch', lon, lat: 0, lonWidth: 5, latWidth: 4 },
+        },
+      }) as WindPart;
     // A drag: one record, then several changes of the part.
-    const s = run(s0, { kind: 'record' }, { kind: 'set-part', index: 2, part: moved(150), record: false }, { kind: 'set-part', index: 2, part: moved(160), record: false });
+    const s = run(
+      s0,
+      { kind: 'record' },
+      { kind: 'set-part', index: 2, part: moved(150), record: false },
+      { kind: 'set-part', index: 2, part: moved(160), record: false },
+    );
     expect(s.wind.parts[2]).toEqual(moved(160));
     const back = run(s, { kind: 'undo' });
     expect(back.wind).toEqual(s0.wind);
     // Typing in the editor: each recorded change is its own step.
-    const typed = run(s0, { kind: 'set-part', index: 2, part: moved(150), record: true }, { kind: 'set-part', index: 2, part: moved(151), record: true });
+    const typed = run(
+      s0,
+      { kind: 'set-part', index: 2, part: moved(150), record: true },
+      { kind: 'set-part', index: 2, part: moved(151), record: true },
+    );
     expect(run(typed, { kind: 'undo' }).wind.parts[2]).toEqual(moved(150));
     // A part that is not there changes nothing.
     expect(reduceDesign(s0, { kind: 'set-part', index: 7, part: moved(1), record: true })).toBe(s0);
   });
 
   it('a paint stroke that changes the grid in place after its record cannot change the past', () => {
-    const s0 = run(loaded(), { kind: 'edit', edit: { kind: 'clear' } }, { kind: 'edit', edit: { kind: 'append', parts: [newPart('painted', basin, 2)] } });
+    const s0 = run(
+      loaded(),
+      { kind: 'edit', edit: { kind: 'clear' } },
+      { kind: 'edit', edit: { kind: 'append', parts: [newPart('painted', basin, 2)] } },
+    );
     const before = structuredClone(s0.wind);
     const s = run(s0, { kind: 'record' });
-    const part = s.wind.parts[0] as WindPart & { source: { grid: { x: number[]; y: number[]; nLon: number; nLat: number; lon0: number; lat0: number; dLon: number; dLat: number } } };
-    dab(part.source.grid as never, (basin.lonWest + basin.lonEast) / 2, 0, { radius: 6, strength: 0.1, directionDeg: 0, softEdge: 0, mode: 'paint' });
+    const part = s.wind.parts[0] as WindPart & {
+      source: {
+        grid: {
+          x: number[];
+          y: number[];
+          nLon: number;
+          nLat: number;
+          lon0: number;
+          lat0: number;
+          dLon: number;
+          dLat: number;
+        };
+      };
+    };
+    dab(part.source.grid as never, (basin.lonWest + basin.lonEast) / 2, 0, {
+      radius: 6,
+      strength: 0.1,
+      directionDeg: 0,
+      softEdge: 0,
+      mode: 'paint',
+    });
     expect(part.source.grid.x.some((v) => v !== 0)).toBe(true);
     const painted = run(s, { kind: 'set-part', index: 0, part, record: false });
     expect(run(painted, { kind: 'undo' }).wind).toEqual(before);
@@ -195,7 +240,11 @@ describe('issue routing', () => {
     const r = routeIssues(issues, 1, 11);
     expect(r.editor.map((i) => i.rel)).toEqual(['source.shape.lon', 'window.0', '']);
     // wind.parts[10] is not a part of wind.parts[1].
-    expect(r.elsewhere.map((i) => i.path)).toEqual(['wind.parts[0].envelope', 'wind.parts[10].amplitude', 'physics.reducedGravity']);
+    expect(r.elsewhere.map((i) => i.path)).toEqual([
+      'wind.parts[0].envelope',
+      'wind.parts[10].amplitude',
+      'physics.reducedGravity',
+    ]);
     expect(r.invalid.map((v, k) => (v ? k : -1)).filter((k) => k >= 0)).toEqual([0, 1, 10]);
   });
 
@@ -218,7 +267,10 @@ describe('what the design reads from the edited scenario', () => {
   });
 
   it('previews the day a pulse blows at full strength, and ignores parts that are off', () => {
-    const pulse = { ...newPart('patch', basin), envelope: { kind: 'pulse', start: 40, duration: 20, ramp: 5 } } as WindPart;
+    const pulse = {
+      ...newPart('patch', basin),
+      envelope: { kind: 'pulse', start: 40, duration: 20, ramp: 5 },
+    } as WindPart;
     const day = liveliestDay({ parts: [pulse] }, 100, '0');
     // Full strength from day 45 to 55 (pulseFactor in model/forcing/envelopes.ts); the first such day of the axis.
     expect(day).toBeGreaterThanOrEqual(45);

@@ -11,7 +11,13 @@ const burst = JSON.parse(readFileSync(new URL('../../configs/westerly-burst.json
 
 function withFormula(expression: string) {
   const s = structuredClone(burst);
-  s.wind.parts.push({ kind: 'fixed', name: 'shape', quantity: 'stress', source: { kind: 'shaped', shape: { kind: 'formula', expression }, x: 0.01, y: 0 }, envelope: { kind: 'constant' } });
+  s.wind.parts.push({
+    kind: 'fixed',
+    name: 'shape',
+    quantity: 'stress',
+    source: { kind: 'shaped', shape: { kind: 'formula', expression }, x: 0.01, y: 0 },
+    envelope: { kind: 'constant' },
+  });
   return s;
 }
 
@@ -22,7 +28,9 @@ describe('the forcing check of the wind panel', () => {
   });
   it("a formula that does not compile: its part as listed ('2.'), our syntax in the message, at the formula box", () => {
     const p = forcingProblem(withFormula('lat^^2'))!;
-    expect(p.message).toBe("wind part 2 ('shape'): syntax error at character 4: '^' must be followed by a number, a name or a bracket");
+    expect(p.message).toBe(
+      "wind part 2 ('shape'): syntax error at character 4: '^' must be followed by a number, a name or a bracket",
+    );
     expect(p.path).toBe('wind.parts[1].source.shape.expression');
     const routed = routeIssues([p], 1, 2);
     expect(routed.editor.map((i) => i.rel)).toEqual(['source.shape.expression']);

@@ -2,7 +2,18 @@
 
 import { describe, expect, it } from 'vitest';
 import { compileShape } from '../../model/forcing/shapes.ts';
-import { bandFromDrag, dragEdge, hitHandle, insidePatch, moveCentre, patchHandles, scaleWidth, turnBy, turnTowards, type PatchGeometry } from '../../viewer/wind/patch-geometry.ts';
+import {
+  bandFromDrag,
+  dragEdge,
+  hitHandle,
+  insidePatch,
+  moveCentre,
+  patchHandles,
+  scaleWidth,
+  turnBy,
+  turnTowards,
+  type PatchGeometry,
+} from '../../viewer/wind/patch-geometry.ts';
 import { blankGrid, dab, footprint, neighbourMean, strokePoints, type Brush } from '../../viewer/wind/paint.ts';
 import { emptyTimeline, recorded, redone, undone, type Timeline } from '../../viewer/wind/history.ts';
 
@@ -57,9 +68,23 @@ describe('patch geometry', () => {
   });
 
   it('draws a band from two latitudes in the part profile kind', () => {
-    expect(bandFromDrag({ kind: 'tanh', south: 0, north: 1, edge: 1.5 }, 8, 3)).toEqual({ kind: 'tanh', south: 3, north: 8, edge: 1.5 });
-    expect(bandFromDrag({ kind: 'cosine', centre: 0, halfWidth: 1 }, -4, 6)).toEqual({ kind: 'cosine', centre: 1, halfWidth: 5 });
-    expect(bandFromDrag({ kind: 'gap', centre: 0, width: 1, depth: 0.6 }, 4, 8)).toEqual({ kind: 'gap', centre: 6, width: 1, depth: 0.6 });
+    expect(bandFromDrag({ kind: 'tanh', south: 0, north: 1, edge: 1.5 }, 8, 3)).toEqual({
+      kind: 'tanh',
+      south: 3,
+      north: 8,
+      edge: 1.5,
+    });
+    expect(bandFromDrag({ kind: 'cosine', centre: 0, halfWidth: 1 }, -4, 6)).toEqual({
+      kind: 'cosine',
+      centre: 1,
+      halfWidth: 5,
+    });
+    expect(bandFromDrag({ kind: 'gap', centre: 0, width: 1, depth: 0.6 }, 4, 8)).toEqual({
+      kind: 'gap',
+      centre: 6,
+      width: 1,
+      depth: 0.6,
+    });
     expect(bandFromDrag({ kind: 'trades', edgeLat: 10 }, -12, 20)).toEqual({ kind: 'trades', edgeLat: 20 });
     // A click without a drag still gives a valid band (north > south).
     const b = bandFromDrag({ kind: 'tanh', south: 0, north: 1, edge: 1 }, 2, 2);
@@ -69,7 +94,14 @@ describe('patch geometry', () => {
 
 describe('painting', () => {
   const basin = { lonWest: 0, lonEast: 20, latSouth: -5, latNorth: 5 };
-  const brush = (o: Partial<Brush> = {}): Brush => ({ radius: 2, softEdge: 0.5, strength: 0.1, directionDeg: 0, mode: 'paint', ...o });
+  const brush = (o: Partial<Brush> = {}): Brush => ({
+    radius: 2,
+    softEdge: 0.5,
+    strength: 0.1,
+    directionDeg: 0,
+    mode: 'paint',
+    ...o,
+  });
 
   it('makes a grid at its own spacing with samples at cell centres', () => {
     const g = blankGrid(basin, 1);
@@ -117,7 +149,11 @@ describe('painting', () => {
 
   it('spaces the dabs of a stroke a third of the radius apart, the end included', () => {
     const pts = strokePoints(0, 0, 3, 0, 3);
-    expect(pts).toEqual([[1, 0], [2, 0], [3, 0]]);
+    expect(pts).toEqual([
+      [1, 0],
+      [2, 0],
+      [3, 0],
+    ]);
   });
 
   it('undoes and redoes strokes by snapshots; a new stroke forgets the redo list', () => {

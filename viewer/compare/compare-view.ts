@@ -56,7 +56,15 @@ export class CompareView {
   private readonly status = el('p', { id: 'cmp-status', className: 'cmp-status', 'aria-live': 'polite' });
   private readonly body = el('div', { id: 'cmp-body', hidden: true });
   private readonly field = el('select', { id: 'cmp-field', 'aria-label': 'field compared' });
-  private readonly slider = el('input', { id: 'cmp-slider', type: 'range', min: '0', max: '0', value: '0', step: '1', 'aria-label': 'matching model time' });
+  private readonly slider = el('input', {
+    id: 'cmp-slider',
+    type: 'range',
+    min: '0',
+    max: '0',
+    value: '0',
+    step: '1',
+    'aria-label': 'matching model time',
+  });
   private readonly day = el('span', { id: 'cmp-day', className: 'day' });
   private readonly mapA = new MapBox('cmp-map-a', 'map of run A', MAP_W);
   private readonly mapB = new MapBox('cmp-map-b', 'map of run B', MAP_W);
@@ -82,20 +90,37 @@ export class CompareView {
     this.root = el(
       'div',
       { className: 'cmp' },
-      el('div', { className: 'row' }, el('label', {}, 'A ', this.pickA), el('label', {}, 'B ', this.pickB), swap, go, el('span', { className: 'hint' }, 'differences are B minus A')),
-      this.status,
       el(
         'div',
-        {},
-        this.body,
+        { className: 'row' },
+        el('label', {}, 'A ', this.pickA),
+        el('label', {}, 'B ', this.pickB),
+        swap,
+        go,
+        el('span', { className: 'hint' }, 'differences are B minus A'),
       ),
+      this.status,
+      el('div', {}, this.body),
     );
     this.body.append(
-      el('div', { className: 'row small' }, el('label', {}, 'Map shows ', this.field), el('label', { className: 'lib-scrub' }, 'Day in both runs ', this.slider), this.day),
+      el(
+        'div',
+        { className: 'row small' },
+        el('label', {}, 'Map shows ', this.field),
+        el('label', { className: 'lib-scrub' }, 'Day in both runs ', this.slider),
+        this.day,
+      ),
       el('div', { className: 'cmp-maps' }, this.mapA.root, this.mapB.root, this.mapD.root),
       this.mapNote,
       el('h4', {}, 'Hovmoller diagrams'),
-      el('p', { className: 'legend' }, el('span', { className: 'swatch kelvin' }), ' Kelvin wave, east at c ', el('span', { className: 'swatch rossby' }), ' long Rossby wave, west at c/3, from each run\u2019s pulsed wind patch; A and B on one colour scale, B \u2212 A on its own'),
+      el(
+        'p',
+        { className: 'legend' },
+        el('span', { className: 'swatch kelvin' }),
+        ' Kelvin wave, east at c ',
+        el('span', { className: 'swatch rossby' }),
+        ' long Rossby wave, west at c/3, from each run\u2019s pulsed wind patch; A and B on one colour scale, B \u2212 A on its own',
+      ),
       el('div', { className: 'row small' }, el('label', {}, 'Latitude ', this.hovLat)),
       el('div', { className: 'cmp-hovs' }, this.hovA, this.hovB, this.hovD),
       el('h4', {}, 'Probes (A solid, B dashed)'),
@@ -187,12 +212,19 @@ export class CompareView {
       return;
     }
     this.setSectionsVisible(true);
-    this.showStatus(`A: ${a.label}; B: ${b.label}. Grid: ${cmp.grid!.note}. ${cmp.commonTimes.length} matching times (within ${+cmp.toleranceDays.toFixed(3)} days), ${cmp.fieldTimes.length} with maps in both.`, false);
+    this.showStatus(
+      `A: ${a.label}; B: ${b.label}. Grid: ${cmp.grid!.note}. ${cmp.commonTimes.length} matching times (within ${+cmp.toleranceDays.toFixed(3)} days), ${cmp.fieldTimes.length} with maps in both.`,
+      false,
+    );
     const opts = cmp.fields.map((f) => new Option(fieldLabel(f), f));
     for (const sel of [this.field, this.probeField]) {
       const keep = sel.value;
       sel.replaceChildren(...opts.map((o) => new Option(o.text, o.value)));
-      sel.value = cmp.fields.includes(keep as FieldName) ? keep : (cmp.fields.includes('h_anom') ? 'h_anom' : cmp.fields[0]);
+      sel.value = cmp.fields.includes(keep as FieldName)
+        ? keep
+        : cmp.fields.includes('h_anom')
+          ? 'h_anom'
+          : cmp.fields[0];
     }
     const ft = cmp.fieldTimes;
     this.slider.max = String(Math.max(0, ft.length - 1));
@@ -214,7 +246,8 @@ export class CompareView {
 
   private setSectionsVisible(on: boolean): void {
     for (const c of this.body.children) {
-      const keep = c === this.table || c === this.waves || (c.tagName === 'H4' && /Scenario|Measured/.test(c.textContent ?? ''));
+      const keep =
+        c === this.table || c === this.waves || (c.tagName === 'H4' && /Scenario|Measured/.test(c.textContent ?? ''));
       (c as HTMLElement).hidden = !on && !keep;
     }
   }
@@ -230,7 +263,8 @@ export class CompareView {
     const f = this.field.value as FieldName;
     const ft = cmp.fieldTimes;
     if (ft.length === 0) {
-      this.mapNote.textContent = 'No matching time has maps in both runs (they were saved with other snapshot intervals); the series below are still compared.';
+      this.mapNote.textContent =
+        'No matching time has maps in both runs (they were saved with other snapshot intervals); the series below are still compared.';
       return;
     }
     const k = ft[Number(this.slider.value)];
@@ -278,11 +312,16 @@ export class CompareView {
       return;
     }
     // Our own key: one colour per probe, A solid and B dashed (uPlot's legend stays off).
-    const key = el('div', { className: 'probe-legend', id: 'cmp-probe-legend' }, ...cmp.probes.map((p, n) => {
-      const line = el('span', { className: 'line' });
-      line.style.borderColor = probeColour(n);
-      return el('span', { className: 'key' }, line, p.name);
-    }), el('span', { className: 'hint' }, 'A solid, B dashed'));
+    const key = el(
+      'div',
+      { className: 'probe-legend', id: 'cmp-probe-legend' },
+      ...cmp.probes.map((p, n) => {
+        const line = el('span', { className: 'line' });
+        line.style.borderColor = probeColour(n);
+        return el('span', { className: 'key' }, line, p.name);
+      }),
+      el('span', { className: 'hint' }, 'A solid, B dashed'),
+    );
     this.probeHost.replaceChildren(key);
     const x = Array.from(cmp.probes[0].days);
     const ys: Array<Array<number | null>> = [];
@@ -292,10 +331,20 @@ export class CompareView {
       const s = p.series[f];
       if (!s) return;
       ys.push(clean(s.a), clean(s.b));
-      series.push({ label: `${p.name} A`, stroke: probeColour(n), width: 1.5 }, { label: `${p.name} B`, stroke: probeColour(n), width: 1.5, dash: [6, 4] });
+      series.push(
+        { label: `${p.name} A`, stroke: probeColour(n), width: 1.5 },
+        { label: `${p.name} B`, stroke: probeColour(n), width: 1.5, dash: [6, 4] },
+      );
     });
     this.plot = new uPlot(
-      { width: Math.max(320, Math.min(900, this.probeHost.clientWidth || 640)), height: 220, scales: { x: { time: false } }, axes: [{ label: 'day' }, { label: FIELD_INFO[f].units, size: 60 }], series, legend: { show: false } },
+      {
+        width: Math.max(320, Math.min(900, this.probeHost.clientWidth || 640)),
+        height: 220,
+        scales: { x: { time: false } },
+        axes: [{ label: 'day' }, { label: FIELD_INFO[f].units, size: 60 }],
+        series,
+        legend: { show: false },
+      },
       [x, ...ys] as uPlot.AlignedData,
       this.probeHost,
     );

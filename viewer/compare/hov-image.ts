@@ -19,7 +19,12 @@ export interface TheoryStart {
 const M = { left: 40, right: 8, top: 18, bottom: 20 };
 
 /** RGBA pixels, one per longitude and time, latest time on the top row. */
-export function hovPixels(values: ArrayLike<number>, nx: number, nt: number, scale: number): Uint8ClampedArray<ArrayBuffer> {
+export function hovPixels(
+  values: ArrayLike<number>,
+  nx: number,
+  nt: number,
+  scale: number,
+): Uint8ClampedArray<ArrayBuffer> {
   const lut = lookupTable('anomaly');
   const px = new Uint8ClampedArray(nx * nt * 4);
   for (let n = 0; n < nt; n++) {
@@ -33,7 +38,15 @@ export function hovPixels(values: ArrayLike<number>, nx: number, nt: number, sca
   return px;
 }
 
-export function drawHovmoller(canvas: HTMLCanvasElement, lon: Float64Array, days: Float64Array, values: Float32Array, scale: number, title: string, theory: TheoryStart | null = null): void {
+export function drawHovmoller(
+  canvas: HTMLCanvasElement,
+  lon: Float64Array,
+  days: Float64Array,
+  values: Float32Array,
+  scale: number,
+  title: string,
+  theory: TheoryStart | null = null,
+): void {
   const ctx = canvas.getContext('2d');
   if (!ctx) return;
   const W = canvas.width;
@@ -65,8 +78,16 @@ export function drawHovmoller(canvas: HTMLCanvasElement, lon: Float64Array, days
   drawAxes(
     ctx,
     p,
-    { values: graticuleLines(west, east, graticuleStep(east - west, Math.floor(p.w / 60))), at: (l) => p.x + ((l - west) / (east - west)) * p.w, label: lonLabel },
-    { values: graticuleLines(d0, d1, graticuleStep(d1 - d0, Math.floor(p.h / 30))), at: (d) => p.y + p.h - ((d - d0) / (d1 - d0)) * p.h, label: (d) => `${d}` },
+    {
+      values: graticuleLines(west, east, graticuleStep(east - west, Math.floor(p.w / 60))),
+      at: (l) => p.x + ((l - west) / (east - west)) * p.w,
+      label: lonLabel,
+    },
+    {
+      values: graticuleLines(d0, d1, graticuleStep(d1 - d0, Math.floor(p.h / 30))),
+      at: (d) => p.y + p.h - ((d - d0) / (d1 - d0)) * p.h,
+      label: (d) => `${d}`,
+    },
     'rgba(0,0,0,0.25)',
   );
   // The theory lines as every view draws them: Kelvin solid, long Rossby dashed.

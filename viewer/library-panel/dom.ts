@@ -1,6 +1,10 @@
 // Small DOM helpers for the library and comparison panels.
 
-export function el<K extends keyof HTMLElementTagNameMap>(tag: K, props: Record<string, unknown> = {}, ...children: Array<Node | string>): HTMLElementTagNameMap[K] {
+export function el<K extends keyof HTMLElementTagNameMap>(
+  tag: K,
+  props: Record<string, unknown> = {},
+  ...children: Array<Node | string>
+): HTMLElementTagNameMap[K] {
   const e = document.createElement(tag);
   for (const [k, v] of Object.entries(props)) {
     if (k.startsWith('data-') || k.startsWith('aria-')) e.setAttribute(k, String(v));

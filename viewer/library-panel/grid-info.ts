@@ -2,7 +2,13 @@
 
 import type { GridInfo } from '../../worker/protocol.ts';
 
-export function gridInfoOf(g: { nx: number; ny: number; lon: ArrayLike<number>; lat: ArrayLike<number>; ocean: ArrayLike<number> }): GridInfo {
+export function gridInfoOf(g: {
+  nx: number;
+  ny: number;
+  lon: ArrayLike<number>;
+  lat: ArrayLike<number>;
+  ocean: ArrayLike<number>;
+}): GridInfo {
   // One-cell axes have no spacing of their own: a degree is as good as any for drawing.
   const dLon = g.nx > 1 ? (g.lon[g.nx - 1] - g.lon[0]) / (g.nx - 1) : 1;
   const dLat = g.ny > 1 ? (g.lat[g.ny - 1] - g.lat[0]) / (g.ny - 1) : 1;

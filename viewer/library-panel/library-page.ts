@@ -69,7 +69,10 @@ export class LibraryPage {
   private readonly list = el('ul', { id: 'lib-list', className: 'lib-list' });
   private readonly undoBar = el('div', { id: 'lib-undo', className: 'lib-undo' });
   private readonly panelMsg = el('p', { id: 'lib-msg', className: 'lib-msg', role: 'status' });
-  private readonly saveBtn = button('Save this run…', { id: 'lib-save-open', title: 'Save the run on screen in the library' });
+  private readonly saveBtn = button('Save this run…', {
+    id: 'lib-save-open',
+    title: 'Save the run on screen in the library',
+  });
   private readonly saveForm = el('form', { id: 'lib-save-form', className: 'lib-save', hidden: true });
   private readonly saveName = el('input', { id: 'lib-save-name', type: 'text', size: 30, autocomplete: 'off' });
   private readonly saveNotes = el('textarea', { id: 'lib-save-notes', rows: 2, cols: 30 });
@@ -77,7 +80,11 @@ export class LibraryPage {
   private readonly saveWhat = el('p', { id: 'lib-save-what', className: 'hint' });
   private readonly saveMsg = el('p', { id: 'lib-save-msg', className: 'field-msg', role: 'alert' });
   private readonly storageLine = el('p', { id: 'lib-storage', className: 'hint' });
-  private readonly importInput = el('input', { id: 'lib-import', type: 'file', accept: '.nc,application/x-netcdf,application/netcdf' });
+  private readonly importInput = el('input', {
+    id: 'lib-import',
+    type: 'file',
+    accept: '.nc,application/x-netcdf,application/netcdf',
+  });
   ready = false;
 
   constructor(
@@ -93,8 +100,22 @@ export class LibraryPage {
     void this.openLibrary();
     (window as unknown as { __pycnoLibrary: unknown }).__pycnoLibrary = {
       ready: () => this.ready,
-      runs: () => this.metas.map((m) => ({ id: m.id, name: m.name, notes: m.notes, sizeBytes: m.sizeBytes, snapshots: m.snapshots, records: m.records, frictionDays: m.summary.frictionDays })),
-      live: () => ({ records: this.live.length, lastDay: this.live.lastDay, keptEvery: this.live.keptEvery, snapshots: this.live.snapshotCount() }),
+      runs: () =>
+        this.metas.map((m) => ({
+          id: m.id,
+          name: m.name,
+          notes: m.notes,
+          sizeBytes: m.sizeBytes,
+          snapshots: m.snapshots,
+          records: m.records,
+          frictionDays: m.summary.frictionDays,
+        })),
+      live: () => ({
+        records: this.live.length,
+        lastDay: this.live.lastDay,
+        keptEvery: this.live.keptEvery,
+        snapshots: this.live.snapshotCount(),
+      }),
       compare: () => this.compareView.state,
       viewWaves: () => this.view.lastWaves,
       viewShown: () => this.view.shown,
@@ -127,7 +148,10 @@ export class LibraryPage {
 
   private updateSaveButton(): void {
     this.saveBtn.disabled = this.live.length === 0 || this.lib === null;
-    this.saveBtn.title = this.live.length === 0 ? 'Run the model first: there is no output to save yet' : 'Save the run on screen in the library';
+    this.saveBtn.title =
+      this.live.length === 0
+        ? 'Run the model first: there is no output to save yet'
+        : 'Save the run on screen in the library';
     const hint = this.root.querySelector('#lib-live-note');
     if (hint) hint.textContent = this.liveStatus;
   }
@@ -160,7 +184,12 @@ export class LibraryPage {
       this.importInput.value = '';
       if (f) await this.importFile(f);
     });
-    const drop = el('div', { id: 'lib-drop', className: 'lib-drop' }, el('label', { className: 'file-button' }, 'Import NetCDF…', this.importInput), el('span', { className: 'hint' }, 'or drop a Pycno run file or sweep summary (.nc) here'));
+    const drop = el(
+      'div',
+      { id: 'lib-drop', className: 'lib-drop' },
+      el('label', { className: 'file-button' }, 'Import NetCDF…', this.importInput),
+      el('span', { className: 'hint' }, 'or drop a Pycno run file or sweep summary (.nc) here'),
+    );
     // A file dropped on the library goes to the library, not to the scenario loader of the page.
     this.root.addEventListener('dragover', (ev) => {
       ev.preventDefault();
@@ -180,8 +209,12 @@ export class LibraryPage {
     });
     this.root.append(
       el('h2', {}, 'Saved runs'),
-      el('div', { className: 'lib-grid' },
-        el('div', { className: 'lib-side' },
+      el(
+        'div',
+        { className: 'lib-grid' },
+        el(
+          'div',
+          { className: 'lib-side' },
           el('div', { className: 'row' }, this.saveBtn, drop),
           el('p', { id: 'lib-live-note', className: 'hint' }),
           this.saveForm,
@@ -207,7 +240,9 @@ export class LibraryPage {
       this.lib = await RunLibrary.open();
     } catch (e) {
       this.say((e as Error).message);
-      this.list.replaceChildren(el('li', { className: 'hint' }, 'The run library is not available in this browser window.'));
+      this.list.replaceChildren(
+        el('li', { className: 'hint' }, 'The run library is not available in this browser window.'),
+      );
       return;
     }
     await this.refresh();
@@ -231,7 +266,10 @@ export class LibraryPage {
     this.saveEvery.replaceChildren(
       ...choices.map((k) => {
         const kept = run.snapshots.filter((s) => s.index % k === 0).length;
-        return new Option(`every ${+(k * per).toFixed(3)} days: ${kept} maps, about ${formatBytes(estimateSize(run, k))}`, String(k));
+        return new Option(
+          `every ${+(k * per).toFixed(3)} days: ${kept} maps, about ${formatBytes(estimateSize(run, k))}`,
+          String(k),
+        );
       }),
     );
     this.saveEvery.value = String(defaultSnapshotChoice(choices, (k) => estimateSize(run, k)));
@@ -260,7 +298,11 @@ export class LibraryPage {
     this.saveMsg.textContent = 'saving…';
     try {
       // One transaction: on any failure (a full storage included) nothing is written.
-      const meta = await lib.save(run, { snapshotEvery: Number(this.saveEvery.value), name, notes: this.saveNotes.value });
+      const meta = await lib.save(run, {
+        snapshotEvery: Number(this.saveEvery.value),
+        name,
+        notes: this.saveNotes.value,
+      });
       this.saveMsg.textContent = '';
       this.saveForm.hidden = true;
       this.prepared = null;
@@ -277,9 +319,16 @@ export class LibraryPage {
     if (!this.lib) return;
     this.metas = await this.lib.list();
     for (const id of [...this.cache.keys()]) if (!this.metas.some((m) => m.id === id)) this.cache.delete(id);
-    this.list.replaceChildren(...(this.metas.length ? this.metas.map((m) => this.item(m)) : [el('li', { className: 'hint' }, 'No saved runs yet. Run a scenario and save it, or import a run file.')]));
+    this.list.replaceChildren(
+      ...(this.metas.length
+        ? this.metas.map((m) => this.item(m))
+        : [el('li', { className: 'hint' }, 'No saved runs yet. Run a scenario and save it, or import a run file.')]),
+    );
     void this.showStorage();
-    const choices: CompareChoice[] = this.metas.map((m) => ({ value: m.id, label: `${m.name} (saved ${shortDate(m.savedAt)})` }));
+    const choices: CompareChoice[] = this.metas.map((m) => ({
+      value: m.id,
+      label: `${m.name} (saved ${shortDate(m.savedAt)})`,
+    }));
     choices.push({ value: 'live', label: 'the run on screen (live)' });
     this.compareView.setChoices(choices);
   }
@@ -308,13 +357,22 @@ export class LibraryPage {
     const li = el(
       'li',
       { className: 'lib-item', 'data-id': m.id, 'data-name': m.name },
-      el('div', { className: 'lib-item-head' }, name, el('span', { className: 'lib-date' }, `saved ${shortDate(m.savedAt)}`), el('span', { className: 'lib-size' }, formatBytes(m.sizeBytes))),
+      el(
+        'div',
+        { className: 'lib-item-head' },
+        name,
+        el('span', { className: 'lib-date' }, `saved ${shortDate(m.savedAt)}`),
+        el('span', { className: 'lib-size' }, formatBytes(m.sizeBytes)),
+      ),
       el('div', { className: 'lib-summary' }, summaryLine(m)),
     );
     if (m.notes) li.append(el('div', { className: 'lib-notes' }, m.notes));
     const act = (text: string, cls: string, f: () => Promise<void>, title = '') => {
       const b = button(text, { className: cls, title });
-      b.addEventListener('click', () => void f().catch((e: unknown) => this.say(`'${m.name}': ${(e as Error).message}`)));
+      b.addEventListener(
+        'click',
+        () => void f().catch((e: unknown) => this.say(`'${m.name}': ${(e as Error).message}`)),
+      );
       return b;
     };
     const edit = el('div', { className: 'lib-edit' });
@@ -323,10 +381,20 @@ export class LibraryPage {
         'div',
         { className: 'row small lib-actions' },
         act('Open', 'lib-open', () => this.open(m)),
-        act('Compare…', 'lib-compare', async () => this.compareWith(m), 'Compare this run (B) with the next older one (A)'),
+        act(
+          'Compare…',
+          'lib-compare',
+          async () => this.compareWith(m),
+          'Compare this run (B) with the next older one (A)',
+        ),
         act('Rename', 'lib-rename', async () => this.editText(edit, m, 'name')),
         act('Notes', 'lib-notes-edit', async () => this.editText(edit, m, 'notes')),
-        act('Duplicate as scenario', 'lib-duplicate', () => this.duplicate(m), 'Load this run\u2019s scenario into the scenario panel as a new scenario'),
+        act(
+          'Duplicate as scenario',
+          'lib-duplicate',
+          () => this.duplicate(m),
+          'Load this run\u2019s scenario into the scenario panel as a new scenario',
+        ),
         act('Export NetCDF', 'lib-export', () => this.exportRun(m)),
         act('Report', 'lib-report', () => this.report(m), 'Download the one-page report (HTML)'),
         act('Delete', 'lib-delete', () => this.remove(m)),
@@ -337,7 +405,22 @@ export class LibraryPage {
   }
 
   private editText(host: HTMLElement, m: SavedRunMeta, what: 'name' | 'notes'): void {
-    const input = what === 'name' ? el('input', { type: 'text', value: m.name, size: 30, className: 'lib-rename-input', 'aria-label': `new name of ${m.name}` }) : el('textarea', { value: m.notes, rows: 3, cols: 40, className: 'lib-notes-input', 'aria-label': `notes of ${m.name}` });
+    const input =
+      what === 'name'
+        ? el('input', {
+            type: 'text',
+            value: m.name,
+            size: 30,
+            className: 'lib-rename-input',
+            'aria-label': `new name of ${m.name}`,
+          })
+        : el('textarea', {
+            value: m.notes,
+            rows: 3,
+            cols: 40,
+            className: 'lib-notes-input',
+            'aria-label': `notes of ${m.name}`,
+          });
     const ok = button(what === 'name' ? 'Save name' : 'Save notes', { className: 'lib-edit-ok' });
     const cancel = button('Cancel');
     const msg = el('span', { className: 'field-msg' });
@@ -428,20 +511,34 @@ export class LibraryPage {
       },
     });
     download(bytes, `${fileSafe(m.name)}.nc`, 'application/x-netcdf');
-    const maps = run.snapshots.length === run.days.length ? `${run.snapshots.length} maps, one per record` : `${run.snapshots.length} kept maps on their own time axis map_time`;
-    say(`Exported '${m.name}': ${fileSafe(m.name)}.nc, ${formatBytes(bytes.length)} (${maps}; the series of all ${run.days.length} records).`);
+    const maps =
+      run.snapshots.length === run.days.length
+        ? `${run.snapshots.length} maps, one per record`
+        : `${run.snapshots.length} kept maps on their own time axis map_time`;
+    say(
+      `Exported '${m.name}': ${fileSafe(m.name)}.nc, ${formatBytes(bytes.length)} (${maps}; the series of all ${run.days.length} records).`,
+    );
     this.panelMsg.dataset.bytes = String(bytes.length);
   }
 
   private async report(m: SavedRunMeta): Promise<void> {
-    download(runReport(await this.get(m.id), { source: `the run library ('${m.name}')` }), `${fileSafe(m.name)}-report.html`, 'text/html');
+    download(
+      runReport(await this.get(m.id), { source: `the run library ('${m.name}')` }),
+      `${fileSafe(m.name)}-report.html`,
+      'text/html',
+    );
   }
 
   private async remove(m: SavedRunMeta): Promise<void> {
     await this.lib!.remove(m.id);
     if (this.view.shown === m.name) this.view.close();
     const undo = button('Undo', { className: 'lib-undo-btn' });
-    const bar = el('div', { className: 'lib-undo-row', 'data-id': m.id }, `Deleted '${m.name}'. It can be brought back until the page is reloaded. `, undo);
+    const bar = el(
+      'div',
+      { className: 'lib-undo-row', 'data-id': m.id },
+      `Deleted '${m.name}'. It can be brought back until the page is reloaded. `,
+      undo,
+    );
     undo.addEventListener('click', async () => {
       try {
         await this.lib!.undoRemove(m.id);
@@ -470,13 +567,20 @@ export class LibraryPage {
         this.summaryView.show(readSummary(bytes, file.name), file.name);
         this.say(`Opened the sweep summary ${file.name}.`, 'info');
       } catch (e) {
-        this.say(e instanceof SummaryFileError ? `not opened: ${e.message}` : `not opened: ${file.name}: ${(e as Error).message}`);
+        this.say(
+          e instanceof SummaryFileError
+            ? `not opened: ${e.message}`
+            : `not opened: ${file.name}: ${(e as Error).message}`,
+        );
       }
       return;
     }
     if (!this.lib) return;
     try {
-      const meta = await this.lib.importNetcdf(bytes, file.name, { name: `${file.name.replace(/\.nc$/i, '')} (imported)`, notes: `imported from ${file.name}` });
+      const meta = await this.lib.importNetcdf(bytes, file.name, {
+        name: `${file.name.replace(/\.nc$/i, '')} (imported)`,
+        notes: `imported from ${file.name}`,
+      });
       this.say(`Imported '${meta.name}' from ${file.name}.`, 'info');
       await this.refresh();
     } catch (e) {

@@ -138,9 +138,20 @@ export class LiveRun {
   toRunData(): RunData | null {
     const setup = this.setup;
     if (!setup || this.records.length === 0) return null;
-    const c = new RunCollector(setup, { snapshotEvery: 1, createdAt: this.startedAt, command: `run of ${setup.name} in the page` });
+    const c = new RunCollector(setup, {
+      snapshotEvery: 1,
+      createdAt: this.startedAt,
+      command: `run of ${setup.name} in the page`,
+    });
     for (const r of this.records) {
-      c.add({ day: r.sample.day, step: r.step, fields: r.fields ?? {}, integrals: r.sample.integrals, hovmoller: r.sample.hovmoller, probeValues: r.sample.probeValues });
+      c.add({
+        day: r.sample.day,
+        step: r.step,
+        fields: r.fields ?? {},
+        integrals: r.sample.integrals,
+        hovmoller: r.sample.hovmoller,
+        probeValues: r.sample.probeValues,
+      });
     }
     return c.finish();
   }

@@ -17,12 +17,27 @@ export class MapBox {
   private view: MapView | null = null;
   private grid: GridInfo | null = null;
 
-  constructor(idPrefix: string, label: string, private readonly width: number) {
+  constructor(
+    idPrefix: string,
+    label: string,
+    private readonly width: number,
+  ) {
     this.gl = el('canvas', { id: `${idPrefix}-gl`, 'aria-label': label });
     this.overlay = el('canvas', { className: 'lib-overlay', 'aria-hidden': 'true' });
-    this.bar = el('canvas', { id: `${idPrefix}-bar`, width: Math.min(420, width), height: 44, 'aria-label': `colour bar of ${label}` });
+    this.bar = el('canvas', {
+      id: `${idPrefix}-bar`,
+      width: Math.min(420, width),
+      height: 44,
+      'aria-label': `colour bar of ${label}`,
+    });
     this.title = el('div', { className: 'lib-map-title' });
-    this.root = el('div', { className: 'lib-map' }, this.title, el('div', { className: 'lib-map-stack' }, this.gl, this.overlay), this.bar);
+    this.root = el(
+      'div',
+      { className: 'lib-map' },
+      this.title,
+      el('div', { className: 'lib-map-stack' }, this.gl, this.overlay),
+      this.bar,
+    );
   }
 
   setTitle(text: string): void {

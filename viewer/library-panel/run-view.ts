@@ -31,7 +31,8 @@ export function rangeOverSnapshots(run: RunData, key: DisplayKey): Range {
   const out = new Float32Array(run.grid.nx * run.grid.ny);
   if (kind === 'diverging') {
     const all: Float32Array[] = [];
-    for (const s of run.snapshots) if (fillDisplay(key, s.fields, run.physics.layerThickness, out)) all.push(out.slice());
+    for (const s of run.snapshots)
+      if (fillDisplay(key, s.fields, run.physics.layerThickness, out)) all.push(out.slice());
     const m = symmetricRange(all);
     return { min: -m, max: m };
   }
@@ -53,11 +54,31 @@ export class RunView {
   private readonly map = new MapBox('lib-view-map', 'map of the saved run', 520);
   private readonly title = el('h3', { id: 'lib-view-title' });
   private readonly field = el('select', { id: 'lib-view-field', 'aria-label': 'field of the saved run' });
-  private readonly slider = el('input', { id: 'lib-view-slider', type: 'range', min: '0', max: '0', value: '0', step: '1', 'aria-label': 'snapshot of the saved run' });
+  private readonly slider = el('input', {
+    id: 'lib-view-slider',
+    type: 'range',
+    min: '0',
+    max: '0',
+    value: '0',
+    step: '1',
+    'aria-label': 'snapshot of the saved run',
+  });
   private readonly day = el('span', { id: 'lib-view-day', className: 'day' });
-  private readonly hovLat = el('select', { id: 'lib-view-hov-lat', 'aria-label': 'Hovmoller latitude of the saved run' });
-  private readonly hovCanvas = el('canvas', { id: 'lib-view-hov', width: 420, height: 280, className: 'lib-hov', 'aria-label': 'Hovmoller diagram of the saved run' });
-  private readonly probeField = el('select', { id: 'lib-view-probe-field', 'aria-label': 'probe series field of the saved run' });
+  private readonly hovLat = el('select', {
+    id: 'lib-view-hov-lat',
+    'aria-label': 'Hovmoller latitude of the saved run',
+  });
+  private readonly hovCanvas = el('canvas', {
+    id: 'lib-view-hov',
+    width: 420,
+    height: 280,
+    className: 'lib-hov',
+    'aria-label': 'Hovmoller diagram of the saved run',
+  });
+  private readonly probeField = el('select', {
+    id: 'lib-view-probe-field',
+    'aria-label': 'probe series field of the saved run',
+  });
   private readonly probeHost = el('div', { id: 'lib-view-probes', className: 'lib-probe-chart' });
   private readonly probeList = el('ul', { className: 'probe-list' });
   private readonly waves = el('div', { id: 'lib-view-waves', className: 'lib-waves-box' });
@@ -68,21 +89,52 @@ export class RunView {
   lastWaves: WaveRow[] = [];
 
   constructor(private readonly say: (text: string, kind?: 'error' | 'info') => void) {
-    const report = button('Report (HTML)', { id: 'lib-view-report', title: 'Download the one-page report of this run' });
+    const report = button('Report (HTML)', {
+      id: 'lib-view-report',
+      title: 'Download the one-page report of this run',
+    });
     const close = button('Close', { id: 'lib-view-close' });
     this.root = el(
       'div',
       { id: 'lib-view', className: 'lib-view', hidden: true },
       el('div', { className: 'row' }, this.title, report, close),
-      el('div', { className: 'row small' }, el('label', {}, 'Map shows ', this.field), el('label', { className: 'lib-scrub' }, 'Saved map ', this.slider), this.day),
+      el(
+        'div',
+        { className: 'row small' },
+        el('label', {}, 'Map shows ', this.field),
+        el('label', { className: 'lib-scrub' }, 'Saved map ', this.slider),
+        this.day,
+      ),
       this.map.root,
       el('h4', {}, 'Measured against theory'),
       this.waves,
       el(
         'div',
         { className: 'split' },
-        el('div', {}, el('h4', {}, 'Hovmoller diagram'), el('div', { className: 'row small' }, el('label', {}, 'Latitude ', this.hovLat), el('span', { className: 'hint' }, 'Kelvin wave (east at c) solid, long Rossby wave (west at c/3) dashed; a click moves their start')), this.hovCanvas),
-        el('div', {}, el('h4', {}, 'Probes'), el('div', { className: 'row small' }, el('label', {}, 'Series ', this.probeField)), this.probeHost, this.probeList),
+        el(
+          'div',
+          {},
+          el('h4', {}, 'Hovmoller diagram'),
+          el(
+            'div',
+            { className: 'row small' },
+            el('label', {}, 'Latitude ', this.hovLat),
+            el(
+              'span',
+              { className: 'hint' },
+              'Kelvin wave (east at c) solid, long Rossby wave (west at c/3) dashed; a click moves their start',
+            ),
+          ),
+          this.hovCanvas,
+        ),
+        el(
+          'div',
+          {},
+          el('h4', {}, 'Probes'),
+          el('div', { className: 'row small' }, el('label', {}, 'Series ', this.probeField)),
+          this.probeHost,
+          this.probeList,
+        ),
       ),
     );
     this.hov = new HovmollerPanel(this.hovCanvas, this.hovStore, () => undefined);
@@ -104,7 +156,11 @@ export class RunView {
     report.addEventListener('click', () => {
       if (!this.run) return;
       try {
-        download(runReport(this.run, { source: `the run library ('${this.label}')` }), `${fileSafe(this.label)}-report.html`, 'text/html');
+        download(
+          runReport(this.run, { source: `the run library ('${this.label}')` }),
+          `${fileSafe(this.label)}-report.html`,
+          'text/html',
+        );
       } catch (e) {
         this.say(`Report of '${this.label}': ${(e as Error).message}`);
       }
@@ -147,22 +203,40 @@ export class RunView {
     // Hovmoller: every record of every saved section.
     this.hovStore.reset(run.hovmoller.map((h) => h.rowLat));
     const nx = run.grid.nx;
-    for (let n = 0; n < run.days.length; n++) this.hovStore.add(run.days[n], run.hovmoller.map((h) => h.values.subarray(n * nx, (n + 1) * nx)));
+    for (let n = 0; n < run.days.length; n++)
+      this.hovStore.add(
+        run.days[n],
+        run.hovmoller.map((h) => h.values.subarray(n * nx, (n + 1) * nx)),
+      );
     this.hovLat.replaceChildren(...run.hovmoller.map((h, k) => new Option(latLabel(h.rowLat), String(k))));
     const g = gridInfoOf(run.grid);
-    this.hov.setRun({ lonWest: g.lonWest, lonEast: g.lonEast, days: run.days[run.days.length - 1], nx }, run.physics.waveSpeed, run.physics.earthRadius, pulseStart(run.scenarioJson));
+    this.hov.setRun(
+      { lonWest: g.lonWest, lonEast: g.lonEast, days: run.days[run.days.length - 1], nx },
+      run.physics.waveSpeed,
+      run.physics.earthRadius,
+      pulseStart(run.scenarioJson),
+    );
     this.hov.draw();
 
     // Probe series, as the live chart draws them.
     this.probeStore.reset(run.fields, run.probes);
-    for (let n = 0; n < run.days.length; n++) this.probeStore.addSample(run.days[n], run.probes.map((p) => Float32Array.from(run.fields, (f) => p.series[f]![n])));
+    for (let n = 0; n < run.days.length; n++)
+      this.probeStore.addSample(
+        run.days[n],
+        run.probes.map((p) => Float32Array.from(run.fields, (f) => p.series[f]![n])),
+      );
     this.probes.key = (this.probeField.value || 'h_anom') as DisplayKey;
     this.probes.layerThickness = run.physics.layerThickness;
     this.probes.renderList();
     this.probes.draw();
 
     this.lastWaves = waveRows(measureWaves(run));
-    this.waves.replaceChildren(wavesTable(this.lastWaves, `${label}: g′ = ${formatValue(run.physics.reducedGravity)} m s-2, H = ${formatValue(run.physics.layerThickness)} m`));
+    this.waves.replaceChildren(
+      wavesTable(
+        this.lastWaves,
+        `${label}: g′ = ${formatValue(run.physics.reducedGravity)} m s-2, H = ${formatValue(run.physics.layerThickness)} m`,
+      ),
+    );
     this.root.scrollIntoView({ block: 'nearest' });
   }
 

@@ -8,21 +8,60 @@ import { spreadReport } from '../../model/report/spread-report.ts';
 import { button, el } from './dom.ts';
 import { download, fileSafe } from '../files.ts';
 
-const fmt = (x: number | undefined) => (x !== undefined && Number.isFinite(x) ? Number(x.toPrecision(4)).toString() : '–');
+const fmt = (x: number | undefined) =>
+  x !== undefined && Number.isFinite(x) ? Number(x.toPrecision(4)).toString() : '–';
 
 export class SummaryView {
   readonly root = el('section', { id: 'lib-summary', className: 'lib-summary', hidden: true });
   /** What the page shows, for the browser tests. */
-  state: { file: string; members: number; complete: number; failed: number; missing: number; ensembles: number; rows: string[][] } | null = null;
+  state: {
+    file: string;
+    members: number;
+    complete: number;
+    failed: number;
+    missing: number;
+    ensembles: number;
+    rows: string[][];
+  } | null = null;
 
   show(s: SummaryData, fileName: string): void {
     const count = (k: string) => s.members.filter((m) => m.state === k).length;
     const paths = s.vary.map((v) => v.path);
-    const rows = s.members.map((m) => [String(m.id), ...paths.map((p) => m.values[p] ?? ''), m.state, fmt(m.scalars.kelvin_speed), fmt(m.scalars.ssh_peak), fmt(m.scalars.energy_end), (m.message ?? '').split('\n')[0]]);
-    const head = ['member', ...paths, 'state', 'Kelvin speed (m/s)', 'peak sea level (m)', 'energy at the end (J)', 'note'];
-    const table = el('table', { className: 'lib-summary-table' }, el('tr', {}, ...head.map((h) => el('th', {}, h))), ...rows.map((r) => el('tr', { className: `member-${r[paths.length + 1]}` }, ...r.map((c) => el('td', {}, c)))));
-    const reportBtn = button('Spread report…', { id: 'lib-summary-report', title: 'The summary as a printable page: results per member, mean ± standard deviation per seed ensemble' });
-    reportBtn.addEventListener('click', () => download(spreadReport(s, { source: fileName }), `${fileSafe(fileName.replace(/\.nc$/i, ''))}-report.html`, 'text/html'));
+    const rows = s.members.map((m) => [
+      String(m.id),
+      ...paths.map((p) => m.values[p] ?? ''),
+      m.state,
+      fmt(m.scalars.kelvin_speed),
+      fmt(m.scalars.ssh_peak),
+      fmt(m.scalars.energy_end),
+      (m.message ?? '').split('\n')[0],
+    ]);
+    const head = [
+      'member',
+      ...paths,
+      'state',
+      'Kelvin speed (m/s)',
+      'peak sea level (m)',
+      'energy at the end (J)',
+      'note',
+    ];
+    const table = el(
+      'table',
+      { className: 'lib-summary-table' },
+      el('tr', {}, ...head.map((h) => el('th', {}, h))),
+      ...rows.map((r) => el('tr', { className: `member-${r[paths.length + 1]}` }, ...r.map((c) => el('td', {}, c)))),
+    );
+    const reportBtn = button('Spread report…', {
+      id: 'lib-summary-report',
+      title: 'The summary as a printable page: results per member, mean ± standard deviation per seed ensemble',
+    });
+    reportBtn.addEventListener('click', () =>
+      download(
+        spreadReport(s, { source: fileName }),
+        `${fileSafe(fileName.replace(/\.nc$/i, ''))}-report.html`,
+        'text/html',
+      ),
+    );
     const closeBtn = button('Close', { id: 'lib-summary-close' });
     closeBtn.addEventListener('click', () => this.close());
     const ens = s.groups.length;
@@ -38,7 +77,15 @@ export class SummaryView {
       table,
     );
     this.root.hidden = false;
-    this.state = { file: fileName, members: s.members.length, complete: count('complete'), failed: count('failed'), missing: count('missing'), ensembles: ens, rows };
+    this.state = {
+      file: fileName,
+      members: s.members.length,
+      complete: count('complete'),
+      failed: count('failed'),
+      missing: count('missing'),
+      ensembles: ens,
+      rows,
+    };
   }
 
   close(): void {

@@ -25,8 +25,26 @@ const latText = latLabel;
 
 function row(wave: WaveRow['wave'], m: SpeedMeasure | NotMeasured | null, theory: number, theoryName: string): WaveRow {
   const theoryText = `${theoryName} = ${speedText(theory)} m/s`;
-  if (m === null) return { wave, measured: 'not measured: the run has no off-equatorial Hovmoller section', theory: theoryText, ratio: '', speed: null, standardError: null, theorySpeed: theory };
-  if (!isMeasured(m)) return { wave, measured: `not measured: ${m.reason}`, theory: theoryText, ratio: '', speed: null, standardError: null, theorySpeed: theory };
+  if (m === null)
+    return {
+      wave,
+      measured: 'not measured: the run has no off-equatorial Hovmoller section',
+      theory: theoryText,
+      ratio: '',
+      speed: null,
+      standardError: null,
+      theorySpeed: theory,
+    };
+  if (!isMeasured(m))
+    return {
+      wave,
+      measured: `not measured: ${m.reason}`,
+      theory: theoryText,
+      ratio: '',
+      speed: null,
+      standardError: null,
+      theorySpeed: theory,
+    };
   return {
     wave,
     measured: `${speedText(m.speed)} ± ${formatValue(m.standardError)} m/s ${m.direction} at ${latText(m.lat)} (${m.sign > 0 ? 'downwelling' : 'upwelling'}, ${m.points.length} times)`,
@@ -49,14 +67,16 @@ export function wavesTable(rows: WaveRow[], caption: string): HTMLTableElement {
   const cap = document.createElement('caption');
   cap.textContent = caption;
   const head = document.createElement('tr');
-  for (const h of ['wave', 'measured', 'theory', 'measured / theory']) head.append(Object.assign(document.createElement('th'), { textContent: h }));
+  for (const h of ['wave', 'measured', 'theory', 'measured / theory'])
+    head.append(Object.assign(document.createElement('th'), { textContent: h }));
   t.append(cap, head);
   for (const r of rows) {
     const tr = document.createElement('tr');
     tr.dataset.wave = r.wave;
     if (r.speed !== null) tr.dataset.speed = String(r.speed);
     tr.dataset.theory = String(r.theorySpeed);
-    for (const v of [r.wave, r.measured, r.theory, r.ratio]) tr.append(Object.assign(document.createElement('td'), { textContent: v }));
+    for (const v of [r.wave, r.measured, r.theory, r.ratio])
+      tr.append(Object.assign(document.createElement('td'), { textContent: v }));
     t.append(tr);
   }
   return t;

@@ -123,7 +123,11 @@ function textBytes(s: string): number {
  */
 export function estimateSize(run: RunData, snapshotEvery = 1): number {
   let b = 2048; // metadata record, keys, small values
-  b += textBytes(run.scenarioJson) + textBytes(run.name) + textBytes(run.description) + textBytes(JSON.stringify(run.bursts));
+  b +=
+    textBytes(run.scenarioJson) +
+    textBytes(run.name) +
+    textBytes(run.description) +
+    textBytes(JSON.stringify(run.bursts));
   b += run.grid.lon.byteLength + run.grid.lat.byteLength + run.grid.ocean.byteLength;
   b += run.days.byteLength + run.steps.byteLength;
   for (const a of Object.values(run.integrals)) b += a.byteLength;
@@ -170,7 +174,13 @@ export function scenarioSummary(scenarioJson: string, physics: RunPhysics): Scen
   const resolution = typeof res === 'number' ? `${res}°` : `${num(obj(res).lon)}° x ${num(obj(res).lat)}°`;
   return {
     scenarioName: typeof s.name === 'string' ? s.name : '',
-    basin: { lonWest: num(basin.lonWest), lonEast: num(basin.lonEast), latSouth: num(basin.latSouth), latNorth: num(basin.latNorth), resolution },
+    basin: {
+      lonWest: num(basin.lonWest),
+      lonEast: num(basin.lonEast),
+      latSouth: num(basin.latSouth),
+      latNorth: num(basin.latNorth),
+      resolution,
+    },
     reducedGravity: physics.reducedGravity,
     layerThickness: physics.layerThickness,
     frictionDays: physics.frictionDays,
@@ -184,11 +194,21 @@ export function scenarioSummary(scenarioJson: string, physics: RunPhysics): Scen
 /** A format-1 payload in format 2, or null when it cannot be (it is left for get() to refuse by name). */
 export function payloadToFormat2(p: PayloadRecord): PayloadRecord | null {
   if (p.format !== 'pycno-saved-run/1') return null;
-  const old = p.run as RunData & { reducedGravity?: unknown; layerThickness?: unknown; beta?: unknown; dynamics?: unknown };
+  const old = p.run as RunData & {
+    reducedGravity?: unknown;
+    layerThickness?: unknown;
+    beta?: unknown;
+    dynamics?: unknown;
+  };
   if (typeof old.reducedGravity !== 'number' || typeof old.layerThickness !== 'number') return null;
   try {
     const physics = legacyRunPhysics(
-      { reducedGravity: old.reducedGravity, layerThickness: old.layerThickness, beta: typeof old.beta === 'number' ? old.beta : undefined, dynamics: typeof old.dynamics === 'string' ? old.dynamics : undefined },
+      {
+        reducedGravity: old.reducedGravity,
+        layerThickness: old.layerThickness,
+        beta: typeof old.beta === 'number' ? old.beta : undefined,
+        dynamics: typeof old.dynamics === 'string' ? old.dynamics : undefined,
+      },
       old.scenarioJson,
     );
     const { reducedGravity: _g, layerThickness: _h, beta: _b, dynamics: _d, ...rest } = old;
@@ -244,7 +264,9 @@ export class RunLibrary {
         },
       });
     } catch (e) {
-      throw new LibraryError(`the run library cannot be opened (${describeError(e)}); is storage blocked for this page (private window, or site data turned off)?`);
+      throw new LibraryError(
+        `the run library cannot be opened (${describeError(e)}); is storage blocked for this page (private window, or site data turned off)?`,
+      );
     }
     const lib = new RunLibrary(db, {
       ...options,
@@ -262,7 +284,9 @@ export class RunLibrary {
   /** Saved runs, newest first, metadata only (deleted ones left out unless asked for). */
   async list(options: { includeDeleted?: boolean } = {}): Promise<SavedRunMeta[]> {
     const all = await this.db.getAll('runs');
-    return all.filter((m) => options.includeDeleted || m.deletedAt === null).sort((a, b) => (a.savedAt < b.savedAt ? 1 : a.savedAt > b.savedAt ? -1 : a.id < b.id ? 1 : -1));
+    return all
+      .filter((m) => options.includeDeleted || m.deletedAt === null)
+      .sort((a, b) => (a.savedAt < b.savedAt ? 1 : a.savedAt > b.savedAt ? -1 : a.id < b.id ? 1 : -1));
   }
 
   async meta(id: string): Promise<SavedRunMeta> {
@@ -277,7 +301,10 @@ export class RunLibrary {
     const [m, p] = await Promise.all([tx.objectStore('runs').get(id), tx.objectStore('payloads').get(id), tx.done]);
     if (!m) throw new LibraryError(`no saved run with id ${id}`);
     if (!p) throw new LibraryError(`saved run '${m.name}' (${id}) has no data record; the library is damaged`);
-    if (p.format !== PAYLOAD_FORMAT) throw new LibraryError(`saved run '${m.name}' is in format ${p.format}, which this version (${PAYLOAD_FORMAT}) does not read`);
+    if (p.format !== PAYLOAD_FORMAT)
+      throw new LibraryError(
+        `saved run '${m.name}' is in format ${p.format}, which this version (${PAYLOAD_FORMAT}) does not read`,
+      );
     return withAllIntegrals(p.run);
   }
 
@@ -288,7 +315,8 @@ export class RunLibrary {
    */
   async save(run: RunData, options: SaveOptions = {}): Promise<SavedRunMeta> {
     const every = options.snapshotEvery ?? 1;
-    if (!Number.isInteger(every) || every < 1) throw new LibraryError(`snapshot interval must be a whole number of output records >= 1 (got ${every})`);
+    if (!Number.isInteger(every) || every < 1)
+      throw new LibraryError(`snapshot interval must be a whole number of output records >= 1 (got ${every})`);
     try {
       checkRun(run);
     } catch (e) {
@@ -352,7 +380,8 @@ export class RunLibrary {
     let free: number | null = null;
     try {
       const est = await (this.options.estimateStorage ?? defaultEstimate)();
-      if (est && typeof est.quota === 'number' && typeof est.usage === 'number') free = Math.max(0, est.quota - est.usage);
+      if (est && typeof est.quota === 'number' && typeof est.usage === 'number')
+        free = Math.max(0, est.quota - est.usage);
     } catch {
       free = null;
     }
@@ -430,7 +459,11 @@ export class RunLibrary {
    * Read a Pycno run NetCDF (e.g. from a headless run) and save it with every snapshot in it.
    * Throws LibraryError naming the file for files that are not Pycno run files or are damaged.
    */
-  async importNetcdf(bytes: Uint8Array, fileName: string, options: Omit<SaveOptions, 'snapshotEvery'> = {}): Promise<SavedRunMeta> {
+  async importNetcdf(
+    bytes: Uint8Array,
+    fileName: string,
+    options: Omit<SaveOptions, 'snapshotEvery'> = {},
+  ): Promise<SavedRunMeta> {
     let run: RunData;
     try {
       run = readRun(bytes, fileName);

@@ -49,7 +49,16 @@ export function wireControls(page: Page, runs: RunLifecycle, drawing: DrawLoop, 
     probePanel.key = (ev.target as HTMLSelectElement).value as DisplayKey;
     drawing.queue(true);
   });
-  for (const id of ['show-currents', 'show-wind', 'range-min', 'range-max', 'arrow-ref-current', 'arrow-ref-wind', 'arrow-density']) $(id).addEventListener('input', redraw);
+  for (const id of [
+    'show-currents',
+    'show-wind',
+    'range-min',
+    'range-max',
+    'arrow-ref-current',
+    'arrow-ref-wind',
+    'arrow-density',
+  ])
+    $(id).addEventListener('input', redraw);
   for (const r of document.querySelectorAll('input[name="range-mode"]')) {
     r.addEventListener('change', () => {
       drawing.rescanRange();

@@ -62,7 +62,11 @@ export class DrawLoop {
     const g = run.grid;
     const key = state.fieldKey;
     const df = displayField(key);
-    const fresh = this.displayFrom === null || this.displayFrom.frame !== f || this.displayFrom.key !== key || this.display.length !== g.nx * g.ny;
+    const fresh =
+      this.displayFrom === null ||
+      this.displayFrom.frame !== f ||
+      this.displayFrom.key !== key ||
+      this.display.length !== g.nx * g.ny;
     if (fresh) {
       if (this.display.length !== g.nx * g.ny) this.display = new Float32Array(g.nx * g.ny);
       this.displayOk = fillDisplay(key, f.fields, run.physics.layerThickness, this.display);
@@ -82,7 +86,14 @@ export class DrawLoop {
       map.draw(this.display, range, layers, this.page.probes.probes, state.cursor, { frame: f, field: key });
       const bar = `${key}|${range.min}|${range.max}`;
       if (bar !== this.barKey) {
-        drawColourBar($<HTMLCanvasElement>('colour-bar'), lookupTable(mapFor(key)), range, df.label, df.units, MAP_TITLES[mapFor(key)]);
+        drawColourBar(
+          $<HTMLCanvasElement>('colour-bar'),
+          lookupTable(mapFor(key)),
+          range,
+          df.label,
+          df.units,
+          MAP_TITLES[mapFor(key)],
+        );
         this.barKey = bar;
       }
     } else this.barKey = ''; // the preview drew its own colour bar
@@ -105,7 +116,8 @@ export class DrawLoop {
     // The Hovmoller diagram again only when it changed: a new row throttled; a new mark,
     // latitude, size or start of the lines at once.
     const rest = this.hovRest();
-    if (hovPanel.rows !== this.hovShown.rows || rest !== this.hovShown.rest) this.hovThrottle.request(rest !== this.hovShown.rest);
+    if (hovPanel.rows !== this.hovShown.rows || rest !== this.hovShown.rest)
+      this.hovThrottle.request(rest !== this.hovShown.rest);
     this.probeThrottle.request();
     setText('budget-note', this.budgetNote());
   }
@@ -127,10 +139,24 @@ export class DrawLoop {
     const current = key('arrow-ref-current', 'current');
     const wind = key('arrow-ref-wind', 'wind stress');
     if ($<HTMLInputElement>('show-currents').checked && f.fields.u_surf && f.fields.v_surf) {
-      layers.push({ name: 'surface current', u: f.fields.u_surf, v: f.fields.v_surf, units: 'm/s', colour: [20, 20, 20], reference: current });
+      layers.push({
+        name: 'surface current',
+        u: f.fields.u_surf,
+        v: f.fields.v_surf,
+        units: 'm/s',
+        colour: [20, 20, 20],
+        reference: current,
+      });
     }
     if ($<HTMLInputElement>('show-wind').checked && f.fields.taux && f.fields.tauy) {
-      layers.push({ name: 'wind stress', u: f.fields.taux, v: f.fields.tauy, units: 'N m-2', colour: [120, 30, 160], reference: wind });
+      layers.push({
+        name: 'wind stress',
+        u: f.fields.taux,
+        v: f.fields.tauy,
+        units: 'N m-2',
+        colour: [120, 30, 160],
+        reference: wind,
+      });
     }
     this.page.map.arrowSpacing = Number($<HTMLSelectElement>('arrow-density').value) || 22;
     setText('arrow-msg', problems.join('; '));
@@ -140,7 +166,12 @@ export class DrawLoop {
   /** The read-out of the cell under the pointer (or the cursor) now, outside the draw. */
   showReadout(): void {
     const { state } = this.page;
-    showReadout($<HTMLTableElement>('readout'), state.run, shownFrame(state, this.page.history), state.hover ?? state.cursor);
+    showReadout(
+      $<HTMLTableElement>('readout'),
+      state.run,
+      shownFrame(state, this.page.history),
+      state.hover ?? state.cursor,
+    );
   }
 
   /** What the Hovmoller diagram shows besides its rows. */
@@ -196,7 +227,13 @@ export class DrawLoop {
     const { history, state } = this.page;
     const run = state.run;
     const first = history.at(0);
-    if (run && first && history.length >= history.maxFrames && history.spacing === 0 && first.day > (run.startDay ?? 0) + 1e-9) {
+    if (
+      run &&
+      first &&
+      history.length >= history.maxFrames &&
+      history.spacing === 0 &&
+      first.day > (run.startDay ?? 0) + 1e-9
+    ) {
       return `${history.describe()}; frames before day ${first.day.toFixed(1)} were let go to stay within it`;
     }
     return history.describe();

@@ -37,7 +37,10 @@ export async function addHovmollerLatitude(page: Page, drawing: DrawLoop): Promi
   sel.value = String(r.index);
   hovPanel.setLatitude(r.index);
   if (backfill.length && history.at(0) && history.at(0)!.day > run.startDay! + 1e-9) {
-    notices.message(`Hovmoller at ${latLabel(r.rowLat)}: days before ${history.at(0)!.day.toFixed(1)} were no longer kept, so the diagram starts there`, 'info');
+    notices.message(
+      `Hovmoller at ${latLabel(r.rowLat)}: days before ${history.at(0)!.day.toFixed(1)} were no longer kept, so the diagram starts there`,
+      'info',
+    );
   }
   drawing.queue(false);
 }

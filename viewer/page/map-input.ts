@@ -30,7 +30,12 @@ export function wireMapInput(page: Page, drawing: DrawLoop): void {
     const g = state.run.grid;
     const c = state.cursor ?? { i: Math.floor(g.nx / 2), j: Math.floor(g.ny / 2) };
     const step = ev.shiftKey ? 5 : 1;
-    const moves: Record<string, [number, number]> = { ArrowLeft: [-step, 0], ArrowRight: [step, 0], ArrowUp: [0, step], ArrowDown: [0, -step] };
+    const moves: Record<string, [number, number]> = {
+      ArrowLeft: [-step, 0],
+      ArrowRight: [step, 0],
+      ArrowUp: [0, step],
+      ArrowDown: [0, -step],
+    };
     if (moves[ev.key]) {
       const [di, dj] = moves[ev.key];
       state.cursor = { i: Math.min(g.nx - 1, Math.max(0, c.i + di)), j: Math.min(g.ny - 1, Math.max(0, c.j + dj)) };
@@ -65,7 +70,10 @@ function addProbeAt(page: Page, c: Cell): void {
   const per = run.outputEveryDays ?? 1;
   if (kept.days.length > 0) {
     probes.fillPageProbe(p, kept.days, kept.maps as Array<KeptFrame['fields']>);
-    const every = kept.every > 1 ? `the page's maps, one every ${+(kept.every * per).toFixed(3)} days` : 'the page\u2019s maps of every output';
+    const every =
+      kept.every > 1
+        ? `the page's maps, one every ${+(kept.every * per).toFixed(3)} days`
+        : 'the page\u2019s maps of every output';
     p.note = `days ${dayText(kept.days[0])} to ${dayText(kept.days[kept.days.length - 1])} from ${every}, then as the run goes`;
   } else {
     const days: number[] = [];
@@ -75,7 +83,9 @@ function addProbeAt(page: Page, c: Cell): void {
       maps.push(history.at(n)!.fields);
     }
     probes.fillPageProbe(p, days, maps);
-    p.note = days.length ? `days ${dayText(days[0])} to ${dayText(days[days.length - 1])} from the frames kept for looking back` : 'from now on';
+    p.note = days.length
+      ? `days ${dayText(days[0])} to ${dayText(days[days.length - 1])} from the frames kept for looking back`
+      : 'from now on';
   }
   probePanel.renderList();
 }

@@ -31,7 +31,8 @@ export class Notices {
   noGo(title: string, detail: string): void {
     $('app').hidden = true;
     $('messages').hidden = true;
-    for (const b of document.querySelectorAll<HTMLButtonElement>('.controls button, .controls select')) b.disabled = true;
+    for (const b of document.querySelectorAll<HTMLButtonElement>('.controls button, .controls select'))
+      b.disabled = true;
     const box = $('no-go');
     const h = document.createElement('h2');
     h.textContent = title;

@@ -26,7 +26,16 @@ export interface PageInfo {
 }
 
 export function publishPageInfo(): PageInfo {
-  const info: PageInfo = { ready: false, status: 'empty', framesReceived: 0, framesDrawn: 0, lastDay: 0, shownDay: 0, errors: [], floatTextures: false };
+  const info: PageInfo = {
+    ready: false,
+    status: 'empty',
+    framesReceived: 0,
+    framesDrawn: 0,
+    lastDay: 0,
+    shownDay: 0,
+    errors: [],
+    floatTextures: false,
+  };
   (window as unknown as { __pycno: PageInfo }).__pycno = info;
   return info;
 }

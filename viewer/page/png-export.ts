@@ -8,7 +8,12 @@ import type { Page } from './page.ts';
 
 export function exportPng(page: Page): void {
   const { map, probePanel, state, info } = page;
-  const parts = [map.compose(), $<HTMLCanvasElement>('colour-bar'), $<HTMLCanvasElement>('hovmoller'), probePanel.canvas()].filter((c): c is HTMLCanvasElement => c !== null);
+  const parts = [
+    map.compose(),
+    $<HTMLCanvasElement>('colour-bar'),
+    $<HTMLCanvasElement>('hovmoller'),
+    probePanel.canvas(),
+  ].filter((c): c is HTMLCanvasElement => c !== null);
   const title = `${state.run?.name ?? 'Pycno'}, ${displayField(state.fieldKey).label}, day ${info.shownDay.toFixed(1)}`;
   const w = Math.max(...parts.map((p) => p.width));
   const h = 24 + parts.reduce((s, p) => s + p.height + 8, 0);

@@ -7,7 +7,12 @@ import { availableDisplays, displayAt } from '../state/display-fields.ts';
 import type { KeptFrame } from '../state/frame-history.ts';
 import type { Cell } from './state.ts';
 
-export function showReadout(table: HTMLTableElement, run: LoadedScenario | null, f: KeptFrame | null, cell: Cell | null): void {
+export function showReadout(
+  table: HTMLTableElement,
+  run: LoadedScenario | null,
+  f: KeptFrame | null,
+  cell: Cell | null,
+): void {
   if (!run || !f || !cell) {
     table.replaceChildren();
     return;
@@ -20,7 +25,9 @@ export function showReadout(table: HTMLTableElement, run: LoadedScenario | null,
     ['Day', f.day.toFixed(2)],
   ];
   if (!g.ocean[k]) rows.push(['', 'land']);
-  else for (const d of availableDisplays(run.fields)) rows.push([`${d.label}`, `${formatValue(displayAt(d.key, f.fields, run.physics.layerThickness, k))} ${d.units}`]);
+  else
+    for (const d of availableDisplays(run.fields))
+      rows.push([`${d.label}`, `${formatValue(displayAt(d.key, f.fields, run.physics.layerThickness, k))} ${d.units}`]);
   table.replaceChildren(
     ...rows.map(([a, b]) => {
       const tr = document.createElement('tr');

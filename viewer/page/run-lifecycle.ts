@@ -48,7 +48,10 @@ export class RunLifecycle {
       if (s.fields) probes.addFrame(s.day, s.fields);
     }
     probes.addFrame(f.day, f.fields);
-    totals.add(f.samples.map((s) => s.integrals), f.integrals);
+    totals.add(
+      f.samples.map((s) => s.integrals),
+      f.integrals,
+    );
     this.page.coupledPanel.addSamples(f.samples);
     if (state.run?.derived.answering) this.page.panel.setCoupledMode(this.page.coupledPanel.shortMode());
     history.push({ day: f.day, step: f.step, fields: f.fields });
@@ -86,7 +89,9 @@ export class RunLifecycle {
       restart: async () => {
         engine.restart();
         const again = state.run;
-        const ok = again ? await this.load(again.scenarioJson, panel.fileName) : await this.load(panel.text(), panel.fileName);
+        const ok = again
+          ? await this.load(again.scenarioJson, panel.fileName)
+          : await this.load(panel.text(), panel.fileName);
         if (!ok) throw new Error('the scenario did not load in the new engine (see the message above)');
       },
     });
@@ -171,9 +176,18 @@ export class RunLifecycle {
     }
     state.fieldKey = pick.value as DisplayKey;
     probePanel.key = probePick.value as DisplayKey;
-    $<HTMLSelectElement>('hov-lat').replaceChildren(...r.hovmollerLats.map((lat, n) => new Option(latLabel(lat), String(n))));
-    hovPanel.setRun({ lonWest: r.grid.lonWest, lonEast: r.grid.lonEast, days: r.days, nx: r.grid.nx }, r.physics.waveSpeed, r.physics.earthRadius, pulseStart(r.scenarioJson));
-    $('hov-start').textContent = hovPanel.start ? `from ${lonLabel(hovPanel.start.lon)}, day ${hovPanel.start.day.toFixed(1)}` : '';
+    $<HTMLSelectElement>('hov-lat').replaceChildren(
+      ...r.hovmollerLats.map((lat, n) => new Option(latLabel(lat), String(n))),
+    );
+    hovPanel.setRun(
+      { lonWest: r.grid.lonWest, lonEast: r.grid.lonEast, days: r.days, nx: r.grid.nx },
+      r.physics.waveSpeed,
+      r.physics.earthRadius,
+      pulseStart(r.scenarioJson),
+    );
+    $('hov-start').textContent = hovPanel.start
+      ? `from ${lonLabel(hovPanel.start.lon)}, day ${hovPanel.start.day.toFixed(1)}`
+      : '';
     probePanel.renderList();
     const d = r.derived;
     this.page.coupledPanel.setRun(r.grid, r.fields, d.answering !== null);

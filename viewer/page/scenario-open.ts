@@ -15,11 +15,16 @@ export interface ShippedScenario {
 
 /** The scenarios in configs/, the westerly burst first. */
 export function shippedScenarios(): ShippedScenario[] {
-  const files = import.meta.glob('../../configs/*.json', { eager: true, import: 'default' }) as Record<string, Record<string, unknown>>;
+  const files = import.meta.glob('../../configs/*.json', { eager: true, import: 'default' }) as Record<
+    string,
+    Record<string, unknown>
+  >;
   return Object.entries(files)
     .filter(([path]) => !path.endsWith('.schema.json'))
     .map(([path, json]) => ({ file: path.split('/').pop()!, json }))
-    .sort((a, b) => (a.file === 'westerly-burst.json' ? -1 : b.file === 'westerly-burst.json' ? 1 : a.file.localeCompare(b.file)));
+    .sort((a, b) =>
+      a.file === 'westerly-burst.json' ? -1 : b.file === 'westerly-burst.json' ? 1 : a.file.localeCompare(b.file),
+    );
 }
 
 export class ScenarioOpener {
@@ -70,7 +75,9 @@ export class ScenarioOpener {
   /** The picker, the file input and drag-and-drop onto the page. */
   wire(): void {
     const pick = $<HTMLSelectElement>('scenario-pick');
-    pick.replaceChildren(...this.shipped.map((s) => new Option(`${String(s.json.name ?? s.file)} (${s.file})`, s.file)));
+    pick.replaceChildren(
+      ...this.shipped.map((s) => new Option(`${String(s.json.name ?? s.file)} (${s.file})`, s.file)),
+    );
     pick.addEventListener('change', () => {
       const s = this.shipped.find((x) => x.file === pick.value);
       if (s) void this.openShipped(s);
@@ -86,7 +93,8 @@ export class ScenarioOpener {
       document.body.classList.add('dropping');
     });
     document.addEventListener('dragleave', (ev) => {
-      if (ev.target === document.documentElement || ev.target === document.body) document.body.classList.remove('dropping');
+      if (ev.target === document.documentElement || ev.target === document.body)
+        document.body.classList.remove('dropping');
     });
     document.addEventListener('drop', async (ev) => {
       ev.preventDefault();

@@ -27,7 +27,16 @@ export interface PageState {
 }
 
 export function newPageState(): PageState {
-  return { run: null, status: 'empty', viewIndex: null, fieldKey: 'h_anom', cursor: null, hover: null, loading: false, early: [] };
+  return {
+    run: null,
+    status: 'empty',
+    viewIndex: null,
+    fieldKey: 'h_anom',
+    cursor: null,
+    hover: null,
+    loading: false,
+    early: [],
+  };
 }
 
 /** The frame on screen: the one scrubbed to, or the latest. */

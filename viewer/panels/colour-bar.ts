@@ -19,7 +19,14 @@ export function formatValue(v: number): string {
 
 export const BAR_FONT = '11px system-ui, sans-serif';
 
-export function drawColourBar(canvas: HTMLCanvasElement, lut: Uint8Array, range: Range, label: string, units: string, mapTitle = ''): void {
+export function drawColourBar(
+  canvas: HTMLCanvasElement,
+  lut: Uint8Array,
+  range: Range,
+  label: string,
+  units: string,
+  mapTitle = '',
+): void {
   const ctx = canvas.getContext('2d');
   if (!ctx) return;
   const W = canvas.width;

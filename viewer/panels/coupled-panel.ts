@@ -36,7 +36,8 @@ export class CoupledPanel {
     this.text = Object.assign(document.createElement('p'), { className: 'hint', id: 'coupled-mode', role: 'status' });
     const legend = Object.assign(document.createElement('p'), {
       className: 'legend',
-      textContent: 'red: eastern SST anomaly (K, over the upwelling region); blue: warm-water volume (mean h\u2032 5S\u20135N, m); each on its own scale',
+      textContent:
+        'red: eastern SST anomaly (K, over the upwelling region); blue: warm-water volume (mean h\u2032 5S\u20135N, m); each on its own scale',
     });
     root.append(this.map, this.scale, this.plot, legend, this.text);
     root.hidden = true;
@@ -166,7 +167,10 @@ export class CoupledPanel {
     }
     const mode = this.days.length >= 4 ? coupledMode(this.days, this.east, this.warm) : null;
     const last = this.days.length - 1;
-    const now = last >= 0 ? `Day ${this.days[last].toFixed(0)}: eastern SST ${formatValue(this.east[last])} K, warm water ${formatValue(this.warm[last])} m. ` : '';
+    const now =
+      last >= 0
+        ? `Day ${this.days[last].toFixed(0)}: eastern SST ${formatValue(this.east[last])} K, warm water ${formatValue(this.warm[last])} m. `
+        : '';
     this.text.textContent = `${now}Coupled mode: ${mode ? coupledModeLine(mode) : 'measured once the run has three complete half cycles of the eastern SST'}.`;
   }
 }

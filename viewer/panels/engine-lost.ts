@@ -9,7 +9,10 @@ export interface EngineLostNotice {
 }
 
 export function engineLostText(day: number | null): string {
-  const where = day === null ? 'No run was on screen.' : `The run on screen had reached day ${+day.toFixed(2)}; what it shows can still be saved in the library below.`;
+  const where =
+    day === null
+      ? 'No run was on screen.'
+      : `The run on screen had reached day ${+day.toFixed(2)}; what it shows can still be saved in the library below.`;
   return `The model engine has stopped: the browser ended its worker (for lack of memory, a crash, or another reason it does not tell the page). ${where} Your saved runs are not affected. Restart the engine to load the scenario again from its start.`;
 }
 

@@ -38,7 +38,10 @@ export class HovmollerPanel {
     private readonly onStart: (s: { lon: number; day: number }) => void,
   ) {
     canvas.addEventListener('click', (ev) => {
-      const p = this.toData(ev.offsetX * (canvas.width / canvas.clientWidth), ev.offsetY * (canvas.height / canvas.clientHeight));
+      const p = this.toData(
+        ev.offsetX * (canvas.width / canvas.clientWidth),
+        ev.offsetY * (canvas.height / canvas.clientHeight),
+      );
       if (p) {
         this.start = p;
         this.onStart(p);
@@ -112,7 +115,8 @@ export class HovmollerPanel {
 
     // One pixel per cell and output row, stretched to the plot without smoothing.
     const nRows = Math.max(1, rows.length);
-    if (!this.image || this.image.width !== e.nx || this.image.height !== nRows) this.image = new ImageData(e.nx, nRows);
+    if (!this.image || this.image.width !== e.nx || this.image.height !== nRows)
+      this.image = new ImageData(e.nx, nRows);
     const img = this.image;
     // The colours colourAt (render/colour-maps.ts) gives, written in place: this runs for every
     // cell of every row on each redraw while the run goes, so it allocates nothing.
@@ -163,7 +167,11 @@ export class HovmollerPanel {
         at: (lon) => this.toPixel(lon, 0)[0],
         label: lonLabel,
       },
-      { values: graticuleLines(0, e.days, graticuleStep(e.days, Math.floor(p.h / 30))), at: (d) => this.toPixel(e.lonWest, d)[1], label: (d) => `${d}` },
+      {
+        values: graticuleLines(0, e.days, graticuleStep(e.days, Math.floor(p.h / 30))),
+        at: (d) => this.toPixel(e.lonWest, d)[1],
+        label: (d) => `${d}`,
+      },
       'rgba(0,0,0,0.25)',
     );
     ctx.save();
@@ -190,7 +198,11 @@ export class HovmollerPanel {
     }
 
     if (this.start && this.c > 0) {
-      const lines = characteristics(this.start, this.c, this.earthRadius, { lonWest: e.lonWest, lonEast: e.lonEast, days: e.days });
+      const lines = characteristics(this.start, this.c, this.earthRadius, {
+        lonWest: e.lonWest,
+        lonEast: e.lonEast,
+        days: e.days,
+      });
       ctx.save();
       ctx.beginPath();
       ctx.rect(p.x, p.y, p.w, p.h);

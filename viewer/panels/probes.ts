@@ -18,7 +18,11 @@ export function probeColour(n: number): string {
 }
 
 /** The value of a series nearest to `day` (by day), or NaN when it has none. */
-export function nearestValue(days: readonly number[], values: readonly number[], day: number): { day: number; value: number } | null {
+export function nearestValue(
+  days: readonly number[],
+  values: readonly number[],
+  day: number,
+): { day: number; value: number } | null {
   if (days.length === 0) return null;
   let lo = 0;
   let hi = days.length - 1;
@@ -100,7 +104,10 @@ export class ProbePanel {
           height: this.height,
           scales: { x: { time: false } },
           axes: [{ label: 'day' }, { label: info.units, size: 56 }],
-          series: [{ label: 'day' }, ...probes.map((p, n) => ({ label: p.name, stroke: probeColour(n), width: 1.5, spanGaps: true }))],
+          series: [
+            { label: 'day' },
+            ...probes.map((p, n) => ({ label: p.name, stroke: probeColour(n), width: 1.5, spanGaps: true })),
+          ],
           // The legend is ours (above the chart); uPlot's own stays off.
           legend: { show: false },
           hooks: { setCursor: [(u: uPlot) => this.showLegend(u.cursor.idx ?? null)] },
@@ -138,7 +145,10 @@ export class ProbePanel {
       const line = document.createElement('span');
       line.className = 'line';
       line.style.borderColor = probeColour(n);
-      const v = near && Number.isFinite(near.value) ? `${formatValue(near.value)} ${units}${Math.abs(near.day - day!) > 1e-9 ? ` (day ${near.day.toFixed(1)})` : ''}` : '—';
+      const v =
+        near && Number.isFinite(near.value)
+          ? `${formatValue(near.value)} ${units}${Math.abs(near.day - day!) > 1e-9 ? ` (day ${near.day.toFixed(1)})` : ''}`
+          : '—';
       k.append(line, `${p.name}: ${v}`);
       return k;
     });

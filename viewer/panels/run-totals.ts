@@ -37,14 +37,23 @@ export class RunTotals {
     if (now && this.start) {
       const v0 = this.start.volume;
       const share = (x: number) => `${x >= 0 ? '+' : '\u2212'}${formatValue(Math.abs((100 * x) / v0))} %`;
-      rows.push(['Volume by sponges', Number.isFinite(now.spongeVolume) ? `${share(now.spongeVolume)} of the layer` : '\u2013']);
+      rows.push([
+        'Volume by sponges',
+        Number.isFinite(now.spongeVolume) ? `${share(now.spongeVolume)} of the layer` : '\u2013',
+      ]);
       if (this.nonlinear) rows.push(['Volume by entrainment', `${share(now.entrainedVolume)} of the layer`]);
       const f = this.fastest;
-      rows.push(['Fastest flow', `${formatValue(now.maxSpeed)} m/s${f && f.maxSpeed > now.maxSpeed ? ` (run: ${formatValue(f.maxSpeed)} on day ${f.day.toFixed(0)})` : ''}`]);
+      rows.push([
+        'Fastest flow',
+        `${formatValue(now.maxSpeed)} m/s${f && f.maxSpeed > now.maxSpeed ? ` (run: ${formatValue(f.maxSpeed)} on day ${f.day.toFixed(0)})` : ''}`,
+      ]);
       rows.push(['Courant number', formatValue(now.courant)]);
     }
     this.list.replaceChildren(
-      ...rows.flatMap(([k, v]) => [Object.assign(document.createElement('dt'), { textContent: k }), Object.assign(document.createElement('dd'), { textContent: v })]),
+      ...rows.flatMap(([k, v]) => [
+        Object.assign(document.createElement('dt'), { textContent: k }),
+        Object.assign(document.createElement('dd'), { textContent: v }),
+      ]),
     );
   }
 }

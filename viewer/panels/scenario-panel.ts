@@ -3,7 +3,14 @@
 // numbers follow as you type. The page only calls the validator and the derived-number functions.
 
 import { issueListLines } from '../../model/scenario/errors.ts';
-import { derivedNumbers, resolveScenario, validateScenario, validateScenarioText, type DerivedNumbers, type ScenarioIssue } from '../../model/scenario/index.ts';
+import {
+  derivedNumbers,
+  resolveScenario,
+  validateScenario,
+  validateScenarioText,
+  type DerivedNumbers,
+  type ScenarioIssue,
+} from '../../model/scenario/index.ts';
 import { scenarioRunRefusal } from '../../model/scenario/run-size.ts';
 import { scenarioSchema, type SchemaNode } from '../../model/scenario/schema.ts';
 import { formatValue } from './colour-bar.ts';
@@ -20,14 +27,26 @@ export interface ParamSpec {
 }
 
 export const PARAMS: ParamSpec[] = [
-  { path: 'physics.reducedGravity', label: "Reduced gravity g\u2032", units: 'm s-2' },
+  { path: 'physics.reducedGravity', label: 'Reduced gravity g\u2032', units: 'm s-2' },
   { path: 'physics.layerThickness', label: 'Layer thickness H', units: 'm' },
   { path: 'physics.frictionDays', label: 'Friction time', units: 'days', empty: null, emptyText: 'empty: no friction' },
   { path: 'physics.viscosity', label: 'Viscosity A', units: 'm2 s-1' },
   { path: 'time.days', label: 'Run length', units: 'days' },
   { path: 'time.outputEveryDays', label: 'Output interval', units: 'days' },
-  { path: 'time.dtSeconds', label: 'Time step dt', units: 's', empty: 'auto', emptyText: 'empty or "auto": from the stability limit' },
-  { path: 'numerics.precision', label: 'Precision', units: '', choices: ['float64', 'float32'], emptyText: 'float32: half the memory traffic, about 1e-7 relative round-off' },
+  {
+    path: 'time.dtSeconds',
+    label: 'Time step dt',
+    units: 's',
+    empty: 'auto',
+    emptyText: 'empty or "auto": from the stability limit',
+  },
+  {
+    path: 'numerics.precision',
+    label: 'Precision',
+    units: '',
+    choices: ['float64', 'float32'],
+    emptyText: 'float32: half the memory traffic, about 1e-7 relative round-off',
+  },
 ];
 
 type Json = Record<string, unknown>;
@@ -184,7 +203,8 @@ export class ScenarioPanel {
   /** Whether the boxes' values differ from a scenario's (the run's base, or the file as opened). */
   changedFrom(other: Json): boolean {
     // A value absent from the file reads as what its empty box means ("auto", no friction).
-    const norm = (v: unknown, s: ParamSpec) => JSON.stringify(v === undefined ? (s.choices ? s.choices[0] : s.empty === undefined ? null : s.empty) : v);
+    const norm = (v: unknown, s: ParamSpec) =>
+      JSON.stringify(v === undefined ? (s.choices ? s.choices[0] : s.empty === undefined ? null : s.empty) : v);
     return PARAMS.some((s) => norm(getPath(other, s.path), s) !== norm(getPath(this.edited, s.path), s));
   }
 
@@ -193,7 +213,8 @@ export class ScenarioPanel {
       const raw = this.boxes.get(spec.path)!.value;
       const v = readBox(raw, spec);
       // Leaving an optional box empty (or a choice at its default) falls back to the file's own value or the default.
-      if ((v === '' || (spec.choices && v === spec.choices[0])) && getPath(this.base, spec.path) === undefined) setPath(this.edited, spec.path, undefined);
+      if ((v === '' || (spec.choices && v === spec.choices[0])) && getPath(this.base, spec.path) === undefined)
+        setPath(this.edited, spec.path, undefined);
       else setPath(this.edited, spec.path, v);
     }
     const check = checkEdited(this.edited);
@@ -253,14 +274,19 @@ export class ScenarioPanel {
 
   private showDerived(d: DerivedNumbers | null): void {
     if (!d) {
-      this.derivedList.replaceChildren(Object.assign(document.createElement('dd'), { textContent: 'fix the marked values to see them' }));
+      this.derivedList.replaceChildren(
+        Object.assign(document.createElement('dd'), { textContent: 'fix the marked values to see them' }),
+      );
       return;
     }
     const rows: Array<[string, string, boolean?]> = [
       ['Kelvin speed c = \u221a(g\u2032H)', `${formatValue(d.c)} m/s`],
       ['Equatorial radius L = \u221a(c/\u03b2)', `${formatValue(d.equatorialRadiusKm)} km`],
       ['Kelvin crossing time', `${formatValue(d.kelvinCrossingDays)} days`],
-      ['Long Rossby speed c/3', `${formatValue(d.rossbySpeed)} m/s, crossing ${formatValue(d.rossbyCrossingDays)} days`],
+      [
+        'Long Rossby speed c/3',
+        `${formatValue(d.rossbySpeed)} m/s, crossing ${formatValue(d.rossbyCrossingDays)} days`,
+      ],
       ['Grid', `${d.nx} \u00d7 ${d.ny} cells, ${formatValue(d.dxKm)} \u00d7 ${formatValue(d.dyKm)} km`],
       ['Time step dt', `${formatValue(d.dt)} s${d.dtIsAuto ? ' (auto)' : ''}`, d.dt > d.stability.dtMax],
       ['dt limit', `${formatValue(d.stability.dtMax)} s (${d.stability.limitingTerm})`],
@@ -271,9 +297,15 @@ export class ScenarioPanel {
     const a = d.answering;
     if (a) {
       rows.push(
-        ['Answering wind', `${formatValue(a.strength)} m/s per K, every ${a.everySteps} steps (${formatValue(a.couplingDays)} days)`],
+        [
+          'Answering wind',
+          `${formatValue(a.strength)} m/s per K, every ${a.everySteps} steps (${formatValue(a.couplingDays)} days)`,
+        ],
         ['Atmosphere radius \u221a(c\u2090/\u03b2)', `${formatValue(a.atmosphereRadiusKm)} km`],
-        ['Kelvin, Rossby decay c\u2090/\u03b5, c\u2090/3\u03b5', `${formatValue(a.kelvinDecayKm)}, ${formatValue(a.rossbyDecayKm)} km`],
+        [
+          'Kelvin, Rossby decay c\u2090/\u03b5, c\u2090/3\u03b5',
+          `${formatValue(a.kelvinDecayKm)}, ${formatValue(a.rossbyDecayKm)} km`,
+        ],
         ['SST relaxation 1/(w + \u03b5\u209c)', `${formatValue(a.sstRelaxationDays)} days`],
         [COUPLED_MODE_ROW, this.coupledMode],
       );

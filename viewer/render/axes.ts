@@ -18,7 +18,13 @@ export interface AxisLines {
   stroke?(value: number): string | undefined;
 }
 
-export function drawAxes(ctx: CanvasRenderingContext2D, box: PlotBox, vertical: AxisLines, horizontal: AxisLines, stroke: string): void {
+export function drawAxes(
+  ctx: CanvasRenderingContext2D,
+  box: PlotBox,
+  vertical: AxisLines,
+  horizontal: AxisLines,
+  stroke: string,
+): void {
   ctx.textAlign = 'center';
   ctx.textBaseline = 'top';
   for (const v of vertical.values) {

@@ -5,7 +5,14 @@
 import type { DisplayKey } from '../state/display-fields.ts';
 import type { MapName } from '../../model/display/colour-maps.ts';
 
-export { colourAt, LAND_GREY, LUT_SIZE, lookupTable, MAP_TITLES, type MapName } from '../../model/display/colour-maps.ts';
+export {
+  colourAt,
+  LAND_GREY,
+  LUT_SIZE,
+  lookupTable,
+  MAP_TITLES,
+  type MapName,
+} from '../../model/display/colour-maps.ts';
 
 export function mapFor(key: DisplayKey): MapName {
   if (key === 'depth') return 'depth';

@@ -49,7 +49,15 @@ export class MapRenderer {
   private nx = 1;
   private ny = 1;
   private drawField: (props: { viewport: Viewport; range: [number, number] }) => void;
-  private drawArrows: (props: { viewport: Viewport; count: number; pxToClip: [number, number]; pxPerUnit: number; colour: [number, number, number]; at: Buffer; vec: Buffer }) => void;
+  private drawArrows: (props: {
+    viewport: Viewport;
+    count: number;
+    pxToClip: [number, number];
+    pxPerUnit: number;
+    colour: [number, number, number];
+    at: Buffer;
+    vec: Buffer;
+  }) => void;
   /** One pair of instance buffers per arrow layer (at most two), grown only when too small. */
   private arrowBufs: Array<{ at: Buffer; vec: Buffer; floats: number }> = [];
   private lutName = '';
@@ -57,7 +65,10 @@ export class MapRenderer {
   lutVersion = 0;
   private readonly instanced: boolean;
 
-  constructor(readonly canvas: HTMLCanvasElement, options: { forceBytes?: boolean } = {}) {
+  constructor(
+    readonly canvas: HTMLCanvasElement,
+    options: { forceBytes?: boolean } = {},
+  ) {
     let regl: Regl;
     try {
       regl = createREGL({
@@ -75,10 +86,25 @@ export class MapRenderer {
     this.regl = regl;
     this.floatTextures = !options.forceBytes && regl.hasExtension('OES_texture_float');
     this.instanced = regl.hasExtension('ANGLE_instanced_arrays');
-    this.fieldTex = regl.texture({ width: 1, height: 1, format: 'luminance', type: this.floatTextures ? 'float' : 'uint8' });
-    this.lutTex = regl.texture({ width: LUT_SIZE, height: 1, data: new Uint8Array(LUT_SIZE * 4), min: 'linear', mag: 'linear' });
+    this.fieldTex = regl.texture({
+      width: 1,
+      height: 1,
+      format: 'luminance',
+      type: this.floatTextures ? 'float' : 'uint8',
+    });
+    this.lutTex = regl.texture({
+      width: LUT_SIZE,
+      height: 1,
+      data: new Uint8Array(LUT_SIZE * 4),
+      min: 'linear',
+      mag: 'linear',
+    });
     for (let n = 0; n < 2; n++) {
-      this.arrowBufs.push({ at: regl.buffer({ usage: 'dynamic', type: 'float', length: 4 }), vec: regl.buffer({ usage: 'dynamic', type: 'float', length: 4 }), floats: 1 });
+      this.arrowBufs.push({
+        at: regl.buffer({ usage: 'dynamic', type: 'float', length: 4 }),
+        vec: regl.buffer({ usage: 'dynamic', type: 'float', length: 4 }),
+        floats: 1,
+      });
     }
 
     // Land travels in the field texture itself (a sentinel), so a pixel costs two texture reads,
@@ -164,7 +190,14 @@ export class MapRenderer {
     this.ocean = ocean.slice(0, nx * ny);
     this.texels = this.floatTextures ? new Float32Array(nx * ny) : new Uint8Array(nx * ny);
     // Storage once per grid; each new field then goes up with texSubImage2D.
-    this.fieldTex({ width: nx, height: ny, format: 'luminance', type: this.floatTextures ? 'float' : 'uint8', min: 'nearest', mag: 'nearest' });
+    this.fieldTex({
+      width: nx,
+      height: ny,
+      format: 'luminance',
+      type: this.floatTextures ? 'float' : 'uint8',
+      min: 'nearest',
+      mag: 'nearest',
+    });
   }
 
   setColourMap(name: string, lut: Uint8Array): void {

@@ -82,7 +82,15 @@ export class MapView {
   private lastSource: FieldSource | null = null;
   private uploadedRange: [number, number] | null = null;
   private shaderRange: [number, number] = [0, 1];
-  private slots: ArrowSlot[] = [0, 1].map(() => ({ u: null, v: null, stride: 0, reference: undefined, at: new Float32Array(0), vec: new Float32Array(0), set: null }));
+  private slots: ArrowSlot[] = [0, 1].map(() => ({
+    u: null,
+    v: null,
+    stride: 0,
+    reference: undefined,
+    at: new Float32Array(0),
+    vec: new Float32Array(0),
+    set: null,
+  }));
   private cells: { nx: number; ny: number; stride: number; list: number[] } | null = null;
   /** Set when the canvas, grid or GPU data changed: the WebGL canvas must be drawn again. */
   private glDirty = true;
@@ -150,13 +158,23 @@ export class MapView {
 
   /** Plot area in CSS pixels from the top-left. */
   plotRect(): { left: number; top: number; width: number; height: number } {
-    return { left: MARGIN.left, top: MARGIN.top, width: this.cssW - MARGIN.left - MARGIN.right, height: this.cssH - MARGIN.top - MARGIN.bottom };
+    return {
+      left: MARGIN.left,
+      top: MARGIN.top,
+      width: this.cssW - MARGIN.left - MARGIN.right,
+      height: this.cssH - MARGIN.top - MARGIN.bottom,
+    };
   }
 
   private viewport(): Viewport {
     const r = this.plotRect();
     const d = this.dpr;
-    return { x: Math.round(r.left * d), y: Math.round(MARGIN.bottom * d), width: Math.round(r.width * d), height: Math.round(r.height * d) };
+    return {
+      x: Math.round(r.left * d),
+      y: Math.round(MARGIN.bottom * d),
+      width: Math.round(r.width * d),
+      height: Math.round(r.height * d),
+    };
   }
 
   /** Cell under a point in CSS pixels relative to the canvas. */
@@ -170,15 +188,29 @@ export class MapView {
   pixelOf(lon: number, lat: number): [number, number] {
     const g = this.grid!;
     const r = this.plotRect();
-    return [r.left + ((lon - g.lonWest) / (g.lonEast - g.lonWest)) * r.width, r.top + ((g.latNorth - lat) / (g.latNorth - g.latSouth)) * r.height];
+    return [
+      r.left + ((lon - g.lonWest) / (g.lonEast - g.lonWest)) * r.width,
+      r.top + ((g.latNorth - lat) / (g.latNorth - g.latSouth)) * r.height,
+    ];
   }
 
-  draw(values: Float32Array, range: { min: number; max: number }, layers: VectorLayer[], marks: Mark[], cursor: { i: number; j: number } | null, source?: FieldSource): void {
+  draw(
+    values: Float32Array,
+    range: { min: number; max: number },
+    layers: VectorLayer[],
+    marks: Mark[],
+    cursor: { i: number; j: number } | null,
+    source?: FieldSource,
+  ): void {
     if (!this.grid) return;
     const last = this.lastSource;
-    const sameField = source !== undefined && last !== null && source.frame === last.frame && source.field === last.field;
+    const sameField =
+      source !== undefined && last !== null && source.frame === last.frame && source.field === last.field;
     // The byte fallback bakes the range into the texels; float textures take it as a uniform.
-    const sameTexels = sameField && (this.gl.floatTextures || (this.uploadedRange !== null && this.uploadedRange[0] === range.min && this.uploadedRange[1] === range.max));
+    const sameTexels =
+      sameField &&
+      (this.gl.floatTextures ||
+        (this.uploadedRange !== null && this.uploadedRange[0] === range.min && this.uploadedRange[1] === range.max));
     if (!sameTexels) {
       this.shaderRange = this.gl.setField(values, range);
       this.uploadedRange = [range.min, range.max];
@@ -192,7 +224,11 @@ export class MapView {
     for (let n = 0; n < Math.min(2, layers.length); n++) {
       const a = this.arrowLayer(n, layers[n]);
       arrows.push(a);
-      drawn.push({ layer: layers[n], ref: this.refs.get(layers[n].name) ?? 0, pxPerRef: this.arrowSpacing * KEY_LENGTH });
+      drawn.push({
+        layer: layers[n],
+        ref: this.refs.get(layers[n].name) ?? 0,
+        pxPerRef: this.arrowSpacing * KEY_LENGTH,
+      });
     }
     // A slot no longer drawn must be uploaded again when a layer comes back to it.
     for (let n = layers.length; n < 2; n++) this.slots[n].u = null;
@@ -215,7 +251,15 @@ export class MapView {
     const g = this.grid!;
     const r = this.plotRect();
     const stride = Math.max(1, Math.round((this.arrowSpacing / r.width) * g.nx));
-    if (slot.set && slot.u === layer.u && slot.v === layer.v && slot.stride === stride && slot.reference === layer.reference && sameColour(slot.set.colour, layer.colour)) return slot.set;
+    if (
+      slot.set &&
+      slot.u === layer.u &&
+      slot.v === layer.v &&
+      slot.stride === stride &&
+      slot.reference === layer.reference &&
+      sameColour(slot.set.colour, layer.colour)
+    )
+      return slot.set;
     if (!this.cells || this.cells.nx !== g.nx || this.cells.ny !== g.ny || this.cells.stride !== stride) {
       this.cells = { nx: g.nx, ny: g.ny, stride, list: arrowCells(g.nx, g.ny, stride) };
     }
@@ -268,8 +312,24 @@ export class MapView {
   }
 
   /** Layers that were drawn last time, with their reference arrows. */
-  referenceArrows(): Array<{ name: string; ref: number; units: string; set: boolean; pxPerRef: number; longest: number; spacing: number }> {
-    return this.lastArrows.map((a) => ({ name: a.layer.name, ref: a.ref, units: a.layer.units, set: a.layer.reference !== undefined, pxPerRef: a.pxPerRef, longest: this.longest.get(a.layer.name) ?? 0, spacing: this.arrowSpacing }));
+  referenceArrows(): Array<{
+    name: string;
+    ref: number;
+    units: string;
+    set: boolean;
+    pxPerRef: number;
+    longest: number;
+    spacing: number;
+  }> {
+    return this.lastArrows.map((a) => ({
+      name: a.layer.name,
+      ref: a.ref,
+      units: a.layer.units,
+      set: a.layer.reference !== undefined,
+      pxPerRef: a.pxPerRef,
+      longest: this.longest.get(a.layer.name) ?? 0,
+      spacing: this.arrowSpacing,
+    }));
   }
 
   forgetArrows(): void {
@@ -279,7 +339,9 @@ export class MapView {
 
   private drawOverlay(marks: Mark[], cursor: { i: number; j: number } | null): void {
     const g = this.grid!;
-    const refsKey = this.lastArrows.map((a) => `${a.layer.name}:${a.ref}:${a.pxPerRef}:${a.layer.units}:${a.layer.colour.join(',')}`).join(';');
+    const refsKey = this.lastArrows
+      .map((a) => `${a.layer.name}:${a.ref}:${a.pxPerRef}:${a.layer.units}:${a.layer.colour.join(',')}`)
+      .join(';');
     const key = `${this.cssW}x${this.cssH}@${this.dpr}|${marks.map((m) => `${m.name}:${m.lon}:${m.lat}`).join(';')}|${cursor ? `${cursor.i},${cursor.j}` : ''}|${refsKey}`;
     if (key === this.overlayKey) return;
     const ctx = this.overlay.getContext('2d');

@@ -22,7 +22,14 @@ export function degreesPerDay(speed: number, earthRadius: number): number {
  * The part of the line lon = lon0 + s (day - day0), day >= day0, that lies inside the
  * diagram's lon range and day range; null when none does.
  */
-export function clipLine(lon0: number, day0: number, s: number, lonWest: number, lonEast: number, dayEnd: number): { from: [number, number]; to: [number, number] } | null {
+export function clipLine(
+  lon0: number,
+  day0: number,
+  s: number,
+  lonWest: number,
+  lonEast: number,
+  dayEnd: number,
+): { from: [number, number]; to: [number, number] } | null {
   if (day0 > dayEnd || lon0 < lonWest || lon0 > lonEast) return null;
   let t1 = dayEnd;
   if (s > 0) t1 = Math.min(t1, day0 + (lonEast - lon0) / s);
@@ -57,10 +64,19 @@ export function pulseStart(scenarioJson: string): { lon: number; day: number } |
   } catch {
     return null;
   }
-  for (const p of (sc.wind?.parts ?? []) as Array<{ source?: { shape?: { kind?: string; lon?: number } }; envelope?: { kind?: string; start?: number; duration?: number } }>) {
+  for (const p of (sc.wind?.parts ?? []) as Array<{
+    source?: { shape?: { kind?: string; lon?: number } };
+    envelope?: { kind?: string; start?: number; duration?: number };
+  }>) {
     const shape = p.source?.shape;
     const env = p.envelope;
-    if (shape?.kind === 'patch' && typeof shape.lon === 'number' && env?.kind === 'pulse' && typeof env.start === 'number' && typeof env.duration === 'number') {
+    if (
+      shape?.kind === 'patch' &&
+      typeof shape.lon === 'number' &&
+      env?.kind === 'pulse' &&
+      typeof env.start === 'number' &&
+      typeof env.duration === 'number'
+    ) {
       return { lon: shape.lon, day: env.start + env.duration / 2 };
     }
   }

@@ -74,5 +74,5 @@ export function checkFixedRange(min: number, max: number): string | null {
 /** Position 0..1 of a value in a range, clamped. */
 export function rangePosition(v: number, r: Range): number {
   const t = (v - r.min) / (r.max - r.min);
-  return t < 0 ? 0 : Math.min(t , 1);
+  return t < 0 ? 0 : Math.min(t, 1);
 }

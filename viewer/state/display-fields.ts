@@ -3,7 +3,17 @@
 
 import { FIELD_INFO, type FieldName } from '../../model/diagnostics/fields.ts';
 
-export type DisplayKey = 'h_anom' | 'depth' | 'ssh' | 'u' | 'v' | 'speed' | 'surf_speed' | 'stress' | 'sst_anom' | 'atm_speed';
+export type DisplayKey =
+  | 'h_anom'
+  | 'depth'
+  | 'ssh'
+  | 'u'
+  | 'v'
+  | 'speed'
+  | 'surf_speed'
+  | 'stress'
+  | 'sst_anom'
+  | 'atm_speed';
 
 export type ColourKind = 'diverging' | 'sequential';
 
@@ -17,15 +27,33 @@ export interface DisplayField {
 }
 
 export const DISPLAY_FIELDS: DisplayField[] = [
-  { key: 'h_anom', label: 'Thermocline depth anomaly (positive down)', units: FIELD_INFO.h_anom.units, kind: 'diverging', needs: ['h_anom'] },
+  {
+    key: 'h_anom',
+    label: 'Thermocline depth anomaly (positive down)',
+    units: FIELD_INFO.h_anom.units,
+    kind: 'diverging',
+    needs: ['h_anom'],
+  },
   { key: 'depth', label: 'Thermocline depth H + h\u2032', units: 'm', kind: 'sequential', needs: ['h_anom'] },
   { key: 'ssh', label: 'Sea-surface height', units: FIELD_INFO.ssh.units, kind: 'diverging', needs: ['ssh'] },
   { key: 'u', label: 'Eastward velocity u (layer mean)', units: FIELD_INFO.u.units, kind: 'diverging', needs: ['u'] },
   { key: 'v', label: 'Northward velocity v (layer mean)', units: FIELD_INFO.v.units, kind: 'diverging', needs: ['v'] },
   { key: 'speed', label: 'Speed (layer mean)', units: 'm s-1', kind: 'sequential', needs: ['u', 'v'] },
-  { key: 'surf_speed', label: 'Surface current speed', units: 'm s-1', kind: 'sequential', needs: ['u_surf', 'v_surf'] },
+  {
+    key: 'surf_speed',
+    label: 'Surface current speed',
+    units: 'm s-1',
+    kind: 'sequential',
+    needs: ['u_surf', 'v_surf'],
+  },
   { key: 'stress', label: 'Wind stress magnitude', units: 'N m-2', kind: 'sequential', needs: ['taux', 'tauy'] },
-  { key: 'sst_anom', label: 'Sea-surface temperature anomaly (answering wind)', units: FIELD_INFO.sst_anom.units, kind: 'diverging', needs: ['sst_anom'] },
+  {
+    key: 'sst_anom',
+    label: 'Sea-surface temperature anomaly (answering wind)',
+    units: FIELD_INFO.sst_anom.units,
+    kind: 'diverging',
+    needs: ['sst_anom'],
+  },
   { key: 'atm_speed', label: 'Answering wind speed', units: 'm s-1', kind: 'sequential', needs: ['u_atm', 'v_atm'] },
 ];
 
@@ -107,7 +135,12 @@ function magnitude(a: Float32Array, b: Float32Array, out: Float32Array): true {
 }
 
 /** Value of a display field at one cell (for the read-out and probes). */
-export function displayAt(key: DisplayKey, fields: Partial<Record<FieldName, ArrayLike<number>>>, layerThickness: number, k: number): number {
+export function displayAt(
+  key: DisplayKey,
+  fields: Partial<Record<FieldName, ArrayLike<number>>>,
+  layerThickness: number,
+  k: number,
+): number {
   const get = (n: FieldName) => (fields[n] ? fields[n]![k] : NaN);
   switch (key) {
     case 'depth':

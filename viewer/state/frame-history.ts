@@ -105,7 +105,8 @@ export class FrameHistory {
     const n = this.items.length;
     // Once thinned, the newest frame takes the place of the previous newest, unless that one is a
     // spacing past the frame before it: then it stays, as the next kept frame.
-    if (this.gap > 0 && n >= 2 && this.items[n - 1].day - this.items[n - 2].day < this.gap - 1e-9) this.items[n - 1] = kept;
+    if (this.gap > 0 && n >= 2 && this.items[n - 1].day - this.items[n - 2].day < this.gap - 1e-9)
+      this.items[n - 1] = kept;
     else this.items.push(kept);
     this.fit();
   }

@@ -40,10 +40,11 @@ export class HovmollerStore {
   /** The largest |value| so far along latitude n (for a symmetric colour range). */
   maxAbs(n: number): number {
     let m = 0;
-    for (const r of this.at(n)) for (let i = 0; i < r.values.length; i++) {
-      const a = Math.abs(r.values[i]);
-      if (a > m) m = a;
-    }
+    for (const r of this.at(n))
+      for (let i = 0; i < r.values.length; i++) {
+        const a = Math.abs(r.values[i]);
+        if (a > m) m = a;
+      }
     return m;
   }
 }

@@ -38,7 +38,14 @@ export class ProbeStore {
     }
   }
 
-  private blank(id: string, name: string, lon: number, lat: number, origin: ProbeSeries['origin'], cell: number): ProbeSeries {
+  private blank(
+    id: string,
+    name: string,
+    lon: number,
+    lat: number,
+    origin: ProbeSeries['origin'],
+    cell: number,
+  ): ProbeSeries {
     const values: ProbeSeries['values'] = {};
     for (const f of this.fields) values[f] = [];
     return { id, name, lon, lat, origin, cell, days: [], values };
@@ -91,7 +98,10 @@ export class ProbeStore {
  * uPlot wants one shared x: the union of every probe's days, with null where a probe has no
  * value on a day.
  */
-export function alignSeries(series: Array<{ days: number[]; values: number[] }>): { x: number[]; ys: (number | null)[][] } {
+export function alignSeries(series: Array<{ days: number[]; values: number[] }>): {
+  x: number[];
+  ys: (number | null)[][];
+} {
   const all = new Set<number>();
   for (const s of series) for (const d of s.days) all.add(d);
   const x = [...all].sort((a, b) => a - b);

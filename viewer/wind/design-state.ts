@@ -60,13 +60,20 @@ export function reduceDesign(s: DesignState, a: DesignAction): DesignState {
     case 'load': {
       const key = scenarioKeyOf(a.scenario);
       const wind = windOf(a.scenario);
-      return { wind, selected: wind.parts.length ? 0 : null, appliedText: JSON.stringify(wind), scenarioKey: key, timeline: key === s.scenarioKey ? s.timeline : emptyTimeline() };
+      return {
+        wind,
+        selected: wind.parts.length ? 0 : null,
+        appliedText: JSON.stringify(wind),
+        scenarioKey: key,
+        timeline: key === s.scenarioKey ? s.timeline : emptyTimeline(),
+      };
     }
     case 'edit': {
       const { parts, select } = applyEdit(s.wind.parts, a.edit, s.wind.parts.length);
       const wind = { ...structuredClone(s.wind), parts };
       const n = parts.length;
-      const selected = select !== null && select >= 0 && select < n ? select : n ? Math.min(s.selected ?? 0, n - 1) : null;
+      const selected =
+        select !== null && select >= 0 && select < n ? select : n ? Math.min(s.selected ?? 0, n - 1) : null;
       return { ...s, wind, selected, timeline: recorded(s.timeline, s.wind) };
     }
     case 'select':
@@ -116,7 +123,9 @@ export const notApplied = (s: DesignState): boolean => JSON.stringify(s.wind) !=
 
 // ---- where the validator's issues go ----
 
-export type PartIssue = ScenarioIssue & { /** The path inside the part, dotted ("source.shape.lon", "window.0"). */ rel: string };
+export type PartIssue = ScenarioIssue & {
+  /** The path inside the part, dotted ("source.shape.lon", "window.0"). */ rel: string;
+};
 
 export interface RoutedIssues {
   /** The selected part's issues, for its editor (empty when none is selected). */
@@ -130,13 +139,26 @@ export interface RoutedIssues {
 const partPath = (k: number) => `wind.parts[${k}]`;
 const under = (path: string, pre: string) => path === pre || path.startsWith(`${pre}.`) || path.startsWith(`${pre}[`);
 
-export function routeIssues(issues: readonly ScenarioIssue[], selected: number | null, partCount: number): RoutedIssues {
+export function routeIssues(
+  issues: readonly ScenarioIssue[],
+  selected: number | null,
+  partCount: number,
+): RoutedIssues {
   const wind = issues.filter((i) => i.path.startsWith('wind'));
   const pre = selected === null ? null : partPath(selected);
   const editor =
     pre === null
       ? []
-      : wind.filter((i) => under(i.path, pre)).map((i) => ({ ...i, rel: i.path.slice(pre.length).replace(/^\./, '').replace(/\[(\d+)\]/g, '.$1').replace(/^\./, '') }));
+      : wind
+          .filter((i) => under(i.path, pre))
+          .map((i) => ({
+            ...i,
+            rel: i.path
+              .slice(pre.length)
+              .replace(/^\./, '')
+              .replace(/\[(\d+)\]/g, '.$1')
+              .replace(/^\./, ''),
+          }));
   const elsewhere = issues.filter((i) => pre === null || !under(i.path, pre));
   const invalid = Array.from({ length: partCount }, (_, k) => wind.some((i) => under(i.path, partPath(k))));
   return { editor, elsewhere, invalid };

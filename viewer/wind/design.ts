@@ -74,29 +74,53 @@ export function newPart(kind: PatternKind, basin: BasinBox, paintSpacing = 1): W
   const span = basin.lonEast - basin.lonWest;
   const constant: EnvelopeSpec = { kind: 'constant' };
   const shaped = (shape: Json, x: number, y = 0): WindPart =>
-    ({ kind: 'fixed', name: '', quantity: 'stress', source: { kind: 'shaped', shape, x, y }, envelope: constant }) as unknown as WindPart;
+    ({
+      kind: 'fixed',
+      name: '',
+      quantity: 'stress',
+      source: { kind: 'shaped', shape, x, y },
+      envelope: constant,
+    }) as unknown as WindPart;
   let part: WindPart;
   switch (kind) {
     case 'uniform':
       part = shaped({ kind: 'uniform' }, -0.05);
       break;
     case 'band': {
-      const profile: BandProfile = { kind: 'trades', edgeLat: Math.max(1, Math.min(30, Math.max(Math.abs(basin.latSouth), Math.abs(basin.latNorth)))) };
+      const profile: BandProfile = {
+        kind: 'trades',
+        edgeLat: Math.max(1, Math.min(30, Math.max(Math.abs(basin.latSouth), Math.abs(basin.latNorth)))),
+      };
       part = shaped({ kind: 'band', profile }, -0.05);
       break;
     }
     case 'patch':
-      part = shaped({ kind: 'patch', lon: midLon, lat: midLat, lonWidth: Number(Math.max(1, span / 20).toFixed(1)), latWidth: 4 }, 0.1);
+      part = shaped(
+        { kind: 'patch', lon: midLon, lat: midLat, lonWidth: Number(Math.max(1, span / 20).toFixed(1)), latWidth: 4 },
+        0.1,
+      );
       part = { ...part, envelope: { kind: 'pulse', start: 10, duration: 14, ramp: 3 } } as WindPart;
       break;
     case 'formula':
       part = shaped({ kind: 'formula', expression: 'exp(-(lat/10)^2)' }, -0.05);
       break;
     case 'painted':
-      part = { kind: 'fixed', name: '', quantity: 'stress', source: { kind: 'painted', grid: blankGrid(basin, paintSpacing) }, envelope: constant } as WindPart;
+      part = {
+        kind: 'fixed',
+        name: '',
+        quantity: 'stress',
+        source: { kind: 'painted', grid: blankGrid(basin, paintSpacing) },
+        envelope: constant,
+      } as WindPart;
       break;
     case 'file':
-      part = { kind: 'fixed', name: '', quantity: 'stress', source: { kind: 'file', path: 'winds.csv', format: 'csv' }, envelope: constant } as WindPart;
+      part = {
+        kind: 'fixed',
+        name: '',
+        quantity: 'stress',
+        source: { kind: 'file', path: 'winds.csv', format: 'csv' },
+        envelope: constant,
+      } as WindPart;
       break;
     case 'bursts':
       part = {
@@ -106,7 +130,10 @@ export function newPart(kind: PatternKind, basin: BasinBox, paintSpacing = 1): W
         ratePerYear: 6,
         window: [0, 180],
         amplitude: [0.05, 0.15],
-        lon: [basin.lonWest + span * 0.1, basin.lonWest + span * 0.4].map((v) => Number(v.toFixed(1))) as [number, number],
+        lon: [basin.lonWest + span * 0.1, basin.lonWest + span * 0.4].map((v) => Number(v.toFixed(1))) as [
+          number,
+          number,
+        ],
         lat: [-2, 2],
         lonWidth: [4, 8],
         latWidth: [2, 4],
@@ -124,7 +151,13 @@ export function newPart(kind: PatternKind, basin: BasinBox, paintSpacing = 1): W
         drag: 'linear',
         background: { x: -6, y: 0 },
         sst: {
-          region: { kind: 'patch', lon: Number((basin.lonEast - span * 0.2).toFixed(1)), lat: midLat, lonWidth: Number(Math.max(1, span / 7).toFixed(1)), latWidth: 4 },
+          region: {
+            kind: 'patch',
+            lon: Number((basin.lonEast - span * 0.2).toFixed(1)),
+            lat: midLat,
+            lonWidth: Number(Math.max(1, span / 7).toFixed(1)),
+            latWidth: 4,
+          },
           upwellingDays: 30,
           dampingDays: 125,
           subsurface: { warm: 2, warmDepth: 25, cold: 4, coldDepth: 50 },
@@ -144,7 +177,8 @@ export function summary(part: WindPart): string {
   const pattern = PATTERN_LABELS[patternOf(part)].toLowerCase();
   if (part.kind === 'answering') {
     const r = part.sst?.region;
-    const where = r?.kind === 'patch' ? ` over a region at ${r.lon}°E, ${r.lat}°N` : r ? ` over a ${r.kind} region` : '';
+    const where =
+      r?.kind === 'patch' ? ` over a region at ${r.lon}°E, ${r.lat}°N` : r ? ` over a ${r.kind} region` : '';
     return `${pattern}, ${part.strength} m/s per K${where}, every ${part.everySteps ?? 8} steps`;
   }
   const units = part.quantity === 'wind' ? 'm/s' : 'N m-2';
@@ -156,7 +190,14 @@ export function summary(part: WindPart): string {
   let amp = '';
   if (src.kind === 'shaped') {
     const m = Math.hypot(Number(src.x), Number(src.y));
-    const dir = Number(src.y) === 0 ? (Number(src.x) < 0 ? ' westward' : Number(src.x) > 0 ? ' eastward' : '') : ` toward ${((Math.atan2(Number(src.y), Number(src.x)) * 180) / Math.PI).toFixed(0)}°`;
+    const dir =
+      Number(src.y) === 0
+        ? Number(src.x) < 0
+          ? ' westward'
+          : Number(src.x) > 0
+            ? ' eastward'
+            : ''
+        : ` toward ${((Math.atan2(Number(src.y), Number(src.x)) * 180) / Math.PI).toFixed(0)}°`;
     amp = `${Number.isFinite(m) ? Number(m.toPrecision(3)) : '?'} ${units}${dir}`;
   } else if (src.kind === 'painted') {
     const g = src.grid as GriddedVectors;

@@ -18,7 +18,12 @@ export function dayAxis(runDays: number, n = 240): number[] {
  * the drawn bursts' pulses times their amplitudes (so the plot shows when bursts blow, and how
  * hard). Throws the model's message for an envelope that does not compile.
  */
-export function partSeries(part: WindPart, days: number[], seed: string, index: number): { values: number[]; units: string } {
+export function partSeries(
+  part: WindPart,
+  days: number[],
+  seed: string,
+  index: number,
+): { values: number[]; units: string } {
   // The answering wind follows the ocean, not the calendar: it has no time factor of its own.
   if (part.kind === 'answering') return { values: days.map(() => 0), units: 'follows the ocean' };
   if (part.kind === 'bursts') {
@@ -39,7 +44,13 @@ export interface PlotLine {
 }
 
 /** A line plot with a zero line, axis labels and a vertical marker at `markDay` (if given). */
-export function drawTimePlot(canvas: HTMLCanvasElement, days: number[], lines: PlotLine[], units: string, markDay: number | null): void {
+export function drawTimePlot(
+  canvas: HTMLCanvasElement,
+  days: number[],
+  lines: PlotLine[],
+  units: string,
+  markDay: number | null,
+): void {
   const ctx = canvas.getContext('2d');
   if (!ctx) return;
   const W = canvas.width;
@@ -53,10 +64,12 @@ export function drawTimePlot(canvas: HTMLCanvasElement, days: number[], lines: P
   const B = 18;
   let lo = 0;
   let hi = 0;
-  for (const l of lines) for (let k = 0; k < l.values.length; k++) if (Number.isFinite(l.values[k])) {
-    lo = Math.min(lo, l.values[k]);
-    hi = Math.max(hi, l.values[k]);
-  }
+  for (const l of lines)
+    for (let k = 0; k < l.values.length; k++)
+      if (Number.isFinite(l.values[k])) {
+        lo = Math.min(lo, l.values[k]);
+        hi = Math.max(hi, l.values[k]);
+      }
   if (hi - lo < 1e-12) hi = lo + 1;
   const pad = 0.08 * (hi - lo);
   lo -= pad;

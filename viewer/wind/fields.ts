@@ -78,7 +78,13 @@ export function defaultEnvelope(kind: EnvelopeSpec['kind'], runDays: number): En
     case 'harmonics':
       return { kind: 'harmonics', mean: 0, terms: [{ period: 365, amplitude: 1, peakDay: 0 }] };
     case 'table':
-      return { kind: 'table', points: [[0, 0], [10, 1]] };
+      return {
+        kind: 'table',
+        points: [
+          [0, 0],
+          [10, 1],
+        ],
+      };
     case 'switch-off':
       return { kind: 'switch-off', day: Math.round(d / 2), ramp: 5 };
   }
@@ -104,7 +110,13 @@ export function defaultShape(kind: ShapeSpec['kind'], basin: { lonWest: number; 
     case 'band':
       return { kind: 'band', profile: defaultProfile('trades') };
     case 'patch':
-      return { kind: 'patch', lon: Number(((basin.lonWest + basin.lonEast) / 2).toFixed(2)), lat: 0, lonWidth: Math.max(1, Number(((basin.lonEast - basin.lonWest) / 20).toFixed(1))), latWidth: 4 };
+      return {
+        kind: 'patch',
+        lon: Number(((basin.lonWest + basin.lonEast) / 2).toFixed(2)),
+        lat: 0,
+        lonWidth: Math.max(1, Number(((basin.lonEast - basin.lonWest) / 20).toFixed(1))),
+        latWidth: 4,
+      };
     case 'formula':
       return { kind: 'formula', expression: 'exp(-(lat/10)^2)' };
   }
@@ -121,7 +133,8 @@ function shapeFields(at: string, sh: ShapeSpec, f: FieldSpec[]): void {
   } else if (sh.kind === 'band') {
     const p = sh.profile;
     const pp = (k: string) => `${at}.profile.${k}`;
-    if (p.kind === 'trades') f.push({ path: pp('edgeLat'), label: 'Falls to zero at', units: '° from the equator', type: 'number' });
+    if (p.kind === 'trades')
+      f.push({ path: pp('edgeLat'), label: 'Falls to zero at', units: '° from the equator', type: 'number' });
     if (p.kind === 'cosine') {
       f.push({ path: pp('centre'), label: 'Centre', units: '°N', type: 'number' });
       f.push({ path: pp('halfWidth'), label: 'Half-width', units: '°', type: 'number' });
@@ -155,7 +168,12 @@ function answeringFields(part: Extract<WindPart, { kind: 'answering' }>): FieldS
     { path: 'sst.subsurface.warmDepth', label: '... over a deepening of', units: 'm', type: 'number' },
     { path: 'sst.subsurface.cold', label: 'Subsurface cooling at most', units: 'K', type: 'number' },
     { path: 'sst.subsurface.coldDepth', label: '... over a shoaling of', units: 'm', type: 'number' },
-    { path: 'sst.meanGradient', label: 'Mean zonal SST gradient (0: no advection)', units: 'K per 1000 km', type: 'number' },
+    {
+      path: 'sst.meanGradient',
+      label: 'Mean zonal SST gradient (0: no advection)',
+      units: 'K per 1000 km',
+      type: 'number',
+    },
     { path: 'sst.initial', label: 'SST anomaly at the start, times the region', units: 'K', type: 'number' },
     { path: 'atmosphere.speed', label: 'Atmosphere wave speed c_a', units: 'm s-1', type: 'number' },
     { path: 'atmosphere.dampingDays', label: 'Atmosphere damping time 1/eps', units: 'days', type: 'number' },
@@ -237,7 +255,9 @@ export function tableText(points: Array<[number, number]>): string {
   return points.map(([d, v]) => `${d}, ${v}`).join('\n');
 }
 
-export function parseTable(text: string): { ok: true; points: Array<[number, number]> } | { ok: false; message: string } {
+export function parseTable(
+  text: string,
+): { ok: true; points: Array<[number, number]> } | { ok: false; message: string } {
   const points: Array<[number, number]> = [];
   const lines = text.split('\n');
   for (let n = 0; n < lines.length; n++) {

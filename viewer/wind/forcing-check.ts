@@ -12,7 +12,7 @@ import type { ScenarioIssue } from '../../model/scenario/errors.ts';
 import { previewSetup } from './preview.ts';
 
 export function forcingProblem(json: unknown): ScenarioIssue | null {
-  let setup;
+  let setup: ReturnType<typeof previewSetup>;
   try {
     setup = previewSetup(json);
   } catch {
@@ -27,8 +27,16 @@ export function forcingProblem(json: unknown): ScenarioIssue | null {
     const m = /^wind part (\d+)/.exec(message);
     const k = m ? Number(m[1]) - 1 : -1;
     // A formula's problem goes to its box (the editor shows it there, with the rest of the part).
-    const part = k >= 0 ? ((json as { wind?: { parts?: Array<{ source?: { shape?: { kind?: string } } }> } }).wind?.parts?.[k]) : undefined;
-    const path = k < 0 ? 'wind' : part?.source?.shape?.kind === 'formula' ? `wind.parts[${k}].source.shape.expression` : `wind.parts[${k}]`;
+    const part =
+      k >= 0
+        ? (json as { wind?: { parts?: Array<{ source?: { shape?: { kind?: string } } }> } }).wind?.parts?.[k]
+        : undefined;
+    const path =
+      k < 0
+        ? 'wind'
+        : part?.source?.shape?.kind === 'formula'
+          ? `wind.parts[${k}].source.shape.expression`
+          : `wind.parts[${k}]`;
     return { path, message };
   }
 }

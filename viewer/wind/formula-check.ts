@@ -10,7 +10,11 @@ export type FormulaCheck =
   | { ok: false; message: string; index: number };
 
 /** Compile and sample a formula on a coarse lattice of the basin at day `t`. */
-export function checkFormula(text: string, basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number }, t = 0): FormulaCheck {
+export function checkFormula(
+  text: string,
+  basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number },
+  t = 0,
+): FormulaCheck {
   let f: CompiledFormula;
   try {
     f = compileFormula(text);

@@ -33,7 +33,11 @@ export function formulaInput(
   const link = document.createElement('a');
   link.href = '#help:wind.md#the-formula-language';
   link.textContent = 'the formula language in Help';
-  hint.append(`lon in °E, lat in °N, t in days; the value is a dimensionless factor (about -1 to 1) that x and y (${quantityUnits}) scale. The functions: `, link, '.');
+  hint.append(
+    `lon in °E, lat in °N, t in days; the value is a dimensionless factor (about -1 to 1) that x and y (${quantityUnits}) scale. The functions: `,
+    link,
+    '.',
+  );
   const check = (fromUser: boolean) => {
     const r = checkFormula(box.value, basin);
     wrap.classList.toggle('invalid', !r.ok);
@@ -48,7 +52,9 @@ export function formulaInput(
       return;
     }
     const range = `over the basin at day 0 it runs from ${Number(r.min.toPrecision(3))} to ${Number(r.max.toPrecision(3))}${r.usesTime ? '; it changes with t' : ''}`;
-    caret.textContent = r.badAt ? `compiles, but ${r.badAt}: the run would stop there (Apply and run stays off)` : range;
+    caret.textContent = r.badAt
+      ? `compiles, but ${r.badAt}: the run would stop there (Apply and run stays off)`
+      : range;
     if (r.badAt) {
       wrap.classList.add('invalid');
       box.setAttribute('aria-invalid', 'true');

@@ -22,10 +22,16 @@ export function recorded<T>(t: Timeline<T>, current: T, limit = HISTORY_LIMIT): 
 /** The value before the last change and the timeline after going back, or null; `current` moves to the redo list. */
 export function undone<T>(t: Timeline<T>, current: T): { value: T; timeline: Timeline<T> } | null {
   if (!t.past.length) return null;
-  return { value: t.past[t.past.length - 1], timeline: { past: t.past.slice(0, -1), future: [...t.future, structuredClone(current)] } };
+  return {
+    value: t.past[t.past.length - 1],
+    timeline: { past: t.past.slice(0, -1), future: [...t.future, structuredClone(current)] },
+  };
 }
 
 export function redone<T>(t: Timeline<T>, current: T): { value: T; timeline: Timeline<T> } | null {
   if (!t.future.length) return null;
-  return { value: t.future[t.future.length - 1], timeline: { past: [...t.past, structuredClone(current)], future: t.future.slice(0, -1) } };
+  return {
+    value: t.future[t.future.length - 1],
+    timeline: { past: [...t.past, structuredClone(current)], future: t.future.slice(0, -1) },
+  };
 }

@@ -32,7 +32,9 @@ export function readGridded(fileName: string, bytes: Uint8Array): GriddedSeries 
   if (!netcdf && /\.(nc|nc4|cdf|netcdf)$/i.test(fileName)) {
     // HDF5-based NetCDF-4 starts with \x89HDF.
     const hdf = bytes.length >= 4 && bytes[1] === 0x48 && bytes[2] === 0x44 && bytes[3] === 0x46;
-    throw new ImportError(`${fileName}: ${hdf ? 'a NetCDF-4 (HDF5) file; save it as NetCDF classic or 64-bit offset (e.g. nccopy -k classic)' : 'not a NetCDF classic file (it does not start with CDF)'}`);
+    throw new ImportError(
+      `${fileName}: ${hdf ? 'a NetCDF-4 (HDF5) file; save it as NetCDF classic or 64-bit offset (e.g. nccopy -k classic)' : 'not a NetCDF classic file (it does not start with CDF)'}`,
+    );
   }
   try {
     return netcdf ? readNetcdfVectors(bytes) : parseWindCsv(bytes);
@@ -60,7 +62,12 @@ export function hatEnvelope(days: ArrayLike<number>, s: number): EnvelopeSpec {
  * The parts that hold an imported series. Refuses data that miss the basin entirely (with the two
  * extents) and series with more than MAX_SLICES slices.
  */
-export function partsFromSeries(series: GriddedSeries, name: string, quantity: 'stress' | 'wind', basin: BasinBox): { parts: WindPart[]; notes: string[] } {
+export function partsFromSeries(
+  series: GriddedSeries,
+  name: string,
+  quantity: 'stress' | 'wind',
+  basin: BasinBox,
+): { parts: WindPart[]; notes: string[] } {
   const lonE = series.lon0 + (series.nLon - 1) * series.dLon;
   const latN = series.lat0 + (series.nLat - 1) * series.dLat;
   if (lonE < basin.lonWest || series.lon0 > basin.lonEast || latN < basin.latSouth || series.lat0 > basin.latNorth) {
@@ -70,7 +77,9 @@ export function partsFromSeries(series: GriddedSeries, name: string, quantity: '
   }
   const nT = series.x.length;
   if (nT > MAX_SLICES) {
-    throw new ImportError(`${name}: ${nT} time slices; at most ${MAX_SLICES} can be stored in a scenario (cut the file to the run's days, or average it in time)`);
+    throw new ImportError(
+      `${name}: ${nT} time slices; at most ${MAX_SLICES} can be stored in a scenario (cut the file to the run's days, or average it in time)`,
+    );
   }
   const notes: string[] = [];
   if (series.missing > 0) notes.push(`${series.missing} missing values were set to 0`);
@@ -90,6 +99,7 @@ export function partsFromSeries(series: GriddedSeries, name: string, quantity: '
     const label = series.days && nT > 1 ? `${name}, day ${series.days[s]}` : name;
     parts.push({ kind: 'fixed', name: label, quantity, source: { kind: 'painted', grid: grid(s) }, envelope });
   }
-  if (nT > 1) notes.push(`${nT} time slices became ${nT} parts whose table envelopes interpolate linearly between their days`);
+  if (nT > 1)
+    notes.push(`${nT} time slices became ${nT} parts whose table envelopes interpolate linearly between their days`);
   return { parts, notes };
 }

@@ -6,7 +6,22 @@
 
 import type { WindPart } from '../../model/forcing/spec.ts';
 import type { MapView } from '../render/map-view.ts';
-import { bandFromDrag, bandOutline, dragEdge, hitHandle, insidePatch, moveCentre, patchHandles, patchOutline, scaleWidth, tidy, turnBy, turnTowards, type HandleKind, type PatchGeometry } from './patch-geometry.ts';
+import {
+  bandFromDrag,
+  bandOutline,
+  dragEdge,
+  hitHandle,
+  insidePatch,
+  moveCentre,
+  patchHandles,
+  patchOutline,
+  scaleWidth,
+  tidy,
+  turnBy,
+  turnTowards,
+  type HandleKind,
+  type PatchGeometry,
+} from './patch-geometry.ts';
 import { dab, strokePoints, type Brush } from './paint.ts';
 
 export type ToolMode = 'off' | 'patch' | 'band' | 'paint' | 'point';
@@ -71,13 +86,17 @@ export class MapTools {
     const g = this.map.extent;
     if (!g) return null;
     const r = this.map.plotRect();
-    return { lon: g.lonWest + ((x - r.left) / r.width) * (g.lonEast - g.lonWest), lat: g.latNorth - ((y - r.top) / r.height) * (g.latNorth - g.latSouth) };
+    return {
+      lon: g.lonWest + ((x - r.left) / r.width) * (g.lonEast - g.lonWest),
+      lat: g.latNorth - ((y - r.top) / r.height) * (g.latNorth - g.latSouth),
+    };
   }
 
   private toPixel = (lon: number, lat: number): [number, number] => this.map.pixelOf(lon, lat);
 
   private patchOf(part: WindPart | null): PatchGeometry | null {
-    if (part?.kind === 'fixed' && part.source.kind === 'shaped' && part.source.shape.kind === 'patch') return part.source.shape;
+    if (part?.kind === 'fixed' && part.source.kind === 'shaped' && part.source.shape.kind === 'patch')
+      return part.source.shape;
     // An answering part's upwelling region, when it is a patch, moves and sizes the same way.
     if (part?.kind === 'answering' && part.sst.region.kind === 'patch') return part.sst.region;
     return null;
@@ -97,7 +116,11 @@ export class MapTools {
   private withBand(part: WindPart, lat1: number, lat2: number): WindPart | null {
     if (part.kind !== 'fixed' || part.source.kind !== 'shaped' || part.source.shape.kind !== 'band') return null;
     const next = structuredClone(part) as typeof part;
-    (next.source as { shape: { kind: 'band'; profile: ReturnType<typeof bandFromDrag> } }).shape.profile = bandFromDrag(part.source.shape.profile, lat1, lat2);
+    (next.source as { shape: { kind: 'band'; profile: ReturnType<typeof bandFromDrag> } }).shape.profile = bandFromDrag(
+      part.source.shape.profile,
+      lat1,
+      lat2,
+    );
     return next;
   }
 
@@ -200,7 +223,12 @@ export class MapTools {
     const g = this.map.extent;
     if (!g) return;
     const big = e.shiftKey;
-    const arrows: Record<string, [number, number]> = { ArrowLeft: [-1, 0], ArrowRight: [1, 0], ArrowUp: [0, 1], ArrowDown: [0, -1] };
+    const arrows: Record<string, [number, number]> = {
+      ArrowLeft: [-1, 0],
+      ArrowRight: [1, 0],
+      ArrowUp: [0, 1],
+      ArrowDown: [0, -1],
+    };
     const step = big ? 5 : 1;
     const arrow = arrows[e.key];
     let done = false;
@@ -235,9 +263,13 @@ export class MapTools {
         done = true;
       }
     } else if (this.mode === 'paint' || this.mode === 'point') {
-      const c = this.cursor ?? this.host.point() ?? { lon: (g.lonWest + g.lonEast) / 2, lat: (g.latSouth + g.latNorth) / 2 };
+      const c = this.cursor ??
+        this.host.point() ?? { lon: (g.lonWest + g.lonEast) / 2, lat: (g.latSouth + g.latNorth) / 2 };
       if (arrow) {
-        this.cursor = { lon: Math.min(g.lonEast, Math.max(g.lonWest, c.lon + arrow[0] * step)), lat: Math.min(g.latNorth, Math.max(g.latSouth, c.lat + arrow[1] * step)) };
+        this.cursor = {
+          lon: Math.min(g.lonEast, Math.max(g.lonWest, c.lon + arrow[0] * step)),
+          lat: Math.min(g.latNorth, Math.max(g.latSouth, c.lat + arrow[1] * step)),
+        };
         done = true;
       } else if (e.key === ' ' || e.key === 'Enter') {
         if (this.mode === 'point') this.host.setPoint(c.lon, c.lat);
@@ -304,7 +336,12 @@ export class MapTools {
         ctx.stroke();
       }
     }
-    if (this.mode === 'band' && part?.kind === 'fixed' && part.source.kind === 'shaped' && part.source.shape.kind === 'band') {
+    if (
+      this.mode === 'band' &&
+      part?.kind === 'fixed' &&
+      part.source.kind === 'shaped' &&
+      part.source.shape.kind === 'band'
+    ) {
       ctx.strokeStyle = '#000';
       ctx.setLineDash([6, 3]);
       for (const lat of bandOutline(part.source.shape.profile)) {
@@ -339,7 +376,8 @@ export class MapTools {
 
 const KEY_HELP: Record<ToolMode, string> = {
   off: 'Wind design tools on the map (choose a tool first)',
-  patch: 'Patch tool: arrow keys move the patch (Shift: 5 degrees), [ and ] change the width along x, { and } along y, comma and period turn it',
+  patch:
+    'Patch tool: arrow keys move the patch (Shift: 5 degrees), [ and ] change the width along x, { and } along y, comma and period turn it',
   band: 'Band tool: up and down arrows move the band, [ narrows it, ] widens it',
   paint: 'Paint tool: arrow keys move the brush, Space paints a dab',
   point: 'Point tool: arrow keys move the point, Enter picks it for the time series',

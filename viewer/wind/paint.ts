@@ -25,7 +25,10 @@ export interface Brush {
 }
 
 /** A zero grid covering a basin at `spacing` degrees, samples at the centres of its cells. */
-export function blankGrid(basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number }, spacing: number): GriddedVectors {
+export function blankGrid(
+  basin: { lonWest: number; lonEast: number; latSouth: number; latNorth: number },
+  spacing: number,
+): GriddedVectors {
   const nLon = Math.max(1, Math.round((basin.lonEast - basin.lonWest) / spacing));
   const nLat = Math.max(1, Math.round((basin.latNorth - basin.latSouth) / spacing));
   // The spacing that fits the basin exactly, so the samples sit at cell centres edge to edge.
@@ -103,7 +106,13 @@ export function dab(g: GriddedVectors, lon: number, lat: number, brush: Brush): 
 }
 
 /** Mean of the 3 x 3 block around (i, j), the centre included, cut at the grid's edges. */
-export function neighbourMean(g: { x: number[]; y: number[] }, nLon: number, nLat: number, i: number, j: number): [number, number] {
+export function neighbourMean(
+  g: { x: number[]; y: number[] },
+  nLon: number,
+  nLat: number,
+  i: number,
+  j: number,
+): [number, number] {
   let sx = 0;
   let sy = 0;
   let n = 0;
@@ -121,7 +130,13 @@ export function neighbourMean(g: { x: number[]; y: number[] }, nLon: number, nLa
  * Dab centres along a stroke from (lon1, lat1) to (lon2, lat2), a third of the radius apart, the
  * start excluded (it was dabbed when the stroke reached it) and the end included.
  */
-export function strokePoints(lon1: number, lat1: number, lon2: number, lat2: number, radius: number): Array<[number, number]> {
+export function strokePoints(
+  lon1: number,
+  lat1: number,
+  lon2: number,
+  lat2: number,
+  radius: number,
+): Array<[number, number]> {
   const d = Math.hypot(lon2 - lon1, lat2 - lat1);
   const n = Math.max(1, Math.ceil(d / Math.max(1e-6, radius / 3)));
   const out: Array<[number, number]> = [];

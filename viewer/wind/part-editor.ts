@@ -8,7 +8,21 @@ import type { BandProfile, EnvelopeSpec, ShapeSpec, WindPart } from '../../model
 import type { ScenarioIssue } from '../../model/scenario/errors.ts';
 import { getAt, patternOf, setAt, type BasinBox } from './design.ts';
 import { dayAxis, drawTimePlot, partSeries } from './envelope-plot.ts';
-import { defaultEnvelope, defaultProfile, defaultShape, describe, ENVELOPE_KINDS, fieldsOf, parseTable, PROFILE_KINDS, rangeHint, readNumber, SHAPE_KINDS, showValue, tableText } from './fields.ts';
+import {
+  defaultEnvelope,
+  defaultProfile,
+  defaultShape,
+  describe,
+  ENVELOPE_KINDS,
+  fieldsOf,
+  parseTable,
+  PROFILE_KINDS,
+  rangeHint,
+  readNumber,
+  SHAPE_KINDS,
+  showValue,
+  tableText,
+} from './fields.ts';
 import { formulaInput } from './formula-input.ts';
 import { largestVector } from './paint.ts';
 
@@ -72,7 +86,13 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
     return wrap;
   };
 
-  const select = (path: string, label: string, options: string[], value: string, onPick: (v: string) => void): HTMLElement => {
+  const select = (
+    path: string,
+    label: string,
+    options: string[],
+    value: string,
+    onPick: (v: string) => void,
+  ): HTMLElement => {
     const s = document.createElement('select');
     s.name = path;
     for (const o of options) s.add(new Option(o, o));
@@ -112,10 +132,14 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
   // Name and quantity (an answering part gives wind, and says how it becomes stress).
   fieldsHost.append(box('name', 'Name', '', 'text', true));
   if (part.kind === 'answering') {
-    fieldsHost.append(select('drag', 'Wind to stress', ['linear', 'bulk'], part.drag, (v) => commit(setAt(part, 'drag', v), true)));
+    fieldsHost.append(
+      select('drag', 'Wind to stress', ['linear', 'bulk'], part.drag, (v) => commit(setAt(part, 'drag', v), true)),
+    );
     const region = part.sst.region;
     fieldsHost.append(
-      select('sst.region.kind', 'Upwelling region', SHAPE_KINDS, region.kind, (v) => commit(setAt(part, 'sst.region', defaultShape(v as ShapeSpec['kind'], ctx.basin)), true, true)),
+      select('sst.region.kind', 'Upwelling region', SHAPE_KINDS, region.kind, (v) =>
+        commit(setAt(part, 'sst.region', defaultShape(v as ShapeSpec['kind'], ctx.basin)), true, true),
+      ),
     );
     if (region.kind === 'band') {
       fieldsHost.append(
@@ -125,7 +149,13 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
       );
     }
     if (region.kind === 'formula') {
-      const f = formulaInput(region.expression, ctx.basin, '0 to 1', (text) => commit(setAt(part, 'sst.region.expression', text), true), id);
+      const f = formulaInput(
+        region.expression,
+        ctx.basin,
+        '0 to 1',
+        (text) => commit(setAt(part, 'sst.region.expression', text), true),
+        id,
+      );
       const msg = document.createElement('div');
       msg.className = 'field-msg';
       msgs.set('sst.region.expression', msg);
@@ -134,14 +164,18 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
     }
   } else {
     fieldsHost.append(
-      select('quantity', 'Given as', ['stress', 'wind'], part.quantity, (v) => commit(setAt(part, 'quantity', v), true, true)),
+      select('quantity', 'Given as', ['stress', 'wind'], part.quantity, (v) =>
+        commit(setAt(part, 'quantity', v), true, true),
+      ),
     );
   }
   const pattern = patternOf(part);
   if (part.kind === 'fixed' && part.source.kind === 'shaped') {
     const shape = part.source.shape;
     fieldsHost.append(
-      select('source.shape.kind', 'Pattern', SHAPE_KINDS, shape.kind, (v) => commit(setAt(part, 'source.shape', defaultShape(v as ShapeSpec['kind'], ctx.basin)), true, true)),
+      select('source.shape.kind', 'Pattern', SHAPE_KINDS, shape.kind, (v) =>
+        commit(setAt(part, 'source.shape', defaultShape(v as ShapeSpec['kind'], ctx.basin)), true, true),
+      ),
     );
     if (shape.kind === 'band') {
       fieldsHost.append(
@@ -151,7 +185,13 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
       );
     }
     if (shape.kind === 'formula') {
-      const f = formulaInput(shape.expression, ctx.basin, units, (text) => commit(setAt(part, 'source.shape.expression', text), true), id);
+      const f = formulaInput(
+        shape.expression,
+        ctx.basin,
+        units,
+        (text) => commit(setAt(part, 'source.shape.expression', text), true),
+        id,
+      );
       const msg = document.createElement('div');
       msg.className = 'field-msg';
       msgs.set('source.shape.expression', msg);
@@ -161,11 +201,14 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
   }
   if (part.kind === 'fixed' && part.source.kind === 'file') {
     fieldsHost.append(
-      select('source.format', 'File format', ['csv', 'netcdf'], part.source.format, (v) => commit(setAt(part, 'source.format', v), true)),
+      select('source.format', 'File format', ['csv', 'netcdf'], part.source.format, (v) =>
+        commit(setAt(part, 'source.format', v), true),
+      ),
     );
     const note = document.createElement('p');
     note.className = 'hint';
-    note.textContent = 'The command line reads this file next to the scenario. The page cannot reach your disk by path: use "Import CSV or NetCDF" to store the data in the scenario instead.';
+    note.textContent =
+      'The command line reads this file next to the scenario. The page cannot reach your disk by path: use "Import CSV or NetCDF" to store the data in the scenario instead.';
     fieldsHost.append(note);
   }
   if (part.kind === 'fixed' && part.source.kind === 'painted') {
@@ -175,23 +218,36 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
     p.textContent = `Painted grid: ${g.nLon} x ${g.nLat} points, ${g.dLon}° x ${g.dLat}°, from ${placeLabel(g.lon0, g.lat0)}; largest vector ${Number(largestVector(g).toPrecision(3))} ${units}. Choose "paint" in the map tools to paint it.`;
     fieldsHost.append(p);
   }
-  for (const f of fieldsOf(part)) fieldsHost.append(box(f.path, f.label, f.units, f.type === 'number' ? 'number' : 'text', f.optional === true));
+  for (const f of fieldsOf(part))
+    fieldsHost.append(box(f.path, f.label, f.units, f.type === 'number' ? 'number' : 'text', f.optional === true));
 
   // Envelope (fixed parts).
   if (part.kind === 'fixed') {
     const env = part.envelope;
-    const kindRow = select('envelope.kind', 'Time envelope', ENVELOPE_KINDS, env.kind, (v) => commit(setAt(part, 'envelope', defaultEnvelope(v as EnvelopeSpec['kind'], ctx.runDays)), true, true));
+    const kindRow = select('envelope.kind', 'Time envelope', ENVELOPE_KINDS, env.kind, (v) =>
+      commit(setAt(part, 'envelope', defaultEnvelope(v as EnvelopeSpec['kind'], ctx.runDays)), true, true),
+    );
     // The envelope kind goes before its own fields.
     const firstEnv = [...fieldsHost.children].find((c) => (c as HTMLElement).dataset.path?.startsWith('envelope.'));
     fieldsHost.insertBefore(kindRow, firstEnv ?? null);
     if (env.kind === 'ramp') {
-      fieldsHost.append(select('envelope.direction', 'Direction', ['up', 'down'], env.direction, (v) => commit(setAt(part, 'envelope.direction', v), true)));
+      fieldsHost.append(
+        select('envelope.direction', 'Direction', ['up', 'down'], env.direction, (v) =>
+          commit(setAt(part, 'envelope.direction', v), true),
+        ),
+      );
     }
     if (env.kind === 'harmonics') {
       const add = document.createElement('button');
       add.type = 'button';
       add.textContent = 'Add a harmonic';
-      add.addEventListener('click', () => commit(setAt(part, 'envelope.terms', [...env.terms, { period: 182.5, amplitude: 0.5, peakDay: 0 }]), true, true));
+      add.addEventListener('click', () =>
+        commit(
+          setAt(part, 'envelope.terms', [...env.terms, { period: 182.5, amplitude: 0.5, peakDay: 0 }]),
+          true,
+          true,
+        ),
+      );
       const drop = document.createElement('button');
       drop.type = 'button';
       drop.textContent = 'Remove the last';
@@ -247,7 +303,14 @@ export function partEditor(initial: WindPart, ctx: EditorContext): PartEditor {
   }
   let series: { days: number[]; values: number[]; units: string } | null = null;
   const marker = () => {
-    if (series) drawTimePlot(canvas, series.days, [{ values: series.values, colour: '#0b5cad', label: 'envelope' }], series.units, ctx.markDay());
+    if (series)
+      drawTimePlot(
+        canvas,
+        series.days,
+        [{ values: series.values, colour: '#0b5cad', label: 'envelope' }],
+        series.units,
+        ctx.markDay(),
+      );
   };
   const plot = () => {
     try {

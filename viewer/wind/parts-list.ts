@@ -16,9 +16,15 @@ const title = (part: WindPart, k: number) => `${k + 1}. ${part.name || PATTERN_L
 export function renderPartsList(list: HTMLElement, design: DesignState, act: PartsListActions): void {
   const { wind, selected } = design;
   const items = wind.parts.map((part, k) => {
-    const li = $new('li', { className: `wd-part${k === selected ? ' selected' : ''}${part.enabled === false ? ' off' : ''}` });
+    const li = $new('li', {
+      className: `wd-part${k === selected ? ' selected' : ''}${part.enabled === false ? ' off' : ''}`,
+    });
     li.dataset.index = String(k);
-    const on = $new('input', { type: 'checkbox', checked: part.enabled !== false, title: 'On or off (off leaves it out of the run)' });
+    const on = $new('input', {
+      type: 'checkbox',
+      checked: part.enabled !== false,
+      title: 'On or off (off leaves it out of the run)',
+    });
     on.setAttribute('aria-label', `part ${k + 1} on`);
     on.addEventListener('change', () => act.edit({ kind: 'enable', index: k, on: on.checked }));
     const pick = $new('button', { type: 'button', className: 'wd-pick', textContent: title(part, k) });
@@ -28,7 +34,12 @@ export function renderPartsList(list: HTMLElement, design: DesignState, act: Par
     const up = $new('button', { type: 'button', textContent: '↑', title: 'Move up', disabled: k === 0 });
     up.setAttribute('aria-label', `move part ${k + 1} up`);
     up.addEventListener('click', () => act.edit({ kind: 'move', index: k, by: -1 }));
-    const down = $new('button', { type: 'button', textContent: '↓', title: 'Move down', disabled: k === wind.parts.length - 1 });
+    const down = $new('button', {
+      type: 'button',
+      textContent: '↓',
+      title: 'Move down',
+      disabled: k === wind.parts.length - 1,
+    });
     down.setAttribute('aria-label', `move part ${k + 1} down`);
     down.addEventListener('click', () => act.edit({ kind: 'move', index: k, by: 1 }));
     const dup = $new('button', { type: 'button', textContent: 'Duplicate' });
@@ -39,7 +50,10 @@ export function renderPartsList(list: HTMLElement, design: DesignState, act: Par
     return li;
   });
   list.replaceChildren(...items);
-  if (!items.length) list.replaceChildren($new('li', { className: 'hint', textContent: 'No wind: the ocean stays at rest. Add a part above.' }));
+  if (!items.length)
+    list.replaceChildren(
+      $new('li', { className: 'hint', textContent: 'No wind: the ocean stays at rest. Add a part above.' }),
+    );
 }
 
 /** Only the texts changed (typing in the editor): update them without rebuilding the list. */

@@ -39,7 +39,11 @@ function axes(p: PatchGeometry): { ax: [number, number]; ay: [number, number] } 
 /** The handles of a patch, in lon/lat. */
 export function patchHandles(p: PatchGeometry): Handle[] {
   const { ax, ay } = axes(p);
-  const at = (kind: HandleKind, a: [number, number], s: number): Handle => ({ kind, lon: p.lon + s * a[0], lat: p.lat + s * a[1] });
+  const at = (kind: HandleKind, a: [number, number], s: number): Handle => ({
+    kind,
+    lon: p.lon + s * a[0],
+    lat: p.lat + s * a[1],
+  });
   return [
     { kind: 'centre', lon: p.lon, lat: p.lat },
     at('east', ax, p.lonWidth),
@@ -67,7 +71,12 @@ export function moveCentre<P extends PatchGeometry>(p: P, dLon: number, dLat: nu
  * centre measured along the handle's axis (the component across the axis is ignored, so a
  * sideways wobble of the hand does not change the width).
  */
-export function dragEdge<P extends PatchGeometry>(p: P, kind: 'east' | 'west' | 'north' | 'south', lon: number, lat: number): P {
+export function dragEdge<P extends PatchGeometry>(
+  p: P,
+  kind: 'east' | 'west' | 'north' | 'south',
+  lon: number,
+  lat: number,
+): P {
   const { ax, ay } = axes(p);
   const a = kind === 'east' || kind === 'west' ? ax : ay;
   const d = Math.abs((lon - p.lon) * a[0] + (lat - p.lat) * a[1]);
@@ -105,7 +114,13 @@ export function scaleWidth<P extends PatchGeometry>(p: P, which: 'lon' | 'lat', 
  * screen pixels; the turning handle wins over an edge handle at the same place, then edges over
  * the centre, so a small patch can still be resized.
  */
-export function hitHandle(p: PatchGeometry, x: number, y: number, toPixel: (lon: number, lat: number) => [number, number], tolerancePx = 9): HandleKind | null {
+export function hitHandle(
+  p: PatchGeometry,
+  x: number,
+  y: number,
+  toPixel: (lon: number, lat: number) => [number, number],
+  tolerancePx = 9,
+): HandleKind | null {
   const order: HandleKind[] = ['turn', 'east', 'west', 'north', 'south', 'centre'];
   let best: HandleKind | null = null;
   let bestD = Infinity;

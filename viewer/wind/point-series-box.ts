@@ -41,7 +41,8 @@ export class PointSeriesBox {
       b.addEventListener('input', () => {
         const lon = Number(pLon.value);
         const lat = Number(pLat.value);
-        this.point = pLon.value.trim() && pLat.value.trim() && Number.isFinite(lon) && Number.isFinite(lat) ? { lon, lat } : null;
+        this.point =
+          pLon.value.trim() && pLat.value.trim() && Number.isFinite(lon) && Number.isFinite(lat) ? { lon, lat } : null;
         this.update();
       });
     }
@@ -52,7 +53,16 @@ export class PointSeriesBox {
       'fieldset',
       { className: 'wd-box' },
       $new('legend', { textContent: 'Total stress at a point over the run' }),
-      $new('div', { className: 'row small' }, plL, ptL, $new('span', { className: 'hint', textContent: 'blue taux, orange tauy; the red dashes mark the model day on screen' })),
+      $new(
+        'div',
+        { className: 'row small' },
+        plL,
+        ptL,
+        $new('span', {
+          className: 'hint',
+          textContent: 'blue taux, orange tauy; the red dashes mark the model day on screen',
+        }),
+      ),
       this.plot,
       this.msg,
     );
@@ -67,7 +77,11 @@ export class PointSeriesBox {
 
   /** A scenario was loaded: keep the point, or start at the basin's middle on the equator. */
   startIn(b: BasinBox): void {
-    if (!this.point) this.point = { lon: Number(((b.lonWest + b.lonEast) / 2).toFixed(2)), lat: Math.min(b.latNorth, Math.max(b.latSouth, 0)) };
+    if (!this.point)
+      this.point = {
+        lon: Number(((b.lonWest + b.lonEast) / 2).toFixed(2)),
+        lat: Math.min(b.latNorth, Math.max(b.latSouth, 0)),
+      };
     this.showPoint();
   }
 
@@ -82,7 +96,9 @@ export class PointSeriesBox {
     const msg = this.msg;
     this.series = null;
     if (!this.point || !valid) {
-      msg.textContent = this.point ? 'fix the marked values to see the series' : 'type a longitude and latitude, or pick the point on the map';
+      msg.textContent = this.point
+        ? 'fix the marked values to see the series'
+        : 'type a longitude and latitude, or pick the point on the map';
       return;
     }
     try {
@@ -111,6 +127,15 @@ export class PointSeriesBox {
   private drawMarker(): void {
     const s = this.series;
     if (!s) return;
-    drawTimePlot(this.plot, s.days, [{ values: s.taux, colour: '#0b5cad', label: 'taux' }, { values: s.tauy, colour: '#e67e22', label: 'tauy' }], 'N m-2', this.modelDay);
+    drawTimePlot(
+      this.plot,
+      s.days,
+      [
+        { values: s.taux, colour: '#0b5cad', label: 'taux' },
+        { values: s.tauy, colour: '#e67e22', label: 'tauy' },
+      ],
+      'N m-2',
+      this.modelDay,
+    );
   }
 }

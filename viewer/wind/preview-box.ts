@@ -51,10 +51,18 @@ export class PreviewBox {
       'fieldset',
       { className: 'wd-box' },
       $new('legend', { textContent: 'Preview (the forcing the model will get, before running)' }),
-      $new('div', { className: 'row small' }, $new('label', {}, this.on, ' show on the map'), dayL, $new('label', {}, 'layer ', this.layer), $new('label', {}, this.arrows, ' arrows')),
+      $new(
+        'div',
+        { className: 'row small' },
+        $new('label', {}, this.on, ' show on the map'),
+        dayL,
+        $new('label', {}, 'layer ', this.layer),
+        $new('label', {}, this.arrows, ' arrows'),
+      ),
       $new('div', {
         className: 'hint',
-        textContent: 'Sverdrup layers: beta V = curl(tau)/rho0 (Sverdrup 1947) and U from continuity, integrated west from the east coast; they predict the steady flow off the equator, such as a counter current under a weak-wind band.',
+        textContent:
+          'Sverdrup layers: beta V = curl(tau)/rho0 (Sverdrup 1947) and U from continuity, integrated west from the east coast; they predict the steady flow off the equator, such as a counter current under a weak-wind band.',
       }),
       this.msg,
     );

@@ -5,7 +5,15 @@
 import { lookupTable, type MapName } from '../render/colour-maps.ts';
 import type { MapView } from '../render/map-view.ts';
 import { drawColourBar, formatValue } from '../panels/colour-bar.ts';
-import { finiteRange, LAYER_INFO, layerValues, previewSetup, stressAt, type PreviewLayer, type StressField } from './preview.ts';
+import {
+  finiteRange,
+  LAYER_INFO,
+  layerValues,
+  previewSetup,
+  stressAt,
+  type PreviewLayer,
+  type StressField,
+} from './preview.ts';
 
 export interface PreviewResult {
   field: StressField;
@@ -30,7 +38,8 @@ export function computePreview(json: unknown, day: number, layer: PreviewLayer):
   let peak = { value: 0, lon: NaN, lat: NaN };
   for (let k = 0; k < values.length; k++) {
     const m = Math.hypot(field.taux[k], field.tauy[k]);
-    if (m > peak.value) peak = { value: m, lon: grid.lonCentre[k % grid.nx], lat: grid.latCentre[Math.floor(k / grid.nx)] };
+    if (m > peak.value)
+      peak = { value: m, lon: grid.lonCentre[k % grid.nx], lat: grid.latCentre[Math.floor(k / grid.nx)] };
   }
   return { field, values, layer, range, peak };
 }
@@ -46,9 +55,25 @@ export function drawPreview(map: MapView, colourBar: HTMLCanvasElement, p: Previ
   const name = mapNameFor(p.layer);
   map.forgetArrows();
   map.gl.setColourMap(name, lookupTable(name));
-  const layers = arrows ? [{ name: 'designed stress', u: p.field.taux, v: p.field.tauy, units: 'N m-2', colour: [0, 0, 0] as [number, number, number] }] : [];
+  const layers = arrows
+    ? [
+        {
+          name: 'designed stress',
+          u: p.field.taux,
+          v: p.field.tauy,
+          units: 'N m-2',
+          colour: [0, 0, 0] as [number, number, number],
+        },
+      ]
+    : [];
   map.draw(p.values, p.range, layers, [], null);
   const info = LAYER_INFO[p.layer];
-  drawColourBar(colourBar, lookupTable(name), p.range, `preview: ${info.label}, day ${formatValue(p.field.day)}`, info.units);
+  drawColourBar(
+    colourBar,
+    lookupTable(name),
+    p.range,
+    `preview: ${info.label}, day ${formatValue(p.field.day)}`,
+    info.units,
+  );
   return true;
 }

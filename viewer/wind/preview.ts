@@ -52,8 +52,17 @@ export function previewSetup(json: unknown): { resolved: ResolvedScenario; grid:
 }
 
 /** The stress the model gets at `day`. Forcing errors (a formula giving NaN...) come out as thrown. */
-export function stressAt(resolved: ResolvedScenario, grid: Grid, day: number, files?: Map<string, string | Uint8Array>): StressField {
-  const { stress, answering } = buildWindStress(grid, resolved.wind, { seed: String(resolved.seed), files, beta: equatorialBeta(resolved.model.physics) });
+export function stressAt(
+  resolved: ResolvedScenario,
+  grid: Grid,
+  day: number,
+  files?: Map<string, string | Uint8Array>,
+): StressField {
+  const { stress, answering } = buildWindStress(grid, resolved.wind, {
+    seed: String(resolved.seed),
+    files,
+    beta: equatorialBeta(resolved.model.physics),
+  });
   answering?.answerTestAnomaly(PREVIEW_WARMING);
   const tx = grid.field();
   const ty = grid.field();
@@ -79,7 +88,12 @@ export function stressAt(resolved: ResolvedScenario, grid: Grid, day: number, fi
 }
 
 /** One preview layer on cell centres (NaN on land). rho0 and beta from the scenario's physics. */
-export function layerValues(field: StressField, layer: PreviewLayer, grid: Grid, physics: CoriolisPhysics & { density: number }): Float32Array {
+export function layerValues(
+  field: StressField,
+  layer: PreviewLayer,
+  grid: Grid,
+  physics: CoriolisPhysics & { density: number },
+): Float32Array {
   const { nx, ny, taux, tauy } = field;
   const out = new Float32Array(nx * ny);
   if (layer === 'magnitude') {
@@ -113,7 +127,14 @@ export function finiteRange(a: ArrayLike<number>): [number, number] {
  * and its neighbours (same cell edges, same land, so the same faces carry stress; a face on the
  * basin's edge stays a coast), filled at each day. Returns null over land.
  */
-export function stressSeriesAt(resolved: ResolvedScenario, grid: Grid, lon: number, lat: number, days: number[], files?: Map<string, string | Uint8Array>): { lon: number; lat: number; taux: Float64Array; tauy: Float64Array } | null {
+export function stressSeriesAt(
+  resolved: ResolvedScenario,
+  grid: Grid,
+  lon: number,
+  lat: number,
+  days: number[],
+  files?: Map<string, string | Uint8Array>,
+): { lon: number; lat: number; taux: Float64Array; tauy: Float64Array } | null {
   const b = resolved.model.basin;
   const i = Math.min(grid.nx - 1, Math.max(0, Math.floor((lon - b.lonWest) / b.dLon)));
   const j = Math.min(grid.ny - 1, Math.max(0, Math.floor((lat - b.latSouth) / b.dLat)));
@@ -122,7 +143,16 @@ export function stressSeriesAt(resolved: ResolvedScenario, grid: Grid, lon: numb
   const i1 = Math.min(grid.nx - 1, i + 1);
   const j0 = Math.max(0, j - 1);
   const j1 = Math.min(grid.ny - 1, j + 1);
-  const small = new Grid({ ...b, lonWest: grid.lonFace[i0], lonEast: grid.lonFace[i1 + 1], latSouth: grid.latFace[j0], latNorth: grid.latFace[j1 + 1] }, resolved.model.physics.earthRadius);
+  const small = new Grid(
+    {
+      ...b,
+      lonWest: grid.lonFace[i0],
+      lonEast: grid.lonFace[i1 + 1],
+      latSouth: grid.latFace[j0],
+      latNorth: grid.latFace[j1 + 1],
+    },
+    resolved.model.physics.earthRadius,
+  );
   // The designed parts only: the answering wind over the run depends on the run (and its atmosphere on the whole basin).
   const designed = { ...resolved.wind, parts: resolved.wind.parts.filter((p) => p.kind !== 'answering') };
   const { stress } = buildWindStress(small, designed, { seed: String(resolved.seed), files });

@@ -42,7 +42,12 @@ export class ToolsBox {
     this.direction = dir;
     this.soft = soft;
     this.mode = $new('select', { id: 'wd-brush-mode' });
-    for (const [v, t] of [['paint', 'paint'], ['soften', 'soften'], ['erase', 'erase']]) this.mode.add(new Option(t, v));
+    for (const [v, t] of [
+      ['paint', 'paint'],
+      ['soften', 'soften'],
+      ['erase', 'erase'],
+    ])
+      this.mode.add(new Option(t, v));
     this.brushMsg = $new('span', { className: 'field-msg', id: 'wd-brush-msg' });
     for (const b of [rad, str, dir, soft]) b.addEventListener('input', () => this.brush());
     this.toolMsg = $new('div', { className: 'hint', id: 'wd-tool-msg', role: 'status' });
@@ -51,8 +56,22 @@ export class ToolsBox {
       { className: 'wd-box' },
       $new('legend', { textContent: 'On the map' }),
       $new('div', { className: 'row small' }, ...radios),
-      $new('div', { className: 'row small' }, $new('span', { textContent: 'Brush:' }), this.mode, radL, strL, dirL, softL, this.brushMsg),
-      $new('div', { className: 'hint', textContent: 'With a tool on, the map also takes keys: arrows move, [ ] { } resize, , . turn a patch; Space paints at the brush; Enter picks the point. Ctrl+Z undoes any change.' }),
+      $new(
+        'div',
+        { className: 'row small' },
+        $new('span', { textContent: 'Brush:' }),
+        this.mode,
+        radL,
+        strL,
+        dirL,
+        softL,
+        this.brushMsg,
+      ),
+      $new('div', {
+        className: 'hint',
+        textContent:
+          'With a tool on, the map also takes keys: arrows move, [ ] { } resize, , . turn a patch; Space paints at the brush; Enter picks the point. Ctrl+Z undoes any change.',
+      }),
       this.toolMsg,
     );
   }

@@ -15,7 +15,22 @@ import { download } from '../files.ts';
 import type { MapView } from '../render/map-view.ts';
 import { FrameQueue } from '../throttle.ts';
 import { newPart, PATTERN_KINDS, PATTERN_LABELS, windOf, withWind, type BasinBox, type PatternKind } from './design.ts';
-import { basinOf, canRedo, canUndo, emptyDesign, liveliestDay, notApplied, reduceDesign, routeIssues, runDaysOf, scenarioKeyOf, seedOf, type DesignAction, type DesignState, type ListEdit } from './design-state.ts';
+import {
+  basinOf,
+  canRedo,
+  canUndo,
+  emptyDesign,
+  liveliestDay,
+  notApplied,
+  reduceDesign,
+  routeIssues,
+  runDaysOf,
+  scenarioKeyOf,
+  seedOf,
+  type DesignAction,
+  type DesignState,
+  type ListEdit,
+} from './design-state.ts';
 import { $new, button, numberBox } from './dom.ts';
 import { ImportError, partsFromSeries, readGridded } from './import.ts';
 import { MapTools, type ToolMode } from './map-tools.ts';
@@ -74,8 +89,17 @@ export class WindPanel {
     private readonly root: HTMLElement,
     private readonly host: WindHost,
   ) {
-    this.preview = new PreviewBox({ map: host.map, colourBar: host.colourBar, changed: () => this.queueRefresh(), redraw: () => host.redraw() });
-    this.point = new PointSeriesBox({ compose: () => this.compose(), runDays: () => this.runDays(), valid: () => this.issues.length === 0 });
+    this.preview = new PreviewBox({
+      map: host.map,
+      colourBar: host.colourBar,
+      changed: () => this.queueRefresh(),
+      redraw: () => host.redraw(),
+    });
+    this.point = new PointSeriesBox({
+      compose: () => this.compose(),
+      runDays: () => this.runDays(),
+      valid: () => this.issues.length === 0,
+    });
     this.toolsBox = new ToolsBox((mode) => {
       this.tools.setMode(mode);
       if (mode !== 'off') this.tools.canvas.focus();
@@ -112,7 +136,11 @@ export class WindPanel {
     const note = $new('span', { className: 'wd-note', id: 'wd-note' });
     const undo = button('Undo', 'wd-undo', 'Undo the last change (Ctrl+Z)');
     const redo = button('Redo', 'wd-redo', 'Redo (Ctrl+Shift+Z or Ctrl+Y)');
-    const apply = button('Apply and run', 'wd-apply', 'Start again from day 0 with this wind and the scenario panel\u2019s values, and run');
+    const apply = button(
+      'Apply and run',
+      'wd-apply',
+      'Start again from day 0 with this wind and the scenario panel\u2019s values, and run',
+    );
     const save = button('Save scenario…', 'wd-save', 'Download the scenario with this wind as JSON');
     const clear = button('Remove all parts', 'wd-clear', 'Start from no wind at all (undo brings the parts back)');
     undo.addEventListener('click', () => this.undo());
@@ -120,7 +148,19 @@ export class WindPanel {
     apply.addEventListener('click', () => void this.applyDesign());
     save.addEventListener('click', () => this.save());
     clear.addEventListener('click', () => this.edit({ kind: 'clear' }));
-    r.append($new('div', { className: 'wd-head' }, $new('h2', { textContent: 'Wind design' }), undo, redo, apply, save, clear, note));
+    r.append(
+      $new(
+        'div',
+        { className: 'wd-head' },
+        $new('h2', { textContent: 'Wind design' }),
+        undo,
+        redo,
+        apply,
+        save,
+        clear,
+        note,
+      ),
+    );
 
     // Adding parts.
     const [spacingLabel, spacing] = numberBox('wd-paint-spacing', '1', 'painted grid spacing', '°', 3);
@@ -129,10 +169,22 @@ export class WindPanel {
       b.addEventListener('click', () => this.add(k));
       return b;
     });
-    r.append($new('div', { className: 'row small wd-add' }, $new('span', { textContent: 'Add a part:' }), ...adds, spacingLabel));
+    r.append(
+      $new(
+        'div',
+        { className: 'row small wd-add' },
+        $new('span', { textContent: 'Add a part:' }),
+        ...adds,
+        spacingLabel,
+      ),
+    );
 
     // Import.
-    const file = $new('input', { type: 'file', id: 'wd-import', accept: '.csv,.nc,.cdf,text/csv,application/x-netcdf' });
+    const file = $new('input', {
+      type: 'file',
+      id: 'wd-import',
+      accept: '.csv,.nc,.cdf,text/csv,application/x-netcdf',
+    });
     const q = $new('select', { id: 'wd-import-quantity' });
     q.add(new Option('stress, N m-2', 'stress'));
     q.add(new Option('wind, m s-1', 'wind'));
@@ -142,20 +194,46 @@ export class WindPanel {
       if (f) await this.importFile(f.name, () => pickedBytes(f, windFileKind(f.name)), q.value as 'stress' | 'wind');
       file.value = '';
     });
-    r.append($new('div', { className: 'row small' }, $new('label', { className: 'file-button' }, 'Import CSV or NetCDF…', file), $new('label', {}, 'values are ', q), importMsg));
+    r.append(
+      $new(
+        'div',
+        { className: 'row small' },
+        $new('label', { className: 'file-button' }, 'Import CSV or NetCDF…', file),
+        $new('label', {}, 'values are ', q),
+        importMsg,
+      ),
+    );
 
     const issues = $new('ul', { className: 'issues', id: 'wd-issues' });
     const parts = $new('ol', { className: 'wd-parts', id: 'wd-parts' });
     const editorHost = $new('div', { id: 'wd-editor-host' });
-    const listCol = $new('div', { className: 'wd-col' }, $new('h3', { textContent: 'Parts (their stresses add up)' }), parts, issues);
+    const listCol = $new(
+      'div',
+      { className: 'wd-col' },
+      $new('h3', { textContent: 'Parts (their stresses add up)' }),
+      parts,
+      issues,
+    );
     const editCol = $new('div', { className: 'wd-col' }, $new('h3', { textContent: 'Selected part' }), editorHost);
-    r.append($new('div', { className: 'wd-grid' }, listCol, editCol, $new('div', { className: 'wd-col' }, this.toolsBox.el, this.preview.el, this.point.el)));
+    r.append(
+      $new(
+        'div',
+        { className: 'wd-grid' },
+        listCol,
+        editCol,
+        $new('div', { className: 'wd-col' }, this.toolsBox.el, this.preview.el, this.point.el),
+      ),
+    );
 
     // Undo and redo from the keyboard anywhere in the panel or on the tool canvas.
     const keys = (ev: KeyboardEvent) => {
       if (!(ev.ctrlKey || ev.metaKey)) return;
       const k = ev.key.toLowerCase();
-      if ((ev.target as HTMLElement).tagName === 'TEXTAREA' || ((ev.target as HTMLElement).tagName === 'INPUT' && (ev.target as HTMLInputElement).type === 'text')) return; // the box's own undo
+      if (
+        (ev.target as HTMLElement).tagName === 'TEXTAREA' ||
+        ((ev.target as HTMLElement).tagName === 'INPUT' && (ev.target as HTMLInputElement).type === 'text')
+      )
+        return; // the box's own undo
       if (k === 'z' && !ev.shiftKey) this.undo();
       else if ((k === 'z' && ev.shiftKey) || k === 'y') this.redo();
       else return;
@@ -214,7 +292,9 @@ export class WindPanel {
   private add(kind: PatternKind): void {
     let spacing = Number(this.el.spacing.value);
     if (kind === 'painted' && !(spacing >= 0.05 && spacing <= 10)) {
-      this.toolsBox.say(`painted grid spacing must be a number of degrees between 0.05 and 10 (got '${this.el.spacing.value}')`);
+      this.toolsBox.say(
+        `painted grid spacing must be a number of degrees between 0.05 and 10 (got '${this.el.spacing.value}')`,
+      );
       return;
     }
     if (!Number.isFinite(spacing)) spacing = 1;
@@ -248,12 +328,17 @@ export class WindPanel {
   /** After any change: summaries at once, validation and preview on the next frame. */
   private changed(opts: { rebuild: boolean }): void {
     if (opts.rebuild) {
-      renderPartsList(this.el.parts, this.design, { edit: (e) => this.edit(e), select: (k, part) => this.select(k, part) });
+      renderPartsList(this.el.parts, this.design, {
+        edit: (e) => this.edit(e),
+        select: (k, part) => this.select(k, part),
+      });
       this.renderEditor();
     } else updatePartSummaries(this.el.parts, this.design);
     this.el.undo.disabled = !canUndo(this.design);
     this.el.redo.disabled = !canRedo(this.design);
-    this.el.note.textContent = notApplied(this.design) ? 'Not applied yet: the run on screen still uses its own wind.' : '';
+    this.el.note.textContent = notApplied(this.design)
+      ? 'Not applied yet: the run on screen still uses its own wind.'
+      : '';
     this.queueRefresh();
   }
 
@@ -274,9 +359,13 @@ export class WindPanel {
     const routed = routeIssues(this.issues, this.design.selected, this.design.wind.parts.length);
     if (this.editor && this.design.selected !== null) this.editor.showIssues(routed.editor);
     this.el.issues.replaceChildren(...routed.elsewhere.map((i) => $new('li', { textContent: formatIssue(i) })));
-    this.el.parts.querySelectorAll<HTMLElement>('li').forEach((li, k) => li.classList.toggle('invalid', routed.invalid[k] ?? false));
+    this.el.parts
+      .querySelectorAll<HTMLElement>('li')
+      .forEach((li, k) => li.classList.toggle('invalid', routed.invalid[k] ?? false));
     this.el.apply.disabled = !runnable;
-    this.el.apply.title = runnable ? 'Start again from day 0 with this wind and the scenario panel\u2019s values, and run' : 'Not runnable yet: see the marked part';
+    this.el.apply.title = runnable
+      ? 'Start again from day 0 with this wind and the scenario panel\u2019s values, and run'
+      : 'Not runnable yet: see the marked part';
     this.editor?.redrawPlot();
     this.preview.update(runnable, () => this.compose());
     this.point.update(runnable);
@@ -323,7 +412,11 @@ export class WindPanel {
   }
 
   // ---- import, apply, save ----
-  async importFile(name: string, bytes: Uint8Array | (() => Promise<Uint8Array>), quantity: 'stress' | 'wind'): Promise<void> {
+  async importFile(
+    name: string,
+    bytes: Uint8Array | (() => Promise<Uint8Array>),
+    quantity: 'stress' | 'wind',
+  ): Promise<void> {
     const msg = this.el.importMsg;
     try {
       const series = readGridded(name, typeof bytes === 'function' ? await bytes() : bytes);
@@ -333,7 +426,8 @@ export class WindPanel {
       msg.textContent = `${name}: ${series.nLon} x ${series.nLat} points stored in the scenario as ${parts.length === 1 ? 'a painted part' : `${parts.length} painted parts`}${notes.length ? `; ${notes.join('; ')}` : ''}.`;
     } catch (e) {
       msg.classList.add('field-msg');
-      msg.textContent = e instanceof ImportError ? `Refused: ${e.message}` : `Refused: ${name}: ${(e as Error).message}`;
+      msg.textContent =
+        e instanceof ImportError ? `Refused: ${e.message}` : `Refused: ${name}: ${(e as Error).message}`;
     }
   }
 
@@ -341,10 +435,13 @@ export class WindPanel {
     const r = validateScenario(this.compose());
     const forcing = r.ok ? forcingProblem(this.compose()) : null;
     if (!r.ok || forcing) {
-      this.host.message(`The wind design is not applied:\n${(r.ok ? [forcing!].map(formatIssue) : issueListLines(r.errors)).join('\n')}`);
+      this.host.message(
+        `The wind design is not applied:\n${(r.ok ? [forcing!].map(formatIssue) : issueListLines(r.errors)).join('\n')}`,
+      );
       return;
     }
-    if (await this.host.apply(this.text(), this.host.fileName())) this.dispatch({ kind: 'applied' }, { rebuild: false });
+    if (await this.host.apply(this.text(), this.host.fileName()))
+      this.dispatch({ kind: 'applied' }, { rebuild: false });
   }
 
   private save(): void {
@@ -357,9 +454,17 @@ export class WindPanel {
     const opened = this.host.openedScenario();
     const edited = this.host.valuesEdited() || JSON.stringify(windOf(opened)) !== JSON.stringify(this.design.wind);
     const named = savedName(json, opened, edited);
-    const stem = String(named.name ?? 'scenario').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'scenario';
+    const stem =
+      String(named.name ?? 'scenario')
+        .toLowerCase()
+        .replace(/[^a-z0-9]+/g, '-')
+        .replace(/^-|-$/g, '') || 'scenario';
     download(`${JSON.stringify(named, null, 2)}\n`, `${stem}.json`, 'application/json');
-    if (named !== json) this.host.message(`Saved the edited scenario as ${stem}.json, named '${String(named.name)}' (the file it came from keeps its name).`, 'info');
+    if (named !== json)
+      this.host.message(
+        `Saved the edited scenario as ${stem}.json, named '${String(named.name)}' (the file it came from keeps its name).`,
+        'info',
+      );
   }
 }
 

@@ -100,5 +100,14 @@ export function estimateTask(e: EstimateInput): Estimate {
     `memory: ${COST.baseMiB} MiB (Node and Pycno) + ${COST.modelFactor} x ${fmt(modelMiB)} MiB (model arrays, a record's fields and their encoding)${threads > 1 ? ` + ${threads - 1} x ${COST.threadMiB} MiB (strip threads)` : ''} = ${fmt(rawMiB)} MiB; x ${COST.memoryMargin}, in steps of 64 MiB, at least ${COST.minMemoryMiB}: ${memMiB} MiB`,
     `cpus: one per thread of a member run (${threads === 1 ? (e.mode === 'linear' ? `the grid has fewer than ${2 * AUTO_MIN_CELLS_PER_STRIP} cells, too few to gain from strips` : 'the nonlinear step runs on one thread') : `${cells} cells give ${threads} strips of at least ${AUTO_MIN_CELLS_PER_STRIP} cells, at most ${COST.maxAutoThreads}`}${e.threads !== null ? '; as given with --threads' : ''}): ${threads}`,
   ];
-  return { threads, memberSeconds, time: slurmTime(timeMinutes), timeMinutes, mem: `${memMiB}M`, memMiB, cpus: threads, explain };
+  return {
+    threads,
+    memberSeconds,
+    time: slurmTime(timeMinutes),
+    timeMinutes,
+    mem: `${memMiB}M`,
+    memMiB,
+    cpus: threads,
+    explain,
+  };
 }

@@ -99,7 +99,11 @@ export function readPlan(dir: string, shown = dir): BatchPlan {
     text = readFileSync(file, 'utf8');
   } catch (e) {
     const code = (e as NodeJS.ErrnoException).code;
-    throw new BatchRefused(code === 'ENOENT' ? `${shown}: not a Pycno batch folder (no ${PLAN_FILE}; make one with pycno sweep ... --batch ${shown})` : `${join(shown, PLAN_FILE)}: cannot read it: ${(e as Error).message}`);
+    throw new BatchRefused(
+      code === 'ENOENT'
+        ? `${shown}: not a Pycno batch folder (no ${PLAN_FILE}; make one with pycno sweep ... --batch ${shown})`
+        : `${join(shown, PLAN_FILE)}: cannot read it: ${(e as Error).message}`,
+    );
   }
   let p: Partial<BatchPlan>;
   try {
@@ -109,10 +113,18 @@ export function readPlan(dir: string, shown = dir): BatchPlan {
   }
   const bad = (what: string) => new BatchRefused(`${join(shown, PLAN_FILE)}: damaged: ${what}`);
   if (p?.format !== BATCH_FORMAT) throw bad(`format is ${JSON.stringify(p?.format)}, expected "${BATCH_FORMAT}"`);
-  if (typeof p.name !== 'string' || typeof p.source !== 'string' || typeof p.command !== 'string' || typeof p.scenarioHash !== 'string') throw bad('name, source, command or scenarioHash is not text');
+  if (
+    typeof p.name !== 'string' ||
+    typeof p.source !== 'string' ||
+    typeof p.command !== 'string' ||
+    typeof p.scenarioHash !== 'string'
+  )
+    throw bad('name, source, command or scenarioHash is not text');
   if (!isStringList(p.sets)) throw bad('sets is not a list of text');
-  if (!Array.isArray(p.vary) || !p.vary.every((v) => typeof v?.path === 'string' && isStringList(v.values))) throw bad('vary is not a list of { path, values }');
-  for (const k of ['perTask', 'tasks', 'threads'] as const) if (!Number.isInteger(p[k]) || (p[k] as number) < 1) throw bad(`${k} is not a whole number >= 1`);
+  if (!Array.isArray(p.vary) || !p.vary.every((v) => typeof v?.path === 'string' && isStringList(v.values)))
+    throw bad('vary is not a list of { path, values }');
+  for (const k of ['perTask', 'tasks', 'threads'] as const)
+    if (!Number.isInteger(p[k]) || (p[k] as number) < 1) throw bad(`${k} is not a whole number >= 1`);
   if (!Array.isArray(p.members) || p.members.length === 0) throw bad('members is not a list of members');
   p.members.forEach((m, k) => {
     const ok =
@@ -127,9 +139,13 @@ export function readPlan(dir: string, shown = dir): BatchPlan {
       typeof m.values === 'object' &&
       m.values !== null &&
       Object.values(m.values).every((v) => typeof v === 'string');
-    if (!ok) throw bad(`member ${k + 1} is not { id: ${k + 1}, values, file: "${RUNS_DIR}/...", sets, scenarioHash, records, lastDay }`);
+    if (!ok)
+      throw bad(
+        `member ${k + 1} is not { id: ${k + 1}, values, file: "${RUNS_DIR}/...", sets, scenarioHash, records, lastDay }`,
+      );
   });
-  if (p.tasks !== Math.ceil(p.members.length / p.perTask!)) throw bad(`tasks (${p.tasks}) does not match ${p.members.length} members at ${p.perTask} per task`);
+  if (p.tasks !== Math.ceil(p.members.length / p.perTask!))
+    throw bad(`tasks (${p.tasks}) does not match ${p.members.length} members at ${p.perTask} per task`);
   return p as BatchPlan;
 }
 

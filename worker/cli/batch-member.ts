@@ -26,7 +26,11 @@ export function checkMember(dir: string, member: BatchMember): MemberCheck {
     bytes = new Uint8Array(readFileSync(join(dir, member.file)));
   } catch (e) {
     const code = (e as NodeJS.ErrnoException).code;
-    return { ok: false, missing: code === 'ENOENT', reason: code === 'ENOENT' ? `no run file ${member.file}` : `cannot read ${member.file}: ${(e as Error).message}` };
+    return {
+      ok: false,
+      missing: code === 'ENOENT',
+      reason: code === 'ENOENT' ? `no run file ${member.file}` : `cannot read ${member.file}: ${(e as Error).message}`,
+    };
   }
   let run: RunData;
   try {
@@ -40,17 +44,30 @@ export function checkMember(dir: string, member: BatchMember): MemberCheck {
     let what = '';
     try {
       const diffs = diffScenarios(JSON.parse(memberScenarioJson(dir, member)), JSON.parse(run.scenarioJson));
-      what = diffs.length ? `: ${diffs.slice(0, 4).map((d) => `${d.path} is ${showValue(d.b)}, the member's is ${showValue(d.a)}`).join('; ')}${diffs.length > 4 ? `; and ${diffs.length - 4} more` : ''}` : '';
+      what = diffs.length
+        ? `: ${diffs
+            .slice(0, 4)
+            .map((d) => `${d.path} is ${showValue(d.b)}, the member's is ${showValue(d.a)}`)
+            .join('; ')}${diffs.length > 4 ? `; and ${diffs.length - 4} more` : ''}`
+        : '';
     } catch {
       /* the folder's scenario.json cannot be read: the hash says enough */
     }
-    return { ok: false, missing: false, reason: `${member.file} holds another scenario than member ${member.id} runs (canonical SHA-256 ${hash.slice(0, 12)}..., expected ${member.scenarioHash.slice(0, 12)}...)${what}` };
+    return {
+      ok: false,
+      missing: false,
+      reason: `${member.file} holds another scenario than member ${member.id} runs (canonical SHA-256 ${hash.slice(0, 12)}..., expected ${member.scenarioHash.slice(0, 12)}...)${what}`,
+    };
   }
   const n = run.days.length;
   const last = run.days[n - 1];
   const wrongDay = member.lastDay !== null && Math.abs(last - member.lastDay) > 1e-6 * Math.max(1, member.lastDay);
   if ((member.records !== null && n !== member.records) || wrongDay) {
-    return { ok: false, missing: false, reason: `${member.file} is incomplete: ${n} records to day ${last}, a complete run has ${member.records} to day ${member.lastDay}` };
+    return {
+      ok: false,
+      missing: false,
+      reason: `${member.file} is incomplete: ${n} records to day ${last}, a complete run has ${member.records} to day ${member.lastDay}`,
+    };
   }
   return { ok: true, run };
 }

@@ -13,12 +13,27 @@ import { NetcdfWriter, type ByteSink } from '../../model/io/netcdf-writer.ts';
 import { RunFileError, type RunData } from '../../model/io/run-data.ts';
 import { readRun } from '../../model/io/run-import.ts';
 import { RUN_PHYSICS_ATTRIBUTES } from '../../model/io/run-physics-file.ts';
-import { INTEGRAL_VARIABLES, PYCNO_VERSION, probeVariableName, runOutputFile, writeRunFixed, type RunDescription } from '../../model/io/run-output.ts';
+import {
+  INTEGRAL_VARIABLES,
+  PYCNO_VERSION,
+  probeVariableName,
+  runOutputFile,
+  writeRunFixed,
+  type RunDescription,
+} from '../../model/io/run-output.ts';
 import { isMeasured, measureWaves, type NotMeasured, type SpeedMeasure } from '../../model/report/measure.ts';
 import { READ_LIMITS } from '../../model/io/read-limits.ts';
 import { clipLine } from '../../model/scenario/errors.ts';
 import { readBounded, ReadRefused } from '../files-node.ts';
-import { OutputRefused, OutputWriteError, planOutput, writeWhole, type OutputFile, type OutputPlan, type ReadFile } from './output-file.ts';
+import {
+  OutputRefused,
+  OutputWriteError,
+  planOutput,
+  writeWhole,
+  type OutputFile,
+  type OutputPlan,
+  type ReadFile,
+} from './output-file.ts';
 import { formatBytes, type ProgressStream } from './progress.ts';
 
 export interface CommandIO {
@@ -56,7 +71,13 @@ export function readRunFile(io: CommandIO, file: string): RunData {
  * never leaves a half-written file under the name asked for nor replaces an input. Refusals and
  * write failures come back as CommandInputError lines ("--out X: ...").
  */
-export async function writeComplete(io: CommandIO, out: string, reads: readonly ReadFile[], what: string, write: (sink: OutputFile) => Promise<void>): Promise<void> {
+export async function writeComplete(
+  io: CommandIO,
+  out: string,
+  reads: readonly ReadFile[],
+  what: string,
+  write: (sink: OutputFile) => Promise<void>,
+): Promise<void> {
   let plan: OutputPlan;
   try {
     plan = planOutput('--out', out, io.cwd, reads);
@@ -68,7 +89,10 @@ export async function writeComplete(io: CommandIO, out: string, reads: readonly 
     await writeWhole(plan, write);
   } catch (e) {
     if (e instanceof OutputRefused) throw new CommandInputError(e.message);
-    if (e instanceof OutputWriteError) throw new CommandInputError(`--out ${out}: cannot write ${what}: ${e.reason} (${formatBytes(e.written)} were written); ${plan.replaces ? `${out} is as it was` : `${out} was not written`}`);
+    if (e instanceof OutputWriteError)
+      throw new CommandInputError(
+        `--out ${out}: cannot write ${what}: ${e.reason} (${formatBytes(e.written)} were written); ${plan.replaces ? `${out} is as it was` : `${out} was not written`}`,
+      );
     throw e;
   }
 }
@@ -84,7 +108,12 @@ export function checkOut(io: CommandIO, out: string | undefined, reads: readonly
   }
 }
 
-export function parseFilesAndOut(args: readonly string[], command: string, count: number, usage: string): { files: string[]; out?: string } | 'help' {
+export function parseFilesAndOut(
+  args: readonly string[],
+  command: string,
+  count: number,
+  usage: string,
+): { files: string[]; out?: string } | 'help' {
   const files: string[] = [];
   let out: string | undefined;
   for (let k = 0; k < args.length; k++) {
@@ -92,14 +121,19 @@ export function parseFilesAndOut(args: readonly string[], command: string, count
     if (a === '--help' || a === '-h') return 'help';
     if (a === '--out' || a.startsWith('--out=')) {
       const v = a === '--out' ? args[++k] : a.slice('--out='.length);
-      if (v === undefined || v === '' || (v.startsWith('--') && v.length > 2)) throw new CommandInputError('--out needs a file name');
+      if (v === undefined || v === '' || (v.startsWith('--') && v.length > 2))
+        throw new CommandInputError('--out needs a file name');
       out = v;
       continue;
     }
-    if (a.startsWith('-') && a.length > 1) throw new CommandInputError(`unknown option ${a} for pycno ${command}; see pycno --help`);
+    if (a.startsWith('-') && a.length > 1)
+      throw new CommandInputError(`unknown option ${a} for pycno ${command}; see pycno --help`);
     files.push(a);
   }
-  if (files.length !== count) throw new CommandInputError(`pycno ${command} takes ${count === 1 ? 'one run file' : `${count} run files`} (got ${files.length}${files.length ? `: ${files.join(', ')}` : ''}); usage: ${usage}`);
+  if (files.length !== count)
+    throw new CommandInputError(
+      `pycno ${command} takes ${count === 1 ? 'one run file' : `${count} run files`} (got ${files.length}${files.length ? `: ${files.join(', ')}` : ''}); usage: ${usage}`,
+    );
   return { files, out };
 }
 
@@ -116,7 +150,12 @@ export function speedLine(m: SpeedMeasure | NotMeasured | null, theoryName: stri
   return `${p3(m.speed)} ± ${p3(m.standardError)} m/s at ${p3(m.lat)}°; ${theoryName} = ${p3(theory)} m/s (${m.speed >= theory ? '+' : ''}${((100 * (m.speed - theory)) / theory).toFixed(1)} %)`;
 }
 
-export function compareSummary(c: RunComparison, fileA: string, fileB: string, extra: Array<[string, string]> = []): string {
+export function compareSummary(
+  c: RunComparison,
+  fileA: string,
+  fileB: string,
+  extra: Array<[string, string]> = [],
+): string {
   const { a, b } = c;
   const list: Array<[string, string]> = [
     ['A', `${fileA}: ${a.name} (scenario ${a.scenarioSha256.slice(0, 12)}, Pycno ${a.version})`],
@@ -132,12 +171,20 @@ export function compareSummary(c: RunComparison, fileA: string, fileB: string, e
   const t = c.commonTimes;
   list.push([
     'common times',
-    t.length ? `${t.length} (days ${p3(t[0].day)} to ${p3(t[t.length - 1].day)}, matched within ${p3(c.toleranceDays)} days); ${c.fieldTimes.length} with fields in both` : 'none',
+    t.length
+      ? `${t.length} (days ${p3(t[0].day)} to ${p3(t[t.length - 1].day)}, matched within ${p3(c.toleranceDays)} days); ${c.fieldTimes.length} with fields in both`
+      : 'none',
   ]);
   if (c.status === 'ok') {
     const fw = Math.max(...c.fields.map((f) => f.length));
     if (!c.fieldTimes.length) list.push(['max |B - A|', 'no common times with fields in both']);
-    c.fieldTimes.length && c.fields.forEach((f, k) => list.push([k === 0 ? 'max |B - A|' : '', `${f.padEnd(fw)}  ${p3(c.maxAbsDifference[f]!)} ${FIELD_INFO[f].units}`]));
+    c.fieldTimes.length &&
+      c.fields.forEach((f, k) =>
+        list.push([
+          k === 0 ? 'max |B - A|' : '',
+          `${f.padEnd(fw)}  ${p3(c.maxAbsDifference[f]!)} ${FIELD_INFO[f].units}`,
+        ]),
+      );
   }
   const wa = measureWaves(a);
   const wb = measureWaves(b);
@@ -179,18 +226,34 @@ export async function writeDifference(c: RunComparison, fileA: string, fileB: st
   };
   const file = runOutputFile(d);
   for (const v of file.variables) {
-    if (c.fields.includes(v.name as never) || v.name === 'hovmoller_h_anom' || v.name.startsWith('probe_') && v.name !== 'probe_name' && v.name !== 'probe_lon' && v.name !== 'probe_lat' || INTEGRAL_VARIABLES.some((iv) => iv.name === v.name)) {
+    if (
+      c.fields.includes(v.name as never) ||
+      v.name === 'hovmoller_h_anom' ||
+      (v.name.startsWith('probe_') && v.name !== 'probe_name' && v.name !== 'probe_lon' && v.name !== 'probe_lat') ||
+      INTEGRAL_VARIABLES.some((iv) => iv.name === v.name)
+    ) {
       const atts = { ...(v.attributes ?? {}) } as Record<string, NcAttributeInput>;
       atts.long_name = `difference B minus A of the ${String(atts.long_name)}`;
       delete atts.standard_name; // a difference is not the quantity CF names
       v.attributes = atts;
     }
-    if (v.name === 'step') v.attributes = { ...(v.attributes ?? {}), long_name: "model time steps taken by run A" };
-    if (v.name === 'time') v.attributes = { ...(v.attributes ?? {}), comment: `run A's model day; run B's record within ${c.toleranceDays} days of it` };
+    if (v.name === 'step') v.attributes = { ...(v.attributes ?? {}), long_name: 'model time steps taken by run A' };
+    if (v.name === 'time')
+      v.attributes = {
+        ...(v.attributes ?? {}),
+        comment: `run A's model day; run B's record within ${c.toleranceDays} days of it`,
+      };
   }
   const atts = { ...file.attributes } as Record<string, NcAttributeInput>;
   // Neither run's scenario nor physics describes a difference of two runs.
-  for (const k of ['pycno_scenario', 'pycno_scenario_sha256', 'pycno_bursts', 'pycno_time_step_seconds', ...RUN_PHYSICS_ATTRIBUTES.map((a) => a.name)]) delete atts[k];
+  for (const k of [
+    'pycno_scenario',
+    'pycno_scenario_sha256',
+    'pycno_bursts',
+    'pycno_time_step_seconds',
+    ...RUN_PHYSICS_ATTRIBUTES.map((a) => a.name),
+  ])
+    delete atts[k];
   Object.assign(atts, {
     title: `Difference B minus A: ${b.name} minus ${a.name}`,
     summary: `Fields, integrals, Hovmoller rows and probe series of run B minus those of run A at matching model times (B = ${basename(fileB)}, A = ${basename(fileA)})`,
@@ -224,7 +287,8 @@ export async function writeDifference(c: RunComparison, fileA: string, fileB: st
       c.hovmoller.forEach((h, q) => rowsOut.set(fill(h.diff.subarray(n * g.nx, (n + 1) * g.nx)), q * g.nx));
       values.hovmoller_h_anom = rowsOut;
     }
-    if (c.probes.length) for (const f of c.fields) values[probeVariableName(f)] = fill(c.probes.map((p) => p.series[f]!.diff[n]));
+    if (c.probes.length)
+      for (const f of c.fields) values[probeVariableName(f)] = fill(c.probes.map((p) => p.series[f]!.diff[n]));
     await w.appendRecord(values);
   }
   await w.close();

@@ -13,7 +13,11 @@ import { isAbsolute, relative } from 'node:path';
  * returns the real path to read, or throws an Error whose message says why it is not read (the
  * loader puts it after "cannot read the wind file PATH: ").
  */
-export function allowedInputs(folder: string | null, shown = folder ?? '', option = '--inputs'): (path: string) => string {
+export function allowedInputs(
+  folder: string | null,
+  shown = folder ?? '',
+  option = '--inputs',
+): (path: string) => string {
   let root: string | null = null;
   if (folder !== null) {
     try {
@@ -25,7 +29,9 @@ export function allowedInputs(folder: string | null, shown = folder ?? '', optio
   }
   return (path: string) => {
     if (root === null) {
-      throw new Error(`the run file's scenario names this file, and a run file from elsewhere may not choose what is read: give ${option} DIR to allow the regular files inside folder DIR`);
+      throw new Error(
+        `the run file's scenario names this file, and a run file from elsewhere may not choose what is read: give ${option} DIR to allow the regular files inside folder DIR`,
+      );
     }
     let real: string;
     try {
@@ -35,10 +41,15 @@ export function allowedInputs(folder: string | null, shown = folder ?? '', optio
     }
     const rel = relative(root, real);
     if (rel === '' || rel.startsWith('..') || isAbsolute(rel)) {
-      throw new Error(`it lies outside ${option} ${shown}${real !== path ? ` (it leads to ${real})` : ''}; only files inside that folder are read`);
+      throw new Error(
+        `it lies outside ${option} ${shown}${real !== path ? ` (it leads to ${real})` : ''}; only files inside that folder are read`,
+      );
     }
     const st = statSync(real);
-    if (!st.isFile()) throw new Error(`it is not a regular file (${st.isDirectory() ? 'a folder' : st.isCharacterDevice() ? 'a character device' : st.isFIFO() ? 'a named pipe' : 'a special file'}); only regular files are read`);
+    if (!st.isFile())
+      throw new Error(
+        `it is not a regular file (${st.isDirectory() ? 'a folder' : st.isCharacterDevice() ? 'a character device' : st.isFIFO() ? 'a named pipe' : 'a special file'}); only regular files are read`,
+      );
     return real;
   };
 }

@@ -24,7 +24,15 @@ import { decodeUtf8Text, TextEncodingError } from '../../model/io/text-decode.ts
 import type { InputReader } from '../../model/scenario/load-inputs.ts';
 import type { RunAllowance } from '../../model/scenario/run-size.ts';
 import type { EngineError, LoadedScenario } from '../protocol.ts';
-import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
+import {
+  checkSpace,
+  OutputFile,
+  OutputRefused,
+  OutputWriteError,
+  planOutput,
+  writeFailureLine,
+  type ReadFile,
+} from './output-file.ts';
 import { compareCommand, COMPARE_USAGE } from './compare.ts';
 import { Progress } from './progress.ts';
 import { reportCommand, REPORT_USAGE } from './report-command.ts';
@@ -78,11 +86,13 @@ interface Args {
 }
 
 function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
-  if (argv.length === 0) throw new UsageError('no command given; try pycno run SCENARIO.json or pycno check SCENARIO.json');
+  if (argv.length === 0)
+    throw new UsageError('no command given; try pycno run SCENARIO.json or pycno check SCENARIO.json');
   const [command, ...rest] = argv;
   if (command === '--help' || command === '-h' || command === 'help') return 'help';
   if (command === '--version' || command === '-V') return 'version';
-  if (command !== 'run' && command !== 'check') throw new UsageError(`unknown command '${command}'; the commands are run, check, rerun, sweep, compare and report`);
+  if (command !== 'run' && command !== 'check')
+    throw new UsageError(`unknown command '${command}'; the commands are run, check, rerun, sweep, compare and report`);
   const args: Args = { command, scenario: '', sets: [], quiet: false, keepPartial: false, allow: {} };
   const positional: string[] = [];
   for (let k = 0; k < rest.length; k++) {
@@ -116,7 +126,10 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
       case '--days': {
         const v = value('a number of days');
         const days = readJsonNumber(v);
-        if (days === null || !(days > 0)) throw new UsageError(`--days: expected a number of days > 0 (got '${clipLine(v)}'); write it as a scenario file writes numbers, e.g. 30, 2.5 or 1e2 (no hex, no leading '+' or zeros)`);
+        if (days === null || !(days > 0))
+          throw new UsageError(
+            `--days: expected a number of days > 0 (got '${clipLine(v)}'); write it as a scenario file writes numbers, e.g. 30, 2.5 or 1e2 (no hex, no leading '+' or zeros)`,
+          );
         args.sets.push(`time.days=${days}`);
         break;
       }
@@ -151,8 +164,10 @@ function parseArgs(argv: readonly string[]): Args | 'help' | 'version' {
         positional.push(a);
     }
   }
-  if (positional.length === 0) throw new UsageError(`pycno ${command} needs a scenario file, e.g. pycno ${command} scenario.json`);
-  if (positional.length > 1) throw new UsageError(`pycno ${command} takes one scenario file (got ${positional.join(', ')})`);
+  if (positional.length === 0)
+    throw new UsageError(`pycno ${command} needs a scenario file, e.g. pycno ${command} scenario.json`);
+  if (positional.length > 1)
+    throw new UsageError(`pycno ${command} takes one scenario file (got ${positional.join(', ')})`);
   args.scenario = positional[0];
   return args;
 }
@@ -168,7 +183,8 @@ function exitCodeFor(e: EngineError): number {
 /** Run the command line; resolves to the exit code. */
 export async function main(argv: readonly string[], io: CliIO): Promise<number> {
   if (argv[0] === 'rerun') return rerun(argv.slice(1), io);
-  if (argv[0] === 'sweep') return isBatchSweep(argv.slice(1)) ? batchSweep(argv.slice(1), io) : sweep(argv.slice(1), io);
+  if (argv[0] === 'sweep')
+    return isBatchSweep(argv.slice(1)) ? batchSweep(argv.slice(1), io) : sweep(argv.slice(1), io);
   if (argv[0] === 'compare') return compareCommand(argv.slice(1), io);
   if (argv[0] === 'report') return reportCommand(argv.slice(1), io);
   let args: ReturnType<typeof parseArgs>;
@@ -196,7 +212,10 @@ export async function main(argv: readonly string[], io: CliIO): Promise<number> 
     text = readScenarioText(path);
   } catch (e) {
     if (!(e instanceof ReadRefused || e instanceof TextEncodingError)) throw e;
-    printError(io, `${args.scenario === '' ? "''" : args.scenario}: ${e instanceof ReadRefused ? 'cannot read the scenario file: ' : ''}${e.message}`);
+    printError(
+      io,
+      `${args.scenario === '' ? "''" : args.scenario}: ${e instanceof ReadRefused ? 'cannot read the scenario file: ' : ''}${e.message}`,
+    );
     return 2;
   }
   // Messages name the file as the user wrote it; inputs are found relative to its real place.
@@ -217,7 +236,10 @@ async function check(args: Args, text: string, shown: string, reader: InputReade
       try {
         spinText = decodeUtf8Text(await reader(spinPath, READ_LIMITS.scenario));
       } catch (e) {
-        printError(io, `${shown}: initial.scenario: cannot read the spin-up scenario ${spinPath}: ${(e as Error).message}`);
+        printError(
+          io,
+          `${shown}: initial.scenario: cannot read the spin-up scenario ${spinPath}: ${(e as Error).message}`,
+        );
         return 2;
       }
       parseScenario(spinText, spinPath, [], { allow: args.allow });
@@ -227,7 +249,17 @@ async function check(args: Args, text: string, shown: string, reader: InputReade
     const inputs = await loadInputs(forInputs, reader);
     const { model } = buildPrepared(forInputs, inputs);
     const d = derivedNumbers(parsed.resolved, model.grid);
-    io.stdout.write(checkReport(parsed.resolved.name, shown, d, parsed.resolved.outputFields, parsed.resolved.days, parsed.resolved.outputEveryDays, [...inputs.notes, ...notes]));
+    io.stdout.write(
+      checkReport(
+        parsed.resolved.name,
+        shown,
+        d,
+        parsed.resolved.outputFields,
+        parsed.resolved.days,
+        parsed.resolved.outputEveryDays,
+        [...inputs.notes, ...notes],
+      ),
+    );
     return 0;
   } catch (e) {
     const err = toEngineError(e);
@@ -254,7 +286,14 @@ async function run(args: Args, text: string, shown: string, reader: InputReader,
   }
 }
 
-async function runOn(engine: Engine, args: Args, text: string, shown: string, reader: InputReader, io: CliIO): Promise<number> {
+async function runOn(
+  engine: Engine,
+  args: Args,
+  text: string,
+  shown: string,
+  reader: InputReader,
+  io: CliIO,
+): Promise<number> {
   const quiet = args.quiet;
   // Every file the run reads, so that no output can land on one of them.
   const reads: ReadFile[] = [{ path: resolvePath(io.cwd, shown), what: `the scenario file ${shown}` }];
@@ -276,12 +315,15 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
   const outFile = args.out ?? `${basename(shown).replace(/\.json$/i, '')}.nc`;
   // The writer lays the file out at once, so its size is known before anything is written.
   let out: OutputFile | null = null;
-  const writer = new RunOutputWriter(describe(info, shown, args), { write: (offset, bytes) => out!.write(offset, bytes) });
+  const writer = new RunOutputWriter(describe(info, shown, args), {
+    write: (offset, bytes) => out!.write(offset, bytes),
+  });
   let restart: OutputFile | null = null;
   // Both outputs are checked and locked before the run starts: a refusal costs nothing.
   try {
     const outPlan = planOutput('--out', outFile, io.cwd, reads);
-    const restartPlan = args.restartOut !== undefined ? planOutput('--restart-out', args.restartOut, io.cwd, reads, [outPlan]) : null;
+    const restartPlan =
+      args.restartOut !== undefined ? planOutput('--restart-out', args.restartOut, io.cwd, reads, [outPlan]) : null;
     checkSpace(outPlan, writer.bytesFor(info.derived.outputs));
     out = OutputFile.open(outPlan);
     try {
@@ -311,7 +353,16 @@ async function runOn(engine: Engine, args: Args, text: string, shown: string, re
 /** The integrals a finished run must have finite, or it did not finish healthy. */
 const MUST_BE_FINITE = ['volume', 'energy', 'kinetic', 'potential', 'minThickness', 'maxSpeed'] as const;
 
-async function runInto(engine: Engine, args: Args, shown: string, info: LoadedScenario, writer: RunOutputWriter, out: OutputFile, restart: OutputFile | null, io: CliIO): Promise<number> {
+async function runInto(
+  engine: Engine,
+  args: Args,
+  shown: string,
+  info: LoadedScenario,
+  writer: RunOutputWriter,
+  out: OutputFile,
+  restart: OutputFile | null,
+  io: CliIO,
+): Promise<number> {
   const quiet = args.quiet;
   const outFile = out.plan.shown;
   const model = engine.model!;
@@ -319,7 +370,9 @@ async function runInto(engine: Engine, args: Args, shown: string, info: LoadedSc
   if (!quiet) {
     if (out.takenOver) io.stderr.write(`pycno: note: ${out.takenOver}\n`);
     if (!out.plan.device) {
-      io.stderr.write(`pycno: writing ${out.tempShown}; it becomes ${outFile} when the run has finished${out.plan.replaces ? `, replacing the ${outFile} there now` : ''}\n`);
+      io.stderr.write(
+        `pycno: writing ${out.tempShown}; it becomes ${outFile} when the run has finished${out.plan.replaces ? `, replacing the ${outFile} there now` : ''}\n`,
+      );
     }
   }
   const keepHint = args.keepPartial ? '' : ' (--keep-partial keeps it)';
@@ -328,7 +381,10 @@ async function runInto(engine: Engine, args: Args, shown: string, info: LoadedSc
     const kept = out.discard(args.keepPartial);
     restart?.discard(false);
     printError(io, writeFailureLine(file, e, what, free, file === out && kept, keepHint));
-    if (file !== out && !out.plan.device) io.stderr.write(`pycno: ${kept ? `the run's output is kept as ${out.tempShown}` : `the run's output was not kept${keepHint}`}; ${out.targetState()}\n`);
+    if (file !== out && !out.plan.device)
+      io.stderr.write(
+        `pycno: ${kept ? `the run's output is kept as ${out.tempShown}` : `the run's output was not kept${keepHint}`}; ${out.targetState()}\n`,
+      );
     return code;
   };
   /** What a failed or stopped run leaves, in one line. */
@@ -349,7 +405,9 @@ async function runInto(engine: Engine, args: Args, shown: string, info: LoadedSc
   let fastest: Integrals | null = null;
   let largestCourant = 0;
   let writeFailure: OutputWriteError | null = null;
-  const coupled = model.coupledIndices() ? { days: [] as number[], eastSst: [] as number[], warmWater: [] as number[] } : undefined;
+  const coupled = model.coupledIndices()
+    ? { days: [] as number[], eastSst: [] as number[], warmWater: [] as number[] }
+    : undefined;
   engine.setRecorder(async (r) => {
     first ??= r.integrals;
     const c = coupled ? model.coupledIndices() : null;
@@ -376,7 +434,8 @@ async function runInto(engine: Engine, args: Args, shown: string, info: LoadedSc
     engine.pause();
   });
   // Said as the run starts, not after it: a long run on an unresolved grid is worth stopping at once.
-  if (info.derived.boundaryLayer.advice && !quiet) io.stderr.write(`pycno: warning: ${info.derived.boundaryLayer.advice}\n`);
+  if (info.derived.boundaryLayer.advice && !quiet)
+    io.stderr.write(`pycno: warning: ${info.derived.boundaryLayer.advice}\n`);
   const stepsBefore = model.state.steps;
   const t0 = performance.now();
   engine.start();
@@ -408,7 +467,9 @@ async function runInto(engine: Engine, args: Args, shown: string, info: LoadedSc
     unhealthy = e.message;
   }
   const bad = MUST_BE_FINITE.find((k) => !Number.isFinite(last[k]));
-  unhealthy ??= bad ? `the run ended on day ${model.day.toFixed(2)} with a state that is not finite (${bad} = ${last[bad]}); shorten the time step or weaken the wind` : null;
+  unhealthy ??= bad
+    ? `the run ended on day ${model.day.toFixed(2)} with a state that is not finite (${bad} = ${last[bad]}); shorten the time step or weaken the wind`
+    : null;
   if (unhealthy) {
     printError(io, unhealthy);
     const kept = out.discard(args.keepPartial);
@@ -453,12 +514,29 @@ async function runInto(engine: Engine, args: Args, shown: string, info: LoadedSc
       if (!(e instanceof OutputWriteError)) throw e;
       const free = restart.freeBytes();
       restart.discard(false);
-      printError(io, `${writeFailureLine(restart, e, 'the restart file', free, false)}; the run's output ${outFile} is complete`);
+      printError(
+        io,
+        `${writeFailureLine(restart, e, 'the restart file', free, false)}; the run's output ${outFile} is complete`,
+      );
       return 1;
     }
   }
   for (const n of info.notes ?? []) io.stdout.write(`input           ${n}\n`);
-  io.stdout.write(runSummary({ wallSeconds: wall, steps, cells, first, last, fastest, largestCourant, records: writer.records, outFile, restartFile: args.restartOut, coupled }));
+  io.stdout.write(
+    runSummary({
+      wallSeconds: wall,
+      steps,
+      cells,
+      first,
+      last,
+      fastest,
+      largestCourant,
+      records: writer.records,
+      outFile,
+      restartFile: args.restartOut,
+      coupled,
+    }),
+  );
   return 0;
 }
 

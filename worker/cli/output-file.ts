@@ -14,7 +14,23 @@
 //   how much; the unfinished file is removed unless the caller keeps it.
 // - Character devices (/dev/null, /dev/full) are written in place: there is nothing to replace.
 
-import { accessSync, closeSync, constants, fchmodSync, fsyncSync, lstatSync, openSync, readFileSync, realpathSync, renameSync, statSync, statfsSync, unlinkSync, writeSync, type Stats } from 'node:fs';
+import {
+  accessSync,
+  closeSync,
+  constants,
+  fchmodSync,
+  fsyncSync,
+  lstatSync,
+  openSync,
+  readFileSync,
+  realpathSync,
+  renameSync,
+  statSync,
+  statfsSync,
+  unlinkSync,
+  writeSync,
+  type Stats,
+} from 'node:fs';
 import { hostname } from 'node:os';
 import { basename, dirname, join, resolve as resolvePath } from 'node:path';
 import { threadId } from 'node:worker_threads';
@@ -111,7 +127,9 @@ export function checkSpace(plan: OutputPlan, needBytes: number): void {
   if (plan.device) return;
   const free = freeBytesAt(dirname(plan.target));
   if (free !== null && needBytes > free) {
-    throw new OutputRefused(`${plan.option} ${plan.shown}: not enough space: the file needs about ${formatBytes(needBytes)}, ${formatBytes(free)} are free there${plan.replaces ? ` (the ${plan.shown} there now stays until the run has finished)` : ''}`);
+    throw new OutputRefused(
+      `${plan.option} ${plan.shown}: not enough space: the file needs about ${formatBytes(needBytes)}, ${formatBytes(free)} are free there${plan.replaces ? ` (the ${plan.shown} there now stays until the run has finished)` : ''}`,
+    );
   }
 }
 
@@ -150,7 +168,13 @@ function sameFile(a: string, aStat: Stats | null, b: string): boolean {
  * Check an output name before anything is written: where it really is, that it is not one of the
  * command's inputs nor another of its outputs, and that it can be a file. Throws OutputRefused.
  */
-export function planOutput(option: string, shown: string, cwd: string, reads: readonly ReadFile[] = [], others: readonly OutputPlan[] = []): OutputPlan {
+export function planOutput(
+  option: string,
+  shown: string,
+  cwd: string,
+  reads: readonly ReadFile[] = [],
+  others: readonly OutputPlan[] = [],
+): OutputPlan {
   const refuse = (why: string): never => {
     throw new OutputRefused(`${option} ${shown}: ${why}`);
   };
@@ -164,7 +188,8 @@ export function planOutput(option: string, shown: string, cwd: string, reads: re
   } catch (e) {
     return refuse(`cannot write there: ${reasonOf(e)}`);
   }
-  if (link?.isSymbolicLink() && !st) refuse('is a symbolic link to a file that does not exist; give the file name itself');
+  if (link?.isSymbolicLink() && !st)
+    refuse('is a symbolic link to a file that does not exist; give the file name itself');
   let target: string;
   if (st) {
     target = link?.isSymbolicLink() ? realpathSync(given) : given;
@@ -174,7 +199,9 @@ export function planOutput(option: string, shown: string, cwd: string, reads: re
     try {
       dir = realpathSync(dirname(given));
     } catch (e) {
-      return refuse(`cannot write there: ${errnoCode(e) === 'ENOENT' ? `the folder ${dirname(shown) || '.'} does not exist` : reasonOf(e)}`);
+      return refuse(
+        `cannot write there: ${errnoCode(e) === 'ENOENT' ? `the folder ${dirname(shown) || '.'} does not exist` : reasonOf(e)}`,
+      );
     }
     if (!statSync(dir).isDirectory()) refuse(`cannot write there: ${dirname(shown)} is not a folder`);
     target = join(dir, basename(given));
@@ -186,7 +213,8 @@ export function planOutput(option: string, shown: string, cwd: string, reads: re
     }
   }
   for (const o of others) {
-    if (sameFile(target, st, o.target) || o.target === target) refuse(`is the same file as ${o.option} ${o.shown}; give the two outputs different names`);
+    if (sameFile(target, st, o.target) || o.target === target)
+      refuse(`is the same file as ${o.option} ${o.shown}; give the two outputs different names`);
   }
   const device = !!st && st.isCharacterDevice();
   if (st && !st.isFile() && !device) refuse(`is ${kindOf(st)}; the output must be a regular file`);
@@ -288,13 +316,20 @@ export class OutputFile implements ByteSink {
     const { option, shown, target } = this.plan;
     const lock = `${target}.lock`;
     this.token = `${process.pid}-${threadId}-${Date.now()}-${Math.random().toString(36).slice(2)}`;
-    const me: LockHolder = { pid: process.pid, thread: threadId, host: hostname(), started: new Date().toISOString(), token: this.token };
+    const me: LockHolder = {
+      pid: process.pid,
+      thread: threadId,
+      host: hostname(),
+      started: new Date().toISOString(),
+      token: this.token,
+    };
     for (let attempt = 0; attempt < 4; attempt++) {
       let fd: number;
       try {
         fd = openSync(lock, 'wx', 0o644);
       } catch (e) {
-        if (errnoCode(e) !== 'EEXIST') throw new OutputRefused(`${option} ${shown}: cannot write there: ${reasonOf(e)}`);
+        if (errnoCode(e) !== 'EEXIST')
+          throw new OutputRefused(`${option} ${shown}: cannot write there: ${reasonOf(e)}`);
         const h = readHolder(lock);
         if (h === 'gone') continue;
         if (stale(lock, h)) {
@@ -303,25 +338,35 @@ export class OutputFile implements ByteSink {
           } catch {
             /* someone else removed it first */
           }
-          this.takenOver = h ? `a run that stopped without finishing (process ${h.pid}, started ${h.started}) left its lock; what it wrote is in ${shown}.part-${h.pid} if it got that far` : 'an unreadable old lock was removed';
+          this.takenOver = h
+            ? `a run that stopped without finishing (process ${h.pid}, started ${h.started}) left its lock; what it wrote is in ${shown}.part-${h.pid} if it got that far`
+            : 'an unreadable old lock was removed';
           continue;
         }
-        const who = h ? `process ${h.pid}${h.host !== hostname() ? ` on ${h.host}` : ''}, started ${h.started}` : 'its lock is being written';
-        throw new OutputRefused(`${option} ${shown}: another pycno run is writing this file (${who}); wait for it to end or choose another name (if no run is writing it, delete ${shown}.lock)`);
+        const who = h
+          ? `process ${h.pid}${h.host !== hostname() ? ` on ${h.host}` : ''}, started ${h.started}`
+          : 'its lock is being written';
+        throw new OutputRefused(
+          `${option} ${shown}: another pycno run is writing this file (${who}); wait for it to end or choose another name (if no run is writing it, delete ${shown}.lock)`,
+        );
       }
       try {
         writeSync(fd, JSON.stringify(me) + '\n');
       } catch (e) {
         closeSync(fd);
         unlinkSync(lock);
-        throw new OutputRefused(`${option} ${shown}: ${reasonOf(e)} even for its lock file ${shown}.lock${this.spaceNote()}`);
+        throw new OutputRefused(
+          `${option} ${shown}: ${reasonOf(e)} even for its lock file ${shown}.lock${this.spaceNote()}`,
+        );
       }
       closeSync(fd);
       this.lock = lock;
       held.add(lock);
       return;
     }
-    throw new OutputRefused(`${option} ${shown}: its lock file ${shown}.lock keeps changing; another run is starting on it`);
+    throw new OutputRefused(
+      `${option} ${shown}: its lock file ${shown}.lock keeps changing; another run is starting on it`,
+    );
   }
 
   private releaseLock(): void {
@@ -478,12 +523,18 @@ export class OutputFile implements ByteSink {
   private spaceNote(): string {
     const free = this.freeBytes();
     const need = this.plan.needBytes;
-    return need !== undefined && free !== null ? ` (the file needs about ${formatBytes(need)}, ${formatBytes(free)} are free there)` : '';
+    return need !== undefined && free !== null
+      ? ` (the file needs about ${formatBytes(need)}, ${formatBytes(free)} are free there)`
+      : '';
   }
 
   /** "is as it was" or "was not written", for the end of a failure line. */
   targetState(): string {
-    return this.plan.device ? '' : this.plan.replaces ? `${this.plan.shown} is as it was` : `${this.plan.shown} was not written`;
+    return this.plan.device
+      ? ''
+      : this.plan.replaces
+        ? `${this.plan.shown} is as it was`
+        : `${this.plan.shown} was not written`;
   }
 }
 
@@ -491,12 +542,27 @@ export class OutputFile implements ByteSink {
  * The one line for a write failure: what failed, where, how much the whole file needs against what
  * was written and what is free, and what is left on disk.
  */
-export function writeFailureLine(out: OutputFile, e: OutputWriteError, what: string, free: number | null, kept: boolean, keepHint = ''): string {
+export function writeFailureLine(
+  out: OutputFile,
+  e: OutputWriteError,
+  what: string,
+  free: number | null,
+  kept: boolean,
+  keepHint = '',
+): string {
   const need = out.plan.needBytes;
-  const sizes = [need !== undefined ? `the file needs about ${formatBytes(need)}` : '', `${formatBytes(e.written)} were written`, free !== null ? `${formatBytes(free)} were free` : '']
+  const sizes = [
+    need !== undefined ? `the file needs about ${formatBytes(need)}` : '',
+    `${formatBytes(e.written)} were written`,
+    free !== null ? `${formatBytes(free)} were free` : '',
+  ]
     .filter(Boolean)
     .join(', ');
-  const left = out.plan.device ? '' : kept ? `; the unfinished file is kept as ${out.tempShown}` : `; the unfinished file was removed${keepHint}`;
+  const left = out.plan.device
+    ? ''
+    : kept
+      ? `; the unfinished file is kept as ${out.tempShown}`
+      : `; the unfinished file was removed${keepHint}`;
   const state = out.targetState();
   return `${out.plan.option} ${out.plan.shown}: ${e.reason} while writing ${what} (${sizes})${left}${state ? `; ${state}` : ''}`;
 }

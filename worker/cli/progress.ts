@@ -36,7 +36,9 @@ export class Progress {
     if (this.out.isTTY) {
       const width = Math.max(10, Math.min(40, (this.out.columns ?? 80) - stats.length - 10));
       const full = Math.round(frac * width);
-      this.out.write(`\r[${'#'.repeat(full)}${'.'.repeat(width - full)}] ${(100 * frac).toFixed(0).padStart(3)}%  ${stats}\x1b[K`);
+      this.out.write(
+        `\r[${'#'.repeat(full)}${'.'.repeat(width - full)}] ${(100 * frac).toFixed(0).padStart(3)}%  ${stats}\x1b[K`,
+      );
       this.drawn = true;
       return;
     }

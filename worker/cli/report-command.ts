@@ -9,7 +9,16 @@ import { spreadReport } from '../../model/report/spread-report.ts';
 import { runReport } from '../../model/report/report.ts';
 import { coupledSeries } from '../../model/coupling/run-indices.ts';
 import { coupledMode, coupledModeLine } from '../../model/coupling/mode-fit.ts';
-import { checkOut, CommandInputError, parseFilesAndOut, printError, readRunFile, speedLine, writeComplete, type CommandIO } from './compare.ts';
+import {
+  checkOut,
+  CommandInputError,
+  parseFilesAndOut,
+  printError,
+  readRunFile,
+  speedLine,
+  writeComplete,
+  type CommandIO,
+} from './compare.ts';
 
 export const REPORT_USAGE = 'pycno report RUN.nc|SUMMARY.nc [--out REPORT.html]';
 
@@ -32,7 +41,7 @@ export async function reportCommand(args: readonly string[], io: CommandIO): Pro
       /* readRunFile says why */
     }
     if (head && isSummaryFile(head)) {
-      let summary;
+      let summary: ReturnType<typeof readSummary>;
       try {
         summary = readSummary(head, file);
       } catch (e) {
@@ -41,7 +50,9 @@ export async function reportCommand(args: readonly string[], io: CommandIO): Pro
       }
       const page = new TextEncoder().encode(spreadReport(summary, { source: basename(file) }));
       await writeComplete(io, out, reads, 'the report', async (sink) => sink.write(0, page));
-      io.stdout.write(`sweep summary   ${summary.members.length} members${summary.groups.length ? `, ${summary.groups.length} seed ensemble${summary.groups.length > 1 ? 's' : ''}` : ''}\nreport          ${out} (${Math.round(page.length / 1000)} kB)\n`);
+      io.stdout.write(
+        `sweep summary   ${summary.members.length} members${summary.groups.length ? `, ${summary.groups.length} seed ensemble${summary.groups.length > 1 ? 's' : ''}` : ''}\nreport          ${out} (${Math.round(page.length / 1000)} kB)\n`,
+      );
       return 0;
     }
     const run = readRunFile(io, file);
@@ -50,7 +61,9 @@ export async function reportCommand(args: readonly string[], io: CommandIO): Pro
     const w = measureWaves(run);
     const c = coupledSeries(run);
     const coupled = c ? `coupled mode    ${coupledModeLine(coupledMode(c.days, c.eastSst, c.warmWater))}\n` : '';
-    io.stdout.write(`Kelvin speed    ${speedLine(w.kelvin, 'c', w.c)}\nlong Rossby     ${speedLine(w.rossby, 'c/3', w.rossbyTheory)}\n${coupled}report          ${out} (${Math.round(html.length / 1000)} kB)\n`);
+    io.stdout.write(
+      `Kelvin speed    ${speedLine(w.kelvin, 'c', w.c)}\nlong Rossby     ${speedLine(w.rossby, 'c/3', w.rossbyTheory)}\n${coupled}report          ${out} (${Math.round(html.length / 1000)} kB)\n`,
+    );
     return 0;
   } catch (e) {
     if (e instanceof CommandInputError) {

@@ -24,7 +24,15 @@ import { RunFileError } from '../../model/io/run-data.ts';
 import { readRun } from '../../model/io/run-import.ts';
 import type { RunAllowance } from '../../model/scenario/run-size.ts';
 import { allowedInputs } from './input-policy.ts';
-import { checkSpace, OutputFile, OutputRefused, OutputWriteError, planOutput, writeFailureLine, type ReadFile } from './output-file.ts';
+import {
+  checkSpace,
+  OutputFile,
+  OutputRefused,
+  OutputWriteError,
+  planOutput,
+  writeFailureLine,
+  type ReadFile,
+} from './output-file.ts';
 
 export interface RerunIO {
   stdout: { write(s: string): unknown };
@@ -68,7 +76,12 @@ function describeShape(v: NcReadVariable): string {
 
 /** Compare every variable's values (and the attributes that describe the run, not when it ran). */
 export function firstDifference(was: NcFile, now: NcFile): Difference | null {
-  for (const att of ['pycno_scenario_sha256', 'pycno_bursts', 'pycno_time_step_seconds', ...RUN_PHYSICS_ATTRIBUTES.map((a) => a.name)]) {
+  for (const att of [
+    'pycno_scenario_sha256',
+    'pycno_bursts',
+    'pycno_time_step_seconds',
+    ...RUN_PHYSICS_ATTRIBUTES.map((a) => a.name),
+  ]) {
     const a = was.attributes[att];
     const b = now.attributes[att];
     const sa = a === undefined ? '(none)' : typeof a.value === 'string' ? a.value : Array.from(a.value).join(',');
@@ -79,15 +92,24 @@ export function firstDifference(was: NcFile, now: NcFile): Difference | null {
   for (const name of names) {
     const a = was.variables.find((v) => v.name === name);
     const b = now.variables.find((v) => v.name === name);
-    if (!a || !b) return { variable: name, index: -1, was: a ? describeShape(a) : '(absent)', now: b ? describeShape(b) : '(absent)' };
-    if (describeShape(a) !== describeShape(b)) return { variable: name, index: -1, was: describeShape(a), now: describeShape(b) };
+    if (!a || !b)
+      return {
+        variable: name,
+        index: -1,
+        was: a ? describeShape(a) : '(absent)',
+        now: b ? describeShape(b) : '(absent)',
+      };
+    if (describeShape(a) !== describeShape(b))
+      return { variable: name, index: -1, was: describeShape(a), now: describeShape(b) };
     if (typeof a.values === 'string' || typeof b.values === 'string') {
-      if (a.values !== b.values) return { variable: name, index: 0, was: JSON.stringify(a.values), now: JSON.stringify(b.values) };
+      if (a.values !== b.values)
+        return { variable: name, index: 0, was: JSON.stringify(a.values), now: JSON.stringify(b.values) };
       continue;
     }
     const n = Math.max(a.values.length, b.values.length);
     for (let k = 0; k < n; k++) {
-      if (!sameNumber(a.values[k], b.values[k])) return { variable: name, index: k, was: String(a.values[k]), now: String(b.values[k]) };
+      if (!sameNumber(a.values[k], b.values[k]))
+        return { variable: name, index: k, was: String(a.values[k]), now: String(b.values[k]) };
     }
   }
   return null;
@@ -131,10 +153,12 @@ function parseRerunArgs(argv: readonly string[]): { file: string; out?: string; 
     else if (a === '--quiet') continue;
     else if (a === '--allow-long-run') allow.longRun = true;
     else if (a === '--allow-large-output') allow.largeOutput = true;
-    else if (a.startsWith('-') && a.length > 1) throw new RerunInputError(`unknown option ${a} for pycno rerun; see pycno --help`);
+    else if (a.startsWith('-') && a.length > 1)
+      throw new RerunInputError(`unknown option ${a} for pycno rerun; see pycno --help`);
     else positional.push(a);
   }
-  if (positional.length !== 1) throw new RerunInputError(`pycno rerun takes one run file, e.g. pycno rerun run.nc (got ${positional.length})`);
+  if (positional.length !== 1)
+    throw new RerunInputError(`pycno rerun takes one run file, e.g. pycno rerun run.nc (got ${positional.length})`);
   return { file: positional[0], out, inputs, allow };
 }
 
@@ -165,7 +189,9 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
     return 2;
   }
   if (textAttribute(old, 'pycno_file') !== 'run-output') {
-    say(`${args.file}: is not a Pycno run output (no pycno_file = "run-output" attribute); rerun needs the file a pycno run wrote`);
+    say(
+      `${args.file}: is not a Pycno run output (no pycno_file = "run-output" attribute); rerun needs the file a pycno run wrote`,
+    );
     return 2;
   }
   const scenarioJson = textAttribute(old, 'pycno_scenario');
@@ -175,7 +201,9 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
   }
   const hash = textAttribute(old, 'pycno_scenario_sha256');
   if (hash !== sha256Hex(scenarioJson)) {
-    say(`${args.file}: the embedded scenario does not match its hash (pycno_scenario_sha256 ${hash ?? 'missing'}, the text hashes to ${sha256Hex(scenarioJson)}): it was changed after the run`);
+    say(
+      `${args.file}: the embedded scenario does not match its hash (pycno_scenario_sha256 ${hash ?? 'missing'}, the text hashes to ${sha256Hex(scenarioJson)}): it was changed after the run`,
+    );
     return 2;
   }
   // Every variable a run file must have, with its type and shape: a damaged file is bad input
@@ -188,7 +216,10 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
     return 2;
   }
   const version = textAttribute(old, 'pycno_version');
-  if (version !== PYCNO_VERSION) io.stdout.write(`note            the file was written by Pycno ${version ?? '(unknown)'}, this is ${PYCNO_VERSION}: values may differ\n`);
+  if (version !== PYCNO_VERSION)
+    io.stdout.write(
+      `note            the file was written by Pycno ${version ?? '(unknown)'}, this is ${PYCNO_VERSION}: values may differ\n`,
+    );
 
   // The scenario's relative input paths resolve against the allowed folder (or, to say which
   // file it names, the run file's folder); nothing outside the allowed folder is read.
@@ -218,7 +249,9 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
   const info = loaded.scenario;
   if (info.scenarioJson !== scenarioJson) {
     // Reading the scenario again changed it (a default or a rounding): not the same run.
-    say(`${shown}: the scenario reads back differently from the text embedded in the file; it cannot be repeated exactly`);
+    say(
+      `${shown}: the scenario reads back differently from the text embedded in the file; it cannot be repeated exactly`,
+    );
     return 1;
   }
   const d = describeLoadedRun(info, args.file, `pycno rerun ${args.file}`);
@@ -263,7 +296,15 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
     engine.start();
     const end = await engine.idle();
     if (failure && file) {
-      say(writeFailureLine(file, failure, `record ${writer.records + 1} of ${info.derived.outputs}`, file.freeBytes(), false));
+      say(
+        writeFailureLine(
+          file,
+          failure,
+          `record ${writer.records + 1} of ${info.derived.outputs}`,
+          file.freeBytes(),
+          false,
+        ),
+      );
       return 1;
     }
     if (end.status === 'failed' && end.error) {
@@ -307,7 +348,9 @@ export async function rerun(argv: readonly string[], io: RerunIO): Promise<numbe
   const diff = firstDifference(old, now);
   if (!diff) {
     const values = now.variables.reduce((s, v) => s + v.values.length, 0);
-    io.stdout.write(`match           every value of ${now.variables.length} variables (${values} values, ${now.numRecords} records) is bit for bit the same as in ${args.file}\n`);
+    io.stdout.write(
+      `match           every value of ${now.variables.length} variables (${values} values, ${now.numRecords} records) is bit for bit the same as in ${args.file}\n`,
+    );
     return 0;
   }
   const v = old.variables.find((x) => x.name === diff.variable);

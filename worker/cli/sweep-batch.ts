@@ -71,9 +71,17 @@ export const BATCH_HELP = `  --batch DIR            (sweep) instead of running h
 
 /** The options that make `pycno sweep` a cluster sweep. */
 export function isBatchSweep(argv: readonly string[]): boolean {
-  return argv.some((a) => a === '--batch' || a === '--task' || a === '--gather' || a.startsWith('--batch=') || a.startsWith('--gather=') || a === '--help' || a === '-h');
+  return argv.some(
+    (a) =>
+      a === '--batch' ||
+      a === '--task' ||
+      a === '--gather' ||
+      a.startsWith('--batch=') ||
+      a.startsWith('--gather=') ||
+      a === '--help' ||
+      a === '-h',
+  );
 }
-
 
 export async function batchSweep(argv: readonly string[], io: CliIO): Promise<number> {
   if (argv.includes('--help') || argv.includes('-h')) {
@@ -114,7 +122,8 @@ interface BatchOptions {
 
 function wholeNumber(option: string, v: string, max = 1_000_000): number {
   const n = Number(v);
-  if (v.trim() === '' || !Number.isInteger(n) || n < 1 || n > max) throw new BatchUsage(`${option} needs a whole number from 1 to ${max} (got '${v}')`);
+  if (v.trim() === '' || !Number.isInteger(n) || n < 1 || n > max)
+    throw new BatchUsage(`${option} needs a whole number from 1 to ${max} (got '${v}')`);
   return n;
 }
 
@@ -133,7 +142,17 @@ export function parseTaskMemory(v: string): string {
 
 /** Take the batch options out of argv; the rest is an ordinary sweep's. */
 function splitOptions(argv: readonly string[]): { options: BatchOptions; rest: string[] } {
-  const o: BatchOptions = { dir: '', submit: false, perTask: null, threads: null, time: null, memory: null, cpus: null, atOnce: null, sbatch: [] };
+  const o: BatchOptions = {
+    dir: '',
+    submit: false,
+    perTask: null,
+    threads: null,
+    time: null,
+    memory: null,
+    cpus: null,
+    atOnce: null,
+    sbatch: [],
+  };
   const rest: string[] = [];
   for (let k = 0; k < argv.length; k++) {
     let a = argv[k];
@@ -175,7 +194,8 @@ function splitOptions(argv: readonly string[]): { options: BatchOptions; rest: s
         break;
       case '--sbatch-option': {
         const v = value();
-        if (!/^--?[A-Za-z][\w-]*(=[^\n\r]*)?$/.test(v)) throw new BatchUsage(`--sbatch-option needs one sbatch option such as --partition=short (got '${v}')`);
+        if (!/^--?[A-Za-z][\w-]*(=[^\n\r]*)?$/.test(v))
+          throw new BatchUsage(`--sbatch-option needs one sbatch option such as --partition=short (got '${v}')`);
         o.sbatch.push(v);
         break;
       }
@@ -189,13 +209,17 @@ function splitOptions(argv: readonly string[]): { options: BatchOptions; rest: s
     }
   }
   if (!o.dir) throw new BatchUsage('--batch needs a folder');
-  if (o.cpus !== null && o.threads !== null && o.cpus < o.threads) throw new BatchUsage(`--task-cpus ${o.cpus} is fewer than the --threads ${o.threads} of each member run`);
+  if (o.cpus !== null && o.threads !== null && o.cpus < o.threads)
+    throw new BatchUsage(`--task-cpus ${o.cpus} is fewer than the --threads ${o.threads} of each member run`);
   return { options: o, rest };
 }
 
 /** Relative input paths of a scenario (wind files, restart, spin-up) made absolute: the tasks run in DIR. */
 function absoluteInputs(scenarioJson: string, scenarioDir: string): { json: string; changed: string[] } {
-  const s = JSON.parse(scenarioJson) as { initial?: { kind?: string; path?: string; scenario?: string }; wind?: { parts?: Array<{ source?: { kind?: string; path?: string } }> } };
+  const s = JSON.parse(scenarioJson) as {
+    initial?: { kind?: string; path?: string; scenario?: string };
+    wind?: { parts?: Array<{ source?: { kind?: string; path?: string } }> };
+  };
   const changed: string[] = [];
   const fix = (p: string, where: string) => {
     if (isAbsolute(p)) return p;
@@ -203,10 +227,13 @@ function absoluteInputs(scenarioJson: string, scenarioDir: string): { json: stri
     changed.push(`${where}: ${p} -> ${abs}`);
     return abs;
   };
-  if (s.initial?.kind === 'restart' && typeof s.initial.path === 'string') s.initial.path = fix(s.initial.path, 'initial.path');
-  if (s.initial?.kind === 'spinup' && typeof s.initial.scenario === 'string') s.initial.scenario = fix(s.initial.scenario, 'initial.scenario');
+  if (s.initial?.kind === 'restart' && typeof s.initial.path === 'string')
+    s.initial.path = fix(s.initial.path, 'initial.path');
+  if (s.initial?.kind === 'spinup' && typeof s.initial.scenario === 'string')
+    s.initial.scenario = fix(s.initial.scenario, 'initial.scenario');
   (s.wind?.parts ?? []).forEach((part, k) => {
-    if (part.source?.kind === 'file' && typeof part.source.path === 'string') part.source.path = fix(part.source.path, `wind.parts[${k}].source.path`);
+    if (part.source?.kind === 'file' && typeof part.source.path === 'string')
+      part.source.path = fix(part.source.path, `wind.parts[${k}].source.path`);
   });
   return { json: changed.length ? JSON.stringify(s, null, 2) : scenarioJson, changed };
 }
@@ -223,13 +250,30 @@ function tsvCell(s: string): string {
 export function memberTable(plan: BatchPlan): string {
   const paths = plan.vary.map((v) => v.path);
   const head = ['member', ...paths, 'run_file', 'array_task', 'scenario_sha256'];
-  const rows = plan.members.map((m) => [String(m.id), ...paths.map((p) => m.values[p] ?? ''), m.file, String(Math.floor((m.id - 1) / plan.perTask) + 1), m.scenarioHash]);
+  const rows = plan.members.map((m) => [
+    String(m.id),
+    ...paths.map((p) => m.values[p] ?? ''),
+    m.file,
+    String(Math.floor((m.id - 1) / plan.perTask) + 1),
+    m.scenarioHash,
+  ]);
   return [head, ...rows].map((r) => r.map(tsvCell).join('\t')).join('\n') + '\n';
 }
 
-export function sbatchScript(plan: BatchPlan, absDir: string, e: { time: string; mem: string; cpus: number; explain: string[]; given: string[] }, options: { atOnce: number | null; sbatch: string[] }): string {
+export function sbatchScript(
+  plan: BatchPlan,
+  absDir: string,
+  e: { time: string; mem: string; cpus: number; explain: string[]; given: string[] },
+  options: { atOnce: number | null; sbatch: string[] },
+): string {
   const array = `1-${plan.tasks}${options.atOnce ? `%${options.atOnce}` : ''}`;
-  const jobName = `pycno-${plan.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 40) || 'sweep'}`;
+  const jobName = `pycno-${
+    plan.name
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-|-$/g, '')
+      .slice(0, 40) || 'sweep'
+  }`;
   const lines = [
     '#!/bin/bash',
     `# Pycno sweep "${plan.name}": ${plan.members.length} members in ${plan.tasks} array task${plan.tasks > 1 ? 's' : ''} of up to ${plan.perTask} member${plan.perTask > 1 ? 's' : ''}.`,
@@ -267,24 +311,35 @@ function checkFolder(absDir: string, shown: string, plan: BatchPlan): 'new' | 's
   if (!statSync(absDir).isDirectory()) throw new BatchUsage(`--batch ${shown}: it is not a folder`);
   if (!existsSync(join(absDir, PLAN_FILE))) {
     if (readdirSync(absDir).length === 0) return 'new';
-    throw new BatchUsage(`--batch ${shown}: the folder is not empty and holds no Pycno batch (${PLAN_FILE}); give a new or empty folder`);
+    throw new BatchUsage(
+      `--batch ${shown}: the folder is not empty and holds no Pycno batch (${PLAN_FILE}); give a new or empty folder`,
+    );
   }
   const old = readPlan(absDir, shown);
-  const same = old.members.length === plan.members.length && old.members.every((m, k) => m.scenarioHash === plan.members[k].scenarioHash && m.file === plan.members[k].file);
+  const same =
+    old.members.length === plan.members.length &&
+    old.members.every((m, k) => m.scenarioHash === plan.members[k].scenarioHash && m.file === plan.members[k].file);
   if (!same) {
-    throw new BatchUsage(`--batch ${shown}: the folder holds another sweep (${old.members.length} members of "${old.name}", made by: ${old.command}); give a new folder, or remove this one if its runs are not needed`);
+    throw new BatchUsage(
+      `--batch ${shown}: the folder holds another sweep (${old.members.length} members of "${old.name}", made by: ${old.command}); give a new folder, or remove this one if its runs are not needed`,
+    );
   }
   return 'same';
 }
 
-async function writeText(absDir: string, name: string, text: string, reads: Array<{ path: string; what: string }>): Promise<void> {
+async function writeText(
+  absDir: string,
+  name: string,
+  text: string,
+  reads: Array<{ path: string; what: string }>,
+): Promise<void> {
   const bytes = new TextEncoder().encode(text);
   await writeWhole(planOutput('--batch', join(absDir, name), absDir, reads), (sink) => sink.write(0, bytes));
 }
 
 async function makeBatch(argv: readonly string[], io: CliIO): Promise<number> {
   const { options, rest } = splitOptions(argv);
-  let sweepPlan;
+  let sweepPlan: ReturnType<typeof parseSweep>;
   try {
     sweepPlan = parseSweep([...rest, '--out', RUNS_DIR]);
   } catch (e) {
@@ -292,7 +347,10 @@ async function makeBatch(argv: readonly string[], io: CliIO): Promise<number> {
   }
   const absDir = resolvePath(io.cwd, options.dir);
   // sbatch reads an #SBATCH line word by word and takes % in --output as a pattern.
-  if (/[\s%'"\\]/.test(absDir)) throw new BatchUsage(`--batch ${options.dir}: the folder's path (${absDir}) must have no spaces, quotes, backslashes or %: Slurm's #SBATCH lines cannot hold them`);
+  if (/[\s%'"\\]/.test(absDir))
+    throw new BatchUsage(
+      `--batch ${options.dir}: the folder's path (${absDir}) must have no spaces, quotes, backslashes or %: Slurm's #SBATCH lines cannot hold them`,
+    );
   const scenarioPath = resolvePath(io.cwd, sweepPlan.scenario);
   let text: string;
   try {
@@ -308,12 +366,14 @@ async function makeBatch(argv: readonly string[], io: CliIO): Promise<number> {
   // Every member is parsed and validated now: a bad value is refused before anything is written.
   const members: MemberPlan[] = sweepRuns(sweepPlan).map((r, n) => {
     const sets = Object.entries(r.values).map(([p, v]) => `${p}=${v}`);
-    let parsed;
+    let parsed: ReturnType<typeof parseScenario>;
     try {
       parsed = parseScenario(batchScenarioText, shownScenario, sets);
     } catch (e) {
       if (e instanceof ScenarioError || e instanceof InputError) {
-        throw new BatchRefused(`member ${n + 1} (${sets.join(', ')}) is not a valid scenario; nothing was written:\n${e.message}`);
+        throw new BatchRefused(
+          `member ${n + 1} (${sets.join(', ')}) is not a valid scenario; nothing was written:\n${e.message}`,
+        );
       }
       throw e;
     }
@@ -328,13 +388,25 @@ async function makeBatch(argv: readonly string[], io: CliIO): Promise<number> {
       records: known ? d.outputs : null,
       lastDay: known ? (d.steps * d.dt) / 86400 : null,
     };
-    const estimate = estimateTask({ nx: d.nx, ny: d.ny, steps: d.steps, outputs: d.outputs, fields: parsed.resolved.outputFields.length, memoryBytes: d.memoryBytes, mode: parsed.resolved.model.physics.mode, perTask: 1, threads: options.threads });
+    const estimate = estimateTask({
+      nx: d.nx,
+      ny: d.ny,
+      steps: d.steps,
+      outputs: d.outputs,
+      fields: parsed.resolved.outputFields.length,
+      memoryBytes: d.memoryBytes,
+      mode: parsed.resolved.model.physics.mode,
+      perTask: 1,
+      threads: options.threads,
+    });
     return { member, estimate };
   });
 
   // The costliest member sets the task's needs (a --vary of the resolution changes the grid).
   const worst = members.reduce((a, b) => (b.estimate.memberSeconds > a.estimate.memberSeconds ? b : a));
-  const perTask = options.perTask ?? Math.max(1, Math.min(members.length, Math.floor((30 * 60) / (worst.estimate.memberSeconds * 2))));
+  const perTask =
+    options.perTask ??
+    Math.max(1, Math.min(members.length, Math.floor((30 * 60) / (worst.estimate.memberSeconds * 2))));
   const first = JSON.parse(common.scenarioJson) as { name?: string };
   const plan: BatchPlan = {
     format: BATCH_FORMAT,
@@ -351,14 +423,31 @@ async function makeBatch(argv: readonly string[], io: CliIO): Promise<number> {
   };
   const worstParsed = parseScenario(batchScenarioText, shownScenario, worst.member.sets);
   const wd = derivedNumbers(worstParsed.resolved);
-  const est = estimateTask({ nx: wd.nx, ny: wd.ny, steps: wd.steps, outputs: wd.outputs, fields: worstParsed.resolved.outputFields.length, memoryBytes: wd.memoryBytes, mode: worstParsed.resolved.model.physics.mode, perTask, threads: options.threads });
+  const est = estimateTask({
+    nx: wd.nx,
+    ny: wd.ny,
+    steps: wd.steps,
+    outputs: wd.outputs,
+    fields: worstParsed.resolved.outputFields.length,
+    memoryBytes: wd.memoryBytes,
+    mode: worstParsed.resolved.model.physics.mode,
+    perTask,
+    threads: options.threads,
+  });
   const memMiB = Math.max(est.memMiB, ...members.map((m) => m.estimate.memMiB));
   const given: string[] = [];
-  if (members.length > 1 && worst !== members[0]) given.push(`(the sums are for member ${worst.member.id}, the costliest)`);
+  if (members.length > 1 && worst !== members[0])
+    given.push(`(the sums are for member ${worst.member.id}, the costliest)`);
   if (options.time) given.push(`time given with --task-time: ${options.time}`);
   if (options.memory) given.push(`memory given with --task-memory: ${options.memory}`);
   if (options.cpus) given.push(`cpus given with --task-cpus: ${options.cpus}`);
-  const resources = { time: options.time ?? est.time, mem: options.memory ?? `${memMiB}M`, cpus: options.cpus ?? est.cpus, explain: est.explain, given };
+  const resources = {
+    time: options.time ?? est.time,
+    mem: options.memory ?? `${memMiB}M`,
+    cpus: options.cpus ?? est.cpus,
+    explain: est.explain,
+    given,
+  };
 
   const state = checkFolder(absDir, options.dir, plan);
   for (const sub of ['', RUNS_DIR, STATUS_DIR, LOGS_DIR]) mkdirSync(join(absDir, sub), { recursive: true });
@@ -397,7 +486,10 @@ async function makeBatch(argv: readonly string[], io: CliIO): Promise<number> {
 export function submit(io: CliIO, absScript: string, shownDir: string, extra: string[] = []): number {
   const r = spawnSync('sbatch', ['--parsable', ...extra, absScript], { encoding: 'utf8', timeout: 120_000 });
   if (r.error) {
-    const why = (r.error as NodeJS.ErrnoException).code === 'ENOENT' ? 'sbatch was not found: is this a machine of a Slurm cluster (a login node)?' : r.error.message;
+    const why =
+      (r.error as NodeJS.ErrnoException).code === 'ENOENT'
+        ? 'sbatch was not found: is this a machine of a Slurm cluster (a login node)?'
+        : r.error.message;
     printLines(io, `could not submit: ${why}; the folder is ready, submit it with: sbatch ${absScript}`);
     return 1;
   }
@@ -406,6 +498,8 @@ export function submit(io: CliIO, absScript: string, shownDir: string, extra: st
     return 1;
   }
   const id = r.stdout.trim().split(';')[0];
-  io.stdout.write(`submitted     job ${id}\nnext          squeue -j ${id}; when it has ended: pycno sweep --gather ${shownDir}\n`);
+  io.stdout.write(
+    `submitted     job ${id}\nnext          squeue -j ${id}; when it has ended: pycno sweep --gather ${shownDir}\n`,
+  );
   return 0;
 }

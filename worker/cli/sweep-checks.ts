@@ -35,13 +35,20 @@ function setsOf(argv: readonly string[]): string[] {
  * The lines that refuse the sweep (empty when every member can run): the scenario file that
  * cannot be read, or each member that cannot run, with its --vary values and first problem.
  */
-export function memberProblems(scenario: string, cwd: string, members: readonly MemberPlan[], allow: RunAllowance): string[] {
+export function memberProblems(
+  scenario: string,
+  cwd: string,
+  members: readonly MemberPlan[],
+  allow: RunAllowance,
+): string[] {
   let text: string;
   try {
     text = readScenarioText(scenario === '' ? '' : resolvePath(cwd, scenario));
   } catch (e) {
     if (!(e instanceof ReadRefused || e instanceof TextEncodingError)) throw e;
-    return [`${scenario === '' ? "''" : scenario}: ${e instanceof ReadRefused ? 'cannot read the scenario file: ' : ''}${e.message}`];
+    return [
+      `${scenario === '' ? "''" : scenario}: ${e instanceof ReadRefused ? 'cannot read the scenario file: ' : ''}${e.message}`,
+    ];
   }
   const bad: string[] = [];
   let count = 0;
@@ -52,7 +59,9 @@ export function memberProblems(scenario: string, cwd: string, members: readonly 
       if (!(e instanceof Error) || e.name === 'TypeError' || e.name === 'RangeError') throw e;
       count++;
       if (bad.length < MAX_ISSUE_LINES) {
-        const vary = Object.entries(m.values).map(([p, v]) => `${p}=${v}`).join(', ');
+        const vary = Object.entries(m.values)
+          .map(([p, v]) => `${p}=${v}`)
+          .join(', ');
         bad.push(clipLine(`${m.file} (${vary}): ${e.message.split('\n')[0]}`));
       }
     }
@@ -64,7 +73,7 @@ export function memberProblems(scenario: string, cwd: string, members: readonly 
 
 /** Why --out cannot be the sweep's folder, or null (a missing folder is made). */
 export function outFolderProblem(outDir: string, cwd: string): string | null {
-  let st;
+  let st: ReturnType<typeof statSync>;
   try {
     st = statSync(resolvePath(cwd, outDir));
   } catch {
@@ -88,7 +97,11 @@ export function memberStatus(end: MemberEnd | undefined): 'done' | 'failed' | 's
 }
 
 /** What the sweep says after it was stopped with Ctrl-C: an index of the members by status. */
-export function interruptedIndex(members: readonly MemberPlan[], ends: ReadonlyArray<MemberEnd | undefined>, indexFile: string | null): string[] {
+export function interruptedIndex(
+  members: readonly MemberPlan[],
+  ends: ReadonlyArray<MemberEnd | undefined>,
+  indexFile: string | null,
+): string[] {
   const by = (s: ReturnType<typeof memberStatus>) => members.filter((_, n) => memberStatus(ends[n]) === s);
   const done = by('done');
   const stopped = members.map((m, n) => ({ m, end: ends[n] })).filter(({ end }) => memberStatus(end) === 'stopped');

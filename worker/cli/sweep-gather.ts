@@ -15,7 +15,20 @@ import { SEED_PATH, writeSummary, type SummaryMember } from '../../model/ensembl
 import type { RunData } from '../../model/io/run-data.ts';
 import { scenarioHash } from '../../model/scenario/canonical-hash.ts';
 import { readFileSync } from 'node:fs';
-import { BatchRefused, BatchUsage, PLAN_FILE, printLines, readPlan, readStatus, SCENARIO_FILE, SCRIPT_FILE, shellQuote, SUMMARY_FILE, taskOf, type BatchPlan } from './batch-folder.ts';
+import {
+  BatchRefused,
+  BatchUsage,
+  PLAN_FILE,
+  printLines,
+  readPlan,
+  readStatus,
+  SCENARIO_FILE,
+  SCRIPT_FILE,
+  shellQuote,
+  SUMMARY_FILE,
+  taskOf,
+  type BatchPlan,
+} from './batch-folder.ts';
 import { checkMember } from './batch-member.ts';
 import type { CliIO } from './io.ts';
 import { OutputRefused, OutputWriteError, planOutput, writeWhole } from './output-file.ts';
@@ -45,9 +58,15 @@ function parseGather(argv: readonly string[]): GatherOptions {
     if (a === '--gather') o.dir = value();
     else if (a === '--out') o.out = value();
     else if (a === '--spread-fields') {
-      const list = value().split(',').map((s) => s.trim()).filter(Boolean);
+      const list = value()
+        .split(',')
+        .map((s) => s.trim())
+        .filter(Boolean);
       const bad = list.filter((f) => !(FIELD_NAMES as readonly string[]).includes(f));
-      if (bad.length || list.length === 0) throw new BatchUsage(`--spread-fields: ${bad.length ? `unknown field ${bad.join(', ')}` : 'no field given'}; the fields are ${FIELD_NAMES.join(', ')}`);
+      if (bad.length || list.length === 0)
+        throw new BatchUsage(
+          `--spread-fields: ${bad.length ? `unknown field ${bad.join(', ')}` : 'no field given'}; the fields are ${FIELD_NAMES.join(', ')}`,
+        );
       o.fields = list as FieldName[];
     } else throw new BatchUsage(`${a}: not an option of --gather (it takes --out FILE.nc and --spread-fields)`);
   }
@@ -89,7 +108,9 @@ export async function gather(argv: readonly string[], io: CliIO, hooks: GatherHo
     throw new BatchUsage(`${join(o.dir, SCENARIO_FILE)}: cannot read it: ${(e as Error).message}`);
   }
   if (scenarioHash(scenarioJson) !== plan.scenarioHash) {
-    throw new BatchUsage(`${join(o.dir, SCENARIO_FILE)} was changed after the batch was made (its canonical SHA-256 is not the one in ${PLAN_FILE}); the members' files cannot be checked against it`);
+    throw new BatchUsage(
+      `${join(o.dir, SCENARIO_FILE)} was changed after the batch was made (its canonical SHA-256 is not the one in ${PLAN_FILE}); the members' files cannot be checked against it`,
+    );
   }
   const outShown = o.out ?? join(o.dir, SUMMARY_FILE);
   const outPath = o.out ? resolvePath(io.cwd, o.out) : join(dir, SUMMARY_FILE);
@@ -98,7 +119,7 @@ export async function gather(argv: readonly string[], io: CliIO, hooks: GatherHo
     { path: join(dir, PLAN_FILE), what: `the batch plan ${PLAN_FILE}` },
     ...plan.members.map((m) => ({ path: join(dir, m.file), what: `the run file of member ${m.id}` })),
   ];
-  let outPlan;
+  let outPlan: ReturnType<typeof planOutput>;
   try {
     outPlan = planOutput('--out', outPath, io.cwd, reads);
   } catch (e) {
@@ -115,22 +136,42 @@ export async function gather(argv: readonly string[], io: CliIO, hooks: GatherHo
     // One member at a time, and a turn of the event loop between two: nothing of the last is held.
     await new Promise((r) => setImmediate(r));
     const group = seeds ? seeds.of[m.id - 1] : -1;
-    const base: SummaryMember = { id: m.id, values: m.values, file: m.file, state: 'missing', exit: null, message: null, group, results: null };
+    const base: SummaryMember = {
+      id: m.id,
+      values: m.values,
+      file: m.file,
+      state: 'missing',
+      exit: null,
+      message: null,
+      group,
+      results: null,
+    };
     const check = checkMember(dir, m);
     const status = readStatus(dir, m);
     if (check.ok) {
       const run = check.run;
       hooks.onMember?.(run);
-      if (probes.length === 0 && run.probes.length > 0) probes = run.probes.map((p) => ({ name: p.name, lon: p.lon, lat: p.lat }));
+      if (probes.length === 0 && run.probes.length > 0)
+        probes = run.probes.map((p) => ({ name: p.name, lon: p.lon, lat: p.lat }));
       const results = memberResults(run);
       if (stats && seeds) {
         if (!stats.shape) {
           const nt = run.days.length;
           const nf = o.fields ? o.fields.filter((f) => run.fields.includes(f)).length : run.fields.length;
-          const need = EnsembleStatistics.bytesFor(seeds.groups.length, nt, run.grid.nx * run.grid.ny, nf, run.hovmoller.length, run.grid.nx, run.probes.length);
+          const need = EnsembleStatistics.bytesFor(
+            seeds.groups.length,
+            nt,
+            run.grid.nx * run.grid.ny,
+            nf,
+            run.hovmoller.length,
+            run.grid.nx,
+            run.probes.length,
+          );
           const free = freemem();
           if (need > 0.8 * free) {
-            throw new BatchUsage(`the seed statistics need about ${formatBytes(need)} of memory (${seeds.groups.length} seed ensemble${seeds.groups.length > 1 ? 's' : ''} x ${nt} records x ${nf} fields, two float64 numbers per value); ${formatBytes(free)} are free: take fewer fields with --spread-fields (e.g. --spread-fields h_anom)`);
+            throw new BatchUsage(
+              `the seed statistics need about ${formatBytes(need)} of memory (${seeds.groups.length} seed ensemble${seeds.groups.length > 1 ? 's' : ''} x ${nt} records x ${nf} fields, two float64 numbers per value); ${formatBytes(free)} are free: take fewer fields with --spread-fields (e.g. --spread-fields h_anom)`,
+            );
           }
         }
         try {
@@ -144,13 +185,24 @@ export async function gather(argv: readonly string[], io: CliIO, hooks: GatherHo
       continue;
     }
     if (status?.state === 'failed') {
-      members.push({ ...base, state: 'failed', exit: status.exit, message: status.message ?? 'failed (no message recorded)' });
+      members.push({
+        ...base,
+        state: 'failed',
+        exit: status.exit,
+        message: status.message ?? 'failed (no message recorded)',
+      });
     } else if (!check.missing) {
       members.push({ ...base, state: 'failed', exit: status?.exit ?? null, message: check.reason });
     } else if (status?.state === 'running') {
-      members.push({ ...base, message: `not finished: started on ${status.host} at ${status.started}${status.job ? ` (job ${status.job}, task ${status.task})` : ''}; still running, or stopped without a word (killed)` });
+      members.push({
+        ...base,
+        message: `not finished: started on ${status.host} at ${status.started}${status.job ? ` (job ${status.job}, task ${status.task})` : ''}; still running, or stopped without a word (killed)`,
+      });
     } else {
-      members.push({ ...base, message: status?.state === 'complete' ? `its status says complete but ${check.reason}` : 'never ran' });
+      members.push({
+        ...base,
+        message: status?.state === 'complete' ? `its status says complete but ${check.reason}` : 'never ran',
+      });
     }
   }
 
@@ -182,19 +234,29 @@ export async function gather(argv: readonly string[], io: CliIO, hooks: GatherHo
   }
 
   const count = (s: string) => members.filter((m) => m.state === s).length;
-  const lines = [`gathered      ${o.dir}: ${members.length} members: ${count('complete')} complete, ${count('failed')} failed, ${count('missing')} missing`];
+  const lines = [
+    `gathered      ${o.dir}: ${members.length} members: ${count('complete')} complete, ${count('failed')} failed, ${count('missing')} missing`,
+  ];
   const bad = members.filter((m) => m.state !== 'complete');
   for (const m of bad) {
-    const values = Object.entries(m.values).map(([p, v]) => `${p}=${v}`).join(' ');
-    lines.push(`${m.state.padEnd(14)}member ${m.id} (${values})${m.exit !== null && m.state === 'failed' ? `, exit ${m.exit}` : ''}: ${(m.message ?? '').split('\n').join('; ')}`);
+    const values = Object.entries(m.values)
+      .map(([p, v]) => `${p}=${v}`)
+      .join(' ');
+    lines.push(
+      `${m.state.padEnd(14)}member ${m.id} (${values})${m.exit !== null && m.state === 'failed' ? `, exit ${m.exit}` : ''}: ${(m.message ?? '').split('\n').join('; ')}`,
+    );
     lines.push(`  rerun       ${memberRerunCommand(dir, plan, plan.members[m.id - 1])}`);
   }
   if (bad.length) {
     const tasks = [...new Set(bad.map((m) => taskOf(plan, plan.members[m.id - 1])))].sort((a, b) => a - b);
-    lines.push(`resubmit      sbatch --array=${tasks.join(',')} ${shellQuote(join(dir, SCRIPT_FILE))}   (complete members are skipped)`);
+    lines.push(
+      `resubmit      sbatch --array=${tasks.join(',')} ${shellQuote(join(dir, SCRIPT_FILE))}   (complete members are skipped)`,
+    );
   }
   for (const n of notes) lines.push(`note          ${n}`);
-  const st = stats?.shape ? `; mean and standard deviation over the seeds of ${stats.shape.fields.join(', ')} in ${seeds!.groups.length} seed ensemble${seeds!.groups.length > 1 ? 's' : ''}` : '';
+  const st = stats?.shape
+    ? `; mean and standard deviation over the seeds of ${stats.shape.fields.join(', ')} in ${seeds!.groups.length} seed ensemble${seeds!.groups.length > 1 ? 's' : ''}`
+    : '';
   lines.push(`summary       ${outShown} (${formatBytes(bytes)}${st})`);
   io.stdout.write(lines.join('\n') + '\n');
   return bad.length ? 1 : 0;

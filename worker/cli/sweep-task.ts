@@ -9,14 +9,33 @@
 import { spawn } from 'node:child_process';
 import { hostname } from 'node:os';
 import { join, resolve as resolvePath } from 'node:path';
-import { BatchUsage, PYCNO_BIN, printLines, readPlan, SCENARIO_FILE, shellQuote, statusFile, taskMembers, type BatchMember, type BatchPlan, type MemberStatus } from './batch-folder.ts';
+import {
+  BatchUsage,
+  PYCNO_BIN,
+  printLines,
+  readPlan,
+  SCENARIO_FILE,
+  shellQuote,
+  statusFile,
+  taskMembers,
+  type BatchMember,
+  type BatchPlan,
+  type MemberStatus,
+} from './batch-folder.ts';
 import { checkMember } from './batch-member.ts';
 import type { CliIO } from './io.ts';
 import { OutputRefused, OutputWriteError, planOutput, writeWhole } from './output-file.ts';
 
 /** The `pycno run` arguments of a member, run in the batch folder. */
 export function memberRunArgs(plan: BatchPlan, m: BatchMember): string[] {
-  return ['run', SCENARIO_FILE, '--out', m.file, ...m.sets.flatMap((s) => ['--set', s]), ...(plan.threads > 1 ? ['--threads', String(plan.threads)] : [])];
+  return [
+    'run',
+    SCENARIO_FILE,
+    '--out',
+    m.file,
+    ...m.sets.flatMap((s) => ['--set', s]),
+    ...(plan.threads > 1 ? ['--threads', String(plan.threads)] : []),
+  ];
 }
 
 /** The command that reruns one member by hand, from anywhere. */
@@ -51,7 +70,12 @@ interface ChildEnd {
   stderr: string;
 }
 
-function runMember(dir: string, args: string[], io: CliIO, onChild: (kill: (s: NodeJS.Signals) => void) => void): Promise<ChildEnd> {
+function runMember(
+  dir: string,
+  args: string[],
+  io: CliIO,
+  onChild: (kill: (s: NodeJS.Signals) => void) => void,
+): Promise<ChildEnd> {
   return new Promise((resolve) => {
     const child = spawn(process.execPath, [PYCNO_BIN, ...args], { cwd: dir, stdio: ['ignore', 'pipe', 'pipe'] });
     onChild((s) => child.kill(s));
@@ -62,7 +86,9 @@ function runMember(dir: string, args: string[], io: CliIO, onChild: (kill: (s: N
       io.stderr.write(s); // the task's log keeps the run's progress and messages
       stderr = (stderr + s).slice(-64_000);
     });
-    child.on('error', (e) => resolve({ code: null, signal: null, stderr: `could not start ${process.execPath}: ${e.message}` }));
+    child.on('error', (e) =>
+      resolve({ code: null, signal: null, stderr: `could not start ${process.execPath}: ${e.message}` }),
+    );
     child.on('close', (code, signal) => resolve({ code, signal, stderr }));
   });
 }
@@ -72,15 +98,19 @@ export async function runTask(argv: readonly string[], io: CliIO): Promise<numbe
   const rest = argv.filter((_, i) => i !== k && i !== k + 1 && i !== k + 2);
   const dirArg = argv[k + 1];
   const taskArg = argv[k + 2];
-  if (dirArg === undefined || taskArg === undefined) throw new BatchUsage('--task needs the batch folder and the array task number, e.g. --task DIR 3');
+  if (dirArg === undefined || taskArg === undefined)
+    throw new BatchUsage('--task needs the batch folder and the array task number, e.g. --task DIR 3');
   if (rest.length > 0) throw new BatchUsage(`--task takes no other arguments (got ${rest.join(' ')})`);
   const dir = resolvePath(io.cwd, dirArg);
   const plan = readPlan(dir, dirArg);
   const task = Number(taskArg);
-  if (!Number.isInteger(task) || task < 1 || task > plan.tasks) throw new BatchUsage(`--task ${dirArg} ${taskArg}: the array task must be a whole number from 1 to ${plan.tasks}`);
+  if (!Number.isInteger(task) || task < 1 || task > plan.tasks)
+    throw new BatchUsage(`--task ${dirArg} ${taskArg}: the array task must be a whole number from 1 to ${plan.tasks}`);
   const members = taskMembers(plan, task);
   const job = process.env.SLURM_ARRAY_JOB_ID ?? process.env.SLURM_JOB_ID ?? null;
-  io.stdout.write(`pycno sweep: task ${task} of ${plan.tasks} in ${dirArg}: members ${members[0].id}-${members[members.length - 1].id}${job ? ` (job ${job})` : ''} on ${hostname()}\n`);
+  io.stdout.write(
+    `pycno sweep: task ${task} of ${plan.tasks} in ${dirArg}: members ${members[0].id}-${members[members.length - 1].id}${job ? ` (job ${job})` : ''} on ${hostname()}\n`,
+  );
 
   let stopping = null as NodeJS.Signals | null;
   let killChild = null as ((s: NodeJS.Signals) => void) | null;
@@ -97,10 +127,25 @@ export async function runTask(argv: readonly string[], io: CliIO): Promise<numbe
     for (const m of members) {
       if (stopping) break;
       const started = new Date();
-      const base = { member: m.id, scenarioHash: m.scenarioHash, host: hostname(), job, task, started: started.toISOString() };
+      const base = {
+        member: m.id,
+        scenarioHash: m.scenarioHash,
+        host: hostname(),
+        job,
+        task,
+        started: started.toISOString(),
+      };
       if (checkMember(dir, m).ok) {
         io.stdout.write(`pycno sweep: member ${m.id}: ${m.file} is already complete; skipped\n`);
-        await writeStatus(dir, m, { ...base, state: 'complete', skipped: true, exit: 0, message: null, ended: new Date().toISOString(), seconds: 0 });
+        await writeStatus(dir, m, {
+          ...base,
+          state: 'complete',
+          skipped: true,
+          exit: 0,
+          message: null,
+          ended: new Date().toISOString(),
+          seconds: 0,
+        });
         continue;
       }
       io.stdout.write(`pycno sweep: member ${m.id}: pycno ${memberRunArgs(plan, m).map(shellQuote).join(' ')}\n`);
@@ -111,17 +156,42 @@ export async function runTask(argv: readonly string[], io: CliIO): Promise<numbe
       // Done only when the file is there and right: the exit code alone is not trusted.
       const check = end.code === 0 ? checkMember(dir, m) : null;
       if (check?.ok) {
-        await writeStatus(dir, m, { ...base, state: 'complete', exit: 0, message: null, ended: new Date().toISOString(), seconds });
+        await writeStatus(dir, m, {
+          ...base,
+          state: 'complete',
+          exit: 0,
+          message: null,
+          ended: new Date().toISOString(),
+          seconds,
+        });
         io.stdout.write(`pycno sweep: member ${m.id}: complete (${seconds.toFixed(1)} s)\n`);
         continue;
       }
       failed++;
       const signal = end.signal ?? stopping;
-      let message = end.code === 0 && check && !check.ok ? `the run ended with exit 0 but its file is not right: ${check.reason}` : errorMessage(end.stderr);
-      const why = signal === 'SIGTERM' ? ' (scancel, or the task reached its --time limit)' : signal === 'SIGKILL' ? ' (out of memory? the task may need more --task-memory)' : '';
+      let message =
+        end.code === 0 && check && !check.ok
+          ? `the run ended with exit 0 but its file is not right: ${check.reason}`
+          : errorMessage(end.stderr);
+      const why =
+        signal === 'SIGTERM'
+          ? ' (scancel, or the task reached its --time limit)'
+          : signal === 'SIGKILL'
+            ? ' (out of memory? the task may need more --task-memory)'
+            : '';
       if (signal) message = `stopped by ${signal}${why}${message ? `; ${message}` : ''}`;
-      await writeStatus(dir, m, { ...base, state: 'failed', exit: end.code, signal, message, ended: new Date().toISOString(), seconds });
-      io.stdout.write(`pycno sweep: member ${m.id}: failed (${end.code !== null ? `exit ${end.code}` : `signal ${signal}`}): ${message.split('\n')[0]}\n`);
+      await writeStatus(dir, m, {
+        ...base,
+        state: 'failed',
+        exit: end.code,
+        signal,
+        message,
+        ended: new Date().toISOString(),
+        seconds,
+      });
+      io.stdout.write(
+        `pycno sweep: member ${m.id}: failed (${end.code !== null ? `exit ${end.code}` : `signal ${signal}`}): ${message.split('\n')[0]}\n`,
+      );
     }
   } finally {
     process.off('SIGTERM', onTerm);

@@ -46,7 +46,15 @@ export interface SweepRun {
 class SweepUsage extends Error {}
 
 export function parseSweep(argv: readonly string[]): SweepPlan {
-  const plan: SweepPlan = { scenario: '', outDir: '', vary: [], sets: [], jobs: availableParallelism(), list: false, allow: {} };
+  const plan: SweepPlan = {
+    scenario: '',
+    outDir: '',
+    vary: [],
+    sets: [],
+    jobs: availableParallelism(),
+    list: false,
+    allow: {},
+  };
   for (let k = 0; k < argv.length; k++) {
     const a = argv[k];
     const next = () => {
@@ -57,7 +65,13 @@ export function parseSweep(argv: readonly string[]): SweepPlan {
     if (a === '--vary') {
       const spec = next();
       const eq = spec.indexOf('=');
-      const values = eq > 0 ? spec.slice(eq + 1).split(',').filter((s) => s.length > 0) : [];
+      const values =
+        eq > 0
+          ? spec
+              .slice(eq + 1)
+              .split(',')
+              .filter((s) => s.length > 0)
+          : [];
       if (eq <= 0 || values.length === 0) throw new SweepUsage(`--vary needs path=v1,v2,... (got '${spec}')`);
       const path = spec.slice(0, eq);
       if (plan.vary.some((v) => v.path === path)) throw new SweepUsage(`--vary ${path} is given twice`);
@@ -90,8 +104,15 @@ export function sweepRuns(plan: SweepPlan): SweepRun[] {
   return combos.map((values, n) => {
     const file = join(plan.outDir, `run-${String(n + 1).padStart(width, '0')}.nc`);
     const sets = [...plan.sets, ...Object.entries(values).map(([p, v]) => `${p}=${v}`)];
-    const allow = [...(plan.allow.longRun ? ['--allow-long-run'] : []), ...(plan.allow.largeOutput ? ['--allow-large-output'] : [])];
-    return { file, values, argv: ['run', plan.scenario, '--out', file, ...sets.flatMap((s) => ['--set', s]), ...allow] };
+    const allow = [
+      ...(plan.allow.longRun ? ['--allow-long-run'] : []),
+      ...(plan.allow.largeOutput ? ['--allow-large-output'] : []),
+    ];
+    return {
+      file,
+      values,
+      argv: ['run', plan.scenario, '--out', file, ...sets.flatMap((s) => ['--set', s]), ...allow],
+    };
   });
 }
 
@@ -121,7 +142,9 @@ export async function sweep(argv: readonly string[], io: CliIO): Promise<number>
   try {
     if (!notFolder) mkdirSync(resolvePath(io.cwd, plan.outDir), { recursive: true });
   } catch (e) {
-    io.stderr.write(`pycno sweep: --out ${plan.outDir}: cannot make the folder: ${(e as NodeJS.ErrnoException).code === 'EACCES' ? 'permission denied' : (e as Error).message}\n`);
+    io.stderr.write(
+      `pycno sweep: --out ${plan.outDir}: cannot make the folder: ${(e as NodeJS.ErrnoException).code === 'EACCES' ? 'permission denied' : (e as Error).message}\n`,
+    );
     return 2;
   }
   if (notFolder) {
@@ -154,7 +177,9 @@ export async function sweep(argv: readonly string[], io: CliIO): Promise<number>
           });
           done++;
           const r = results[n]!;
-          io.stderr.write(`  [${done}/${runs.length}] ${runs[n].file} ${r.code === 0 ? 'done' : r.code === 130 ? 'stopped' : `failed (exit ${r.code}): ${r.stderr.trim().split('\n')[0]}`}\n`);
+          io.stderr.write(
+            `  [${done}/${runs.length}] ${runs[n].file} ${r.code === 0 ? 'done' : r.code === 130 ? 'stopped' : `failed (exit ${r.code}): ${r.stderr.trim().split('\n')[0]}`}\n`,
+          );
         }
       } finally {
         await worker.terminate();
@@ -170,26 +195,38 @@ export async function sweep(argv: readonly string[], io: CliIO): Promise<number>
     ...summaryFields(results[n]?.stdout ?? ''),
   }));
   const columns = [...new Set(index.flatMap((row) => Object.keys(row)))];
-  const csv = [columns.join(','), ...index.map((row) => columns.map((c) => csvCell(String((row as Record<string, unknown>)[c] ?? ''))).join(','))].join('\n') + '\n';
+  const csv =
+    [
+      columns.join(','),
+      ...index.map((row) => columns.map((c) => csvCell(String((row as Record<string, unknown>)[c] ?? ''))).join(',')),
+    ].join('\n') + '\n';
   // The index files as whole files too: a sweep stopped while writing them leaves the old ones.
-  const json = JSON.stringify({ scenario: plan.scenario, vary: plan.vary, sets: plan.sets, runs: index }, null, 2) + '\n';
+  const json =
+    JSON.stringify({ scenario: plan.scenario, vary: plan.vary, sets: plan.sets, runs: index }, null, 2) + '\n';
   const reads = [{ path: resolvePath(io.cwd, plan.scenario), what: `the scenario file ${plan.scenario}` }];
   try {
-    for (const [name, text] of [['index.csv', csv], ['index.json', json]]) {
+    for (const [name, text] of [
+      ['index.csv', csv],
+      ['index.json', json],
+    ]) {
       const bytes = new TextEncoder().encode(text);
       await writeWhole(planOutput('--out', join(plan.outDir, name), io.cwd, reads), (sink) => sink.write(0, bytes));
     }
   } catch (e) {
     if (!(e instanceof OutputRefused || e instanceof OutputWriteError)) throw e;
     io.stderr.write(`pycno sweep: cannot write the index: ${e.message}\n`);
-    if (interrupted) for (const line of interruptedIndex(runs, results, null)) io.stderr.write(`pycno sweep: ${line}\n`);
+    if (interrupted)
+      for (const line of interruptedIndex(runs, results, null)) io.stderr.write(`pycno sweep: ${line}\n`);
     return interrupted ? 130 : 1;
   }
   if (interrupted) {
-    for (const line of interruptedIndex(runs, results, join(plan.outDir, 'index.csv'))) io.stderr.write(`pycno sweep: ${line}\n`);
+    for (const line of interruptedIndex(runs, results, join(plan.outDir, 'index.csv')))
+      io.stderr.write(`pycno sweep: ${line}\n`);
     return 130;
   }
-  io.stdout.write(`sweep index   ${join(plan.outDir, 'index.csv')} (${runs.length} runs, ${index.filter((r) => r.exit !== 0).length} failed)\n`);
+  io.stdout.write(
+    `sweep index   ${join(plan.outDir, 'index.csv')} (${runs.length} runs, ${index.filter((r) => r.exit !== 0).length} failed)\n`,
+  );
   return index.every((r) => r.exit === 0) ? 0 : 1;
 }
 

@@ -57,7 +57,12 @@ async function compile(source: string, flags: string[]): Promise<Uint8Array> {
 function constant(name: string, bytes: Uint8Array, what: string): string {
   const b64 = Buffer.from(bytes).toString('base64');
   const lines = b64.match(/.{1,100}/g) ?? [];
-  return [`// ${bytes.length} bytes of ${what}.`, `export const ${name} =`, lines.map((l) => `  '${l}'`).join(' +\n') + ';', ''].join('\n');
+  return [
+    `// ${bytes.length} bytes of ${what}.`,
+    `export const ${name} =`,
+    lines.map((l) => `  '${l}'`).join(' +\n') + ';',
+    '',
+  ].join('\n');
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
