@@ -31,5 +31,12 @@ export function scenarioCase(file: string, overrides: string[]): ScenarioCase {
   const r = resolveScenario(r0.scenario);
   const grid = new Grid(r.model.basin, r.model.physics.earthRadius);
   const initial = r.initial.kind === 'restart' || r.initial.kind === 'spinup' ? new State(grid) : r.initial;
-  return { file, cfg: r.model, wind: () => buildWindStress(grid, r.wind, { seed: String(r.seed) }).stress, initial };
+  // The plain reference steps know no coupling, so an answering wind enters here only as the
+  // designed stress it adds before it first answers; coupled runs are held bit for bit across
+  // kernels and restarts in test/trust/coupled-runs.test.ts.
+  const wind = (): WindStress => {
+    const s = buildWindStress(grid, r.wind, { seed: String(r.seed) }).stress;
+    return { fill: (t, x, y) => s.fill(t, x, y), steady: s.steady, updateSeconds: s.updateSeconds };
+  };
+  return { file, cfg: r.model, wind, initial };
 }
