@@ -21,8 +21,8 @@ import {
 } from '../io/netcdf-format.ts';
 import { NetcdfWriter, type ByteSink } from '../io/netcdf-writer.ts';
 import {
-  CELL_AREA_COMMENT,
   cellAreaSquareMetres,
+  gridVariables,
   IDEALISED_NOTE,
   OUTPUT_FILL,
   PYCNO_VERSION,
@@ -339,51 +339,7 @@ export function summaryFile(s: SummaryInput): NcFileInput {
   }
   if (shape) {
     dims.push({ name: 'lat', length: shape.ny }, { name: 'lon', length: shape.nx });
-    vars.push(
-      {
-        name: 'lat',
-        type: NC_DOUBLE,
-        dimensions: ['lat'],
-        attributes: {
-          standard_name: 'latitude',
-          long_name: 'latitude of cell centres',
-          units: 'degrees_north',
-          axis: 'Y',
-        },
-      },
-      {
-        name: 'lon',
-        type: NC_DOUBLE,
-        dimensions: ['lon'],
-        attributes: {
-          standard_name: 'longitude',
-          long_name: 'longitude of cell centres',
-          units: 'degrees_east',
-          axis: 'X',
-        },
-      },
-      {
-        name: 'ocean',
-        type: NC_BYTE,
-        dimensions: ['lat', 'lon'],
-        attributes: {
-          long_name: 'ocean (1) or land (0)',
-          flag_values: { type: NC_BYTE, values: [0, 1] },
-          flag_meanings: 'land ocean',
-        },
-      },
-      {
-        name: 'cell_area',
-        type: NC_DOUBLE,
-        dimensions: ['lat', 'lon'],
-        attributes: {
-          standard_name: 'cell_area',
-          long_name: 'area of the grid cell',
-          units: 'm2',
-          comment: CELL_AREA_COMMENT,
-        },
-      },
-    );
+    vars.push(...gridVariables());
     const stat = (
       name: string,
       dimsOf: string[],

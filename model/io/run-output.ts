@@ -173,36 +173,12 @@ export function cellAreaSquareMetres(d: Pick<RunDescription, 'grid' | 'scenarioJ
 
 export const CELL_AREA_COMMENT = `beta-plane cell area dx dy: distances are the Earth radius times radians (dx = R dlon, dy = R dlat, no cos(lat) factor), so every cell has the same area; R = ${EARTH.radius} m (IUGG mean radius R1)`;
 
-/** The NetCDF layout (dimensions, variables, attributes) of a run's file. */
-export function runOutputFile(d: RunDescription): NcFileInput {
-  const created = d.createdAt ?? new Date();
-  const floatAtts = (units: string, longName: string, standardName?: string) => {
-    const a: Record<string, string | { type: typeof NC_FLOAT; values: number }> = { long_name: longName, units };
-    if (standardName) a.standard_name = standardName;
-    a._FillValue = { type: NC_FLOAT, values: OUTPUT_FILL };
-    return a;
-  };
-  const dimensions: NcFileInput['dimensions'][number][] = [
-    { name: 'time', length: 'unlimited' },
-    { name: 'lat', length: d.grid.ny },
-    { name: 'lon', length: d.grid.nx },
-  ];
-  const ownMapAxis = d.mapRecords !== undefined;
-  if (ownMapAxis) dimensions.push({ name: MAP_TIME, length: d.mapRecords! });
-  const variables: NcVariableInput[] = [
-    {
-      name: 'time',
-      type: NC_DOUBLE,
-      dimensions: ['time'],
-      attributes: {
-        standard_name: 'time',
-        long_name: 'model time',
-        units: TIME_UNITS,
-        calendar: TIME_CALENDAR,
-        axis: 'T',
-        comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date',
-      },
-    },
+/**
+ * The grid's fixed variables (cell-centre lat and lon, the ocean mask, the cell areas), the same
+ * in run files and sweep summaries; fresh objects each call.
+ */
+export function gridVariables(): NcVariableInput[] {
+  return [
     {
       name: 'lat',
       type: NC_DOUBLE,
@@ -246,6 +222,40 @@ export function runOutputFile(d: RunDescription): NcFileInput {
         comment: CELL_AREA_COMMENT,
       },
     },
+  ];
+}
+
+/** The NetCDF layout (dimensions, variables, attributes) of a run's file. */
+export function runOutputFile(d: RunDescription): NcFileInput {
+  const created = d.createdAt ?? new Date();
+  const floatAtts = (units: string, longName: string, standardName?: string) => {
+    const a: Record<string, string | { type: typeof NC_FLOAT; values: number }> = { long_name: longName, units };
+    if (standardName) a.standard_name = standardName;
+    a._FillValue = { type: NC_FLOAT, values: OUTPUT_FILL };
+    return a;
+  };
+  const dimensions: NcFileInput['dimensions'][number][] = [
+    { name: 'time', length: 'unlimited' },
+    { name: 'lat', length: d.grid.ny },
+    { name: 'lon', length: d.grid.nx },
+  ];
+  const ownMapAxis = d.mapRecords !== undefined;
+  if (ownMapAxis) dimensions.push({ name: MAP_TIME, length: d.mapRecords! });
+  const variables: NcVariableInput[] = [
+    {
+      name: 'time',
+      type: NC_DOUBLE,
+      dimensions: ['time'],
+      attributes: {
+        standard_name: 'time',
+        long_name: 'model time',
+        units: TIME_UNITS,
+        calendar: TIME_CALENDAR,
+        axis: 'T',
+        comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date',
+      },
+    },
+    ...gridVariables(),
     {
       name: 'step',
       type: NC_DOUBLE,
