@@ -26,8 +26,7 @@ import {
   IDEALISED_NOTE,
   OUTPUT_FILL,
   PYCNO_VERSION,
-  TIME_CALENDAR,
-  TIME_UNITS,
+  timeVariable,
 } from '../io/run-output.ts';
 import type { MemberResults } from './member-results.ts';
 import type { EnsembleStatistics } from './statistics.ts';
@@ -174,21 +173,7 @@ export function summaryFile(s: SummaryInput): NcFileInput {
   if (shape) dims.push({ name: 'time', length: 'unlimited' });
   dims.push({ name: 'member', length: s.members.length });
   const vars: NcVariableInput[] = [];
-  if (shape) {
-    vars.push({
-      name: 'time',
-      type: NC_DOUBLE,
-      dimensions: ['time'],
-      attributes: {
-        standard_name: 'time',
-        long_name: 'model time',
-        units: TIME_UNITS,
-        calendar: TIME_CALENDAR,
-        axis: 'T',
-        comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date',
-      },
-    });
-  }
+  if (shape) vars.push(timeVariable());
   vars.push({
     name: 'member',
     type: NC_INT,

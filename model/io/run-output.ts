@@ -173,6 +173,23 @@ export function cellAreaSquareMetres(d: Pick<RunDescription, 'grid' | 'scenarioJ
 
 export const CELL_AREA_COMMENT = `beta-plane cell area dx dy: distances are the Earth radius times radians (dx = R dlon, dy = R dlat, no cos(lat) factor), so every cell has the same area; R = ${EARTH.radius} m (IUGG mean radius R1)`;
 
+/** The record axis, model time in days since the experiment's start (run files and sweep summaries). */
+export function timeVariable(): NcVariableInput {
+  return {
+    name: 'time',
+    type: NC_DOUBLE,
+    dimensions: ['time'],
+    attributes: {
+      standard_name: 'time',
+      long_name: 'model time',
+      units: TIME_UNITS,
+      calendar: TIME_CALENDAR,
+      axis: 'T',
+      comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date',
+    },
+  };
+}
+
 /**
  * The grid's fixed variables (cell-centre lat and lon, the ocean mask, the cell areas), the same
  * in run files and sweep summaries; fresh objects each call.
@@ -242,19 +259,7 @@ export function runOutputFile(d: RunDescription): NcFileInput {
   const ownMapAxis = d.mapRecords !== undefined;
   if (ownMapAxis) dimensions.push({ name: MAP_TIME, length: d.mapRecords! });
   const variables: NcVariableInput[] = [
-    {
-      name: 'time',
-      type: NC_DOUBLE,
-      dimensions: ['time'],
-      attributes: {
-        standard_name: 'time',
-        long_name: 'model time',
-        units: TIME_UNITS,
-        calendar: TIME_CALENDAR,
-        axis: 'T',
-        comment: 'day 0 is the start of the experiment; the date is a label for analysis tools, not a real date',
-      },
-    },
+    timeVariable(),
     ...gridVariables(),
     {
       name: 'step',
